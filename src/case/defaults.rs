@@ -1,0 +1,212 @@
+//! Defaults per grade class for properties a case does not give, each with its source.
+//!
+//! Values are typical figures recalled from the literature and the trade; each carries a source
+//! line that is printed wherever the default is used, so a report never hides an assumption.
+
+use super::model::Grade;
+
+/// A default: the value as it would be written in a case file, and where it comes from.
+#[derive(Debug, Clone, Copy)]
+pub struct Def {
+    pub text: &'static str,
+    pub source: &'static str,
+}
+
+const fn d(text: &'static str, source: &'static str) -> Def {
+    Def { text, source }
+}
+
+const RANGE: &str = "typical range for the grade class (handbook ranges, from memory)";
+const PFEIFFER: &str =
+    "Pfeiffer stack law, typical paper K1 0.1-10 kPa, K2 20-100 (Pfeiffer 1966/1981, from memory)";
+const HYGRO: &str = "paper hygroexpansion MD 0.0003-0.0008 /%, CD 2-4x MD (from memory)";
+const ZD: &str = "thickness hygroexpansion about 10x MD (order of magnitude, from memory)";
+const GAB: &str = "paper-like GAB constants Mm 4.5-6.5 %, C 5-20, K 0.70-0.80 (from memory)";
+const DIFF_IP: &str =
+    "effective in-plane stack diffusivity of order 1e-10 to 1e-9 m2/s (from memory; fit to data)";
+const DIFF_R: &str =
+    "exchange across many contacting layers is far slower than along them (order of magnitude, from memory)";
+const FRICTION: &str = "web-on-web friction 0.3-0.6 for paper (from memory)";
+const NU: &str = "small Poisson coupling as used in wound-roll models (from memory)";
+const CREEP: &str =
+    "paper compliance grows ~5-15 % per decade of time at 50 % RH (Coffin 2005 review, from memory); Burgers fit, assumption";
+const CREEP_R: &str =
+    "thickness direction creeps far more than MD (Coffin 2005 review, from memory); assumption";
+const ARRH: &str = "activation energy of paper creep of order 100 kJ/mol (from memory)";
+const MSHIFT: &str =
+    "time-moisture shift log a_M = -c (MC - MC_ref) (common practice; value assumed)";
+const MSORP: &str =
+    "mechano-sorptive creep exceeds creep at the highest RH of a cycle (Byrd 1972; from memory); value assumed";
+
+/// Grade defaults.
+#[derive(Debug, Clone, Copy)]
+pub struct GradeDefaults {
+    pub caliper: Def,
+    pub density: Def,
+    pub md_modulus: Def,
+    pub cd_modulus: Def,
+    pub poisson: Def,
+    pub k1: Def,
+    pub k2: Def,
+    pub friction: Def,
+    pub hygro_md: Def,
+    pub hygro_cd: Def,
+    pub hygro_zd: Def,
+    pub moisture: Def,
+    pub diffusivity_inplane: Def,
+    pub diffusivity_radial: Def,
+    pub gab_m: Def,
+    pub gab_c: Def,
+    pub gab_k: Def,
+    pub md_delayed: Def,
+    pub md_retardation: Def,
+    pub md_viscous: Def,
+    pub r_delayed: Def,
+    pub r_retardation: Def,
+    pub r_viscous: Def,
+    pub activation: Def,
+    pub moisture_shift: Def,
+    pub mechanosorptive: Def,
+}
+
+const PAPER_CREEP: (Def, Def, Def, Def, Def, Def) = (
+    d("0.3", CREEP),
+    d("2 d", CREEP),
+    d("400 d", CREEP),
+    d("0.6", CREEP_R),
+    d("3 d", CREEP_R),
+    d("150 d", CREEP_R),
+);
+
+/// Defaults for a grade class. `Custom` returns `None`: every field must be given.
+pub fn for_grade(g: Grade) -> Option<GradeDefaults> {
+    let (md_d, md_r, md_v, r_d, r_r, r_v) = PAPER_CREEP;
+    let paper = |caliper, density, emd, ecd, k1, k2, hmd, hcd, mc, gm| GradeDefaults {
+        caliper: d(caliper, RANGE),
+        density: d(density, RANGE),
+        md_modulus: d(emd, RANGE),
+        cd_modulus: d(ecd, RANGE),
+        poisson: d("0.01", NU),
+        k1: d(k1, PFEIFFER),
+        k2: d(k2, PFEIFFER),
+        friction: d("0.45", FRICTION),
+        hygro_md: d(hmd, HYGRO),
+        hygro_cd: d(hcd, HYGRO),
+        hygro_zd: d("0.005 /%", ZD),
+        moisture: d(mc, RANGE),
+        diffusivity_inplane: d("5e-10 m2/s", DIFF_IP),
+        diffusivity_radial: d("2e-11 m2/s", DIFF_R),
+        gab_m: d(gm, GAB),
+        gab_c: d("10", GAB),
+        gab_k: d("0.75", GAB),
+        md_delayed: md_d,
+        md_retardation: md_r,
+        md_viscous: md_v,
+        r_delayed: r_d,
+        r_retardation: r_r,
+        r_viscous: r_v,
+        activation: d("100 kJ/mol", ARRH),
+        moisture_shift: d("0.15", MSHIFT),
+        mechanosorptive: d("0.5", MSORP),
+    };
+    Some(match g {
+        Grade::Newsprint => paper(
+            "72 um",
+            "620 kg/m3",
+            "5.5 GPa",
+            "2.0 GPa",
+            "1 kPa",
+            "50",
+            "0.0005 /%",
+            "0.0015 /%",
+            "8 %",
+            "5.5 %",
+        ),
+        Grade::Coated => paper(
+            "95 um",
+            "780 kg/m3",
+            "6.5 GPa",
+            "3.0 GPa",
+            "2 kPa",
+            "70",
+            "0.0004 /%",
+            "0.0012 /%",
+            "5.5 %",
+            "4.8 %",
+        ),
+        Grade::Board => paper(
+            "350 um",
+            "700 kg/m3",
+            "7.5 GPa",
+            "3.2 GPa",
+            "5 kPa",
+            "35",
+            "0.0004 /%",
+            "0.0012 /%",
+            "7 %",
+            "5.5 %",
+        ),
+        Grade::Film => {
+            let mut f = paper(
+                "25 um",
+                "910 kg/m3",
+                "2.5 GPa",
+                "2.5 GPa",
+                "2 kPa",
+                "150",
+                "0 /%",
+                "0 /%",
+                "0.1 %",
+                "0.05 %",
+            );
+            let polymer = "polyolefin-like film, typical handbook values (from memory)";
+            for x in [
+                &mut f.caliper,
+                &mut f.density,
+                &mut f.md_modulus,
+                &mut f.cd_modulus,
+                &mut f.hygro_md,
+                &mut f.hygro_cd,
+                &mut f.moisture,
+                &mut f.gab_m,
+            ] {
+                x.source = polymer;
+            }
+            f.hygro_zd = d("0 /%", polymer);
+            f.friction = d("0.3", "film-on-film friction 0.2-0.5 (from memory)");
+            f
+        }
+        Grade::Custom => return None,
+    })
+}
+
+/// Default surface mass-transfer coefficients of the wraps (order of magnitude, assumption):
+/// bare surface close to an open face, paper wrap a moderate resistance, film close to sealed.
+pub const WRAP_NONE: Def = d(
+    "1e-6 m/s",
+    "bare face: exchange limited by the stack itself (assumption, order of magnitude)",
+);
+/// Paper wrap default.
+pub const WRAP_PAPER: Def = d(
+    "2e-8 m/s",
+    "paper wrap slows exchange markedly (assumption, order of magnitude)",
+);
+/// Film wrap default.
+pub const WRAP_FILM: Def = d(
+    "2e-11 m/s",
+    "a barrier wrap is close to no-flux (common practice)",
+);
+/// Hardness repeatability default.
+pub const HARDNESS_REPEAT: Def = d(
+    "1.5",
+    "rebound-type roll hardness readings repeat within 1-2 scale units (common practice)",
+);
+/// Default core when the case gives none.
+pub const CORE: (Def, Def, Def) = (
+    d(
+        "3 GPa",
+        "spiral paper core, effective modulus of order GPa (from memory)",
+    ),
+    d("13 mm", "common paper core wall (common practice)"),
+    d("0.3", "isotropic tube (assumption)"),
+);

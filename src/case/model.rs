@@ -1,0 +1,351 @@
+//! The validated case: every value SI (moisture in percentage points, humidity as a fraction).
+
+use serde::Serialize;
+
+/// Grade class; picks the defaults for properties the case does not give.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum Grade {
+    /// Newsprint-like uncoated mechanical grades.
+    Newsprint,
+    /// Coated printing grades.
+    Coated,
+    /// Paperboard.
+    Board,
+    /// Polymer film.
+    Film,
+    /// Everything given by the user.
+    Custom,
+}
+
+impl Grade {
+    /// Parse the grade word used in case files.
+    pub fn parse(s: &str) -> Option<Grade> {
+        Some(match s {
+            "newsprint" | "newsprint-like" => Grade::Newsprint,
+            "coated" => Grade::Coated,
+            "board" => Grade::Board,
+            "film" => Grade::Film,
+            "custom" => Grade::Custom,
+            _ => return None,
+        })
+    }
+}
+
+/// Radial (stack) compression law.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+#[serde(tag = "law", rename_all = "snake_case")]
+pub enum Stack {
+    /// Pfeiffer (1966): P = K1 (exp(K2 eps) - 1), so E_r = K2 (P + K1).
+    Pfeiffer {
+        /// K1, Pa.
+        k1_pa: f64,
+        /// K2, dimensionless.
+        k2: f64,
+    },
+    /// A constant radial modulus, Pa.
+    Constant {
+        /// Radial modulus, Pa.
+        radial_modulus_pa: f64,
+    },
+}
+
+impl Stack {
+    /// Tangent radial modulus at interlayer pressure `p_pa` (Pa, compression positive), Pa.
+    pub fn modulus(&self, p_pa: f64) -> f64 {
+        match *self {
+            Stack::Pfeiffer { k1_pa, k2 } => k2 * (p_pa.max(0.0) + k1_pa),
+            Stack::Constant { radial_modulus_pa } => radial_modulus_pa,
+        }
+    }
+
+    /// Compressive radial strain of the stack at pressure `p_pa` (Pa), dimensionless.
+    pub fn strain(&self, p_pa: f64) -> f64 {
+        let p = p_pa.max(0.0);
+        match *self {
+            Stack::Pfeiffer { k1_pa, k2 } => (1.0 + p / k1_pa).ln() / k2,
+            Stack::Constant { radial_modulus_pa } => p / radial_modulus_pa,
+        }
+    }
+
+    /// Interlayer pressure (Pa) at compressive strain `eps` (inverse of [`Stack::strain`]).
+    pub fn pressure(&self, eps: f64) -> f64 {
+        let e = eps.max(0.0);
+        match *self {
+            Stack::Pfeiffer { k1_pa, k2 } => k1_pa * ((k2 * e).exp() - 1.0),
+            Stack::Constant { radial_modulus_pa } => radial_modulus_pa * e,
+        }
+    }
+}
+
+/// GAB sorption isotherm constants: M = Mm C K a / [(1 - K a)(1 - K a + C K a)].
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct Gab {
+    /// Monolayer moisture Mm, % (dry basis).
+    pub monolayer_pct: f64,
+    /// Guggenheim constant C.
+    pub c: f64,
+    /// Multilayer constant K.
+    pub k: f64,
+}
+
+/// Burgers four-element creep parameters in relative form.
+///
+/// Creep compliance at reference conditions: J(t) = (1/E) [1 + delayed (1 - exp(-t/retardation))
+/// + t / viscous_time], where E is the elastic (instantaneous) modulus.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct Burgers {
+    /// Kelvin (delayed, recoverable) compliance as a fraction of the elastic compliance.
+    pub delayed: f64,
+    /// Kelvin retardation time, s.
+    pub retardation_s: f64,
+    /// Maxwell viscous time E * eta_M / E = eta_M / E, s: the time at which the permanent
+    /// (viscous) creep equals the elastic strain under constant stress.
+    pub viscous_time_s: f64,
+}
+
+/// Creep and ageing parameters.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct Creep {
+    /// Machine direction (tangential in the roll).
+    pub md: Burgers,
+    /// Thickness direction (radial in the roll).
+    pub radial: Burgers,
+    /// Arrhenius activation energy of the time-temperature shift, J/mol.
+    pub activation_energy_j_mol: f64,
+    /// Time-moisture shift: decades of time per percentage point of moisture.
+    pub moisture_shift_dec_per_pct: f64,
+    /// Mechano-sorptive creep coefficient: extra strain, as a multiple of the elastic strain,
+    /// per percentage point of moisture change (either sign).
+    pub mechanosorptive_per_pct: f64,
+}
+
+/// Web material.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Material {
+    pub grade: Grade,
+    /// Caliper (thickness), m.
+    pub caliper_m: f64,
+    /// Apparent density, kg/m3.
+    pub density_kg_m3: f64,
+    /// MD (tangential) modulus, Pa.
+    pub md_modulus_pa: f64,
+    /// CD modulus, Pa.
+    pub cd_modulus_pa: f64,
+    /// Poisson ratio in the winding model's core condition, dimensionless.
+    pub poisson: f64,
+    /// Stack compression law.
+    pub stack: Stack,
+    /// Web-on-web friction coefficient.
+    pub friction: f64,
+    /// MD hygroexpansion, strain per % moisture.
+    pub hygro_md_per_pct: f64,
+    /// CD hygroexpansion, strain per % moisture.
+    pub hygro_cd_per_pct: f64,
+    /// Thickness hygroexpansion, strain per % moisture.
+    pub hygro_zd_per_pct: f64,
+    /// Moisture content at winding, %.
+    pub moisture_pct: f64,
+    /// Effective in-plane (along the width) diffusivity of the wound stack, m2/s.
+    pub diffusivity_inplane_m2_s: f64,
+    /// Effective through-thickness (radial, across layers) diffusivity, m2/s.
+    pub diffusivity_radial_m2_s: f64,
+    /// Sorption isotherm.
+    pub sorption: Gab,
+    /// Creep parameters (grade values; `fit` refines them per lane).
+    pub creep: Creep,
+}
+
+/// Core stiffness.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+#[serde(tag = "kind", rename_all = "snake_case")]
+pub enum Core {
+    /// A rigid core.
+    Rigid,
+    /// An isotropic tube.
+    Tube {
+        /// Young's modulus, Pa.
+        modulus_pa: f64,
+        /// Wall thickness, m.
+        wall_m: f64,
+        /// Poisson ratio.
+        poisson: f64,
+    },
+}
+
+/// Roll geometry.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Roll {
+    /// Width (face length), m.
+    pub width_m: f64,
+    /// Nominal outer diameter, m.
+    pub diameter_m: f64,
+    /// Core outer diameter, m.
+    pub core_diameter_m: f64,
+    pub core: Core,
+}
+
+/// Web tension: constant or a taper table against roll diameter.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+#[serde(tag = "kind", rename_all = "snake_case")]
+pub enum Tension {
+    /// Constant web tension, N/m.
+    Constant { tension_n_per_m: f64 },
+    /// (diameter m, tension N/m) points sorted by diameter; linear between, flat outside.
+    Taper { points: Vec<(f64, f64)> },
+}
+
+impl Tension {
+    /// Web tension at roll diameter `d_m` (m), N/m.
+    pub fn at(&self, d_m: f64) -> f64 {
+        match self {
+            Tension::Constant { tension_n_per_m } => *tension_n_per_m,
+            Tension::Taper { points } => crate::interp::linear_flat(points, d_m),
+        }
+    }
+}
+
+/// Winder settings.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Winding {
+    pub tension: Tension,
+    /// Nip load, N/m.
+    pub nip_n_per_m: f64,
+    /// Web speed, m/s.
+    pub speed_m_s: f64,
+}
+
+/// What a profile measures.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum Measure {
+    /// Roll hardness, in the case's scale units.
+    Hardness,
+    /// Roll diameter, m.
+    Diameter,
+    /// Web caliper, m.
+    Caliper,
+}
+
+/// A cross-width profile.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Profile {
+    pub what: Measure,
+    /// Roll age at measurement, s.
+    pub age_s: f64,
+    /// Positions from the front edge, m.
+    pub positions_m: Vec<f64>,
+    /// Values in SI (m) or hardness scale units.
+    pub values: Vec<f64>,
+    /// Where it came from (case file or CSV path).
+    pub origin: String,
+}
+
+/// Wrap of a roll surface.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum Wrap {
+    None,
+    Paper,
+    Film,
+}
+
+/// How the roll stands.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum Stance {
+    OnEnd,
+    OnSide,
+}
+
+/// One stretch of storage history.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Stretch {
+    /// Duration, s.
+    pub duration_s: f64,
+    /// Temperature, K.
+    pub temperature_k: f64,
+    /// Relative humidity, fraction 0..1.
+    pub rh: f64,
+    pub barrel_wrap: Wrap,
+    pub end_wrap: Wrap,
+    pub stance: Stance,
+    pub place: Option<String>,
+}
+
+/// Surface mass-transfer coefficients (m/s) of the wraps.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct WrapPermeance {
+    pub none_m_s: f64,
+    pub paper_m_s: f64,
+    pub film_m_s: f64,
+}
+
+impl WrapPermeance {
+    /// Coefficient for a wrap, m/s.
+    pub fn of(&self, w: Wrap) -> f64 {
+        match w {
+            Wrap::None => self.none_m_s,
+            Wrap::Paper => self.paper_m_s,
+            Wrap::Film => self.film_m_s,
+        }
+    }
+}
+
+/// Hardness scale and its link to interlayer pressure: H = a + b ln(P / pressure_ref).
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Hardness {
+    pub scale: String,
+    /// One-sigma repeatability of a reading, scale units.
+    pub repeatability: f64,
+    /// Calibration, if the case gives one.
+    pub calibration: Option<Calibration>,
+}
+
+/// H = a + b ln(P / pressure_ref).
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct Calibration {
+    pub a: f64,
+    pub b: f64,
+    /// Reference pressure, Pa.
+    pub pressure_ref_pa: f64,
+}
+
+/// A value the case did not give, and where the default comes from.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct DefaultUsed {
+    pub field: String,
+    pub value: String,
+    pub source: String,
+}
+
+/// A validated case.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Case {
+    /// File it came from, or `<demo>`.
+    pub source: String,
+    pub id: String,
+    pub title: String,
+    pub complaint: Option<String>,
+    pub notes: String,
+    pub material: Material,
+    pub roll: Roll,
+    pub winding: Winding,
+    pub profiles: Vec<Profile>,
+    pub storage: Vec<Stretch>,
+    /// Explicit lane edges, m, if given.
+    pub lane_edges_m: Option<Vec<f64>>,
+    /// Lane count, if given.
+    pub lane_count: Option<usize>,
+    pub hardness: Hardness,
+    pub wraps: WrapPermeance,
+    pub defaults: Vec<DefaultUsed>,
+    pub warnings: Vec<String>,
+}
+
+impl Case {
+    /// Total storage time, s.
+    pub fn storage_s(&self) -> f64 {
+        self.storage.iter().map(|s| s.duration_s).sum()
+    }
+}

@@ -1,0 +1,265 @@
+//! The case file as written: serde schema with `deny_unknown_fields`, quantities kept as text
+//! with their position in the file so validation can point back to the line.
+
+use serde::de::{self, Deserializer, Visitor};
+use serde::Deserialize;
+use serde_saphyr::Spanned;
+use std::fmt;
+
+/// Any YAML scalar kept as text ("2.2 pli", 0.45, 1).
+#[derive(Debug, Clone, PartialEq)]
+pub struct Scalar(pub String);
+
+impl<'de> Deserialize<'de> for Scalar {
+    fn deserialize<D: Deserializer<'de>>(d: D) -> Result<Self, D::Error> {
+        struct V;
+        impl Visitor<'_> for V {
+            type Value = Scalar;
+            fn expecting(&self, f: &mut fmt::Formatter) -> fmt::Result {
+                f.write_str("a number or a quantity with its unit, such as \"2.2 pli\"")
+            }
+            fn visit_str<E: de::Error>(self, v: &str) -> Result<Scalar, E> {
+                Ok(Scalar(v.to_string()))
+            }
+            fn visit_string<E: de::Error>(self, v: String) -> Result<Scalar, E> {
+                Ok(Scalar(v))
+            }
+            fn visit_f64<E: de::Error>(self, v: f64) -> Result<Scalar, E> {
+                Ok(Scalar(format!("{v}")))
+            }
+            fn visit_i64<E: de::Error>(self, v: i64) -> Result<Scalar, E> {
+                Ok(Scalar(v.to_string()))
+            }
+            fn visit_u64<E: de::Error>(self, v: u64) -> Result<Scalar, E> {
+                Ok(Scalar(v.to_string()))
+            }
+        }
+        d.deserialize_any(V)
+    }
+}
+
+/// A scalar with its location in the file.
+pub type Q = Spanned<Scalar>;
+
+/// Top level of a case file.
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct RawCase {
+    pub format: Spanned<u32>,
+    pub case: String,
+    #[serde(default)]
+    pub title: Option<String>,
+    #[serde(default)]
+    pub complaint: Option<Spanned<String>>,
+    #[serde(default)]
+    pub notes: Option<String>,
+    pub material: RawMaterial,
+    pub roll: RawRoll,
+    pub winding: RawWinding,
+    #[serde(default)]
+    pub profiles: Vec<RawProfile>,
+    #[serde(default)]
+    pub storage: Vec<RawStretch>,
+    #[serde(default)]
+    pub lanes: Option<RawLanes>,
+    #[serde(default)]
+    pub hardness: Option<RawHardness>,
+    #[serde(default)]
+    pub wraps: Option<RawWraps>,
+}
+
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct RawMaterial {
+    pub grade: Spanned<String>,
+    #[serde(default)]
+    pub caliper: Option<Q>,
+    #[serde(default)]
+    pub density: Option<Q>,
+    #[serde(default)]
+    pub basis_weight: Option<Q>,
+    #[serde(default)]
+    pub md_modulus: Option<Q>,
+    #[serde(default)]
+    pub cd_modulus: Option<Q>,
+    #[serde(default)]
+    pub poisson: Option<Q>,
+    #[serde(default)]
+    pub stack: Option<RawStack>,
+    #[serde(default)]
+    pub radial_modulus: Option<Q>,
+    #[serde(default)]
+    pub friction: Option<Q>,
+    #[serde(default)]
+    pub hygro_md: Option<Q>,
+    #[serde(default)]
+    pub hygro_cd: Option<Q>,
+    #[serde(default)]
+    pub hygro_zd: Option<Q>,
+    #[serde(default)]
+    pub moisture: Option<Q>,
+    #[serde(default)]
+    pub diffusivity_inplane: Option<Q>,
+    #[serde(default)]
+    pub diffusivity_radial: Option<Q>,
+    #[serde(default)]
+    pub sorption: Option<RawGab>,
+    #[serde(default)]
+    pub creep: Option<RawCreep>,
+}
+
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct RawStack {
+    pub k1: Q,
+    pub k2: Q,
+}
+
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct RawGab {
+    pub monolayer: Q,
+    pub c: Q,
+    pub k: Q,
+}
+
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct RawCreep {
+    #[serde(default)]
+    pub md: Option<RawBurgers>,
+    #[serde(default)]
+    pub radial: Option<RawBurgers>,
+    #[serde(default)]
+    pub activation_energy: Option<Q>,
+    #[serde(default)]
+    pub moisture_shift: Option<Q>,
+    #[serde(default)]
+    pub mechanosorptive: Option<Q>,
+}
+
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct RawBurgers {
+    pub delayed: Q,
+    pub retardation: Q,
+    pub viscous_time: Q,
+}
+
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct RawRoll {
+    pub width: Q,
+    pub diameter: Q,
+    pub core_diameter: Q,
+    #[serde(default)]
+    pub core: Option<RawCore>,
+}
+
+/// `core: { rigid: true }` or `core: { modulus, wall, poisson }`.
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct RawCore {
+    #[serde(default)]
+    pub rigid: Option<Spanned<bool>>,
+    #[serde(default)]
+    pub modulus: Option<Q>,
+    #[serde(default)]
+    pub wall: Option<Q>,
+    #[serde(default)]
+    pub poisson: Option<Q>,
+}
+
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct RawWinding {
+    /// Constant web tension.
+    #[serde(default)]
+    pub tension: Option<Q>,
+    /// Or a taper table against diameter.
+    #[serde(default)]
+    pub taper: Option<Vec<RawTaperPoint>>,
+    #[serde(default)]
+    pub nip: Option<Q>,
+    #[serde(default)]
+    pub speed: Option<Q>,
+}
+
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct RawTaperPoint {
+    pub diameter: Q,
+    pub tension: Q,
+}
+
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct RawProfile {
+    pub what: Spanned<String>,
+    pub age: Q,
+    #[serde(default)]
+    pub unit: Option<String>,
+    #[serde(default)]
+    pub position_unit: Option<String>,
+    #[serde(default)]
+    pub positions: Option<Spanned<Vec<f64>>>,
+    #[serde(default)]
+    pub values: Option<Spanned<Vec<f64>>>,
+    #[serde(default)]
+    pub csv: Option<Spanned<String>>,
+}
+
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct RawStretch {
+    pub duration: Q,
+    pub temperature: Q,
+    pub rh: Q,
+    #[serde(default)]
+    pub barrel_wrap: Option<Spanned<String>>,
+    #[serde(default)]
+    pub end_wrap: Option<Spanned<String>>,
+    #[serde(default)]
+    pub stance: Option<Spanned<String>>,
+    #[serde(default)]
+    pub place: Option<String>,
+}
+
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct RawLanes {
+    #[serde(default)]
+    pub edges: Option<Vec<Q>>,
+    #[serde(default)]
+    pub count: Option<Spanned<u32>>,
+}
+
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct RawHardness {
+    #[serde(default)]
+    pub scale: Option<String>,
+    #[serde(default)]
+    pub repeatability: Option<Q>,
+    #[serde(default)]
+    pub calibration: Option<RawCalibration>,
+}
+
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct RawCalibration {
+    pub a: Q,
+    pub b: Q,
+    pub pressure_ref: Q,
+}
+
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct RawWraps {
+    #[serde(default)]
+    pub none: Option<Q>,
+    #[serde(default)]
+    pub paper: Option<Q>,
+    #[serde(default)]
+    pub film: Option<Q>,
+}

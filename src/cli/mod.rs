@@ -1,0 +1,222 @@
+//! Command-line interface: clap arguments, dispatch and exit codes.
+//!
+//! **Invariant:** the only module that knows clap. Exit codes: 0 ok, 1 findings or usage error,
+//! 2 bad input or a model that could not be solved.
+
+use crate::case::{self, Case, CaseError};
+use crate::report;
+use crate::units::System;
+use clap::{Args, Parser, Subcommand, ValueEnum};
+use std::ffi::OsString;
+use std::io::Write;
+use std::path::PathBuf;
+use std::process::ExitCode;
+
+/// Find why a wound roll unwinds with baggy lanes, puckers or ridges.
+#[derive(Parser, Debug)]
+#[command(name = "rollsleuth", version, about, long_about = None)]
+pub struct Cli {
+    /// Print JSON (SI units, field names carry their unit) instead of tables.
+    #[arg(long, global = true)]
+    pub json: bool,
+    /// Units for human output.
+    #[arg(long, global = true, value_enum, default_value_t = UnitsArg::Si)]
+    pub units: UnitsArg,
+    #[command(subcommand)]
+    pub command: Command,
+}
+
+/// Unit system for human output.
+#[derive(Clone, Copy, Debug, ValueEnum, PartialEq, Eq)]
+pub enum UnitsArg {
+    /// mm, um, kPa, N/m, C
+    Si,
+    /// in, mil, psi, pli, F
+    Us,
+}
+
+/// Case file and overrides.
+#[derive(Args, Debug, Clone)]
+pub struct CaseArg {
+    /// Case file (YAML). Without one, the embedded demo case is used.
+    pub case: Option<PathBuf>,
+    /// Override a field before validation, e.g. --set winding.tension="1.8 pli" (repeatable).
+    #[arg(long = "set", value_name = "PATH=VALUE")]
+    pub set: Vec<String>,
+}
+
+/// Subcommands.
+#[derive(Subcommand, Debug)]
+pub enum Command {
+    /// Validate case files and print them normalised to SI, defaults marked with their source.
+    Check {
+        /// Case files. Without any, the embedded demo case is checked.
+        cases: Vec<PathBuf>,
+        /// Override a field before validation (repeatable).
+        #[arg(long = "set", value_name = "PATH=VALUE")]
+        set: Vec<String>,
+    },
+    /// Per-lane table: caliper, diameter and hardness deviations, wound-in strain difference.
+    Lanes(CaseArg),
+    /// Print a commented starter case file.
+    Template,
+    /// Wound-in radial and tangential stresses per lane.
+    Stress {
+        #[command(flatten)]
+        case: CaseArg,
+        /// Radial nodes per lane.
+        #[arg(long, default_value_t = 600)]
+        nodes: usize,
+        /// CD levelling fraction 0..1 (0: independent lanes).
+        #[arg(long, default_value_t = crate::winding::DEFAULT_LEVELLING)]
+        levelling: f64,
+    },
+}
+
+/// What a command produced.
+pub enum Outcome {
+    /// Printed; nothing to flag.
+    Ok(String),
+    /// Printed; findings to flag (exit 1).
+    Findings(String),
+}
+
+/// An error for the user: message and exit code.
+#[derive(Debug)]
+pub struct Failure {
+    pub message: String,
+    pub code: u8,
+}
+
+impl From<CaseError> for Failure {
+    fn from(e: CaseError) -> Self {
+        Failure {
+            message: format!("error: {e}"),
+            code: 2,
+        }
+    }
+}
+
+impl From<crate::winding::WindError> for Failure {
+    fn from(e: crate::winding::WindError) -> Self {
+        Failure {
+            message: format!("error: {e}"),
+            code: 2,
+        }
+    }
+}
+
+/// Load the case named by `arg`, or the demo case.
+pub fn load(arg: &CaseArg) -> Result<Case, Failure> {
+    Ok(match &arg.case {
+        Some(p) => case::load_file(p, &arg.set)?,
+        None => case::load_demo(&arg.set)?,
+    })
+}
+
+fn emit_json(v: &serde_json::Value) -> String {
+    let mut s =
+        serde_json::to_string_pretty(v).unwrap_or_else(|e| format!("{{\"error\": \"{e}\"}}"));
+    s.push('\n');
+    s
+}
+
+/// Run a parsed command.
+pub fn run(cli: &Cli) -> Result<Outcome, Failure> {
+    let sys = match cli.units {
+        UnitsArg::Si => System::Si,
+        UnitsArg::Us => System::Us,
+    };
+    match &cli.command {
+        Command::Template => Ok(Outcome::Ok(report::case_view::TEMPLATE.to_string())),
+        Command::Check { cases, set } => {
+            let mut loaded = Vec::new();
+            let mut errors = Vec::new();
+            if cases.is_empty() {
+                loaded.push(case::load_demo(set)?);
+            }
+            for p in cases {
+                match case::load_file(p, set) {
+                    Ok(c) => loaded.push(c),
+                    Err(e) => errors.push(format!("error: {e}")),
+                }
+            }
+            if !errors.is_empty() {
+                return Err(Failure {
+                    message: errors.join("\n"),
+                    code: 2,
+                });
+            }
+            if cli.json {
+                let v: Vec<_> = loaded.iter().map(report::case_view::check_json).collect();
+                Ok(Outcome::Ok(emit_json(&serde_json::json!({ "cases": v }))))
+            } else {
+                let mut s = String::new();
+                for c in &loaded {
+                    s.push_str(&report::case_view::check_text(c, sys));
+                    s.push_str(&format!("{}: ok\n\n", c.source));
+                }
+                Ok(Outcome::Ok(s))
+            }
+        }
+        Command::Lanes(arg) => {
+            let c = load(arg)?;
+            let l = crate::lanes::build(&c);
+            Ok(Outcome::Ok(if cli.json {
+                emit_json(&report::case_view::lanes_json(&c, &l))
+            } else {
+                report::case_view::lanes_text(&c, &l, sys)
+            }))
+        }
+        Command::Stress {
+            case: arg,
+            nodes,
+            levelling,
+        } => {
+            let c = load(arg)?;
+            let l = crate::lanes::build(&c);
+            let w = crate::winding::wind(
+                &c,
+                &l,
+                crate::winding::Options {
+                    nodes: *nodes,
+                    levelling: *levelling,
+                },
+            )?;
+            Ok(Outcome::Ok(if cli.json {
+                emit_json(&report::stress_view::json(&c, &w))
+            } else {
+                report::stress_view::text(&c, &w, sys)
+            }))
+        }
+    }
+}
+
+/// Entry point used by the binary.
+pub fn main(args: impl IntoIterator<Item = OsString>) -> ExitCode {
+    let cli = match Cli::try_parse_from(args) {
+        Ok(c) => c,
+        Err(e) => {
+            let code = if e.use_stderr() { 1 } else { 0 };
+            let _ = e.print();
+            return ExitCode::from(code);
+        }
+    };
+    let result = run(&cli);
+    let stdout = std::io::stdout();
+    let mut out = stdout.lock();
+    match result {
+        Ok(Outcome::Ok(s)) => {
+            let _ = out.write_all(s.as_bytes());
+            ExitCode::SUCCESS
+        }
+        Ok(Outcome::Findings(s)) => {
+            let _ = out.write_all(s.as_bytes());
+            ExitCode::from(1)
+        }
+        Err(f) => {
+            let _ = writeln!(std::io::stderr(), "{}", f.message);
+            ExitCode::from(f.code)
+        }
+    }
+}

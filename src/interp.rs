@@ -1,0 +1,47 @@
+//! Piecewise-linear interpolation shared by profiles, taper tables and time lines.
+
+/// Linear interpolation in sorted (x, y) points; flat beyond the ends. Empty input gives 0.
+///
+/// ```
+/// let p = [(0.0, 1.0), (1.0, 3.0)];
+/// assert_eq!(rollsleuth::interp::linear_flat(&p, 0.5), 2.0);
+/// assert_eq!(rollsleuth::interp::linear_flat(&p, 9.0), 3.0);
+/// ```
+pub fn linear_flat(points: &[(f64, f64)], x: f64) -> f64 {
+    let n = points.len();
+    if n == 0 {
+        return 0.0;
+    }
+    if x <= points[0].0 {
+        return points[0].1;
+    }
+    if x >= points[n - 1].0 {
+        return points[n - 1].1;
+    }
+    let i = points.partition_point(|p| p.0 <= x).clamp(1, n - 1);
+    let (x0, y0) = points[i - 1];
+    let (x1, y1) = points[i];
+    if x1 - x0 <= 0.0 {
+        return y1;
+    }
+    y0 + (y1 - y0) * (x - x0) / (x1 - x0)
+}
+
+/// Linear interpolation of `ys` at `xs` (sorted) onto `x`, extrapolating linearly from the end
+/// segments; returns the value and whether it extrapolated.
+pub fn linear_extrap(xs: &[f64], ys: &[f64], x: f64) -> (f64, bool) {
+    let n = xs.len().min(ys.len());
+    if n == 0 {
+        return (0.0, true);
+    }
+    if n == 1 {
+        return (ys[0], (x - xs[0]).abs() > 0.0);
+    }
+    let out = x < xs[0] || x > xs[n - 1];
+    let i = xs[..n].partition_point(|&p| p <= x).clamp(1, n - 1);
+    let (x0, x1, y0, y1) = (xs[i - 1], xs[i], ys[i - 1], ys[i]);
+    if x1 - x0 <= 0.0 {
+        return (y1, out);
+    }
+    (y0 + (y1 - y0) * (x - x0) / (x1 - x0), out)
+}

@@ -1,0 +1,211 @@
+//! Cross-width profiles to lanes: edges, centres, and per lane the caliper, diameter and hardness
+//! deviations and the wound-in strain difference a diameter difference implies.
+//!
+//! **Invariant:** lanes are sorted from the front edge, do not overlap, and lie inside the roll.
+
+use crate::case::{Case, Measure, Profile};
+use crate::interp::linear_extrap;
+use serde::Serialize;
+
+/// Where a lane's caliper came from.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum CaliperSource {
+    /// Interpolated from a measured caliper profile.
+    Profile,
+    /// Inferred from the diameter profile at the earliest age (no caliper profile given).
+    Diameter,
+    /// The nominal caliper of the material.
+    Nominal,
+}
+
+/// One lane of the roll.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Lane {
+    /// Index from the front edge, 0-based.
+    pub index: usize,
+    /// Front-side edge, m from the front edge of the roll.
+    pub left_m: f64,
+    /// Back-side edge, m.
+    pub right_m: f64,
+    /// Centre position, m.
+    pub position_m: f64,
+    /// Lane width, m.
+    pub width_m: f64,
+    /// Lane caliper, m.
+    pub caliper_m: f64,
+    /// Caliper deviation from the width-weighted mean, fraction.
+    pub caliper_deviation: f64,
+    /// Diameter minus the mean diameter at the earliest diameter profile, m.
+    pub diameter_deviation_m: Option<f64>,
+    /// Hardness minus the mean at the earliest hardness profile, scale units.
+    pub hardness_deviation: Option<f64>,
+    /// Wound-in MD strain difference implied by the diameter difference, dR/R, dimensionless.
+    pub wound_strain_difference: Option<f64>,
+    /// True where a profile value had to be extrapolated beyond the measured positions.
+    pub extrapolated: bool,
+}
+
+/// The lanes of a roll.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Lanes {
+    pub lanes: Vec<Lane>,
+    /// Width-weighted mean caliper, m.
+    pub mean_caliper_m: f64,
+    pub caliper_source: CaliperSource,
+    /// Notes on how the lanes were built (extrapolation, inference).
+    pub notes: Vec<String>,
+}
+
+/// Default lane count when the case gives neither profiles nor lanes.
+pub const DEFAULT_LANES: usize = 12;
+
+/// The earliest profile of a kind, if any.
+pub fn earliest(case: &Case, what: Measure) -> Option<&Profile> {
+    case.profiles
+        .iter()
+        .filter(|p| p.what == what)
+        .min_by(|a, b| a.age_s.total_cmp(&b.age_s))
+}
+
+/// Lane edges (m) for a case.
+pub fn edges(case: &Case) -> Vec<f64> {
+    let w = case.roll.width_m;
+    if let Some(e) = &case.lane_edges_m {
+        return e.clone();
+    }
+    if let Some(n) = case.lane_count {
+        return (0..=n).map(|i| w * i as f64 / n as f64).collect();
+    }
+    let pick = [Measure::Caliper, Measure::Diameter, Measure::Hardness]
+        .iter()
+        .filter_map(|m| {
+            case.profiles
+                .iter()
+                .filter(|p| p.what == *m)
+                .max_by_key(|p| p.positions_m.len())
+        })
+        .max_by_key(|p| p.positions_m.len());
+    match pick {
+        Some(p) => {
+            let x = &p.positions_m;
+            let mut e = vec![0.0];
+            e.extend(x.windows(2).map(|w| 0.5 * (w[0] + w[1])));
+            e.push(w);
+            e
+        }
+        None => (0..=DEFAULT_LANES)
+            .map(|i| w * i as f64 / DEFAULT_LANES as f64)
+            .collect(),
+    }
+}
+
+/// Interpolate a profile onto lane centres; returns values and whether any was extrapolated.
+pub fn onto(p: &Profile, centres: &[f64]) -> (Vec<f64>, bool) {
+    let mut any = false;
+    let v = centres
+        .iter()
+        .map(|&x| {
+            let (y, out) = linear_extrap(&p.positions_m, &p.values, x);
+            any |= out;
+            y
+        })
+        .collect();
+    (v, any)
+}
+
+fn weighted_mean(v: &[f64], w: &[f64]) -> f64 {
+    let sw: f64 = w.iter().sum();
+    v.iter().zip(w).map(|(a, b)| a * b).sum::<f64>() / sw
+}
+
+/// Build the lanes of a case.
+pub fn build(case: &Case) -> Lanes {
+    let e = edges(case);
+    let centres: Vec<f64> = e.windows(2).map(|w| 0.5 * (w[0] + w[1])).collect();
+    let widths: Vec<f64> = e.windows(2).map(|w| w[1] - w[0]).collect();
+    let n = centres.len();
+    let mut notes = Vec::new();
+    let mut extrap = vec![false; n];
+    let mut mark = |p: &Profile, vals: (Vec<f64>, bool), notes: &mut Vec<String>| {
+        if vals.1 {
+            for (i, &x) in centres.iter().enumerate() {
+                if x < p.positions_m[0] || x > p.positions_m[p.positions_m.len() - 1] {
+                    extrap[i] = true;
+                }
+            }
+            notes.push(format!(
+                "{:?} profile at {:.0} d covers {:.0}-{:.0} mm; lanes outside that were extrapolated linearly",
+                p.what,
+                p.age_s / 86400.0,
+                p.positions_m[0] * 1e3,
+                p.positions_m[p.positions_m.len() - 1] * 1e3
+            ));
+        }
+        vals.0
+    };
+    let dia = earliest(case, Measure::Diameter).map(|p| mark(p, onto(p, &centres), &mut notes));
+    let hard = earliest(case, Measure::Hardness).map(|p| mark(p, onto(p, &centres), &mut notes));
+    let cal = earliest(case, Measure::Caliper).map(|p| mark(p, onto(p, &centres), &mut notes));
+    let nominal = case.material.caliper_m;
+    let r_core = 0.5 * case.roll.core_diameter_m;
+    let (calipers, source) = match (&cal, &dia) {
+        (Some(c), _) => (c.clone(), CaliperSource::Profile),
+        (None, Some(d)) => {
+            // A lane larger by dR over a build of (R - r_core) carries about dR/(R - r_core) more
+            // caliper (uncompressed estimate).
+            let dbar = weighted_mean(d, &widths);
+            let build = (0.5 * dbar - r_core).max(1e-9);
+            notes.push(
+                "no caliper profile: lane calipers inferred from the earliest diameter profile"
+                    .into(),
+            );
+            (
+                d.iter()
+                    .map(|&di| nominal * (1.0 + 0.5 * (di - dbar) / build))
+                    .collect(),
+                CaliperSource::Diameter,
+            )
+        }
+        _ => (vec![nominal; n], CaliperSource::Nominal),
+    };
+    let cbar = weighted_mean(&calipers, &widths);
+    let dbar = dia.as_ref().map(|d| weighted_mean(d, &widths));
+    let hbar = hard.as_ref().map(|h| weighted_mean(h, &widths));
+    let lanes = (0..n)
+        .map(|i| Lane {
+            index: i,
+            left_m: e[i],
+            right_m: e[i + 1],
+            position_m: centres[i],
+            width_m: widths[i],
+            caliper_m: calipers[i],
+            caliper_deviation: calipers[i] / cbar - 1.0,
+            diameter_deviation_m: dia.as_ref().zip(dbar).map(|(d, m)| d[i] - m),
+            hardness_deviation: hard.as_ref().zip(hbar).map(|(h, m)| h[i] - m),
+            wound_strain_difference: dia.as_ref().zip(dbar).map(|(d, m)| (d[i] - m) / m),
+            extrapolated: extrap[i],
+        })
+        .collect();
+    Lanes {
+        lanes,
+        mean_caliper_m: cbar,
+        caliper_source: source,
+        notes,
+    }
+}
+
+impl Lanes {
+    /// Lane centres, m.
+    pub fn positions(&self) -> Vec<f64> {
+        self.lanes.iter().map(|l| l.position_m).collect()
+    }
+    /// Lane widths, m.
+    pub fn widths(&self) -> Vec<f64> {
+        self.lanes.iter().map(|l| l.width_m).collect()
+    }
+    /// Lane calipers, m.
+    pub fn calipers(&self) -> Vec<f64> {
+        self.lanes.iter().map(|l| l.caliper_m).collect()
+    }
+}

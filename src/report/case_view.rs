@@ -1,0 +1,303 @@
+//! `check`, `lanes` and `template` output.
+
+use super::{f, fine, pct, pos, q, table};
+use crate::case::{Case, Core, Measure, Stack, Tension, Wrap};
+use crate::lanes::Lanes;
+use crate::units::{Kind, System};
+use serde_json::{json, Value};
+use std::fmt::Write;
+
+fn is_default(c: &Case, field: &str) -> bool {
+    c.defaults.iter().any(|d| d.field == field)
+}
+
+/// The normalised case as text, defaults marked.
+pub fn check_text(c: &Case, sys: System) -> String {
+    let mut out = String::new();
+    let _ = writeln!(out, "Case {} ({})", c.id, c.source);
+    if !c.title.is_empty() {
+        let _ = writeln!(out, "{}", c.title);
+    }
+    if let Some(cp) = &c.complaint {
+        let _ = writeln!(out, "Complaint: {}", crate::defects::plain(cp));
+    }
+    let m = &c.material;
+    let mut t = table(&["field", "value", ""]);
+    let mut row = |field: &str, v: String| {
+        let mark = if is_default(c, field) { "default" } else { "" };
+        t.add_row(vec![field.to_string(), v, mark.to_string()]);
+    };
+    row("material.grade", format!("{:?}", m.grade).to_lowercase());
+    row("material.caliper", fine(m.caliper_m, sys));
+    row("material.density", q(m.density_kg_m3, Kind::Density, sys));
+    row(
+        "material.md_modulus",
+        q(m.md_modulus_pa, Kind::Pressure, sys),
+    );
+    row(
+        "material.cd_modulus",
+        q(m.cd_modulus_pa, Kind::Pressure, sys),
+    );
+    row("material.poisson", f(m.poisson, 3));
+    match m.stack {
+        Stack::Pfeiffer { k1_pa, k2 } => {
+            row("material.stack.k1", q(k1_pa, Kind::Pressure, sys));
+            row("material.stack.k2", f(k2, 1));
+        }
+        Stack::Constant { radial_modulus_pa } => row(
+            "material.radial_modulus",
+            q(radial_modulus_pa, Kind::Pressure, sys),
+        ),
+    }
+    row("material.friction", f(m.friction, 2));
+    row("material.hygro_md", format!("{} /%", m.hygro_md_per_pct));
+    row("material.hygro_cd", format!("{} /%", m.hygro_cd_per_pct));
+    row("material.hygro_zd", format!("{} /%", m.hygro_zd_per_pct));
+    row("material.moisture", format!("{:.2} %", m.moisture_pct));
+    row(
+        "material.diffusivity_inplane",
+        format!("{:.2e} m2/s", m.diffusivity_inplane_m2_s),
+    );
+    row(
+        "material.diffusivity_radial",
+        format!("{:.2e} m2/s", m.diffusivity_radial_m2_s),
+    );
+    row(
+        "material.sorption",
+        format!(
+            "GAB Mm {:.2} %, C {:.2}, K {:.3}",
+            m.sorption.monolayer_pct, m.sorption.c, m.sorption.k
+        ),
+    );
+    let cr = &m.creep;
+    for (name, b) in [("md", cr.md), ("radial", cr.radial)] {
+        row(
+            &format!("material.creep.{name}.delayed"),
+            format!(
+                "{:.2} (retardation {:.1} d, viscous time {:.0} d)",
+                b.delayed,
+                b.retardation_s / 86400.0,
+                b.viscous_time_s / 86400.0
+            ),
+        );
+    }
+    row(
+        "material.creep.activation_energy",
+        q(cr.activation_energy_j_mol, Kind::MolarEnergy, sys),
+    );
+    row(
+        "material.creep.moisture_shift",
+        format!("{} decades/%", cr.moisture_shift_dec_per_pct),
+    );
+    row(
+        "material.creep.mechanosorptive",
+        format!("{} /%", cr.mechanosorptive_per_pct),
+    );
+    let r = &c.roll;
+    row("roll.width", q(r.width_m, Kind::Length, sys));
+    row("roll.diameter", q(r.diameter_m, Kind::Length, sys));
+    row(
+        "roll.core_diameter",
+        q(r.core_diameter_m, Kind::Length, sys),
+    );
+    match r.core {
+        Core::Rigid => row("roll.core", "rigid".into()),
+        Core::Tube {
+            modulus_pa,
+            wall_m,
+            poisson,
+        } => {
+            row("roll.core.modulus", q(modulus_pa, Kind::Pressure, sys));
+            row("roll.core.wall", q(wall_m, Kind::Length, sys));
+            row("roll.core.poisson", f(poisson, 2));
+        }
+    }
+    let w = &c.winding;
+    match &w.tension {
+        Tension::Constant { tension_n_per_m } => {
+            row("winding.tension", q(*tension_n_per_m, Kind::LineForce, sys))
+        }
+        Tension::Taper { points } => row(
+            "winding.tension",
+            points
+                .iter()
+                .map(|(d, t)| {
+                    format!(
+                        "{} @ {}",
+                        q(*t, Kind::LineForce, sys),
+                        q(*d, Kind::Length, sys)
+                    )
+                })
+                .collect::<Vec<_>>()
+                .join(", "),
+        ),
+    }
+    row("winding.nip", q(w.nip_n_per_m, Kind::LineForce, sys));
+    row("winding.speed", q(w.speed_m_s, Kind::Speed, sys));
+    row(
+        "hardness.repeatability",
+        format!("{} {}", c.hardness.repeatability, c.hardness.scale),
+    );
+    let _ = writeln!(out, "{t}");
+    let mut p = table(&["profile", "age", "points", "span", "range", "from"]);
+    for (i, pr) in c.profiles.iter().enumerate() {
+        let (lo, hi) = pr
+            .values
+            .iter()
+            .fold((f64::INFINITY, f64::NEG_INFINITY), |a, &v| {
+                (a.0.min(v), a.1.max(v))
+            });
+        let range = match pr.what {
+            Measure::Hardness => format!("{lo:.1} .. {hi:.1}"),
+            Measure::Caliper => format!("{} .. {}", fine(lo, sys), fine(hi, sys)),
+            Measure::Diameter => format!(
+                "{} .. {}",
+                q(lo, Kind::Length, sys),
+                q(hi, Kind::Length, sys)
+            ),
+        };
+        p.add_row(vec![
+            format!("[{i}] {:?}", pr.what).to_lowercase(),
+            format!("{:.0} d", pr.age_s / 86400.0),
+            pr.positions_m.len().to_string(),
+            format!(
+                "{} .. {}",
+                pos(pr.positions_m[0], sys),
+                pos(pr.positions_m[pr.positions_m.len() - 1], sys)
+            ),
+            range,
+            pr.origin.clone(),
+        ]);
+    }
+    if !c.profiles.is_empty() {
+        let _ = writeln!(out, "{p}");
+    }
+    if !c.storage.is_empty() {
+        let mut s = table(&[
+            "stretch",
+            "days",
+            "temperature",
+            "RH",
+            "barrel",
+            "ends",
+            "stance",
+            "place",
+        ]);
+        let wrap = |w: Wrap| format!("{w:?}").to_lowercase();
+        for (i, st) in c.storage.iter().enumerate() {
+            s.add_row(vec![
+                i.to_string(),
+                f(st.duration_s / 86400.0, 1),
+                q(st.temperature_k, Kind::Temperature, sys),
+                format!("{:.0} %", st.rh * 100.0),
+                wrap(st.barrel_wrap),
+                wrap(st.end_wrap),
+                match st.stance {
+                    crate::case::Stance::OnEnd => "on end".into(),
+                    crate::case::Stance::OnSide => "on side".into(),
+                },
+                st.place.clone().unwrap_or_default(),
+            ]);
+        }
+        let _ = writeln!(out, "{s}");
+    }
+    if !c.defaults.is_empty() {
+        let mut d = table(&["default used for", "value", "source"]);
+        for x in &c.defaults {
+            d.add_row(vec![x.field.clone(), x.value.clone(), x.source.clone()]);
+        }
+        let _ = writeln!(out, "{d}");
+    }
+    for w in &c.warnings {
+        let _ = writeln!(out, "warning: {w}");
+    }
+    out
+}
+
+/// The case as JSON (all SI, field names carry units).
+pub fn check_json(c: &Case) -> Value {
+    serde_json::to_value(c).unwrap_or(Value::Null)
+}
+
+/// Per-lane table.
+pub fn lanes_text(c: &Case, l: &Lanes, sys: System) -> String {
+    let mut out = String::new();
+    let _ = writeln!(
+        out,
+        "Case {}: {} lanes across {}; caliper from {:?} (mean {})",
+        c.id,
+        l.lanes.len(),
+        q(c.roll.width_m, Kind::Length, sys),
+        l.caliper_source,
+        fine(l.mean_caliper_m, sys)
+    );
+    let mut t = table(&[
+        "lane",
+        "centre",
+        "width",
+        "caliper",
+        "caliper dev",
+        "diameter dev",
+        "hardness dev",
+        "wound strain dR/R",
+    ]);
+    for ln in &l.lanes {
+        t.add_row(vec![
+            format!("{}{}", ln.index, if ln.extrapolated { "*" } else { "" }),
+            pos(ln.position_m, sys),
+            q(ln.width_m, Kind::Length, sys),
+            fine(ln.caliper_m, sys),
+            pct(ln.caliper_deviation, 2),
+            ln.diameter_deviation_m
+                .map(|d| match sys {
+                    System::Si => format!("{:+.2} mm", d * 1e3),
+                    System::Us => format!("{:+.1} mil", d / 25.4e-6),
+                })
+                .unwrap_or_else(|| "-".into()),
+            ln.hardness_deviation
+                .map(|h| format!("{h:+.1}"))
+                .unwrap_or_else(|| "-".into()),
+            ln.wound_strain_difference
+                .map(|s| pct(s, 3))
+                .unwrap_or_else(|| "-".into()),
+        ]);
+    }
+    let _ = writeln!(out, "{t}");
+    if l.lanes.iter().any(|x| x.extrapolated) {
+        let _ = writeln!(out, "* extrapolated beyond the measured positions");
+    }
+    for n in &l.notes {
+        let _ = writeln!(out, "note: {n}");
+    }
+    let _ = writeln!(
+        out,
+        "A lane larger than the mean by dR is stretched by about dR/R at winding; a lane with no stretch left runs slack."
+    );
+    out
+}
+
+/// Per-lane JSON.
+pub fn lanes_json(c: &Case, l: &Lanes) -> Value {
+    json!({
+        "case": c.id,
+        "mean_caliper_m": l.mean_caliper_m,
+        "caliper_source": l.caliper_source,
+        "lanes": l.lanes.iter().map(|x| json!({
+            "index": x.index,
+            "position_m": x.position_m,
+            "left_m": x.left_m,
+            "right_m": x.right_m,
+            "width_m": x.width_m,
+            "caliper_m": x.caliper_m,
+            "caliper_deviation": x.caliper_deviation,
+            "diameter_deviation_m": x.diameter_deviation_m,
+            "hardness_deviation": x.hardness_deviation,
+            "strain": x.wound_strain_difference,
+            "extrapolated": x.extrapolated,
+        })).collect::<Vec<_>>(),
+        "notes": l.notes,
+    })
+}
+
+/// A commented starter case file.
+pub const TEMPLATE: &str = include_str!("template.yaml");

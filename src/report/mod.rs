@@ -1,0 +1,50 @@
+//! Human output (comfy-table tables, SVG plots, Markdown) and JSON documents.
+//!
+//! **Invariant:** the only module that turns results into words; models and diagnosis return
+//! structured data. Output is deterministic: same input, same bytes.
+
+pub mod case_view;
+pub mod stress_view;
+
+use crate::units::{self, Kind, System};
+use comfy_table::{presets, ContentArrangement, Table};
+
+/// A table in the project's style.
+pub fn table(headers: &[&str]) -> Table {
+    let mut t = Table::new();
+    t.load_style(presets::UTF8_FULL_CONDENSED)
+        .set_content_arrangement(ContentArrangement::Disabled)
+        .set_header(headers.iter().copied());
+    t
+}
+
+/// Format an SI quantity for humans in the chosen unit system.
+pub fn q(si: f64, kind: Kind, sys: System) -> String {
+    units::show(si, kind, sys, false)
+}
+
+/// Format a caliper-sized length (um or mil).
+pub fn fine(si: f64, sys: System) -> String {
+    units::show(si, Kind::Length, sys, true)
+}
+
+/// Number with a fixed count of decimals.
+pub fn f(v: f64, decimals: usize) -> String {
+    format!("{v:.decimals$}")
+}
+
+/// Percent with sign, from a fraction.
+pub fn pct(frac: f64, decimals: usize) -> String {
+    format!("{:+.decimals$} %", frac * 100.0)
+}
+
+/// Position across the width in mm (or in), the trade's way of naming lanes.
+pub fn pos(si: f64, sys: System) -> String {
+    match sys {
+        System::Si => format!("{:.0} mm", si * 1e3),
+        System::Us => format!("{:.1} in", si / units::INCH_M),
+    }
+}
+
+/// The safety note every output that advises action carries.
+pub const SAFETY: &str = "Safety: rolls are heavy and can burst, telescope or fall. These findings support, and do not replace, site procedures, local codes and the judgement of qualified people; handle, wind and store rolls only as your site's procedures allow.";

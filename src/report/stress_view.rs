@@ -1,0 +1,108 @@
+//! `stress` output: per-lane wound-in state.
+
+use super::{pos, q, table};
+use crate::case::Case;
+use crate::units::{Kind, System};
+use crate::winding::Wound;
+use serde_json::{json, Value};
+use std::fmt::Write;
+
+/// Per-lane table of the wound-in state.
+pub fn text(c: &Case, w: &Wound, sys: System) -> String {
+    let mut out = String::new();
+    let _ = writeln!(
+        out,
+        "Case {}: wound-in state, {} lanes, {:.0} layers on {} nodes per lane, CD levelling {:.2}",
+        c.id,
+        w.lanes.len(),
+        w.layers,
+        w.radius_m.len(),
+        w.levelling
+    );
+    let mut t = table(&[
+        "lane",
+        "wound-in tension",
+        "peak pressure",
+        "at radius",
+        "core pressure",
+        "surface 25 mm",
+        "MD stress range",
+        "MD compressive",
+    ]);
+    for (i, l) in w.lanes.iter().enumerate() {
+        let s = &l.summary;
+        let comp = match (s.compressive_from_m, s.compressive_to_m) {
+            (Some(a), Some(b)) => {
+                format!("{} .. {}", q(a, Kind::Length, sys), q(b, Kind::Length, sys))
+            }
+            _ => "none".into(),
+        };
+        t.add_row(vec![
+            format!("{i} @ {}", pos(l.position_m, sys)),
+            q(s.wound_in_tension_mean_n_per_m, Kind::LineForce, sys),
+            q(s.peak_pressure_pa, Kind::Pressure, sys),
+            q(s.peak_pressure_radius_m, Kind::Length, sys),
+            q(s.core_pressure_pa, Kind::Pressure, sys),
+            q(s.surface_zone_pressure_pa, Kind::Pressure, sys),
+            format!(
+                "{} .. {}",
+                q(s.tangential_min_pa, Kind::Pressure, sys),
+                q(s.tangential_max_pa, Kind::Pressure, sys)
+            ),
+            comp,
+        ]);
+    }
+    let _ = writeln!(out, "{t}");
+    let _ = writeln!(
+        out,
+        "Core stiffness: {}. A new layer stops pressing on the roll above a surface speed of about {} (thin-ring estimate); winding speed {}.",
+        w.core_stiffness_pa
+            .map(|e| q(e, Kind::Pressure, sys))
+            .unwrap_or_else(|| "rigid".into()),
+        q(w.lift_off_speed_m_s, Kind::Speed, sys),
+        q(c.winding.speed_m_s, Kind::Speed, sys),
+    );
+    let slack: Vec<String> = w
+        .lanes
+        .iter()
+        .enumerate()
+        .filter(|(_, l)| {
+            l.wound_in_tension_n_per_m
+                .iter()
+                .filter(|&&t| t <= c.material.friction * c.winding.nip_n_per_m + 1e-9)
+                .count()
+                > l.wound_in_tension_n_per_m.len() / 10
+        })
+        .map(|(i, l)| format!("{i} @ {}", pos(l.position_m, sys)))
+        .collect();
+    if !slack.is_empty() {
+        let _ = writeln!(
+            out,
+            "Lanes wound slack for more than a tenth of the build (web tension fell to zero): {}",
+            slack.join(", ")
+        );
+    }
+    out
+}
+
+/// JSON with full radial arrays per lane.
+pub fn json(c: &Case, w: &Wound) -> Value {
+    json!({
+        "case": c.id,
+        "radius_m": w.radius_m,
+        "layers": w.layers,
+        "layers_per_node": w.layers_per_node,
+        "levelling": w.levelling,
+        "core_stiffness_pa": w.core_stiffness_pa,
+        "lift_off_speed_m_s": w.lift_off_speed_m_s,
+        "lanes": w.lanes.iter().map(|l| json!({
+            "position_m": l.position_m,
+            "caliper_m": l.caliper_m,
+            "radius_m": w.radius_m,
+            "radial_stress_pa": l.radial_stress_pa,
+            "tangential_stress_pa": l.tangential_stress_pa,
+            "wound_in_tension_n_per_m": l.wound_in_tension_n_per_m,
+            "summary": l.summary,
+        })).collect::<Vec<_>>(),
+    })
+}

@@ -1,0 +1,34 @@
+//! Stresses of a rotating annular disk (the spinning roll), superposed on the wound-in state.
+
+/// Radial and tangential stress (Pa) at radius `r` of a free rotating annulus, plane stress:
+///
+/// sigma_r = (3+nu)/8 rho w^2 (b^2 + a^2 - a^2 b^2 / r^2 - r^2)
+/// sigma_t = (3+nu)/8 rho w^2 (b^2 + a^2 + a^2 b^2 / r^2 - (1+3 nu)/(3+nu) r^2)
+///
+/// (Timoshenko and Goodier, Theory of Elasticity, 3rd ed., 1970, rotating disks.)
+///
+/// # Units
+/// `rho` kg/m3, `omega` rad/s, radii m; returns (Pa, Pa), tension positive.
+///
+/// ```
+/// let (_, st) = rollsleuth::winding::disk_stress(700.0, 20.0 * std::f64::consts::PI, 0.3, 0.05, 0.5, 0.05);
+/// assert!((st / 1e3 - 571.18).abs() < 0.05);
+/// ```
+pub fn disk_stress(rho: f64, omega: f64, nu: f64, a: f64, b: f64, r: f64) -> (f64, f64) {
+    let k = (3.0 + nu) / 8.0 * rho * omega * omega;
+    let (a2, b2, r2) = (a * a, b * b, r * r);
+    let sr = k * (b2 + a2 - a2 * b2 / r2 - r2);
+    let st = k * (b2 + a2 + a2 * b2 / r2 - (1.0 + 3.0 * nu) / (3.0 + nu) * r2);
+    (sr, st)
+}
+
+/// Surface speed (m/s) at which a new layer no longer presses on the roll: a free ring spinning
+/// at surface speed v needs hoop stress rho v^2 to hold itself, so it adds interlayer pressure
+/// (sigma_w - rho v^2) h / r (thin-ring equilibrium, derived); pressure vanishes at
+/// v = sqrt(sigma_w / rho).
+///
+/// # Units
+/// `wound_in_stress_pa` Pa, `rho` kg/m3; returns m/s.
+pub fn lift_off_speed(wound_in_stress_pa: f64, rho: f64) -> f64 {
+    (wound_in_stress_pa.max(0.0) / rho).sqrt()
+}

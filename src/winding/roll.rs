@@ -1,0 +1,304 @@
+//! The whole roll: all lanes wound together, coupled through the shared web and winder.
+//!
+//! Lane coupling (finite-width winding, after the idea of Cole and Hakiel 1992 and Lee and Wickert
+//! 2002, from memory): every lane shares one rotation, so a lane whose compressed build is larger
+//! by dR than the width-weighted mean is stretched by about dR/R more than the mean lane. The web
+//! strain in lane i is eps_0 + (1 - levelling) (R_i - R)/R; lane tension is E_MD c_i times that
+//! strain, zero where it would go negative (a slack lane), and eps_0 is found so the lane tensions
+//! add up to the winder's web tension. Each lane then adds its own pressure, compresses its own
+//! stack (Pfeiffer law), and so feeds back on its radius: a thick lane takes more tension,
+//! compresses more and partly closes its own excess, which is why caliper differences do not
+//! stack proportionally. Published 2-D studies find CD differences partly levelled inside the
+//! roll; `levelling` (0 = independent lanes, the upper bound; 1 = uniform tension, the lower
+//! bound) scales the lane-to-lane strain differences to bound that effect.
+
+use super::centrifugal::{disk_stress, lift_off_speed};
+use super::hakiel::{LaneModel, LaneState};
+use crate::case::Case;
+use crate::lanes::Lanes;
+use serde::Serialize;
+
+/// Discretisation and coupling options.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Options {
+    /// Number of radial nodes (layer groups) per lane.
+    pub nodes: usize,
+    /// CD levelling fraction, 0..1.
+    pub levelling: f64,
+}
+
+impl Default for Options {
+    fn default() -> Self {
+        Options {
+            nodes: 600,
+            levelling: DEFAULT_LEVELLING,
+        }
+    }
+}
+
+/// Default CD levelling fraction: an assumption between the published bounds (independent lanes
+/// overstate differences; a fully levelled roll hides them).
+pub const DEFAULT_LEVELLING: f64 = 0.5;
+
+/// The winding model failed.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+pub enum WindError {
+    /// A linear solve failed.
+    #[error("winding solve failed in lane {lane} at node {step} of {nodes}; the stack law or core stiffness may be unphysical (check material.stack and roll.core)")]
+    Solve {
+        lane: usize,
+        step: usize,
+        nodes: usize,
+    },
+    /// Bad options.
+    #[error("{0}")]
+    Options(String),
+}
+
+/// Summary of one lane's wound-in state.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct LaneSummary {
+    /// Peak interlayer pressure, Pa.
+    pub peak_pressure_pa: f64,
+    /// Radius of the peak, m.
+    pub peak_pressure_radius_m: f64,
+    /// Interlayer pressure on the core, Pa.
+    pub core_pressure_pa: f64,
+    /// Mean interlayer pressure over the outer 25 mm (the zone a hardness reading senses), Pa.
+    pub surface_zone_pressure_pa: f64,
+    /// Smallest and largest tangential stress, Pa.
+    pub tangential_min_pa: f64,
+    pub tangential_max_pa: f64,
+    /// Radii between which the tangential stress is compressive (starring / crepe risk), m.
+    pub compressive_from_m: Option<f64>,
+    pub compressive_to_m: Option<f64>,
+    /// Mean wound-in tension over the build, N/m.
+    pub wound_in_tension_mean_n_per_m: f64,
+    /// Compressed outer radius at the end of winding, m.
+    pub outer_radius_m: f64,
+    /// Lowest interlayer pressure within the outer 25 mm while still spinning at the final
+    /// speed (wound-in minus rotating-disk radial stress), Pa.
+    pub running_min_surface_pressure_pa: f64,
+}
+
+/// One lane's wound-in stresses.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct LaneStress {
+    /// Lane centre, m from the front edge.
+    pub position_m: f64,
+    /// Lane caliper, m.
+    pub caliper_m: f64,
+    /// Radial stress at each grid radius, Pa (compression negative).
+    pub radial_stress_pa: Vec<f64>,
+    /// Tangential stress, Pa (compression negative).
+    pub tangential_stress_pa: Vec<f64>,
+    /// Wound-in tension each node was wound with, N/m.
+    pub wound_in_tension_n_per_m: Vec<f64>,
+    pub summary: LaneSummary,
+}
+
+/// Wound-in state of the roll.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Wound {
+    /// Shared nominal grid radii, m.
+    pub radius_m: Vec<f64>,
+    pub lanes: Vec<LaneStress>,
+    /// Number of layers wound (mean lane).
+    pub layers: f64,
+    /// Layers per grid node.
+    pub layers_per_node: f64,
+    /// Surface speed at which a layer wound at the roll's mean wound-in stress would stop
+    /// pressing on the roll, m/s.
+    pub lift_off_speed_m_s: f64,
+    /// CD levelling fraction used.
+    pub levelling: f64,
+    /// Core stiffness used, Pa (`None`: rigid).
+    pub core_stiffness_pa: Option<f64>,
+}
+
+/// Find eps_0 so that sum w_i max(0, k_i (eps_0 + s_i)) = total (bisection; monotone).
+fn shared_strain(k: &[f64], s: &[f64], w: &[f64], total: f64) -> f64 {
+    let f = |e: f64| -> f64 {
+        k.iter()
+            .zip(s)
+            .zip(w)
+            .map(|((k, s), w)| w * k * (e + s).max(0.0))
+            .sum::<f64>()
+            - total
+    };
+    let smax = s.iter().cloned().fold(f64::NEG_INFINITY, f64::max);
+    let mut lo = -smax;
+    let mut hi = -smax + 1.0;
+    while f(hi) < 0.0 && hi < 1e3 {
+        hi *= 2.0;
+    }
+    for _ in 0..100 {
+        let mid = 0.5 * (lo + hi);
+        if f(mid) < 0.0 {
+            lo = mid;
+        } else {
+            hi = mid;
+        }
+        if hi - lo < 1e-15 {
+            break;
+        }
+    }
+    0.5 * (lo + hi)
+}
+
+/// Lane model of a case.
+pub fn lane_model(case: &Case) -> LaneModel {
+    LaneModel {
+        e_t: case.material.md_modulus_pa,
+        stack: case.material.stack,
+        poisson: case.material.poisson,
+        core_stiffness: super::core::of(&case.roll.core, 0.5 * case.roll.core_diameter_m),
+    }
+}
+
+/// Wind every lane of the roll.
+pub fn wind(case: &Case, lanes: &Lanes, opt: Options) -> Result<Wound, WindError> {
+    if opt.nodes < 4 {
+        return Err(WindError::Options("nodes must be at least 4".into()));
+    }
+    if !(0.0..=1.0).contains(&opt.levelling) {
+        return Err(WindError::Options("levelling must be within 0..1".into()));
+    }
+    let mat = &case.material;
+    let model = lane_model(case);
+    let rc = 0.5 * case.roll.core_diameter_m;
+    let big_r = 0.5 * case.roll.diameter_m;
+    let cbar = lanes.mean_caliper_m;
+    let layers = (big_r - rc) / cbar;
+    let nodes = opt.nodes.min(layers.ceil().max(4.0) as usize);
+    let h = (big_r - rc) / (nodes as f64 - 1.0);
+    let per_node = h / cbar;
+    let grid: Vec<f64> = (0..nodes).map(|j| rc + j as f64 * h).collect();
+    let n = lanes.lanes.len();
+    let widths = lanes.widths();
+    let cal = lanes.calipers();
+    let width: f64 = widths.iter().sum();
+    let stiff: Vec<f64> = cal.iter().map(|c| mat.md_modulus_pa * c).collect();
+    let mut states: Vec<LaneState> = (0..n).map(|_| LaneState::new(grid.clone())).collect();
+    let v = case.winding.speed_m_s;
+    let rho = mat.density_kg_m3;
+    let nip_part = mat.friction * case.winding.nip_n_per_m;
+    let mut radii = vec![rc; n];
+    let mut offs = vec![0.0; n];
+    let mut tens = vec![0.0; n];
+    for (k, &rk) in grid.iter().enumerate() {
+        if k > 0 {
+            for (i, st) in states.iter().enumerate() {
+                radii[i] = st.outer_radius(&model, per_node, cal[i]);
+            }
+        }
+        let rbar = radii.iter().zip(&widths).map(|(r, w)| r * w).sum::<f64>() / width;
+        for i in 0..n {
+            offs[i] = (1.0 - opt.levelling) * (radii[i] - rbar) / rbar;
+        }
+        let t_web = case.winding.tension.at(2.0 * rbar.max(rk));
+        let e0 = shared_strain(&stiff, &offs, &widths, t_web * width);
+        for i in 0..n {
+            tens[i] = stiff[i] * (e0 + offs[i]).max(0.0);
+        }
+        for (i, st) in states.iter_mut().enumerate() {
+            let wit = tens[i] + nip_part;
+            let sigma_w = wit / cal[i];
+            let eff = (wit - rho * cal[i] * v * v).max(0.0);
+            let p_new = eff * per_node / rk;
+            st.add(&model, p_new, sigma_w, wit)
+                .map_err(|f| WindError::Solve {
+                    lane: i,
+                    step: f.step,
+                    nodes,
+                })?;
+        }
+    }
+    for (i, st) in states.iter_mut().enumerate() {
+        st.finish((tens[i] + nip_part) / cal[i]);
+    }
+    let omega = if big_r > 0.0 { v / big_r } else { 0.0 };
+    let mut mean_sigma = 0.0;
+    let out: Vec<LaneStress> = states
+        .into_iter()
+        .enumerate()
+        .map(|(i, st)| {
+            let s = summarise(&st, &model, per_node, cal[i], rho, omega, mat.poisson);
+            mean_sigma += s.wound_in_tension_mean_n_per_m / cal[i] * widths[i] / width;
+            LaneStress {
+                position_m: lanes.lanes[i].position_m,
+                caliper_m: cal[i],
+                radial_stress_pa: st.sr,
+                tangential_stress_pa: st.st,
+                wound_in_tension_n_per_m: st.wit,
+                summary: s,
+            }
+        })
+        .collect();
+    Ok(Wound {
+        radius_m: grid,
+        lanes: out,
+        layers,
+        layers_per_node: per_node,
+        lift_off_speed_m_s: lift_off_speed(mean_sigma, rho),
+        levelling: opt.levelling,
+        core_stiffness_pa: model.core_stiffness,
+    })
+}
+
+/// Depth of the surface zone a hardness reading senses, m (common practice: readings respond to
+/// the outer few centimetres).
+pub const SURFACE_ZONE_M: f64 = 0.025;
+
+fn summarise(
+    st: &LaneState,
+    m: &LaneModel,
+    per_node: f64,
+    caliper: f64,
+    rho: f64,
+    omega: f64,
+    nu: f64,
+) -> LaneSummary {
+    let r = &st.r;
+    let n = st.wound;
+    let big_r = r[n - 1];
+    let mut peak = (0.0, r[0]);
+    let (mut tmin, mut tmax) = (f64::INFINITY, f64::NEG_INFINITY);
+    let (mut cfrom, mut cto) = (None, None);
+    let (mut zsum, mut zn) = (0.0, 0);
+    let mut run_min = f64::INFINITY;
+    for i in 0..n {
+        let p = -st.sr[i];
+        if p > peak.0 {
+            peak = (p, r[i]);
+        }
+        tmin = tmin.min(st.st[i]);
+        tmax = tmax.max(st.st[i]);
+        if st.st[i] < 0.0 {
+            cfrom.get_or_insert(r[i]);
+            cto = Some(r[i]);
+        }
+        if r[i] >= big_r - SURFACE_ZONE_M {
+            zsum += p;
+            zn += 1;
+            if i + 1 < n {
+                let (sr_c, _) = disk_stress(rho, omega, nu, r[0], big_r, r[i]);
+                run_min = f64::min(run_min, p - sr_c);
+            }
+        }
+    }
+    let wit_mean = st.wit[..n].iter().sum::<f64>() / n as f64;
+    LaneSummary {
+        peak_pressure_pa: peak.0,
+        peak_pressure_radius_m: peak.1,
+        core_pressure_pa: -st.sr[0],
+        surface_zone_pressure_pa: if zn > 0 { zsum / zn as f64 } else { 0.0 },
+        tangential_min_pa: tmin,
+        tangential_max_pa: tmax,
+        compressive_from_m: cfrom,
+        compressive_to_m: cto,
+        wound_in_tension_mean_n_per_m: wit_mean,
+        outer_radius_m: st.outer_radius(m, per_node, caliper),
+        running_min_surface_pressure_pa: if run_min.is_finite() { run_min } else { 0.0 },
+    }
+}
