@@ -57,6 +57,7 @@ pub struct LaneState {
     c: Vec<f64>,
     d: Vec<f64>,
     s: Vec<f64>,
+    pred: Vec<f64>,
 }
 
 /// The linear system at one accretion step could not be solved.
@@ -81,6 +82,7 @@ impl LaneState {
             c: vec![0.0; n],
             d: vec![0.0; n],
             s: vec![0.0; n],
+            pred: vec![0.0; n],
         }
     }
 
@@ -108,9 +110,48 @@ impl LaneState {
         }
         let h = self.r[1] - self.r[0];
         let n = k + 1;
+        // Predictor with E_r at the current pressure, corrector with E_r at the mid-step
+        // pressure P - ds/2 (the radial modulus follows the pressure during the step).
+        self.solve(m, k, h, kappa, p_new, false)?;
+        self.pred[..n].copy_from_slice(&self.d[..n]);
+        self.solve(m, k, h, kappa, p_new, true)?;
+        let ds = &self.d;
         for i in 0..k {
             let r = self.r[i];
-            let er = m.stack.modulus(-self.sr[i]);
+            let rds = if i == 0 {
+                kappa * ds[0]
+            } else {
+                r * (ds[i + 1] - ds[i - 1]) / (2.0 * h)
+            };
+            self.sr[i] += ds[i];
+            self.st[i] += ds[i] + rds;
+        }
+        // Trapezoid weight: the new node carries half its own layer's pressure, so the sum of
+        // increments integrates the continuum accretion integral to second order in h.
+        self.sr[k] = 0.5 * ds[k];
+        let rds_k = self.r[k] * (ds[k] - ds[k - 1]) / h;
+        self.st[k] = sigma_w + 0.5 * (ds[k] + rds_k);
+        self.wit[k] = wit;
+        self.wound = n;
+        Ok(())
+    }
+
+    /// Solve the increment system for step `k` into `self.d`; with `mid`, evaluate E_r at the
+    /// mid-step pressure using the predictor in `self.pred`.
+    fn solve(
+        &mut self,
+        m: &LaneModel,
+        k: usize,
+        h: f64,
+        kappa: f64,
+        p_new: f64,
+        mid: bool,
+    ) -> Result<(), StepFailure> {
+        let n = k + 1;
+        for i in 0..k {
+            let r = self.r[i];
+            let p_now = -self.sr[i] - if mid { 0.5 * self.pred[i] } else { 0.0 };
+            let er = m.stack.modulus(p_now);
             let q = r * r / (h * h);
             let p = 1.5 * r / h;
             let (ai, bi, ci) = (q - p, -2.0 * q + (1.0 - m.e_t / er), q + p);
@@ -131,34 +172,17 @@ impl LaneState {
         self.b[k] = 1.0;
         self.c[k] = 0.0;
         self.d[k] = -p_new;
-        if !thomas(
+        if thomas(
             &self.a[..n],
             &self.b[..n],
             &self.c[..n],
             &mut self.d[..n],
             &mut self.s[..n],
         ) {
-            return Err(StepFailure { step: k });
+            Ok(())
+        } else {
+            Err(StepFailure { step: k })
         }
-        let ds = &self.d;
-        for i in 0..k {
-            let r = self.r[i];
-            let rds = if i == 0 {
-                kappa * ds[0]
-            } else {
-                r * (ds[i + 1] - ds[i - 1]) / (2.0 * h)
-            };
-            self.sr[i] += ds[i];
-            self.st[i] += ds[i] + rds;
-        }
-        // Trapezoid weight: the new node carries half its own layer's pressure, so the sum of
-        // increments integrates the continuum accretion integral to second order in h.
-        self.sr[k] = 0.5 * ds[k];
-        let rds_k = self.r[k] * (ds[k] - ds[k - 1]) / h;
-        self.st[k] = sigma_w + 0.5 * (ds[k] + rds_k);
-        self.wit[k] = wit;
-        self.wound = n;
-        Ok(())
     }
 
     /// End of winding: the outermost node is the free surface, with zero radial stress and

@@ -30,7 +30,7 @@ pub struct Options {
 impl Default for Options {
     fn default() -> Self {
         Options {
-            nodes: 600,
+            nodes: 401,
             levelling: DEFAULT_LEVELLING,
         }
     }
@@ -156,21 +156,18 @@ pub fn lane_model(case: &Case) -> LaneModel {
     }
 }
 
-/// Wind every lane of the roll.
-pub fn wind(case: &Case, lanes: &Lanes, opt: Options) -> Result<Wound, WindError> {
-    if opt.nodes < 4 {
-        return Err(WindError::Options("nodes must be at least 4".into()));
-    }
-    if !(0.0..=1.0).contains(&opt.levelling) {
-        return Err(WindError::Options("levelling must be within 0..1".into()));
-    }
+/// Accrete all lanes on a grid of `nodes` nodes; returns the lane states and layers per node.
+fn accrete(
+    case: &Case,
+    lanes: &Lanes,
+    nodes: usize,
+    levelling: f64,
+) -> Result<(Vec<LaneState>, f64), WindError> {
     let mat = &case.material;
     let model = lane_model(case);
     let rc = 0.5 * case.roll.core_diameter_m;
     let big_r = 0.5 * case.roll.diameter_m;
     let cbar = lanes.mean_caliper_m;
-    let layers = (big_r - rc) / cbar;
-    let nodes = opt.nodes.min(layers.ceil().max(4.0) as usize);
     let h = (big_r - rc) / (nodes as f64 - 1.0);
     let per_node = h / cbar;
     let grid: Vec<f64> = (0..nodes).map(|j| rc + j as f64 * h).collect();
@@ -186,16 +183,19 @@ pub fn wind(case: &Case, lanes: &Lanes, opt: Options) -> Result<Wound, WindError
     let mut radii = vec![rc; n];
     let mut offs = vec![0.0; n];
     let mut tens = vec![0.0; n];
+    // Lane radii are refreshed at least 400 times over the build (every node on coarser grids).
+    let every = nodes.div_ceil(400).max(1);
     for (k, &rk) in grid.iter().enumerate() {
-        if k > 0 {
+        if k > 0 && (k % every == 0 || k + 1 == nodes) {
             for (i, st) in states.iter().enumerate() {
                 radii[i] = st.outer_radius(&model, per_node, cal[i]);
             }
+            let rbar = radii.iter().zip(&widths).map(|(r, w)| r * w).sum::<f64>() / width;
+            for i in 0..n {
+                offs[i] = (1.0 - levelling) * (radii[i] - rbar) / rbar;
+            }
         }
         let rbar = radii.iter().zip(&widths).map(|(r, w)| r * w).sum::<f64>() / width;
-        for i in 0..n {
-            offs[i] = (1.0 - opt.levelling) * (radii[i] - rbar) / rbar;
-        }
         let t_web = case.winding.tension.at(2.0 * rbar.max(rk));
         let e0 = shared_strain(&stiff, &offs, &widths, t_web * width);
         for i in 0..n {
@@ -217,6 +217,66 @@ pub fn wind(case: &Case, lanes: &Lanes, opt: Options) -> Result<Wound, WindError
     for (i, st) in states.iter_mut().enumerate() {
         st.finish((tens[i] + nip_part) / cal[i]);
     }
+    Ok((states, per_node))
+}
+
+/// Richardson extrapolation of a first-order field from grids h (fine, 2m+1 nodes) and 2h
+/// (coarse, m+1 nodes): f = 2 f_h - f_2h at shared nodes, the correction interpolated between.
+fn richardson(fine: &mut [f64], coarse: &[f64]) {
+    let n = fine.len();
+    let corr: Vec<f64> = coarse
+        .iter()
+        .enumerate()
+        .map(|(j, &c)| fine[2 * j] - c)
+        .collect();
+    for (i, f) in fine.iter_mut().enumerate().take(n - 1) {
+        let c = if i % 2 == 0 {
+            corr[i / 2]
+        } else {
+            0.5 * (corr[i / 2] + corr[i / 2 + 1])
+        };
+        *f += c;
+    }
+}
+
+/// Wind every lane of the roll.
+///
+/// Lumping layers into nodes converges at first order in the lump size (the layers are
+/// discrete, the nodes are not), so the result is Richardson-extrapolated from the requested grid
+/// and one with half as many intervals, which makes it second order.
+pub fn wind(case: &Case, lanes: &Lanes, opt: Options) -> Result<Wound, WindError> {
+    if opt.nodes < 5 {
+        return Err(WindError::Options("nodes must be at least 5".into()));
+    }
+    if !(0.0..=1.0).contains(&opt.levelling) {
+        return Err(WindError::Options("levelling must be within 0..1".into()));
+    }
+    let mat = &case.material;
+    let model = lane_model(case);
+    let rc = 0.5 * case.roll.core_diameter_m;
+    let big_r = 0.5 * case.roll.diameter_m;
+    let layers = (big_r - rc) / lanes.mean_caliper_m;
+    // odd node count (even number of intervals) so the half grid nests in the full one
+    let nodes = {
+        let n = opt.nodes.min(layers.ceil().max(5.0) as usize);
+        if n % 2 == 0 {
+            n + 1
+        } else {
+            n
+        }
+    };
+    let (mut states, per_node) = accrete(case, lanes, nodes, opt.levelling)?;
+    let (coarse, _) = accrete(case, lanes, nodes.div_ceil(2), opt.levelling)?;
+    for (f, c) in states.iter_mut().zip(&coarse) {
+        richardson(&mut f.sr, &c.sr);
+        richardson(&mut f.st, &c.st);
+    }
+    let grid = states.first().map(|s| s.r.clone()).unwrap_or_default();
+    let widths = lanes.widths();
+    let cal = lanes.calipers();
+    let width: f64 = widths.iter().sum();
+    let rho = mat.density_kg_m3;
+    let v = case.winding.speed_m_s;
     let omega = if big_r > 0.0 { v / big_r } else { 0.0 };
     let mut mean_sigma = 0.0;
     let out: Vec<LaneStress> = states
