@@ -14,5 +14,6 @@ pub mod interp;
 pub mod lanes;
 pub mod numeric;
 pub mod report;
+pub mod storage;
 pub mod units;
 pub mod winding;

@@ -31,7 +31,7 @@ const NU: &str = "small Poisson coupling as used in wound-roll models (from memo
 const CREEP: &str =
     "paper compliance grows ~5-15 % per decade of time at 50 % RH (Coffin 2005 review, from memory); Burgers fit, assumption";
 const CREEP_R: &str =
-    "thickness direction creeps far more than MD (Coffin 2005 review, from memory); assumption";
+    "radial creep relative to the stack's tangent compliance; set so a roll loses of order a third of its interlayer pressure in a month (assumption; fit to data)";
 const ARRH: &str = "activation energy of paper creep of order 100 kJ/mol (from memory)";
 const MSHIFT: &str =
     "time-moisture shift log a_M = -c (MC - MC_ref) (common practice; value assumed)";
@@ -73,9 +73,9 @@ const PAPER_CREEP: (Def, Def, Def, Def, Def, Def) = (
     d("0.3", CREEP),
     d("2 d", CREEP),
     d("400 d", CREEP),
-    d("0.6", CREEP_R),
+    d("0.05", CREEP_R),
     d("3 d", CREEP_R),
-    d("150 d", CREEP_R),
+    d("2000 d", CREEP_R),
 );
 
 /// Defaults for a grade class. `Custom` returns `None`: every field must be given.

@@ -71,6 +71,8 @@ pub enum Command {
         #[arg(long, default_value_t = crate::winding::DEFAULT_LEVELLING)]
         levelling: f64,
     },
+    /// Creep, relaxation and moisture change through the storage history, per lane.
+    Age(CaseArg),
 }
 
 /// What a command produced.
@@ -90,6 +92,15 @@ pub struct Failure {
 
 impl From<CaseError> for Failure {
     fn from(e: CaseError) -> Self {
+        Failure {
+            message: format!("error: {e}"),
+            code: 2,
+        }
+    }
+}
+
+impl From<crate::storage::AgeError> for Failure {
+    fn from(e: crate::storage::AgeError) -> Self {
         Failure {
             message: format!("error: {e}"),
             code: 2,
@@ -187,6 +198,17 @@ pub fn run(cli: &Cli) -> Result<Outcome, Failure> {
                 emit_json(&report::stress_view::json(&c, &w))
             } else {
                 report::stress_view::text(&c, &w, sys)
+            }))
+        }
+        Command::Age(arg) => {
+            let c = load(arg)?;
+            let l = crate::lanes::build(&c);
+            let w = crate::winding::wind(&c, &l, crate::winding::Options::default())?;
+            let a = crate::storage::age(&c, &l, &w, None, &crate::storage::AgeOptions::default())?;
+            Ok(Outcome::Ok(if cli.json {
+                emit_json(&report::age_view::json(&c, &a))
+            } else {
+                report::age_view::text(&c, &a, sys)
             }))
         }
     }

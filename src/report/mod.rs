@@ -3,6 +3,7 @@
 //! **Invariant:** the only module that turns results into words; models and diagnosis return
 //! structured data. Output is deterministic: same input, same bytes.
 
+pub mod age_view;
 pub mod case_view;
 pub mod stress_view;
 

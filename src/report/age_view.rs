@@ -1,0 +1,121 @@
+//! `age` output: each lane at the end of storage, and a short time line.
+
+use super::{f, pos, table};
+use crate::case::Case;
+use crate::storage::Aged;
+use crate::units::System;
+use serde_json::{json, Value};
+use std::fmt::Write;
+
+/// Width-weighted mean of the last value of each lane's series.
+fn spread(v: &[f64]) -> (f64, f64, f64) {
+    let mean = v.iter().sum::<f64>() / v.len().max(1) as f64;
+    let lo = v.iter().cloned().fold(f64::INFINITY, f64::min);
+    let hi = v.iter().cloned().fold(f64::NEG_INFINITY, f64::max);
+    (mean, lo, hi)
+}
+
+/// Per-lane table at the end of storage plus a time line at stretch ends.
+pub fn text(c: &Case, a: &Aged, sys: System) -> String {
+    let mut out = String::new();
+    let n = a.times_days.len() - 1;
+    let _ = writeln!(
+        out,
+        "Case {}: {} lanes through {:.1} d of storage",
+        c.id,
+        a.lanes.len(),
+        a.times_days[n]
+    );
+    let unw: Vec<f64> = a.lanes.iter().map(|l| l.strain_at_unwind[n]).collect();
+    let (mean, _, _) = spread(&unw);
+    let mut t = table(&[
+        "lane",
+        "moisture %",
+        "permanent",
+        "delayed",
+        "hygro",
+        "at unwind (outer third)",
+        "vs mean mm/m",
+        "diameter change",
+        "hardness",
+    ]);
+    for (i, l) in a.lanes.iter().enumerate() {
+        let dd = l.diameter_m[n] - l.diameter_m[0];
+        t.add_row(vec![
+            format!("{i} @ {}", pos(l.position_m, sys)),
+            format!("{:.2} -> {:.2}", l.moisture_pct[0], l.moisture_pct[n]),
+            format!("{:.4} %", l.permanent_strain[n] * 100.0),
+            format!("{:.4} %", l.delayed_strain[n] * 100.0),
+            format!("{:+.4} %", l.hygro_strain[n] * 100.0),
+            format!("{:+.4} %", l.strain_at_unwind[n] * 100.0),
+            format!("{:+.2}", (l.strain_at_unwind[n] - mean) * 1e3),
+            match sys {
+                System::Si => format!("{:+.2} mm", dd * 1e3),
+                System::Us => format!("{:+.1} mil", dd / 25.4e-6),
+            },
+            format!("{:.1} -> {:.1}", l.hardness[0], l.hardness[n]),
+        ]);
+    }
+    let _ = writeln!(out, "{t}");
+    let mut tl = table(&[
+        "day",
+        "moisture % (mean)",
+        "hardness (mean)",
+        "surface pressure kPa (mean)",
+        "length spread mm/m",
+    ]);
+    let marks: Vec<usize> = {
+        let mut m: Vec<usize> = (0..=4).map(|k| k * n / 4).collect();
+        m.dedup();
+        m
+    };
+    for &k in &marks {
+        let col = |g: &dyn Fn(usize) -> f64| {
+            a.lanes.iter().enumerate().map(|(i, _)| g(i)).sum::<f64>() / a.lanes.len() as f64
+        };
+        let s: Vec<f64> = a.lanes.iter().map(|l| l.strain_at_unwind[k]).collect();
+        let (_, lo, hi) = spread(&s);
+        tl.add_row(vec![
+            f(a.times_days[k], 1),
+            f(col(&|i| a.lanes[i].moisture_pct[k]), 2),
+            f(col(&|i| a.lanes[i].hardness[k]), 1),
+            f(col(&|i| a.lanes[i].surface_pressure_pa[k]) / 1e3, 1),
+            f((hi - lo) * 1e3, 3),
+        ]);
+    }
+    let _ = writeln!(out, "{tl}");
+    let _ = writeln!(
+        out,
+        "Equilibrium moisture of the stretches: {}. Hardness map: H = {:.1} + {:.1} ln(P / {:.0} kPa) ({}).",
+        a.equilibrium_moisture_pct
+            .iter()
+            .map(|m| format!("{m:.2} %"))
+            .collect::<Vec<_>>()
+            .join(", "),
+        a.hardness_map.a,
+        a.hardness_map.b,
+        a.hardness_map.pressure_ref_pa / 1e3,
+        a.hardness_map.source
+    );
+    let _ = writeln!(
+        out,
+        "Strain at unwind is the stress-free MD strain a lane keeps (permanent + delayed creep + hygroexpansion); a lane longer than the mean by more than about 0.5 mm/m runs visibly slack on light webs (common practice)."
+    );
+    for note in &a.notes {
+        let _ = writeln!(out, "note: {note}");
+    }
+    out
+}
+
+/// JSON with arrays over `times_days`.
+pub fn json(c: &Case, a: &Aged) -> Value {
+    json!({
+        "case": c.id,
+        "times_days": a.times_days,
+        "radius_m": a.radius_m,
+        "equilibrium_moisture_pct": a.equilibrium_moisture_pct,
+        "hardness_map": a.hardness_map,
+        "notes": a.notes,
+        "lanes": a.lanes,
+    })
+}

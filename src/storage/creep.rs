@@ -1,0 +1,115 @@
+//! Burgers four-element creep law: closed forms and the incremental update used in the roll.
+//!
+//! A Maxwell element (spring E, dashpot eta_M: the permanent, viscous part) in series with a
+//! Kelvin element (spring E_K, dashpot eta_K: the delayed, recoverable part). Findley, Lai and
+//! Onaran (1976) Creep and Relaxation of Nonlinear Viscoelastic Materials, ch. 5 (from memory).
+//! Chosen over a Prony series or Findley's power law because it separates a permanent part (the
+//! set a lane keeps at unwind) from a recoverable one with three parameters per direction, few
+//! enough to fit per lane; its creep is log-time-like over the one to two decades that matter.
+//!
+//! Relative parameters (see [`crate::case::Burgers`]): delayed = E/E_K, retardation tau_K =
+//! eta_K/E_K, viscous time tau_v = eta_M/E.
+
+use crate::case::Burgers;
+
+/// Creep compliance J(t) (1/Pa) at reduced time `t` (s) for elastic modulus `e` (Pa):
+/// J(t) = (1/E) [1 + delayed (1 - exp(-t/tau_K)) + t/tau_v].
+///
+/// ```
+/// use rollsleuth::case::Burgers;
+/// // standard linear solid limit (tau_v -> inf): E1 = 5 GPa, E2 = 10 GPa, eta = 1e15 Pa s
+/// let b = Burgers { delayed: 0.5, retardation_s: 1e5, viscous_time_s: f64::INFINITY };
+/// let j = rollsleuth::storage::creep_compliance(&b, 5e9, 1e5);
+/// assert!((j / 2.6321e-10 - 1.0).abs() < 1e-4);
+/// ```
+pub fn creep_compliance(b: &Burgers, e: f64, t: f64) -> f64 {
+    (1.0 + b.delayed * (1.0 - (-t / b.retardation_s).exp()) + t / b.viscous_time_s) / e
+}
+
+/// Relaxation modulus E(t) (Pa) of the Burgers model at reduced time `t` (s).
+///
+/// With E1 = E, eta1 = E tau_v, E2 = E/delayed, eta2 = E2 tau_K, the model's operator equation
+/// sigma + p1 sigma' + p2 sigma'' = q1 eps' + q2 eps'' has p1 = eta1/E1 + eta1/E2 + eta2/E2,
+/// p2 = eta1 eta2/(E1 E2), q1 = eta1, q2 = eta1 eta2/E2, and a unit strain step relaxes as
+/// E(t) = [(q1 - q2 r1) exp(-r1 t) - (q1 - q2 r2) exp(-r2 t)] / A, A = sqrt(p1^2 - 4 p2),
+/// r1,2 = (p1 -/+ A)/(2 p2) (Findley, Lai and Onaran 1976, from memory; re-derived and checked
+/// against time stepping in the tests). Without a permanent part (tau_v infinite) it is the
+/// standard linear solid: E(t) = E [E2 + E exp(-t/tau_r)]/(E + E2), tau_r = eta2/(E + E2).
+pub fn relaxation_modulus(b: &Burgers, e: f64, t: f64) -> f64 {
+    let e1 = e;
+    let e2 = if b.delayed > 0.0 {
+        e / b.delayed
+    } else {
+        f64::INFINITY
+    };
+    if !b.viscous_time_s.is_finite() {
+        if !e2.is_finite() {
+            return e1;
+        }
+        let tau_r = e2 * b.retardation_s / (e1 + e2);
+        return e1 * (e2 + e1 * (-t / tau_r).exp()) / (e1 + e2);
+    }
+    let eta1 = e1 * b.viscous_time_s;
+    if !e2.is_finite() {
+        // Maxwell element alone
+        return e1 * (-t / b.viscous_time_s).exp();
+    }
+    let eta2 = e2 * b.retardation_s;
+    let p1 = eta1 / e1 + eta1 / e2 + eta2 / e2;
+    let p2 = eta1 * eta2 / (e1 * e2);
+    let q1 = eta1;
+    let q2 = eta1 * eta2 / e2;
+    let a = (p1 * p1 - 4.0 * p2).sqrt();
+    let r1 = (p1 - a) / (2.0 * p2);
+    let r2 = (p1 + a) / (2.0 * p2);
+    ((q1 - q2 * r1) * (-r1 * t).exp() - (q1 - q2 * r2) * (-r2 * t).exp()) / a
+}
+
+/// Internal state of one Burgers element (strains, dimensionless).
+#[derive(Debug, Clone, Copy, Default, PartialEq)]
+pub struct CreepState {
+    /// Kelvin (delayed, recoverable) strain.
+    pub delayed: f64,
+    /// Viscous (permanent) strain, including mechano-sorptive creep.
+    pub permanent: f64,
+}
+
+/// One backward-Euler step of the Burgers law, linearised about the current stress.
+///
+/// The elastic strain is g(sigma) (sigma/E for MD; the stack law for the radial direction), with
+/// tangent modulus `e_tan` = d sigma / d g. Over a reduced-time step `dxi` (s) with moisture change
+/// `dmc` (percentage points) the stress increment is d sigma = E_hat (d eps - h), where
+/// 1/E_hat = (1 + b + a phi/(1+a)) / e_tan, h = g_n (b + a phi/(1+a)) - a eps_K/(1+a),
+/// a = dxi/tau_K, b = dxi/tau_v + m_s |dmc| (mechano-sorptive creep, Haslach 2000 form
+/// d eps_ms = m_s g |dMC|, from memory). Returns (E_hat, h).
+pub fn step_coefficients(
+    b: &Burgers,
+    mech_sorptive: f64,
+    e_tan: f64,
+    g_n: f64,
+    st: &CreepState,
+    dxi: f64,
+    dmc: f64,
+) -> (f64, f64) {
+    let a = dxi / b.retardation_s;
+    let bb = dxi / b.viscous_time_s + mech_sorptive * dmc.abs();
+    let k = a * b.delayed / (1.0 + a);
+    let e_hat = e_tan / (1.0 + bb + k);
+    let h = g_n * (bb + k) - a * st.delayed / (1.0 + a);
+    (e_hat, h)
+}
+
+/// Update the internal strains after a step, given the elastic strain g at the end of the step.
+pub fn step_update(
+    b: &Burgers,
+    mech_sorptive: f64,
+    g_next: f64,
+    st: &mut CreepState,
+    dxi: f64,
+    dmc: f64,
+) {
+    let a = dxi / b.retardation_s;
+    let bb = dxi / b.viscous_time_s + mech_sorptive * dmc.abs();
+    st.delayed = (st.delayed + a * b.delayed * g_next) / (1.0 + a);
+    st.permanent += bb * g_next;
+}
