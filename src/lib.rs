@@ -10,6 +10,7 @@
 pub mod case;
 pub mod cli;
 pub mod defects;
+pub mod fit;
 pub mod interp;
 pub mod lanes;
 pub mod numeric;

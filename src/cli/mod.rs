@@ -73,6 +73,8 @@ pub enum Command {
     },
     /// Creep, relaxation and moisture change through the storage history, per lane.
     Age(CaseArg),
+    /// Fit the creep model per lane to the measured hardness and diameter; strain at unwind.
+    Fit(CaseArg),
 }
 
 /// What a command produced.
@@ -101,6 +103,15 @@ impl From<CaseError> for Failure {
 
 impl From<crate::storage::AgeError> for Failure {
     fn from(e: crate::storage::AgeError) -> Self {
+        Failure {
+            message: format!("error: {e}"),
+            code: 2,
+        }
+    }
+}
+
+impl From<crate::fit::FitError> for Failure {
+    fn from(e: crate::fit::FitError) -> Self {
         Failure {
             message: format!("error: {e}"),
             code: 2,
@@ -209,6 +220,17 @@ pub fn run(cli: &Cli) -> Result<Outcome, Failure> {
                 emit_json(&report::age_view::json(&c, &a))
             } else {
                 report::age_view::text(&c, &a, sys)
+            }))
+        }
+        Command::Fit(arg) => {
+            let c = load(arg)?;
+            let l = crate::lanes::build(&c);
+            let w = crate::winding::wind(&c, &l, crate::winding::Options::default())?;
+            let f = crate::fit::fit_roll(&c, &l, &w, &crate::storage::AgeOptions::default())?;
+            Ok(Outcome::Ok(if cli.json {
+                emit_json(&report::fit_view::json(&c, &f))
+            } else {
+                report::fit_view::text(&c, &f, sys)
             }))
         }
     }

@@ -5,6 +5,7 @@
 
 pub mod age_view;
 pub mod case_view;
+pub mod fit_view;
 pub mod stress_view;
 
 use crate::units::{self, Kind, System};

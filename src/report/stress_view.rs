@@ -92,6 +92,7 @@ pub fn json(c: &Case, w: &Wound) -> Value {
         "radius_m": w.radius_m,
         "layers": w.layers,
         "layers_per_node": w.layers_per_node,
+        "stack_compression": w.stack_compression,
         "levelling": w.levelling,
         "core_stiffness_pa": w.core_stiffness_pa,
         "lift_off_speed_m_s": w.lift_off_speed_m_s,

@@ -35,9 +35,9 @@ pub struct AgeOptions {
 impl Default for AgeOptions {
     fn default() -> Self {
         AgeOptions {
-            cells_r: 48,
-            cells_x: 48,
-            steps: 30,
+            cells_r: 64,
+            cells_x: 96,
+            steps: 20,
         }
     }
 }
@@ -373,6 +373,36 @@ pub fn prepare(case: &Case, lanes: &Lanes, wound: &Wound, opt: &AgeOptions) -> P
     }
 }
 
+/// What storage does to one lane independently of its creep parameters: the reduced-time step
+/// and the moisture change of each radial cell at each time step (index k * cells + j).
+#[derive(Debug, Clone, PartialEq)]
+pub struct LaneDrive {
+    pub dxi: Vec<f64>,
+    pub dmc: Vec<f64>,
+}
+
+/// Precompute a lane's drive (time shifts and moisture changes).
+pub fn drive(case: &Case, prep: &Prepared, lane: usize) -> LaneDrive {
+    let mat = &case.material;
+    let nr = prep.moisture.r.len();
+    let ns = prep.timeline.steps.len();
+    let mut dxi = Vec::with_capacity(ns * nr);
+    let mut dmc = Vec::with_capacity(ns * nr);
+    for (k, stp) in prep.timeline.steps.iter().enumerate() {
+        let stretch = &prep.timeline.stretches[stp.stretch];
+        let a_t = arrhenius_shift(mat.creep.activation_energy_j_mol, stretch.temperature_k);
+        let mc_old = &prep.moisture.mc[k][lane];
+        let mc_new = &prep.moisture.mc[k + 1][lane];
+        for j in 0..nr {
+            let mc_mid = 0.5 * (mc_old[j] + mc_new[j]);
+            let a_m = moisture_shift(mat.creep.moisture_shift_dec_per_pct, mc_mid, prep.mc_ref);
+            dxi.push(stp.dt / (a_t * a_m));
+            dmc.push(mc_new[j] - mc_old[j]);
+        }
+    }
+    LaneDrive { dxi, dmc }
+}
+
 /// Age one lane with given creep parameters.
 pub fn age_lane(
     case: &Case,
@@ -380,6 +410,28 @@ pub fn age_lane(
     lane: usize,
     creep: &LaneCreep,
     prep: &Prepared,
+) -> Result<LaneAged, AgeError> {
+    let d = drive(case, prep, lane);
+    age_lane_with(
+        case,
+        wound,
+        lane,
+        creep,
+        prep,
+        &d,
+        prep.timeline.steps.len(),
+    )
+}
+
+/// Age one lane with a precomputed drive, for the first `steps` time steps.
+pub fn age_lane_with(
+    case: &Case,
+    wound: &Wound,
+    lane: usize,
+    creep: &LaneCreep,
+    prep: &Prepared,
+    drv: &LaneDrive,
+    steps: usize,
 ) -> Result<LaneAged, AgeError> {
     let mat = &case.material;
     let wl = &wound.lanes[lane];
@@ -473,16 +525,12 @@ pub fn age_lane(
         out.hardness.push(prep.hardness.hardness(p));
     };
     record(&mut out, mc0, &sr, &st, &ct, u_surface);
-    for (k, stp) in prep.timeline.steps.iter().enumerate() {
-        let stretch = &prep.timeline.stretches[stp.stretch];
-        let a_t = arrhenius_shift(mat.creep.activation_energy_j_mol, stretch.temperature_k);
-        let mc_old = &prep.moisture.mc[k][lane];
+    let mut dsr_face = vec![0.0; nr + 1];
+    for k in 0..steps.min(prep.timeline.steps.len()) {
         let mc_new = &prep.moisture.mc[k + 1][lane];
         for j in 0..nr {
-            let mc_mid = 0.5 * (mc_old[j] + mc_new[j]);
-            let a_m = moisture_shift(mat.creep.moisture_shift_dec_per_pct, mc_mid, prep.mc_ref);
-            let dxi = stp.dt / (a_t * a_m);
-            let dmc = mc_new[j] - mc_old[j];
+            let dxi = drv.dxi[k * nr + j];
+            let dmc = drv.dmc[k * nr + j];
             // MD: g = sigma_t / E
             let (e1, h1) = step_coefficients(&creep.md, ms, e_t, st[j] / e_t, &ct[j], dxi, dmc);
             eh_t[j] = e1;
@@ -541,7 +589,6 @@ pub fn age_lane(
         }
         let du = &d;
         // stress increments
-        let mut dsr_face = vec![0.0; nr + 1];
         for j in 0..nr.saturating_sub(1) {
             let dd = r[j + 1] - r[j];
             let ef = 0.5 * (eh_r[j] + eh_r[j + 1]);
@@ -575,10 +622,8 @@ pub fn age_lane(
         let half = f[nr] - r[j];
         u_surface += du[j] + half * (dsr_out / eh_r[j] + h_r[j]);
         for j in 0..nr {
-            let mc_mid = 0.5 * (mc_old[j] + mc_new[j]);
-            let a_m = moisture_shift(mat.creep.moisture_shift_dec_per_pct, mc_mid, prep.mc_ref);
-            let dxi = stp.dt / (a_t * a_m);
-            let dmc = mc_new[j] - mc_old[j];
+            let dxi = drv.dxi[k * nr + j];
+            let dmc = drv.dmc[k * nr + j];
             step_update(&creep.md, ms, st[j] / e_t, &mut ct[j], dxi, dmc);
             let (g, _) = radial_elastic(&stack, -sr[j]);
             step_update(&creep.radial, ms, g, &mut cr[j], dxi, dmc);

@@ -10,9 +10,9 @@ mod shift;
 mod sorption;
 
 pub use ageing::{
-    age, age_lane, moisture as moisture_history, prepare, timeline, AgeError, AgeOptions, Aged,
-    HardnessMap, LaneAged, LaneCreep, MoistureHistory, Prepared, Timeline, DEFAULT_HARDNESS_SLOPE,
-    FLOOR_CONTACT,
+    age, age_lane, age_lane_with, drive, moisture as moisture_history, prepare, timeline, AgeError,
+    AgeOptions, Aged, HardnessMap, LaneAged, LaneCreep, LaneDrive, MoistureHistory, Prepared,
+    Timeline, DEFAULT_HARDNESS_SLOPE, FLOOR_CONTACT,
 };
 pub use ageing::{initial_stress as initial_stress_of, zone_pressure};
 pub use creep::{creep_compliance, relaxation_modulus, step_coefficients, step_update, CreepState};

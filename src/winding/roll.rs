@@ -107,6 +107,9 @@ pub struct Wound {
     pub layers: f64,
     /// Layers per grid node.
     pub layers_per_node: f64,
+    /// Mean compressive strain of the wound stack: the stated diameter holds this many more
+    /// layers than the uncompressed caliper would suggest.
+    pub stack_compression: f64,
     /// Surface speed at which a layer wound at the roll's mean wound-in stress would stop
     /// pressing on the roll, m/s.
     pub lift_off_speed_m_s: f64,
@@ -162,14 +165,14 @@ fn accrete(
     lanes: &Lanes,
     nodes: usize,
     levelling: f64,
+    c_eff: f64,
 ) -> Result<(Vec<LaneState>, f64), WindError> {
     let mat = &case.material;
     let model = lane_model(case);
     let rc = 0.5 * case.roll.core_diameter_m;
     let big_r = 0.5 * case.roll.diameter_m;
-    let cbar = lanes.mean_caliper_m;
     let h = (big_r - rc) / (nodes as f64 - 1.0);
-    let per_node = h / cbar;
+    let per_node = h / c_eff;
     let grid: Vec<f64> = (0..nodes).map(|j| rc + j as f64 * h).collect();
     let n = lanes.lanes.len();
     let widths = lanes.widths();
@@ -255,7 +258,28 @@ pub fn wind(case: &Case, lanes: &Lanes, opt: Options) -> Result<Wound, WindError
     let model = lane_model(case);
     let rc = 0.5 * case.roll.core_diameter_m;
     let big_r = 0.5 * case.roll.diameter_m;
-    let layers = (big_r - rc) / lanes.mean_caliper_m;
+    // The stated diameter is the as-wound one: find the compressed mean caliper c_eff for which
+    // the compressed build of the mean lane fills the roll (fixed point on a coarse grid).
+    let widths = lanes.widths();
+    let width: f64 = widths.iter().sum();
+    let cal = lanes.calipers();
+    let mut c_eff = lanes.mean_caliper_m;
+    for _ in 0..8 {
+        let (st, pn) = accrete(case, lanes, 121, opt.levelling, c_eff)?;
+        let built = st
+            .iter()
+            .zip(&widths)
+            .zip(&cal)
+            .map(|((s, w), c)| w * s.outer_radius(&model, pn, *c))
+            .sum::<f64>()
+            / width;
+        let ratio = (built - rc) / (big_r - rc);
+        c_eff *= ratio;
+        if (ratio - 1.0).abs() < 1e-5 {
+            break;
+        }
+    }
+    let layers = (big_r - rc) / c_eff;
     // odd node count (even number of intervals) so the half grid nests in the full one
     let nodes = {
         let n = opt.nodes.min(layers.ceil().max(5.0) as usize);
@@ -265,16 +289,13 @@ pub fn wind(case: &Case, lanes: &Lanes, opt: Options) -> Result<Wound, WindError
             n
         }
     };
-    let (mut states, per_node) = accrete(case, lanes, nodes, opt.levelling)?;
-    let (coarse, _) = accrete(case, lanes, nodes.div_ceil(2), opt.levelling)?;
+    let (mut states, per_node) = accrete(case, lanes, nodes, opt.levelling, c_eff)?;
+    let (coarse, _) = accrete(case, lanes, nodes.div_ceil(2), opt.levelling, c_eff)?;
     for (f, c) in states.iter_mut().zip(&coarse) {
         richardson(&mut f.sr, &c.sr);
         richardson(&mut f.st, &c.st);
     }
     let grid = states.first().map(|s| s.r.clone()).unwrap_or_default();
-    let widths = lanes.widths();
-    let cal = lanes.calipers();
-    let width: f64 = widths.iter().sum();
     let rho = mat.density_kg_m3;
     let v = case.winding.speed_m_s;
     let omega = if big_r > 0.0 { v / big_r } else { 0.0 };
@@ -300,6 +321,7 @@ pub fn wind(case: &Case, lanes: &Lanes, opt: Options) -> Result<Wound, WindError
         lanes: out,
         layers,
         layers_per_node: per_node,
+        stack_compression: 1.0 - c_eff / lanes.mean_caliper_m,
         lift_off_speed_m_s: lift_off_speed(mean_sigma, rho),
         levelling: opt.levelling,
         core_stiffness_pa: model.core_stiffness,

@@ -1,0 +1,137 @@
+//! `fit` output: per-lane creep parameters, uncertainty, residuals and the strain at unwind.
+
+use super::{pos, table};
+use crate::case::{Case, Measure};
+use crate::fit::RollFit;
+use crate::units::System;
+use serde_json::{json, Value};
+use std::fmt::Write;
+
+/// Per-lane table of the fit.
+pub fn text(c: &Case, f: &RollFit, sys: System) -> String {
+    let mut out = String::new();
+    let _ = writeln!(
+        out,
+        "Case {}: creep fitted per lane to {} hardness and diameter readings (Nelder-Mead, {} model evaluations)",
+        c.id,
+        f.lanes.iter().map(|l| l.residuals.len()).sum::<usize>(),
+        f.evaluations
+    );
+    let _ = writeln!(
+        out,
+        "Roll values (pooled): MD creep scale {:.2}, radial creep scale {:.2}{}; each lane drawn towards them with a prior of a factor {:.1} (1 sigma).",
+        f.pooled_md_creep_scale,
+        f.pooled_radial_creep_scale,
+        if f.pooled_converged { "" } else { " (pooled fit hit its iteration limit)" },
+        f.prior_sd_ln.exp()
+    );
+    let mean = f.strain_at_unwind.iter().sum::<f64>() / f.strain_at_unwind.len().max(1) as f64;
+    let mut t = table(&[
+        "lane",
+        "MD creep scale",
+        "radial creep scale",
+        "rmse (x noise)",
+        "converged",
+        "strain at unwind",
+        "vs mean mm/m",
+    ]);
+    for (i, l) in f.lanes.iter().enumerate() {
+        let flag = |ok: bool| if ok { "" } else { " (not identifiable)" };
+        t.add_row(vec![
+            format!("{i} @ {}", pos(l.position_m, sys)),
+            format!(
+                "{:.2} x/÷ {:.2}{}",
+                l.params.md_creep_scale,
+                l.uncertainty.md_creep_scale_factor,
+                flag(l.md_identifiable)
+            ),
+            format!(
+                "{:.2} x/÷ {:.2}{}",
+                l.params.radial_creep_scale,
+                l.uncertainty.radial_creep_scale_factor,
+                flag(l.radial_identifiable)
+            ),
+            format!("{:.2}", l.rmse),
+            if l.converged { "yes" } else { "no" }.to_string(),
+            format!("{:+.4} %", f.strain_at_unwind[i] * 100.0),
+            format!("{:+.2}", (f.strain_at_unwind[i] - mean) * 1e3),
+        ]);
+    }
+    let _ = writeln!(out, "{t}");
+    // residuals of the worst-fitting lane
+    if let Some((i, worst)) = f
+        .lanes
+        .iter()
+        .enumerate()
+        .max_by(|a, b| a.1.rmse.total_cmp(&b.1.rmse))
+    {
+        let mut r = table(&[
+            "lane",
+            "measure",
+            "age d",
+            "measured",
+            "predicted",
+            "residual / noise",
+        ]);
+        for x in &worst.residuals {
+            let (m, p) = match x.what {
+                Measure::Hardness => (format!("{:.1}", x.measured), format!("{:.1}", x.predicted)),
+                _ => (
+                    format!("{:+.2} mm", x.measured * 1e3),
+                    format!("{:+.2} mm", x.predicted * 1e3),
+                ),
+            };
+            r.add_row(vec![
+                i.to_string(),
+                format!("{:?}", x.what).to_lowercase(),
+                format!("{:.0}", x.age_days),
+                m,
+                p,
+                format!("{:+.2}", x.normalised),
+            ]);
+        }
+        let _ = writeln!(out, "Residuals of the worst-fitting lane:\n{r}");
+    }
+    let _ = writeln!(
+        out,
+        "Spread of strain at unwind across the width: {:.4} % = {:.2} mm per metre of web. Noise: hardness {} units ({}), diameter {:.2} mm ({}).",
+        f.spread_strain * 100.0,
+        f.spread_mm_per_m,
+        f.noise.hardness,
+        f.noise.hardness_source,
+        f.noise.diameter_m * 1e3,
+        f.noise.diameter_source
+    );
+    for n in &f.notes {
+        let _ = writeln!(out, "note: {n}");
+    }
+    out
+}
+
+/// JSON of the fit.
+pub fn json(c: &Case, f: &RollFit) -> Value {
+    json!({
+        "case": c.id,
+        "lanes": f.lanes.iter().enumerate().map(|(i, l)| json!({
+            "position_m": l.position_m,
+            "params": l.params,
+            "uncertainty": l.uncertainty,
+            "md_identifiable": l.md_identifiable,
+            "radial_identifiable": l.radial_identifiable,
+            "rmse": l.rmse,
+            "converged": l.converged,
+            "iterations": l.iterations,
+            "evaluations": l.evaluations,
+            "residuals": l.residuals,
+            "strain_at_unwind": f.strain_at_unwind[i],
+        })).collect::<Vec<_>>(),
+        "pooled_md_creep_scale": f.pooled_md_creep_scale,
+        "pooled_radial_creep_scale": f.pooled_radial_creep_scale,
+        "spread_strain": f.spread_strain,
+        "spread_mm_per_m": f.spread_mm_per_m,
+        "prior_sd_ln": f.prior_sd_ln,
+        "noise": f.noise,
+        "evaluations": f.evaluations,
+        "notes": f.notes,
+    })
+}
