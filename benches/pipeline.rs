@@ -1,1 +1,54 @@
-fn main() {}
+//! Speed of the main stages on a 40-lane, 1 m roll (the figures quoted in the issue notes).
+//!
+//! cargo bench --bench pipeline
+
+use criterion::{criterion_group, criterion_main, Criterion};
+use rollsleuth::case::{self, Case, Measure};
+use rollsleuth::fit::{self, synth};
+use rollsleuth::lanes;
+use rollsleuth::storage::{age, AgeOptions, LaneCreep};
+use rollsleuth::winding::{wind, Options};
+use std::hint::black_box;
+
+fn roll(storage_days: u32) -> Case {
+    case::load_demo(&[
+        "lanes.count=40".into(),
+        format!(
+            "storage=[{{duration: \"{storage_days} d\", temperature: \"24 C\", rh: \"60 %\", barrel_wrap: none, end_wrap: none}}]"
+        ),
+    ])
+    .expect("demo case loads")
+}
+
+fn bench(c: &mut Criterion) {
+    let case = roll(200);
+    let l = lanes::build(&case);
+    c.bench_function("wind 40 lanes, 1 m roll, 401 nodes", |b| {
+        b.iter(|| wind(black_box(&case), &l, Options::default()).expect("winds"))
+    });
+    let w = wind(&case, &l, Options::default()).expect("winds");
+    c.bench_function("age 40 lanes through 200 d", |b| {
+        b.iter(|| age(black_box(&case), &l, &w, None, &AgeOptions::default()).expect("ages"))
+    });
+    // fit: 40 lanes, three measurement times (synthetic data)
+    let mut fc = roll(31);
+    fc.profiles.retain(|p| p.what == Measure::Caliper);
+    let lf = lanes::build(&fc);
+    let wf = wind(&fc, &lf, Options::default()).expect("winds");
+    let creep: Vec<LaneCreep> = (0..lf.lanes.len())
+        .map(|i| fit::creep_from(&fc, &[0.2 * (i % 3) as f64, 0.3 * (i % 4) as f64]))
+        .collect();
+    let p = synth::profiles(&fc, &lf, &wf, &creep, &[0.0, 10.0 * 86400.0, 31.0 * 86400.0], 0.8, 8e-5, 1)
+        .expect("synthesises");
+    fc.profiles.extend(p);
+    c.bench_function("fit 40 lanes, 3 measurement times", |b| {
+        b.iter(|| fit::fit_roll(black_box(&fc), &lf, &wf, &AgeOptions::default()).expect("fits"))
+    });
+}
+
+criterion_group! {
+    name = benches;
+    config = Criterion::default().sample_size(10);
+    targets = bench
+}
+criterion_main!(benches);
