@@ -38,8 +38,17 @@ fn bench(c: &mut Criterion) {
     let creep: Vec<LaneCreep> = (0..lf.lanes.len())
         .map(|i| fit::creep_from(&fc, &[0.2 * (i % 3) as f64, 0.3 * (i % 4) as f64]))
         .collect();
-    let p = synth::profiles(&fc, &lf, &wf, &creep, &[0.0, 10.0 * 86400.0, 31.0 * 86400.0], 0.8, 8e-5, 1)
-        .expect("synthesises");
+    let p = synth::profiles(
+        &fc,
+        &lf,
+        &wf,
+        &creep,
+        &[0.0, 10.0 * 86400.0, 31.0 * 86400.0],
+        0.8,
+        8e-5,
+        1,
+    )
+    .expect("synthesises");
     fc.profiles.extend(p);
     c.bench_function("fit 40 lanes, 3 measurement times", |b| {
         b.iter(|| fit::fit_roll(black_box(&fc), &lf, &wf, &AgeOptions::default()).expect("fits"))

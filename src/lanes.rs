@@ -60,6 +60,28 @@ pub struct Lanes {
 /// Default lane count when the case gives neither profiles nor lanes.
 pub const DEFAULT_LANES: usize = 12;
 
+/// Width of the edge strip split off a wide edge lane, m: moisture exchange through the roll's
+/// ends and the tension of the web's edges act in the outer centimetres (common practice), which
+/// a wide edge lane would average away.
+pub const EDGE_STRIP_M: f64 = 0.025;
+
+/// Split off an edge strip at each side when the edge lane is more than three strips wide.
+fn with_edge_strips(mut e: Vec<f64>) -> Vec<f64> {
+    let n = e.len();
+    if n < 2 {
+        return e;
+    }
+    let (first, last) = (e[0], e[n - 1]);
+    if e[1] - first > 3.0 * EDGE_STRIP_M {
+        e.insert(1, first + EDGE_STRIP_M);
+    }
+    let n = e.len();
+    if last - e[n - 2] > 3.0 * EDGE_STRIP_M {
+        e.insert(n - 1, last - EDGE_STRIP_M);
+    }
+    e
+}
+
 /// The earliest profile of a kind, if any.
 pub fn earliest(case: &Case, what: Measure) -> Option<&Profile> {
     case.profiles
@@ -68,14 +90,15 @@ pub fn earliest(case: &Case, what: Measure) -> Option<&Profile> {
         .min_by(|a, b| a.age_s.total_cmp(&b.age_s))
 }
 
-/// Lane edges (m) for a case.
+/// Lane edges (m) for a case: explicit edges as given; otherwise a lane count or the densest
+/// profile's positions, with an edge strip split off each wide edge lane.
 pub fn edges(case: &Case) -> Vec<f64> {
     let w = case.roll.width_m;
     if let Some(e) = &case.lane_edges_m {
         return e.clone();
     }
     if let Some(n) = case.lane_count {
-        return (0..=n).map(|i| w * i as f64 / n as f64).collect();
+        return with_edge_strips((0..=n).map(|i| w * i as f64 / n as f64).collect());
     }
     let pick = [Measure::Caliper, Measure::Diameter, Measure::Hardness]
         .iter()
@@ -92,11 +115,13 @@ pub fn edges(case: &Case) -> Vec<f64> {
             let mut e = vec![0.0];
             e.extend(x.windows(2).map(|w| 0.5 * (w[0] + w[1])));
             e.push(w);
-            e
+            with_edge_strips(e)
         }
-        None => (0..=DEFAULT_LANES)
-            .map(|i| w * i as f64 / DEFAULT_LANES as f64)
-            .collect(),
+        None => with_edge_strips(
+            (0..=DEFAULT_LANES)
+                .map(|i| w * i as f64 / DEFAULT_LANES as f64)
+                .collect(),
+        ),
     }
 }
 

@@ -10,11 +10,13 @@
 pub mod case;
 pub mod cli;
 pub mod defects;
+pub mod diagnose;
 pub mod fit;
 pub mod interp;
 pub mod lanes;
 pub mod numeric;
 pub mod report;
+pub mod rules;
 pub mod storage;
 pub mod units;
 pub mod winding;

@@ -382,6 +382,18 @@ impl Validator {
         let width = roll.as_ref().map(|r| r.width_m);
         let profiles = self.profiles(&raw.profiles, width, file);
         let (lane_edges_m, lane_count) = self.lanes(raw.lanes.as_ref(), width);
+        let converting = match raw.converting.as_ref().and_then(|c| c.tension.as_ref()) {
+            Some(q) => self.q(q, "converting.tension", Kind::LineForce, Range::Positive),
+            None => winding.as_ref().zip(roll.as_ref()).map(|(w, r)| {
+                let t = w.tension.at(0.5 * (r.core_diameter_m + r.diameter_m));
+                self.defaults.push(DefaultUsed {
+                    field: "converting.tension".into(),
+                    value: format!("{t:.0} N/m"),
+                    source: "not given: assumed equal to the winding web tension".into(),
+                });
+                t
+            }),
+        };
         if let (Some(r), Some(w)) = (&roll, &winding) {
             if let Tension::Taper { points } = &w.tension {
                 let (lo, hi) = (points[0].0, points[points.len() - 1].0);
@@ -421,6 +433,7 @@ impl Validator {
             lane_count,
             hardness: hardness?,
             wraps: wraps?,
+            converting_tension_n_per_m: converting?,
             defaults: std::mem::take(&mut self.defaults),
             warnings: std::mem::take(&mut self.warnings),
         })

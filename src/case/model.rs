@@ -339,6 +339,8 @@ pub struct Case {
     pub lane_count: Option<usize>,
     pub hardness: Hardness,
     pub wraps: WrapPermeance,
+    /// Web tension at the converter, N/m (the tension against which a long lane runs slack).
+    pub converting_tension_n_per_m: f64,
     pub defaults: Vec<DefaultUsed>,
     pub warnings: Vec<String>,
 }

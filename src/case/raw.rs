@@ -66,6 +66,16 @@ pub struct RawCase {
     pub hardness: Option<RawHardness>,
     #[serde(default)]
     pub wraps: Option<RawWraps>,
+    #[serde(default)]
+    pub converting: Option<RawConverting>,
+}
+
+/// What the converter runs the web at.
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct RawConverting {
+    #[serde(default)]
+    pub tension: Option<Q>,
 }
 
 #[derive(Debug, Deserialize)]

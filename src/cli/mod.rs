@@ -75,6 +75,56 @@ pub enum Command {
     Age(CaseArg),
     /// Fit the creep model per lane to the measured hardness and diameter; strain at unwind.
     Fit(CaseArg),
+    /// The whole chain: likely defects at unwind, why, how sure, root-cause shares and
+    /// corrections checked by re-running the model.
+    Diagnose {
+        #[command(flatten)]
+        case: CaseArg,
+        #[command(flatten)]
+        rules: RulesArg,
+        /// Write a root-cause report (Markdown, SVG plot, JSON) into this folder.
+        #[arg(long, value_name = "DIR")]
+        out: Option<PathBuf>,
+    },
+    /// Compare the case as measured with the same roll changed by --set (e.g. lower tension).
+    Whatif {
+        #[command(flatten)]
+        case: CaseArg,
+        #[command(flatten)]
+        rules: RulesArg,
+    },
+    /// Triage many rolls: one line each, worst first.
+    Triage {
+        /// Case files or folders of case files (*.yaml).
+        paths: Vec<PathBuf>,
+        #[command(flatten)]
+        rules: RulesArg,
+    },
+    /// Rule tables: check one, or list the features rules may use.
+    Rules {
+        #[command(subcommand)]
+        command: RulesCommand,
+    },
+}
+
+/// Rule table choice.
+#[derive(Args, Debug, Clone)]
+pub struct RulesArg {
+    /// Rule table (YAML). Default: the shipped rules/default.yaml.
+    #[arg(long, value_name = "FILE")]
+    pub rules: Option<PathBuf>,
+}
+
+/// `rules` subcommands.
+#[derive(Subcommand, Debug)]
+pub enum RulesCommand {
+    /// Check a rule table (default: the shipped one).
+    Lint {
+        /// Rule table to check.
+        file: Option<PathBuf>,
+    },
+    /// List the features a rule may test.
+    Features,
 }
 
 /// What a command produced.
@@ -117,6 +167,53 @@ impl From<crate::fit::FitError> for Failure {
             code: 2,
         }
     }
+}
+
+impl From<crate::rules::RulesError> for Failure {
+    fn from(e: crate::rules::RulesError) -> Self {
+        Failure {
+            message: format!("error: {e}"),
+            code: 2,
+        }
+    }
+}
+
+impl From<crate::diagnose::DiagnoseError> for Failure {
+    fn from(e: crate::diagnose::DiagnoseError) -> Self {
+        Failure {
+            message: format!("error: {e}"),
+            code: 2,
+        }
+    }
+}
+
+fn load_rules(arg: &RulesArg) -> Result<crate::rules::Table, Failure> {
+    Ok(match &arg.rules {
+        Some(p) => crate::rules::load_file(p)?,
+        None => crate::rules::load_default()?,
+    })
+}
+
+/// Case files named by paths (folders expand to their *.yaml files, sorted).
+fn case_files(paths: &[PathBuf]) -> Result<Vec<PathBuf>, Failure> {
+    let mut out = Vec::new();
+    for p in paths {
+        if p.is_dir() {
+            let rd = std::fs::read_dir(p).map_err(|e| Failure {
+                message: format!("error: {}: cannot read the folder: {e}", p.display()),
+                code: 2,
+            })?;
+            let mut v: Vec<PathBuf> = rd
+                .filter_map(|e| e.ok().map(|e| e.path()))
+                .filter(|x| x.extension().is_some_and(|e| e == "yaml" || e == "yml"))
+                .collect();
+            v.sort();
+            out.extend(v);
+        } else {
+            out.push(p.clone());
+        }
+    }
+    Ok(out)
 }
 
 impl From<crate::winding::WindError> for Failure {
@@ -233,7 +330,169 @@ pub fn run(cli: &Cli) -> Result<Outcome, Failure> {
                 report::fit_view::text(&c, &f, sys)
             }))
         }
+        Command::Diagnose {
+            case: arg,
+            rules,
+            out,
+        } => {
+            let c = load(arg)?;
+            let table = load_rules(rules)?;
+            let d = crate::diagnose::diagnose(&c, &table, &Default::default())?;
+            if let Some(dir) = out {
+                write_report(dir, &c, &d, sys)?;
+            }
+            let text = if cli.json {
+                emit_json(&report::diagnose_view::json(&d))
+            } else {
+                report::diagnose_view::text(&d, sys)
+            };
+            Ok(if d.findings.is_empty() {
+                Outcome::Ok(text)
+            } else {
+                Outcome::Findings(text)
+            })
+        }
+        Command::Whatif { case: arg, rules } => {
+            if arg.set.is_empty() {
+                return Err(Failure {
+                    message: "error: whatif needs at least one --set path=value, e.g. --set winding.tension=\"1.8 pli\"".into(),
+                    code: 1,
+                });
+            }
+            let base = load(&CaseArg {
+                case: arg.case.clone(),
+                set: Vec::new(),
+            })?;
+            let variant = load(arg)?;
+            let table = load_rules(rules)?;
+            let w =
+                crate::diagnose::what_if(&base, &variant, &arg.set, &table, &Default::default())?;
+            Ok(Outcome::Ok(if cli.json {
+                emit_json(&serde_json::to_value(&w).unwrap_or_default())
+            } else {
+                report::whatif_text(&w, sys)
+            }))
+        }
+        Command::Triage { paths, rules } => {
+            let table = load_rules(rules)?;
+            let files = case_files(paths)?;
+            if files.is_empty() {
+                return Err(Failure {
+                    message: "error: triage needs case files or folders holding *.yaml case files"
+                        .into(),
+                    code: 1,
+                });
+            }
+            let opt = crate::diagnose::DiagnoseOptions {
+                nodes: 101,
+                what_if: false,
+            };
+            let mut rows = Vec::new();
+            for f in &files {
+                let row = match case::load_file(f, &[]) {
+                    Ok(c) => match crate::diagnose::diagnose(&c, &table, &opt) {
+                        Ok(d) => report::TriageRow::from_diagnosis(f, &d),
+                        Err(e) => report::TriageRow::failed(f, &e.to_string()),
+                    },
+                    Err(e) => report::TriageRow::failed(f, &e.to_string()),
+                };
+                rows.push(row);
+            }
+            rows.sort_by(|a, b| {
+                b.rank_key()
+                    .total_cmp(&a.rank_key())
+                    .then(a.file.cmp(&b.file))
+            });
+            let any = rows
+                .iter()
+                .any(|r| !r.defects.is_empty() || r.error.is_some());
+            let text = if cli.json {
+                emit_json(&serde_json::json!({ "rolls": rows, "safety": report::SAFETY }))
+            } else {
+                report::triage_text(&rows)
+            };
+            Ok(if any {
+                Outcome::Findings(text)
+            } else {
+                Outcome::Ok(text)
+            })
+        }
+        Command::Rules { command } => match command {
+            RulesCommand::Features => {
+                let v: Vec<_> = crate::diagnose::features::FEATURES
+                    .iter()
+                    .map(|f| serde_json::json!({"feature": f.name, "meaning": f.meaning}))
+                    .collect();
+                Ok(Outcome::Ok(if cli.json {
+                    emit_json(&serde_json::json!({ "features": v }))
+                } else {
+                    let mut t = report::table(&["feature", "meaning"]);
+                    for f in crate::diagnose::features::FEATURES {
+                        t.add_row(vec![f.name, f.meaning]);
+                    }
+                    format!("{t}\n")
+                }))
+            }
+            RulesCommand::Lint { file } => {
+                let t = load_rules(&RulesArg {
+                    rules: file.clone(),
+                })?;
+                let msg = format!("{}: ok, {} rules covering {}", t.source, t.rules.len(), {
+                    let mut d: Vec<&str> = t.rules.iter().map(|r| r.defect.as_str()).collect();
+                    d.sort();
+                    d.dedup();
+                    d.join(", ")
+                });
+                Ok(Outcome::Ok(if cli.json {
+                    emit_json(
+                        &serde_json::json!({ "file": t.source, "ok": true, "rules": t.rules.len() }),
+                    )
+                } else {
+                    format!("{msg}\n")
+                }))
+            }
+        },
     }
+}
+
+fn write_report(
+    dir: &std::path::Path,
+    c: &Case,
+    d: &crate::diagnose::Diagnosis,
+    sys: System,
+) -> Result<(), Failure> {
+    let fail = |e: std::io::Error| Failure {
+        message: format!("error: {}: cannot write the report: {e}", dir.display()),
+        code: 2,
+    };
+    std::fs::create_dir_all(dir).map_err(fail)?;
+    let stem: String =
+        c.id.chars()
+            .map(|ch| {
+                if ch.is_ascii_alphanumeric() || ch == '-' || ch == '_' {
+                    ch
+                } else {
+                    '_'
+                }
+            })
+            .collect();
+    let plot = format!("{stem}_lanes.svg");
+    report::write_atomic(
+        &dir.join(&plot),
+        &report::diagnose_view::svg(d, c.roll.width_m),
+    )
+    .map_err(fail)?;
+    report::write_atomic(
+        &dir.join(format!("{stem}_report.md")),
+        &report::diagnose_view::markdown(d, &plot, sys),
+    )
+    .map_err(fail)?;
+    report::write_atomic(
+        &dir.join(format!("{stem}_diagnosis.json")),
+        &emit_json(&report::diagnose_view::json(d)),
+    )
+    .map_err(fail)?;
+    Ok(())
 }
 
 /// Entry point used by the binary.

@@ -1,0 +1,167 @@
+//! Model changes behind corrections and root-cause attribution: each turns a scenario (case, lanes,
+//! CD levelling, fitted creep) into another, which is then re-run through winding and storage.
+
+use crate::case::{Case, Tension, Wrap};
+use crate::lanes::Lanes;
+use crate::storage::{age, gab_moisture, AgeError, AgeOptions, Aged, LaneCreep};
+use crate::winding::{wind, Options, WindError, Wound};
+
+/// Everything a forward run needs.
+#[derive(Debug, Clone)]
+pub struct Scenario {
+    pub case: Case,
+    pub lanes: Lanes,
+    pub levelling: f64,
+    pub creep: Vec<LaneCreep>,
+    /// Lanes left out of the spread (slit out).
+    pub excluded: Vec<usize>,
+}
+
+/// A forward run's result.
+#[derive(Debug, Clone)]
+pub struct Outcome {
+    pub wound: Wound,
+    pub aged: Aged,
+}
+
+/// A forward run failed.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+pub enum RunError {
+    #[error(transparent)]
+    Wind(#[from] WindError),
+    #[error(transparent)]
+    Age(#[from] AgeError),
+}
+
+impl Scenario {
+    /// Run winding and storage.
+    pub fn run(&self, nodes: usize) -> Result<Outcome, RunError> {
+        let wound = wind(
+            &self.case,
+            &self.lanes,
+            Options {
+                nodes,
+                levelling: self.levelling,
+            },
+        )?;
+        let aged = age(
+            &self.case,
+            &self.lanes,
+            &wound,
+            Some(&self.creep),
+            &AgeOptions::default(),
+        )?;
+        Ok(Outcome { wound, aged })
+    }
+}
+
+/// Largest minus smallest strain at unwind (mm/m) over the lanes not excluded.
+pub fn spread_mm_per_m(aged: &Aged, excluded: &[usize]) -> f64 {
+    let last = aged.times_days.len() - 1;
+    let v: Vec<f64> = aged
+        .lanes
+        .iter()
+        .enumerate()
+        .filter(|(i, _)| !excluded.contains(i))
+        .map(|(_, l)| l.strain_at_unwind[last] * 1e3)
+        .collect();
+    if v.is_empty() {
+        return 0.0;
+    }
+    v.iter().cloned().fold(f64::NEG_INFINITY, f64::max)
+        - v.iter().cloned().fold(f64::INFINITY, f64::min)
+}
+
+/// Relative humidity (fraction) at which the GAB isotherm gives moisture `mc` (%), by bisection.
+pub fn rh_for_moisture(case: &Case, mc: f64) -> f64 {
+    let g = &case.material.sorption;
+    let (mut lo, mut hi) = (0.0, 0.99);
+    for _ in 0..60 {
+        let mid = 0.5 * (lo + hi);
+        if gab_moisture(g, mid) < mc {
+            lo = mid;
+        } else {
+            hi = mid;
+        }
+    }
+    0.5 * (lo + hi)
+}
+
+/// Apply an action (see [`crate::rules::ACTIONS`]) with its factor. `slit` lists the lanes a
+/// `slit_out` leaves out. Unknown actions leave the scenario unchanged.
+pub fn apply(s: &Scenario, action: &str, factor: Option<f64>, slit: &[usize]) -> Scenario {
+    let mut n = s.clone();
+    let f = factor.unwrap_or(1.0);
+    match action {
+        "flatten_caliper" => {
+            let m = n.lanes.mean_caliper_m;
+            for l in &mut n.lanes.lanes {
+                l.caliper_m = m;
+                l.caliper_deviation = 0.0;
+            }
+        }
+        "scale_tension" => {
+            n.case.winding.tension = match &n.case.winding.tension {
+                Tension::Constant { tension_n_per_m } => Tension::Constant {
+                    tension_n_per_m: tension_n_per_m * f,
+                },
+                Tension::Taper { points } => Tension::Taper {
+                    points: points.iter().map(|(d, t)| (*d, t * f)).collect(),
+                },
+            }
+        }
+        "taper_tension" => {
+            let d0 = n.case.roll.core_diameter_m;
+            let d1 = n.case.roll.diameter_m;
+            let t0 = n.case.winding.tension.at(d0);
+            n.case.winding.tension = Tension::Taper {
+                points: vec![(d0, t0), (d1, t0 * f)],
+            };
+        }
+        "scale_nip" => n.case.winding.nip_n_per_m *= f,
+        "film_wrap" => {
+            for st in &mut n.case.storage {
+                st.barrel_wrap = Wrap::Film;
+                st.end_wrap = Wrap::Film;
+            }
+        }
+        "keep_wrapped_until_use" => {
+            if let Some(st) = n.case.storage.last_mut() {
+                st.barrel_wrap = Wrap::Film;
+                st.end_wrap = Wrap::Film;
+            }
+        }
+        "store_at_equilibrium" => {
+            let rh = rh_for_moisture(&n.case, n.case.material.moisture_pct);
+            for st in &mut n.case.storage {
+                st.rh = rh;
+            }
+        }
+        "shorten_storage" => {
+            for st in &mut n.case.storage {
+                st.duration_s *= f;
+            }
+        }
+        "slit_out" => n.excluded = slit.to_vec(),
+        // root-cause ablations that are not rule actions
+        "uniform_lane_tension" => n.levelling = 1.0,
+        "uniform_creep" => {
+            let k = n.creep.len().max(1) as f64;
+            let mean = |g: &dyn Fn(&LaneCreep) -> f64| n.creep.iter().map(g).sum::<f64>() / k;
+            let (md_d, md_v, r_d, r_v) = (
+                mean(&|c| c.md.delayed),
+                mean(&|c| c.md.viscous_time_s.recip()),
+                mean(&|c| c.radial.delayed),
+                mean(&|c| c.radial.viscous_time_s.recip()),
+            );
+            for c in &mut n.creep {
+                c.md.delayed = md_d;
+                c.md.viscous_time_s = md_v.recip();
+                c.radial.delayed = r_d;
+                c.radial.viscous_time_s = r_v.recip();
+            }
+        }
+        _ => {}
+    }
+    n
+}

@@ -1,0 +1,302 @@
+//! `diagnose` and `whatif` output: findings with evidence, causes, corrections checked, and the
+//! Markdown report with an SVG plot.
+
+use super::{pos, table, SAFETY};
+use crate::defects::plain;
+use crate::diagnose::features::FEATURES;
+use crate::diagnose::Diagnosis;
+use crate::units::System;
+use serde_json::{json, Value};
+use std::fmt::Write;
+
+fn cond(above: Option<f64>, below: Option<f64>) -> String {
+    match (above, below) {
+        (Some(a), Some(b)) => format!("between {a} and {b}"),
+        (Some(a), None) => format!("above {a}"),
+        (None, Some(b)) => format!("below {b}"),
+        _ => String::new(),
+    }
+}
+
+fn lanes_text(d: &Diagnosis, lanes: &[crate::diagnose::LaneRef], sys: System) -> String {
+    if lanes.is_empty() {
+        return "whole roll".into();
+    }
+    let _ = d;
+    lanes
+        .iter()
+        .map(|l| {
+            format!(
+                "{} ({:+.2} mm/m)",
+                pos(l.position_m, sys),
+                l.excess_mm_per_m
+            )
+        })
+        .collect::<Vec<_>>()
+        .join(", ")
+}
+
+/// Human diagnosis.
+pub fn text(d: &Diagnosis, sys: System) -> String {
+    let mut out = String::new();
+    let _ = writeln!(out, "Diagnosis of case {}: {}", d.case, d.title);
+    let _ = writeln!(
+        out,
+        "Predicted length spread across the width at unwind: {:.2} mm per metre of web ({} lanes; rules: {}).",
+        d.spread_mm_per_m,
+        d.lanes.len(),
+        d.rules
+    );
+    if d.findings.is_empty() {
+        let _ = writeln!(out, "\nNo finding: no rule fired. The roll is predicted to unwind within the rules' thresholds.");
+    }
+    for (k, f) in d.findings.iter().enumerate() {
+        let _ = writeln!(
+            out,
+            "\n{}. {} ({} likelihood; rule {})",
+            k + 1,
+            plain(&f.defect),
+            f.likelihood,
+            f.rule
+        );
+        let _ = writeln!(out, "   Why: {}", f.mechanism);
+        let _ = writeln!(out, "   Where: {}", lanes_text(d, &f.lanes, sys));
+        let mut t = table(&["evidence", "value", "fires when", "source"]);
+        for e in &f.evidence {
+            t.add_row(vec![
+                e.feature.clone(),
+                format!("{:.3}", e.value),
+                cond(e.above, e.below),
+                e.source.clone(),
+            ]);
+        }
+        let _ = writeln!(out, "{t}");
+        if !f.corrections.is_empty() {
+            let mut c = table(&["correction", "spread before mm/m", "after mm/m", "why"]);
+            for x in &f.corrections {
+                c.add_row(vec![
+                    x.text.clone(),
+                    format!("{:.2}", x.spread_before_mm_per_m),
+                    if x.spread_after_mm_per_m.is_finite() {
+                        format!("{:.2}", x.spread_after_mm_per_m)
+                    } else {
+                        "not run".into()
+                    },
+                    x.why.clone(),
+                ]);
+            }
+            let _ = writeln!(out, "{c}");
+        }
+    }
+    if !d.causes.is_empty() {
+        let mut c = table(&["cause", "removed as", "spread without it mm/m", "share"]);
+        for x in &d.causes {
+            c.add_row(vec![
+                x.cause.clone(),
+                x.removed.clone(),
+                format!("{:.2}", x.spread_without_mm_per_m),
+                format!("{:.0} %", x.share * 100.0),
+            ]);
+        }
+        let _ = writeln!(out, "\nRoot cause (each cause removed in turn):\n{c}");
+    }
+    if let Some(a) = &d.agreement {
+        let _ = writeln!(
+            out,
+            "Complaint: {}. {}",
+            plain(&a.complaint),
+            match (a.agrees, a.rank) {
+                (true, Some(r)) => format!("The prediction agrees (finding {r})."),
+                (true, None) => "The prediction agrees (no defect predicted).".into(),
+                (false, _) => "The prediction does not show it: check the measurements, the storage history and the rules' thresholds.".into(),
+            }
+        );
+    }
+    for n in &d.notes {
+        let _ = writeln!(out, "note: {n}");
+    }
+    if d.advises_action {
+        let _ = writeln!(out, "\n{SAFETY}");
+    }
+    out
+}
+
+/// JSON diagnosis.
+pub fn json(d: &Diagnosis) -> Value {
+    json!({
+        "case": d.case,
+        "rules": d.rules,
+        "spread_mm_per_m": d.spread_mm_per_m,
+        "findings": d.findings,
+        "causes": d.causes,
+        "agreement": d.agreement,
+        "features": d.features.values,
+        "lanes": d.lanes,
+        "notes": d.notes,
+        "safety": if d.advises_action { Some(SAFETY) } else { None },
+    })
+}
+
+/// SVG plot of the predicted length at unwind across the width (lane excess over the mean lane).
+pub fn svg(d: &Diagnosis, width_m: f64) -> String {
+    let (w, h, m) = (720.0, 300.0, 50.0);
+    let vals: Vec<f64> = d.lanes.iter().map(|l| l.excess_mm_per_m).collect();
+    let vmax = vals.iter().cloned().fold(0.6f64, |a, b| a.max(b.abs())) * 1.15;
+    let x = |p: f64| m + (w - 2.0 * m) * p / width_m;
+    let y = |v: f64| h / 2.0 - (h / 2.0 - m) * v / vmax;
+    let mut s = String::new();
+    let _ = write!(
+        s,
+        "<svg xmlns=\"http://www.w3.org/2000/svg\" width=\"{w}\" height=\"{h}\" font-family=\"Helvetica, Arial, sans-serif\" font-size=\"12\">\n<rect width=\"{w}\" height=\"{h}\" fill=\"white\"/>\n"
+    );
+    let _ = writeln!(s, "<text x=\"{m}\" y=\"20\">Predicted length at unwind over the width-weighted mean lane, mm per m (case {})</text>", d.case);
+    for lim in [0.5, -0.5] {
+        let _ = writeln!(s, "<line x1=\"{m}\" x2=\"{:.1}\" y1=\"{:.1}\" y2=\"{:.1}\" stroke=\"#999\" stroke-dasharray=\"4 3\"/>", w - m, y(lim), y(lim));
+    }
+    let _ = writeln!(s, "<text x=\"{:.1}\" y=\"{:.1}\" fill=\"#666\">+0.5 mm/m: visibly slack (common practice)</text>", w - m - 260.0, y(0.5) - 4.0);
+    let _ = writeln!(
+        s,
+        "<line x1=\"{m}\" x2=\"{:.1}\" y1=\"{:.1}\" y2=\"{:.1}\" stroke=\"black\"/>",
+        w - m,
+        y(0.0),
+        y(0.0)
+    );
+    let pts: Vec<String> = d
+        .lanes
+        .iter()
+        .map(|l| format!("{:.1},{:.1}", x(l.position_m), y(l.excess_mm_per_m)))
+        .collect();
+    let _ = writeln!(
+        s,
+        "<polyline fill=\"none\" stroke=\"#1f4e9c\" stroke-width=\"2\" points=\"{}\"/>",
+        pts.join(" ")
+    );
+    for l in &d.lanes {
+        let _ = writeln!(
+            s,
+            "<circle cx=\"{:.1}\" cy=\"{:.1}\" r=\"3\" fill=\"#1f4e9c\"/>",
+            x(l.position_m),
+            y(l.excess_mm_per_m)
+        );
+    }
+    let _ = writeln!(s, "<text x=\"{m}\" y=\"{:.1}\">front edge</text><text x=\"{:.1}\" y=\"{:.1}\" text-anchor=\"end\">back edge ({:.0} mm)</text>", h - 12.0, w - m, h - 12.0, width_m * 1e3);
+    let _ = writeln!(
+        s,
+        "<text x=\"8\" y=\"{:.1}\">{:+.1}</text><text x=\"8\" y=\"{:.1}\">{:+.1}</text>",
+        y(vmax * 0.9) + 4.0,
+        vmax * 0.9,
+        y(-vmax * 0.9) + 4.0,
+        -vmax * 0.9
+    );
+    s.push_str("</svg>\n");
+    s
+}
+
+/// Markdown root-cause report (refers to the SVG plot by file name).
+pub fn markdown(d: &Diagnosis, plot_file: &str, sys: System) -> String {
+    let mut s = String::new();
+    let _ = writeln!(s, "# Root-cause report: {}\n\n{}\n", d.case, d.title);
+    let _ = writeln!(
+        s,
+        "Predicted length spread across the width at unwind: **{:.2} mm per metre of web**.\n",
+        d.spread_mm_per_m
+    );
+    let _ = writeln!(s, "![lane length at unwind]({plot_file})\n\n## Findings\n");
+    if d.findings.is_empty() {
+        let _ = writeln!(s, "No rule fired.\n");
+    }
+    for (k, f) in d.findings.iter().enumerate() {
+        let _ = writeln!(
+            s,
+            "### {}. {} ({} likelihood)\n\n{}\n\nWhere: {}\n",
+            k + 1,
+            plain(&f.defect),
+            f.likelihood,
+            f.mechanism,
+            lanes_text(d, &f.lanes, sys)
+        );
+        let _ = writeln!(
+            s,
+            "| evidence | value | fires when | source |\n|---|---|---|---|"
+        );
+        for e in &f.evidence {
+            let _ = writeln!(
+                s,
+                "| {} | {:.3} | {} | {} |",
+                e.feature,
+                e.value,
+                cond(e.above, e.below),
+                e.source
+            );
+        }
+        if !f.corrections.is_empty() {
+            let _ = writeln!(
+                s,
+                "\n| correction | spread before (mm/m) | after (mm/m) | why |\n|---|---|---|---|"
+            );
+            for c in &f.corrections {
+                let _ = writeln!(
+                    s,
+                    "| {} | {:.2} | {:.2} | {} |",
+                    c.text, c.spread_before_mm_per_m, c.spread_after_mm_per_m, c.why
+                );
+            }
+        }
+        s.push('\n');
+    }
+    if !d.causes.is_empty() {
+        let _ = writeln!(s, "## Root cause\n\n| cause | removed as | spread without (mm/m) | share |\n|---|---|---|---|");
+        for c in &d.causes {
+            let _ = writeln!(
+                s,
+                "| {} | {} | {:.2} | {:.0} % |",
+                c.cause,
+                c.removed,
+                c.spread_without_mm_per_m,
+                c.share * 100.0
+            );
+        }
+        s.push('\n');
+    }
+    let _ = writeln!(s, "## Lanes\n\n| lane | centre | caliper dev | length at unwind vs mean lane (mm/m) | MD creep scale | radial creep scale | fit rmse |\n|---|---|---|---|---|---|---|");
+    for (i, l) in d.lanes.iter().enumerate() {
+        let _ = writeln!(
+            s,
+            "| {i} | {} | {:+.2} % | {:+.2} | {:.2} | {:.2} | {:.2} |",
+            pos(l.position_m, sys),
+            l.caliper_deviation * 100.0,
+            l.excess_mm_per_m,
+            l.md_creep_scale,
+            l.radial_creep_scale,
+            l.fit_rmse
+        );
+    }
+    let _ = writeln!(
+        s,
+        "\n## Features\n\n| feature | value | meaning |\n|---|---|---|"
+    );
+    for (k, v) in &d.features.values {
+        let meaning = FEATURES
+            .iter()
+            .find(|f| f.name == k)
+            .map(|f| f.meaning)
+            .unwrap_or("");
+        let _ = writeln!(s, "| {k} | {v:.3} | {meaning} |");
+    }
+    if let Some(a) = &d.agreement {
+        let _ = writeln!(
+            s,
+            "\nComplaint: {}; prediction {}.",
+            plain(&a.complaint),
+            if a.agrees { "agrees" } else { "does not agree" }
+        );
+    }
+    if !d.notes.is_empty() {
+        let _ = writeln!(s, "\n## Notes\n");
+        for n in &d.notes {
+            let _ = writeln!(s, "- {n}");
+        }
+    }
+    let _ = writeln!(s, "\n---\n{SAFETY}");
+    s
+}
