@@ -1,0 +1,157 @@
+//! Every command from the README as a new user runs it: exit codes, JSON field names carrying SI
+//! units, deterministic output, report files written whole.
+
+use std::process::Command;
+
+fn run(args: &[&str]) -> (i32, String, String) {
+    let o = Command::new(env!("CARGO_BIN_EXE_rollsleuth"))
+        .args(args)
+        .output()
+        .expect("runs");
+    (
+        o.status.code().unwrap_or(-1),
+        String::from_utf8_lossy(&o.stdout).into(),
+        String::from_utf8_lossy(&o.stderr).into(),
+    )
+}
+
+#[test]
+fn every_field_case_passes_check_lanes_and_stress() {
+    for f in [
+        "field_cases/nordvik_pm3_caliper_band.yaml",
+        "field_cases/kestrel_coated_cold_to_humid.yaml",
+        "field_cases/harrowgate_board_dry_store.yaml",
+    ] {
+        for cmd in ["check", "lanes", "stress", "age", "fit"] {
+            let (code, out, err) = run(&[cmd, f]);
+            assert_eq!(code, 0, "{cmd} {f}: {err}");
+            assert!(!out.is_empty());
+        }
+        let (code, _, err) = run(&["check", "--units", "us", f]);
+        assert_eq!(code, 0, "{err}");
+    }
+}
+
+#[test]
+fn template_is_a_valid_case() {
+    let (code, out, _) = run(&["template"]);
+    assert_eq!(code, 0);
+    let p = std::env::temp_dir().join(format!("rollsleuth-template-{}.yaml", std::process::id()));
+    std::fs::write(&p, out).unwrap();
+    let (code, _, err) = run(&["check", p.to_str().unwrap()]);
+    assert_eq!(code, 0, "{err}");
+}
+
+#[test]
+fn json_field_names_carry_si_units() {
+    let (_, out, _) = run(&["stress", "--json"]);
+    let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+    let lane = &v["lanes"][0];
+    for k in [
+        "position_m",
+        "radius_m",
+        "radial_stress_pa",
+        "tangential_stress_pa",
+        "wound_in_tension_n_per_m",
+    ] {
+        assert!(lane.get(k).is_some(), "stress lane lacks {k}");
+    }
+    let (_, out, _) = run(&["age", "--json"]);
+    let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+    assert!(v["times_days"].is_array());
+    for k in [
+        "position_m",
+        "moisture_pct",
+        "permanent_strain",
+        "hygro_strain",
+        "diameter_m",
+        "hardness",
+    ] {
+        assert!(v["lanes"][0].get(k).is_some(), "age lane lacks {k}");
+    }
+    let (_, out, _) = run(&["fit", "--json"]);
+    let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+    for k in [
+        "position_m",
+        "params",
+        "uncertainty",
+        "rmse",
+        "converged",
+        "strain_at_unwind",
+    ] {
+        assert!(v["lanes"][0].get(k).is_some(), "fit lane lacks {k}");
+    }
+    assert!(v["spread_strain"].is_number());
+    let (code, out, _) = run(&["diagnose", "--json"]);
+    assert_eq!(code, 1, "findings exit with 1");
+    let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+    let f = &v["findings"][0];
+    for k in ["defect", "likelihood", "evidence", "lanes", "corrections"] {
+        assert!(f.get(k).is_some(), "finding lacks {k}");
+    }
+    assert!(f["corrections"][0].get("spread_after_mm_per_m").is_some());
+    let shares: f64 = v["causes"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|c| c["share"].as_f64().unwrap())
+        .sum();
+    assert!((shares - 1.0).abs() < 1e-9);
+    assert!(v["safety"].as_str().unwrap().contains("Safety"));
+}
+
+#[test]
+fn same_input_gives_the_same_bytes() {
+    for args in [
+        &["diagnose", "--json"][..],
+        &["fit"][..],
+        &[
+            "age",
+            "--json",
+            "field_cases/kestrel_coated_cold_to_humid.yaml",
+        ][..],
+    ] {
+        let a = run(args).1;
+        let b = run(args).1;
+        assert_eq!(a, b, "{args:?}");
+    }
+}
+
+#[test]
+fn diagnose_writes_a_whole_report_and_advises_safely() {
+    let dir = std::env::temp_dir().join(format!("rollsleuth-report-{}", std::process::id()));
+    let (code, out, err) = run(&["diagnose", "--out", dir.to_str().unwrap()]);
+    assert_eq!(code, 1, "{err}");
+    assert!(out.contains("Safety:"));
+    let names: Vec<String> = std::fs::read_dir(&dir)
+        .unwrap()
+        .map(|e| e.unwrap().file_name().to_string_lossy().into_owned())
+        .collect();
+    assert_eq!(names.len(), 3, "{names:?}");
+    assert!(names.iter().all(|n| !n.ends_with(".tmp")));
+    let md = std::fs::read_to_string(dir.join("NVP-PM3-24117-R06_report.md")).unwrap();
+    assert!(md.contains("## Root cause") && md.contains("Safety"));
+    let svg = std::fs::read_to_string(dir.join("NVP-PM3-24117-R06_lanes.svg")).unwrap();
+    assert!(svg.starts_with("<svg") && svg.trim_end().ends_with("</svg>"));
+}
+
+#[test]
+fn whatif_compares_before_and_after() {
+    let (code, out, err) = run(&["whatif", "--set", "winding.nip=4 pli"]);
+    assert_eq!(code, 0, "{err}");
+    assert!(out.contains("->") && out.contains("Safety"));
+    let (code, _, _) = run(&["whatif"]);
+    assert_eq!(code, 1, "whatif without --set is a usage error");
+}
+
+#[test]
+fn triage_ranks_rolls_and_reports_bad_files() {
+    let (code, out, err) = run(&["triage", "field_cases", "no/such.yaml"]);
+    assert_eq!(code, 1, "{err}");
+    assert!(
+        out.contains("NVP-PM3-24117-R06")
+            && out.contains("KCP-CM2-8841-R03")
+            && out.contains("HGB-BM1-5520-R11")
+    );
+    assert!(out.contains("error:"), "a bad file is listed, not fatal");
+}

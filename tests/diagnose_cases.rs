@@ -1,0 +1,192 @@
+//! Diagnosis checks: the shipped field cases, facts of the trade (common practice), and every
+//! default rule firing on a feature set built to trigger it but not on a uniform roll.
+
+use rollsleuth::case::{self, Case};
+use rollsleuth::diagnose::{diagnose, features::FEATURES, DiagnoseOptions, Diagnosis};
+use rollsleuth::rules;
+
+fn run(c: &Case) -> Diagnosis {
+    diagnose(
+        c,
+        &rules::load_default().unwrap(),
+        &DiagnoseOptions::default(),
+    )
+    .unwrap()
+}
+
+fn field(name: &str) -> Case {
+    case::load_file(
+        std::path::Path::new(&format!("field_cases/{name}.yaml")),
+        &[],
+    )
+    .unwrap()
+}
+
+fn defects(d: &Diagnosis) -> Vec<&str> {
+    d.findings.iter().map(|f| f.defect.as_str()).collect()
+}
+
+/// Each shipped field case gives the finding its story intends, and its cause shares add to 1.
+#[test]
+fn field_cases_give_their_intended_finding_and_shares_add_up() {
+    for (name, want, lane_mm) in [
+        ("nordvik_pm3_caliper_band", "baggy_lane", Some(650.0)),
+        ("kestrel_coated_cold_to_humid", "baggy_edges", None),
+        ("harrowgate_board_dry_store", "baggy_center", None),
+    ] {
+        let d = run(&field(name));
+        let f = d
+            .findings
+            .iter()
+            .find(|f| f.defect == want)
+            .unwrap_or_else(|| panic!("{name}: {:?}", defects(&d)));
+        assert!(d.agreement.as_ref().is_some_and(|a| a.agrees), "{name}");
+        if let Some(mm) = lane_mm {
+            assert!(
+                f.lanes
+                    .iter()
+                    .any(|l| (l.position_m * 1e3 - mm).abs() < 60.0),
+                "{name}: lanes {:?}",
+                f.lanes
+            );
+        }
+        let total: f64 = d.causes.iter().map(|c| c.share).sum();
+        assert!((total - 1.0).abs() < 1e-9, "{name}: shares add to {total}");
+        // every correction was re-run and reported before/after
+        for c in &f.corrections {
+            assert!(c.spread_after_mm_per_m.is_finite());
+        }
+        assert!(d.advises_action);
+    }
+}
+
+/// The caliper band is the main cause the caliper-band story names: flattening the caliper in
+/// the model removes most of the band's excess (before/after backed by numbers).
+#[test]
+fn caliper_correction_is_backed_by_the_model() {
+    let d = run(&field("nordvik_pm3_caliper_band"));
+    let f = d
+        .findings
+        .iter()
+        .find(|f| f.defect == "baggy_lane")
+        .unwrap();
+    let flat = f
+        .corrections
+        .iter()
+        .find(|c| c.action == "flatten_caliper")
+        .unwrap();
+    assert!(flat.spread_after_mm_per_m < 0.7 * flat.spread_before_mm_per_m);
+}
+
+fn uniform(storage: &str) -> Case {
+    let mut c = case::load_demo(&[
+        "lanes.count=9".into(),
+        format!("storage={storage}"),
+        "converting.tension=1.1 pli".into(),
+    ])
+    .unwrap();
+    c.profiles.clear();
+    c.complaint = None;
+    c
+}
+
+/// Uniform material wound uniformly and stored at equilibrium gives no finding (common practice).
+#[test]
+fn uniform_roll_at_equilibrium_gives_no_finding() {
+    // 8.5 % moisture: equilibrium RH from the GAB isotherm of the newsprint defaults
+    let c0 = uniform("[]");
+    let rh = rollsleuth::diagnose::actions::rh_for_moisture(&c0, c0.material.moisture_pct);
+    let c = uniform(&format!("[{{duration: \"30 d\", temperature: \"23 C\", rh: \"{:.2} %\", barrel_wrap: paper, end_wrap: paper}}]", rh * 100.0));
+    let d = run(&c);
+    assert!(d.findings.is_empty(), "{:?}", defects(&d));
+    assert!(d.spread_mm_per_m < 0.05, "{}", d.spread_mm_per_m);
+}
+
+/// A drying roll is diagnosed baggy centre, a wetting roll baggy edges (common practice).
+#[test]
+fn drying_roll_is_baggy_centre_and_wetting_roll_baggy_edges() {
+    let dry = run(&uniform("[{duration: \"40 d\", temperature: \"28 C\", rh: \"20 %\", barrel_wrap: paper, end_wrap: none}]"));
+    assert_eq!(
+        dry.findings.first().map(|f| f.defect.as_str()),
+        Some("baggy_center"),
+        "{:?}",
+        defects(&dry)
+    );
+    let wet = run(&uniform("[{duration: \"20 d\", temperature: \"25 C\", rh: \"85 %\", barrel_wrap: paper, end_wrap: none}]"));
+    assert_eq!(
+        wet.findings.first().map(|f| f.defect.as_str()),
+        Some("baggy_edges"),
+        "{:?}",
+        defects(&wet)
+    );
+}
+
+/// A caliper band of a few percent wound tight gives a baggy lane at that band (common practice).
+#[test]
+fn caliper_band_gives_baggy_lane_at_the_band() {
+    let mut c = uniform("[{duration: \"30 d\", temperature: \"23 C\", rh: \"50 %\", barrel_wrap: paper, end_wrap: paper}]");
+    c.profiles.push(rollsleuth::case::Profile {
+        what: rollsleuth::case::Measure::Caliper,
+        age_s: 0.0,
+        positions_m: vec![0.1, 0.3, 0.5, 0.7, 0.9, 1.1, 1.3, 1.5],
+        values: vec![72e-6, 72e-6, 72e-6, 72e-6, 74.5e-6, 72e-6, 72e-6, 72e-6],
+        origin: "test".into(),
+    });
+    c.lane_count = None;
+    let d = run(&c);
+    let f = d
+        .findings
+        .iter()
+        .find(|f| f.defect == "baggy_lane")
+        .unwrap_or_else(|| panic!("{:?}", defects(&d)));
+    assert!(
+        f.lanes.iter().any(|l| (l.position_m - 0.9).abs() < 0.06),
+        "{:?}",
+        f.lanes
+    );
+}
+
+/// Every default rule fires on a feature set built from its own conditions (each threshold
+/// passed by a margin), and none fires on the features of a uniform roll at equilibrium.
+#[test]
+fn each_rule_fires_on_its_trigger_and_not_on_a_uniform_roll() {
+    let table = rules::load_default().unwrap();
+    for r in &table.rules {
+        let mut vals = std::collections::BTreeMap::new();
+        for c in &r.when {
+            let v = match (c.above, c.below) {
+                (Some(a), Some(b)) => 0.5 * (a + b),
+                (Some(a), None) => a + 0.1 * a.abs().max(0.1),
+                (None, Some(b)) => b - 0.1 * b.abs().max(0.1),
+                _ => 0.0,
+            };
+            vals.insert(c.feature.clone(), v);
+        }
+        let fired = rules::evaluate(&table, &|n| vals.get(n).copied());
+        assert!(
+            fired.iter().any(|f| f.rule.id == r.id),
+            "rule {} did not fire on its own trigger",
+            r.id
+        );
+    }
+    let c0 = uniform("[]");
+    let rh = rollsleuth::diagnose::actions::rh_for_moisture(&c0, c0.material.moisture_pct);
+    let d = run(&uniform(&format!(
+        "[{{duration: \"30 d\", temperature: \"23 C\", rh: \"{:.2} %\"}}]",
+        rh * 100.0
+    )));
+    let fired = rules::evaluate(&table, &|n| d.features.get(n));
+    assert!(
+        fired.is_empty(),
+        "{:?}",
+        fired.iter().map(|f| &f.rule.id).collect::<Vec<_>>()
+    );
+    // and every feature a rule names is computed
+    for f in FEATURES {
+        assert!(
+            d.features.get(f.name).is_some(),
+            "feature {} not computed",
+            f.name
+        );
+    }
+}
