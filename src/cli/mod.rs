@@ -142,50 +142,28 @@ pub struct Failure {
     pub code: u8,
 }
 
-impl From<CaseError> for Failure {
-    fn from(e: CaseError) -> Self {
-        Failure {
-            message: format!("error: {e}"),
-            code: 2,
+/// Errors of the library become bad-input failures (exit 2) with their message.
+macro_rules! bad_input {
+    ($($t:ty),*) => {$(
+        impl From<$t> for Failure {
+            fn from(e: $t) -> Self {
+                Failure {
+                    message: format!("error: {e}"),
+                    code: 2,
+                }
+            }
         }
-    }
+    )*};
 }
 
-impl From<crate::storage::AgeError> for Failure {
-    fn from(e: crate::storage::AgeError) -> Self {
-        Failure {
-            message: format!("error: {e}"),
-            code: 2,
-        }
-    }
-}
-
-impl From<crate::fit::FitError> for Failure {
-    fn from(e: crate::fit::FitError) -> Self {
-        Failure {
-            message: format!("error: {e}"),
-            code: 2,
-        }
-    }
-}
-
-impl From<crate::rules::RulesError> for Failure {
-    fn from(e: crate::rules::RulesError) -> Self {
-        Failure {
-            message: format!("error: {e}"),
-            code: 2,
-        }
-    }
-}
-
-impl From<crate::diagnose::DiagnoseError> for Failure {
-    fn from(e: crate::diagnose::DiagnoseError) -> Self {
-        Failure {
-            message: format!("error: {e}"),
-            code: 2,
-        }
-    }
-}
+bad_input!(
+    CaseError,
+    crate::storage::AgeError,
+    crate::fit::FitError,
+    crate::rules::RulesError,
+    crate::diagnose::DiagnoseError,
+    crate::winding::WindError
+);
 
 fn load_rules(arg: &RulesArg) -> Result<crate::rules::Table, Failure> {
     Ok(match &arg.rules {
@@ -214,15 +192,6 @@ fn case_files(paths: &[PathBuf]) -> Result<Vec<PathBuf>, Failure> {
         }
     }
     Ok(out)
-}
-
-impl From<crate::winding::WindError> for Failure {
-    fn from(e: crate::winding::WindError) -> Self {
-        Failure {
-            message: format!("error: {e}"),
-            code: 2,
-        }
-    }
 }
 
 /// Load the case named by `arg`, or the demo case.

@@ -185,15 +185,17 @@ fn lanes_for(defect: &str, case: &Case, lanes: &Lanes, f: &Features) -> Vec<usiz
     pick
 }
 
-/// A correction run's identity: action, factor bits, slit lanes.
-type CorrectionKey = (String, Option<u64>, Vec<usize>);
+/// A case wound and fitted: what diagnosis and what-if start from.
+pub struct Fitted {
+    pub lanes: Lanes,
+    pub wound: crate::winding::Wound,
+    pub fit: crate::fit::RollFit,
+    /// Fitted creep per lane.
+    pub creep: Vec<LaneCreep>,
+}
 
-/// Diagnose a case with a rule table.
-pub fn diagnose(
-    case: &Case,
-    table: &Table,
-    opt: &DiagnoseOptions,
-) -> Result<Diagnosis, DiagnoseError> {
+/// Build lanes, wind and fit a case.
+pub fn fitted(case: &Case, opt: &DiagnoseOptions) -> Result<Fitted, DiagnoseError> {
     let lanes = lanes::build(case);
     let wound = wind(
         case,
@@ -204,13 +206,36 @@ pub fn diagnose(
         },
     )?;
     let fit = fit_roll(case, &lanes, &wound, &AgeOptions::default())?;
-    let feats = features::compute(case, &lanes, &wound, &fit.aged);
-    let fired = rules::evaluate(table, &|n| feats.get(n));
-    let creep: Vec<LaneCreep> = fit
+    let creep = fit
         .lanes
         .iter()
         .map(|l| crate::fit::creep_from(case, &l.theta))
         .collect();
+    Ok(Fitted {
+        lanes,
+        wound,
+        fit,
+        creep,
+    })
+}
+
+/// A correction run's identity: action, factor bits, slit lanes.
+type CorrectionKey = (String, Option<u64>, Vec<usize>);
+
+/// Diagnose a case with a rule table.
+pub fn diagnose(
+    case: &Case,
+    table: &Table,
+    opt: &DiagnoseOptions,
+) -> Result<Diagnosis, DiagnoseError> {
+    let Fitted {
+        lanes,
+        wound,
+        fit,
+        creep,
+    } = fitted(case, opt)?;
+    let feats = features::compute(case, &lanes, &wound, &fit.aged);
+    let fired = rules::evaluate(table, &|n| feats.get(n));
     let base = base_scenario(case, &lanes, creep, Options::default().levelling);
     let mut notes = fit.notes.clone();
     let (base_spread, causes) = if opt.what_if {
@@ -416,21 +441,7 @@ pub fn what_if(
     table: &Table,
     opt: &DiagnoseOptions,
 ) -> Result<WhatIf, DiagnoseError> {
-    let lanes = lanes::build(base);
-    let wound = wind(
-        base,
-        &lanes,
-        Options {
-            nodes: opt.nodes,
-            ..Options::default()
-        },
-    )?;
-    let fit = fit_roll(base, &lanes, &wound, &AgeOptions::default())?;
-    let creep: Vec<LaneCreep> = fit
-        .lanes
-        .iter()
-        .map(|l| crate::fit::creep_from(base, &l.theta))
-        .collect();
+    let creep = fitted(base, opt)?.creep;
     let run = |c: &Case| -> Result<(Lanes, actions::Outcome), DiagnoseError> {
         let l = lanes::build(c);
         let mut cr = creep.clone();
