@@ -452,6 +452,11 @@ fn write_report(
     )
     .map_err(fail)?;
     report::write_atomic(
+        &dir.join(format!("{stem}_pressure.svg")),
+        &report::diagnose_view::pressure_svg(d),
+    )
+    .map_err(fail)?;
+    report::write_atomic(
         &dir.join(format!("{stem}_report.md")),
         &report::diagnose_view::markdown(d, &plot, sys),
     )

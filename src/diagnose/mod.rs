@@ -139,6 +139,10 @@ pub struct Diagnosis {
     pub spread_mm_per_m: f64,
     /// Whether the output advises action (then it carries the safety note).
     pub advises_action: bool,
+    /// Wound-in interlayer pressure against radius per lane, for plotting: radii (m) and, per
+    /// lane, (position m, pressure Pa at each radius).
+    #[serde(skip)]
+    pub pressure_curves: (Vec<f64>, Vec<(f64, Vec<f64>)>),
     pub notes: Vec<String>,
 }
 
@@ -399,7 +403,26 @@ pub fn diagnose(
     notes.extend(fit.aged.notes.iter().cloned());
     notes.sort();
     notes.dedup();
+    let stride = (wound.radius_m.len() / 200).max(1);
+    let pressure_curves = (
+        wound.radius_m.iter().step_by(stride).copied().collect(),
+        wound
+            .lanes
+            .iter()
+            .map(|l| {
+                (
+                    l.position_m,
+                    l.radial_stress_pa
+                        .iter()
+                        .step_by(stride)
+                        .map(|s| -s)
+                        .collect(),
+                )
+            })
+            .collect(),
+    );
     Ok(Diagnosis {
+        pressure_curves,
         case: case.id.clone(),
         title: case.title.clone(),
         rules: table.source.clone(),

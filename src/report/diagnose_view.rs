@@ -141,7 +141,7 @@ pub fn json(d: &Diagnosis) -> Value {
 pub fn svg(d: &Diagnosis, width_m: f64) -> String {
     let (w, h, m) = (720.0, 300.0, 50.0);
     let vals: Vec<f64> = d.lanes.iter().map(|l| l.excess_mm_per_m).collect();
-    let vmax = vals.iter().cloned().fold(0.6f64, |a, b| a.max(b.abs())) * 1.15;
+    let vmax = vals.iter().cloned().fold(0.3f64, |a, b| a.max(b.abs())) * 1.3;
     let x = |p: f64| m + (w - 2.0 * m) * p / width_m;
     let y = |v: f64| h / 2.0 - (h / 2.0 - m) * v / vmax;
     let mut s = String::new();
@@ -150,10 +150,17 @@ pub fn svg(d: &Diagnosis, width_m: f64) -> String {
         "<svg xmlns=\"http://www.w3.org/2000/svg\" width=\"{w}\" height=\"{h}\" font-family=\"Helvetica, Arial, sans-serif\" font-size=\"12\">\n<rect width=\"{w}\" height=\"{h}\" fill=\"white\"/>\n"
     );
     let _ = writeln!(s, "<text x=\"{m}\" y=\"20\">Predicted length at unwind over the width-weighted mean lane, mm per m (case {})</text>", d.case);
-    for lim in [0.5, -0.5] {
+    let run = d.features.get("running_strain_mm_per_m").unwrap_or(0.5);
+    for (lim, label) in [
+        (0.5 * run, "half the running strain: looks baggy"),
+        (run, "running strain: runs slack"),
+    ] {
+        if lim > vmax {
+            continue;
+        }
         let _ = writeln!(s, "<line x1=\"{m}\" x2=\"{:.1}\" y1=\"{:.1}\" y2=\"{:.1}\" stroke=\"#999\" stroke-dasharray=\"4 3\"/>", w - m, y(lim), y(lim));
+        let _ = writeln!(s, "<text x=\"{:.1}\" y=\"{:.1}\" fill=\"#666\" text-anchor=\"end\">+{lim:.2} mm/m: {label} (common practice)</text>", w - m, y(lim) - 4.0);
     }
-    let _ = writeln!(s, "<text x=\"{:.1}\" y=\"{:.1}\" fill=\"#666\">+0.5 mm/m: visibly slack (common practice)</text>", w - m - 260.0, y(0.5) - 4.0);
     let _ = writeln!(
         s,
         "<line x1=\"{m}\" x2=\"{:.1}\" y1=\"{:.1}\" y2=\"{:.1}\" stroke=\"black\"/>",
@@ -192,6 +199,49 @@ pub fn svg(d: &Diagnosis, width_m: f64) -> String {
     s
 }
 
+/// SVG plot of wound-in interlayer pressure against radius for every lane.
+pub fn pressure_svg(d: &Diagnosis) -> String {
+    let (radii, curves) = &d.pressure_curves;
+    let (w, h, m) = (720.0, 360.0, 60.0);
+    let (r0, r1) = (
+        radii.first().copied().unwrap_or(0.0),
+        radii.last().copied().unwrap_or(1.0),
+    );
+    let pmax = curves
+        .iter()
+        .flat_map(|(_, p)| p.iter())
+        .cloned()
+        .fold(1.0f64, f64::max)
+        * 1.1;
+    let x = |r: f64| m + (w - 1.5 * m) * (r - r0) / (r1 - r0).max(1e-9);
+    let y = |p: f64| h - m - (h - 1.8 * m) * p / pmax;
+    let mut s = String::new();
+    let _ = writeln!(s, "<svg xmlns=\"http://www.w3.org/2000/svg\" width=\"{w}\" height=\"{h}\" font-family=\"Helvetica, Arial, sans-serif\" font-size=\"12\">\n<rect width=\"{w}\" height=\"{h}\" fill=\"white\"/>");
+    let _ = writeln!(s, "<text x=\"{m}\" y=\"24\">Wound-in interlayer pressure against radius, every lane (case {})</text>", d.case);
+    let _ = writeln!(s, "<line x1=\"{m}\" y1=\"{:.1}\" x2=\"{:.1}\" y2=\"{:.1}\" stroke=\"black\"/><line x1=\"{m}\" y1=\"{:.1}\" x2=\"{m}\" y2=\"{:.1}\" stroke=\"black\"/>", y(0.0), w - 0.5 * m, y(0.0), y(0.0), y(pmax));
+    let n = curves.len().max(1);
+    for (k, (_, p)) in curves.iter().enumerate() {
+        let hue = 220.0 - 180.0 * k as f64 / n as f64;
+        let pts: Vec<String> = radii
+            .iter()
+            .zip(p)
+            .map(|(r, v)| format!("{:.1},{:.1}", x(*r), y(v.max(0.0))))
+            .collect();
+        let _ = writeln!(s, "<polyline fill=\"none\" stroke=\"hsl({hue:.0},60%,45%)\" stroke-width=\"1.2\" points=\"{}\"/>", pts.join(" "));
+    }
+    let _ = writeln!(s, "<text x=\"{m}\" y=\"{:.1}\">core {:.0} mm</text><text x=\"{:.1}\" y=\"{:.1}\" text-anchor=\"end\">radius, surface {:.0} mm</text>", h - m + 18.0, r0 * 1e3, w - 0.5 * m, h - m + 18.0, r1 * 1e3);
+    let _ = writeln!(
+        s,
+        "<text x=\"6\" y=\"{:.1}\">{:.0} kPa</text><text x=\"6\" y=\"{:.1}\">0</text>",
+        y(pmax) + 4.0,
+        pmax / 1e3,
+        y(0.0) + 4.0
+    );
+    let _ = writeln!(s, "<text x=\"{m}\" y=\"{:.1}\" fill=\"#555\">lanes from the front edge (blue) to the back edge (green)</text>", h - 14.0);
+    s.push_str("</svg>\n");
+    s
+}
+
 /// Markdown root-cause report (refers to the SVG plot by file name).
 pub fn markdown(d: &Diagnosis, plot_file: &str, sys: System) -> String {
     let mut s = String::new();
@@ -201,7 +251,8 @@ pub fn markdown(d: &Diagnosis, plot_file: &str, sys: System) -> String {
         "Predicted length spread across the width at unwind: **{:.2} mm per metre of web**.\n",
         d.spread_mm_per_m
     );
-    let _ = writeln!(s, "![lane length at unwind]({plot_file})\n\n## Findings\n");
+    let pressure_file = plot_file.replace("_lanes.svg", "_pressure.svg");
+    let _ = writeln!(s, "![lane length at unwind]({plot_file})\n\n![wound-in pressure]({pressure_file})\n\n## Findings\n");
     if d.findings.is_empty() {
         let _ = writeln!(s, "No rule fired.\n");
     }

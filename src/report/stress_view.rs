@@ -93,6 +93,7 @@ pub fn json(c: &Case, w: &Wound) -> Value {
         "layers": w.layers,
         "layers_per_node": w.layers_per_node,
         "stack_compression": w.stack_compression,
+        "layer_thickness_m": w.layer_thickness_m,
         "levelling": w.levelling,
         "core_stiffness_pa": w.core_stiffness_pa,
         "lift_off_speed_m_s": w.lift_off_speed_m_s,

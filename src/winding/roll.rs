@@ -107,6 +107,8 @@ pub struct Wound {
     pub layers: f64,
     /// Layers per grid node.
     pub layers_per_node: f64,
+    /// Compressed mean layer thickness, m: tangential stresses are wound-in tension over this.
+    pub layer_thickness_m: f64,
     /// Mean compressive strain of the wound stack: the stated diameter holds this many more
     /// layers than the uncompressed caliper would suggest.
     pub stack_compression: f64,
@@ -186,6 +188,7 @@ fn accrete(
     let mut radii = vec![rc; n];
     let mut offs = vec![0.0; n];
     let mut tens = vec![0.0; n];
+    let mut last_wit = vec![0.0; n];
     // Lane radii are refreshed at least 400 times over the build (every node on coarser grids).
     let every = nodes.div_ceil(400).max(1);
     for (k, &rk) in grid.iter().enumerate() {
@@ -205,10 +208,14 @@ fn accrete(
             tens[i] = stiff[i] * (e0 + offs[i]).max(0.0);
         }
         for (i, st) in states.iter_mut().enumerate() {
-            let wit = tens[i] + nip_part;
-            let sigma_w = wit / cal[i];
-            let eff = (wit - rho * cal[i] * v * v).max(0.0);
-            let p_new = eff * per_node / rk;
+            // effective wound-in tension: web + nip part, less what a ring spinning at the
+            // surface speed needs to hold itself (thin ring, rho c v^2)
+            let wit = (tens[i] + nip_part - rho * cal[i] * v * v).max(0.0);
+            // hoop stress on the grid: force over the compressed layer thickness, so that each
+            // step adds pressure p r = sigma_w h (radial equilibrium holds exactly)
+            let sigma_w = wit / c_eff;
+            let p_new = sigma_w * h / rk;
+            last_wit[i] = wit;
             st.add(&model, p_new, sigma_w, wit)
                 .map_err(|f| WindError::Solve {
                     lane: i,
@@ -218,7 +225,7 @@ fn accrete(
         }
     }
     for (i, st) in states.iter_mut().enumerate() {
-        st.finish((tens[i] + nip_part) / cal[i]);
+        st.finish(last_wit[i] / c_eff);
     }
     Ok((states, per_node))
 }
@@ -243,6 +250,12 @@ fn richardson(fine: &mut [f64], coarse: &[f64]) {
 }
 
 /// Wind every lane of the roll.
+///
+/// Each lane's wound-in tension is its share of the web tension plus the nip-induced part
+/// (friction x nip load, Good, Wu and Fikes 1994) less rho c v^2 (a layer spinning at surface
+/// speed v needs that hoop force to hold itself, so it does not press on the roll). Tangential
+/// stresses are per unit of compressed layer thickness on the shared grid, so that every layer adds
+/// interlayer pressure p = sigma_w h / r and radial equilibrium r sigma_r = -integral sigma_t holds.
 ///
 /// Lumping layers into nodes converges at first order in the lump size (the layers are
 /// discrete, the nodes are not), so the result is Richardson-extrapolated from the requested grid
@@ -322,6 +335,7 @@ pub fn wind(case: &Case, lanes: &Lanes, opt: Options) -> Result<Wound, WindError
         layers,
         layers_per_node: per_node,
         stack_compression: 1.0 - c_eff / lanes.mean_caliper_m,
+        layer_thickness_m: c_eff,
         lift_off_speed_m_s: lift_off_speed(mean_sigma, rho),
         levelling: opt.levelling,
         core_stiffness_pa: model.core_stiffness,
