@@ -382,6 +382,7 @@ impl Validator {
         let width = roll.as_ref().map(|r| r.width_m);
         let profiles = self.profiles(&raw.profiles, width, file);
         let (lane_edges_m, lane_count) = self.lanes(raw.lanes.as_ref(), width);
+        let lab_creep = self.lab_creep(&raw.lab_creep);
         let converting = match raw.converting.as_ref().and_then(|c| c.tension.as_ref()) {
             Some(q) => self.q(q, "converting.tension", Kind::LineForce, Range::Positive),
             None => winding.as_ref().zip(roll.as_ref()).map(|(w, r)| {
@@ -434,6 +435,7 @@ impl Validator {
             hardness: hardness?,
             wraps: wraps?,
             converting_tension_n_per_m: converting?,
+            lab_creep: lab_creep?,
             defaults: std::mem::take(&mut self.defaults),
             warnings: std::mem::take(&mut self.warnings),
         })
@@ -1325,6 +1327,86 @@ impl Validator {
             }
         }
         Some((ps, vs, shown))
+    }
+
+    fn lab_creep(&mut self, tests: &[RawLabCreep]) -> Option<Vec<LabCreep>> {
+        let mut out = Vec::new();
+        let mut ok = true;
+        for (i, t) in tests.iter().enumerate() {
+            let f = |n: &str| format!("lab_creep[{i}].{n}");
+            let dir = self.word(&t.direction, &f("direction"), &["md", "radial"]);
+            let stress = self.q(&t.stress, &f("stress"), Kind::Pressure, Range::Positive);
+            let temp = match &t.temperature {
+                Some(q) => self.q(
+                    q,
+                    &f("temperature"),
+                    Kind::Temperature,
+                    Range::Between(223.15, 373.15),
+                ),
+                None => Some(296.15),
+            };
+            let rh = match &t.rh {
+                Some(q) => self.q(q, &f("rh"), Kind::Humidity, Range::Between(0.0, 1.0)),
+                None => Some(0.5),
+            };
+            let unit = t.time_unit.value.clone();
+            let n_t = t.times.value.len();
+            let n_s = t.strains.value.len();
+            if n_t != n_s || n_t < 4 {
+                self.push(
+                    &f("strains"),
+                    Some(line_of(&t.strains)),
+                    format!("{n_t} times but {n_s} strains; give at least four points, one strain per time"),
+                );
+                ok = false;
+                continue;
+            }
+            let mut times = Vec::new();
+            for (k, x) in t.times.value.iter().enumerate() {
+                let field = f(&format!("times[{k}]"));
+                match self.num_unit(*x, &unit, &field, Some(line_of(&t.times)), Kind::Duration) {
+                    Some(v) if v > 0.0 => times.push(v),
+                    Some(_) => {
+                        self.push(
+                            &field,
+                            Some(line_of(&t.times)),
+                            "times must be after loading (greater than zero)".into(),
+                        );
+                        ok = false;
+                    }
+                    None => ok = false,
+                }
+            }
+            let strains: Vec<f64> = t.strains.value.clone();
+            if strains.iter().any(|s| !s.is_finite() || *s <= 0.0) {
+                self.push(
+                    &f("strains"),
+                    Some(line_of(&t.strains)),
+                    "strains must be positive finite numbers (as fractions, e.g. 0.0015)".into(),
+                );
+                ok = false;
+            }
+            if times.windows(2).any(|w| w[1] <= w[0]) {
+                self.push(
+                    &f("times"),
+                    Some(line_of(&t.times)),
+                    "times must increase".into(),
+                );
+                ok = false;
+            }
+            match (dir, stress, temp, rh) {
+                (Some(d), Some(s), Some(tk), Some(rh)) => out.push(LabCreep {
+                    direction: d.to_string(),
+                    stress_pa: s,
+                    temperature_k: tk,
+                    rh,
+                    times_s: times,
+                    strains,
+                }),
+                _ => ok = false,
+            }
+        }
+        ok.then_some(out)
     }
 
     fn lanes(

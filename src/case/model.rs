@@ -311,6 +311,23 @@ pub struct Calibration {
     pub pressure_ref_pa: f64,
 }
 
+/// A laboratory creep test: constant stress, strain against time.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct LabCreep {
+    /// `md` or `radial`.
+    pub direction: String,
+    /// Stress, Pa.
+    pub stress_pa: f64,
+    /// Test temperature, K.
+    pub temperature_k: f64,
+    /// Test relative humidity, fraction.
+    pub rh: f64,
+    /// Times since loading, s.
+    pub times_s: Vec<f64>,
+    /// Total strains (elastic + creep), dimensionless.
+    pub strains: Vec<f64>,
+}
+
 /// A value the case did not give, and where the default comes from.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct DefaultUsed {
@@ -339,6 +356,8 @@ pub struct Case {
     pub lane_count: Option<usize>,
     pub hardness: Hardness,
     pub wraps: WrapPermeance,
+    /// Laboratory creep tests of the grade.
+    pub lab_creep: Vec<LabCreep>,
     /// Web tension at the converter, N/m (the tension against which a long lane runs slack).
     pub converting_tension_n_per_m: f64,
     pub defaults: Vec<DefaultUsed>,

@@ -68,6 +68,23 @@ pub struct RawCase {
     pub wraps: Option<RawWraps>,
     #[serde(default)]
     pub converting: Option<RawConverting>,
+    #[serde(default)]
+    pub lab_creep: Vec<RawLabCreep>,
+}
+
+/// A laboratory creep test of the same grade.
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct RawLabCreep {
+    pub direction: Spanned<String>,
+    pub stress: Q,
+    #[serde(default)]
+    pub temperature: Option<Q>,
+    #[serde(default)]
+    pub rh: Option<Q>,
+    pub time_unit: Spanned<String>,
+    pub times: Spanned<Vec<f64>>,
+    pub strains: Spanned<Vec<f64>>,
 }
 
 /// What the converter runs the web at.

@@ -210,11 +210,7 @@ pub fn fitted(case: &Case, opt: &DiagnoseOptions) -> Result<Fitted, DiagnoseErro
         },
     )?;
     let fit = fit_roll(case, &lanes, &wound, &AgeOptions::default())?;
-    let creep = fit
-        .lanes
-        .iter()
-        .map(|l| crate::fit::creep_from(case, &l.theta))
-        .collect();
+    let creep = fit.lanes.iter().map(|l| l.creep).collect();
     Ok(Fitted {
         lanes,
         wound,

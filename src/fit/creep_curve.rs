@@ -20,6 +20,15 @@ pub struct CreepCurve {
 
 /// The objective at log-parameters [ln E, ln delayed, ln tau_K, ln tau_v].
 pub fn objective(c: &CreepCurve, p: &[f64]) -> f64 {
+    objective_many(std::slice::from_ref(c), p)
+}
+
+/// The objective summed over several curves (same material, different stresses).
+pub fn objective_many(cs: &[CreepCurve], p: &[f64]) -> f64 {
+    cs.iter().map(|c| one(c, p)).sum()
+}
+
+fn one(c: &CreepCurve, p: &[f64]) -> f64 {
     let b = Burgers {
         delayed: p[1].exp(),
         retardation_s: p[2].exp(),
@@ -33,13 +42,13 @@ pub fn objective(c: &CreepCurve, p: &[f64]) -> f64 {
         .sum()
 }
 
-struct Problem<'a>(&'a CreepCurve);
+struct Problem<'a>(&'a [CreepCurve]);
 
 impl CostFunction for Problem<'_> {
     type Param = Vec<f64>;
     type Output = f64;
     fn cost(&self, p: &Self::Param) -> Result<f64, ArgminError> {
-        let v = objective(self.0, p);
+        let v = objective_many(self.0, p);
         Ok(if v.is_finite() { v } else { 1e300 })
     }
 }
@@ -58,6 +67,11 @@ pub struct CurveFit {
 
 /// Fit a creep curve from a starting guess (modulus Pa, Burgers parameters).
 pub fn fit(c: &CreepCurve, e0: f64, b0: &Burgers) -> Result<CurveFit, String> {
+    fit_many(std::slice::from_ref(c), e0, b0)
+}
+
+/// Fit several curves of one material together.
+pub fn fit_many(c: &[CreepCurve], e0: f64, b0: &Burgers) -> Result<CurveFit, String> {
     let x0 = vec![
         e0.ln(),
         b0.delayed.ln(),

@@ -308,6 +308,9 @@ pub struct LaneFit {
     /// Log-scales at the optimum.
     #[serde(skip)]
     pub theta: Vec<f64>,
+    /// The lane's creep parameters (grade, or lab-fitted grade, times the scales).
+    #[serde(skip)]
+    pub creep: LaneCreep,
 }
 
 /// Fit one lane with a prior centred on `prior`.
@@ -382,5 +385,6 @@ pub fn fit_lane(p: &LaneProblem, prior: [f64; 2]) -> Result<LaneFit, String> {
         start_cost: m.start_cost,
         final_cost: m.cost,
         theta: m.theta,
+        creep: c,
     })
 }

@@ -62,6 +62,63 @@ pub struct RollFit {
     pub aged: Aged,
 }
 
+/// The grade's creep with laboratory creep curves applied: each direction that has lab curves
+/// gets the Burgers parameters fitted to them (times shifted to the reference atmosphere with the
+/// case's Arrhenius and moisture shifts). Returns the updated case and notes.
+pub fn with_lab_creep(case: &Case) -> Result<(Case, Vec<String>), FitError> {
+    let mut c = case.clone();
+    let mut notes = Vec::new();
+    let m = &case.material;
+    let mc_ref = crate::storage::gab_moisture(&m.sorption, 0.5);
+    for dir in ["md", "radial"] {
+        let curves: Vec<creep_curve::CreepCurve> = case
+            .lab_creep
+            .iter()
+            .filter(|t| t.direction == dir)
+            .map(|t| {
+                let a = crate::storage::arrhenius_shift(
+                    m.creep.activation_energy_j_mol,
+                    t.temperature_k,
+                ) * crate::storage::moisture_shift(
+                    m.creep.moisture_shift_dec_per_pct,
+                    crate::storage::gab_moisture(&m.sorption, t.rh),
+                    mc_ref,
+                );
+                creep_curve::CreepCurve {
+                    stress_pa: t.stress_pa,
+                    times_s: t.times_s.iter().map(|x| x / a).collect(),
+                    strains: t.strains.clone(),
+                }
+            })
+            .collect();
+        if curves.is_empty() {
+            continue;
+        }
+        let (e0, b0) = if dir == "md" {
+            (m.md_modulus_pa, m.creep.md)
+        } else {
+            let c0 = &curves[0];
+            (c0.stress_pa / c0.strains[0], m.creep.radial)
+        };
+        let f = creep_curve::fit_many(&curves, e0, &b0).map_err(FitError::Pooled)?;
+        notes.push(format!(
+            "{dir} creep from {} lab curve(s): delayed {:.3}, retardation {:.2} d, viscous time {:.0} d, elastic modulus {:.3} GPa{}",
+            curves.len(),
+            f.burgers.delayed,
+            f.burgers.retardation_s / 86400.0,
+            f.burgers.viscous_time_s / 86400.0,
+            f.modulus_pa / 1e9,
+            if f.converged { "" } else { " (lab-curve fit hit its iteration limit)" }
+        ));
+        if dir == "md" {
+            c.material.creep.md = f.burgers;
+        } else {
+            c.material.creep.radial = f.burgers;
+        }
+    }
+    Ok((c, notes))
+}
+
 /// Fit every lane of a roll, then predict its state at unwind.
 pub fn fit_roll(
     case: &Case,
@@ -69,8 +126,11 @@ pub fn fit_roll(
     wound: &Wound,
     opt: &AgeOptions,
 ) -> Result<RollFit, FitError> {
+    let (lab_case, lab_notes) = with_lab_creep(case)?;
+    let case = &lab_case;
     let prep = prepare(case, lanes, wound, opt);
     let (obs, mut notes) = observe::observations(case, lanes, &prep.timeline);
+    notes.extend(lab_notes);
     let problems: Vec<LaneProblem> = obs
         .into_iter()
         .enumerate()
@@ -109,7 +169,7 @@ pub fn fit_roll(
             "all measurements are at one age: creep parameters cannot be identified and stay at the roll's prior (grade values)".into(),
         );
     }
-    let creep: Vec<LaneCreep> = fits.iter().map(|f| creep_from(case, &f.theta)).collect();
+    let creep: Vec<LaneCreep> = fits.iter().map(|f| f.creep).collect();
     let aged = age(case, lanes, wound, Some(&creep), opt)?;
     let last = aged.times_days.len() - 1;
     let strain: Vec<f64> = aged
