@@ -55,9 +55,30 @@ fn bench(c: &mut Criterion) {
     });
 }
 
+fn bench_triage(c: &mut Criterion) {
+    // one returned roll as triage diagnoses it (fast settings, no corrections re-run)
+    let case = case::load_demo(&[]).expect("demo case loads");
+    let table = rollsleuth::rules::load_default().expect("default rules load");
+    let opt = rollsleuth::diagnose::DiagnoseOptions {
+        nodes: 101,
+        what_if: false,
+    };
+    c.bench_function("triage one 18-lane roll (fast settings)", |b| {
+        b.iter(|| {
+            rollsleuth::diagnose::diagnose(black_box(&case), &table, &opt).expect("diagnoses")
+        })
+    });
+    let full = rollsleuth::diagnose::DiagnoseOptions::default();
+    c.bench_function("diagnose one 18-lane roll (full, with re-runs)", |b| {
+        b.iter(|| {
+            rollsleuth::diagnose::diagnose(black_box(&case), &table, &full).expect("diagnoses")
+        })
+    });
+}
+
 criterion_group! {
     name = benches;
     config = Criterion::default().sample_size(10);
-    targets = bench
+    targets = bench, bench_triage
 }
 criterion_main!(benches);
