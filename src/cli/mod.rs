@@ -356,17 +356,17 @@ pub fn run(cli: &Cli) -> Result<Outcome, Failure> {
                 nodes: 101,
                 what_if: false,
             };
-            let mut rows = Vec::new();
-            for f in &files {
-                let row = match case::load_file(f, &[]) {
+            use rayon::prelude::*;
+            let mut rows: Vec<report::TriageRow> = files
+                .par_iter()
+                .map(|f| match case::load_file(f, &[]) {
                     Ok(c) => match crate::diagnose::diagnose(&c, &table, &opt) {
                         Ok(d) => report::TriageRow::from_diagnosis(f, &d),
                         Err(e) => report::TriageRow::failed(f, &e.to_string()),
                     },
                     Err(e) => report::TriageRow::failed(f, &e.to_string()),
-                };
-                rows.push(row);
-            }
+                })
+                .collect();
             rows.sort_by(|a, b| {
                 b.rank_key()
                     .total_cmp(&a.rank_key())

@@ -277,8 +277,9 @@ pub fn wind(case: &Case, lanes: &Lanes, opt: Options) -> Result<Wound, WindError
     let width: f64 = widths.iter().sum();
     let cal = lanes.calipers();
     let mut c_eff = lanes.mean_caliper_m;
+    let coarse_nodes = opt.nodes.clamp(21, 121);
     for _ in 0..8 {
-        let (st, pn) = accrete(case, lanes, 121, opt.levelling, c_eff)?;
+        let (st, pn) = accrete(case, lanes, coarse_nodes, opt.levelling, c_eff)?;
         let built = st
             .iter()
             .zip(&widths)
@@ -288,7 +289,7 @@ pub fn wind(case: &Case, lanes: &Lanes, opt: Options) -> Result<Wound, WindError
             / width;
         let ratio = (built - rc) / (big_r - rc);
         c_eff *= ratio;
-        if (ratio - 1.0).abs() < 1e-5 {
+        if (ratio - 1.0).abs() < 1e-4 {
             break;
         }
     }
