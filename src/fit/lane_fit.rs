@@ -96,6 +96,7 @@ impl<'a> LaneProblem<'a> {
             self.prep,
             &self.drive,
             self.steps,
+            true,
         )
         .ok()
     }

@@ -420,10 +420,14 @@ pub fn age_lane(
         prep,
         &d,
         prep.timeline.steps.len(),
+        false,
     )
 }
 
-/// Age one lane with a precomputed drive, for the first `steps` time steps.
+/// Age one lane with a precomputed drive, for the first `steps` time steps. With `lean`, only
+/// hardness, diameter and surface pressure are recorded (what a fit compares with measurements);
+/// the other series stay empty.
+#[allow(clippy::too_many_arguments)]
 pub fn age_lane_with(
     case: &Case,
     wound: &Wound,
@@ -432,6 +436,7 @@ pub fn age_lane_with(
     prep: &Prepared,
     drv: &LaneDrive,
     steps: usize,
+    lean: bool,
 ) -> Result<LaneAged, AgeError> {
     let mat = &case.material;
     let wl = &wound.lanes[lane];
@@ -492,6 +497,13 @@ pub fn age_lane_with(
                   st: &[f64],
                   ct: &[CreepState],
                   u_surface: f64| {
+        let p = zone_pressure(sr, r, f[nr]);
+        out.surface_pressure_pa.push(p);
+        out.hardness.push(prep.hardness.hardness(p));
+        out.diameter_m.push(2.0 * (big_r0 + u_surface));
+        if lean {
+            return;
+        }
         let avg = |g: &dyn Fn(usize) -> f64| (0..nr).map(|j| vol[j] * g(j)).sum::<f64>() / vsum;
         let perm = avg(&|j| ct[j].permanent);
         let del = avg(&|j| ct[j].delayed);
@@ -518,11 +530,6 @@ pub fn age_lane_with(
         for z in 0..3 {
             out.strain_at_unwind_by_third[z] = by[z] / wsum[z].max(1e-300);
         }
-        let _ = (perm, del, hyg);
-        out.diameter_m.push(2.0 * (big_r0 + u_surface));
-        let p = zone_pressure(sr, r, f[nr]);
-        out.surface_pressure_pa.push(p);
-        out.hardness.push(prep.hardness.hardness(p));
     };
     record(&mut out, mc0, &sr, &st, &ct, u_surface);
     let mut dsr_face = vec![0.0; nr + 1];
@@ -647,16 +654,15 @@ fn radial_elastic(stack: &crate::case::Stack, p: f64) -> (f64, f64) {
 
 /// Mean interlayer pressure (Pa) in the outer [`SURFACE_ZONE_M`] of a lane, on the storage grid.
 pub fn zone_pressure(sr: &[f64], r: &[f64], outer: f64) -> f64 {
-    let zone: Vec<f64> = r
+    let (sum, n) = r
         .iter()
         .zip(sr)
         .filter(|(x, _)| **x >= outer - SURFACE_ZONE_M)
-        .map(|(_, s)| -s)
-        .collect();
-    let p = if zone.is_empty() {
+        .fold((0.0, 0usize), |(a, k), (_, s)| (a - s, k + 1));
+    let p = if n == 0 {
         -sr[sr.len() - 1]
     } else {
-        zone.iter().sum::<f64>() / zone.len() as f64
+        sum / n as f64
     };
     p.max(0.0)
 }
