@@ -216,7 +216,11 @@ pub fn run(cli: &Cli) -> Result<Outcome, Failure> {
         UnitsArg::Us => System::Us,
     };
     match &cli.command {
-        Command::Template => Ok(Outcome::Ok(report::case_view::TEMPLATE.to_string())),
+        Command::Template => Ok(Outcome::Ok(if cli.json {
+            emit_json(&serde_json::json!({ "template_yaml": report::case_view::TEMPLATE }))
+        } else {
+            report::case_view::TEMPLATE.to_string()
+        })),
         Command::Check { cases, set } => {
             let mut loaded = Vec::new();
             let mut errors = Vec::new();
