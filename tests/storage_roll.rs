@@ -74,6 +74,7 @@ fn drying_outer_wraps_gain_about_225_psi_per_point() {
     let (_, st0) = rollsleuth::storage::initial_stress_of(&w, lane, &prep.moisture.r);
     let dsig = a.lanes[lane].final_tangential_stress_pa[j] - st0[j];
     let psi_per_point = dsig / 6894.757 / (-dmc);
+    eprintln!("measured: {psi_per_point:.1} psi per point of moisture lost (dmc {dmc:.2})");
     assert!(dmc < -0.5, "outer wrap dried: {dmc}");
     // within 25 %: creep relaxes part of it over the day
     assert!(
