@@ -14,6 +14,28 @@ fn uniform(sets: &[&str]) -> Case {
     c
 }
 
+/// Wind a case on 201 nodes and prepare its storage (time grid, moisture field).
+fn wound_and_prepared(
+    c: &Case,
+) -> (
+    lanes::Lanes,
+    rollsleuth::winding::Wound,
+    rollsleuth::storage::Prepared,
+) {
+    let l = lanes::build(c);
+    let w = wind(
+        c,
+        &l,
+        Options {
+            nodes: 201,
+            levelling: 0.5,
+        },
+    )
+    .unwrap();
+    let p = prepare(c, &l, &w, &AgeOptions::default());
+    (l, w, p)
+}
+
 fn run(c: &Case) -> Aged {
     let l = lanes::build(c);
     let w = wind(
@@ -54,19 +76,8 @@ fn drying_outer_wraps_gain_about_225_psi_per_point() {
             "material.creep.mechanosorptive=0",
         ],
     );
-    let l = lanes::build(&c);
-    let w = wind(
-        &c,
-        &l,
-        Options {
-            nodes: 201,
-            levelling: 0.5,
-        },
-    )
-    .unwrap();
-    let opt = AgeOptions::default();
-    let prep = prepare(&c, &l, &w, &opt);
-    let a = age(&c, &l, &w, None, &opt).unwrap();
+    let (l, w, prep) = wound_and_prepared(&c);
+    let a = age(&c, &l, &w, None, &AgeOptions::default()).unwrap();
     let lane = 4;
     let nr = prep.moisture.r.len();
     let j = nr - 1;
@@ -88,18 +99,7 @@ fn drying_outer_wraps_gain_about_225_psi_per_point() {
 #[test]
 fn moisture_works_inward_from_the_surfaces_ever_more_slowly() {
     let c = with(storage(60, "23 C", "85 %", "none", "none"), &[]);
-    let l = lanes::build(&c);
-    let w = wind(
-        &c,
-        &l,
-        Options {
-            nodes: 201,
-            levelling: 0.5,
-        },
-    )
-    .unwrap();
-    let opt = AgeOptions::default();
-    let p = prepare(&c, &l, &w, &opt);
+    let (l, _, p) = wound_and_prepared(&c);
     let last = p.moisture.mc.last().unwrap();
     let first = &p.moisture.mc[0];
     let nr = p.moisture.r.len();

@@ -25,6 +25,64 @@ pub struct Surfaces {
     pub m_eq: f64,
 }
 
+/// One implicit (backward-Euler) diffusion line:
+/// (1 + l_j + r_j + e_j) m_j - l_j m_{j-1} - r_j m_{j+1} = m_j_old + e_j m_eq,
+/// with exchange e only at the two end cells. The matrix is strictly diagonally dominant, so the
+/// Thomas solve cannot meet a zero pivot.
+struct Line {
+    left: Vec<f64>,
+    right: Vec<f64>,
+    old: Vec<f64>,
+    a: Vec<f64>,
+    b: Vec<f64>,
+    c: Vec<f64>,
+    d: Vec<f64>,
+    scratch: Vec<f64>,
+}
+
+impl Line {
+    fn new(n: usize) -> Self {
+        let z = || vec![0.0; n];
+        Line {
+            left: z(),
+            right: z(),
+            old: z(),
+            a: z(),
+            b: z(),
+            c: z(),
+            d: z(),
+            scratch: z(),
+        }
+    }
+
+    /// Solve the first `n` cells with end exchanges `e_first`, `e_last` towards `m_eq`.
+    fn solve(&mut self, n: usize, e_first: f64, e_last: f64, m_eq: f64) -> &[f64] {
+        for j in 0..n {
+            let mut diag = 1.0 + self.left[j] + self.right[j];
+            let mut rhs = self.old[j];
+            for (end, e) in [(0, e_first), (n - 1, e_last)] {
+                if j == end {
+                    diag += e;
+                    rhs += e * m_eq;
+                }
+            }
+            self.a[j] = -self.left[j];
+            self.b[j] = diag;
+            self.c[j] = -self.right[j];
+            self.d[j] = rhs;
+        }
+        let ok = thomas(
+            &self.a[..n],
+            &self.b[..n],
+            &self.c[..n],
+            &mut self.d[..n],
+            &mut self.scratch[..n],
+        );
+        debug_assert!(ok, "diagonally dominant diffusion line cannot fail");
+        &self.d[..n]
+    }
+}
+
 /// The moisture field on an (x, r) grid of cells.
 #[derive(Debug, Clone, PartialEq)]
 pub struct Field {
@@ -78,100 +136,60 @@ impl Field {
         self.r.len()
     }
 
-    /// Advance by `dt` seconds with the given surfaces.
+    /// Advance by `dt` seconds with the given surfaces: an implicit sweep across the width for
+    /// every radial cell, then an implicit sweep through the layers for every lateral cell.
     pub fn step(&mut self, dt: f64, s: &Surfaces) {
         let nx = self.x.len();
         let nr = self.nr();
-        let mut a = vec![0.0; nx.max(nr)];
-        let mut b = vec![0.0; nx.max(nr)];
-        let mut c = vec![0.0; nx.max(nr)];
-        let mut d = vec![0.0; nx.max(nr)];
-        let mut sc = vec![0.0; nx.max(nr)];
-        // x direction, each radial cell
-        let g = self.d_x * dt / (self.dx * self.dx);
-        let end = |k: f64| -> f64 {
-            // series: surface coefficient and half cell
+        let mut line = Line::new(nx.max(nr));
+        // series resistance of a surface coefficient k and the half cell next to it
+        let series = |k: f64, half: f64, d: f64| -> f64 {
             if k <= 0.0 {
                 0.0
             } else {
-                1.0 / (1.0 / k + 0.5 * self.dx / self.d_x.max(1e-30))
+                1.0 / (1.0 / k + half / d.max(1e-30))
             }
         };
-        let (kf, kb) = (end(s.front_m_s), end(s.back_m_s));
-        {
-            for ir in 0..nr {
-                for ix in 0..nx {
-                    let left = if ix > 0 { g } else { 0.0 };
-                    let right = if ix + 1 < nx { g } else { 0.0 };
-                    let mut diag = 1.0 + left + right;
-                    let mut rhs = self.m[ix * nr + ir];
-                    if ix == 0 {
-                        let e = kf * dt / self.dx;
-                        diag += e;
-                        rhs += e * s.m_eq;
-                    }
-                    if ix + 1 == nx {
-                        let e = kb * dt / self.dx;
-                        diag += e;
-                        rhs += e * s.m_eq;
-                    }
-                    a[ix] = -left;
-                    b[ix] = diag;
-                    c[ix] = -right;
-                    d[ix] = rhs;
-                }
-                if thomas(&a[..nx], &b[..nx], &c[..nx], &mut d[..nx], &mut sc[..nx]) {
-                    for (ix, v) in d[..nx].iter().enumerate() {
-                        self.m[ix * nr + ir] = *v;
-                    }
-                }
+        // across the width: cells of equal width dx
+        let g = self.d_x * dt / (self.dx * self.dx);
+        let kf = series(s.front_m_s, 0.5 * self.dx, self.d_x) * dt / self.dx;
+        let kb = series(s.back_m_s, 0.5 * self.dx, self.d_x) * dt / self.dx;
+        for ix in 0..nx {
+            line.left[ix] = if ix > 0 { g } else { 0.0 };
+            line.right[ix] = if ix + 1 < nx { g } else { 0.0 };
+        }
+        for ir in 0..nr {
+            for ix in 0..nx {
+                line.old[ix] = self.m[ix * nr + ir];
+            }
+            let new = line.solve(nx, kf, kb, s.m_eq);
+            for (ix, v) in new.iter().enumerate() {
+                self.m[ix * nr + ir] = *v;
             }
         }
-        // r direction, each x cell: volume r_j w_j, face area f
+        // through the layers: cell volume r_j w_j, face area f
         let f = &self.faces;
         let r = &self.r;
-        let surf = |k: f64, half: f64| -> f64 {
-            if k <= 0.0 {
-                0.0
+        for j in 0..nr {
+            let vol = r[j] * (f[j + 1] - f[j]);
+            line.left[j] = if j > 0 {
+                self.d_r * f[j] / (r[j] - r[j - 1]) * dt / vol
             } else {
-                1.0 / (1.0 / k + half / self.d_r.max(1e-30))
-            }
-        };
-        let kcore = surf(s.core_m_s, r[0] - f[0]);
-        let kbar = surf(s.barrel_m_s, f[nr] - r[nr - 1]);
+                0.0
+            };
+            line.right[j] = if j + 1 < nr {
+                self.d_r * f[j + 1] / (r[j + 1] - r[j]) * dt / vol
+            } else {
+                0.0
+            };
+        }
+        let ecore = series(s.core_m_s, r[0] - f[0], self.d_r) * f[0] * dt / (r[0] * (f[1] - f[0]));
+        let ebar = series(s.barrel_m_s, f[nr] - r[nr - 1], self.d_r) * f[nr] * dt
+            / (r[nr - 1] * (f[nr] - f[nr - 1]));
         for ix in 0..nx {
-            for j in 0..nr {
-                let vol = r[j] * (f[j + 1] - f[j]);
-                let lo = if j > 0 {
-                    self.d_r * f[j] / (r[j] - r[j - 1]) * dt / vol
-                } else {
-                    0.0
-                };
-                let hi = if j + 1 < nr {
-                    self.d_r * f[j + 1] / (r[j + 1] - r[j]) * dt / vol
-                } else {
-                    0.0
-                };
-                let mut diag = 1.0 + lo + hi;
-                let mut rhs = self.m[ix * nr + j];
-                if j == 0 {
-                    let e = kcore * f[0] * dt / vol;
-                    diag += e;
-                    rhs += e * s.m_eq;
-                }
-                if j + 1 == nr {
-                    let e = kbar * f[nr] * dt / vol;
-                    diag += e;
-                    rhs += e * s.m_eq;
-                }
-                a[j] = -lo;
-                b[j] = diag;
-                c[j] = -hi;
-                d[j] = rhs;
-            }
-            if thomas(&a[..nr], &b[..nr], &c[..nr], &mut d[..nr], &mut sc[..nr]) {
-                self.m[ix * nr..(ix + 1) * nr].copy_from_slice(&d[..nr]);
-            }
+            line.old[..nr].copy_from_slice(&self.m[ix * nr..(ix + 1) * nr]);
+            let new = line.solve(nr, ecore, ebar, s.m_eq);
+            self.m[ix * nr..(ix + 1) * nr].copy_from_slice(new);
         }
     }
 
