@@ -236,6 +236,7 @@ pub struct Profile {
     /// Positions from the front edge, m.
     pub positions_m: Vec<f64>,
     /// Values in SI (m) or hardness scale units.
+    #[serde(rename = "values_si")]
     pub values: Vec<f64>,
     /// Where it came from (case file or CSV path).
     pub origin: String,
