@@ -111,7 +111,6 @@ pub fn compute(case: &Case, lanes: &Lanes, wound: &Wound, aged: &Aged) -> Featur
     let width = case.roll.width_m;
     let wsum: f64 = w.iter().sum();
     let mean_w = s.iter().zip(&w).map(|(a, b)| a * b).sum::<f64>() / wsum;
-    let med = mean_w;
     let excess: Vec<f64> = s.iter().map(|v| v - mean_w).collect();
     let (imax, smax) =
         s.iter().enumerate().fold(
@@ -124,10 +123,9 @@ pub fn compute(case: &Case, lanes: &Lanes, wound: &Wound, aged: &Aged) -> Featur
         v.insert(k.to_string(), if val.is_finite() { val } else { 0.0 });
     };
     put("spread_mm_per_m", smax - smin);
-    put("longest_lane_excess_mm_per_m", smax - med);
+    put("longest_lane_excess_mm_per_m", smax - mean_w);
     // local peak: lane over the mean of up to two neighbours each side
     let mut local = f64::NEG_INFINITY;
-    let mut local_i = imax;
     let inner: Vec<usize> = if n >= 5 {
         (1..n - 1).collect()
     } else {
@@ -144,12 +142,11 @@ pub fn compute(case: &Case, lanes: &Lanes, wound: &Wound, aged: &Aged) -> Featur
         let e = s[i] - nb.iter().sum::<f64>() / nb.len() as f64;
         if e > local {
             local = e;
-            local_i = i;
         }
     }
     put("local_peak_mm_per_m", if n > 1 { local } else { 0.0 });
     // width of the band around the longest lane
-    let half = med + 0.5 * (smax - med);
+    let half = mean_w + 0.5 * (smax - mean_w);
     let (mut lo, mut hi) = (imax, imax);
     while lo > 0 && s[lo - 1] > half {
         lo -= 1;
@@ -204,7 +201,7 @@ pub fn compute(case: &Case, lanes: &Lanes, wound: &Wound, aged: &Aged) -> Featur
             } else {
                 f64::NEG_INFINITY
             };
-            s[i] > l && s[i] > r && s[i] - med > 0.3
+            s[i] > l && s[i] > r && s[i] - mean_w > 0.3
         })
         .count();
     put("band_count", bands as f64);
@@ -336,7 +333,6 @@ pub fn compute(case: &Case, lanes: &Lanes, wound: &Wound, aged: &Aged) -> Featur
     v.insert("local_peak_ratio".into(), lp);
     v.insert("centre_minus_edges_ratio".into(), ce);
     v.insert("longest_lane_ratio".into(), ll);
-    let _ = local_i;
     Features {
         values: v,
         longest_lane: imax,

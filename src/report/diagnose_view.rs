@@ -18,11 +18,10 @@ fn cond(above: Option<f64>, below: Option<f64>) -> String {
     }
 }
 
-fn lanes_text(d: &Diagnosis, lanes: &[crate::diagnose::LaneRef], sys: System) -> String {
+fn lanes_text(lanes: &[crate::diagnose::LaneRef], sys: System) -> String {
     if lanes.is_empty() {
         return "whole roll".into();
     }
-    let _ = d;
     lanes
         .iter()
         .map(|l| {
@@ -60,7 +59,7 @@ pub fn text(d: &Diagnosis, sys: System) -> String {
             f.rule
         );
         let _ = writeln!(out, "   Why: {}", f.mechanism);
-        let _ = writeln!(out, "   Where: {}", lanes_text(d, &f.lanes, sys));
+        let _ = writeln!(out, "   Where: {}", lanes_text(&f.lanes, sys));
         let mut t = table(&["evidence", "value", "fires when", "source"]);
         for e in &f.evidence {
             t.add_row(vec![
@@ -264,7 +263,7 @@ pub fn markdown(d: &Diagnosis, plot_file: &str, sys: System) -> String {
             plain(&f.defect),
             f.likelihood,
             f.mechanism,
-            lanes_text(d, &f.lanes, sys)
+            lanes_text(&f.lanes, sys)
         );
         let _ = writeln!(
             s,
