@@ -196,3 +196,49 @@ fn tighter_lane_takes_more_set_and_no_storage_means_no_change() {
         assert_relative_eq!(lane.strain_at_unwind[0], 0.0);
     }
 }
+
+/// With only later hardness readings (a converter's case) and no calibration, the hardness map
+/// is anchored at that profile: the roll's mean predicted hardness there equals the measured mean.
+#[test]
+fn later_hardness_only_anchors_the_hardness_map() {
+    let mut c = case::load_demo(&[]).unwrap();
+    c.profiles.retain(|p| {
+        p.what == rollsleuth::case::Measure::Caliper
+            || (p.what == rollsleuth::case::Measure::Hardness && p.age_s > 86400.0)
+    });
+    let a = run(&c);
+    assert!(a.hardness_map.source.contains("after winding"));
+    let p = c
+        .profiles
+        .iter()
+        .find(|p| p.what == rollsleuth::case::Measure::Hardness)
+        .unwrap();
+    let k = a
+        .times_days
+        .iter()
+        .enumerate()
+        .min_by(|x, y| {
+            (x.1 * 86400.0 - p.age_s)
+                .abs()
+                .total_cmp(&(y.1 * 86400.0 - p.age_s).abs())
+        })
+        .unwrap()
+        .0;
+    let l = lanes::build(&c);
+    let (vals, _) = lanes::onto(p, &l.positions());
+    let w = l.widths();
+    let ws: f64 = w.iter().sum();
+    let measured = vals.iter().zip(&w).map(|(v, x)| v * x).sum::<f64>() / ws;
+    // the map is linear in ln P, so compare width-weighted means of hardness
+    let predicted = a
+        .lanes
+        .iter()
+        .zip(&w)
+        .map(|(ln, x)| ln.hardness[k] * x)
+        .sum::<f64>()
+        / ws;
+    assert!(
+        (predicted - measured).abs() < 0.05,
+        "{predicted} vs {measured}"
+    );
+}

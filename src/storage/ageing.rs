@@ -365,12 +365,71 @@ pub struct Prepared {
 pub fn prepare(case: &Case, lanes: &Lanes, wound: &Wound, opt: &AgeOptions) -> Prepared {
     let timeline = timeline(case, opt);
     let moisture = moisture(case, lanes, &timeline, opt);
-    Prepared {
+    let mut prep = Prepared {
         hardness: HardnessMap::for_case(case, lanes, wound, &moisture.faces),
         mc_ref: gab_moisture(&case.material.sorption, 0.5),
         timeline,
         moisture,
+    };
+    match_later_hardness(case, lanes, wound, &mut prep);
+    prep
+}
+
+/// Without a calibration and without a winding-time hardness profile, set the hardness map's
+/// offset so that the roll's mean hardness, predicted with the grade's creep at the age of the
+/// first hardness profile, equals the measured mean there (a converter often has only later
+/// readings). The slope stays at its default.
+fn match_later_hardness(case: &Case, lanes: &Lanes, wound: &Wound, prep: &mut Prepared) {
+    if case.hardness.calibration.is_some() {
+        return;
     }
+    let Some(first) = case
+        .profiles
+        .iter()
+        .filter(|p| p.what == Measure::Hardness)
+        .min_by(|a, b| a.age_s.total_cmp(&b.age_s))
+    else {
+        return;
+    };
+    if first.age_s < 86400.0 {
+        return;
+    }
+    let step = prep
+        .timeline
+        .times
+        .iter()
+        .enumerate()
+        .min_by(|a, b| {
+            (a.1 - first.age_s)
+                .abs()
+                .total_cmp(&(b.1 - first.age_s).abs())
+        })
+        .map(|(i, _)| i)
+        .unwrap_or(0);
+    let grade = LaneCreep {
+        md: case.material.creep.md,
+        radial: case.material.creep.radial,
+    };
+    let widths = lanes.widths();
+    let wsum: f64 = widths.iter().sum();
+    let mut mean_lnp = 0.0;
+    for (i, w) in widths.iter().enumerate() {
+        let d = drive(case, prep, i);
+        match age_lane_with(case, wound, i, &grade, prep, &d, step, true) {
+            Ok(a) => {
+                mean_lnp += w * a.surface_pressure_pa[step.min(a.surface_pressure_pa.len() - 1)]
+                    .max(1.0)
+                    .ln()
+            }
+            Err(_) => return,
+        }
+    }
+    mean_lnp /= wsum;
+    let (vals, _) = crate::lanes::onto(first, &lanes.positions());
+    let mean_h = vals.iter().zip(&widths).map(|(v, w)| v * w).sum::<f64>() / wsum;
+    let h = &mut prep.hardness;
+    h.a = mean_h - h.b * (mean_lnp - h.pressure_ref_pa.ln());
+    h.source = "default slope; offset matched at the first hardness profile (after winding) with the grade's creep";
 }
 
 /// What storage does to one lane independently of its creep parameters: the reduced-time step
