@@ -1,11 +1,17 @@
 //! rollsleuth: why a wound roll of paper, board or film unwinds with baggy lanes, puckers or
 //! ridges, from cross-width profiles and storage history.
 //!
-//! Modules, in the order data flows:
+//! Modules, in the order data flows (see ARCHITECTURE.md):
 //! - [`units`]: quantities with units to SI (the only place that knows pli, psi, mil);
 //! - [`case`]: case files, defaults, validation into an all-SI [`case::Case`];
 //! - [`lanes`]: cross-width profiles to lanes;
-//! - [`defects`]: the defect vocabulary.
+//! - [`winding`]: wound-in stresses per lane (Hakiel accretion, core, nip, speed, lane coupling);
+//! - [`storage`]: creep, relaxation and moisture in the stored roll, per lane;
+//! - [`fit`]: creep fitted per lane to measured hardness and diameter (argmin);
+//! - [`rules`]: rule tables, lint and evaluation;
+//! - [`diagnose`]: features, findings, root-cause shares, corrections re-run;
+//! - [`report`]: tables, JSON, Markdown and SVG; [`cli`]: arguments and exit codes;
+//! - [`defects`], [`interp`], [`numeric`]: vocabulary and small shared kernels.
 
 pub mod case;
 pub mod cli;

@@ -2,7 +2,7 @@
 
 /// Solve a tridiagonal system in place by the Thomas algorithm.
 ///
-/// `a` is the sub-diagonal (a[0] unused), `b` the diagonal, `c` the super-diagonal (c[n-1]
+/// `a` is the sub-diagonal (`a[0]` unused), `b` the diagonal, `c` the super-diagonal (`c[n-1]`
 /// unused), `d` the right-hand side; the solution overwrites `d`. `scratch` must have length n.
 /// Returns `false` if a pivot vanishes (the caller reports a solver failure).
 ///

@@ -71,7 +71,7 @@ pub struct Step {
 #[derive(Debug, Clone, PartialEq)]
 pub struct Timeline {
     pub steps: Vec<Step>,
-    /// Time at the end of each step, s (times[0] = 0 is the start).
+    /// Time at the end of each step, s (`times[0] = 0` is the start).
     pub times: Vec<f64>,
     /// Stretches used (the case's, plus an assumed one when measurements go past storage).
     pub stretches: Vec<Stretch>,
@@ -156,7 +156,7 @@ pub struct MoistureHistory {
     /// Radial cell faces and centres shared with the mechanics, m.
     pub faces: Vec<f64>,
     pub r: Vec<f64>,
-    /// mc[time][lane][cell], %.
+    /// `mc[time][lane][cell]`, %.
     pub mc: Vec<Vec<Vec<f64>>>,
     /// Equilibrium moisture of each stretch, %.
     pub m_eq: Vec<f64>,
