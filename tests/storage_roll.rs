@@ -14,7 +14,22 @@ fn uniform(sets: &[&str]) -> Case {
     c
 }
 
-/// Wind a case on 201 nodes and prepare its storage (time grid, moisture field).
+/// Lanes and wound state of a case on 201 nodes.
+fn wound(c: &Case) -> (lanes::Lanes, rollsleuth::winding::Wound) {
+    let l = lanes::build(c);
+    let w = wind(
+        c,
+        &l,
+        Options {
+            nodes: 201,
+            levelling: 0.5,
+        },
+    )
+    .unwrap();
+    (l, w)
+}
+
+/// Wind a case and prepare its storage (time grid, moisture field).
 fn wound_and_prepared(
     c: &Case,
 ) -> (
@@ -22,31 +37,13 @@ fn wound_and_prepared(
     rollsleuth::winding::Wound,
     rollsleuth::storage::Prepared,
 ) {
-    let l = lanes::build(c);
-    let w = wind(
-        c,
-        &l,
-        Options {
-            nodes: 201,
-            levelling: 0.5,
-        },
-    )
-    .unwrap();
+    let (l, w) = wound(c);
     let p = prepare(c, &l, &w, &AgeOptions::default());
     (l, w, p)
 }
 
 fn run(c: &Case) -> Aged {
-    let l = lanes::build(c);
-    let w = wind(
-        c,
-        &l,
-        Options {
-            nodes: 201,
-            levelling: 0.5,
-        },
-    )
-    .unwrap();
+    let (l, w) = wound(c);
     age(c, &l, &w, None, &AgeOptions::default()).unwrap()
 }
 

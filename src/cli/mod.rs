@@ -202,6 +202,17 @@ pub fn load(arg: &CaseArg) -> Result<Case, Failure> {
     })
 }
 
+/// Load a case, build its lanes and wind it.
+fn wound_case(
+    arg: &CaseArg,
+    opt: crate::winding::Options,
+) -> Result<(Case, crate::lanes::Lanes, crate::winding::Wound), Failure> {
+    let c = load(arg)?;
+    let l = crate::lanes::build(&c);
+    let w = crate::winding::wind(&c, &l, opt)?;
+    Ok((c, l, w))
+}
+
 fn emit_json(v: &serde_json::Value) -> String {
     let mut s =
         serde_json::to_string_pretty(v).unwrap_or_else(|e| format!("{{\"error\": \"{e}\"}}"));
@@ -265,11 +276,8 @@ pub fn run(cli: &Cli) -> Result<Outcome, Failure> {
             nodes,
             levelling,
         } => {
-            let c = load(arg)?;
-            let l = crate::lanes::build(&c);
-            let w = crate::winding::wind(
-                &c,
-                &l,
+            let (c, _, w) = wound_case(
+                arg,
                 crate::winding::Options {
                     nodes: *nodes,
                     levelling: *levelling,
@@ -282,9 +290,7 @@ pub fn run(cli: &Cli) -> Result<Outcome, Failure> {
             }))
         }
         Command::Age(arg) => {
-            let c = load(arg)?;
-            let l = crate::lanes::build(&c);
-            let w = crate::winding::wind(&c, &l, crate::winding::Options::default())?;
+            let (c, l, w) = wound_case(arg, crate::winding::Options::default())?;
             let a = crate::storage::age(&c, &l, &w, None, &crate::storage::AgeOptions::default())?;
             Ok(Outcome::Ok(if cli.json {
                 emit_json(&report::age_view::json(&c, &a))
@@ -293,9 +299,7 @@ pub fn run(cli: &Cli) -> Result<Outcome, Failure> {
             }))
         }
         Command::Fit(arg) => {
-            let c = load(arg)?;
-            let l = crate::lanes::build(&c);
-            let w = crate::winding::wind(&c, &l, crate::winding::Options::default())?;
+            let (c, l, w) = wound_case(arg, crate::winding::Options::default())?;
             let f = crate::fit::fit_roll(&c, &l, &w, &crate::storage::AgeOptions::default())?;
             Ok(Outcome::Ok(if cli.json {
                 emit_json(&report::fit_view::json(&c, &f))

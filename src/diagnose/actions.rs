@@ -44,6 +44,12 @@ impl Scenario {
                 levelling: self.levelling,
             },
         )?;
+        self.age_on(wound)
+    }
+
+    /// Run storage on a wound state already computed for this scenario's case, lanes and
+    /// levelling (winding does not depend on storage or creep).
+    pub fn age_on(&self, wound: Wound) -> Result<Outcome, RunError> {
         let aged = age(
             &self.case,
             &self.lanes,

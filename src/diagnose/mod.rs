@@ -239,7 +239,8 @@ pub fn diagnose(
     let base = base_scenario(case, &lanes, creep, Options::default().levelling);
     let mut notes = fit.notes.clone();
     let (base_spread, causes) = if opt.what_if {
-        let b = base.run(opt.nodes)?;
+        // the base scenario winds exactly as the fitted roll did: reuse that wound state
+        let b = base.age_on(wound.clone())?;
         let s0 = spread_mm_per_m(&b.aged, &[]);
         let ablations = [
             (
