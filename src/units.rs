@@ -9,7 +9,10 @@
 //! - relative humidity is kept as a fraction 0..1 (water activity);
 //! - temperatures are kelvin.
 
-use std::fmt;
+use thiserror::Error;
+
+/// Seconds in a day (s).
+pub const DAY_S: f64 = 86_400.0;
 
 /// One pound-force in newtons (NIST SP 811, exact).
 pub const LBF_N: f64 = 4.448_221_615_260_5;
@@ -163,8 +166,8 @@ static UNITS: &[Unit] = &[
     u(&["s", "sec"], Kind::Duration, 1.0),
     u(&["min"], Kind::Duration, 60.0),
     u(&["h", "hr", "hrs", "hour", "hours"], Kind::Duration, 3600.0),
-    u(&["d", "day", "days"], Kind::Duration, 86400.0),
-    u(&["wk", "week", "weeks"], Kind::Duration, 7.0 * 86400.0),
+    u(&["d", "day", "days"], Kind::Duration, DAY_S),
+    u(&["wk", "week", "weeks"], Kind::Duration, 7.0 * DAY_S),
     // speed
     u(&["m/s"], Kind::Speed, 1.0),
     u(&["m/min", "mpm"], Kind::Speed, 1.0 / 60.0),
@@ -204,54 +207,33 @@ static UNITS: &[Unit] = &[
 ];
 
 /// Why a quantity could not be read.
-#[derive(Debug, Clone, PartialEq)]
+#[derive(Debug, Clone, PartialEq, Error)]
 pub enum UnitError {
     /// No number at the start.
+    #[error("'{0}' does not start with a number")]
     NoNumber(String),
     /// A number that is NaN or infinite.
+    #[error("'{0}' is not a finite number")]
     NotFinite(String),
     /// The unit is missing.
+    #[error("a {} needs a unit, e.g. {}", .kind.name(), .kind.example())]
     MissingUnit { kind: Kind },
     /// The unit exists but measures something else.
+    #[error(
+        "'{unit}' is a unit of {}, but a {} is wanted, e.g. {}",
+        .found.name(),
+        .wanted.name(),
+        .wanted.example()
+    )]
     WrongKind {
         unit: String,
         found: Kind,
         wanted: Kind,
     },
     /// The unit is not known at all.
+    #[error("unknown unit '{unit}' for a {}, write e.g. {}", .wanted.name(), .wanted.example())]
     UnknownUnit { unit: String, wanted: Kind },
 }
-
-impl fmt::Display for UnitError {
-    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
-        match self {
-            UnitError::NoNumber(t) => write!(f, "'{t}' does not start with a number"),
-            UnitError::NotFinite(t) => write!(f, "'{t}' is not a finite number"),
-            UnitError::MissingUnit { kind } => {
-                write!(f, "a {} needs a unit, e.g. {}", kind.name(), kind.example())
-            }
-            UnitError::WrongKind {
-                unit,
-                found,
-                wanted,
-            } => write!(
-                f,
-                "'{unit}' is a unit of {}, but a {} is wanted, e.g. {}",
-                found.name(),
-                wanted.name(),
-                wanted.example()
-            ),
-            UnitError::UnknownUnit { unit, wanted } => write!(
-                f,
-                "unknown unit '{unit}' for a {}, write e.g. {}",
-                wanted.name(),
-                wanted.example()
-            ),
-        }
-    }
-}
-
-impl std::error::Error for UnitError {}
 
 /// Split "12.5 pli" into (12.5, "pli"). Accepts exponents ("5e-10 m2/s").
 fn split_number(text: &str) -> Result<(f64, &str), UnitError> {
@@ -396,7 +378,7 @@ pub fn display(kind: Kind, sys: System, fine: bool) -> Display {
         },
         (Kind::Speed, System::Si) => d("m/min", 1.0 / 60.0),
         (Kind::Speed, System::Us) => d("fpm", FOOT_M / 60.0),
-        (Kind::Duration, _) => d("d", 86400.0),
+        (Kind::Duration, _) => d("d", DAY_S),
         (Kind::Density, System::Si) => d("kg/m3", 1.0),
         (Kind::Density, System::Us) => d("lb/ft3", LB_KG / (FOOT_M * FOOT_M * FOOT_M)),
         (Kind::Grammage, System::Si) => d("g/m2", 1e-3),
@@ -409,6 +391,13 @@ pub fn display(kind: Kind, sys: System, fine: bool) -> Display {
         (Kind::MolarEnergy, _) => d("kJ/mol", 1e3),
         (Kind::Number, _) => d("", 1.0),
     }
+}
+
+/// A signed change for humans with its unit label and `decimals` decimals, e.g. "+0.12 mm" or
+/// "-4.7 mil"; `fine` picks the small length unit as in [`display`].
+pub fn signed(si: f64, kind: Kind, sys: System, fine: bool, decimals: usize) -> String {
+    let d = display(kind, sys, fine);
+    format!("{:+.*} {}", decimals, d.from_si(si), d.label)
 }
 
 /// Format an SI value for humans with a sensible number of significant digits.

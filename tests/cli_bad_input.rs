@@ -255,3 +255,19 @@ fn usage_errors_exit_with_one() {
     let (code, _, err) = run(&["no-such-command"]);
     assert_eq!(code, 1, "{err}");
 }
+
+#[test]
+fn unknown_word_lists_the_allowed_words_with_line() {
+    let p = variant(
+        "wrap.yaml",
+        &demo().replacen("barrel_wrap: paper", "barrel_wrap: foil", 1),
+    );
+    bad(
+        &["check", p.to_str().unwrap()],
+        &[
+            "wrap.yaml:67:",
+            "storage[0].barrel_wrap",
+            "'foil' is not one of: none, paper, film",
+        ],
+    );
+}

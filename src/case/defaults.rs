@@ -78,10 +78,12 @@ const PAPER_CREEP: (Def, Def, Def, Def, Def, Def) = (
     d("2000 d", CREEP_R),
 );
 
-/// Defaults for a grade class. `Custom` returns `None`: every field must be given.
-pub fn for_grade(g: Grade) -> Option<GradeDefaults> {
+/// Paper-like defaults from the grade-specific values: caliper, density, MD and CD moduli,
+/// Pfeiffer K1 and K2, MD and CD hygroexpansion, moisture and GAB monolayer, as written.
+fn paper(v: [&'static str; 10]) -> GradeDefaults {
+    let [caliper, density, emd, ecd, k1, k2, hmd, hcd, mc, gm] = v;
     let (md_d, md_r, md_v, r_d, r_r, r_v) = PAPER_CREEP;
-    let paper = |caliper, density, emd, ecd, k1, k2, hmd, hcd, mc, gm| GradeDefaults {
+    GradeDefaults {
         caliper: d(caliper, RANGE),
         density: d(density, RANGE),
         md_modulus: d(emd, RANGE),
@@ -108,9 +110,45 @@ pub fn for_grade(g: Grade) -> Option<GradeDefaults> {
         activation: d("100 kJ/mol", ARRH),
         moisture_shift: d("0.15", MSHIFT),
         mechanosorptive: d("0.5", MSORP),
-    };
+    }
+}
+
+/// Polymer film: the paper form with film values and sources.
+fn film() -> GradeDefaults {
+    let mut f = paper([
+        "25 um",
+        "910 kg/m3",
+        "2.5 GPa",
+        "2.5 GPa",
+        "2 kPa",
+        "150",
+        "0 /%",
+        "0 /%",
+        "0.1 %",
+        "0.05 %",
+    ]);
+    let polymer = "polyolefin-like film, typical handbook values (from memory)";
+    for x in [
+        &mut f.caliper,
+        &mut f.density,
+        &mut f.md_modulus,
+        &mut f.cd_modulus,
+        &mut f.hygro_md,
+        &mut f.hygro_cd,
+        &mut f.moisture,
+        &mut f.gab_m,
+    ] {
+        x.source = polymer;
+    }
+    f.hygro_zd = d("0 /%", polymer);
+    f.friction = d("0.3", "film-on-film friction 0.2-0.5 (from memory)");
+    f
+}
+
+/// Defaults for a grade class. `Custom` returns `None`: every field must be given.
+pub fn for_grade(g: Grade) -> Option<GradeDefaults> {
     Some(match g {
-        Grade::Newsprint => paper(
+        Grade::Newsprint => paper([
             "72 um",
             "620 kg/m3",
             "5.5 GPa",
@@ -121,8 +159,8 @@ pub fn for_grade(g: Grade) -> Option<GradeDefaults> {
             "0.0015 /%",
             "8 %",
             "5.5 %",
-        ),
-        Grade::Coated => paper(
+        ]),
+        Grade::Coated => paper([
             "95 um",
             "780 kg/m3",
             "6.5 GPa",
@@ -133,8 +171,8 @@ pub fn for_grade(g: Grade) -> Option<GradeDefaults> {
             "0.0012 /%",
             "5.5 %",
             "4.8 %",
-        ),
-        Grade::Board => paper(
+        ]),
+        Grade::Board => paper([
             "350 um",
             "700 kg/m3",
             "7.5 GPa",
@@ -145,37 +183,8 @@ pub fn for_grade(g: Grade) -> Option<GradeDefaults> {
             "0.0012 /%",
             "7 %",
             "5.5 %",
-        ),
-        Grade::Film => {
-            let mut f = paper(
-                "25 um",
-                "910 kg/m3",
-                "2.5 GPa",
-                "2.5 GPa",
-                "2 kPa",
-                "150",
-                "0 /%",
-                "0 /%",
-                "0.1 %",
-                "0.05 %",
-            );
-            let polymer = "polyolefin-like film, typical handbook values (from memory)";
-            for x in [
-                &mut f.caliper,
-                &mut f.density,
-                &mut f.md_modulus,
-                &mut f.cd_modulus,
-                &mut f.hygro_md,
-                &mut f.hygro_cd,
-                &mut f.moisture,
-                &mut f.gab_m,
-            ] {
-                x.source = polymer;
-            }
-            f.hygro_zd = d("0 /%", polymer);
-            f.friction = d("0.3", "film-on-film friction 0.2-0.5 (from memory)");
-            f
-        }
+        ]),
+        Grade::Film => film(),
         Grade::Custom => return None,
     })
 }
@@ -210,3 +219,50 @@ pub const CORE: (Def, Def, Def) = (
     d("13 mm", "common paper core wall (common practice)"),
     d("0.3", "isotropic tube (assumption)"),
 );
+/// Default core Poisson ratio when a tube core gives modulus and wall but no `poisson`.
+pub const CORE_POISSON: Def = CORE.2;
+/// Largest default core wall, as a fraction of the core radius: a thick default wall on a small
+/// core is limited to this (assumption).
+pub const CORE_WALL_MAX_FRACTION: f64 = 0.4;
+/// Source line of a default core wall limited by [`CORE_WALL_MAX_FRACTION`].
+pub const CORE_WALL_CLIPPED: &str =
+    "common paper core wall 13 mm (common practice), limited to 40 % of the core radius (assumption)";
+/// Lab creep test temperature when a test gives none: the paper-testing standard atmosphere.
+pub const LAB_TEMPERATURE: Def = d(
+    "23 C",
+    "standard atmosphere for paper testing, 23 C (TAPPI T 402 / ISO 187)",
+);
+/// Lab creep test humidity when a test gives none: the paper-testing standard atmosphere.
+pub const LAB_RH: Def = d(
+    "50 %",
+    "standard atmosphere for paper testing, 50 % RH (TAPPI T 402 / ISO 187)",
+);
+/// Name of the hardness scale when the case gives none.
+pub const HARDNESS_SCALE: Def = d(
+    "hardness units",
+    "no scale named: readings are taken in the gauge's own units",
+);
+/// Slope of hardness against ln(pressure) when the case gives no calibration, scale units per
+/// e-fold of pressure: rebound readings rise about 10-15 points from a soft to a hard newsprint
+/// roll whose pressures differ about threefold (common practice). The ageing model applies it as
+/// `storage::DEFAULT_HARDNESS_SLOPE`; a test keeps the two equal.
+pub const HARDNESS_SLOPE: Def = d(
+    "12",
+    "no calibration: slope per e-fold of pressure, offset matched to the readings (common practice)",
+);
+/// Wrap of a storage stretch that names none.
+pub const WRAP: Def = d("none", "no wrap named: bare surface assumed");
+/// Stance of a storage stretch that names none.
+pub const STANCE: Def = d("on_end", "no stance named: stored on end assumed");
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use approx::assert_relative_eq;
+
+    #[test]
+    fn hardness_slope_default_is_the_one_the_ageing_model_uses() {
+        let v: f64 = HARDNESS_SLOPE.text.parse().unwrap();
+        assert_relative_eq!(v, crate::storage::DEFAULT_HARDNESS_SLOPE);
+    }
+}

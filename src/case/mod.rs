@@ -3,12 +3,16 @@
 //! **Invariant:** after this module every value is SI (moisture in percentage points, humidity as
 //! a fraction); only [`crate::units`] knows pli, psi or mil.
 
+mod csv;
 pub mod defaults;
-mod load;
+mod errors;
 pub mod model;
+mod overrides;
 pub mod raw;
+mod read;
+mod validate;
 
-pub use load::{
-    apply_set, load_demo, load_file, load_str, CaseError, Problem, DEMO_NAME, DEMO_YAML,
-};
+pub use errors::{CaseError, Problem};
 pub use model::*;
+pub use overrides::apply_set;
+pub use read::{load_demo, load_file, load_str, DEMO_NAME, DEMO_YAML};

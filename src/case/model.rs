@@ -1,12 +1,13 @@
 //! The validated case: every value SI (moisture in percentage points, humidity as a fraction).
 
-use serde::Serialize;
+use serde::{Deserialize, Serialize};
 
 /// Grade class; picks the defaults for properties the case does not give.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, Deserialize)]
 #[serde(rename_all = "snake_case")]
 pub enum Grade {
     /// Newsprint-like uncoated mechanical grades.
+    #[serde(alias = "newsprint-like")]
     Newsprint,
     /// Coated printing grades.
     Coated,
@@ -16,20 +17,6 @@ pub enum Grade {
     Film,
     /// Everything given by the user.
     Custom,
-}
-
-impl Grade {
-    /// Parse the grade word used in case files.
-    pub fn parse(s: &str) -> Option<Grade> {
-        Some(match s {
-            "newsprint" | "newsprint-like" => Grade::Newsprint,
-            "coated" => Grade::Coated,
-            "board" => Grade::Board,
-            "film" => Grade::Film,
-            "custom" => Grade::Custom,
-            _ => return None,
-        })
-    }
 }
 
 /// Radial (stack) compression law.
@@ -216,7 +203,7 @@ pub struct Winding {
 }
 
 /// What a profile measures.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, Deserialize)]
 #[serde(rename_all = "snake_case")]
 pub enum Measure {
     /// Roll hardness, in the case's scale units.
@@ -243,7 +230,7 @@ pub struct Profile {
 }
 
 /// Wrap of a roll surface.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, Deserialize)]
 #[serde(rename_all = "snake_case")]
 pub enum Wrap {
     None,
@@ -252,7 +239,7 @@ pub enum Wrap {
 }
 
 /// How the roll stands.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, Deserialize)]
 #[serde(rename_all = "snake_case")]
 pub enum Stance {
     OnEnd,

@@ -1,10 +1,95 @@
 //! The case file as written: serde schema with `deny_unknown_fields`, quantities kept as text
-//! with their position in the file so validation can point back to the line.
+//! with their position in the file so validation can point back to the line. Closed word sets
+//! (grade, wraps, stance, profile kind, lab-creep direction) are serde enums read through
+//! [`Word`], which keeps an unknown word for validation to report with its line and the allowed
+//! words, so every problem in a file is listed at once.
 
-use serde::de::{self, Deserializer, Visitor};
+use super::model::{Grade, Measure, Stance, Wrap};
+use serde::de::{self, DeserializeOwned, Deserializer, IntoDeserializer, Visitor};
 use serde::Deserialize;
 use serde_saphyr::Spanned;
 use std::fmt;
+
+/// A word from the closed set `T` (a serde enum with snake_case words), or the unknown text.
+#[derive(Debug, Clone, PartialEq)]
+pub enum Word<T> {
+    /// One of the allowed words.
+    Known(T),
+    /// Any other text, with the allowed words.
+    Unknown {
+        text: String,
+        allowed: &'static [&'static str],
+    },
+}
+
+impl<'de, T: DeserializeOwned> Deserialize<'de> for Word<T> {
+    fn deserialize<D: Deserializer<'de>>(d: D) -> Result<Self, D::Error> {
+        let text = Scalar::deserialize(d)?.0;
+        let de: de::value::StrDeserializer<'_, de::value::Error> =
+            text.as_str().into_deserializer();
+        Ok(match T::deserialize(de) {
+            Ok(v) => Word::Known(v),
+            Err(_) => Word::Unknown {
+                text,
+                allowed: words_of::<T>(),
+            },
+        })
+    }
+}
+
+/// The words of a serde enum, read from its derived `Deserialize`.
+pub fn words_of<T: DeserializeOwned>() -> &'static [&'static str] {
+    let mut words: &'static [&'static str] = &[];
+    let _ = T::deserialize(Grab(&mut words));
+    words
+}
+
+/// A deserializer that only records the variant names an enum asks for.
+struct Grab<'a>(&'a mut &'static [&'static str]);
+
+impl<'de> Deserializer<'de> for Grab<'_> {
+    type Error = de::value::Error;
+    fn deserialize_any<V: Visitor<'de>>(self, _: V) -> Result<V::Value, Self::Error> {
+        Err(de::Error::custom("not an enum"))
+    }
+    fn deserialize_enum<V: Visitor<'de>>(
+        self,
+        _: &'static str,
+        variants: &'static [&'static str],
+        _: V,
+    ) -> Result<V::Value, Self::Error> {
+        *self.0 = variants;
+        Err(de::Error::custom("variants recorded"))
+    }
+    serde::forward_to_deserialize_any! {
+        bool i8 i16 i32 i64 i128 u8 u16 u32 u64 u128 f32 f64 char str string bytes byte_buf
+        option unit unit_struct newtype_struct seq tuple tuple_struct map struct identifier
+        ignored_any
+    }
+}
+
+/// A closed-set word with its location in the file.
+pub type W<T> = Spanned<Word<T>>;
+
+/// Direction of a laboratory creep test.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Deserialize)]
+#[serde(rename_all = "snake_case")]
+pub enum RawDirection {
+    /// Machine direction.
+    Md,
+    /// Thickness direction.
+    Radial,
+}
+
+impl RawDirection {
+    /// The word as written.
+    pub fn word(self) -> &'static str {
+        match self {
+            RawDirection::Md => "md",
+            RawDirection::Radial => "radial",
+        }
+    }
+}
 
 /// Any YAML scalar kept as text ("2.2 pli", 0.45, 1).
 #[derive(Debug, Clone, PartialEq)]
@@ -76,7 +161,7 @@ pub struct RawCase {
 #[derive(Debug, Deserialize)]
 #[serde(deny_unknown_fields)]
 pub struct RawLabCreep {
-    pub direction: Spanned<String>,
+    pub direction: W<RawDirection>,
     pub stress: Q,
     #[serde(default)]
     pub temperature: Option<Q>,
@@ -98,7 +183,7 @@ pub struct RawConverting {
 #[derive(Debug, Deserialize)]
 #[serde(deny_unknown_fields)]
 pub struct RawMaterial {
-    pub grade: Spanned<String>,
+    pub grade: W<Grade>,
     #[serde(default)]
     pub caliper: Option<Q>,
     #[serde(default)]
@@ -222,7 +307,7 @@ pub struct RawTaperPoint {
 #[derive(Debug, Deserialize)]
 #[serde(deny_unknown_fields)]
 pub struct RawProfile {
-    pub what: Spanned<String>,
+    pub what: W<Measure>,
     pub age: Q,
     #[serde(default)]
     pub unit: Option<String>,
@@ -243,11 +328,11 @@ pub struct RawStretch {
     pub temperature: Q,
     pub rh: Q,
     #[serde(default)]
-    pub barrel_wrap: Option<Spanned<String>>,
+    pub barrel_wrap: Option<W<Wrap>>,
     #[serde(default)]
-    pub end_wrap: Option<Spanned<String>>,
+    pub end_wrap: Option<W<Wrap>>,
     #[serde(default)]
-    pub stance: Option<Spanned<String>>,
+    pub stance: Option<W<Stance>>,
     #[serde(default)]
     pub place: Option<String>,
 }
@@ -289,4 +374,53 @@ pub struct RawWraps {
     pub paper: Option<Q>,
     #[serde(default)]
     pub film: Option<Q>,
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[derive(Debug, Deserialize)]
+    struct One {
+        wrap: W<Wrap>,
+    }
+
+    #[derive(Debug, Deserialize)]
+    #[allow(dead_code)]
+    struct Plain {
+        wrap: Wrap,
+    }
+
+    #[test]
+    fn known_word_is_the_enum_and_unknown_keeps_text_line_and_words() {
+        let ok: One = serde_saphyr::from_str("\n\nwrap: film\n").unwrap();
+        assert_eq!(ok.wrap.value, Word::Known(Wrap::Film));
+        assert_eq!(ok.wrap.referenced.line(), 3);
+        let bad: One = serde_saphyr::from_str("\nwrap: foil\n").unwrap();
+        assert_eq!(bad.wrap.referenced.line(), 2);
+        assert_eq!(
+            bad.wrap.value,
+            Word::Unknown {
+                text: "foil".into(),
+                allowed: &["none", "paper", "film"],
+            }
+        );
+    }
+
+    #[test]
+    fn words_of_lists_every_variant() {
+        assert_eq!(words_of::<Stance>(), &["on_end", "on_side"]);
+        assert_eq!(words_of::<Measure>(), &["hardness", "diameter", "caliper"]);
+        assert_eq!(words_of::<RawDirection>(), &["md", "radial"]);
+    }
+
+    /// A plain serde enum also fails with the line, but stops at the first bad word and names
+    /// no field path; `Word` is used so validation can list every problem.
+    #[test]
+    fn plain_enum_error_keeps_the_line() {
+        let e = serde_saphyr::from_str::<Plain>("\n\nwrap: foil\n").unwrap_err();
+        let m = e.to_string();
+        assert!(m.contains("line 3"), "{m}");
+        assert!(m.contains("foil"), "{m}");
+    }
 }

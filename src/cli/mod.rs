@@ -251,7 +251,12 @@ pub fn run(cli: &Cli) -> Result<Outcome, Failure> {
                 });
             }
             if cli.json {
-                let v: Vec<_> = loaded.iter().map(report::case_view::check_json).collect();
+                let v = (loaded.iter().map(report::case_view::check_json))
+                    .collect::<Result<Vec<_>, _>>()
+                    .map_err(|e| Failure {
+                        message: format!("error: {e}"),
+                        code: 2,
+                    })?;
                 Ok(Outcome::Ok(emit_json(&serde_json::json!({ "cases": v }))))
             } else {
                 let mut s = String::new();

@@ -1,125 +1,137 @@
 //! `check`, `lanes` and `template` output.
 
 use super::{f, fine, pct, pos, q, table};
-use crate::case::{Case, Core, Measure, Stack, Tension, Wrap};
+use crate::case::{Case, Core, Measure, Stack, Stance, Tension, Wrap};
 use crate::lanes::Lanes;
-use crate::units::{Kind, System};
+use crate::units::{self, Kind, System, DAY_S};
+use comfy_table::Table;
 use serde_json::{json, Value};
 use std::fmt::Write;
 
-fn is_default(c: &Case, field: &str) -> bool {
-    c.defaults.iter().any(|d| d.field == field)
+/// The field table of `check`: one row per value, marked where a default was used.
+struct Fields<'a> {
+    case: &'a Case,
+    sys: System,
+    table: Table,
 }
 
-/// The normalised case as text, defaults marked.
-pub fn check_text(c: &Case, sys: System) -> String {
-    let mut out = String::new();
-    let _ = writeln!(out, "Case {} ({})", c.id, c.source);
-    if !c.title.is_empty() {
-        let _ = writeln!(out, "{}", c.title);
+impl Fields<'_> {
+    fn row(&mut self, field: &str, v: String) {
+        let mark = if self.case.defaults.iter().any(|d| d.field == field) {
+            "default"
+        } else {
+            ""
+        };
+        self.table
+            .add_row(vec![field.to_string(), v, mark.to_string()]);
     }
-    if let Some(cp) = &c.complaint {
-        let _ = writeln!(out, "Complaint: {}", crate::defects::plain(cp));
-    }
-    let m = &c.material;
-    let mut t = table(&["field", "value", ""]);
-    let mut row = |field: &str, v: String| {
-        let mark = if is_default(c, field) { "default" } else { "" };
-        t.add_row(vec![field.to_string(), v, mark.to_string()]);
-    };
-    row("material.grade", format!("{:?}", m.grade).to_lowercase());
-    row("material.caliper", fine(m.caliper_m, sys));
-    row("material.density", q(m.density_kg_m3, Kind::Density, sys));
-    row(
-        "material.md_modulus",
-        q(m.md_modulus_pa, Kind::Pressure, sys),
-    );
-    row(
-        "material.cd_modulus",
-        q(m.cd_modulus_pa, Kind::Pressure, sys),
-    );
-    row("material.poisson", f(m.poisson, 3));
-    match m.stack {
-        Stack::Pfeiffer { k1_pa, k2 } => {
-            row("material.stack.k1", q(k1_pa, Kind::Pressure, sys));
-            row("material.stack.k2", f(k2, 1));
+
+    fn material(&mut self) {
+        let (m, sys) = (&self.case.material, self.sys);
+        self.row("material.grade", format!("{:?}", m.grade).to_lowercase());
+        self.row("material.caliper", fine(m.caliper_m, sys));
+        self.row("material.density", q(m.density_kg_m3, Kind::Density, sys));
+        self.row(
+            "material.md_modulus",
+            q(m.md_modulus_pa, Kind::Pressure, sys),
+        );
+        self.row(
+            "material.cd_modulus",
+            q(m.cd_modulus_pa, Kind::Pressure, sys),
+        );
+        self.row("material.poisson", f(m.poisson, 3));
+        match m.stack {
+            Stack::Pfeiffer { k1_pa, k2 } => {
+                self.row("material.stack.k1", q(k1_pa, Kind::Pressure, sys));
+                self.row("material.stack.k2", f(k2, 1));
+            }
+            Stack::Constant { radial_modulus_pa } => self.row(
+                "material.radial_modulus",
+                q(radial_modulus_pa, Kind::Pressure, sys),
+            ),
         }
-        Stack::Constant { radial_modulus_pa } => row(
-            "material.radial_modulus",
-            q(radial_modulus_pa, Kind::Pressure, sys),
-        ),
+        self.row("material.friction", f(m.friction, 2));
+        self.moisture();
+        self.creep();
     }
-    row("material.friction", f(m.friction, 2));
-    row("material.hygro_md", format!("{} /%", m.hygro_md_per_pct));
-    row("material.hygro_cd", format!("{} /%", m.hygro_cd_per_pct));
-    row("material.hygro_zd", format!("{} /%", m.hygro_zd_per_pct));
-    row("material.moisture", format!("{:.2} %", m.moisture_pct));
-    row(
-        "material.diffusivity_inplane",
-        format!("{:.2e} m2/s", m.diffusivity_inplane_m2_s),
-    );
-    row(
-        "material.diffusivity_radial",
-        format!("{:.2e} m2/s", m.diffusivity_radial_m2_s),
-    );
-    row(
-        "material.sorption",
-        format!(
-            "GAB Mm {:.2} %, C {:.2}, K {:.3}",
-            m.sorption.monolayer_pct, m.sorption.c, m.sorption.k
-        ),
-    );
-    let cr = &m.creep;
-    for (name, b) in [("md", cr.md), ("radial", cr.radial)] {
-        row(
-            &format!("material.creep.{name}.delayed"),
+
+    fn moisture(&mut self) {
+        let m = &self.case.material;
+        self.row("material.hygro_md", format!("{} /%", m.hygro_md_per_pct));
+        self.row("material.hygro_cd", format!("{} /%", m.hygro_cd_per_pct));
+        self.row("material.hygro_zd", format!("{} /%", m.hygro_zd_per_pct));
+        self.row("material.moisture", format!("{:.2} %", m.moisture_pct));
+        self.row(
+            "material.diffusivity_inplane",
+            format!("{:.2e} m2/s", m.diffusivity_inplane_m2_s),
+        );
+        self.row(
+            "material.diffusivity_radial",
+            format!("{:.2e} m2/s", m.diffusivity_radial_m2_s),
+        );
+        self.row(
+            "material.sorption",
             format!(
-                "{:.2} (retardation {:.1} d, viscous time {:.0} d)",
-                b.delayed,
-                b.retardation_s / 86400.0,
-                b.viscous_time_s / 86400.0
+                "GAB Mm {:.2} %, C {:.2}, K {:.3}",
+                m.sorption.monolayer_pct, m.sorption.c, m.sorption.k
             ),
         );
     }
-    row(
-        "material.creep.activation_energy",
-        q(cr.activation_energy_j_mol, Kind::MolarEnergy, sys),
-    );
-    row(
-        "material.creep.moisture_shift",
-        format!("{} decades/%", cr.moisture_shift_dec_per_pct),
-    );
-    row(
-        "material.creep.mechanosorptive",
-        format!("{} /%", cr.mechanosorptive_per_pct),
-    );
-    let r = &c.roll;
-    row("roll.width", q(r.width_m, Kind::Length, sys));
-    row("roll.diameter", q(r.diameter_m, Kind::Length, sys));
-    row(
-        "roll.core_diameter",
-        q(r.core_diameter_m, Kind::Length, sys),
-    );
-    match r.core {
-        Core::Rigid => row("roll.core", "rigid".into()),
-        Core::Tube {
-            modulus_pa,
-            wall_m,
-            poisson,
-        } => {
-            row("roll.core.modulus", q(modulus_pa, Kind::Pressure, sys));
-            row("roll.core.wall", q(wall_m, Kind::Length, sys));
-            row("roll.core.poisson", f(poisson, 2));
+
+    fn creep(&mut self) {
+        let cr = &self.case.material.creep;
+        for (name, b) in [("md", cr.md), ("radial", cr.radial)] {
+            self.row(
+                &format!("material.creep.{name}.delayed"),
+                format!(
+                    "{:.2} (retardation {:.1} d, viscous time {:.0} d)",
+                    b.delayed,
+                    b.retardation_s / DAY_S,
+                    b.viscous_time_s / DAY_S
+                ),
+            );
+        }
+        self.row(
+            "material.creep.activation_energy",
+            q(cr.activation_energy_j_mol, Kind::MolarEnergy, self.sys),
+        );
+        self.row(
+            "material.creep.moisture_shift",
+            format!("{} decades/%", cr.moisture_shift_dec_per_pct),
+        );
+        self.row(
+            "material.creep.mechanosorptive",
+            format!("{} /%", cr.mechanosorptive_per_pct),
+        );
+    }
+
+    fn roll(&mut self) {
+        let (r, sys) = (&self.case.roll, self.sys);
+        self.row("roll.width", q(r.width_m, Kind::Length, sys));
+        self.row("roll.diameter", q(r.diameter_m, Kind::Length, sys));
+        self.row(
+            "roll.core_diameter",
+            q(r.core_diameter_m, Kind::Length, sys),
+        );
+        match r.core {
+            Core::Rigid => self.row("roll.core", "rigid".into()),
+            Core::Tube {
+                modulus_pa,
+                wall_m,
+                poisson,
+            } => {
+                self.row("roll.core.modulus", q(modulus_pa, Kind::Pressure, sys));
+                self.row("roll.core.wall", q(wall_m, Kind::Length, sys));
+                self.row("roll.core.poisson", f(poisson, 2));
+            }
         }
     }
-    let w = &c.winding;
-    match &w.tension {
-        Tension::Constant { tension_n_per_m } => {
-            row("winding.tension", q(*tension_n_per_m, Kind::LineForce, sys))
-        }
-        Tension::Taper { points } => row(
-            "winding.tension",
-            points
+
+    fn winding(&mut self) {
+        let (w, sys) = (&self.case.winding, self.sys);
+        let tension = match &w.tension {
+            Tension::Constant { tension_n_per_m } => q(*tension_n_per_m, Kind::LineForce, sys),
+            Tension::Taper { points } => points
                 .iter()
                 .map(|(d, t)| {
                     format!(
@@ -130,15 +142,68 @@ pub fn check_text(c: &Case, sys: System) -> String {
                 })
                 .collect::<Vec<_>>()
                 .join(", "),
-        ),
+        };
+        self.row("winding.tension", tension);
+        self.row("winding.nip", q(w.nip_n_per_m, Kind::LineForce, sys));
+        self.row("winding.speed", q(w.speed_m_s, Kind::Speed, sys));
     }
-    row("winding.nip", q(w.nip_n_per_m, Kind::LineForce, sys));
-    row("winding.speed", q(w.speed_m_s, Kind::Speed, sys));
-    row(
-        "hardness.repeatability",
-        format!("{} {}", c.hardness.repeatability, c.hardness.scale),
-    );
-    let _ = writeln!(out, "{t}");
+
+    fn hardness(&mut self) {
+        let h = &self.case.hardness;
+        self.row(
+            "hardness.repeatability",
+            format!("{} {}", h.repeatability, h.scale),
+        );
+    }
+}
+
+/// The normalised case as text, defaults marked.
+pub fn check_text(c: &Case, sys: System) -> String {
+    let mut out = header(c);
+    let mut fields = Fields {
+        case: c,
+        sys,
+        table: table(&["field", "value", ""]),
+    };
+    fields.material();
+    fields.roll();
+    fields.winding();
+    fields.hardness();
+    let _ = writeln!(out, "{}", fields.table);
+    if !c.profiles.is_empty() {
+        let _ = writeln!(out, "{}", profiles_table(c, sys));
+    }
+    if !c.storage.is_empty() {
+        let _ = writeln!(out, "{}", storage_table(c, sys));
+    }
+    if !c.defaults.is_empty() {
+        let mut d = table(&["default used for", "value", "source"]);
+        for x in &c.defaults {
+            d.add_row(vec![x.field.clone(), x.value.clone(), x.source.clone()]);
+        }
+        let _ = writeln!(out, "{d}");
+    }
+    for w in &c.warnings {
+        let _ = writeln!(out, "warning: {w}");
+    }
+    out
+}
+
+/// Case id, source, title and complaint.
+fn header(c: &Case) -> String {
+    let mut out = String::new();
+    let _ = writeln!(out, "Case {} ({})", c.id, c.source);
+    if !c.title.is_empty() {
+        let _ = writeln!(out, "{}", c.title);
+    }
+    if let Some(cp) = &c.complaint {
+        let _ = writeln!(out, "Complaint: {}", crate::defects::plain(cp));
+    }
+    out
+}
+
+/// One row per profile: kind, age, points, span, value range, origin.
+fn profiles_table(c: &Case, sys: System) -> Table {
     let mut p = table(&["profile", "age", "points", "span", "range", "from"]);
     for (i, pr) in c.profiles.iter().enumerate() {
         let (lo, hi) = pr
@@ -158,7 +223,7 @@ pub fn check_text(c: &Case, sys: System) -> String {
         };
         p.add_row(vec![
             format!("[{i}] {:?}", pr.what).to_lowercase(),
-            format!("{:.0} d", pr.age_s / 86400.0),
+            format!("{:.0} d", pr.age_s / DAY_S),
             pr.positions_m.len().to_string(),
             format!(
                 "{} .. {}",
@@ -169,54 +234,44 @@ pub fn check_text(c: &Case, sys: System) -> String {
             pr.origin.clone(),
         ]);
     }
-    if !c.profiles.is_empty() {
-        let _ = writeln!(out, "{p}");
-    }
-    if !c.storage.is_empty() {
-        let mut s = table(&[
-            "stretch",
-            "days",
-            "temperature",
-            "RH",
-            "barrel",
-            "ends",
-            "stance",
-            "place",
-        ]);
-        let wrap = |w: Wrap| format!("{w:?}").to_lowercase();
-        for (i, st) in c.storage.iter().enumerate() {
-            s.add_row(vec![
-                i.to_string(),
-                f(st.duration_s / 86400.0, 1),
-                q(st.temperature_k, Kind::Temperature, sys),
-                format!("{:.0} %", st.rh * 100.0),
-                wrap(st.barrel_wrap),
-                wrap(st.end_wrap),
-                match st.stance {
-                    crate::case::Stance::OnEnd => "on end".into(),
-                    crate::case::Stance::OnSide => "on side".into(),
-                },
-                st.place.clone().unwrap_or_default(),
-            ]);
-        }
-        let _ = writeln!(out, "{s}");
-    }
-    if !c.defaults.is_empty() {
-        let mut d = table(&["default used for", "value", "source"]);
-        for x in &c.defaults {
-            d.add_row(vec![x.field.clone(), x.value.clone(), x.source.clone()]);
-        }
-        let _ = writeln!(out, "{d}");
-    }
-    for w in &c.warnings {
-        let _ = writeln!(out, "warning: {w}");
-    }
-    out
+    p
 }
 
-/// The case as JSON (all SI, field names carry units).
-pub fn check_json(c: &Case) -> Value {
-    serde_json::to_value(c).unwrap_or(Value::Null)
+/// One row per storage stretch.
+fn storage_table(c: &Case, sys: System) -> Table {
+    let mut s = table(&[
+        "stretch",
+        "days",
+        "temperature",
+        "RH",
+        "barrel",
+        "ends",
+        "stance",
+        "place",
+    ]);
+    let wrap = |w: Wrap| format!("{w:?}").to_lowercase();
+    for (i, st) in c.storage.iter().enumerate() {
+        s.add_row(vec![
+            i.to_string(),
+            f(st.duration_s / DAY_S, 1),
+            q(st.temperature_k, Kind::Temperature, sys),
+            format!("{:.0} %", st.rh * 100.0),
+            wrap(st.barrel_wrap),
+            wrap(st.end_wrap),
+            match st.stance {
+                Stance::OnEnd => "on end".into(),
+                Stance::OnSide => "on side".into(),
+            },
+            st.place.clone().unwrap_or_default(),
+        ]);
+    }
+    s
+}
+
+/// The case as JSON (all SI, field names carry units); a failure to serialise is returned, not
+/// turned into `null`.
+pub fn check_json(c: &Case) -> Result<Value, serde_json::Error> {
+    serde_json::to_value(c)
 }
 
 /// Per-lane table.
@@ -250,8 +305,8 @@ pub fn lanes_text(c: &Case, l: &Lanes, sys: System) -> String {
             pct(ln.caliper_deviation, 2),
             ln.diameter_deviation_m
                 .map(|d| match sys {
-                    System::Si => format!("{:+.2} mm", d * 1e3),
-                    System::Us => format!("{:+.1} mil", d / 25.4e-6),
+                    System::Si => units::signed(d, Kind::Length, sys, false, 2),
+                    System::Us => units::signed(d, Kind::Length, sys, true, 1),
                 })
                 .unwrap_or_else(|| "-".into()),
             ln.hardness_deviation

@@ -1,0 +1,253 @@
+//! The validator's state and its field checks: quantities with units and ranges, defaults and
+//! closed-set words.
+
+use super::super::defaults::Def;
+use super::super::errors::Problem;
+use super::super::model::DefaultUsed;
+use super::super::raw::{Word, Q, W};
+use crate::units::{self, Kind};
+use serde_saphyr::Spanned;
+use std::path::{Path, PathBuf};
+
+/// Collects problems, defaults used and warnings while the sections are validated.
+pub(in crate::case) struct Validator {
+    /// False when `--set` re-read the case and file lines are lost.
+    lines_known: bool,
+    /// Directory that relative CSV paths start from.
+    pub(super) base: Option<PathBuf>,
+    pub(in crate::case) problems: Vec<Problem>,
+    pub(super) defaults: Vec<DefaultUsed>,
+    pub(super) warnings: Vec<String>,
+}
+
+/// Line of a located value in the case file (1-based).
+pub(super) fn line_of<T>(s: &Spanned<T>) -> u64 {
+    s.referenced.line()
+}
+
+/// Allowed range of a value.
+#[derive(Clone, Copy)]
+pub(super) enum Range {
+    Any,
+    Positive,
+    NonNegative,
+    /// Closed range [lo, hi].
+    Between(f64, f64),
+}
+
+impl Range {
+    fn bounds(self) -> (f64, f64, &'static str) {
+        match self {
+            Range::Any => (f64::NEG_INFINITY, f64::INFINITY, "finite"),
+            Range::Positive => (0.0, f64::INFINITY, "greater than zero"),
+            Range::NonNegative => (0.0, f64::INFINITY, "zero or more"),
+            Range::Between(a, b) => (a, b, "within"),
+        }
+    }
+    fn open_low(self) -> bool {
+        matches!(self, Range::Positive)
+    }
+}
+
+impl Validator {
+    pub(in crate::case) fn new(lines_known: bool, base: Option<&Path>) -> Validator {
+        Validator {
+            lines_known,
+            base: base.map(Path::to_path_buf),
+            problems: Vec::new(),
+            defaults: Vec::new(),
+            warnings: Vec::new(),
+        }
+    }
+
+    pub(super) fn push(&mut self, field: &str, line: Option<u64>, message: String) {
+        let line = if self.lines_known {
+            line.filter(|&l| l > 0)
+        } else {
+            None
+        };
+        self.problems.push(Problem {
+            field: field.to_string(),
+            line,
+            message,
+        });
+    }
+
+    /// Record a default used for `field`: its value as written and its source.
+    pub(super) fn record(&mut self, field: &str, value: impl Into<String>, source: &str) {
+        self.defaults.push(DefaultUsed {
+            field: field.to_string(),
+            value: value.into(),
+            source: source.to_string(),
+        });
+    }
+
+    /// Parse a quantity; `range` is in SI.
+    pub(super) fn q(&mut self, q: &Q, field: &str, kind: Kind, range: Range) -> Option<f64> {
+        match units::parse(&q.value.0, kind) {
+            Ok(v) => self.check_range(v, field, Some(line_of(q)), kind, range),
+            Err(e) => {
+                self.push(field, Some(line_of(q)), format!("{e}"));
+                None
+            }
+        }
+    }
+
+    pub(super) fn check_range(
+        &mut self,
+        v: f64,
+        field: &str,
+        line: Option<u64>,
+        kind: Kind,
+        range: Range,
+    ) -> Option<f64> {
+        let (lo, hi, what) = range.bounds();
+        if !v.is_finite() {
+            self.push(
+                field,
+                line,
+                "is not a finite number; give a real value".into(),
+            );
+            return None;
+        }
+        let below = if range.open_low() { v <= lo } else { v < lo };
+        if below || v > hi {
+            let d = units::display(kind, units::System::Si, false);
+            let show = |x: f64| {
+                if x.is_finite() {
+                    units::sig(d.from_si(x), 4)
+                } else {
+                    "no limit".into()
+                }
+            };
+            self.push(
+                field,
+                line,
+                format!(
+                    "value {} {} is out of range: it must be {what} ({} .. {} {})",
+                    units::sig(d.from_si(v), 4),
+                    d.label,
+                    show(lo),
+                    show(hi),
+                    d.label
+                ),
+            );
+            return None;
+        }
+        Some(v)
+    }
+
+    /// A quantity that may be missing: then the default is used and recorded.
+    pub(super) fn or_default(
+        &mut self,
+        q: Option<&Q>,
+        field: &str,
+        kind: Kind,
+        range: Range,
+        def: Option<Def>,
+    ) -> Option<f64> {
+        if let Some(q) = q {
+            return self.q(q, field, kind, range);
+        }
+        let Some(def) = def else {
+            self.push(
+                field,
+                None,
+                format!(
+                    "is required for grade 'custom' (no default); add e.g. {}",
+                    kind.example()
+                ),
+            );
+            return None;
+        };
+        self.record(field, def.text, def.source);
+        match units::parse(def.text, kind) {
+            Ok(v) => Some(v),
+            Err(e) => {
+                self.push(
+                    field,
+                    None,
+                    format!("internal default '{}' is bad: {e}", def.text),
+                );
+                None
+            }
+        }
+    }
+
+    /// A word of a closed set; an unknown word is reported with the allowed words.
+    pub(super) fn word<T: Copy>(&mut self, w: &W<T>, field: &str) -> Option<T> {
+        match &w.value {
+            Word::Known(v) => Some(*v),
+            Word::Unknown { text, allowed } => {
+                self.push(
+                    field,
+                    Some(line_of(w)),
+                    format!("'{text}' is not one of: {}", allowed.join(", ")),
+                );
+                None
+            }
+        }
+    }
+
+    /// A free-text word that must be one of `allowed`.
+    pub(super) fn known_word<'a>(
+        &mut self,
+        s: &'a Spanned<String>,
+        field: &str,
+        allowed: &[&'a str],
+    ) -> Option<&'a str> {
+        let v = s.value.as_str();
+        if allowed.contains(&v) {
+            Some(v)
+        } else {
+            self.push(
+                field,
+                Some(line_of(s)),
+                format!("'{v}' is not one of: {}", allowed.join(", ")),
+            );
+            None
+        }
+    }
+
+    /// A word of a closed set that may be missing: then `default` is used and recorded.
+    pub(super) fn word_or<T: Copy>(
+        &mut self,
+        w: Option<&W<T>>,
+        field: &str,
+        default: (T, Def),
+    ) -> Option<T> {
+        match w {
+            Some(w) => self.word(w, field),
+            None => {
+                self.record(field, default.1.text, default.1.source);
+                Some(default.0)
+            }
+        }
+    }
+
+    /// A bare number from a list, read in `unit`.
+    pub(super) fn num_unit(
+        &mut self,
+        x: f64,
+        unit: &str,
+        field: &str,
+        line: Option<u64>,
+        kind: Kind,
+    ) -> Option<f64> {
+        if !x.is_finite() {
+            self.push(
+                field,
+                line,
+                "is not a finite number; give a real value".into(),
+            );
+            return None;
+        }
+        match units::parse(&format!("{x} {unit}"), kind) {
+            Ok(v) => Some(v),
+            Err(e) => {
+                self.push(field, line, format!("{e}"));
+                None
+            }
+        }
+    }
+}

@@ -1,0 +1,18 @@
+//! Validation of the raw schema into the all-SI [`Case`](super::Case), one file per section.
+//!
+//! Validation collects every problem it finds instead of stopping at the first, and each problem
+//! names the file, the line (where known), the field path and the fix. Every default used is
+//! recorded with its source.
+
+mod case;
+mod checks;
+mod hardness;
+mod lab_creep;
+mod lanes;
+mod material;
+mod profiles;
+mod roll;
+mod storage;
+mod winding;
+
+pub(super) use checks::Validator;
