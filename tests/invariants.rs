@@ -6,10 +6,11 @@
 //!   literals are blanked out before any check, keeping line numbers; so a number or a macro name
 //!   in a doc comment or a message does not count.
 //! - `#[cfg(test)]` is recognised only directly before `mod NAME {`; such modules are skipped by
-//!   the function-length, module-graph and I/O checks. A `#[cfg(test)]` on a single function is
-//!   not recognised.
+//!   the function-length, module-graph and I/O checks (the unit-literal and `case` checks read
+//!   them too). A `#[cfg(test)]` on a single function is not recognised.
 //! - A function is the `fn NAME` keyword up to the first `{` (or `;` for a body-less trait
-//!   method) and its matching `}`; a brace inside a signature (const generics) would confuse it.
+//!   method) outside parentheses and brackets, and its matching `}`; a brace inside a signature
+//!   (a const-generic block) would confuse it.
 //!   Its length counts lines from the `fn` line to the closing brace, nested items included.
 //! - Module dependencies come from `crate::X` paths (in `use` or inline, including
 //!   `use crate::{X, Y::..}` groups) and from `super::X` in a top-level module file (or
@@ -481,7 +482,18 @@ fn functions(src: &Source) -> Vec<(String, usize, usize)> {
         if name.is_empty() {
             continue;
         }
-        let Some(open) = after.find(['{', ';']) else {
+        // the body's `{`, or `;` for a declaration, outside parentheses and brackets
+        // (`fn f(x: [f64; 3]) {`)
+        let mut depth = 0i32;
+        let Some(open) = after.char_indices().find_map(|(j, ch)| {
+            match ch {
+                '(' | '[' => depth += 1,
+                ')' | ']' => depth -= 1,
+                '{' | ';' if depth == 0 => return Some(j),
+                _ => {}
+            }
+            None
+        }) else {
             continue;
         };
         let open = k + 2 + open;
@@ -511,34 +523,38 @@ fn no_function_over_80_lines_outside_tests() {
     report("the function-size limit", v);
 }
 
-#[test]
-fn physics_modules_do_not_depend_on_case() {
+/// Uses of `crate::case` (a path, or `case` inside a `crate::{...}` group) in a file.
+fn case_violations(s: &Source) -> Vec<String> {
     let mut v = Vec::new();
-    for s in sources() {
-        if !(s.path.starts_with("src/winding/") || s.path.starts_with("src/storage/")) {
-            continue;
-        }
-        // test modules count here too: physics takes only the inputs it uses
-        for k in word_positions(&s.code, "crate") {
-            let rest = &s.code[k..];
-            let is_case = rest.starts_with("crate::case")
-                && !rest["crate::case".len()..]
-                    .starts_with(|c: char| c.is_alphanumeric() || c == '_');
-            let group = rest.starts_with("crate::{") && {
-                let close = matching_brace(&s.code, k + 7);
-                word_positions(&s.code[k + 8..close], "case")
-                    .iter()
-                    .any(|&j| !s.code[..k + 8 + j].trim_end().ends_with("::"))
-            };
-            if is_case || group {
-                v.push(format!(
-                    "{}:{}: uses crate::case [invariant: winding and storage take only the inputs they use, no dependency on case]",
-                    s.path,
-                    s.line_of(k)
-                ));
-            }
+    // test modules count here too: physics takes only the inputs it uses
+    for k in word_positions(&s.code, "crate") {
+        let rest = &s.code[k..];
+        let is_case = rest.starts_with("crate::case")
+            && !rest["crate::case".len()..].starts_with(|c: char| c.is_alphanumeric() || c == '_');
+        let group = rest.starts_with("crate::{") && {
+            let close = matching_brace(&s.code, k + 7);
+            word_positions(&s.code[k + 8..close], "case")
+                .iter()
+                .any(|&j| !s.code[..k + 8 + j].trim_end().ends_with("::"))
+        };
+        if is_case || group {
+            v.push(format!(
+                "{}:{}: uses crate::case [invariant: winding and storage take only the inputs they use, no dependency on case]",
+                s.path,
+                s.line_of(k)
+            ));
         }
     }
+    v
+}
+
+#[test]
+fn physics_modules_do_not_depend_on_case() {
+    let v: Vec<String> = sources()
+        .iter()
+        .filter(|s| s.path.starts_with("src/winding/") || s.path.starts_with("src/storage/"))
+        .flat_map(case_violations)
+        .collect();
     report("\"physics modules take only what they use\"", v);
 }
 
@@ -606,9 +622,8 @@ fn module_graph_has_no_cycle() {
     report("the acyclic module graph", v);
 }
 
-#[test]
-fn pure_modules_do_no_io() {
-    let pure = ["src/winding/", "src/storage/", "src/fit/", "src/diagnose/"];
+/// Printing and file I/O outside test modules.
+fn io_violations(s: &Source) -> Vec<String> {
     let banned = [
         "println!",
         "eprintln!",
@@ -620,23 +635,29 @@ fn pure_modules_do_no_io() {
         "std::io::stderr",
     ];
     let mut v = Vec::new();
-    for s in sources() {
-        if !pure.iter().any(|p| s.path.starts_with(p)) {
-            continue;
-        }
-        for pat in banned {
-            let word = pat.split(['!', ':']).next().unwrap();
-            for k in word_positions(&s.code, word) {
-                if s.code[k..].starts_with(pat) && !s.in_tests(k) {
-                    v.push(format!(
-                        "{}:{}: `{pat}` [invariant: winding, storage, fit and diagnose do no I/O and no printing]",
-                        s.path,
-                        s.line_of(k)
-                    ));
-                }
+    for pat in banned {
+        let word = pat.split(['!', ':']).next().unwrap();
+        for k in word_positions(&s.code, word) {
+            if s.code[k..].starts_with(pat) && !s.in_tests(k) {
+                v.push(format!(
+                    "{}:{}: `{pat}` [invariant: winding, storage, fit and diagnose do no I/O and no printing]",
+                    s.path,
+                    s.line_of(k)
+                ));
             }
         }
     }
+    v
+}
+
+#[test]
+fn pure_modules_do_no_io() {
+    let pure = ["src/winding/", "src/storage/", "src/fit/", "src/diagnose/"];
+    let v: Vec<String> = sources()
+        .iter()
+        .filter(|s| pure.iter().any(|p| s.path.starts_with(p)))
+        .flat_map(io_violations)
+        .collect();
     report("\"pure functions, no I/O\"", v);
 }
 
@@ -685,7 +706,7 @@ fn scanner_finds_unit_literals_by_their_digits() {
 fn scanner_measures_functions_and_skips_test_modules() {
     let body = "    let x = 1;\n".repeat(3);
     let text = format!(
-        "fn short() {{\n{body}}}\ntype F = fn(u8) -> u8;\ntrait T {{ fn decl(&self); }}\n#[cfg(test)]\nmod tests {{\n    fn inner() {{}}\n}}\n"
+        "fn short(a: [u8; 2]) {{\n{body}}}\ntype F = fn(u8) -> u8;\ntrait T {{ fn decl(&self); }}\n#[cfg(test)]\nmod tests {{\n    fn inner() {{}}\n}}\n"
     );
     let s = source("src/x.rs", &text);
     assert_eq!(functions(&s), vec![("short".to_string(), 1, 5)]);
@@ -706,4 +727,25 @@ fn scanner_reads_module_dependencies() {
     a.sort();
     b.sort();
     assert_eq!(a, b);
+}
+
+#[test]
+fn scanner_finds_case_uses_and_io() {
+    let s = source(
+        "src/winding/x.rs",
+        "use crate::case::Stack;\nuse crate::{numeric, case};\nuse crate::cases;\n// crate::case\nfn f() { println!(\"x\"); let _ = std::fs::read(\"p\"); }\nfn g() { let s = \"println!\"; }\n#[cfg(test)]\nmod tests {\n    fn h() { println!(\"ok in tests\"); }\n}\n",
+    );
+    let at = |v: Vec<String>| -> Vec<String> {
+        v.iter()
+            .map(|m| m.split(": ").next().unwrap().to_string())
+            .collect()
+    };
+    assert_eq!(
+        at(case_violations(&s)),
+        ["src/winding/x.rs:1", "src/winding/x.rs:2"]
+    );
+    assert_eq!(
+        at(io_violations(&s)),
+        ["src/winding/x.rs:5", "src/winding/x.rs:5"]
+    );
 }

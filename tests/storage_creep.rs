@@ -60,7 +60,8 @@ fn step_response_under_constant_stress_matches_creep_compliance() {
 }
 
 /// Time stepping at a fixed strain reproduces the closed-form Burgers relaxation modulus
-/// (two exponentials), which the source derives from the model's operator equation.
+/// (two exponentials), which Findley, Lai and Onaran (1976) derive from the model's operator
+/// equation (from memory).
 #[test]
 fn relaxation_under_fixed_strain_matches_closed_form() {
     let b = Burgers {
@@ -91,7 +92,8 @@ fn relaxation_under_fixed_strain_matches_closed_form() {
     }
 }
 
-/// Mechano-sorptive creep (d eps = m_s g |dMC|): a moisture swing adds creep that a steady
+/// Mechano-sorptive creep (d eps = m_s g |dMC|, the form reviewed by Haslach 2000, Mech.
+/// Time-Depend. Mater. 4:169-210, from memory): a moisture swing adds creep that a steady
 /// state does not; cycling adds more than the same time at constant moisture (Byrd 1972,
 /// qualitative, from memory).
 #[test]

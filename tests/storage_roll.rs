@@ -92,7 +92,8 @@ fn drying_outer_wraps_gain_about_225_psi_per_point() {
 }
 
 /// Moisture change starts at the ends, the barrel and the core and works inward, ever more
-/// slowly (Crank: penetration grows as the square root of time).
+/// slowly (Crank 1975, The Mathematics of Diffusion, 2nd ed.: penetration grows as the square
+/// root of time, from memory).
 #[test]
 fn moisture_works_inward_from_the_surfaces_ever_more_slowly() {
     let c = with(storage(60, "23 C", "85 %", "none", "none"), &[]);

@@ -291,7 +291,8 @@ fn equal_stress_means_tension_scales_with_caliper() {
 /// it second order on this nonlinear (Pfeiffer) stack (issue 13 measured first order). The test
 /// asserts only bounds on the change under refinement: the core pressure and wound-in tension of every lane move by less than 0.5 %
 /// from 801 to 1601 nodes and by less than 2 % from 401 to 1601. The surface-zone pressure sits in
-/// the soft boundary layer of the outer wraps (E_r = K2 K1 at zero pressure), which converges more
+/// the soft boundary layer of the outer wraps (Pfeiffer 1966, TAPPI 49(8):342-347, from memory:
+/// E_r = K2 (P + K1), so E_r = K2 K1 at zero pressure), which converges more
 /// slowly: 1.5 % and 3 %.
 #[test]
 fn wound_state_converges_with_grid_refinement() {
