@@ -80,7 +80,7 @@ fn at(st: &LaneState, r: f64) -> (f64, f64) {
 /// Check vector: r_c = 0.05 m, R = 0.5 m, T_w = 5 MPa, E_t = 5 GPa, E_r = 50 MPa (g = 10),
 /// E_c = 1 GPa, nu = 0.01; the radii and the values (kPa) are in the SciPy table
 /// (tests/data/altmann_quadrature/table.csv, Altmann 1968 closed form). The Simpson quadrature
-/// here must agree with the table to 0.2 % of T_w; the model within 1 % or 2 kPa, whichever is
+/// here must agree with the table to 0.01 kPa (the table's last printed digit is 0.0001 kPa); the model within 1 % or 2 kPa, whichever is
 /// larger, for sigma_r (sigma_r falls to zero at the surface, so near r = 0.49 m only the
 /// absolute bound is meaningful) and within 0.2 % of T_w (10 kPa) for sigma_t, 0.3 % (15 kPa) at
 /// r = 0.49 m where sigma_t climbs steeply to T_w (measured there: 10.5 kPa at 3001 nodes).
@@ -104,12 +104,12 @@ fn stresses_match_altmann_check_vector() {
         // the independent quadrature agrees with SciPy's
         let (qr, qt) = altmann(r, rc, big_r, tw, g, kappa);
         assert!(
-            (qr / 1e3 - want_r_kpa).abs() < 0.002 * tw / 1e3,
+            (qr / 1e3 - want_r_kpa).abs() < 0.01,
             "quadrature sigma_r({r}) = {} kPa, table {want_r_kpa}",
             qr / 1e3
         );
         assert!(
-            (qt / 1e3 - want_t_kpa).abs() < 0.002 * tw / 1e3,
+            (qt / 1e3 - want_t_kpa).abs() < 0.01,
             "quadrature sigma_t({r}) = {} kPa, table {want_t_kpa}",
             qt / 1e3
         );
@@ -132,8 +132,8 @@ fn stresses_match_altmann_check_vector() {
     assert_relative_eq!(*st.sr.last().unwrap(), 0.0);
 }
 
-/// Rigid core, no Poisson coupling, constant tension: the stated check, away from the
-/// outer layers (the outer 5 % of the build, where lumping layers matters most, is excluded).
+/// Rigid core (kappa = -1), no Poisson coupling, constant tension: Altmann's (1968) closed form by
+/// the same quadrature, away from the outer layers (the outer 5 % of the build, where lumping layers matters most, is excluded).
 #[test]
 fn radial_stress_matches_altmann_closed_form_rigid_core() {
     let model = LaneModel {
