@@ -1,5 +1,6 @@
 //! Laboratory creep curves in a case: the Burgers law fitted to them (times shifted to the
-//! reference atmosphere, Arrhenius form) becomes the grade's creep for the per-lane fit.
+//! reference atmosphere, 23 C and 50 % RH as in TAPPI T 402, with an Arrhenius shift) becomes
+//! the grade's creep for the per-lane fit.
 //! The curves are generated here from known parameters (the Burgers compliance of Findley, Lai
 //! and Onaran 1976), so the check is that the known parameters come back.
 

@@ -1,9 +1,10 @@
 //! Burgers creep law: closed forms and the incremental update used in the roll.
 //!
 //! Source: Findley, Lai and Onaran (1976) Creep and Relaxation of Nonlinear Viscoelastic
-//! Materials, North-Holland (from memory). Standard linear solid check values (derived,
-//! references.md section 3): E1 = 5 GPa, E2 = 10 GPa, eta = 1e15 Pa s:
-//! J(1e5 s) = 2.6321e-10 1/Pa, E(1e5 s) = 3.7052 GPa.
+//! Materials, North-Holland (from memory). Standard linear solid check values, evaluated by hand
+//! from its closed forms J(t) = 1/E1 + (1 - exp(-t E2/eta))/E2 and
+//! E(t) = E_inf + (E1 - E_inf) exp(-t (E1 + E2)/eta), E_inf = E1 E2/(E1 + E2) (the same source):
+//! E1 = 5 GPa, E2 = 10 GPa, eta = 1e15 Pa s: J(1e5 s) = 2.6321e-10 1/Pa, E(1e5 s) = 3.7052 GPa.
 
 use approx::assert_relative_eq;
 use rollsleuth::case::Burgers;
@@ -59,7 +60,8 @@ fn step_response_under_constant_stress_matches_creep_compliance() {
 }
 
 /// Time stepping at a fixed strain reproduces the closed-form Burgers relaxation modulus
-/// (two exponentials), which the source derives from the model's operator equation.
+/// (two exponentials), which Findley, Lai and Onaran (1976) derive from the model's operator
+/// equation (from memory).
 #[test]
 fn relaxation_under_fixed_strain_matches_closed_form() {
     let b = Burgers {
@@ -90,7 +92,8 @@ fn relaxation_under_fixed_strain_matches_closed_form() {
     }
 }
 
-/// Mechano-sorptive creep (d eps = m_s g |dMC|): a moisture swing adds creep that a steady
+/// Mechano-sorptive creep (d eps = m_s g |dMC|, the form reviewed by Haslach 2000, Mech.
+/// Time-Depend. Mater. 4:169-210, from memory): a moisture swing adds creep that a steady
 /// state does not; cycling adds more than the same time at constant moisture (Byrd 1972,
 /// qualitative, from memory).
 #[test]

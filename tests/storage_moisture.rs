@@ -1,8 +1,10 @@
 //! Moisture transport in the stored roll against Crank's solutions, and the GAB isotherm.
 //!
 //! Crank, J. (1975) The Mathematics of Diffusion, 2nd ed., Oxford: plane sheet with both faces
-//! stepped (eq. 4.18) and the long solid cylinder (eq. 5.23), from memory; table values from
-//! references.md section 4. Bessel zeros j_{0,n}: Abramowitz and Stegun (1964) Table 9.5.
+//! stepped (eq. 4.18) and the long solid cylinder (eq. 5.23), from memory; the plane-sheet table
+//! values are that series evaluated by hand (at Dt/l^2 = 0.01 it is 2 sqrt(Dt/(pi l^2))).
+//! Bessel zeros j_{0,n}: Abramowitz and Stegun (1964) Handbook of Mathematical Functions,
+//! Table 9.5 (from memory).
 
 use approx::assert_relative_eq;
 use rollsleuth::case::Gab;
@@ -92,9 +94,10 @@ fn radial_exchange_matches_crank_solid_cylinder() {
     }
 }
 
-/// GAB isotherm: the derived check value M(0.5) = 7.543 % for Mm = 5.5 %, C = 10, K = 0.75
-/// (references.md section 4; no published paper GAB table was at hand offline, so the formula is
-/// checked against its own hand-evaluated value and against the conditioning range below).
+/// GAB isotherm, M = Mm C K a / ((1 - K a)(1 - K a + C K a)) (Guggenheim 1966; Anderson 1946;
+/// de Boer 1953; from memory): M(0.5) = 7.543 % for Mm = 5.5 %, C = 10, K = 0.75, evaluated by
+/// hand. No published paper GAB table was at hand offline, so the formula is checked against its
+/// own hand-evaluated value and against the conditioning range below.
 #[test]
 fn gab_isotherm_matches_hand_evaluated_value() {
     let g = Gab {
@@ -110,7 +113,7 @@ fn gab_isotherm_matches_hand_evaluated_value() {
 }
 
 /// At the standard conditioning atmosphere (23 C, 50 % RH; TAPPI T 402 / ISO 187) paper holds
-/// about 6.5-8 % moisture (references.md section 4, from memory); every paper grade default
+/// about 6.5-8 % moisture (from memory); every paper grade default
 /// lands in that range.
 #[test]
 fn paper_defaults_hold_standard_atmosphere_moisture() {

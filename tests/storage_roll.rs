@@ -60,8 +60,8 @@ fn with(extra: Vec<String>, more: &[&str]) -> Case {
 }
 
 /// When the outer wraps of a typical paper roll lose one point of moisture, their MD stress rises
-/// by about 225 psi: E_MD x beta_MD x 1 % = 750 kpsi x 0.0003 x 1 = 225 psi (common practice,
-/// references.md section 2). The model's outermost cell, restrained by the roll beneath, gains
+/// by about 225 psi: E_MD x beta_MD x 1 % = 750 kpsi x 0.0003 x 1 = 225 psi (common practice).
+/// The model's outermost cell, restrained by the roll beneath, gains
 /// MD stress at that rate per point of moisture it loses within a day.
 #[test]
 fn drying_outer_wraps_gain_about_225_psi_per_point() {
@@ -92,7 +92,8 @@ fn drying_outer_wraps_gain_about_225_psi_per_point() {
 }
 
 /// Moisture change starts at the ends, the barrel and the core and works inward, ever more
-/// slowly (Crank: penetration grows as the square root of time).
+/// slowly (Crank 1975, The Mathematics of Diffusion, 2nd ed.: penetration grows as the square
+/// root of time, from memory).
 #[test]
 fn moisture_works_inward_from_the_surfaces_ever_more_slowly() {
     let c = with(storage(60, "23 C", "85 %", "none", "none"), &[]);

@@ -20,16 +20,50 @@ fn uniform(extra: &[&str]) -> Case {
     c
 }
 
-/// Lame thick cylinder (Timoshenko and Goodier, Theory of Elasticity, 3rd ed. 1970):
-/// steel tube E = 207 GPa, nu = 0.3, a = 38.1 mm, b = 50.8 mm -> E_c = 63.28 GPa
-/// (derived check value, references.md section 1).
+/// Lame thick cylinder under external pressure P with a free bore, plane stress (Timoshenko and
+/// Goodier, Theory of Elasticity, 3rd ed. 1970, the thick-walled cylinder, from memory): the outer
+/// surface moves u(b) = -(P b / E) ((1 - nu) b^2 + (1 + nu) a^2) / (b^2 - a^2), so the stiffness
+/// the wound roll sees is E_c = -P b / u(b). Written out here independently of the model.
+fn lame_core_stiffness(e: f64, nu: f64, a: f64, b: f64) -> f64 {
+    let (p, a2, b2) = (1.0, a * a, b * b);
+    let u_b = -(p * b / e) * ((1.0 - nu) * b2 + (1.0 + nu) * a2) / (b2 - a2);
+    -p * b / u_b
+}
+
+/// Altmann (1968, TAPPI 51(4):176-179, from memory) closed form for a constant radial modulus:
+/// core radial stress sigma_r(r_c) = -(phi(r_c)/r_c) integral_{r_c}^R T_w / phi ds,
+/// phi(x) = x^g + C r_c^(2g) x^(-g), C = (g - 1 - kappa)/(g + 1 + kappa), by Simpson quadrature
+/// (the same form as tests/winding_altmann.rs).
+fn altmann_core_stress(rc: f64, big_r: f64, tw: f64, g: f64, kappa: f64) -> f64 {
+    let c = (g - 1.0 - kappa) / (g + 1.0 + kappa);
+    let phi = |x: f64| x.powf(g) + c * rc.powf(2.0 * g) * x.powf(-g);
+    let n = 20000;
+    let h = (big_r - rc) / n as f64;
+    let s: f64 = (0..=n)
+        .map(|i| {
+            let w = match i {
+                0 => 1.0,
+                _ if i == n => 1.0,
+                _ if i % 2 == 1 => 4.0,
+                _ => 2.0,
+            };
+            w * tw / phi(rc + i as f64 * h)
+        })
+        .sum();
+    -(phi(rc) / rc) * s * h / 3.0
+}
+
+/// Steel tube E = 207 GPa, nu = 0.3 (handbook values, from memory), a = 38.1 mm, b = 50.8 mm:
+/// the library's core stiffness equals the Lame relation above (63.28 GPa with these numbers).
 #[test]
 fn core_stiffness_matches_thick_cylinder_relation() {
+    let lame = lame_core_stiffness(207e9, 0.3, 0.0381, 0.0508);
     assert_relative_eq!(
-        core_stiffness(207e9, 0.3, 0.0381, 0.0508) / 1e9,
-        63.28,
-        max_relative = 2e-4
+        core_stiffness(207e9, 0.3, 0.0381, 0.0508),
+        lame,
+        max_relative = 1e-12
     );
+    assert_relative_eq!(lame / 1e9, 63.28, max_relative = 2e-4);
     // thin-wall limit: E_c -> E t / b for t << b (membrane ring)
     let (b, t) = (0.05, 0.0005);
     assert_relative_eq!(
@@ -40,42 +74,66 @@ fn core_stiffness_matches_thick_cylinder_relation() {
 }
 
 /// With a compliant core the first wound layer meets the core condition r s' = kappa s,
-/// kappa = E_t/E_c - 1 + nu, which follows from u(r_c) = -P r_c / E_c (thick-cylinder core,
-/// Timoshenko and Goodier): a softer core carries less pressure (Altmann's C factor).
+/// kappa = E_t/E_c - 1 + nu, which follows from u(r_c) = -P r_c / E_c with E_c the Lame
+/// stiffness of the core tube (Timoshenko and Goodier 1970). Summed over the winding it reads
+/// sigma_t(r_c) = T_w + (E_t/E_c + nu) sigma_r(r_c). Checked for two real cores (the steel tube
+/// above, and a paper core of E = 3 GPa, nu = 0.3, 13 mm wall on a 102 mm diameter, of the order
+/// of common paper cores, from memory): the model's core state meets the condition, its core
+/// pressure matches Altmann's (1968) closed form within 1 %, and a softer core carries less
+/// pressure.
 #[test]
 fn core_pressure_follows_thick_cylinder_compliance() {
-    let run = |ec: Option<f64>| {
+    let (big_r, tw, e_t, e_r, nu) = (0.5, 5e6, 5e9, 50e6, 0.01);
+    let run = |rc: f64, ec: Option<f64>| {
         let m = LaneModel {
-            e_t: 5e9,
+            e_t,
             stack: Stack::Constant {
-                radial_modulus_pa: 50e6,
+                radial_modulus_pa: e_r,
             },
-            poisson: 0.01,
+            poisson: nu,
             core_stiffness: ec,
         };
         let n = 1501;
-        let h = 0.45 / (n as f64 - 1.0);
-        let grid: Vec<f64> = (0..n).map(|j| 0.05 + j as f64 * h).collect();
+        let h = (big_r - rc) / (n as f64 - 1.0);
+        let grid: Vec<f64> = (0..n).map(|j| rc + j as f64 * h).collect();
         let mut st = LaneState::new(grid.clone());
         for &r in &grid {
-            st.add(&m, 5e6 * h / r, 5e6, 0.0).unwrap();
+            st.add(&m, tw * h / r, tw, 0.0).unwrap();
         }
-        st.finish(5e6);
-        // check the discrete core condition: r s'(r_c) / s(r_c) = sigma_t/sigma_r - 1 = kappa
-        -st.sr[0]
+        st.finish(tw);
+        (st.sr[0], st.st[0])
     };
-    let rigid = run(None);
-    let stiff = run(Some(1e9));
-    let soft = run(Some(0.1e9));
-    assert!(rigid > stiff && stiff > soft, "{rigid} {stiff} {soft}");
-    // Altmann (1968) closed form at the core, g = 10: P_c proportional to
-    // (1 + C)/... ; the 1 GPa value is the check vector's -676.1 kPa.
-    assert_relative_eq!(stiff / 1e3, 676.1, max_relative = 0.005);
+    let steel = (0.0508, lame_core_stiffness(207e9, 0.3, 0.0381, 0.0508));
+    let paper = (0.051, lame_core_stiffness(3e9, 0.3, 0.051 - 0.013, 0.051));
+    assert!(paper.1 < 1e9 && steel.1 > 50e9, "{paper:?} {steel:?}");
+    let g = (e_t / e_r).sqrt();
+    let mut pressures = Vec::new();
+    for (rc, ec) in [steel, paper] {
+        let (sr, stt) = run(rc, Some(ec));
+        // the core condition, summed over the winding
+        assert_relative_eq!(stt, tw + (e_t / ec + nu) * sr, max_relative = 1e-9);
+        let kappa = e_t / ec - 1.0 + nu;
+        let want = altmann_core_stress(rc, big_r, tw, g, kappa);
+        assert_relative_eq!(sr, want, max_relative = 0.01);
+        // on a rigid core of the same radius the pressure is higher
+        let (sr_rigid, _) = run(rc, None);
+        assert!(sr_rigid < sr, "rigid {sr_rigid} vs compliant {sr}");
+        pressures.push(-sr);
+    }
+    assert!(
+        pressures[0] > pressures[1],
+        "steel core {} Pa, paper core {} Pa",
+        pressures[0],
+        pressures[1]
+    );
 }
 
-/// Rotating annulus (Timoshenko and Goodier): rho = 700 kg/m3, w = 20 pi rad/s, nu = 0.3,
-/// a = 0.05 m, b = 0.5 m: sigma_t(a) = 571.18 kPa, sigma_t(b) = 126.60 kPa,
-/// sigma_r(0.3 m) = 177.32 kPa (derived check values, references.md section 1).
+/// Rotating annulus, plane stress (Timoshenko and Goodier, Theory of Elasticity, 3rd ed. 1970,
+/// the rotating disk with a central hole, from memory):
+/// sigma_t = (3 + nu)/8 rho w^2 (a^2 + b^2 + a^2 b^2/r^2 - (1 + 3 nu)/(3 + nu) r^2), and
+/// sigma_r = (3 + nu)/8 rho w^2 (a^2 + b^2 - a^2 b^2/r^2 - r^2). Evaluated by hand for
+/// rho = 700 kg/m3, w = 20 pi rad/s, nu = 0.3, a = 0.05 m, b = 0.5 m: sigma_t(a) = 571.18 kPa,
+/// sigma_t(b) = 126.60 kPa, sigma_r(0.3 m) = 177.32 kPa.
 #[test]
 fn centrifugal_stresses_match_rotating_disk_formula() {
     let w = 20.0 * std::f64::consts::PI;
@@ -88,8 +146,8 @@ fn centrifugal_stresses_match_rotating_disk_formula() {
     assert!(srb.abs() < 1e-6, "free outer edge");
 }
 
-/// Good, Wu and Fikes (1994): wound-in tension = web tension + mu x nip load.
-/// Check: 350 N/m + 0.3 x 3500 N/m = 1400 N/m (references.md section 1).
+/// Good, Wu and Fikes (1994) J. Appl. Mech. 61(1):182-185: wound-in tension = web tension +
+/// mu x nip load (from memory). Check: 350 N/m + 0.3 x 3500 N/m = 1400 N/m.
 #[test]
 fn nip_induced_wound_in_tension_follows_good_wu_fikes() {
     let c = uniform(&[
@@ -229,10 +287,12 @@ fn equal_stress_means_tension_scales_with_caliper() {
     );
 }
 
-/// Grid convergence: lumping layers into nodes is first order, Richardson extrapolation makes
-/// it second order; the core pressure and wound-in tension of every lane move by less than 0.5 %
+/// Grid convergence: lumping layers into nodes is first order; the Richardson step does not make
+/// it second order on this nonlinear (Pfeiffer) stack (issue 13 measured first order). The test
+/// asserts only bounds on the change under refinement: the core pressure and wound-in tension of every lane move by less than 0.5 %
 /// from 801 to 1601 nodes and by less than 2 % from 401 to 1601. The surface-zone pressure sits in
-/// the soft boundary layer of the outer wraps (E_r = K2 K1 at zero pressure), which converges more
+/// the soft boundary layer of the outer wraps (Pfeiffer 1966, TAPPI 49(8):342-347, from memory:
+/// E_r = K2 (P + K1), so E_r = K2 K1 at zero pressure), which converges more
 /// slowly: 1.5 % and 3 %.
 #[test]
 fn wound_state_converges_with_grid_refinement() {
@@ -340,10 +400,12 @@ fn equal_lanes_are_identical_and_a_thicker_lane_is_tighter() {
 }
 
 /// Radial equilibrium of the wound roll holds exactly for any material law:
-/// r sigma_r(r) = -integral_r^R sigma_t ds (references.md section 1, derived from
-/// d(r sigma_r)/dr = sigma_t with a free outer surface). Checked on the nonlinear coupled demo
+/// r sigma_r(r) = -integral_r^R sigma_t ds, integrated from the equilibrium equation
+/// d(r sigma_r)/dr = sigma_t (Timoshenko and Goodier 1970, plane stress in polar coordinates)
+/// with a free outer surface. Checked on the nonlinear coupled demo
 /// roll by trapezoid integration of the model's own tangential stress, at every node, within
-/// 0.5 % of the largest |r sigma_r| (measured: 1 % at 401 nodes, 0.25 % at 1601: second order).
+/// 0.5 % of the largest |r sigma_r| (measured: 1 % at 401 nodes, 0.25 % at 1601, that is a factor
+/// of 4 for a factor of 4 in node spacing: first order).
 #[test]
 fn wound_state_satisfies_radial_equilibrium_identity() {
     let c = demo(&[]);
