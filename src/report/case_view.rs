@@ -19,7 +19,7 @@ pub fn check_text(c: &Case, sys: System) -> String {
         let _ = writeln!(out, "{}", c.title);
     }
     if let Some(cp) = &c.complaint {
-        let _ = writeln!(out, "Complaint: {}", crate::defects::plain(cp));
+        let _ = writeln!(out, "Complaint: {}", super::words::complaint(cp));
     }
     let m = &c.material;
     let mut t = table(&["field", "value", ""]);
