@@ -2,6 +2,16 @@
 //! the width, its link to caliper and moisture, and stress states tied to other defects. Each
 //! group of features is one function; [`compute`] assembles them with an exhaustive match over
 //! [`Feature`], so a new feature does not compile until it is computed.
+//!
+//! Edges and ends: the edge features (`centre_minus_edges_*`, `edge_moisture_change_pct`) compare
+//! the centre half with the roll's ends, the outermost lane at each side ([`end_lanes`]). `lanes`
+//! splits a 25 mm strip off each wide edge lane because moisture exchange through the ends and the
+//! web's edge tension act in the outer centimetres, so the end lanes carry the edge effect that a
+//! wider average would dilute; this is what the features' meanings say. Where a finding about
+//! edges is reported, the lanes named are the edge zones, the outer 15 % of the width at each side
+//! ([`edge_lanes`]), falling back to the ends when no lane centre lies in a zone. (The former code
+//! computed an `edges_or_ends` set that always equalled the ends; it is replaced by these two
+//! named sets, with the features' values unchanged.)
 
 use crate::case::Case;
 use crate::lanes::Lanes;
@@ -405,12 +415,12 @@ pub fn compute(case: &Case, lanes: &Lanes, wound: &Wound, aged: &Aged) -> Featur
     let last = aged.times_days.len() - 1;
     let u = Unwind::new(case, lanes, aged, last);
     let centre = centre_lanes(lanes, u.width);
-    let edges = end_lanes(lanes);
-    let len = length_pattern(&u, &centre, &edges);
+    let ends = end_lanes(lanes);
+    let len = length_pattern(&u, &centre, &ends);
     let (caliper_correlation, caliper_range_pct) = caliper_link(lanes, &u);
     let (moisture_share, creep_share) = shares(aged, last);
     let st = stress_states(wound, aged, last);
-    let (edge_moisture, moisture_change) = moisture_change(aged, last, &centre, &edges);
+    let (edge_moisture, moisture_change) = moisture_change(aged, last, &centre, &ends);
     let (tension_ratio, ridge, nip_ratio) = winding_states(case, wound);
     let excess: Vec<f64> = u.s.iter().map(|v| v - u.mean_w).collect();
     let slack: Vec<usize> = (0..u.n()).filter(|&i| excess[i] > SLACK_MM_PER_M).collect();
