@@ -158,3 +158,37 @@ pub fn whatif_text(w: &crate::diagnose::WhatIf, sys: System) -> Result<String, W
         list(&w.defects_after),
     ))
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::diagnose::WhatIf;
+
+    fn what_if(before: usize) -> WhatIf {
+        WhatIf {
+            case: "R1".into(),
+            changes: vec!["winding.tension=1.5 pli".into()],
+            spread_before_mm_per_m: 0.5,
+            spread_after_mm_per_m: 0.25,
+            position_m: vec![0.1, 0.3],
+            excess_before_mm_per_m: vec![0.25; before],
+            excess_after_mm_per_m: vec![-0.25, 0.25],
+            defects_before: vec![Defect::BaggyCenter],
+            defects_after: Vec::new(),
+        }
+    }
+
+    /// Lanes that line up give one row each; lanes that do not are an error naming the counts,
+    /// not blank cells.
+    #[test]
+    fn whatif_view_needs_one_length_per_lane_before_and_after() {
+        let t = whatif_text(&what_if(2), System::Si).unwrap();
+        assert!(t.contains("Likely defects: baggy centre -> none."), "{t}");
+        assert!(t.contains("+0.25") && t.contains("-0.25"), "{t}");
+        let e = whatif_text(&what_if(3), System::Si).unwrap_err();
+        assert_eq!(
+            e.to_string(),
+            "what-if for case R1: 2 lane positions but 3 lengths before and 2 after; the comparison needs one of each per lane"
+        );
+    }
+}
