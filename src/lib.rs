@@ -11,11 +11,11 @@
 //! - [`rules`]: rule tables, lint and evaluation;
 //! - [`diagnose`]: features, findings, root-cause shares, corrections re-run;
 //! - [`report`]: tables, JSON, Markdown and SVG; [`cli`]: arguments and exit codes;
-//! - [`defects`], [`interp`], [`numeric`]: vocabulary and small shared kernels.
+//! - [`vocab`]: features, corrections, defects, likelihoods and causes as enums;
+//! - [`interp`], [`numeric`]: small shared kernels.
 
 pub mod case;
 pub mod cli;
-pub mod defects;
 pub mod diagnose;
 pub mod fit;
 pub mod interp;
@@ -25,4 +25,6 @@ pub mod report;
 pub mod rules;
 pub mod storage;
 pub mod units;
+pub mod vocab;
 pub mod winding;
+

@@ -2,8 +2,9 @@
 //! default rule firing on a feature set built to trigger it but not on a uniform roll.
 
 use rollsleuth::case::{self, Case};
-use rollsleuth::diagnose::{diagnose, features::FEATURES, DiagnoseOptions, Diagnosis};
+use rollsleuth::diagnose::{diagnose, DiagnoseOptions, Diagnosis};
 use rollsleuth::rules;
+use rollsleuth::vocab::{Action, Defect, Feature, FeatureValues};
 
 fn run(c: &Case) -> Diagnosis {
     diagnose(
@@ -22,17 +23,17 @@ fn field(name: &str) -> Case {
     .unwrap()
 }
 
-fn defects(d: &Diagnosis) -> Vec<&str> {
-    d.findings.iter().map(|f| f.defect.as_str()).collect()
+fn defects(d: &Diagnosis) -> Vec<Defect> {
+    d.findings.iter().map(|f| f.defect).collect()
 }
 
 /// Each shipped field case gives the finding its story intends, and its cause shares add to 1.
 #[test]
 fn field_cases_give_their_intended_finding_and_shares_add_up() {
     for (name, want, lane_mm) in [
-        ("nordvik_pm3_caliper_band", "baggy_lane", Some(650.0)),
-        ("kestrel_coated_cold_to_humid", "baggy_edges", None),
-        ("harrowgate_board_dry_store", "baggy_center", None),
+        ("nordvik_pm3_caliper_band", Defect::BaggyLane, Some(650.0)),
+        ("kestrel_coated_cold_to_humid", Defect::BaggyEdges, None),
+        ("harrowgate_board_dry_store", Defect::BaggyCenter, None),
     ] {
         let d = run(&field(name));
         let f = d
@@ -68,12 +69,12 @@ fn caliper_correction_is_backed_by_the_model() {
     let f = d
         .findings
         .iter()
-        .find(|f| f.defect == "baggy_lane")
+        .find(|f| f.defect == Defect::BaggyLane)
         .unwrap();
     let flat = f
         .corrections
         .iter()
-        .find(|c| c.action == "flatten_caliper")
+        .find(|c| c.action == Action::FlattenCaliper)
         .unwrap();
     assert!(flat.spread_after_mm_per_m < 0.7 * flat.spread_before_mm_per_m);
 }
@@ -107,15 +108,15 @@ fn uniform_roll_at_equilibrium_gives_no_finding() {
 fn drying_roll_is_baggy_centre_and_wetting_roll_baggy_edges() {
     let dry = run(&uniform("[{duration: \"40 d\", temperature: \"28 C\", rh: \"20 %\", barrel_wrap: paper, end_wrap: none}]"));
     assert_eq!(
-        dry.findings.first().map(|f| f.defect.as_str()),
-        Some("baggy_center"),
+        dry.findings.first().map(|f| f.defect),
+        Some(Defect::BaggyCenter),
         "{:?}",
         defects(&dry)
     );
     let wet = run(&uniform("[{duration: \"20 d\", temperature: \"25 C\", rh: \"85 %\", barrel_wrap: paper, end_wrap: none}]"));
     assert_eq!(
-        wet.findings.first().map(|f| f.defect.as_str()),
-        Some("baggy_edges"),
+        wet.findings.first().map(|f| f.defect),
+        Some(Defect::BaggyEdges),
         "{:?}",
         defects(&wet)
     );
@@ -137,7 +138,7 @@ fn caliper_band_gives_baggy_lane_at_the_band() {
     let f = d
         .findings
         .iter()
-        .find(|f| f.defect == "baggy_lane")
+        .find(|f| f.defect == Defect::BaggyLane)
         .unwrap_or_else(|| panic!("{:?}", defects(&d)));
     assert!(
         f.lanes.iter().any(|l| (l.position_m - 0.9).abs() < 0.06),
@@ -147,22 +148,24 @@ fn caliper_band_gives_baggy_lane_at_the_band() {
 }
 
 /// Every default rule fires on a feature set built from its own conditions (each threshold
-/// passed by a margin), and none fires on the features of a uniform roll at equilibrium.
+/// passed by a margin; features it does not test are NaN, which meets no condition), and none
+/// fires on the features of a uniform roll at equilibrium.
 #[test]
 fn each_rule_fires_on_its_trigger_and_not_on_a_uniform_roll() {
     let table = rules::load_default().unwrap();
     for r in &table.rules {
-        let mut vals = std::collections::BTreeMap::new();
-        for c in &r.when {
-            let v = match (c.above, c.below) {
-                (Some(a), Some(b)) => 0.5 * (a + b),
-                (Some(a), None) => a + 0.1 * a.abs().max(0.1),
-                (None, Some(b)) => b - 0.1 * b.abs().max(0.1),
-                _ => 0.0,
-            };
-            vals.insert(c.feature.clone(), v);
-        }
-        let fired = rules::evaluate(&table, &|n| vals.get(n).copied());
+        let vals = FeatureValues::from_fn(|f| {
+            r.when
+                .iter()
+                .find(|c| c.feature == f)
+                .map_or(f64::NAN, |c| match (c.above, c.below) {
+                    (Some(a), Some(b)) => 0.5 * (a + b),
+                    (Some(a), None) => a + 0.1 * a.abs().max(0.1),
+                    (None, Some(b)) => b - 0.1 * b.abs().max(0.1),
+                    _ => 0.0,
+                })
+        });
+        let fired = rules::evaluate(&table, &vals);
         assert!(
             fired.iter().any(|f| f.rule.id == r.id),
             "rule {} did not fire on its own trigger",
@@ -175,18 +178,14 @@ fn each_rule_fires_on_its_trigger_and_not_on_a_uniform_roll() {
         "[{{duration: \"30 d\", temperature: \"23 C\", rh: \"{:.2} %\"}}]",
         rh * 100.0
     )));
-    let fired = rules::evaluate(&table, &|n| d.features.get(n));
+    let fired = rules::evaluate(&table, &d.features.values);
     assert!(
         fired.is_empty(),
         "{:?}",
         fired.iter().map(|f| &f.rule.id).collect::<Vec<_>>()
     );
-    // and every feature a rule names is computed
-    for f in FEATURES {
-        assert!(
-            d.features.get(f.name).is_some(),
-            "feature {} not computed",
-            f.name
-        );
+    // and every feature is computed as a finite number
+    for &f in Feature::ALL {
+        assert!(d.features.get(f).is_finite(), "feature {f} not finite");
     }
 }

@@ -4,6 +4,7 @@
 use crate::case::{Case, Tension, Wrap};
 use crate::lanes::Lanes;
 use crate::storage::{age, gab_moisture, AgeError, AgeOptions, Aged, LaneCreep};
+use crate::vocab::{Action, Cause};
 use crate::winding::{wind, Options, WindError, Wound};
 
 /// Everything a forward run needs.
@@ -93,20 +94,62 @@ pub fn rh_for_moisture(case: &Case, mc: f64) -> f64 {
     0.5 * (lo + hi)
 }
 
-/// Apply an action (see [`crate::rules::ACTIONS`]) with its factor. `slit` lists the lanes a
-/// `slit_out` leaves out. Unknown actions leave the scenario unchanged.
-pub fn apply(s: &Scenario, action: &str, factor: Option<f64>, slit: &[usize]) -> Scenario {
+/// A model change: a correction from a rule table, or one of the ablations that remove a cause
+/// for root-cause attribution.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Change {
+    /// A rule table's correction.
+    Correct(Action),
+    /// Every lane wound at the same tension (full CD levelling).
+    UniformLaneTension,
+    /// Every lane given the roll's mean creep.
+    UniformCreep,
+}
+
+/// The cause ablations: each cause, the change that removes it and its factor.
+pub const ABLATIONS: [(Cause, Change, Option<f64>); 5] = [
+    (
+        Cause::CaliperProfile,
+        Change::Correct(Action::FlattenCaliper),
+        None,
+    ),
+    (
+        Cause::StorageMoisture,
+        Change::Correct(Action::StoreAtEquilibrium),
+        None,
+    ),
+    (
+        Cause::WoundInTensionProfile,
+        Change::UniformLaneTension,
+        None,
+    ),
+    (Cause::Nip, Change::Correct(Action::ScaleNip), Some(0.0)),
+    (Cause::LaneToLaneCreep, Change::UniformCreep, None),
+];
+
+/// Apply a change with its factor (1 when none). `slit` lists the lanes a `slit_out` leaves out.
+pub fn apply(s: &Scenario, change: Change, factor: Option<f64>, slit: &[usize]) -> Scenario {
     let mut n = s.clone();
     let f = factor.unwrap_or(1.0);
+    match change {
+        Change::Correct(a) => correct(&mut n, a, f, slit),
+        Change::UniformLaneTension => n.levelling = 1.0,
+        Change::UniformCreep => uniform_creep(&mut n.creep),
+    }
+    n
+}
+
+/// Apply a rule table's action with factor `f`.
+fn correct(n: &mut Scenario, action: Action, f: f64, slit: &[usize]) {
     match action {
-        "flatten_caliper" => {
+        Action::FlattenCaliper => {
             let m = n.lanes.mean_caliper_m;
             for l in &mut n.lanes.lanes {
                 l.caliper_m = m;
                 l.caliper_deviation = 0.0;
             }
         }
-        "scale_tension" => {
+        Action::ScaleTension => {
             n.case.winding.tension = match &n.case.winding.tension {
                 Tension::Constant { tension_n_per_m } => Tension::Constant {
                     tension_n_per_m: tension_n_per_m * f,
@@ -116,7 +159,7 @@ pub fn apply(s: &Scenario, action: &str, factor: Option<f64>, slit: &[usize]) ->
                 },
             }
         }
-        "taper_tension" => {
+        Action::TaperTension => {
             let d0 = n.case.roll.core_diameter_m;
             let d1 = n.case.roll.diameter_m;
             let t0 = n.case.winding.tension.at(d0);
@@ -124,50 +167,48 @@ pub fn apply(s: &Scenario, action: &str, factor: Option<f64>, slit: &[usize]) ->
                 points: vec![(d0, t0), (d1, t0 * f)],
             };
         }
-        "scale_nip" => n.case.winding.nip_n_per_m *= f,
-        "film_wrap" => {
+        Action::ScaleNip => n.case.winding.nip_n_per_m *= f,
+        Action::FilmWrap => {
             for st in &mut n.case.storage {
                 st.barrel_wrap = Wrap::Film;
                 st.end_wrap = Wrap::Film;
             }
         }
-        "keep_wrapped_until_use" => {
+        Action::KeepWrappedUntilUse => {
             if let Some(st) = n.case.storage.last_mut() {
                 st.barrel_wrap = Wrap::Film;
                 st.end_wrap = Wrap::Film;
             }
         }
-        "store_at_equilibrium" => {
+        Action::StoreAtEquilibrium => {
             let rh = rh_for_moisture(&n.case, n.case.material.moisture_pct);
             for st in &mut n.case.storage {
                 st.rh = rh;
             }
         }
-        "shorten_storage" => {
+        Action::ShortenStorage => {
             for st in &mut n.case.storage {
                 st.duration_s *= f;
             }
         }
-        "slit_out" => n.excluded = slit.to_vec(),
-        // root-cause ablations that are not rule actions
-        "uniform_lane_tension" => n.levelling = 1.0,
-        "uniform_creep" => {
-            let k = n.creep.len().max(1) as f64;
-            let mean = |g: &dyn Fn(&LaneCreep) -> f64| n.creep.iter().map(g).sum::<f64>() / k;
-            let (md_d, md_v, r_d, r_v) = (
-                mean(&|c| c.md.delayed),
-                mean(&|c| c.md.viscous_time_s.recip()),
-                mean(&|c| c.radial.delayed),
-                mean(&|c| c.radial.viscous_time_s.recip()),
-            );
-            for c in &mut n.creep {
-                c.md.delayed = md_d;
-                c.md.viscous_time_s = md_v.recip();
-                c.radial.delayed = r_d;
-                c.radial.viscous_time_s = r_v.recip();
-            }
-        }
-        _ => {}
+        Action::SlitOut => n.excluded = slit.to_vec(),
     }
-    n
+}
+
+/// Give every lane the roll's mean delayed compliance and mean viscous fluidity, per direction.
+fn uniform_creep(creep: &mut [LaneCreep]) {
+    let k = creep.len().max(1) as f64;
+    let mean = |g: &dyn Fn(&LaneCreep) -> f64| creep.iter().map(g).sum::<f64>() / k;
+    let (md_d, md_v, r_d, r_v) = (
+        mean(&|c| c.md.delayed),
+        mean(&|c| c.md.viscous_time_s.recip()),
+        mean(&|c| c.radial.delayed),
+        mean(&|c| c.radial.viscous_time_s.recip()),
+    );
+    for c in creep {
+        c.md.delayed = md_d;
+        c.md.viscous_time_s = md_v.recip();
+        c.radial.delayed = r_d;
+        c.radial.viscous_time_s = r_v.recip();
+    }
 }

@@ -1,56 +1,29 @@
 //! Features of the predicted roll that rules test: the pattern of the strain at unwind across
-//! the width, its link to caliper and moisture, and stress states tied to other defects.
+//! the width, its link to caliper and moisture, and stress states tied to other defects. Each
+//! group of features is one function; [`compute`] assembles them with an exhaustive match over
+//! [`Feature`], so a new feature does not compile until it is computed.
+//!
+//! Edges and ends: the edge features (`centre_minus_edges_*`, `edge_moisture_change_pct`) compare
+//! the centre half with the roll's ends, the outermost lane at each side ([`end_lanes`]). `lanes`
+//! splits a 25 mm strip off each wide edge lane because moisture exchange through the ends and the
+//! web's edge tension act in the outer centimetres, so the end lanes carry the edge effect that a
+//! wider average would dilute; this is what the features' meanings say. Where a finding about
+//! edges is reported, the lanes named are the edge zones, the outer 15 % of the width at each side
+//! ([`edge_lanes`]), falling back to the ends when no lane centre lies in a zone. (The former code
+//! computed an `edges_or_ends` set that always equalled the ends; it is replaced by these two
+//! named sets, with the features' values unchanged.)
 
 use crate::case::Case;
 use crate::lanes::Lanes;
 use crate::storage::Aged;
+use crate::vocab::{Feature, FeatureValues};
 use crate::winding::Wound;
 use serde::Serialize;
-use std::collections::BTreeMap;
 
-/// A feature rules may test: name, unit and meaning, and its possible range (for lint).
-pub struct FeatureSpec {
-    pub name: &'static str,
-    pub meaning: &'static str,
-    pub min: f64,
-    pub max: f64,
-}
-
-const INF: f64 = f64::INFINITY;
-
-/// Every feature a rule table may name.
-pub const FEATURES: &[FeatureSpec] = &[
-    FeatureSpec { name: "running_strain_mm_per_m", meaning: "the web's running strain T/(E c) at the converting tension, mm/m (a lane longer than this runs slack)", min: 0.0, max: INF },
-    FeatureSpec { name: "local_peak_ratio", meaning: "local_peak_mm_per_m over the running strain", min: -INF, max: INF },
-    FeatureSpec { name: "centre_minus_edges_ratio", meaning: "centre_minus_edges_mm_per_m over the running strain (positive: baggy centre)", min: -INF, max: INF },
-    FeatureSpec { name: "longest_lane_ratio", meaning: "longest_lane_excess_mm_per_m over the running strain", min: 0.0, max: INF },
-    FeatureSpec { name: "spread_mm_per_m", meaning: "largest minus smallest lane length at unwind, mm per m of web", min: 0.0, max: INF },
-    FeatureSpec { name: "longest_lane_excess_mm_per_m", meaning: "longest lane minus the width-weighted mean lane, mm/m", min: 0.0, max: INF },
-    FeatureSpec { name: "local_peak_mm_per_m", meaning: "largest excess of an inner lane (not an outermost lane) over its neighbours (two each side), mm/m", min: -INF, max: INF },
-    FeatureSpec { name: "peak_width_mm", meaning: "width of the long band around the longest lane, mm", min: 0.0, max: INF },
-    FeatureSpec { name: "centre_minus_edges_mm_per_m", meaning: "centre half minus the outermost lane each side, mm/m (positive: baggy centre)", min: -INF, max: INF },
-    FeatureSpec { name: "side_to_side_mm_per_m", meaning: "front-to-back difference of a straight-line fit, absolute, mm/m", min: 0.0, max: INF },
-    FeatureSpec { name: "band_count", meaning: "number of long bands (local peaks over 0.3 mm/m prominent)", min: 0.0, max: INF },
-    FeatureSpec { name: "caliper_correlation", meaning: "correlation of lane caliper with lane length at unwind, -1..1", min: -1.0, max: 1.0 },
-    FeatureSpec { name: "caliper_range_pct", meaning: "thickest minus thinnest lane caliper, % of mean", min: 0.0, max: INF },
-    FeatureSpec { name: "moisture_share", meaning: "share of the lane-to-lane length differences from hygroexpansion, 0..1", min: 0.0, max: 1.0 },
-    FeatureSpec { name: "creep_share", meaning: "share of the lane-to-lane length differences from creep, 0..1", min: 0.0, max: 1.0 },
-    FeatureSpec { name: "core_md_stress_mpa", meaning: "most compressive MD stress in the inner third at winding, MPa (negative: compression)", min: -INF, max: INF },
-    FeatureSpec { name: "surface_pressure_end_kpa", meaning: "lowest interlayer pressure in the outer 25 mm at the end of storage, kPa", min: 0.0, max: INF },
-    FeatureSpec { name: "surface_pressure_loss_pct", meaning: "mean loss of surface-zone pressure over storage, %", min: -INF, max: 100.0 },
-    FeatureSpec { name: "outer_md_stress_end_mpa", meaning: "highest MD stress in the outer wraps at the end of storage, MPa", min: -INF, max: INF },
-    FeatureSpec { name: "edge_moisture_change_pct", meaning: "moisture change of the edge lanes minus the centre lanes, points", min: -INF, max: INF },
-    FeatureSpec { name: "moisture_change_pct", meaning: "largest change of a lane's mean moisture over storage, points (absolute)", min: 0.0, max: INF },
-    FeatureSpec { name: "wound_tension_ratio", meaning: "highest over lowest lane wound-in tension", min: 1.0, max: INF },
-    FeatureSpec { name: "diameter_ridge_per_mille", meaning: "largest lane diameter at winding over the mean of its neighbours (two each side), per mille of diameter", min: 0.0, max: INF },
-    FeatureSpec { name: "nip_to_tension_ratio", meaning: "friction x nip load over web tension", min: 0.0, max: INF },
-    FeatureSpec { name: "slack_lanes", meaning: "lanes longer than the mean lane by over 0.5 mm/m", min: 0.0, max: INF },
-];
-
-/// Computed features, by name.
+/// Computed features and the lanes they single out.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct Features {
-    pub values: BTreeMap<String, f64>,
+    pub values: FeatureValues,
     /// Lane index of the longest lane.
     pub longest_lane: usize,
     /// Lanes in the long band around it.
@@ -63,10 +36,16 @@ pub struct Features {
 
 impl Features {
     /// Value of a feature.
-    pub fn get(&self, name: &str) -> Option<f64> {
-        self.values.get(name).copied()
+    pub fn get(&self, f: Feature) -> f64 {
+        self.values[f]
     }
 }
+
+/// Threshold of the trade for a lane to run visibly slack, mm/m (0.05 %: common practice).
+pub const SLACK_MM_PER_M: f64 = 0.5;
+
+/// Prominence over the mean lane for a local peak to count as a long band, mm/m (common practice).
+const BAND_MM_PER_M: f64 = 0.3;
 
 fn median(v: &[f64]) -> f64 {
     let mut s = v.to_vec();
@@ -94,106 +73,195 @@ fn correlation(a: &[f64], b: &[f64]) -> f64 {
     }
 }
 
-/// Threshold of the trade for a lane to run visibly slack, mm/m (0.05 %: common practice).
-pub const SLACK_MM_PER_M: f64 = 0.5;
-
-/// Compute the features of a predicted roll.
-pub fn compute(case: &Case, lanes: &Lanes, wound: &Wound, aged: &Aged) -> Features {
-    let n = aged.lanes.len();
-    let last = aged.times_days.len() - 1;
-    let s: Vec<f64> = aged
-        .lanes
-        .iter()
-        .map(|l| l.strain_at_unwind[last] * 1e3)
-        .collect();
-    let x = lanes.positions();
-    let w = lanes.widths();
-    let width = case.roll.width_m;
-    let wsum: f64 = w.iter().sum();
-    let mean_w = s.iter().zip(&w).map(|(a, b)| a * b).sum::<f64>() / wsum;
-    let excess: Vec<f64> = s.iter().map(|v| v - mean_w).collect();
-    let (imax, smax) =
-        s.iter().enumerate().fold(
-            (0, f64::NEG_INFINITY),
-            |a, (i, &v)| if v > a.1 { (i, v) } else { a },
-        );
-    let smin = s.iter().cloned().fold(f64::INFINITY, f64::min);
-    let mut v = BTreeMap::new();
-    let mut put = |k: &str, val: f64| {
-        v.insert(k.to_string(), if val.is_finite() { val } else { 0.0 });
-    };
-    put("spread_mm_per_m", smax - smin);
-    put("longest_lane_excess_mm_per_m", smax - mean_w);
-    // local peak: lane over the mean of up to two neighbours each side
-    let mut local = f64::NEG_INFINITY;
-    let inner: Vec<usize> = if n >= 5 {
-        (1..n - 1).collect()
+/// Mean of `f` over lanes `idx` (0 for none).
+fn mean_of(idx: &[usize], f: &dyn Fn(usize) -> f64) -> f64 {
+    if idx.is_empty() {
+        0.0
     } else {
-        (0..n).collect()
-    };
-    for &i in &inner {
-        let nb: Vec<f64> = (i.saturating_sub(2)..(i + 3).min(n))
-            .filter(|&j| j != i)
-            .map(|j| s[j])
+        idx.iter().map(|&i| f(i)).sum::<f64>() / idx.len() as f64
+    }
+}
+
+/// Largest of `v`, or `init` when larger.
+fn max_from(init: f64, v: impl Iterator<Item = f64>) -> f64 {
+    v.fold(init, f64::max)
+}
+
+/// Smallest of `v`, or `init` when smaller.
+fn min_from(init: f64, v: impl Iterator<Item = f64>) -> f64 {
+    v.fold(init, f64::min)
+}
+
+/// Per lane, the mean of up to two neighbours each side (None for a lone lane).
+fn neighbour_mean(v: &[f64], i: usize) -> Option<f64> {
+    let n = v.len();
+    let nb: Vec<f64> = (i.saturating_sub(2)..(i + 3).min(n))
+        .filter(|&j| j != i)
+        .map(|j| v[j])
+        .collect();
+    (!nb.is_empty()).then(|| nb.iter().sum::<f64>() / nb.len() as f64)
+}
+
+/// Lanes whose centre lies in the centre half of the width.
+pub fn centre_lanes(lanes: &Lanes, width_m: f64) -> Vec<usize> {
+    (0..lanes.lanes.len())
+        .filter(|&i| (lanes.lanes[i].position_m - 0.5 * width_m).abs() <= 0.25 * width_m)
+        .collect()
+}
+
+/// Lanes whose centre lies in an edge zone, the outer 15 % of the width at either side; the
+/// outermost lane at each end when no lane centre lies there (a few wide lanes).
+pub fn edge_lanes(lanes: &Lanes, width_m: f64) -> Vec<usize> {
+    let zone: Vec<usize> = (0..lanes.lanes.len())
+        .filter(|&i| {
+            let x = lanes.lanes[i].position_m;
+            x <= 0.15 * width_m || x >= 0.85 * width_m
+        })
+        .collect();
+    if zone.is_empty() {
+        end_lanes(lanes)
+    } else {
+        zone
+    }
+}
+
+/// The outermost lane at each end of the roll (none for a single lane).
+pub fn end_lanes(lanes: &Lanes) -> Vec<usize> {
+    let n = lanes.lanes.len();
+    if n >= 2 {
+        vec![0, n - 1]
+    } else {
+        Vec::new()
+    }
+}
+
+/// The strain at unwind across the width, shared by the length features.
+struct Unwind {
+    /// Strain at unwind per lane, mm/m.
+    s: Vec<f64>,
+    /// Lane centres, m; lane widths, m.
+    x: Vec<f64>,
+    w: Vec<f64>,
+    /// Roll width, m.
+    width: f64,
+    /// Width-weighted mean lane, mm/m.
+    mean_w: f64,
+    /// Longest lane and its strain, mm/m.
+    imax: usize,
+    smax: f64,
+}
+
+impl Unwind {
+    fn new(case: &Case, lanes: &Lanes, aged: &Aged, last: usize) -> Self {
+        let s: Vec<f64> = aged
+            .lanes
+            .iter()
+            .map(|l| l.strain_at_unwind[last] * 1e3)
             .collect();
-        if nb.is_empty() {
-            continue;
-        }
-        let e = s[i] - nb.iter().sum::<f64>() / nb.len() as f64;
-        if e > local {
-            local = e;
+        let w = lanes.widths();
+        let wsum: f64 = w.iter().sum();
+        let mean_w = s.iter().zip(&w).map(|(a, b)| a * b).sum::<f64>() / wsum;
+        let (imax, smax) =
+            s.iter().enumerate().fold(
+                (0, f64::NEG_INFINITY),
+                |a, (i, &v)| if v > a.1 { (i, v) } else { a },
+            );
+        Unwind {
+            s,
+            x: lanes.positions(),
+            w,
+            width: case.roll.width_m,
+            mean_w,
+            imax,
+            smax,
         }
     }
-    put("local_peak_mm_per_m", if n > 1 { local } else { 0.0 });
-    // width of the band around the longest lane
-    let half = mean_w + 0.5 * (smax - mean_w);
-    let (mut lo, mut hi) = (imax, imax);
+
+    fn n(&self) -> usize {
+        self.s.len()
+    }
+}
+
+/// Lengths at unwind across the width: spread, longest lane, local peak, the long band, centre
+/// against edges, side to side, bands.
+struct LengthPattern {
+    spread: f64,
+    longest_excess: f64,
+    local_peak: f64,
+    peak_lanes: Vec<usize>,
+    peak_width_mm: f64,
+    centre_minus_edges: f64,
+    side_to_side: f64,
+    band_count: f64,
+}
+
+fn length_pattern(u: &Unwind, centre: &[usize], edges: &[usize]) -> LengthPattern {
+    let s = &u.s;
+    let smin = min_from(f64::INFINITY, s.iter().copied());
+    let peak_lanes = long_band(u);
+    LengthPattern {
+        spread: u.smax - smin,
+        longest_excess: u.smax - u.mean_w,
+        local_peak: local_peak(s),
+        peak_width_mm: peak_lanes.iter().map(|&i| u.w[i]).sum::<f64>() * 1e3,
+        peak_lanes,
+        centre_minus_edges: mean_of(centre, &|i| s[i]) - mean_of(edges, &|i| s[i]),
+        side_to_side: side_to_side(u),
+        band_count: band_count(u) as f64,
+    }
+}
+
+/// Largest excess of an inner lane over the mean of up to two neighbours each side, mm/m (every
+/// lane counts as inner below five lanes; 0 for a single lane).
+fn local_peak(s: &[f64]) -> f64 {
+    let n = s.len();
+    if n <= 1 {
+        return 0.0;
+    }
+    let inner = if n >= 5 { 1..n - 1 } else { 0..n };
+    max_from(
+        f64::NEG_INFINITY,
+        inner.filter_map(|i| neighbour_mean(s, i).map(|m| s[i] - m)),
+    )
+}
+
+/// Lanes around the longest lane longer than halfway between the mean lane and the longest.
+fn long_band(u: &Unwind) -> Vec<usize> {
+    let (s, n) = (&u.s, u.n());
+    let half = u.mean_w + 0.5 * (u.smax - u.mean_w);
+    let (mut lo, mut hi) = (u.imax, u.imax);
     while lo > 0 && s[lo - 1] > half {
         lo -= 1;
     }
     while hi + 1 < n && s[hi + 1] > half {
         hi += 1;
     }
-    let peak_lanes: Vec<usize> = (lo..=hi).collect();
-    put(
-        "peak_width_mm",
-        peak_lanes.iter().map(|&i| w[i]).sum::<f64>() * 1e3,
-    );
-    let centre: Vec<usize> = (0..n)
-        .filter(|&i| (x[i] - 0.5 * width).abs() <= 0.25 * width)
-        .collect();
-    let edges: Vec<usize> = if n >= 2 { vec![0, n - 1] } else { vec![] };
-    let mean_of = |idx: &[usize], f: &dyn Fn(usize) -> f64| {
-        if idx.is_empty() {
-            0.0
-        } else {
-            idx.iter().map(|&i| f(i)).sum::<f64>() / idx.len() as f64
-        }
-    };
-    let edges_or_ends: Vec<usize> = if edges.is_empty() && n >= 2 {
-        vec![0, n - 1]
-    } else {
-        edges.clone()
-    };
-    put(
-        "centre_minus_edges_mm_per_m",
-        mean_of(&centre, &|i| s[i]) - mean_of(&edges_or_ends, &|i| s[i]),
-    );
-    // straight-line fit across the width
-    let xm = x.iter().sum::<f64>() / n as f64;
-    let sm = s.iter().sum::<f64>() / n as f64;
+    (lo..=hi).collect()
+}
+
+/// Front-to-back difference of a least-squares straight line across the width, absolute, mm/m.
+fn side_to_side(u: &Unwind) -> f64 {
+    let (x, s) = (&u.x, &u.s);
+    let n = u.n() as f64;
+    let xm = x.iter().sum::<f64>() / n;
+    let sm = s.iter().sum::<f64>() / n;
     let sxx: f64 = x.iter().map(|a| (a - xm).powi(2)).sum();
     let slope = if sxx > 0.0 {
         x.iter()
-            .zip(&s)
+            .zip(s)
             .map(|(a, b)| (a - xm) * (b - sm))
             .sum::<f64>()
             / sxx
     } else {
         0.0
     };
-    put("side_to_side_mm_per_m", (slope * width).abs());
-    let bands = (0..n)
+    (slope * u.width).abs()
+}
+
+/// Local maxima standing out from the mean lane by over [`BAND_MM_PER_M`].
+fn band_count(u: &Unwind) -> usize {
+    let (s, n) = (&u.s, u.n());
+    (0..n)
         .filter(|&i| {
             let l = if i > 0 { s[i - 1] } else { f64::NEG_INFINITY };
             let r = if i + 1 < n {
@@ -201,95 +269,113 @@ pub fn compute(case: &Case, lanes: &Lanes, wound: &Wound, aged: &Aged) -> Featur
             } else {
                 f64::NEG_INFINITY
             };
-            s[i] > l && s[i] > r && s[i] - mean_w > 0.3
+            s[i] > l && s[i] > r && s[i] - u.mean_w > BAND_MM_PER_M
         })
-        .count();
-    put("band_count", bands as f64);
+        .count()
+}
+
+/// Correlation of lane caliper with length at unwind, and the caliper range, % of mean.
+fn caliper_link(lanes: &Lanes, u: &Unwind) -> (f64, f64) {
     let cal: Vec<f64> = lanes.lanes.iter().map(|l| l.caliper_deviation).collect();
-    put("caliper_correlation", correlation(&cal, &s));
-    let cmax = cal.iter().cloned().fold(f64::NEG_INFINITY, f64::max);
-    let cmin = cal.iter().cloned().fold(f64::INFINITY, f64::min);
-    put("caliper_range_pct", (cmax - cmin) * 100.0);
-    // shares of the lane-to-lane differences: hygro vs creep, in the same outer-third average
+    let cmax = max_from(f64::NEG_INFINITY, cal.iter().copied());
+    let cmin = min_from(f64::INFINITY, cal.iter().copied());
+    (correlation(&cal, &u.s), (cmax - cmin) * 100.0)
+}
+
+/// Shares of the lane-to-lane differences from hygroexpansion and from creep, in the same
+/// outer-third average (absolute deviations from the lane mean).
+fn shares(aged: &Aged, last: usize) -> (f64, f64) {
+    let n = aged.lanes.len() as f64;
     let hyg: Vec<f64> = aged.lanes.iter().map(|l| l.hygro_strain[last]).collect();
     let tot: Vec<f64> = aged
         .lanes
         .iter()
         .map(|l| l.strain_at_unwind[last])
         .collect();
-    let hm = hyg.iter().sum::<f64>() / n as f64;
-    let tm = tot.iter().sum::<f64>() / n as f64;
+    let hm = hyg.iter().sum::<f64>() / n;
+    let tm = tot.iter().sum::<f64>() / n;
     let dh: f64 = hyg.iter().map(|h| (h - hm).abs()).sum();
     let dc: f64 = tot
         .iter()
         .zip(&hyg)
         .map(|(t, h)| ((t - h) - (tm - hm)).abs())
         .sum();
-    let ms = if dh + dc > 0.0 { dh / (dh + dc) } else { 0.0 };
-    put("moisture_share", ms);
-    put("creep_share", if dh + dc > 0.0 { 1.0 - ms } else { 0.0 });
+    if dh + dc > 0.0 {
+        let ms = dh / (dh + dc);
+        (ms, 1.0 - ms)
+    } else {
+        (0.0, 0.0)
+    }
+}
+
+/// Stress states tied to other defects, in MPa and kPa as the features name them.
+struct StressStates {
+    core_md_mpa: f64,
+    surface_pressure_end_kpa: f64,
+    surface_pressure_loss_pct: f64,
+    outer_md_end_mpa: f64,
+}
+
+fn stress_states(wound: &Wound, aged: &Aged, last: usize) -> StressStates {
     let rc = wound.radius_m[0];
     let rr = wound.radius_m[wound.radius_m.len() - 1];
     let inner = rc + (rr - rc) / 3.0;
-    let core_md = wound
-        .lanes
-        .iter()
-        .flat_map(|l| {
+    let core_md = min_from(
+        f64::INFINITY,
+        wound.lanes.iter().flat_map(|l| {
             l.tangential_stress_pa
                 .iter()
                 .zip(&wound.radius_m)
                 .filter(|(_, r)| **r <= inner)
                 .map(|(t, _)| *t)
-        })
-        .fold(f64::INFINITY, f64::min);
-    put("core_md_stress_mpa", core_md / 1e6);
-    put(
-        "surface_pressure_end_kpa",
-        aged.lanes
-            .iter()
-            .map(|l| l.surface_pressure_pa[last])
-            .fold(f64::INFINITY, f64::min)
-            / 1e3,
+        }),
     );
-    put(
-        "surface_pressure_loss_pct",
-        aged.lanes
+    let n = aged.lanes.len() as f64;
+    StressStates {
+        core_md_mpa: core_md / 1e6,
+        surface_pressure_end_kpa: min_from(
+            f64::INFINITY,
+            aged.lanes.iter().map(|l| l.surface_pressure_pa[last]),
+        ) / 1e3,
+        surface_pressure_loss_pct: aged
+            .lanes
             .iter()
             .map(|l| {
                 let p0 = l.surface_pressure_pa[0].max(1.0);
                 100.0 * (p0 - l.surface_pressure_pa[last]) / p0
             })
             .sum::<f64>()
-            / n as f64,
-    );
-    put(
-        "outer_md_stress_end_mpa",
-        aged.lanes
-            .iter()
-            .map(|l| *l.final_tangential_stress_pa.last().unwrap_or(&0.0))
-            .fold(f64::NEG_INFINITY, f64::max)
-            / 1e6,
-    );
+            / n,
+        outer_md_end_mpa: max_from(
+            f64::NEG_INFINITY,
+            aged.lanes
+                .iter()
+                .map(|l| *l.final_tangential_stress_pa.last().unwrap_or(&0.0)),
+        ) / 1e6,
+    }
+}
+
+/// Moisture change over storage: edge lanes minus centre lanes, and the largest of any lane,
+/// points.
+fn moisture_change(aged: &Aged, last: usize, centre: &[usize], edges: &[usize]) -> (f64, f64) {
     let dmc = |i: usize| aged.lanes[i].moisture_pct[last] - aged.lanes[i].moisture_pct[0];
-    put(
-        "edge_moisture_change_pct",
-        mean_of(&edges_or_ends, &dmc) - mean_of(&centre, &dmc),
-    );
-    put(
-        "moisture_change_pct",
-        (0..n).map(|i| dmc(i).abs()).fold(0.0, f64::max),
-    );
+    (
+        mean_of(edges, &dmc) - mean_of(centre, &dmc),
+        max_from(0.0, (0..aged.lanes.len()).map(|i| dmc(i).abs())),
+    )
+}
+
+/// Winding states: highest over lowest lane wound-in tension, the largest diameter ridge (per
+/// mille of the median diameter), and friction x nip over web tension at mid diameter.
+fn winding_states(case: &Case, wound: &Wound) -> (f64, f64, f64) {
     let wit: Vec<f64> = wound
         .lanes
         .iter()
         .map(|l| l.summary.wound_in_tension_mean_n_per_m)
         .collect();
-    let wmax = wit.iter().cloned().fold(f64::NEG_INFINITY, f64::max);
-    let wmin = wit.iter().cloned().fold(f64::INFINITY, f64::min);
-    put(
-        "wound_tension_ratio",
-        if wmin > 0.0 { wmax / wmin } else { 1e3 },
-    );
+    let wmax = max_from(f64::NEG_INFINITY, wit.iter().copied());
+    let wmin = min_from(f64::INFINITY, wit.iter().copied());
+    let tension_ratio = if wmin > 0.0 { wmax / wmin } else { 1e3 };
     let radii: Vec<f64> = wound
         .lanes
         .iter()
@@ -297,46 +383,82 @@ pub fn compute(case: &Case, lanes: &Lanes, wound: &Wound, aged: &Aged) -> Featur
         .collect();
     let rmed = median(&radii);
     // a ridge is local: a lane's diameter over the mean of its neighbours (two each side)
-    let ridge = (0..n)
-        .map(|i| {
-            let nb: Vec<f64> = (i.saturating_sub(2)..(i + 3).min(n))
-                .filter(|&j| j != i)
-                .map(|j| radii[j])
-                .collect();
-            if nb.is_empty() {
-                0.0
-            } else {
-                (radii[i] - nb.iter().sum::<f64>() / nb.len() as f64) / rmed * 1e3
-            }
-        })
-        .fold(0.0, f64::max);
-    put("diameter_ridge_per_mille", ridge);
+    let ridge = max_from(
+        0.0,
+        (0..radii.len())
+            .map(|i| neighbour_mean(&radii, i).map_or(0.0, |m| (radii[i] - m) / rmed * 1e3)),
+    );
     let t_mid = case
         .winding
         .tension
         .at(0.5 * (case.roll.core_diameter_m + case.roll.diameter_m));
-    put(
-        "nip_to_tension_ratio",
-        case.material.friction * case.winding.nip_n_per_m / t_mid.max(1e-9),
-    );
-    let slack: Vec<usize> = (0..n).filter(|&i| excess[i] > SLACK_MM_PER_M).collect();
-    put("slack_lanes", slack.len() as f64);
-    let running = case.converting_tension_n_per_m
-        / (case.material.md_modulus_pa * lanes.mean_caliper_m)
-        * 1e3;
-    put("running_strain_mm_per_m", running);
-    let ratio =
-        |k: &str, v: &BTreeMap<String, f64>| v.get(k).copied().unwrap_or(0.0) / running.max(1e-12);
-    let lp = ratio("local_peak_mm_per_m", &v);
-    let ce = ratio("centre_minus_edges_mm_per_m", &v);
-    let ll = ratio("longest_lane_excess_mm_per_m", &v);
-    v.insert("local_peak_ratio".into(), lp);
-    v.insert("centre_minus_edges_ratio".into(), ce);
-    v.insert("longest_lane_ratio".into(), ll);
+    let nip_ratio = case.material.friction * case.winding.nip_n_per_m / t_mid.max(1e-9);
+    (tension_ratio, ridge, nip_ratio)
+}
+
+/// The web's running strain T/(E c) at the converting tension, mm/m.
+fn running_strain(case: &Case, lanes: &Lanes) -> f64 {
+    case.converting_tension_n_per_m / (case.material.md_modulus_pa * lanes.mean_caliper_m) * 1e3
+}
+
+/// A feature value as rules see it: a value that is not finite counts as 0.
+fn finite(v: f64) -> f64 {
+    if v.is_finite() {
+        v
+    } else {
+        0.0
+    }
+}
+
+/// Compute the features of a predicted roll.
+pub fn compute(case: &Case, lanes: &Lanes, wound: &Wound, aged: &Aged) -> Features {
+    let last = aged.times_days.len() - 1;
+    let u = Unwind::new(case, lanes, aged, last);
+    let centre = centre_lanes(lanes, u.width);
+    let ends = end_lanes(lanes);
+    let len = length_pattern(&u, &centre, &ends);
+    let (caliper_correlation, caliper_range_pct) = caliper_link(lanes, &u);
+    let (moisture_share, creep_share) = shares(aged, last);
+    let st = stress_states(wound, aged, last);
+    let (edge_moisture, moisture_change) = moisture_change(aged, last, &centre, &ends);
+    let (tension_ratio, ridge, nip_ratio) = winding_states(case, wound);
+    let excess: Vec<f64> = u.s.iter().map(|v| v - u.mean_w).collect();
+    let slack: Vec<usize> = (0..u.n()).filter(|&i| excess[i] > SLACK_MM_PER_M).collect();
+    let running = running_strain(case, lanes);
+    // the ratios divide the finite values by the running strain
+    let ratio = |v: f64| finite(v) / running.max(1e-12);
+    use Feature as F;
+    let values = FeatureValues::from_fn(|f| match f {
+        F::LocalPeakRatio => ratio(len.local_peak),
+        F::CentreMinusEdgesRatio => ratio(len.centre_minus_edges),
+        F::LongestLaneRatio => ratio(len.longest_excess),
+        F::RunningStrainMmPerM => finite(running),
+        F::SpreadMmPerM => finite(len.spread),
+        F::LongestLaneExcessMmPerM => finite(len.longest_excess),
+        F::LocalPeakMmPerM => finite(len.local_peak),
+        F::PeakWidthMm => finite(len.peak_width_mm),
+        F::CentreMinusEdgesMmPerM => finite(len.centre_minus_edges),
+        F::SideToSideMmPerM => finite(len.side_to_side),
+        F::BandCount => finite(len.band_count),
+        F::CaliperCorrelation => finite(caliper_correlation),
+        F::CaliperRangePct => finite(caliper_range_pct),
+        F::MoistureShare => finite(moisture_share),
+        F::CreepShare => finite(creep_share),
+        F::CoreMdStressMpa => finite(st.core_md_mpa),
+        F::SurfacePressureEndKpa => finite(st.surface_pressure_end_kpa),
+        F::SurfacePressureLossPct => finite(st.surface_pressure_loss_pct),
+        F::OuterMdStressEndMpa => finite(st.outer_md_end_mpa),
+        F::EdgeMoistureChangePct => finite(edge_moisture),
+        F::MoistureChangePct => finite(moisture_change),
+        F::WoundTensionRatio => finite(tension_ratio),
+        F::DiameterRidgePerMille => finite(ridge),
+        F::NipToTensionRatio => finite(nip_ratio),
+        F::SlackLanes => finite(slack.len() as f64),
+    });
     Features {
-        values: v,
-        longest_lane: imax,
-        peak_lanes,
+        values,
+        longest_lane: u.imax,
+        peak_lanes: len.peak_lanes,
         slack,
         excess_mm_per_m: excess,
     }

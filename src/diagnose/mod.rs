@@ -12,8 +12,9 @@ use crate::fit::{fit_roll, FitError};
 use crate::lanes::{self, Lanes};
 use crate::rules::{self, Table};
 use crate::storage::{AgeOptions, LaneCreep};
+use crate::vocab::{Action, Cause, Defect, Feature, Likelihood};
 use crate::winding::{wind, Options, WindError};
-use actions::{apply, spread_mm_per_m, RunError, Scenario};
+use actions::{apply, spread_mm_per_m, Change, RunError, Scenario, ABLATIONS};
 use features::Features;
 use serde::Serialize;
 
@@ -49,7 +50,7 @@ pub enum DiagnoseError {
 /// A feature value that fired a rule, with the condition and its source.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct Evidence {
-    pub feature: String,
+    pub feature: Feature,
     pub value: f64,
     pub above: Option<f64>,
     pub below: Option<f64>,
@@ -69,7 +70,7 @@ pub struct LaneRef {
 /// A correction with the model re-run.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct CheckedCorrection {
-    pub action: String,
+    pub action: Action,
     pub factor: Option<f64>,
     pub text: String,
     pub why: String,
@@ -81,9 +82,9 @@ pub struct CheckedCorrection {
 /// A finding.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct Finding {
-    pub defect: String,
+    pub defect: Defect,
     pub rule: String,
-    pub likelihood: String,
+    pub likelihood: Likelihood,
     pub weight: f64,
     pub mechanism: String,
     pub evidence: Vec<Evidence>,
@@ -96,9 +97,7 @@ pub struct Finding {
 /// A cause's share of the predicted nonuniformity.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct CauseShare {
-    pub cause: String,
-    /// What was removed to measure it.
-    pub removed: String,
+    pub cause: Cause,
     /// Spread with this cause removed, mm/m.
     pub spread_without_mm_per_m: f64,
     pub share: f64,
@@ -107,7 +106,7 @@ pub struct CauseShare {
 /// Does the prediction agree with what the complainant saw?
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct Agreement {
-    pub complaint: String,
+    pub complaint: Defect,
     pub agrees: bool,
     /// Rank of the matching finding (1 = top), if any.
     pub rank: Option<usize>,
@@ -167,26 +166,22 @@ pub fn base_scenario(
     }
 }
 
-/// Lanes a finding concerns.
-fn lanes_for(defect: &str, case: &Case, lanes: &Lanes, f: &Features) -> Vec<usize> {
+/// Lanes a finding concerns (none: the whole roll).
+fn lanes_for(defect: Defect, case: &Case, lanes: &Lanes, f: &Features) -> Vec<usize> {
     let w = case.roll.width_m;
-    let pick: Vec<usize> = match defect {
-        "baggy_edges" => (0..lanes.lanes.len())
-            .filter(|&i| {
-                let x = lanes.lanes[i].position_m;
-                x <= 0.15 * w || x >= 0.85 * w
-            })
-            .collect(),
-        "baggy_center" => (0..lanes.lanes.len())
-            .filter(|&i| (lanes.lanes[i].position_m - 0.5 * w).abs() <= 0.25 * w)
-            .collect(),
-        "starring" | "crepe_wrinkles" | "telescoping" | "bursts" => Vec::new(),
-        _ => f.peak_lanes.clone(),
-    };
-    if pick.is_empty() && matches!(defect, "baggy_edges") && lanes.lanes.len() >= 2 {
-        return vec![0, lanes.lanes.len() - 1];
+    match defect {
+        Defect::BaggyEdges => features::edge_lanes(lanes, w),
+        Defect::BaggyCenter => features::centre_lanes(lanes, w),
+        Defect::Starring | Defect::CrepeWrinkles | Defect::Telescoping | Defect::Bursts => {
+            Vec::new()
+        }
+        Defect::BaggyLane
+        | Defect::Puckers
+        | Defect::Ridges
+        | Defect::Corrugations
+        | Defect::GaugeBands
+        | Defect::NoDefect => f.peak_lanes.clone(),
     }
-    pick
 }
 
 /// A case wound and fitted: what diagnosis and what-if start from.
@@ -220,7 +215,7 @@ pub fn fitted(case: &Case, opt: &DiagnoseOptions) -> Result<Fitted, DiagnoseErro
 }
 
 /// A correction run's identity: action, factor bits, slit lanes.
-type CorrectionKey = (String, Option<u64>, Vec<usize>);
+type CorrectionKey = (Action, Option<u64>, Vec<usize>);
 
 /// Diagnose a case with a rule table.
 pub fn diagnose(
@@ -235,74 +230,44 @@ pub fn diagnose(
         creep,
     } = fitted(case, opt)?;
     let feats = features::compute(case, &lanes, &wound, &fit.aged);
-    let fired = rules::evaluate(table, &|n| feats.get(n));
+    let fired = rules::evaluate(table, &feats.values);
     let base = base_scenario(case, &lanes, creep, Options::default().levelling);
     let mut notes = fit.notes.clone();
     let (base_spread, causes) = if opt.what_if {
         // the base scenario winds exactly as the fitted roll did: reuse that wound state
         let b = base.age_on(wound.clone())?;
         let s0 = spread_mm_per_m(&b.aged, &[]);
-        let ablations = [
-            (
-                "caliper profile",
-                "flatten_caliper",
-                "caliper made uniform across the width",
-            ),
-            (
-                "storage moisture",
-                "store_at_equilibrium",
-                "storage at humidity in equilibrium with the paper",
-            ),
-            (
-                "wound-in tension profile",
-                "uniform_lane_tension",
-                "lane tensions made equal (fully levelled)",
-            ),
-            ("nip", "scale_nip", "nip removed"),
-            (
-                "lane-to-lane creep",
-                "uniform_creep",
-                "every lane given the roll's mean creep",
-            ),
-        ];
         let mut raw = Vec::new();
-        for (cause, action, removed) in ablations {
-            let factor = (action == "scale_nip").then_some(0.0);
-            let s = apply(&base, action, factor, &[]).run(opt.nodes)?;
+        for (cause, change, factor) in ABLATIONS {
+            let s = apply(&base, change, factor, &[]).run(opt.nodes)?;
             let without = spread_mm_per_m(&s.aged, &[]);
-            raw.push((cause, removed, without, (s0 - without).max(0.0)));
+            raw.push((cause, without, (s0 - without).max(0.0)));
         }
-        let total: f64 = raw.iter().map(|r| r.3).sum();
+        let total: f64 = raw.iter().map(|r| r.2).sum();
         let mut causes: Vec<CauseShare> = raw
             .iter()
-            .map(|(c, r, w, red)| CauseShare {
-                cause: c.to_string(),
-                removed: r.to_string(),
-                spread_without_mm_per_m: *w,
+            .map(|&(cause, w, red)| CauseShare {
+                cause,
+                spread_without_mm_per_m: w,
                 share: if total > 0.0 { red / total } else { 0.0 },
             })
             .collect();
         if total <= 0.0 {
             causes.push(CauseShare {
-                cause: "not attributable".into(),
-                removed: "no single cause removal reduced the spread".into(),
+                cause: Cause::NotAttributable,
                 spread_without_mm_per_m: s0,
                 share: 1.0,
             });
-        } else {
-            notes.push(
-                "cause shares: each cause's reduction of the spread when removed alone, normalised to add to 1 (causes interact, so removals need not add up)".into(),
-            );
         }
         (s0, causes)
     } else {
-        (feats.get("spread_mm_per_m").unwrap_or(0.0), Vec::new())
+        (feats.get(Feature::SpreadMmPerM), Vec::new())
     };
     let mut cache: Vec<(CorrectionKey, f64)> = Vec::new();
     let mut findings = Vec::new();
     for fr in &fired {
         let r = fr.rule;
-        let idx = lanes_for(&r.defect, case, &lanes, &feats);
+        let idx = lanes_for(r.defect, case, &lanes, &feats);
         let lane_refs: Vec<LaneRef> = idx
             .iter()
             .map(|&i| LaneRef {
@@ -314,16 +279,16 @@ pub fn diagnose(
         let mut corrections = Vec::new();
         for c in &r.corrections {
             let after = if opt.what_if {
-                let slit = if c.action == "slit_out" {
+                let slit = if c.action == Action::SlitOut {
                     idx.clone()
                 } else {
                     Vec::new()
                 };
-                let key = (c.action.clone(), c.factor.map(f64::to_bits), slit);
+                let key = (c.action, c.factor.map(f64::to_bits), slit);
                 match cache.iter().find(|(k, _)| *k == key) {
                     Some((_, v)) => *v,
                     None => {
-                        let s = apply(&base, &c.action, c.factor, &idx);
+                        let s = apply(&base, Change::Correct(c.action), c.factor, &idx);
                         let out = s.run(opt.nodes)?;
                         let v = spread_mm_per_m(&out.aged, &s.excluded);
                         cache.push((key, v));
@@ -334,7 +299,7 @@ pub fn diagnose(
                 f64::NAN
             };
             corrections.push(CheckedCorrection {
-                action: c.action.clone(),
+                action: c.action,
                 factor: c.factor,
                 text: c.text.clone(),
                 why: c.why.clone(),
@@ -342,39 +307,40 @@ pub fn diagnose(
                 spread_after_mm_per_m: after,
             });
         }
-        let first = r.when.first().map(|c| c.feature.as_str()).unwrap_or("");
+        let first = r.when.first().map(|c| c.feature);
         findings.push(Finding {
-            defect: r.defect.clone(),
+            defect: r.defect,
             rule: r.id.clone(),
-            likelihood: r.likelihood.clone(),
+            likelihood: r.likelihood,
             weight: r.weight,
             mechanism: r.mechanism.clone(),
             evidence: r
                 .when
                 .iter()
                 .zip(&fr.evidence)
-                .map(|(c, (name, v))| Evidence {
-                    feature: name.clone(),
-                    value: *v,
+                .map(|(c, &(feature, v))| Evidence {
+                    feature,
+                    value: v,
                     above: c.above,
                     below: c.below,
                     source: c.source.clone(),
                 })
                 .collect(),
             lanes: lane_refs,
-            length_difference_mm_per_m: if first.ends_with("mm_per_m") {
-                feats.get(first).unwrap_or(0.0).abs()
-            } else {
-                feats.get("spread_mm_per_m").unwrap_or(0.0)
+            length_difference_mm_per_m: match first {
+                Some(f) if f.spec().is_length => feats.get(f).abs(),
+                _ => feats.get(Feature::SpreadMmPerM),
             },
             corrections,
         });
     }
-    let agreement = case.complaint.as_ref().map(|c| {
-        let rank = findings.iter().position(|f| &f.defect == c).map(|p| p + 1);
+    // `case` accepts only vocabulary words as the complaint
+    let complaint = case.complaint.as_deref().and_then(Defect::from_word);
+    let agreement = complaint.map(|c| {
+        let rank = findings.iter().position(|f| f.defect == c).map(|p| p + 1);
         Agreement {
-            complaint: c.clone(),
-            agrees: if c == "none" {
+            complaint: c,
+            agrees: if c == Defect::NoDefect {
                 findings.is_empty()
             } else {
                 rank.is_some()
@@ -423,7 +389,7 @@ pub fn diagnose(
         case: case.id.clone(),
         title: case.title.clone(),
         rules: table.source.clone(),
-        spread_mm_per_m: feats.get("spread_mm_per_m").unwrap_or(0.0),
+        spread_mm_per_m: feats.get(Feature::SpreadMmPerM),
         advises_action: !findings.is_empty(),
         features: feats,
         findings,
@@ -448,8 +414,8 @@ pub struct WhatIf {
     pub excess_before_mm_per_m: Vec<f64>,
     pub excess_after_mm_per_m: Vec<f64>,
     /// Defects the rules predict before and after.
-    pub defects_before: Vec<String>,
-    pub defects_after: Vec<String>,
+    pub defects_before: Vec<Defect>,
+    pub defects_after: Vec<Defect>,
 }
 
 /// Compare a case with a variant of it (same lanes count expected; the variant's lanes are
@@ -480,9 +446,9 @@ pub fn what_if(
     let fb = features::compute(base, &lb, &ob.wound, &ob.aged);
     let fa = features::compute(variant, &la, &oa.wound, &oa.aged);
     let defects = |f: &Features| {
-        let mut d: Vec<String> = rules::evaluate(table, &|n| f.get(n))
+        let mut d: Vec<Defect> = rules::evaluate(table, &f.values)
             .iter()
-            .map(|x| x.rule.defect.clone())
+            .map(|x| x.rule.defect)
             .collect();
         d.dedup();
         d

@@ -197,7 +197,7 @@ fn header(c: &Case) -> String {
         let _ = writeln!(out, "{}", c.title);
     }
     if let Some(cp) = &c.complaint {
-        let _ = writeln!(out, "Complaint: {}", crate::defects::plain(cp));
+        let _ = writeln!(out, "Complaint: {}", super::words::complaint(cp));
     }
     out
 }

@@ -1,11 +1,11 @@
 //! `diagnose` and `whatif` output: findings with evidence, causes, corrections checked, and the
 //! Markdown report with an SVG plot.
 
+use super::words;
 use super::{pos, table, SAFETY};
-use crate::defects::plain;
-use crate::diagnose::features::FEATURES;
-use crate::diagnose::Diagnosis;
+use crate::diagnose::{CauseShare, Diagnosis, Finding};
 use crate::units::System;
+use crate::vocab::Feature;
 use serde_json::{json, Value};
 use std::fmt::Write;
 
@@ -50,60 +50,20 @@ pub fn text(d: &Diagnosis, sys: System) -> String {
         let _ = writeln!(out, "\nNo finding: no rule fired. The roll is predicted to unwind within the rules' thresholds.");
     }
     for (k, f) in d.findings.iter().enumerate() {
-        let _ = writeln!(
-            out,
-            "\n{}. {} ({} likelihood; rule {})",
-            k + 1,
-            plain(&f.defect),
-            f.likelihood,
-            f.rule
-        );
-        let _ = writeln!(out, "   Why: {}", f.mechanism);
-        let _ = writeln!(out, "   Where: {}", lanes_text(&f.lanes, sys));
-        let mut t = table(&["evidence", "value", "fires when", "source"]);
-        for e in &f.evidence {
-            t.add_row(vec![
-                e.feature.clone(),
-                format!("{:.3}", e.value),
-                cond(e.above, e.below),
-                e.source.clone(),
-            ]);
-        }
-        let _ = writeln!(out, "{t}");
-        if !f.corrections.is_empty() {
-            let mut c = table(&["correction", "spread before mm/m", "after mm/m", "why"]);
-            for x in &f.corrections {
-                c.add_row(vec![
-                    x.text.clone(),
-                    format!("{:.2}", x.spread_before_mm_per_m),
-                    if x.spread_after_mm_per_m.is_finite() {
-                        format!("{:.2}", x.spread_after_mm_per_m)
-                    } else {
-                        "not run".into()
-                    },
-                    x.why.clone(),
-                ]);
-            }
-            let _ = writeln!(out, "{c}");
-        }
+        out.push_str(&finding_text(k + 1, f, sys));
     }
     if !d.causes.is_empty() {
-        let mut c = table(&["cause", "removed as", "spread without it mm/m", "share"]);
-        for x in &d.causes {
-            c.add_row(vec![
-                x.cause.clone(),
-                x.removed.clone(),
-                format!("{:.2}", x.spread_without_mm_per_m),
-                format!("{:.0} %", x.share * 100.0),
-            ]);
-        }
-        let _ = writeln!(out, "\nRoot cause (each cause removed in turn):\n{c}");
+        let _ = writeln!(
+            out,
+            "\nRoot cause (each cause removed in turn):\n{}",
+            causes_table(&d.causes)
+        );
     }
     if let Some(a) = &d.agreement {
         let _ = writeln!(
             out,
             "Complaint: {}. {}",
-            plain(&a.complaint),
+            words::defect(a.complaint),
             match (a.agrees, a.rank) {
                 (true, Some(r)) => format!("The prediction agrees (finding {r})."),
                 (true, None) => "The prediction agrees (no defect predicted).".into(),
@@ -111,13 +71,78 @@ pub fn text(d: &Diagnosis, sys: System) -> String {
             }
         );
     }
-    for n in &d.notes {
+    for n in words::notes(d) {
         let _ = writeln!(out, "note: {n}");
     }
     if d.advises_action {
         let _ = writeln!(out, "\n{SAFETY}");
     }
     out
+}
+
+/// One finding: defect, mechanism, lanes, evidence and corrections checked.
+fn finding_text(rank: usize, f: &Finding, sys: System) -> String {
+    let mut out = String::new();
+    let _ = writeln!(
+        out,
+        "\n{rank}. {} ({} likelihood; rule {})",
+        words::defect(f.defect),
+        f.likelihood,
+        f.rule
+    );
+    let _ = writeln!(out, "   Why: {}", f.mechanism);
+    let _ = writeln!(out, "   Where: {}", lanes_text(&f.lanes, sys));
+    let mut t = table(&["evidence", "value", "fires when", "source"]);
+    for e in &f.evidence {
+        t.add_row(vec![
+            e.feature.word().to_string(),
+            format!("{:.3}", e.value),
+            cond(e.above, e.below),
+            e.source.clone(),
+        ]);
+    }
+    let _ = writeln!(out, "{t}");
+    if !f.corrections.is_empty() {
+        let mut c = table(&["correction", "spread before mm/m", "after mm/m", "why"]);
+        for x in &f.corrections {
+            c.add_row(vec![
+                x.text.clone(),
+                format!("{:.2}", x.spread_before_mm_per_m),
+                if x.spread_after_mm_per_m.is_finite() {
+                    format!("{:.2}", x.spread_after_mm_per_m)
+                } else {
+                    "not run".into()
+                },
+                x.why.clone(),
+            ]);
+        }
+        let _ = writeln!(out, "{c}");
+    }
+    out
+}
+
+/// Root-cause shares as a table.
+fn causes_table(causes: &[CauseShare]) -> comfy_table::Table {
+    let mut c = table(&["cause", "removed as", "spread without it mm/m", "share"]);
+    for x in causes {
+        c.add_row(vec![
+            words::cause(x.cause).to_string(),
+            words::removed(x.cause).to_string(),
+            format!("{:.2}", x.spread_without_mm_per_m),
+            format!("{:.0} %", x.share * 100.0),
+        ]);
+    }
+    c
+}
+
+/// A cause share in JSON: the cause and how it was removed, in words.
+fn cause_json(c: &CauseShare) -> Value {
+    json!({
+        "cause": words::cause(c.cause),
+        "removed": words::removed(c.cause),
+        "spread_without_mm_per_m": c.spread_without_mm_per_m,
+        "share": c.share,
+    })
 }
 
 /// JSON diagnosis.
@@ -127,11 +152,11 @@ pub fn json(d: &Diagnosis) -> Value {
         "rules": d.rules,
         "spread_mm_per_m": d.spread_mm_per_m,
         "findings": d.findings,
-        "causes": d.causes,
+        "causes": d.causes.iter().map(cause_json).collect::<Vec<_>>(),
         "agreement": d.agreement,
         "features": d.features.values,
         "lanes": d.lanes,
-        "notes": d.notes,
+        "notes": words::notes(d),
         "safety": if d.advises_action { Some(SAFETY) } else { None },
     })
 }
@@ -149,7 +174,7 @@ pub fn svg(d: &Diagnosis, width_m: f64) -> String {
         "<svg xmlns=\"http://www.w3.org/2000/svg\" width=\"{w}\" height=\"{h}\" font-family=\"Helvetica, Arial, sans-serif\" font-size=\"12\">\n<rect width=\"{w}\" height=\"{h}\" fill=\"white\"/>\n"
     );
     let _ = writeln!(s, "<text x=\"{m}\" y=\"20\">Predicted length at unwind over the width-weighted mean lane, mm per m (case {})</text>", d.case);
-    let run = d.features.get("running_strain_mm_per_m").unwrap_or(0.5);
+    let run = d.features.get(Feature::RunningStrainMmPerM);
     for (lim, label) in [
         (0.5 * run, "half the running strain: looks baggy"),
         (run, "running strain: runs slack"),
@@ -256,43 +281,7 @@ pub fn markdown(d: &Diagnosis, plot_file: &str, sys: System) -> String {
         let _ = writeln!(s, "No rule fired.\n");
     }
     for (k, f) in d.findings.iter().enumerate() {
-        let _ = writeln!(
-            s,
-            "### {}. {} ({} likelihood)\n\n{}\n\nWhere: {}\n",
-            k + 1,
-            plain(&f.defect),
-            f.likelihood,
-            f.mechanism,
-            lanes_text(&f.lanes, sys)
-        );
-        let _ = writeln!(
-            s,
-            "| evidence | value | fires when | source |\n|---|---|---|---|"
-        );
-        for e in &f.evidence {
-            let _ = writeln!(
-                s,
-                "| {} | {:.3} | {} | {} |",
-                e.feature,
-                e.value,
-                cond(e.above, e.below),
-                e.source
-            );
-        }
-        if !f.corrections.is_empty() {
-            let _ = writeln!(
-                s,
-                "\n| correction | spread before (mm/m) | after (mm/m) | why |\n|---|---|---|---|"
-            );
-            for c in &f.corrections {
-                let _ = writeln!(
-                    s,
-                    "| {} | {:.2} | {:.2} | {} |",
-                    c.text, c.spread_before_mm_per_m, c.spread_after_mm_per_m, c.why
-                );
-            }
-        }
-        s.push('\n');
+        s.push_str(&finding_markdown(k + 1, f, sys));
     }
     if !d.causes.is_empty() {
         let _ = writeln!(s, "## Root cause\n\n| cause | removed as | spread without (mm/m) | share |\n|---|---|---|---|");
@@ -300,14 +289,80 @@ pub fn markdown(d: &Diagnosis, plot_file: &str, sys: System) -> String {
             let _ = writeln!(
                 s,
                 "| {} | {} | {:.2} | {:.0} % |",
-                c.cause,
-                c.removed,
+                words::cause(c.cause),
+                words::removed(c.cause),
                 c.spread_without_mm_per_m,
                 c.share * 100.0
             );
         }
         s.push('\n');
     }
+    s.push_str(&lanes_markdown(d, sys));
+    s.push_str(&features_markdown(d));
+    if let Some(a) = &d.agreement {
+        let _ = writeln!(
+            s,
+            "\nComplaint: {}; prediction {}.",
+            words::defect(a.complaint),
+            if a.agrees { "agrees" } else { "does not agree" }
+        );
+    }
+    let notes = words::notes(d);
+    if !notes.is_empty() {
+        let _ = writeln!(s, "\n## Notes\n");
+        for n in &notes {
+            let _ = writeln!(s, "- {n}");
+        }
+    }
+    let _ = writeln!(s, "\n---\n{SAFETY}");
+    s
+}
+
+/// One finding in Markdown: heading, mechanism, lanes, evidence and corrections.
+fn finding_markdown(rank: usize, f: &Finding, sys: System) -> String {
+    let mut s = String::new();
+    let _ = writeln!(
+        s,
+        "### {rank}. {} ({} likelihood)\n\n{}\n\nWhere: {}\n",
+        words::defect(f.defect),
+        f.likelihood,
+        f.mechanism,
+        lanes_text(&f.lanes, sys)
+    );
+    let _ = writeln!(
+        s,
+        "| evidence | value | fires when | source |\n|---|---|---|---|"
+    );
+    for e in &f.evidence {
+        let _ = writeln!(
+            s,
+            "| {} | {:.3} | {} | {} |",
+            e.feature,
+            e.value,
+            cond(e.above, e.below),
+            e.source
+        );
+    }
+    if !f.corrections.is_empty() {
+        let _ = writeln!(
+            s,
+            "\n| correction | spread before (mm/m) | after (mm/m) | why |\n|---|---|---|---|"
+        );
+        for c in &f.corrections {
+            let _ = writeln!(
+                s,
+                "| {} | {:.2} | {:.2} | {} |",
+                c.text, c.spread_before_mm_per_m, c.spread_after_mm_per_m, c.why
+            );
+        }
+    }
+    s.push('\n');
+    s
+}
+
+/// The lanes table in Markdown.
+fn lanes_markdown(d: &Diagnosis, sys: System) -> String {
+    let mut s = String::new();
     let _ = writeln!(s, "## Lanes\n\n| lane | centre | caliper dev | length at unwind vs mean lane (mm/m) | MD creep scale | radial creep scale | fit rmse |\n|---|---|---|---|---|---|---|");
     for (i, l) in d.lanes.iter().enumerate() {
         let _ = writeln!(
@@ -321,32 +376,18 @@ pub fn markdown(d: &Diagnosis, plot_file: &str, sys: System) -> String {
             l.fit_rmse
         );
     }
+    s
+}
+
+/// Every feature with its value and meaning, in the words' alphabetical order.
+fn features_markdown(d: &Diagnosis) -> String {
+    let mut s = String::new();
     let _ = writeln!(
         s,
         "\n## Features\n\n| feature | value | meaning |\n|---|---|---|"
     );
-    for (k, v) in &d.features.values {
-        let meaning = FEATURES
-            .iter()
-            .find(|f| f.name == k)
-            .map(|f| f.meaning)
-            .unwrap_or("");
-        let _ = writeln!(s, "| {k} | {v:.3} | {meaning} |");
+    for (f, v) in d.features.values.by_word() {
+        let _ = writeln!(s, "| {f} | {v:.3} | {} |", f.spec().meaning);
     }
-    if let Some(a) = &d.agreement {
-        let _ = writeln!(
-            s,
-            "\nComplaint: {}; prediction {}.",
-            plain(&a.complaint),
-            if a.agrees { "agrees" } else { "does not agree" }
-        );
-    }
-    if !d.notes.is_empty() {
-        let _ = writeln!(s, "\n## Notes\n");
-        for n in &d.notes {
-            let _ = writeln!(s, "- {n}");
-        }
-    }
-    let _ = writeln!(s, "\n---\n{SAFETY}");
     s
 }

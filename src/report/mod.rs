@@ -5,12 +5,17 @@
 
 pub mod age_view;
 pub mod case_view;
+pub mod check_view;
 pub mod diagnose_view;
 pub mod fit_view;
+pub mod rules_view;
 pub mod stress_view;
 pub mod triage_view;
+pub mod words;
 
-pub use triage_view::{triage_text, whatif_text, TriageRow};
+pub use triage_view::{
+    triage_json, triage_text, whatif_json, whatif_text, TriageRow, WhatIfLanesError,
+};
 
 use crate::units::{self, Kind, System};
 use comfy_table::{presets, ContentArrangement, Table};
@@ -54,6 +59,26 @@ pub fn pos(si: f64, sys: System) -> String {
 
 /// The safety note every output that advises action carries.
 pub const SAFETY: &str = "Safety: rolls are heavy and can burst, telescope or fall. These findings support, and do not replace, site procedures, local codes and the judgement of qualified people; handle, wind and store rolls only as your site's procedures allow.";
+
+/// A JSON document as printed: pretty, keys sorted, a final newline.
+pub fn json_text(v: &serde_json::Value) -> Result<String, serde_json::Error> {
+    let mut s = serde_json::to_string_pretty(v)?;
+    s.push('\n');
+    Ok(s)
+}
+
+/// A file-name stem from a case id: letters, digits, `-` and `_` kept, anything else `_`.
+pub fn file_stem(id: &str) -> String {
+    id.chars()
+        .map(|ch| {
+            if ch.is_ascii_alphanumeric() || ch == '-' || ch == '_' {
+                ch
+            } else {
+                '_'
+            }
+        })
+        .collect()
+}
 
 /// Write a file atomically: to a temporary file beside it, then rename, so a failure never leaves
 /// a partial output file.

@@ -1,7 +1,8 @@
 //! `triage` and `whatif` output: many rolls in one table, and a roll against a changed copy.
 
-use super::{pos, table, SAFETY};
+use super::{pos, table, words, SAFETY};
 use crate::units::System;
+use crate::vocab::Defect;
 
 /// One roll in a triage.
 #[derive(Debug, Clone, PartialEq, serde::Serialize)]
@@ -10,8 +11,8 @@ pub struct TriageRow {
     pub case: String,
     pub spread_mm_per_m: f64,
     pub top_likelihood: f64,
-    pub defects: Vec<String>,
-    pub complaint: Option<String>,
+    pub defects: Vec<Defect>,
+    pub complaint: Option<Defect>,
     pub agrees: Option<bool>,
     pub error: Option<String>,
 }
@@ -19,7 +20,7 @@ pub struct TriageRow {
 impl TriageRow {
     /// A diagnosed roll.
     pub fn from_diagnosis(file: &std::path::Path, d: &crate::diagnose::Diagnosis) -> Self {
-        let mut defects: Vec<String> = d.findings.iter().map(|f| f.defect.clone()).collect();
+        let mut defects: Vec<Defect> = d.findings.iter().map(|f| f.defect).collect();
         defects.dedup();
         TriageRow {
             file: file.display().to_string(),
@@ -27,7 +28,7 @@ impl TriageRow {
             spread_mm_per_m: d.spread_mm_per_m,
             top_likelihood: d.findings.first().map(|f| f.weight).unwrap_or(0.0),
             defects,
-            complaint: d.agreement.as_ref().map(|a| a.complaint.clone()),
+            complaint: d.agreement.as_ref().map(|a| a.complaint),
             agrees: d.agreement.as_ref().map(|a| a.agrees),
             error: None,
         }
@@ -77,17 +78,12 @@ pub fn triage_text(rows: &[TriageRow]) -> String {
             match &r.error {
                 Some(e) => format!("error: {}", e.lines().next().unwrap_or("")),
                 None if r.defects.is_empty() => "none".into(),
-                None => r
-                    .defects
-                    .iter()
-                    .map(|d| crate::defects::plain(d))
-                    .collect::<Vec<_>>()
-                    .join(", "),
+                None => defect_list(&r.defects),
             },
             r.complaint
-                .as_deref()
-                .map(crate::defects::plain)
-                .unwrap_or_default(),
+                .map(words::defect)
+                .unwrap_or_default()
+                .to_string(),
             match r.agrees {
                 Some(true) => "yes".into(),
                 Some(false) => "no".into(),
@@ -98,30 +94,61 @@ pub fn triage_text(rows: &[TriageRow]) -> String {
     format!("{t}\nTriage uses the fast settings (no corrections re-run); run `rollsleuth diagnose CASE` on a roll for the full report.\n{SAFETY}\n")
 }
 
+/// Triage as JSON: the rolls, worst first, and the safety note.
+pub fn triage_json(rows: &[TriageRow]) -> serde_json::Value {
+    serde_json::json!({ "rolls": rows, "safety": SAFETY })
+}
+
+/// A what-if comparison as JSON (the result's own fields).
+pub fn whatif_json(w: &crate::diagnose::WhatIf) -> Result<serde_json::Value, serde_json::Error> {
+    serde_json::to_value(w)
+}
+
+/// Defects in plain words, comma-separated.
+fn defect_list(d: &[Defect]) -> String {
+    d.iter()
+        .map(|&x| words::defect(x))
+        .collect::<Vec<_>>()
+        .join(", ")
+}
+
+/// A what-if result whose lanes do not line up: one excess per lane is expected before and after.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+#[error("what-if for case {case}: {positions} lane positions but {before} lengths before and {after} after; the comparison needs one of each per lane")]
+pub struct WhatIfLanesError {
+    pub case: String,
+    pub positions: usize,
+    pub before: usize,
+    pub after: usize,
+}
+
 /// What-if comparison text.
-pub fn whatif_text(w: &crate::diagnose::WhatIf, sys: System) -> String {
+pub fn whatif_text(w: &crate::diagnose::WhatIf, sys: System) -> Result<String, WhatIfLanesError> {
+    let n = w.position_m.len();
+    if w.excess_before_mm_per_m.len() != n || w.excess_after_mm_per_m.len() != n {
+        return Err(WhatIfLanesError {
+            case: w.case.clone(),
+            positions: n,
+            before: w.excess_before_mm_per_m.len(),
+            after: w.excess_after_mm_per_m.len(),
+        });
+    }
     let mut t = table(&["lane", "before mm/m", "after mm/m"]);
-    for i in 0..w.position_m.len() {
+    for i in 0..n {
         t.add_row(vec![
             pos(w.position_m[i], sys),
-            w.excess_before_mm_per_m
-                .get(i)
-                .map(|v| format!("{v:+.2}"))
-                .unwrap_or_default(),
+            format!("{:+.2}", w.excess_before_mm_per_m[i]),
             format!("{:+.2}", w.excess_after_mm_per_m[i]),
         ]);
     }
-    let list = |d: &[String]| {
+    let list = |d: &[Defect]| {
         if d.is_empty() {
             "none".to_string()
         } else {
-            d.iter()
-                .map(|x| crate::defects::plain(x))
-                .collect::<Vec<_>>()
-                .join(", ")
+            defect_list(d)
         }
     };
-    format!(
+    Ok(format!(
         "What if, case {}: {}\nPredicted length spread at unwind: {:.2} -> {:.2} mm per m of web.\nLikely defects: {} -> {}.\n{t}\nLane length at unwind over the width-weighted mean lane; creep as fitted on the measured roll.\n{SAFETY}\n",
         w.case,
         w.changes.join(", "),
@@ -129,5 +156,39 @@ pub fn whatif_text(w: &crate::diagnose::WhatIf, sys: System) -> String {
         w.spread_after_mm_per_m,
         list(&w.defects_before),
         list(&w.defects_after),
-    )
+    ))
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::diagnose::WhatIf;
+
+    fn what_if(before: usize) -> WhatIf {
+        WhatIf {
+            case: "R1".into(),
+            changes: vec!["winding.tension=1.5 pli".into()],
+            spread_before_mm_per_m: 0.5,
+            spread_after_mm_per_m: 0.25,
+            position_m: vec![0.1, 0.3],
+            excess_before_mm_per_m: vec![0.25; before],
+            excess_after_mm_per_m: vec![-0.25, 0.25],
+            defects_before: vec![Defect::BaggyCenter],
+            defects_after: Vec::new(),
+        }
+    }
+
+    /// Lanes that line up give one row each; lanes that do not are an error naming the counts,
+    /// not blank cells.
+    #[test]
+    fn whatif_view_needs_one_length_per_lane_before_and_after() {
+        let t = whatif_text(&what_if(2), System::Si).unwrap();
+        assert!(t.contains("Likely defects: baggy centre -> none."), "{t}");
+        assert!(t.contains("+0.25") && t.contains("-0.25"), "{t}");
+        let e = whatif_text(&what_if(3), System::Si).unwrap_err();
+        assert_eq!(
+            e.to_string(),
+            "what-if for case R1: 2 lane positions but 3 lengths before and 2 after; the comparison needs one of each per lane"
+        );
+    }
 }

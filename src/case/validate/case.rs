@@ -10,7 +10,7 @@ impl Validator {
     pub(in crate::case) fn case(&mut self, raw: RawCase, file: &str) -> Option<Case> {
         self.format(&raw);
         let complaint = raw.complaint.as_ref().and_then(|c| {
-            self.known_word(c, "complaint", crate::defects::WORDS)
+            self.known_word(c, "complaint", crate::vocab::WORDS)
                 .map(str::to_string)
         });
         let material = self.material(&raw.material);

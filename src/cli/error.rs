@@ -1,0 +1,93 @@
+//! Why a command failed, and the one place that maps each kind of failure to an exit code.
+
+use crate::case::CaseError;
+use std::path::PathBuf;
+
+/// A failed command. Printed as `error: ` and the message; the exit code follows from the kind
+/// ([`CliError::exit_code`]).
+#[derive(Debug, thiserror::Error)]
+pub enum CliError {
+    /// A case file that cannot be used.
+    #[error(transparent)]
+    Case(#[from] CaseError),
+    /// Several case files that cannot be used (`check` reports them all).
+    #[error("{}", join_errors(.0))]
+    Cases(Vec<CaseError>),
+    #[error(transparent)]
+    Rules(#[from] crate::rules::RulesError),
+    #[error(transparent)]
+    Wind(#[from] crate::winding::WindError),
+    #[error(transparent)]
+    Age(#[from] crate::storage::AgeError),
+    #[error(transparent)]
+    Fit(#[from] crate::fit::FitError),
+    #[error(transparent)]
+    Diagnose(#[from] crate::diagnose::DiagnoseError),
+    #[error(transparent)]
+    WhatIfLanes(#[from] crate::report::WhatIfLanesError),
+    #[error("{}: cannot read the folder: {source}", .path.display())]
+    Folder {
+        path: PathBuf,
+        source: std::io::Error,
+    },
+    #[error("{}: cannot write the report: {source}", .dir.display())]
+    Report {
+        dir: PathBuf,
+        source: std::io::Error,
+    },
+    #[error("cannot write the JSON output: {0}")]
+    Json(#[from] serde_json::Error),
+    #[error("whatif needs at least one --set path=value, e.g. --set winding.tension=\"1.8 pli\"")]
+    WhatIfNeedsSet,
+    #[error("triage needs case files or folders holding *.yaml case files")]
+    TriageNeedsFiles,
+}
+
+/// Case errors one per line, each but the first with its own `error: ` prefix.
+fn join_errors(errors: &[CaseError]) -> String {
+    errors
+        .iter()
+        .map(|e| e.to_string())
+        .collect::<Vec<_>>()
+        .join("\nerror: ")
+}
+
+impl CliError {
+    /// Exit code: 1 for a usage error, 2 for bad input, a model that could not be solved or
+    /// output that could not be written.
+    pub fn exit_code(&self) -> u8 {
+        match self {
+            CliError::WhatIfNeedsSet | CliError::TriageNeedsFiles => 1,
+            CliError::Case(_)
+            | CliError::Cases(_)
+            | CliError::Rules(_)
+            | CliError::Wind(_)
+            | CliError::Age(_)
+            | CliError::Fit(_)
+            | CliError::Diagnose(_)
+            | CliError::WhatIfLanes(_)
+            | CliError::Folder { .. }
+            | CliError::Report { .. }
+            | CliError::Json(_) => 2,
+        }
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// Usage errors exit with 1, everything else with 2 (the codes the README documents).
+    #[test]
+    fn usage_errors_exit_1_and_failures_exit_2() {
+        assert_eq!(CliError::WhatIfNeedsSet.exit_code(), 1);
+        assert_eq!(CliError::TriageNeedsFiles.exit_code(), 1);
+        let io = std::io::Error::other("disk full");
+        let e = CliError::Report {
+            dir: "out".into(),
+            source: io,
+        };
+        assert_eq!(e.exit_code(), 2);
+        assert_eq!(e.to_string(), "out: cannot write the report: disk full");
+    }
+}

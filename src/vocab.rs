@@ -1,0 +1,307 @@
+//! The shared vocabulary: features of a predicted roll, corrections (model changes), the trade's
+//! defects, rule likelihoods and the causes a diagnosis attributes. Each is an enum named in files
+//! and JSON by its snake_case word; `rules`, `diagnose` and `report` refer to them by type, so a
+//! new word is checked by the compiler wherever it must be handled.
+//!
+//! **Invariant:** imports nothing of the crate; no prose beyond the features' meanings (what a
+//! rule author reads in `rollsleuth rules features`).
+
+use serde::{Deserialize, Serialize, Serializer};
+use std::fmt;
+use std::ops::Index;
+
+/// An enum whose variants are named by snake_case words (serde uses the same words).
+macro_rules! words {
+    ($(#[$m:meta])* pub enum $name:ident { $($(#[$vm:meta])* $var:ident = $word:literal,)* }) => {
+        $(#[$m])*
+        #[derive(Debug, Clone, Copy, PartialEq, Eq, PartialOrd, Ord, Hash, Serialize, Deserialize)]
+        pub enum $name {
+            $($(#[$vm])* #[serde(rename = $word)] $var,)*
+        }
+
+        impl $name {
+            /// Every variant, in declaration order.
+            pub const ALL: &'static [$name] = &[$($name::$var),*];
+
+            /// The word naming this variant in files and JSON.
+            pub const fn word(self) -> &'static str {
+                match self {
+                    $($name::$var => $word,)*
+                }
+            }
+
+            /// The variant named by `word`, if any.
+            pub fn from_word(word: &str) -> Option<Self> {
+                Self::ALL.iter().copied().find(|v| v.word() == word)
+            }
+        }
+
+        impl fmt::Display for $name {
+            fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+                f.write_str(self.word())
+            }
+        }
+    };
+}
+
+words! {
+    /// Defects of the trade, named in case files (what the complainant saw) and rule tables.
+    pub enum Defect {
+        BaggyLane = "baggy_lane",
+        BaggyCenter = "baggy_center",
+        BaggyEdges = "baggy_edges",
+        Puckers = "puckers",
+        Ridges = "ridges",
+        Corrugations = "corrugations",
+        GaugeBands = "gauge_bands",
+        Starring = "starring",
+        CrepeWrinkles = "crepe_wrinkles",
+        Telescoping = "telescoping",
+        Bursts = "bursts",
+        /// The complainant saw no defect.
+        NoDefect = "none",
+    }
+}
+
+const DEFECT_COUNT: usize = Defect::ALL.len();
+
+/// Defect words accepted in case files and rule tables, in [`Defect::ALL`] order.
+pub const WORDS: &[&str] = &{
+    let mut w = [""; DEFECT_COUNT];
+    let mut i = 0;
+    while i < DEFECT_COUNT {
+        w[i] = Defect::ALL[i].word();
+        i += 1;
+    }
+    w
+};
+
+words! {
+    /// Model changes a correction may ask for; `diagnose::actions::apply` re-runs each.
+    pub enum Action {
+        FlattenCaliper = "flatten_caliper",
+        ScaleTension = "scale_tension",
+        TaperTension = "taper_tension",
+        ScaleNip = "scale_nip",
+        FilmWrap = "film_wrap",
+        StoreAtEquilibrium = "store_at_equilibrium",
+        KeepWrappedUntilUse = "keep_wrapped_until_use",
+        ShortenStorage = "shorten_storage",
+        SlitOut = "slit_out",
+    }
+}
+
+impl Action {
+    /// Whether the action scales something and so needs a `factor` in a rule table.
+    pub const fn needs_factor(self) -> bool {
+        match self {
+            Action::ScaleTension
+            | Action::TaperTension
+            | Action::ScaleNip
+            | Action::ShortenStorage => true,
+            Action::FlattenCaliper
+            | Action::FilmWrap
+            | Action::StoreAtEquilibrium
+            | Action::KeepWrappedUntilUse
+            | Action::SlitOut => false,
+        }
+    }
+}
+
+words! {
+    /// How likely a rule's defect is when its conditions hold.
+    pub enum Likelihood {
+        High = "high",
+        Medium = "medium",
+        Low = "low",
+    }
+}
+
+impl Likelihood {
+    /// Weight for ranking findings (common practice: ordinal, high first).
+    pub const fn weight(self) -> f64 {
+        match self {
+            Likelihood::High => 0.8,
+            Likelihood::Medium => 0.5,
+            Likelihood::Low => 0.25,
+        }
+    }
+}
+
+words! {
+    /// Causes of the lane-to-lane length differences a diagnosis attributes by removing each.
+    pub enum Cause {
+        CaliperProfile = "caliper_profile",
+        StorageMoisture = "storage_moisture",
+        WoundInTensionProfile = "wound_in_tension_profile",
+        Nip = "nip",
+        LaneToLaneCreep = "lane_to_lane_creep",
+        /// No single removal reduced the spread.
+        NotAttributable = "not_attributable",
+    }
+}
+
+words! {
+    /// Features of the predicted roll that rules may test.
+    pub enum Feature {
+        RunningStrainMmPerM = "running_strain_mm_per_m",
+        LocalPeakRatio = "local_peak_ratio",
+        CentreMinusEdgesRatio = "centre_minus_edges_ratio",
+        LongestLaneRatio = "longest_lane_ratio",
+        SpreadMmPerM = "spread_mm_per_m",
+        LongestLaneExcessMmPerM = "longest_lane_excess_mm_per_m",
+        LocalPeakMmPerM = "local_peak_mm_per_m",
+        PeakWidthMm = "peak_width_mm",
+        CentreMinusEdgesMmPerM = "centre_minus_edges_mm_per_m",
+        SideToSideMmPerM = "side_to_side_mm_per_m",
+        BandCount = "band_count",
+        CaliperCorrelation = "caliper_correlation",
+        CaliperRangePct = "caliper_range_pct",
+        MoistureShare = "moisture_share",
+        CreepShare = "creep_share",
+        CoreMdStressMpa = "core_md_stress_mpa",
+        SurfacePressureEndKpa = "surface_pressure_end_kpa",
+        SurfacePressureLossPct = "surface_pressure_loss_pct",
+        OuterMdStressEndMpa = "outer_md_stress_end_mpa",
+        EdgeMoistureChangePct = "edge_moisture_change_pct",
+        MoistureChangePct = "moisture_change_pct",
+        WoundTensionRatio = "wound_tension_ratio",
+        DiameterRidgePerMille = "diameter_ridge_per_mille",
+        NipToTensionRatio = "nip_to_tension_ratio",
+        SlackLanes = "slack_lanes",
+    }
+}
+
+/// What a feature means and the range it can take (lint flags conditions outside it).
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct FeatureSpec {
+    /// Unit and meaning, for rule authors.
+    pub meaning: &'static str,
+    pub min: f64,
+    pub max: f64,
+    /// Whether the value is a length difference in mm per m of web.
+    pub is_length: bool,
+}
+
+const INF: f64 = f64::INFINITY;
+
+const fn spec(meaning: &'static str, min: f64, max: f64, is_length: bool) -> FeatureSpec {
+    FeatureSpec {
+        meaning,
+        min,
+        max,
+        is_length,
+    }
+}
+
+impl Feature {
+    /// Number of features.
+    pub const COUNT: usize = Feature::ALL.len();
+
+    /// Meaning and range.
+    pub const fn spec(self) -> FeatureSpec {
+        use Feature as F;
+        match self {
+            F::RunningStrainMmPerM => spec("the web's running strain T/(E c) at the converting tension, mm/m (a lane longer than this runs slack)", 0.0, INF, true),
+            F::LocalPeakRatio => spec("local_peak_mm_per_m over the running strain", -INF, INF, false),
+            F::CentreMinusEdgesRatio => spec("centre_minus_edges_mm_per_m over the running strain (positive: baggy centre)", -INF, INF, false),
+            F::LongestLaneRatio => spec("longest_lane_excess_mm_per_m over the running strain", 0.0, INF, false),
+            F::SpreadMmPerM => spec("largest minus smallest lane length at unwind, mm per m of web", 0.0, INF, true),
+            F::LongestLaneExcessMmPerM => spec("longest lane minus the width-weighted mean lane, mm/m", 0.0, INF, true),
+            F::LocalPeakMmPerM => spec("largest excess of an inner lane (not an outermost lane) over its neighbours (two each side), mm/m", -INF, INF, true),
+            F::PeakWidthMm => spec("width of the long band around the longest lane, mm", 0.0, INF, false),
+            F::CentreMinusEdgesMmPerM => spec("centre half minus the outermost lane each side, mm/m (positive: baggy centre)", -INF, INF, true),
+            F::SideToSideMmPerM => spec("front-to-back difference of a straight-line fit, absolute, mm/m", 0.0, INF, true),
+            F::BandCount => spec("number of long bands (local peaks over 0.3 mm/m prominent)", 0.0, INF, false),
+            F::CaliperCorrelation => spec("correlation of lane caliper with lane length at unwind, -1..1", -1.0, 1.0, false),
+            F::CaliperRangePct => spec("thickest minus thinnest lane caliper, % of mean", 0.0, INF, false),
+            F::MoistureShare => spec("share of the lane-to-lane length differences from hygroexpansion, 0..1", 0.0, 1.0, false),
+            F::CreepShare => spec("share of the lane-to-lane length differences from creep, 0..1", 0.0, 1.0, false),
+            F::CoreMdStressMpa => spec("most compressive MD stress in the inner third at winding, MPa (negative: compression)", -INF, INF, false),
+            F::SurfacePressureEndKpa => spec("lowest interlayer pressure in the outer 25 mm at the end of storage, kPa", 0.0, INF, false),
+            F::SurfacePressureLossPct => spec("mean loss of surface-zone pressure over storage, %", -INF, 100.0, false),
+            F::OuterMdStressEndMpa => spec("highest MD stress in the outer wraps at the end of storage, MPa", -INF, INF, false),
+            F::EdgeMoistureChangePct => spec("moisture change of the edge lanes minus the centre lanes, points", -INF, INF, false),
+            F::MoistureChangePct => spec("largest change of a lane's mean moisture over storage, points (absolute)", 0.0, INF, false),
+            F::WoundTensionRatio => spec("highest over lowest lane wound-in tension", 1.0, INF, false),
+            F::DiameterRidgePerMille => spec("largest lane diameter at winding over the mean of its neighbours (two each side), per mille of diameter", 0.0, INF, false),
+            F::NipToTensionRatio => spec("friction x nip load over web tension", 0.0, INF, false),
+            F::SlackLanes => spec("lanes longer than the mean lane by over 0.5 mm/m", 0.0, INF, false),
+        }
+    }
+}
+
+/// A value for every feature, indexed by [`Feature`]. Serialized as a map from feature word to
+/// value, in the words' alphabetical order.
+#[derive(Debug, Clone, PartialEq)]
+pub struct FeatureValues([f64; Feature::COUNT]);
+
+impl FeatureValues {
+    /// Values from a function of the feature (use an exhaustive `match` so that a new feature
+    /// must be given a value).
+    pub fn from_fn(mut value: impl FnMut(Feature) -> f64) -> Self {
+        let mut v = [0.0; Feature::COUNT];
+        for &f in Feature::ALL {
+            v[f as usize] = value(f);
+        }
+        FeatureValues(v)
+    }
+
+    /// (feature, value) pairs in the alphabetical order of the feature words.
+    pub fn by_word(&self) -> Vec<(Feature, f64)> {
+        let mut all: Vec<(Feature, f64)> = Feature::ALL.iter().map(|&f| (f, self[f])).collect();
+        all.sort_by_key(|(f, _)| f.word());
+        all
+    }
+}
+
+impl Index<Feature> for FeatureValues {
+    type Output = f64;
+    fn index(&self, f: Feature) -> &f64 {
+        &self.0[f as usize]
+    }
+}
+
+impl Serialize for FeatureValues {
+    fn serialize<S: Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {
+        s.collect_map(self.by_word().into_iter().map(|(f, v)| (f.word(), v)))
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// The serde name of every variant is its word, and the words round-trip.
+    #[test]
+    fn serde_words_match_the_vocabulary() {
+        fn check<T: Serialize + for<'de> Deserialize<'de> + PartialEq + fmt::Debug + Copy>(
+            all: &[T],
+            word: fn(T) -> &'static str,
+        ) {
+            for &v in all {
+                let j = serde_json::to_string(&v).unwrap();
+                assert_eq!(j, format!("\"{}\"", word(v)));
+                let back: T = serde_json::from_str(&j).unwrap();
+                assert_eq!(back, v);
+            }
+        }
+        check(Defect::ALL, Defect::word);
+        check(Action::ALL, Action::word);
+        check(Likelihood::ALL, Likelihood::word);
+        check(Cause::ALL, Cause::word);
+        check(Feature::ALL, Feature::word);
+        assert_eq!(WORDS.len(), Defect::ALL.len());
+        assert_eq!(Defect::from_word("baggy_center"), Some(Defect::BaggyCenter));
+        assert_eq!(Feature::from_word("lokal_peak"), None);
+    }
+
+    /// Indexing follows the declaration order of `Feature::ALL`.
+    #[test]
+    fn feature_values_index_by_feature() {
+        let v = FeatureValues::from_fn(|f| f as usize as f64);
+        for (k, &f) in Feature::ALL.iter().enumerate() {
+            assert_eq!(v[f] as usize, k);
+        }
+    }
+}
