@@ -455,6 +455,9 @@ pub fn sig(v: f64, n: usize) -> String {
     format!("{v:.decimals$}")
 }
 
+/// Seconds in a day (s).
+pub const DAY_S: f64 = 86_400.0;
+
 #[cfg(test)]
 mod tests {
     use super::*;

@@ -209,7 +209,11 @@ fn wound_case(
 ) -> Result<(Case, crate::lanes::Lanes, crate::winding::Wound), Failure> {
     let c = load(arg)?;
     let l = crate::lanes::build(&c);
-    let w = crate::winding::wind(&c, &l, opt)?;
+    let w = crate::winding::wind(
+        &crate::winding::WindInput::new(&c.material, &c.roll, &c.winding),
+        &l,
+        opt,
+    )?;
     Ok((c, l, w))
 }
 
@@ -291,11 +295,11 @@ pub fn run(cli: &Cli) -> Result<Outcome, Failure> {
         }
         Command::Age(arg) => {
             let (c, l, w) = wound_case(arg, crate::winding::Options::default())?;
-            let a = crate::storage::age(&c, &l, &w, None, &crate::storage::AgeOptions::default())?;
+            let a = crate::fit::age_measured(&c, &l, &w, &crate::storage::AgeOptions::default())?;
             Ok(Outcome::Ok(if cli.json {
                 emit_json(&report::age_view::json(&c, &a))
             } else {
-                report::age_view::text(&c, &a, sys)
+                report::age_view::text(&c, &l, &a, sys)
             }))
         }
         Command::Fit(arg) => {
@@ -304,7 +308,7 @@ pub fn run(cli: &Cli) -> Result<Outcome, Failure> {
             Ok(Outcome::Ok(if cli.json {
                 emit_json(&report::fit_view::json(&c, &f))
             } else {
-                report::fit_view::text(&c, &f, sys)
+                report::fit_view::text(&c, &l, &f, sys)
             }))
         }
         Command::Diagnose {

@@ -100,7 +100,7 @@ pub const SLACK_MM_PER_M: f64 = 0.5;
 /// Compute the features of a predicted roll.
 pub fn compute(case: &Case, lanes: &Lanes, wound: &Wound, aged: &Aged) -> Features {
     let n = aged.lanes.len();
-    let last = aged.times_days.len() - 1;
+    let last = aged.last();
     let s: Vec<f64> = aged
         .lanes
         .iter()
