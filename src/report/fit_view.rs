@@ -85,34 +85,32 @@ fn worst_residuals(f: &RollFit) -> Option<comfy_table::Table> {
         .iter()
         .enumerate()
         .max_by(|a, b| a.1.rmse.total_cmp(&b.1.rmse))?;
-    {
-        let mut r = table(&[
-            "lane",
-            "measure",
-            "age d",
-            "measured",
-            "predicted",
-            "residual / noise",
+    let mut r = table(&[
+        "lane",
+        "measure",
+        "age d",
+        "measured",
+        "predicted",
+        "residual / noise",
+    ]);
+    for x in &worst.residuals {
+        let (m, p) = match x.what {
+            Measure::Hardness => (format!("{:.1}", x.measured), format!("{:.1}", x.predicted)),
+            _ => (
+                format!("{:+.2} mm", x.measured * 1e3),
+                format!("{:+.2} mm", x.predicted * 1e3),
+            ),
+        };
+        r.add_row(vec![
+            i.to_string(),
+            format!("{:?}", x.what).to_lowercase(),
+            format!("{:.0}", x.age_s / DAY_S),
+            m,
+            p,
+            format!("{:+.2}", x.normalised),
         ]);
-        for x in &worst.residuals {
-            let (m, p) = match x.what {
-                Measure::Hardness => (format!("{:.1}", x.measured), format!("{:.1}", x.predicted)),
-                _ => (
-                    format!("{:+.2} mm", x.measured * 1e3),
-                    format!("{:+.2} mm", x.predicted * 1e3),
-                ),
-            };
-            r.add_row(vec![
-                i.to_string(),
-                format!("{:?}", x.what).to_lowercase(),
-                format!("{:.0}", x.age_s / DAY_S),
-                m,
-                p,
-                format!("{:+.2}", x.normalised),
-            ]);
-        }
-        Some(r)
     }
+    Some(r)
 }
 
 /// JSON of the fit.

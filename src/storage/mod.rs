@@ -7,17 +7,19 @@ mod ageing;
 mod creep;
 mod hardness;
 pub mod moisture;
+mod record;
 mod shift;
 mod sorption;
 mod timeline;
 
 pub use ageing::{
     age, age_lane_with, age_prepared, drive, prepare, AgeError, AgeOptions, Aged, FinalStress,
-    FullRecord, LaneAged, LaneCreep, LaneDrive, LaneRun, Prepared, Recorder, Snapshot, Track,
+    LaneAged, LaneCreep, LaneDrive, LaneRun, Prepared,
 };
 pub use ageing::{initial_stress as initial_stress_of, zone_pressure};
 pub use creep::{creep_compliance, relaxation_modulus, step_coefficients, step_update, CreepState};
 pub use hardness::{HardnessMap, DEFAULT_HARDNESS_SLOPE, DEFAULT_PRESSURE_REF_PA};
+pub use record::{FullRecord, Recorder, Snapshot, Track};
 pub use shift::{arrhenius_shift, moisture_shift, GAS_R, T_REF_K};
 pub use sorption::gab_moisture;
 pub use timeline::{
