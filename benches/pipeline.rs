@@ -6,8 +6,9 @@ use criterion::{criterion_group, criterion_main, Criterion};
 use rollsleuth::case::{self, Case, Measure};
 use rollsleuth::fit::{self, synth};
 use rollsleuth::lanes;
-use rollsleuth::storage::{age, AgeOptions, LaneCreep};
-use rollsleuth::winding::{wind, Options};
+use rollsleuth::storage::{AgeOptions, LaneCreep};
+use rollsleuth::units::DAY_S;
+use rollsleuth::winding::{wind, Options, WindInput};
 use std::hint::black_box;
 
 fn roll(storage_days: u32) -> Case {
@@ -24,29 +25,50 @@ fn bench(c: &mut Criterion) {
     let case = roll(200);
     let l = lanes::build(&case);
     c.bench_function("wind 40 lanes, 1 m roll, 401 nodes", |b| {
-        b.iter(|| wind(black_box(&case), &l, Options::default()).expect("winds"))
+        b.iter(|| {
+            wind(
+                black_box(&WindInput::new(&case.material, &case.roll, &case.winding)),
+                &l,
+                Options::default(),
+            )
+            .expect("winds")
+        })
     });
-    let w = wind(&case, &l, Options::default()).expect("winds");
+    let w = wind(
+        &WindInput::new(&case.material, &case.roll, &case.winding),
+        &l,
+        Options::default(),
+    )
+    .expect("winds");
     c.bench_function("age 40 lanes through 200 d", |b| {
-        b.iter(|| age(black_box(&case), &l, &w, None, &AgeOptions::default()).expect("ages"))
+        b.iter(|| {
+            fit::age_measured(black_box(&case), &l, &w, &AgeOptions::default()).expect("ages")
+        })
     });
     // fit: 40 lanes, three measurement times (synthetic data)
     let mut fc = roll(31);
     fc.profiles.retain(|p| p.what == Measure::Caliper);
     let lf = lanes::build(&fc);
-    let wf = wind(&fc, &lf, Options::default()).expect("winds");
+    let wf = wind(
+        &WindInput::new(&fc.material, &fc.roll, &fc.winding),
+        &lf,
+        Options::default(),
+    )
+    .expect("winds");
     let creep: Vec<LaneCreep> = (0..lf.lanes.len())
-        .map(|i| fit::creep_from(&fc, &[0.2 * (i % 3) as f64, 0.3 * (i % 4) as f64]))
+        .map(|i| fit::creep_from(&fc.material, &[0.2 * (i % 3) as f64, 0.3 * (i % 4) as f64]))
         .collect();
     let p = synth::profiles(
         &fc,
         &lf,
         &wf,
-        &creep,
-        &[0.0, 10.0 * 86400.0, 31.0 * 86400.0],
-        0.8,
-        8e-5,
-        1,
+        &synth::Truth {
+            creep: &creep,
+            ages_s: &[0.0, 10.0 * DAY_S, 31.0 * DAY_S],
+            hardness_sd: 0.8,
+            diameter_sd_m: 8e-5,
+            seed: 1,
+        },
     )
     .expect("synthesises");
     fc.profiles.extend(p);

@@ -1,10 +1,14 @@
 //! Cross-width profiles to lanes: edges, centres, and per lane the caliper, diameter and hardness
-//! deviations and the wound-in strain difference a diameter difference implies.
+//! deviations and the wound-in strain difference a diameter difference implies. Every measured
+//! profile is interpolated onto the lanes here, once: [`Lanes::series`] holds the per-lane
+//! measurement series by kind and age, which fitting reads instead of the raw profiles.
 //!
 //! **Invariant:** lanes are sorted from the front edge, do not overlap, and lie inside the roll.
 
 use crate::case::{Case, Measure, Profile};
 use crate::interp::linear_extrap;
+use crate::numeric::weighted_mean;
+use crate::units::DAY_S;
 use serde::Serialize;
 
 /// Where a lane's caliper came from.
@@ -46,6 +50,18 @@ pub struct Lane {
     pub extrapolated: bool,
 }
 
+/// One measured profile on the lanes.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Series {
+    pub what: Measure,
+    /// Roll age at the reading, s.
+    pub age_s: f64,
+    /// Value at each lane centre (caliper m, diameter m, hardness scale units).
+    pub values: Vec<f64>,
+    /// True where some lane centre lies outside the measured positions.
+    pub extrapolated: bool,
+}
+
 /// The lanes of a roll.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct Lanes {
@@ -55,6 +71,9 @@ pub struct Lanes {
     pub caliper_source: CaliperSource,
     /// Notes on how the lanes were built (extrapolation, inference).
     pub notes: Vec<String>,
+    /// Every measured profile on the lanes, in the case's order.
+    #[serde(skip)]
+    pub series: Vec<Series>,
 }
 
 /// Default lane count when the case gives neither profiles nor lanes.
@@ -80,14 +99,6 @@ fn with_edge_strips(mut e: Vec<f64>) -> Vec<f64> {
         e.insert(n - 1, last - EDGE_STRIP_M);
     }
     e
-}
-
-/// The earliest profile of a kind, if any.
-pub fn earliest(case: &Case, what: Measure) -> Option<&Profile> {
-    case.profiles
-        .iter()
-        .filter(|p| p.what == what)
-        .min_by(|a, b| a.age_s.total_cmp(&b.age_s))
 }
 
 /// Lane edges (m) for a case: explicit edges as given; otherwise a lane count or the densest
@@ -126,7 +137,7 @@ pub fn edges(case: &Case) -> Vec<f64> {
 }
 
 /// Interpolate a profile onto lane centres; returns values and whether any was extrapolated.
-pub fn onto(p: &Profile, centres: &[f64]) -> (Vec<f64>, bool) {
+fn onto(p: &Profile, centres: &[f64]) -> (Vec<f64>, bool) {
     let mut any = false;
     let v = centres
         .iter()
@@ -139,21 +150,31 @@ pub fn onto(p: &Profile, centres: &[f64]) -> (Vec<f64>, bool) {
     (v, any)
 }
 
-fn weighted_mean(v: &[f64], w: &[f64]) -> f64 {
-    let sw: f64 = w.iter().sum();
-    v.iter().zip(w).map(|(a, b)| a * b).sum::<f64>() / sw
-}
-
 /// Build the lanes of a case.
 pub fn build(case: &Case) -> Lanes {
     let e = edges(case);
     let centres: Vec<f64> = e.windows(2).map(|w| 0.5 * (w[0] + w[1])).collect();
     let widths: Vec<f64> = e.windows(2).map(|w| w[1] - w[0]).collect();
     let n = centres.len();
+    let series: Vec<Series> = case
+        .profiles
+        .iter()
+        .map(|p| {
+            let (values, extrapolated) = onto(p, &centres);
+            Series {
+                what: p.what,
+                age_s: p.age_s,
+                values,
+                extrapolated,
+            }
+        })
+        .collect();
     let mut notes = Vec::new();
     let mut extrap = vec![false; n];
-    let mut mark = |p: &Profile, vals: (Vec<f64>, bool), notes: &mut Vec<String>| {
-        if vals.1 {
+    let mut mark = |what: Measure, notes: &mut Vec<String>| {
+        let i = earliest_index(&series, what)?;
+        let (p, s) = (&case.profiles[i], &series[i]);
+        if s.extrapolated {
             for (i, &x) in centres.iter().enumerate() {
                 if x < p.positions_m[0] || x > p.positions_m[p.positions_m.len() - 1] {
                     extrap[i] = true;
@@ -162,38 +183,18 @@ pub fn build(case: &Case) -> Lanes {
             notes.push(format!(
                 "{:?} profile at {:.0} d covers {:.0}-{:.0} mm; lanes outside that were extrapolated linearly",
                 p.what,
-                p.age_s / 86400.0,
+                p.age_s / DAY_S,
                 p.positions_m[0] * 1e3,
                 p.positions_m[p.positions_m.len() - 1] * 1e3
             ));
         }
-        vals.0
+        Some(s.values.clone())
     };
-    let dia = earliest(case, Measure::Diameter).map(|p| mark(p, onto(p, &centres), &mut notes));
-    let hard = earliest(case, Measure::Hardness).map(|p| mark(p, onto(p, &centres), &mut notes));
-    let cal = earliest(case, Measure::Caliper).map(|p| mark(p, onto(p, &centres), &mut notes));
-    let nominal = case.material.caliper_m;
-    let r_core = 0.5 * case.roll.core_diameter_m;
-    let (calipers, source) = match (&cal, &dia) {
-        (Some(c), _) => (c.clone(), CaliperSource::Profile),
-        (None, Some(d)) => {
-            // A lane larger by dR over a build of (R - r_core) carries about dR/(R - r_core) more
-            // caliper (uncompressed estimate).
-            let dbar = weighted_mean(d, &widths);
-            let build = (0.5 * dbar - r_core).max(1e-9);
-            notes.push(
-                "no caliper profile: lane calipers inferred from the earliest diameter profile"
-                    .into(),
-            );
-            (
-                d.iter()
-                    .map(|&di| nominal * (1.0 + 0.5 * (di - dbar) / build))
-                    .collect(),
-                CaliperSource::Diameter,
-            )
-        }
-        _ => (vec![nominal; n], CaliperSource::Nominal),
-    };
+    let dia = mark(Measure::Diameter, &mut notes);
+    let hard = mark(Measure::Hardness, &mut notes);
+    let cal = mark(Measure::Caliper, &mut notes);
+    let (calipers, source) =
+        lane_calipers(case, cal.as_deref(), dia.as_deref(), &widths, &mut notes);
     let cbar = weighted_mean(&calipers, &widths);
     let dbar = dia.as_ref().map(|d| weighted_mean(d, &widths));
     let hbar = hard.as_ref().map(|h| weighted_mean(h, &widths));
@@ -217,7 +218,51 @@ pub fn build(case: &Case) -> Lanes {
         mean_caliper_m: cbar,
         caliper_source: source,
         notes,
+        series,
     }
+}
+
+/// Lane calipers (m) and where they came from: the earliest caliper profile on the lanes, else
+/// inferred from the earliest diameter profile, else the nominal caliper.
+fn lane_calipers(
+    case: &Case,
+    cal: Option<&[f64]>,
+    dia: Option<&[f64]>,
+    widths: &[f64],
+    notes: &mut Vec<String>,
+) -> (Vec<f64>, CaliperSource) {
+    let nominal = case.material.caliper_m;
+    let r_core = 0.5 * case.roll.core_diameter_m;
+    match (cal, dia) {
+        (Some(c), _) => (c.to_vec(), CaliperSource::Profile),
+        (None, Some(d)) => {
+            // A lane larger by dR over a build of (R - r_core) carries about dR/(R - r_core) more
+            // caliper (uncompressed estimate).
+            let dbar = weighted_mean(d, widths);
+            let build = (0.5 * dbar - r_core).max(1e-9);
+            notes.push(
+                "no caliper profile: lane calipers inferred from the earliest diameter profile"
+                    .into(),
+            );
+            (
+                d.iter()
+                    .map(|&di| nominal * (1.0 + 0.5 * (di - dbar) / build))
+                    .collect(),
+                CaliperSource::Diameter,
+            )
+        }
+        _ => (vec![nominal; widths.len()], CaliperSource::Nominal),
+    }
+}
+
+/// Index of the earliest series of a kind (the first of equally early ones).
+fn earliest_index(series: &[Series], what: Measure) -> Option<usize> {
+    series
+        .iter()
+        .enumerate()
+        .filter(|(_, s)| s.what == what)
+        .min_by(|a, b| a.1.age_s.total_cmp(&b.1.age_s))
+        .map(|(i, _)| i)
 }
 
 impl Lanes {
@@ -232,5 +277,21 @@ impl Lanes {
     /// Lane calipers, m.
     pub fn calipers(&self) -> Vec<f64> {
         self.lanes.iter().map(|l| l.caliper_m).collect()
+    }
+    /// Width-weighted mean of a per-lane value: the value of the mean lane.
+    pub fn mean(&self, v: &[f64]) -> f64 {
+        weighted_mean(v, &self.widths())
+    }
+    /// The earliest measured series of a kind, if any.
+    pub fn earliest(&self, what: Measure) -> Option<&Series> {
+        earliest_index(&self.series, what).map(|i| &self.series[i])
+    }
+    /// The measured series of a kind, in the case's order.
+    pub fn series_of(&self, what: Measure) -> impl Iterator<Item = &Series> {
+        self.series.iter().filter(move |s| s.what == what)
+    }
+    /// Ages of all measurements, s, in the case's order.
+    pub fn measurement_ages(&self) -> Vec<f64> {
+        self.series.iter().map(|s| s.age_s).collect()
     }
 }

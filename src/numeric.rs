@@ -1,4 +1,6 @@
-//! Small numerical kernels shared by the models: the tridiagonal (Thomas) solver.
+//! Small numerical kernels shared by the models and views: the tridiagonal (Thomas) solver, the
+//! width-weighted mean (the one definition of "the mean lane"), the spread (largest minus
+//! smallest) and the time step closest to a given time.
 
 /// Solve a tridiagonal system in place by the Thomas algorithm.
 ///
@@ -36,6 +38,49 @@ pub fn thomas(a: &[f64], b: &[f64], c: &[f64], d: &mut [f64], scratch: &mut [f64
         d[i] -= scratch[i + 1] * d[i + 1];
     }
     d.iter().all(|x| x.is_finite())
+}
+
+/// Weighted mean of `v` with weights `w` (for lanes: their widths, which makes it the mean lane).
+/// Empty input or zero total weight gives 0.
+///
+/// ```
+/// assert_eq!(rollsleuth::numeric::weighted_mean(&[1.0, 4.0], &[3.0, 1.0]), 1.75);
+/// ```
+pub fn weighted_mean(v: &[f64], w: &[f64]) -> f64 {
+    let sw: f64 = w.iter().take(v.len()).sum();
+    if sw == 0.0 {
+        return 0.0;
+    }
+    v.iter().zip(w).map(|(a, b)| a * b).sum::<f64>() / sw
+}
+
+/// Largest minus smallest value; 0 for no values.
+///
+/// ```
+/// assert_eq!(rollsleuth::numeric::spread(&[2.0, -1.0, 0.5]), 3.0);
+/// ```
+pub fn spread(v: &[f64]) -> f64 {
+    if v.is_empty() {
+        return 0.0;
+    }
+    let hi = v.iter().cloned().fold(f64::NEG_INFINITY, f64::max);
+    let lo = v.iter().cloned().fold(f64::INFINITY, f64::min);
+    hi - lo
+}
+
+/// Index of the time in `times` closest to `t` (same unit); the first of equally close ones, 0
+/// for no times.
+///
+/// ```
+/// assert_eq!(rollsleuth::numeric::closest_index(&[0.0, 10.0, 20.0], 12.0), 1);
+/// ```
+pub fn closest_index(times: &[f64], t: f64) -> usize {
+    times
+        .iter()
+        .enumerate()
+        .min_by(|a, b| (a.1 - t).abs().total_cmp(&(b.1 - t).abs()))
+        .map(|(i, _)| i)
+        .unwrap_or(0)
 }
 
 #[cfg(test)]

@@ -58,7 +58,7 @@ fn json_field_names_carry_si_units() {
     }
     let (_, out, _) = run(&["age", "--json"]);
     let v: serde_json::Value = serde_json::from_str(&out).unwrap();
-    assert!(v["times_days"].is_array());
+    assert!(v["times_s"].is_array());
     for k in [
         "position_m",
         "moisture_pct",

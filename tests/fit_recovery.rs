@@ -6,7 +6,8 @@ use rollsleuth::case::{self, Case, Measure};
 use rollsleuth::fit::{self, synth};
 use rollsleuth::lanes;
 use rollsleuth::storage::{AgeOptions, LaneCreep};
-use rollsleuth::winding::{wind, Options};
+use rollsleuth::units::DAY_S;
+use rollsleuth::winding::{wind, Options, WindInput};
 
 /// A roll of the given field case with its measurements replaced by synthetic ones.
 fn synthetic(
@@ -24,7 +25,12 @@ fn synthetic(
     .unwrap();
     c.profiles.retain(|p| p.what == Measure::Caliper);
     let l = lanes::build(&c);
-    let w = wind(&c, &l, Options::default()).unwrap();
+    let w = wind(
+        &WindInput::new(&c.material, &c.roll, &c.winding),
+        &l,
+        Options::default(),
+    )
+    .unwrap();
     let mut rng = synth::Rng::new(seed);
     let truth: Vec<(f64, f64)> = (0..l.lanes.len())
         .map(|_| {
@@ -36,10 +42,17 @@ fn synthetic(
         .collect();
     let creep: Vec<LaneCreep> = truth
         .iter()
-        .map(|&(a, b)| fit::creep_from(&c, &[a.ln(), b.ln()]))
+        .map(|&(a, b)| fit::creep_from(&c.material, &[a.ln(), b.ln()]))
         .collect();
-    let ages: Vec<f64> = ages_d.iter().map(|d| d * 86400.0).collect();
-    let p = synth::profiles(&c, &l, &w, &creep, &ages, noise_h, noise_d, seed + 1000).unwrap();
+    let ages: Vec<f64> = ages_d.iter().map(|d| d * DAY_S).collect();
+    let truth_in = synth::Truth {
+        creep: &creep,
+        ages_s: &ages,
+        hardness_sd: noise_h,
+        diameter_sd_m: noise_d,
+        seed: seed + 1000,
+    };
+    let p = synth::profiles(&c, &l, &w, &truth_in).unwrap();
     c.profiles.extend(p);
     c.hardness.repeatability = noise_h.max(0.05);
     (c, truth)
@@ -47,7 +60,12 @@ fn synthetic(
 
 fn run(c: &Case) -> fit::RollFit {
     let l = lanes::build(c);
-    let w = wind(c, &l, Options::default()).unwrap();
+    let w = wind(
+        &WindInput::new(&c.material, &c.roll, &c.winding),
+        &l,
+        Options::default(),
+    )
+    .unwrap();
     fit::fit_roll(c, &l, &w, &AgeOptions::default()).unwrap()
 }
 
@@ -110,6 +128,38 @@ fn parameters_are_recovered_within_reported_uncertainty() {
         within2 as f64 >= 0.9 * total as f64,
         "{within2} of {total} within 2 sigma"
     );
+}
+
+/// Synthetic hardness readings are on the hardness scale itself, not offsets from some anchor: a
+/// rebound reading lies on its 0-100 scale (common practice), and a roll read at winding, before
+/// it has settled, reads near the middle of it (the default map puts 250 kPa at 60 units).
+#[test]
+fn synthetic_hardness_readings_are_on_the_scale() {
+    for file in [
+        "field_cases/nordvik_pm3_caliper_band.yaml",
+        "field_cases/kestrel_coated_cold_to_humid.yaml",
+        "field_cases/harrowgate_board_dry_store.yaml",
+    ] {
+        let (c, _) = synthetic(file, 8, 11, &[0.0, 10.0, 31.0], 0.8, 8e-5);
+        let mut n = 0;
+        for p in c.profiles.iter().filter(|p| p.what == Measure::Hardness) {
+            for v in &p.values {
+                assert!((0.0..100.0).contains(v), "{file}: hardness reading {v}");
+                n += 1;
+            }
+            if p.age_s == 0.0 {
+                let mean = p.values.iter().sum::<f64>() / p.values.len() as f64;
+                assert!(
+                    (30.0..80.0).contains(&mean),
+                    "{file}: mean at winding {mean}"
+                );
+            }
+        }
+        assert!(
+            n >= 3 * 8,
+            "{file}: every lane read at every age ({n} readings)"
+        );
+    }
 }
 
 /// The fitted misfit is never worse than at the start, every lane converges, and a roll whose

@@ -2,10 +2,11 @@
 //! (or reports a solver failure), or is rejected with an error naming the file.
 
 use rollsleuth::case;
+use rollsleuth::fit;
 use rollsleuth::fit::synth::Rng;
 use rollsleuth::lanes;
-use rollsleuth::storage::{age, AgeOptions};
-use rollsleuth::winding::{wind, Options};
+use rollsleuth::storage::AgeOptions;
+use rollsleuth::winding::{wind, Options, WindInput};
 
 const WEIRD: &[&str] = &[
     "\"0 mm\"",
@@ -63,18 +64,17 @@ fn mutated_cases_never_panic() {
                 loaded += 1;
                 let ln = lanes::build(&c);
                 if let Ok(w) = wind(
-                    &c,
+                    &WindInput::new(&c.material, &c.roll, &c.winding),
                     &ln,
                     Options {
                         nodes: 41,
                         levelling: 0.5,
                     },
                 ) {
-                    let _ = age(
+                    let _ = fit::age_measured(
                         &c,
                         &ln,
                         &w,
-                        None,
                         &AgeOptions {
                             cells_r: 12,
                             cells_x: 12,

@@ -2,9 +2,12 @@
 
 use approx::assert_relative_eq;
 use rollsleuth::case::{self, Case};
+use rollsleuth::fit;
 use rollsleuth::lanes;
-use rollsleuth::storage::{age, prepare, AgeOptions, Aged};
-use rollsleuth::winding::{wind, Options};
+use rollsleuth::numeric::closest_index;
+use rollsleuth::storage::{prepare, AgeOptions, Aged};
+use rollsleuth::units::DAY_S;
+use rollsleuth::winding::{wind, Options, WindInput};
 
 fn uniform(sets: &[&str]) -> Case {
     let mut s: Vec<String> = vec!["lanes.count=9".into()];
@@ -18,7 +21,7 @@ fn uniform(sets: &[&str]) -> Case {
 fn wound(c: &Case) -> (lanes::Lanes, rollsleuth::winding::Wound) {
     let l = lanes::build(c);
     let w = wind(
-        c,
+        &WindInput::new(&c.material, &c.roll, &c.winding),
         &l,
         Options {
             nodes: 201,
@@ -38,13 +41,17 @@ fn wound_and_prepared(
     rollsleuth::storage::Prepared,
 ) {
     let (l, w) = wound(c);
-    let p = prepare(c, &l, &w, &AgeOptions::default());
+    let p = prepare(
+        &fit::store_input(c, &l.measurement_ages()),
+        &l,
+        &AgeOptions::default(),
+    );
     (l, w, p)
 }
 
 fn run(c: &Case) -> Aged {
     let (l, w) = wound(c);
-    age(c, &l, &w, None, &AgeOptions::default()).unwrap()
+    fit::age_measured(c, &l, &w, &AgeOptions::default()).unwrap()
 }
 
 fn storage(days: u32, t: &str, rh: &str, barrel: &str, ends: &str) -> Vec<String> {
@@ -74,7 +81,7 @@ fn drying_outer_wraps_gain_about_225_psi_per_point() {
         ],
     );
     let (l, w, prep) = wound_and_prepared(&c);
-    let a = age(&c, &l, &w, None, &AgeOptions::default()).unwrap();
+    let a = fit::age_measured(&c, &l, &w, &AgeOptions::default()).unwrap();
     let lane = 4;
     let nr = prep.moisture.r.len();
     let j = nr - 1;
@@ -119,7 +126,7 @@ fn moisture_works_inward_from_the_surfaces_ever_more_slowly() {
     // ever more slowly: the mean gain in the second half of storage is less than in the first
     let a = run(&c);
     let m = &a.lanes[0].moisture_pct;
-    let half = a.times_days.iter().position(|&t| t >= 30.0).unwrap();
+    let half = a.times_s.iter().position(|&t| t >= 30.0 * DAY_S).unwrap();
     let n = m.len() - 1;
     assert!(m[n] - m[half] < m[half] - m[0]);
 }
@@ -131,7 +138,7 @@ fn drying_barrels_and_wetting_hourglasses() {
     let dry = run(&with(storage(30, "25 C", "15 %", "none", "none"), &[]));
     let wet = run(&with(storage(30, "25 C", "85 %", "none", "none"), &[]));
     for (a, sign) in [(&dry, 1.0), (&wet, -1.0)] {
-        let n = a.times_days.len() - 1;
+        let n = a.last();
         let edge = &a.lanes[0];
         let centre = &a.lanes[a.lanes.len() / 2];
         let dd_edge = edge.diameter_m[n] - edge.diameter_m[0];
@@ -173,7 +180,7 @@ fn tighter_lane_takes_more_set_and_no_storage_means_no_change() {
     let mut l = lanes::build(&c);
     l.lanes[4].caliper_m *= 1.02;
     let w = wind(
-        &c,
+        &WindInput::new(&c.material, &c.roll, &c.winding),
         &l,
         Options {
             nodes: 201,
@@ -181,14 +188,14 @@ fn tighter_lane_takes_more_set_and_no_storage_means_no_change() {
         },
     )
     .unwrap();
-    let a = age(&c, &l, &w, None, &AgeOptions::default()).unwrap();
-    let n = a.times_days.len() - 1;
+    let a = fit::age_measured(&c, &l, &w, &AgeOptions::default()).unwrap();
+    let n = a.last();
     assert!(a.lanes[4].permanent_strain[n] > 1.1 * a.lanes[2].permanent_strain[n]);
     assert!(a.lanes[4].strain_at_unwind[n] > a.lanes[2].strain_at_unwind[n]);
 
     let none = uniform(&["storage=[]"]);
     let a0 = run(&none);
-    assert_eq!(a0.times_days, vec![0.0]);
+    assert_eq!(a0.times_s, vec![0.0]);
     for lane in &a0.lanes {
         assert_relative_eq!(lane.permanent_strain[0], 0.0);
         assert_relative_eq!(lane.strain_at_unwind[0], 0.0);
@@ -202,39 +209,16 @@ fn later_hardness_only_anchors_the_hardness_map() {
     let mut c = case::load_demo(&[]).unwrap();
     c.profiles.retain(|p| {
         p.what == rollsleuth::case::Measure::Caliper
-            || (p.what == rollsleuth::case::Measure::Hardness && p.age_s > 86400.0)
+            || (p.what == rollsleuth::case::Measure::Hardness && p.age_s > DAY_S)
     });
     let a = run(&c);
     assert!(a.hardness_map.source.contains("after winding"));
-    let p = c
-        .profiles
-        .iter()
-        .find(|p| p.what == rollsleuth::case::Measure::Hardness)
-        .unwrap();
-    let k = a
-        .times_days
-        .iter()
-        .enumerate()
-        .min_by(|x, y| {
-            (x.1 * 86400.0 - p.age_s)
-                .abs()
-                .total_cmp(&(y.1 * 86400.0 - p.age_s).abs())
-        })
-        .unwrap()
-        .0;
     let l = lanes::build(&c);
-    let (vals, _) = lanes::onto(p, &l.positions());
-    let w = l.widths();
-    let ws: f64 = w.iter().sum();
-    let measured = vals.iter().zip(&w).map(|(v, x)| v * x).sum::<f64>() / ws;
+    let p = l.earliest(rollsleuth::case::Measure::Hardness).unwrap();
+    let k = closest_index(&a.times_s, p.age_s);
+    let measured = l.mean(&p.values);
     // the map is linear in ln P, so compare width-weighted means of hardness
-    let predicted = a
-        .lanes
-        .iter()
-        .zip(&w)
-        .map(|(ln, x)| ln.hardness[k] * x)
-        .sum::<f64>()
-        / ws;
+    let predicted = l.mean(&a.lanes.iter().map(|ln| ln.hardness[k]).collect::<Vec<_>>());
     assert!(
         (predicted - measured).abs() < 0.05,
         "{predicted} vs {measured}"

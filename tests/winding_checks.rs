@@ -4,7 +4,7 @@ use approx::assert_relative_eq;
 use rollsleuth::case::{self, Case, Stack};
 use rollsleuth::lanes;
 use rollsleuth::winding::hakiel::{LaneModel, LaneState};
-use rollsleuth::winding::{core_stiffness, disk_stress, wind, Options};
+use rollsleuth::winding::{core_stiffness, disk_stress, wind, Options, WindInput};
 
 fn demo(sets: &[&str]) -> Case {
     let s: Vec<String> = sets.iter().map(|s| s.to_string()).collect();
@@ -158,7 +158,7 @@ fn nip_induced_wound_in_tension_follows_good_wu_fikes() {
     ]);
     let l = lanes::build(&c);
     let w = wind(
-        &c,
+        &WindInput::new(&c.material, &c.roll, &c.winding),
         &l,
         Options {
             nodes: 200,
@@ -183,7 +183,7 @@ fn constant_tension_profile_has_the_shape_the_trade_knows() {
     let c = uniform(&["winding.speed=0 m/s"]);
     let l = lanes::build(&c);
     let w = wind(
-        &c,
+        &WindInput::new(&c.material, &c.roll, &c.winding),
         &l,
         Options {
             nodes: 400,
@@ -222,7 +222,7 @@ fn higher_speed_lowers_interlayer_pressure() {
     let slow = uniform(&["winding.speed=300 m/min"]);
     let fast = uniform(&["winding.speed=3000 m/min"]);
     let ws = wind(
-        &slow,
+        &WindInput::new(&slow.material, &slow.roll, &slow.winding),
         &lanes::build(&slow),
         Options {
             nodes: 200,
@@ -231,7 +231,7 @@ fn higher_speed_lowers_interlayer_pressure() {
     )
     .unwrap();
     let wf = wind(
-        &fast,
+        &WindInput::new(&fast.material, &fast.roll, &fast.winding),
         &lanes::build(&fast),
         Options {
             nodes: 200,
@@ -262,7 +262,7 @@ fn equal_stress_means_tension_scales_with_caliper() {
         "winding.nip=0 N/m",
     ]);
     let wa = wind(
-        &a,
+        &WindInput::new(&a.material, &a.roll, &a.winding),
         &lanes::build(&a),
         Options {
             nodes: 200,
@@ -271,7 +271,7 @@ fn equal_stress_means_tension_scales_with_caliper() {
     )
     .unwrap();
     let wb = wind(
-        &b,
+        &WindInput::new(&b.material, &b.roll, &b.winding),
         &lanes::build(&b),
         Options {
             nodes: 200,
@@ -300,7 +300,7 @@ fn wound_state_converges_with_grid_refinement() {
     let l = lanes::build(&c);
     let run = |n| {
         wind(
-            &c,
+            &WindInput::new(&c.material, &c.roll, &c.winding),
             &l,
             Options {
                 nodes: n,
@@ -352,7 +352,7 @@ fn equal_lanes_are_identical_and_a_thicker_lane_is_tighter() {
     let c = uniform(&[]);
     let l = lanes::build(&c);
     let w = wind(
-        &c,
+        &WindInput::new(&c.material, &c.roll, &c.winding),
         &l,
         Options {
             nodes: 300,
@@ -366,7 +366,7 @@ fn equal_lanes_are_identical_and_a_thicker_lane_is_tighter() {
     let mut l2 = l.clone();
     l2.lanes[3].caliper_m *= 1.02;
     let w2 = wind(
-        &c,
+        &WindInput::new(&c.material, &c.roll, &c.winding),
         &l2,
         Options {
             nodes: 300,
@@ -380,7 +380,7 @@ fn equal_lanes_are_identical_and_a_thicker_lane_is_tighter() {
     assert!(s3.peak_pressure_pa > s0.peak_pressure_pa);
     // independent lanes overstate the difference relative to levelled ones
     let wi = wind(
-        &c,
+        &WindInput::new(&c.material, &c.roll, &c.winding),
         &l2,
         Options {
             nodes: 300,
@@ -411,7 +411,7 @@ fn wound_state_satisfies_radial_equilibrium_identity() {
     let c = demo(&[]);
     let l = lanes::build(&c);
     let w = wind(
-        &c,
+        &WindInput::new(&c.material, &c.roll, &c.winding),
         &l,
         Options {
             nodes: 801,

@@ -8,7 +8,7 @@ use crate::diagnose::{self, DiagnoseOptions, Diagnosis};
 use crate::lanes::{self, Lanes};
 use crate::report::{self, TriageRow};
 use crate::rules::{self, Table};
-use crate::storage::{self, AgeOptions};
+use crate::storage::AgeOptions;
 use crate::units::System;
 use crate::winding::{self, Wound};
 use serde_json::Value;
@@ -79,7 +79,11 @@ fn case_files(paths: &[PathBuf]) -> Result<Vec<PathBuf>, CliError> {
 fn wound_case(arg: &CaseArg, opt: winding::Options) -> Result<(Case, Lanes, Wound), CliError> {
     let c = load(arg)?;
     let l = lanes::build(&c);
-    let w = winding::wind(&c, &l, opt)?;
+    let w = winding::wind(
+        &winding::WindInput::new(&c.material, &c.roll, &c.winding),
+        &l,
+        opt,
+    )?;
     Ok((c, l, w))
 }
 
@@ -148,10 +152,10 @@ pub fn stress(
 /// `age`.
 pub fn age(arg: &CaseArg, out: Output) -> Result<Outcome, CliError> {
     let (c, l, w) = wound_case(arg, winding::Options::default())?;
-    let a = storage::age(&c, &l, &w, None, &AgeOptions::default())?;
+    let a = crate::fit::age_measured(&c, &l, &w, &AgeOptions::default())?;
     let s = out.pick(
         || report::age_view::json(&c, &a),
-        || report::age_view::text(&c, &a, out.sys),
+        || report::age_view::text(&c, &l, &a, out.sys),
     )?;
     Ok(Outcome::Ok(s))
 }
@@ -162,7 +166,7 @@ pub fn fit(arg: &CaseArg, out: Output) -> Result<Outcome, CliError> {
     let f = crate::fit::fit_roll(&c, &l, &w, &AgeOptions::default())?;
     let s = out.pick(
         || report::fit_view::json(&c, &f),
-        || report::fit_view::text(&c, &f, out.sys),
+        || report::fit_view::text(&c, &l, &f, out.sys),
     )?;
     Ok(Outcome::Ok(s))
 }

@@ -3,9 +3,10 @@
 
 use crate::case::{Case, Tension, Wrap};
 use crate::lanes::Lanes;
-use crate::storage::{age, gab_moisture, AgeError, AgeOptions, Aged, LaneCreep};
+use crate::numeric::spread;
+use crate::storage::{age, gab_moisture, AgeError, AgeOptions, Aged, HardnessMap, LaneCreep};
 use crate::vocab::{Action, Cause};
-use crate::winding::{wind, Options, WindError, Wound};
+use crate::winding::{wind, Options, WindError, WindInput, Wound};
 
 /// Everything a forward run needs.
 #[derive(Debug, Clone)]
@@ -38,7 +39,7 @@ impl Scenario {
     /// Run winding and storage.
     pub fn run(&self, nodes: usize) -> Result<Outcome, RunError> {
         let wound = wind(
-            &self.case,
+            &WindInput::new(&self.case.material, &self.case.roll, &self.case.winding),
             &self.lanes,
             Options {
                 nodes,
@@ -49,13 +50,16 @@ impl Scenario {
     }
 
     /// Run storage on a wound state already computed for this scenario's case, lanes and
-    /// levelling (winding does not depend on storage or creep).
+    /// levelling (winding does not depend on storage or creep). Forward only: no measurement
+    /// times; hardness is read with the case's calibration or the default map.
     pub fn age_on(&self, wound: Wound) -> Result<Outcome, RunError> {
+        let c = &self.case;
         let aged = age(
-            &self.case,
+            &crate::fit::store_input(c, &[]),
             &self.lanes,
             &wound,
             Some(&self.creep),
+            &HardnessMap::given(c.hardness.calibration.as_ref()),
             &AgeOptions::default(),
         )?;
         Ok(Outcome { wound, aged })
@@ -64,7 +68,7 @@ impl Scenario {
 
 /// Largest minus smallest strain at unwind (mm/m) over the lanes not excluded.
 pub fn spread_mm_per_m(aged: &Aged, excluded: &[usize]) -> f64 {
-    let last = aged.times_days.len() - 1;
+    let last = aged.last();
     let v: Vec<f64> = aged
         .lanes
         .iter()
@@ -72,11 +76,7 @@ pub fn spread_mm_per_m(aged: &Aged, excluded: &[usize]) -> f64 {
         .filter(|(i, _)| !excluded.contains(i))
         .map(|(_, l)| l.strain_at_unwind[last] * 1e3)
         .collect();
-    if v.is_empty() {
-        return 0.0;
-    }
-    v.iter().cloned().fold(f64::NEG_INFINITY, f64::max)
-        - v.iter().cloned().fold(f64::INFINITY, f64::min)
+    spread(&v)
 }
 
 /// Relative humidity (fraction) at which the GAB isotherm gives moisture `mc` (%), by bisection.

@@ -412,7 +412,7 @@ fn finite(v: f64) -> f64 {
 
 /// Compute the features of a predicted roll.
 pub fn compute(case: &Case, lanes: &Lanes, wound: &Wound, aged: &Aged) -> Features {
-    let last = aged.times_days.len() - 1;
+    let last = aged.last();
     let u = Unwind::new(case, lanes, aged, last);
     let centre = centre_lanes(lanes, u.width);
     let ends = end_lanes(lanes);

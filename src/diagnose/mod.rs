@@ -13,7 +13,7 @@ use crate::lanes::{self, Lanes};
 use crate::rules::{self, Table};
 use crate::storage::{AgeOptions, LaneCreep};
 use crate::vocab::{Action, Cause, Defect, Feature, Likelihood};
-use crate::winding::{wind, Options, WindError};
+use crate::winding::{wind, Options, WindError, WindInput};
 use actions::{apply, spread_mm_per_m, Change, RunError, Scenario, ABLATIONS};
 use features::Features;
 use serde::Serialize;
@@ -146,7 +146,7 @@ pub struct Diagnosis {
 }
 
 /// The base scenario of a diagnosed case: fitted creep per lane, storage as simulated (extended
-/// to the last measurement), measurements dropped (forward runs only).
+/// to the last measurement). Scenarios run forward only; they do not read measurements.
 pub fn base_scenario(
     case: &Case,
     lanes: &Lanes,
@@ -154,9 +154,12 @@ pub fn base_scenario(
     levelling: f64,
 ) -> Scenario {
     let mut c = case.clone();
-    let tl = crate::storage::timeline(case, &AgeOptions::default());
+    let tl = crate::storage::timeline(
+        &case.storage,
+        &lanes.measurement_ages(),
+        &AgeOptions::default(),
+    );
     c.storage = tl.stretches;
-    c.profiles.clear();
     Scenario {
         case: c,
         lanes: lanes.clone(),
@@ -197,7 +200,7 @@ pub struct Fitted {
 pub fn fitted(case: &Case, opt: &DiagnoseOptions) -> Result<Fitted, DiagnoseError> {
     let lanes = lanes::build(case);
     let wound = wind(
-        case,
+        &WindInput::new(&case.material, &case.roll, &case.winding),
         &lanes,
         Options {
             nodes: opt.nodes,
@@ -234,123 +237,193 @@ pub fn diagnose(
     let base = base_scenario(case, &lanes, creep, Options::default().levelling);
     let mut notes = fit.notes.clone();
     let (base_spread, causes) = if opt.what_if {
-        // the base scenario winds exactly as the fitted roll did: reuse that wound state
-        let b = base.age_on(wound.clone())?;
-        let s0 = spread_mm_per_m(&b.aged, &[]);
-        let mut raw = Vec::new();
-        for (cause, change, factor) in ABLATIONS {
-            let s = apply(&base, change, factor, &[]).run(opt.nodes)?;
-            let without = spread_mm_per_m(&s.aged, &[]);
-            raw.push((cause, without, (s0 - without).max(0.0)));
-        }
-        let total: f64 = raw.iter().map(|r| r.2).sum();
-        let mut causes: Vec<CauseShare> = raw
-            .iter()
-            .map(|&(cause, w, red)| CauseShare {
-                cause,
-                spread_without_mm_per_m: w,
-                share: if total > 0.0 { red / total } else { 0.0 },
-            })
-            .collect();
-        if total <= 0.0 {
-            causes.push(CauseShare {
-                cause: Cause::NotAttributable,
-                spread_without_mm_per_m: s0,
-                share: 1.0,
-            });
-        }
-        (s0, causes)
+        attribute_causes(&base, &wound, opt.nodes)?
     } else {
         (feats.get(Feature::SpreadMmPerM), Vec::new())
     };
-    let mut cache: Vec<(CorrectionKey, f64)> = Vec::new();
+    let mut checker = Checker {
+        base: &base,
+        base_spread,
+        opt,
+        cache: Vec::new(),
+    };
     let mut findings = Vec::new();
     for fr in &fired {
-        let r = fr.rule;
-        let idx = lanes_for(r.defect, case, &lanes, &feats);
-        let lane_refs: Vec<LaneRef> = idx
-            .iter()
-            .map(|&i| LaneRef {
-                index: i,
-                position_m: lanes.lanes[i].position_m,
-                excess_mm_per_m: feats.excess_mm_per_m[i],
-            })
-            .collect();
-        let mut corrections = Vec::new();
-        for c in &r.corrections {
-            let after = if opt.what_if {
-                let slit = if c.action == Action::SlitOut {
-                    idx.clone()
-                } else {
-                    Vec::new()
-                };
-                let key = (c.action, c.factor.map(f64::to_bits), slit);
-                match cache.iter().find(|(k, _)| *k == key) {
-                    Some((_, v)) => *v,
-                    None => {
-                        let s = apply(&base, Change::Correct(c.action), c.factor, &idx);
-                        let out = s.run(opt.nodes)?;
-                        let v = spread_mm_per_m(&out.aged, &s.excluded);
-                        cache.push((key, v));
-                        v
-                    }
-                }
-            } else {
-                f64::NAN
-            };
-            corrections.push(CheckedCorrection {
-                action: c.action,
-                factor: c.factor,
-                text: c.text.clone(),
-                why: c.why.clone(),
-                spread_before_mm_per_m: base_spread,
-                spread_after_mm_per_m: after,
-            });
-        }
-        let first = r.when.first().map(|c| c.feature);
-        findings.push(Finding {
-            defect: r.defect,
-            rule: r.id.clone(),
-            likelihood: r.likelihood,
-            weight: r.weight,
-            mechanism: r.mechanism.clone(),
-            evidence: r
-                .when
-                .iter()
-                .zip(&fr.evidence)
-                .map(|(c, &(feature, v))| Evidence {
-                    feature,
-                    value: v,
-                    above: c.above,
-                    below: c.below,
-                    source: c.source.clone(),
-                })
-                .collect(),
-            lanes: lane_refs,
-            length_difference_mm_per_m: match first {
-                Some(f) if f.spec().is_length => feats.get(f).abs(),
-                _ => feats.get(Feature::SpreadMmPerM),
-            },
-            corrections,
-        });
+        findings.push(finding(fr, case, &lanes, &feats, &mut checker)?);
     }
     // `case` accepts only vocabulary words as the complaint
     let complaint = case.complaint.as_deref().and_then(Defect::from_word);
-    let agreement = complaint.map(|c| {
-        let rank = findings.iter().position(|f| f.defect == c).map(|p| p + 1);
-        Agreement {
-            complaint: c,
-            agrees: if c == Defect::NoDefect {
-                findings.is_empty()
-            } else {
-                rank.is_some()
-            },
-            rank,
+    let agreement = complaint.map(|c| agreement(c, &findings));
+    let lane_results = lane_results(&fit, &lanes, &feats);
+    notes.extend(fit.aged.notes.iter().cloned());
+    notes.sort();
+    notes.dedup();
+    Ok(Diagnosis {
+        pressure_curves: pressure_curves(&wound),
+        case: case.id.clone(),
+        title: case.title.clone(),
+        rules: table.source.clone(),
+        spread_mm_per_m: feats.get(Feature::SpreadMmPerM),
+        advises_action: !findings.is_empty(),
+        features: feats,
+        findings,
+        causes,
+        agreement,
+        lanes: lane_results,
+        notes,
+    })
+}
+
+/// Root-cause attribution: the base spread, and each cause's share from removing it alone (the
+/// base scenario winds exactly as the fitted roll did, so its wound state is reused).
+fn attribute_causes(
+    base: &Scenario,
+    wound: &crate::winding::Wound,
+    nodes: usize,
+) -> Result<(f64, Vec<CauseShare>), DiagnoseError> {
+    let b = base.age_on(wound.clone())?;
+    let s0 = spread_mm_per_m(&b.aged, &[]);
+    let mut raw = Vec::new();
+    for (cause, change, factor) in ABLATIONS {
+        let s = apply(base, change, factor, &[]).run(nodes)?;
+        let without = spread_mm_per_m(&s.aged, &[]);
+        raw.push((cause, without, (s0 - without).max(0.0)));
+    }
+    let total: f64 = raw.iter().map(|r| r.2).sum();
+    let mut causes: Vec<CauseShare> = raw
+        .iter()
+        .map(|&(cause, w, red)| CauseShare {
+            cause,
+            spread_without_mm_per_m: w,
+            share: if total > 0.0 { red / total } else { 0.0 },
+        })
+        .collect();
+    if total <= 0.0 {
+        causes.push(CauseShare {
+            cause: Cause::NotAttributable,
+            spread_without_mm_per_m: s0,
+            share: 1.0,
+        });
+    }
+    Ok((s0, causes))
+}
+
+/// Re-runs corrections on the base scenario, each distinct one once.
+struct Checker<'a> {
+    base: &'a Scenario,
+    /// Spread of the base scenario, mm/m.
+    base_spread: f64,
+    opt: &'a DiagnoseOptions,
+    cache: Vec<(CorrectionKey, f64)>,
+}
+
+impl Checker<'_> {
+    /// Spread after a correction (NaN when re-runs are off); `lanes` are the finding's lanes.
+    fn spread_after(
+        &mut self,
+        action: Action,
+        factor: Option<f64>,
+        lanes: &[usize],
+    ) -> Result<f64, DiagnoseError> {
+        if !self.opt.what_if {
+            return Ok(f64::NAN);
         }
-    });
-    let last = fit.aged.times_days.len() - 1;
-    let lane_results = fit
-        .lanes
+        let slit = if action == Action::SlitOut {
+            lanes.to_vec()
+        } else {
+            Vec::new()
+        };
+        let key = (action, factor.map(f64::to_bits), slit);
+        if let Some((_, v)) = self.cache.iter().find(|(k, _)| *k == key) {
+            return Ok(*v);
+        }
+        let s = apply(self.base, Change::Correct(action), factor, lanes);
+        let out = s.run(self.opt.nodes)?;
+        let v = spread_mm_per_m(&out.aged, &s.excluded);
+        self.cache.push((key, v));
+        Ok(v)
+    }
+}
+
+/// A fired rule as a finding: its evidence, lanes and checked corrections.
+fn finding(
+    fr: &rules::Fired,
+    case: &Case,
+    lanes: &Lanes,
+    feats: &Features,
+    checker: &mut Checker,
+) -> Result<Finding, DiagnoseError> {
+    let r = fr.rule;
+    let idx = lanes_for(r.defect, case, lanes, feats);
+    let lane_refs: Vec<LaneRef> = idx
+        .iter()
+        .map(|&i| LaneRef {
+            index: i,
+            position_m: lanes.lanes[i].position_m,
+            excess_mm_per_m: feats.excess_mm_per_m[i],
+        })
+        .collect();
+    let mut corrections = Vec::new();
+    for c in &r.corrections {
+        let after = checker.spread_after(c.action, c.factor, &idx)?;
+        corrections.push(CheckedCorrection {
+            action: c.action,
+            factor: c.factor,
+            text: c.text.clone(),
+            why: c.why.clone(),
+            spread_before_mm_per_m: checker.base_spread,
+            spread_after_mm_per_m: after,
+        });
+    }
+    let first = r.when.first().map(|c| c.feature);
+    Ok(Finding {
+        defect: r.defect,
+        rule: r.id.clone(),
+        likelihood: r.likelihood,
+        weight: r.weight,
+        mechanism: r.mechanism.clone(),
+        evidence: r
+            .when
+            .iter()
+            .zip(&fr.evidence)
+            .map(|(c, &(feature, v))| Evidence {
+                feature,
+                value: v,
+                above: c.above,
+                below: c.below,
+                source: c.source.clone(),
+            })
+            .collect(),
+        lanes: lane_refs,
+        length_difference_mm_per_m: match first {
+            Some(f) if f.spec().is_length => feats.get(f).abs(),
+            _ => feats.get(Feature::SpreadMmPerM),
+        },
+        corrections,
+    })
+}
+
+/// Whether the findings agree with the complaint.
+fn agreement(complaint: Defect, findings: &[Finding]) -> Agreement {
+    let rank = findings
+        .iter()
+        .position(|f| f.defect == complaint)
+        .map(|p| p + 1);
+    Agreement {
+        complaint,
+        agrees: if complaint == Defect::NoDefect {
+            findings.is_empty()
+        } else {
+            rank.is_some()
+        },
+        rank,
+    }
+}
+
+/// Per-lane results of the fitted roll.
+fn lane_results(fit: &crate::fit::RollFit, lanes: &Lanes, feats: &Features) -> Vec<LaneResult> {
+    let last = fit.aged.last();
+    fit.lanes
         .iter()
         .enumerate()
         .map(|(i, l)| LaneResult {
@@ -362,12 +435,14 @@ pub fn diagnose(
             radial_creep_scale: l.params.radial_creep_scale,
             fit_rmse: l.rmse,
         })
-        .collect();
-    notes.extend(fit.aged.notes.iter().cloned());
-    notes.sort();
-    notes.dedup();
+        .collect()
+}
+
+/// Wound-in interlayer pressure against radius per lane, thinned to about 200 radii.
+#[allow(clippy::type_complexity)]
+fn pressure_curves(wound: &crate::winding::Wound) -> (Vec<f64>, Vec<(f64, Vec<f64>)>) {
     let stride = (wound.radius_m.len() / 200).max(1);
-    let pressure_curves = (
+    (
         wound.radius_m.iter().step_by(stride).copied().collect(),
         wound
             .lanes
@@ -383,21 +458,7 @@ pub fn diagnose(
                 )
             })
             .collect(),
-    );
-    Ok(Diagnosis {
-        pressure_curves,
-        case: case.id.clone(),
-        title: case.title.clone(),
-        rules: table.source.clone(),
-        spread_mm_per_m: feats.get(Feature::SpreadMmPerM),
-        advises_action: !findings.is_empty(),
-        features: feats,
-        findings,
-        causes,
-        agreement,
-        lanes: lane_results,
-        notes,
-    })
+    )
 }
 
 /// A what-if comparison: the case as measured and with changes applied, both run forward with the
@@ -418,8 +479,9 @@ pub struct WhatIf {
     pub defects_after: Vec<Defect>,
 }
 
-/// Compare a case with a variant of it (same lanes count expected; the variant's lanes are
-/// rebuilt from its own profiles).
+/// Compare a case with a variant of it. The variant's lanes are rebuilt from its own profiles
+/// and layout; each of its lanes gets the measured case's fitted creep at its centre
+/// ([`creep_at`]).
 pub fn what_if(
     base: &Case,
     variant: &Case,
@@ -427,17 +489,17 @@ pub fn what_if(
     table: &Table,
     opt: &DiagnoseOptions,
 ) -> Result<WhatIf, DiagnoseError> {
-    let creep = fitted(base, opt)?.creep;
+    let f = fitted(base, opt)?;
+    let fitted_at: Vec<(f64, LaneCreep)> = f
+        .lanes
+        .lanes
+        .iter()
+        .map(|l| l.position_m)
+        .zip(f.creep.iter().copied())
+        .collect();
     let run = |c: &Case| -> Result<(Lanes, actions::Outcome), DiagnoseError> {
         let l = lanes::build(c);
-        let mut cr = creep.clone();
-        cr.resize(
-            l.lanes.len(),
-            creep.last().copied().unwrap_or(LaneCreep {
-                md: c.material.creep.md,
-                radial: c.material.creep.radial,
-            }),
-        );
+        let cr = creep_at(&fitted_at, &l.positions(), &LaneCreep::grade(&c.material));
         let s = base_scenario(c, &l, cr, Options::default().levelling);
         Ok((l, s.run(opt.nodes)?))
     };
@@ -464,4 +526,94 @@ pub fn what_if(
         defects_before: defects(&fb),
         defects_after: defects(&fa),
     })
+}
+
+/// Fitted creep carried onto lanes at `positions` (m): each lane gets the fitted lanes' creep
+/// interpolated by lane centre, flat beyond the outermost fitted lanes. The fitted scales
+/// multiply the delayed compliance and the viscous rate (see [`crate::fit::scaled`]), so those
+/// (and the retardation time) are interpolated in log. A lane at a fitted lane's centre keeps
+/// that lane's creep exactly; with no fitted lanes every lane gets `grade`.
+pub fn creep_at(
+    fitted: &[(f64, LaneCreep)],
+    positions: &[f64],
+    grade: &LaneCreep,
+) -> Vec<LaneCreep> {
+    if fitted.is_empty() {
+        return vec![*grade; positions.len()];
+    }
+    let log_interp = |x: f64, g: &dyn Fn(&LaneCreep) -> f64| {
+        let pts: Vec<(f64, f64)> = fitted.iter().map(|(p, c)| (*p, g(c).ln())).collect();
+        crate::interp::linear_flat(&pts, x).exp()
+    };
+    let burgers = |x: f64, b: &dyn Fn(&LaneCreep) -> crate::case::Burgers| crate::case::Burgers {
+        delayed: log_interp(x, &|c| b(c).delayed),
+        retardation_s: log_interp(x, &|c| b(c).retardation_s),
+        viscous_time_s: log_interp(x, &|c| b(c).viscous_time_s.recip()).recip(),
+    };
+    positions
+        .iter()
+        .map(|&x| match fitted.iter().find(|(p, _)| *p == x) {
+            Some((_, c)) => *c,
+            None => LaneCreep {
+                md: burgers(x, &|c| c.md),
+                radial: burgers(x, &|c| c.radial),
+            },
+        })
+        .collect()
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::case::Burgers;
+
+    fn grade() -> LaneCreep {
+        let b = Burgers {
+            delayed: 0.3,
+            retardation_s: 2.0 * crate::units::DAY_S,
+            viscous_time_s: 200.0 * crate::units::DAY_S,
+        };
+        LaneCreep { md: b, radial: b }
+    }
+
+    fn at_scale(s: f64) -> LaneCreep {
+        let g = grade();
+        LaneCreep {
+            md: crate::fit::scaled(&g.md, s),
+            radial: crate::fit::scaled(&g.radial, 2.0 * s),
+        }
+    }
+
+    /// A changed lane layout keeps each fitted creep where it was fitted: the high-creep lane at
+    /// 0.5 m stays at 0.5 m when a lane is added in front of it (matching by index would move it
+    /// to the lane at 0.3 m), beyond the outermost fitted lanes creep stays flat, and between two
+    /// fitted lanes the scale is interpolated in log (halfway between 1 and 8 is sqrt 8).
+    #[test]
+    fn fitted_creep_follows_lane_positions_not_indices() {
+        let g = grade();
+        let fitted: Vec<(f64, LaneCreep)> = [(0.1, 1.0), (0.3, 1.0), (0.5, 8.0), (0.7, 1.0)]
+            .iter()
+            .map(|&(x, s)| (x, at_scale(s)))
+            .collect();
+        let same: Vec<f64> = fitted.iter().map(|f| f.0).collect();
+        let kept = creep_at(&fitted, &same, &g);
+        for (k, f) in kept.iter().zip(&fitted) {
+            assert_eq!(*k, f.1);
+        }
+        let moved = creep_at(&fitted, &[0.02, 0.1, 0.3, 0.5, 0.7], &g);
+        assert_eq!(moved[3], fitted[2].1, "the high-creep lane stays at 0.5 m");
+        assert_eq!(moved[2], fitted[1].1);
+        let scale = |c: &LaneCreep| c.md.delayed / g.md.delayed;
+        assert!(
+            (scale(&moved[0]) - 1.0).abs() < 1e-12,
+            "flat beyond the front lane"
+        );
+        let mid = creep_at(&fitted, &[0.4], &g)[0];
+        assert!((scale(&mid) - 8f64.sqrt()).abs() < 1e-9, "{}", scale(&mid));
+        let viscous = g.md.viscous_time_s / mid.md.viscous_time_s;
+        assert!((viscous - 8f64.sqrt()).abs() < 1e-9, "{viscous}");
+        let radial = mid.radial.delayed / g.radial.delayed;
+        assert!((radial - 2.0 * 8f64.sqrt()).abs() < 1e-9, "{radial}");
+        assert_eq!(creep_at(&[], &[0.1, 0.2], &g), vec![g, g]);
+    }
 }

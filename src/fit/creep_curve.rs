@@ -5,6 +5,7 @@
 //! eps_model = stress x J(t) (see [`crate::storage::creep_compliance`]). Parameters, all fitted in
 //! log form so they stay positive: E, delayed, retardation time, viscous time.
 
+use super::SolverError;
 use crate::case::Burgers;
 use crate::storage::creep_compliance;
 use argmin::core::{CostFunction, Error as ArgminError, Executor, State, TerminationReason};
@@ -66,12 +67,12 @@ pub struct CurveFit {
 }
 
 /// Fit a creep curve from a starting guess (modulus Pa, Burgers parameters).
-pub fn fit(c: &CreepCurve, e0: f64, b0: &Burgers) -> Result<CurveFit, String> {
+pub fn fit(c: &CreepCurve, e0: f64, b0: &Burgers) -> Result<CurveFit, SolverError> {
     fit_many(std::slice::from_ref(c), e0, b0)
 }
 
 /// Fit several curves of one material together.
-pub fn fit_many(c: &[CreepCurve], e0: f64, b0: &Burgers) -> Result<CurveFit, String> {
+pub fn fit_many(c: &[CreepCurve], e0: f64, b0: &Burgers) -> Result<CurveFit, SolverError> {
     let x0 = vec![
         e0.ln(),
         b0.delayed.ln(),
@@ -86,17 +87,17 @@ pub fn fit_many(c: &[CreepCurve], e0: f64, b0: &Burgers) -> Result<CurveFit, Str
     }
     let solver = NelderMead::new(simplex)
         .with_sd_tolerance(1e-12)
-        .map_err(|e| e.to_string())?;
+        .map_err(SolverError::optimiser)?;
     let res = Executor::new(Problem(c), solver)
         .configure(|s| s.max_iters(5000))
         .timer(false)
         .run()
-        .map_err(|e| e.to_string())?;
+        .map_err(SolverError::optimiser)?;
     let st = res.state();
     let p = st
         .get_best_param()
         .cloned()
-        .ok_or_else(|| "no parameters".to_string())?;
+        .ok_or(SolverError::NoParameters)?;
     Ok(CurveFit {
         modulus_pa: p[0].exp(),
         burgers: Burgers {

@@ -19,8 +19,11 @@
 //! prior does.
 
 use super::observe::{Obs, ObsKind};
-use crate::case::{Burgers, Case, Measure};
-use crate::storage::{age_lane_with, drive, LaneAged, LaneCreep, LaneDrive, Prepared};
+use super::SolverError;
+use crate::case::{Burgers, Material, Measure};
+use crate::storage::{
+    age_lane_with, drive, HardnessMap, LaneCreep, LaneDrive, LaneRun, Prepared, Track,
+};
 use crate::winding::Wound;
 use argmin::core::{CostFunction, Error as ArgminError, Executor, State, TerminationReason};
 use argmin::solver::neldermead::NelderMead;
@@ -44,19 +47,21 @@ pub fn scaled(b: &Burgers, s: f64) -> Burgers {
     }
 }
 
-/// Lane creep parameters from the grade and two log-scales.
-pub fn creep_from(case: &Case, theta: &[f64]) -> LaneCreep {
+/// Lane creep parameters from the material's grade creep and two log-scales.
+pub fn creep_from(material: &Material, theta: &[f64]) -> LaneCreep {
     LaneCreep {
-        md: scaled(&case.material.creep.md, theta[0].exp()),
-        radial: scaled(&case.material.creep.radial, theta[1].exp()),
+        md: scaled(&material.creep.md, theta[0].exp()),
+        radial: scaled(&material.creep.radial, theta[1].exp()),
     }
 }
 
 /// One lane's data and fixed inputs.
 pub struct LaneProblem<'a> {
-    pub case: &'a Case,
+    pub material: &'a Material,
     pub wound: &'a Wound,
     pub prep: &'a Prepared,
+    /// How surface pressure reads as hardness.
+    pub hardness: &'a HardnessMap,
     pub lane: usize,
     pub drive: LaneDrive,
     pub obs: Vec<Obs>,
@@ -67,44 +72,47 @@ pub struct LaneProblem<'a> {
 impl<'a> LaneProblem<'a> {
     /// Set up a lane's problem.
     pub fn new(
-        case: &'a Case,
+        material: &'a Material,
         wound: &'a Wound,
         prep: &'a Prepared,
+        hardness: &'a HardnessMap,
         lane: usize,
         obs: Vec<Obs>,
     ) -> Self {
         let steps = obs.iter().map(|o| o.step).max().unwrap_or(0);
         LaneProblem {
-            case,
+            material,
             wound,
             prep,
+            hardness,
             lane,
-            drive: drive(case, prep, lane),
+            drive: drive(material, prep, lane),
             obs,
             steps,
         }
     }
 
     /// Simulate the lane up to its last observation.
-    pub fn simulate(&self, theta: &[f64]) -> Option<LaneAged> {
-        let creep = creep_from(self.case, theta);
-        age_lane_with(
-            self.case,
-            self.wound,
-            self.lane,
-            &creep,
-            self.prep,
-            &self.drive,
-            self.steps,
-            true,
-        )
-        .ok()
+    pub fn simulate(&self, theta: &[f64]) -> Option<Track> {
+        let creep = creep_from(self.material, theta);
+        let run = LaneRun {
+            material: self.material,
+            wound: self.wound,
+            prep: self.prep,
+            lane: self.lane,
+            creep: &creep,
+            drive: &self.drive,
+            steps: self.steps,
+        };
+        let mut track = Track::default();
+        age_lane_with(&run, &mut track).ok()?;
+        Some(track)
     }
 
     /// Predicted value of an observation from a simulated lane.
-    pub fn predict(o: &Obs, a: &LaneAged) -> f64 {
+    pub fn predict(&self, o: &Obs, a: &Track) -> f64 {
         match (o.what, o.kind) {
-            (Measure::Hardness, _) => a.hardness[o.step],
+            (Measure::Hardness, _) => self.hardness.hardness(a.surface_pressure_pa[o.step]),
             (_, ObsKind::ChangeFrom { step0 }) => a.diameter_m[o.step] - a.diameter_m[step0],
             (_, ObsKind::Absolute) => a.diameter_m[o.step],
         }
@@ -117,7 +125,7 @@ impl<'a> LaneProblem<'a> {
                 0.5 * self
                     .obs
                     .iter()
-                    .map(|o| ((Self::predict(o, &a) - o.value) / o.sigma).powi(2))
+                    .map(|o| ((self.predict(o, &a) - o.value) / o.sigma).powi(2))
                     .sum::<f64>()
             }
             None => 1e12,
@@ -191,7 +199,7 @@ pub struct Minimum {
 }
 
 /// Minimise an objective from `start` with Nelder-Mead.
-pub fn minimise(obj: &Objective, start: [f64; 2]) -> Result<Minimum, String> {
+pub fn minimise(obj: &Objective, start: [f64; 2]) -> Result<Minimum, SolverError> {
     let start_cost = obj.value(&start);
     let simplex = vec![
         start.to_vec(),
@@ -200,17 +208,17 @@ pub fn minimise(obj: &Objective, start: [f64; 2]) -> Result<Minimum, String> {
     ];
     let solver = NelderMead::new(simplex)
         .with_sd_tolerance(1e-3)
-        .map_err(|e| e.to_string())?;
+        .map_err(SolverError::optimiser)?;
     let res = Executor::new(Borrowed(obj), solver)
         .configure(|s| s.max_iters(MAX_ITERS).counting(true))
         .timer(false)
         .run()
-        .map_err(|e| e.to_string())?;
+        .map_err(SolverError::optimiser)?;
     let st = res.state();
     let theta = st
         .get_best_param()
         .cloned()
-        .ok_or_else(|| "the optimiser returned no parameters".to_string())?;
+        .ok_or(SolverError::NoParameters)?;
     let converged = matches!(
         st.get_termination_reason(),
         Some(TerminationReason::SolverConverged)
@@ -259,7 +267,8 @@ pub fn inverse_pd(m: [[f64; 2]; 2]) -> Option<[[f64; 2]; 2]> {
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct Residual {
     pub what: Measure,
-    pub age_days: f64,
+    /// Roll age at the reading, s.
+    pub age_s: f64,
     /// Measured value (hardness units; diameter change in m).
     pub measured: f64,
     pub predicted: f64,
@@ -315,7 +324,7 @@ pub struct LaneFit {
 }
 
 /// Fit one lane with a prior centred on `prior`.
-pub fn fit_lane(p: &LaneProblem, prior: [f64; 2]) -> Result<LaneFit, String> {
+pub fn fit_lane(p: &LaneProblem, prior: [f64; 2]) -> Result<LaneFit, SolverError> {
     let lanes = std::slice::from_ref(p);
     let obj = Objective {
         lanes,
@@ -335,17 +344,15 @@ pub fn fit_lane(p: &LaneProblem, prior: [f64; 2]) -> Result<LaneFit, String> {
             .map(|c| c[i][i].sqrt() < PRIOR_SD_LN)
             .unwrap_or(false)
     };
-    let a = p
-        .simulate(&m.theta)
-        .ok_or("the storage model failed at the optimum")?;
+    let a = p.simulate(&m.theta).ok_or(SolverError::ModelFailed)?;
     let residuals: Vec<Residual> = p
         .obs
         .iter()
         .map(|o| {
-            let pred = LaneProblem::predict(o, &a);
+            let pred = p.predict(o, &a);
             Residual {
                 what: o.what,
-                age_days: o.age_s / 86400.0,
+                age_s: o.age_s,
                 measured: o.value,
                 predicted: pred,
                 normalised: (pred - o.value) / o.sigma,
@@ -359,7 +366,7 @@ pub fn fit_lane(p: &LaneProblem, prior: [f64; 2]) -> Result<LaneFit, String> {
             .sqrt()
     };
     let (smd, sr) = (m.theta[0].exp(), m.theta[1].exp());
-    let c = creep_from(p.case, &m.theta);
+    let c = creep_from(p.material, &m.theta);
     Ok(LaneFit {
         position_m: p.wound.lanes[p.lane].position_m,
         params: FittedParams {

@@ -3,10 +3,12 @@
 //! **Invariant:** sees the physics only through [`crate::storage`]'s lane evaluation; no I/O.
 
 pub mod creep_curve;
+mod hardness;
 mod lane_fit;
 pub mod observe;
 pub mod synth;
 
+pub use hardness::hardness_map;
 pub use lane_fit::{
     creep_from, fit_lane, hessian2, inverse_pd, minimise, scaled, FittedParams, LaneFit,
     LaneProblem, Minimum, Objective, Residual, Uncertainty, MAX_ITERS, POOLED_PRIOR_SD_LN,
@@ -15,19 +17,70 @@ pub use lane_fit::{
 
 use crate::case::Case;
 use crate::lanes::Lanes;
-use crate::storage::{age, prepare, AgeOptions, Aged, LaneCreep};
+use crate::numeric::spread;
+use crate::storage::{
+    age_prepared, prepare, AgeError, AgeOptions, Aged, HardnessMap, LaneCreep, Prepared, StoreInput,
+};
+use crate::units::DAY_S;
 use crate::winding::Wound;
 use serde::Serialize;
+
+/// Why a minimisation gave no answer.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+pub enum SolverError {
+    /// The optimiser (argmin) stopped with an error; its own message.
+    #[error("{0}")]
+    Optimiser(String),
+    #[error("the optimiser returned no parameters")]
+    NoParameters,
+    #[error("the storage model failed at the optimum")]
+    ModelFailed,
+}
+
+impl SolverError {
+    /// An optimiser's error, kept as its message.
+    fn optimiser(e: impl std::fmt::Display) -> SolverError {
+        SolverError::Optimiser(e.to_string())
+    }
+}
 
 /// The fit failed.
 #[derive(Debug, Clone, PartialEq, thiserror::Error)]
 pub enum FitError {
-    #[error("fit of lane {lane} failed: {message}")]
-    Lane { lane: usize, message: String },
+    #[error("fit of lane {lane} failed: {source}")]
+    Lane { lane: usize, source: SolverError },
     #[error("pooled fit failed: {0}")]
-    Pooled(String),
+    Pooled(SolverError),
+    #[error("lab creep curve fit ({direction}) failed: {source}")]
+    LabCurve {
+        direction: &'static str,
+        source: SolverError,
+    },
     #[error(transparent)]
-    Age(#[from] crate::storage::AgeError),
+    Age(#[from] AgeError),
+}
+
+/// What storage uses of a case, with step ends at `output_times_s` (s).
+pub fn store_input<'a>(case: &'a Case, output_times_s: &'a [f64]) -> StoreInput<'a> {
+    StoreInput {
+        material: &case.material,
+        roll: &case.roll,
+        wraps: &case.wraps,
+        storage: &case.storage,
+        output_times_s,
+    }
+}
+
+/// The roll through storage with the grade's creep, at the measurement ages, with the hardness
+/// map set from the case's calibration or measurements ([`hardness_map`]).
+pub fn age_measured(
+    case: &Case,
+    lanes: &Lanes,
+    wound: &Wound,
+    opt: &AgeOptions,
+) -> Result<Aged, FitError> {
+    let (prep, map) = prepared(case, lanes, wound, opt)?;
+    Ok(age_prepared(&case.material, &prep, wound, None, &map)?)
 }
 
 /// Measurement noise used in the fit.
@@ -100,13 +153,16 @@ pub fn with_lab_creep(case: &Case) -> Result<(Case, Vec<String>), FitError> {
             let c0 = &curves[0];
             (c0.stress_pa / c0.strains[0], m.creep.radial)
         };
-        let f = creep_curve::fit_many(&curves, e0, &b0).map_err(FitError::Pooled)?;
+        let f = creep_curve::fit_many(&curves, e0, &b0).map_err(|source| FitError::LabCurve {
+            direction: dir,
+            source,
+        })?;
         notes.push(format!(
             "{dir} creep from {} lab curve(s): delayed {:.3}, retardation {:.2} d, viscous time {:.0} d, elastic modulus {:.3} GPa{}",
             curves.len(),
             f.burgers.delayed,
-            f.burgers.retardation_s / 86400.0,
-            f.burgers.viscous_time_s / 86400.0,
+            f.burgers.retardation_s / DAY_S,
+            f.burgers.viscous_time_s / DAY_S,
             f.modulus_pa / 1e9,
             if f.converged { "" } else { " (lab-curve fit hit its iteration limit)" }
         ));
@@ -128,16 +184,47 @@ pub fn fit_roll(
 ) -> Result<RollFit, FitError> {
     let (lab_case, lab_notes) = with_lab_creep(case)?;
     let case = &lab_case;
-    let prep = prepare(case, lanes, wound, opt);
-    let (obs, mut notes) = observe::observations(case, lanes, &prep.timeline);
+    let (prep, map) = prepared(case, lanes, wound, opt)?;
+    let (obs, mut notes) =
+        observe::observations(lanes, &prep.timeline, case.hardness.repeatability);
     notes.extend(lab_notes);
     let problems: Vec<LaneProblem> = obs
         .into_iter()
         .enumerate()
-        .map(|(i, o)| LaneProblem::new(case, wound, &prep, i, o))
+        .map(|(i, o)| LaneProblem::new(&case.material, wound, &prep, &map, i, o))
         .collect();
+    let (pooled, pooled_evaluations) = pooled_fit(&problems)?;
+    let prior = [pooled.theta[0], pooled.theta[1]];
+    let (fits, lane_evaluations) = lane_fits(&problems, prior)?;
+    if problems.iter().all(|p| p.steps == 0) {
+        notes.push(
+            "all measurements are at one age: creep parameters cannot be identified and stay at the roll's prior (grade values)".into(),
+        );
+    }
+    let creep: Vec<LaneCreep> = fits.iter().map(|f| f.creep).collect();
+    let aged = age_prepared(&case.material, &prep, wound, Some(&creep), &map)?;
+    let strain = aged.final_strain_at_unwind();
+    let spread_strain = spread(&strain);
+    Ok(RollFit {
+        lanes: fits,
+        pooled_md_creep_scale: prior[0].exp(),
+        pooled_radial_creep_scale: prior[1].exp(),
+        pooled_converged: pooled.converged,
+        strain_at_unwind: strain,
+        spread_strain,
+        spread_mm_per_m: spread_strain * 1e3,
+        prior_sd_ln: PRIOR_SD_LN,
+        noise: noise(case),
+        evaluations: pooled_evaluations + lane_evaluations,
+        notes,
+        aged,
+    })
+}
+
+/// The pooled fit of one pair of scales on up to six evenly spread lanes, with a prior towards
+/// the grade; returns the minimum and its lane simulations.
+fn pooled_fit(problems: &[LaneProblem]) -> Result<(Minimum, u64), FitError> {
     let n = problems.len();
-    // pooled fit on up to six evenly spread lanes
     let pick: Vec<usize> = if n <= 6 {
         (0..n).collect()
     } else {
@@ -145,66 +232,67 @@ pub fn fit_roll(
     };
     let sample: Vec<LaneProblem> = pick
         .iter()
-        .map(|&i| LaneProblem::new(case, wound, &prep, i, problems[i].obs.clone()))
+        .map(|&i| {
+            let p = &problems[i];
+            LaneProblem::new(p.material, p.wound, p.prep, p.hardness, i, p.obs.clone())
+        })
         .collect();
-    let pooled_obj = Objective {
+    let obj = Objective {
         lanes: &sample,
         prior: [0.0, 0.0],
         prior_sd: POOLED_PRIOR_SD_LN,
     };
-    let pooled = minimise(&pooled_obj, [0.0, 0.0]).map_err(FitError::Pooled)?;
-    let mut evaluations = pooled.evaluations * sample.len() as u64;
-    let prior = [pooled.theta[0], pooled.theta[1]];
-    let mut fits = Vec::with_capacity(n);
-    for (i, p) in problems.iter().enumerate() {
-        let f = fit_lane(p, prior).map_err(|m| FitError::Lane {
-            lane: i,
-            message: m,
-        })?;
+    let m = minimise(&obj, [0.0, 0.0]).map_err(FitError::Pooled)?;
+    let evaluations = m.evaluations * sample.len() as u64;
+    Ok((m, evaluations))
+}
+
+/// Each lane's fit with a prior towards the pooled log-scales; returns the fits and their
+/// simulations.
+fn lane_fits(problems: &[LaneProblem], prior: [f64; 2]) -> Result<(Vec<LaneFit>, u64), FitError> {
+    let mut fits = Vec::with_capacity(problems.len());
+    let mut evaluations = 0;
+    for (lane, p) in problems.iter().enumerate() {
+        let f = fit_lane(p, prior).map_err(|source| FitError::Lane { lane, source })?;
         evaluations += f.evaluations;
         fits.push(f);
     }
-    if problems.iter().all(|p| p.steps == 0) {
-        notes.push(
-            "all measurements are at one age: creep parameters cannot be identified and stay at the roll's prior (grade values)".into(),
-        );
-    }
-    let creep: Vec<LaneCreep> = fits.iter().map(|f| f.creep).collect();
-    let aged = age(case, lanes, wound, Some(&creep), opt)?;
-    let last = aged.times_days.len() - 1;
-    let strain: Vec<f64> = aged
-        .lanes
-        .iter()
-        .map(|l| l.strain_at_unwind[last])
-        .collect();
-    let lo = strain.iter().cloned().fold(f64::INFINITY, f64::min);
-    let hi = strain.iter().cloned().fold(f64::NEG_INFINITY, f64::max);
-    Ok(RollFit {
-        lanes: fits,
-        pooled_md_creep_scale: prior[0].exp(),
-        pooled_radial_creep_scale: prior[1].exp(),
-        pooled_converged: pooled.converged,
-        strain_at_unwind: strain,
-        spread_strain: hi - lo,
-        spread_mm_per_m: (hi - lo) * 1e3,
-        prior_sd_ln: PRIOR_SD_LN,
-        noise: Noise {
-            hardness: case.hardness.repeatability,
-            hardness_source: if case
-                .defaults
-                .iter()
-                .any(|d| d.field == "hardness.repeatability")
-            {
-                crate::case::defaults::HARDNESS_REPEAT.source.to_string()
-            } else {
-                "case file".into()
-            },
-            diameter_m: observe::DIAMETER_REPEATABILITY_M,
-            diameter_source:
-                "circumference tape read to about 0.1 mm of diameter (common practice)",
+    Ok((fits, evaluations))
+}
+
+/// The measurement noise a case's fit uses, with where each value came from.
+fn noise(case: &Case) -> Noise {
+    Noise {
+        hardness: case.hardness.repeatability,
+        hardness_source: if case
+            .defaults
+            .iter()
+            .any(|d| d.field == "hardness.repeatability")
+        {
+            crate::case::defaults::HARDNESS_REPEAT.source.to_string()
+        } else {
+            "case file".into()
         },
-        evaluations,
-        notes,
-        aged,
-    })
+        diameter_m: observe::DIAMETER_REPEATABILITY_M,
+        diameter_source: "circumference tape read to about 0.1 mm of diameter (common practice)",
+    }
+}
+
+/// The prepared storage run and hardness map a fit of `case` works on.
+pub fn prepared(
+    case: &Case,
+    lanes: &Lanes,
+    wound: &Wound,
+    opt: &AgeOptions,
+) -> Result<(Prepared, HardnessMap), FitError> {
+    let ages = lanes.measurement_ages();
+    let prep = prepare(&store_input(case, &ages), lanes, opt);
+    let map = hardness_map(
+        case.hardness.calibration.as_ref(),
+        &case.material,
+        lanes,
+        wound,
+        &prep,
+    )?;
+    Ok((prep, map))
 }

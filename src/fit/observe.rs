@@ -1,8 +1,10 @@
 //! Measurements turned into per-lane observations at the model's time steps.
 
-use crate::case::{Case, Measure};
-use crate::lanes::{onto, Lanes};
+use crate::case::Measure;
+use crate::lanes::Lanes;
+use crate::numeric::closest_index;
 use crate::storage::Timeline;
+use crate::units::DAY_S;
 use serde::Serialize;
 
 /// Repeatability of a diameter reading, m (common practice: a circumference tape read to about
@@ -36,31 +38,26 @@ pub struct Obs {
 
 /// The step whose end time is closest to `age` (s).
 pub fn step_of(tl: &Timeline, age: f64) -> usize {
-    tl.times
-        .iter()
-        .enumerate()
-        .min_by(|a, b| (a.1 - age).abs().total_cmp(&(b.1 - age).abs()))
-        .map(|(i, _)| i)
-        .unwrap_or(0)
+    closest_index(&tl.times, age)
 }
 
-/// Observations per lane, and notes on measurements that could not be used.
-pub fn observations(case: &Case, lanes: &Lanes, tl: &Timeline) -> (Vec<Vec<Obs>>, Vec<String>) {
+/// Observations per lane from the lanes' measurement series, each with one-sigma repeatability:
+/// hardness `hardness_sd` (scale units), diameter [`DIAMETER_REPEATABILITY_M`]; and notes on
+/// measurements that could not be used.
+pub fn observations(
+    lanes: &Lanes,
+    tl: &Timeline,
+    hardness_sd: f64,
+) -> (Vec<Vec<Obs>>, Vec<String>) {
     let n = lanes.lanes.len();
-    let centres = lanes.positions();
     let mut out = vec![Vec::new(); n];
     let mut notes = Vec::new();
-    let first_dia = case
-        .profiles
-        .iter()
-        .filter(|p| p.what == Measure::Diameter)
-        .min_by(|a, b| a.age_s.total_cmp(&b.age_s));
-    let base = first_dia.filter(|p| p.age_s < 86400.0).map(|p| {
-        let (v, _) = onto(p, &centres);
-        (step_of(tl, p.age_s), v, p.age_s)
-    });
-    for p in &case.profiles {
-        let (vals, _) = onto(p, &centres);
+    let base = lanes
+        .earliest(Measure::Diameter)
+        .filter(|s| s.age_s < DAY_S)
+        .map(|s| (step_of(tl, s.age_s), &s.values, s.age_s));
+    for p in &lanes.series {
+        let vals = &p.values;
         let step = step_of(tl, p.age_s);
         match p.what {
             Measure::Caliper => {}
@@ -71,7 +68,7 @@ pub fn observations(case: &Case, lanes: &Lanes, tl: &Timeline) -> (Vec<Vec<Obs>>
                         age_s: p.age_s,
                         step,
                         value: *v,
-                        sigma: case.hardness.repeatability,
+                        sigma: hardness_sd,
                         kind: ObsKind::Absolute,
                     });
                 }
@@ -92,7 +89,7 @@ pub fn observations(case: &Case, lanes: &Lanes, tl: &Timeline) -> (Vec<Vec<Obs>>
                 Some(_) => {}
                 None => notes.push(format!(
                     "diameter profile at {:.0} d has no winding-time diameter to compare with; not used in the fit",
-                    p.age_s / 86400.0
+                    p.age_s / DAY_S
                 )),
             },
         }

@@ -3,7 +3,8 @@
 
 use crate::case::{Case, Measure, Profile};
 use crate::lanes::Lanes;
-use crate::storage::{age, AgeError, AgeOptions, LaneCreep};
+use crate::numeric::closest_index;
+use crate::storage::{age_prepared, prepare, AgeError, AgeOptions, LaneCreep};
 use crate::winding::Wound;
 
 /// SplitMix64 generator (Steele, Lea and Flood 2014): small, seeded, reproducible everywhere.
@@ -34,68 +35,75 @@ impl Rng {
     }
 }
 
-/// Hardness and diameter profiles at `ages_s` (s) at the lane centres, predicted with `creep`
-/// per lane plus Gaussian noise of `hardness_sd` (scale units) and `diameter_sd_m` (m).
-/// Diameters are the model's lane diameters; hardness follows the case's hardness map.
-#[allow(clippy::too_many_arguments)]
+/// What to synthesise: the true creep per lane, the ages, the noise and the seed.
+#[derive(Debug, Clone, Copy)]
+pub struct Truth<'a> {
+    /// Creep parameters per lane.
+    pub creep: &'a [LaneCreep],
+    /// Ages of the readings, s.
+    pub ages_s: &'a [f64],
+    /// One-sigma noise of a hardness reading, scale units.
+    pub hardness_sd: f64,
+    /// One-sigma noise of a diameter reading, m.
+    pub diameter_sd_m: f64,
+    pub seed: u64,
+}
+
+/// Hardness and diameter profiles at `truth.ages_s` at the lane centres, predicted with
+/// `truth.creep` per lane plus Gaussian noise. Diameters are the model's lane diameters; hardness
+/// reads the surface pressure through the map a fit of the case would use
+/// ([`super::hardness_map`]: its calibration, else anchored at its own earliest hardness
+/// readings, else the default map of 60 units at 250 kPa), so readings are on the hardness scale.
 pub fn profiles(
     case: &Case,
     lanes: &Lanes,
     wound: &Wound,
-    creep: &[LaneCreep],
-    ages_s: &[f64],
-    hardness_sd: f64,
-    diameter_sd_m: f64,
-    seed: u64,
+    truth: &Truth,
 ) -> Result<Vec<Profile>, AgeError> {
-    let mut c = case.clone();
-    // make sure the time grid has steps at the requested ages
-    c.profiles.extend(ages_s.iter().map(|&a| Profile {
-        what: Measure::Hardness,
-        age_s: a,
-        positions_m: vec![],
-        values: vec![],
-        origin: String::new(),
-    }));
-    let a = age(&c, lanes, wound, Some(creep), &AgeOptions::default())?;
-    let mut rng = Rng::new(seed);
+    let mut times = lanes.measurement_ages();
+    times.extend_from_slice(truth.ages_s);
+    let prep = prepare(
+        &super::store_input(case, &times),
+        lanes,
+        &AgeOptions::default(),
+    );
+    let map = super::hardness_map(
+        case.hardness.calibration.as_ref(),
+        &case.material,
+        lanes,
+        wound,
+        &prep,
+    )?;
+    let a = age_prepared(&case.material, &prep, wound, Some(truth.creep), &map)?;
+    let mut rng = Rng::new(truth.seed);
     let positions = lanes.positions();
+    let origin = format!("synthetic (seed {})", truth.seed);
     let mut out = Vec::new();
-    for &t in ages_s {
-        let k = a
-            .times_days
-            .iter()
-            .enumerate()
-            .min_by(|x, y| {
-                (x.1 * 86400.0 - t)
-                    .abs()
-                    .total_cmp(&(y.1 * 86400.0 - t).abs())
-            })
-            .map(|(i, _)| i)
-            .unwrap_or(0);
+    for &t in truth.ages_s {
+        let k = closest_index(&a.times_s, t);
         let h: Vec<f64> = a
             .lanes
             .iter()
-            .map(|l| l.hardness[k] + hardness_sd * rng.normal())
+            .map(|l| l.hardness[k] + truth.hardness_sd * rng.normal())
             .collect();
         let d: Vec<f64> = a
             .lanes
             .iter()
-            .map(|l| l.diameter_m[k] + diameter_sd_m * rng.normal())
+            .map(|l| l.diameter_m[k] + truth.diameter_sd_m * rng.normal())
             .collect();
         out.push(Profile {
             what: Measure::Hardness,
             age_s: t,
             positions_m: positions.clone(),
             values: h,
-            origin: format!("synthetic (seed {seed})"),
+            origin: origin.clone(),
         });
         out.push(Profile {
             what: Measure::Diameter,
             age_s: t,
             positions_m: positions.clone(),
             values: d,
-            origin: format!("synthetic (seed {seed})"),
+            origin: origin.clone(),
         });
     }
     Ok(out)

@@ -2,32 +2,26 @@
 
 use super::{f, pos, table};
 use crate::case::Case;
+use crate::lanes::Lanes;
+use crate::numeric::spread;
 use crate::storage::Aged;
-use crate::units::System;
+use crate::units::{System, DAY_S};
 use serde_json::{json, Value};
 use std::fmt::Write;
 
-/// Width-weighted mean of the last value of each lane's series.
-fn spread(v: &[f64]) -> (f64, f64, f64) {
-    let mean = v.iter().sum::<f64>() / v.len().max(1) as f64;
-    let lo = v.iter().cloned().fold(f64::INFINITY, f64::min);
-    let hi = v.iter().cloned().fold(f64::NEG_INFINITY, f64::max);
-    (mean, lo, hi)
-}
-
-/// Per-lane table at the end of storage plus a time line at stretch ends.
-pub fn text(c: &Case, a: &Aged, sys: System) -> String {
+/// Per-lane table at the end of storage plus a time line at stretch ends; means are of the mean
+/// lane (width-weighted over `lanes`).
+pub fn text(c: &Case, lanes: &Lanes, a: &Aged, sys: System) -> String {
     let mut out = String::new();
-    let n = a.times_days.len() - 1;
+    let n = a.last();
     let _ = writeln!(
         out,
         "Case {}: {} lanes through {:.1} d of storage",
         c.id,
         a.lanes.len(),
-        a.times_days[n]
+        a.times_s[n] / DAY_S
     );
-    let unw: Vec<f64> = a.lanes.iter().map(|l| l.strain_at_unwind[n]).collect();
-    let (mean, _, _) = spread(&unw);
+    let mean = lanes.mean(&a.final_strain_at_unwind());
     let mut t = table(&[
         "lane",
         "moisture %",
@@ -57,32 +51,7 @@ pub fn text(c: &Case, a: &Aged, sys: System) -> String {
         ]);
     }
     let _ = writeln!(out, "{t}");
-    let mut tl = table(&[
-        "day",
-        "moisture % (mean)",
-        "hardness (mean)",
-        "surface pressure kPa (mean)",
-        "length spread mm/m",
-    ]);
-    let marks: Vec<usize> = {
-        let mut m: Vec<usize> = (0..=4).map(|k| k * n / 4).collect();
-        m.dedup();
-        m
-    };
-    for &k in &marks {
-        let col = |g: &dyn Fn(usize) -> f64| {
-            a.lanes.iter().enumerate().map(|(i, _)| g(i)).sum::<f64>() / a.lanes.len() as f64
-        };
-        let s: Vec<f64> = a.lanes.iter().map(|l| l.strain_at_unwind[k]).collect();
-        let (_, lo, hi) = spread(&s);
-        tl.add_row(vec![
-            f(a.times_days[k], 1),
-            f(col(&|i| a.lanes[i].moisture_pct[k]), 2),
-            f(col(&|i| a.lanes[i].hardness[k]), 1),
-            f(col(&|i| a.lanes[i].surface_pressure_pa[k]) / 1e3, 1),
-            f((hi - lo) * 1e3, 3),
-        ]);
-    }
+    let tl = time_line(lanes, a);
     let _ = writeln!(out, "{tl}");
     let _ = writeln!(
         out,
@@ -107,11 +76,41 @@ pub fn text(c: &Case, a: &Aged, sys: System) -> String {
     out
 }
 
-/// JSON with arrays over `times_days`.
+/// The mean lane and the length spread at five times over storage.
+fn time_line(lanes: &Lanes, a: &Aged) -> comfy_table::Table {
+    let n = a.last();
+    let mut tl = table(&[
+        "day",
+        "moisture % (mean)",
+        "hardness (mean)",
+        "surface pressure kPa (mean)",
+        "length spread mm/m",
+    ]);
+    let marks: Vec<usize> = {
+        let mut m: Vec<usize> = (0..=4).map(|k| k * n / 4).collect();
+        m.dedup();
+        m
+    };
+    for &k in &marks {
+        let col =
+            |g: &dyn Fn(usize) -> f64| lanes.mean(&(0..a.lanes.len()).map(g).collect::<Vec<_>>());
+        let s: Vec<f64> = a.lanes.iter().map(|l| l.strain_at_unwind[k]).collect();
+        tl.add_row(vec![
+            f(a.times_s[k] / DAY_S, 1),
+            f(col(&|i| a.lanes[i].moisture_pct[k]), 2),
+            f(col(&|i| a.lanes[i].hardness[k]), 1),
+            f(col(&|i| a.lanes[i].surface_pressure_pa[k]) / 1e3, 1),
+            f(spread(&s) * 1e3, 3),
+        ]);
+    }
+    tl
+}
+
+/// JSON with arrays over `times_s`.
 pub fn json(c: &Case, a: &Aged) -> Value {
     json!({
         "case": c.id,
-        "times_days": a.times_days,
+        "times_s": a.times_s,
         "radius_m": a.radius_m,
         "equilibrium_moisture_pct": a.equilibrium_moisture_pct,
         "hardness_map": a.hardness_map,

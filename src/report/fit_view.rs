@@ -3,12 +3,13 @@
 use super::{pos, table};
 use crate::case::{Case, Measure};
 use crate::fit::RollFit;
-use crate::units::System;
+use crate::lanes::Lanes;
+use crate::units::{System, DAY_S};
 use serde_json::{json, Value};
 use std::fmt::Write;
 
-/// Per-lane table of the fit.
-pub fn text(c: &Case, f: &RollFit, sys: System) -> String {
+/// Per-lane table of the fit; "vs mean" is against the mean lane (width-weighted over `lanes`).
+pub fn text(c: &Case, lanes: &Lanes, f: &RollFit, sys: System) -> String {
     let mut out = String::new();
     let _ = writeln!(
         out,
@@ -25,7 +26,7 @@ pub fn text(c: &Case, f: &RollFit, sys: System) -> String {
         if f.pooled_converged { "" } else { " (pooled fit hit its iteration limit)" },
         f.prior_sd_ln.exp()
     );
-    let mean = f.strain_at_unwind.iter().sum::<f64>() / f.strain_at_unwind.len().max(1) as f64;
+    let mean = lanes.mean(&f.strain_at_unwind);
     let mut t = table(&[
         "lane",
         "MD creep scale",
@@ -58,38 +59,7 @@ pub fn text(c: &Case, f: &RollFit, sys: System) -> String {
         ]);
     }
     let _ = writeln!(out, "{t}");
-    // residuals of the worst-fitting lane
-    if let Some((i, worst)) = f
-        .lanes
-        .iter()
-        .enumerate()
-        .max_by(|a, b| a.1.rmse.total_cmp(&b.1.rmse))
-    {
-        let mut r = table(&[
-            "lane",
-            "measure",
-            "age d",
-            "measured",
-            "predicted",
-            "residual / noise",
-        ]);
-        for x in &worst.residuals {
-            let (m, p) = match x.what {
-                Measure::Hardness => (format!("{:.1}", x.measured), format!("{:.1}", x.predicted)),
-                _ => (
-                    format!("{:+.2} mm", x.measured * 1e3),
-                    format!("{:+.2} mm", x.predicted * 1e3),
-                ),
-            };
-            r.add_row(vec![
-                i.to_string(),
-                format!("{:?}", x.what).to_lowercase(),
-                format!("{:.0}", x.age_days),
-                m,
-                p,
-                format!("{:+.2}", x.normalised),
-            ]);
-        }
+    if let Some(r) = worst_residuals(f) {
         let _ = writeln!(out, "Residuals of the worst-fitting lane:\n{r}");
     }
     let _ = writeln!(
@@ -106,6 +76,41 @@ pub fn text(c: &Case, f: &RollFit, sys: System) -> String {
         let _ = writeln!(out, "note: {n}");
     }
     out
+}
+
+/// Residual table of the worst-fitting lane, if any lane was fitted.
+fn worst_residuals(f: &RollFit) -> Option<comfy_table::Table> {
+    let (i, worst) = f
+        .lanes
+        .iter()
+        .enumerate()
+        .max_by(|a, b| a.1.rmse.total_cmp(&b.1.rmse))?;
+    let mut r = table(&[
+        "lane",
+        "measure",
+        "age d",
+        "measured",
+        "predicted",
+        "residual / noise",
+    ]);
+    for x in &worst.residuals {
+        let (m, p) = match x.what {
+            Measure::Hardness => (format!("{:.1}", x.measured), format!("{:.1}", x.predicted)),
+            _ => (
+                format!("{:+.2} mm", x.measured * 1e3),
+                format!("{:+.2} mm", x.predicted * 1e3),
+            ),
+        };
+        r.add_row(vec![
+            i.to_string(),
+            format!("{:?}", x.what).to_lowercase(),
+            format!("{:.0}", x.age_s / DAY_S),
+            m,
+            p,
+            format!("{:+.2}", x.normalised),
+        ]);
+    }
+    Some(r)
 }
 
 /// JSON of the fit.

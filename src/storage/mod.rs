@@ -1,20 +1,28 @@
 //! Storage: creep, stress relaxation and moisture change in the stored roll, per lane.
 //!
-//! **Invariant:** pure functions of the case, lanes and wound-in state; no I/O, no printing,
-//! nothing of rules.
+//! **Invariant:** pure functions of the material, roll, storage history, lanes and wound-in
+//! state; no I/O, no printing, nothing of rules. Storage never reads measurements.
 
 mod ageing;
 mod creep;
+mod hardness;
 pub mod moisture;
+mod record;
 mod shift;
 mod sorption;
+mod timeline;
 
 pub use ageing::{
-    age, age_lane, age_lane_with, drive, moisture as moisture_history, prepare, timeline, AgeError,
-    AgeOptions, Aged, HardnessMap, LaneAged, LaneCreep, LaneDrive, MoistureHistory, Prepared,
-    Timeline, DEFAULT_HARDNESS_SLOPE, FLOOR_CONTACT,
+    age, age_lane_with, age_prepared, drive, prepare, AgeError, AgeOptions, Aged, FinalStress,
+    LaneAged, LaneCreep, LaneDrive, LaneRun, Prepared,
 };
 pub use ageing::{initial_stress as initial_stress_of, zone_pressure};
 pub use creep::{creep_compliance, relaxation_modulus, step_coefficients, step_update, CreepState};
+pub use hardness::{HardnessMap, DEFAULT_HARDNESS_SLOPE, DEFAULT_PRESSURE_REF_PA};
+pub use record::{FullRecord, Recorder, Snapshot, Track};
 pub use shift::{arrhenius_shift, moisture_shift, GAS_R, T_REF_K};
 pub use sorption::gab_moisture;
+pub use timeline::{
+    moisture as moisture_history, timeline, MoistureHistory, Step, StoreInput, Timeline,
+    FLOOR_CONTACT,
+};

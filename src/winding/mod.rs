@@ -2,7 +2,7 @@
 //! nip-induced wound-in tension (Good, Wu and Fikes 1994), centrifugal stresses of the spinning
 //! roll (Timoshenko and Goodier) and lanes coupled through the shared web.
 //!
-//! **Invariant:** pure functions of the case and lanes; no I/O, no printing, nothing of rules.
+//! **Invariant:** pure functions of the material, roll, winder settings and lanes; no I/O, no printing, nothing of rules.
 
 mod centrifugal;
 mod core;
@@ -12,6 +12,6 @@ mod roll;
 pub use self::core::{core_stiffness, of as core_of};
 pub use centrifugal::{disk_stress, lift_off_speed};
 pub use roll::{
-    lane_model, wind, LaneStress, LaneSummary, Options, WindError, Wound, DEFAULT_LEVELLING,
-    SURFACE_ZONE_M,
+    lane_model, wind, LaneStress, LaneSummary, Options, WindError, WindInput, Wound,
+    DEFAULT_LEVELLING, SURFACE_ZONE_M,
 };

@@ -14,9 +14,28 @@
 
 use super::centrifugal::{disk_stress, lift_off_speed};
 use super::hakiel::{LaneModel, LaneState};
-use crate::case::Case;
+use crate::case::{Material, Roll, Winding};
 use crate::lanes::Lanes;
 use serde::Serialize;
+
+/// What winding uses of a case: the web, the roll being built and the winder's settings.
+#[derive(Debug, Clone, Copy)]
+pub struct WindInput<'a> {
+    pub material: &'a Material,
+    pub roll: &'a Roll,
+    pub winding: &'a Winding,
+}
+
+impl<'a> WindInput<'a> {
+    /// Winding inputs from their parts.
+    pub fn new(material: &'a Material, roll: &'a Roll, winding: &'a Winding) -> Self {
+        WindInput {
+            material,
+            roll,
+            winding,
+        }
+    }
+}
 
 /// Discretisation and coupling options.
 #[derive(Debug, Clone, Copy, PartialEq)]
@@ -151,28 +170,28 @@ fn shared_strain(k: &[f64], s: &[f64], w: &[f64], total: f64) -> f64 {
     0.5 * (lo + hi)
 }
 
-/// Lane model of a case.
-pub fn lane_model(case: &Case) -> LaneModel {
+/// Lane model of a input.
+pub fn lane_model(input: &WindInput) -> LaneModel {
     LaneModel {
-        e_t: case.material.md_modulus_pa,
-        stack: case.material.stack,
-        poisson: case.material.poisson,
-        core_stiffness: super::core::of(&case.roll.core, 0.5 * case.roll.core_diameter_m),
+        e_t: input.material.md_modulus_pa,
+        stack: input.material.stack,
+        poisson: input.material.poisson,
+        core_stiffness: super::core::of(&input.roll.core, 0.5 * input.roll.core_diameter_m),
     }
 }
 
 /// Accrete all lanes on a grid of `nodes` nodes; returns the lane states and layers per node.
 fn accrete(
-    case: &Case,
+    input: &WindInput,
     lanes: &Lanes,
     nodes: usize,
     levelling: f64,
     c_eff: f64,
 ) -> Result<(Vec<LaneState>, f64), WindError> {
-    let mat = &case.material;
-    let model = lane_model(case);
-    let rc = 0.5 * case.roll.core_diameter_m;
-    let big_r = 0.5 * case.roll.diameter_m;
+    let mat = &input.material;
+    let model = lane_model(input);
+    let rc = 0.5 * input.roll.core_diameter_m;
+    let big_r = 0.5 * input.roll.diameter_m;
     let h = (big_r - rc) / (nodes as f64 - 1.0);
     let per_node = h / c_eff;
     let grid: Vec<f64> = (0..nodes).map(|j| rc + j as f64 * h).collect();
@@ -182,9 +201,9 @@ fn accrete(
     let width: f64 = widths.iter().sum();
     let stiff: Vec<f64> = cal.iter().map(|c| mat.md_modulus_pa * c).collect();
     let mut states: Vec<LaneState> = (0..n).map(|_| LaneState::new(grid.clone())).collect();
-    let v = case.winding.speed_m_s;
+    let v = input.winding.speed_m_s;
     let rho = mat.density_kg_m3;
-    let nip_part = mat.friction * case.winding.nip_n_per_m;
+    let nip_part = mat.friction * input.winding.nip_n_per_m;
     let mut radii = vec![rc; n];
     let mut offs = vec![0.0; n];
     let mut tens = vec![0.0; n];
@@ -202,7 +221,7 @@ fn accrete(
             }
         }
         let rbar = radii.iter().zip(&widths).map(|(r, w)| r * w).sum::<f64>() / width;
-        let t_web = case.winding.tension.at(2.0 * rbar.max(rk));
+        let t_web = input.winding.tension.at(2.0 * rbar.max(rk));
         let e0 = shared_strain(&stiff, &offs, &widths, t_web * width);
         for i in 0..n {
             tens[i] = stiff[i] * (e0 + offs[i]).max(0.0);
@@ -249,37 +268,19 @@ fn richardson(fine: &mut [f64], coarse: &[f64]) {
     }
 }
 
-/// Wind every lane of the roll.
-///
-/// Each lane's wound-in tension is its share of the web tension plus the nip-induced part
-/// (friction x nip load, Good, Wu and Fikes 1994) less rho c v^2 (a layer spinning at surface
-/// speed v needs that hoop force to hold itself, so it does not press on the roll). Tangential
-/// stresses are per unit of compressed layer thickness on the shared grid, so that every layer adds
-/// interlayer pressure p = sigma_w h / r and radial equilibrium r sigma_r = -integral sigma_t holds.
-///
-/// Lumping layers into nodes converges at first order in the lump size (the layers are
-/// discrete, the nodes are not), so the result is Richardson-extrapolated from the requested grid
-/// and one with half as many intervals, which makes it second order.
-pub fn wind(case: &Case, lanes: &Lanes, opt: Options) -> Result<Wound, WindError> {
-    if opt.nodes < 5 {
-        return Err(WindError::Options("nodes must be at least 5".into()));
-    }
-    if !(0.0..=1.0).contains(&opt.levelling) {
-        return Err(WindError::Options("levelling must be within 0..1".into()));
-    }
-    let mat = &case.material;
-    let model = lane_model(case);
-    let rc = 0.5 * case.roll.core_diameter_m;
-    let big_r = 0.5 * case.roll.diameter_m;
-    // The stated diameter is the as-wound one: find the compressed mean caliper c_eff for which
-    // the compressed build of the mean lane fills the roll (fixed point on a coarse grid).
+/// The stated diameter is the as-wound one: the compressed mean caliper c_eff (m) for which the
+/// compressed build of the mean lane fills the roll (fixed point on a coarse grid).
+fn compressed_caliper(input: &WindInput, lanes: &Lanes, opt: Options) -> Result<f64, WindError> {
+    let model = lane_model(input);
+    let rc = 0.5 * input.roll.core_diameter_m;
+    let big_r = 0.5 * input.roll.diameter_m;
     let widths = lanes.widths();
     let width: f64 = widths.iter().sum();
     let cal = lanes.calipers();
     let mut c_eff = lanes.mean_caliper_m;
     let coarse_nodes = opt.nodes.clamp(21, 121);
     for _ in 0..8 {
-        let (st, pn) = accrete(case, lanes, coarse_nodes, opt.levelling, c_eff)?;
+        let (st, pn) = accrete(input, lanes, coarse_nodes, opt.levelling, c_eff)?;
         let built = st
             .iter()
             .zip(&widths)
@@ -293,6 +294,35 @@ pub fn wind(case: &Case, lanes: &Lanes, opt: Options) -> Result<Wound, WindError
             break;
         }
     }
+    Ok(c_eff)
+}
+
+/// Wind every lane of the roll.
+///
+/// Each lane's wound-in tension is its share of the web tension plus the nip-induced part
+/// (friction x nip load, Good, Wu and Fikes 1994) less rho c v^2 (a layer spinning at surface
+/// speed v needs that hoop force to hold itself, so it does not press on the roll). Tangential
+/// stresses are per unit of compressed layer thickness on the shared grid, so that every layer adds
+/// interlayer pressure p = sigma_w h / r and radial equilibrium r sigma_r = -integral sigma_t holds.
+///
+/// Lumping layers into nodes converges at first order in the lump size (the layers are
+/// discrete, the nodes are not), so the result is Richardson-extrapolated from the requested grid
+/// and one with half as many intervals, which makes it second order.
+pub fn wind(input: &WindInput, lanes: &Lanes, opt: Options) -> Result<Wound, WindError> {
+    if opt.nodes < 5 {
+        return Err(WindError::Options("nodes must be at least 5".into()));
+    }
+    if !(0.0..=1.0).contains(&opt.levelling) {
+        return Err(WindError::Options("levelling must be within 0..1".into()));
+    }
+    let mat = &input.material;
+    let model = lane_model(input);
+    let rc = 0.5 * input.roll.core_diameter_m;
+    let big_r = 0.5 * input.roll.diameter_m;
+    let widths = lanes.widths();
+    let width: f64 = widths.iter().sum();
+    let cal = lanes.calipers();
+    let c_eff = compressed_caliper(input, lanes, opt)?;
     let layers = (big_r - rc) / c_eff;
     // odd node count (even number of intervals) so the half grid nests in the full one
     let nodes = {
@@ -303,15 +333,15 @@ pub fn wind(case: &Case, lanes: &Lanes, opt: Options) -> Result<Wound, WindError
             n
         }
     };
-    let (mut states, per_node) = accrete(case, lanes, nodes, opt.levelling, c_eff)?;
-    let (coarse, _) = accrete(case, lanes, nodes.div_ceil(2), opt.levelling, c_eff)?;
+    let (mut states, per_node) = accrete(input, lanes, nodes, opt.levelling, c_eff)?;
+    let (coarse, _) = accrete(input, lanes, nodes.div_ceil(2), opt.levelling, c_eff)?;
     for (f, c) in states.iter_mut().zip(&coarse) {
         richardson(&mut f.sr, &c.sr);
         richardson(&mut f.st, &c.st);
     }
     let grid = states.first().map(|s| s.r.clone()).unwrap_or_default();
     let rho = mat.density_kg_m3;
-    let v = case.winding.speed_m_s;
+    let v = input.winding.speed_m_s;
     let omega = if big_r > 0.0 { v / big_r } else { 0.0 };
     let mut mean_sigma = 0.0;
     let out: Vec<LaneStress> = states

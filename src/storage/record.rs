@@ -1,0 +1,165 @@
+//! What a lane run keeps of each step end: the [`Recorder`] trait, [`Track`] (what a fit
+//! compares with measurements) and [`FullRecord`] (everything, as [`LaneAged`]).
+
+use super::ageing::{FinalStress, LaneAged, Prepared};
+use super::creep::CreepState;
+use super::hardness::HardnessMap;
+use crate::case::Material;
+use crate::winding::Wound;
+
+/// A lane's state at a step end, handed to a [`Recorder`].
+#[derive(Debug, Clone, Copy)]
+pub struct Snapshot<'a> {
+    /// Moisture at the radial cells, %.
+    pub mc: &'a [f64],
+    /// Radial and tangential stress at the radial cells, Pa.
+    pub radial_stress_pa: &'a [f64],
+    pub tangential_stress_pa: &'a [f64],
+    /// MD creep state at the radial cells.
+    pub md_creep: &'a [CreepState],
+    /// Mean interlayer pressure in the surface zone, Pa.
+    pub surface_pressure_pa: f64,
+    /// Lane diameter, m.
+    pub diameter_m: f64,
+}
+
+/// What a lane run keeps of each step end.
+pub trait Recorder {
+    /// Keep what is wanted of the state at a step end (called for the start and every step).
+    fn record(&mut self, s: &Snapshot);
+}
+
+/// Keeps only what a fit compares with measurements: surface pressure and diameter.
+#[derive(Debug, Clone, Default, PartialEq)]
+pub struct Track {
+    /// Mean interlayer pressure in the surface zone at each step end, Pa.
+    pub surface_pressure_pa: Vec<f64>,
+    /// Lane diameter at each step end, m.
+    pub diameter_m: Vec<f64>,
+}
+
+impl Recorder for Track {
+    fn record(&mut self, s: &Snapshot) {
+        self.surface_pressure_pa.push(s.surface_pressure_pa);
+        self.diameter_m.push(s.diameter_m);
+    }
+}
+
+/// Keeps everything of a lane ([`LaneAged`]).
+#[derive(Debug, Clone)]
+pub struct FullRecord<'a> {
+    out: LaneAged,
+    hardness: &'a HardnessMap,
+    /// Cell volumes per unit length and their sum, m^2.
+    vol: Vec<f64>,
+    vsum: f64,
+    /// Third of web length (0 outer, 2 inner) of each cell, and the outer third's volume.
+    thirds: Vec<usize>,
+    outer_w: f64,
+    mc0: &'a [f64],
+    hygro_md_per_pct: f64,
+    md_modulus_pa: f64,
+}
+
+impl<'a> FullRecord<'a> {
+    /// A recorder for lane `lane` of a prepared storage run.
+    pub fn new(
+        material: &Material,
+        prep: &'a Prepared,
+        wound: &Wound,
+        lane: usize,
+        hardness: &'a HardnessMap,
+    ) -> Self {
+        let f = &prep.moisture.faces;
+        let r = &prep.moisture.r;
+        let nr = r.len();
+        let nt = prep.timeline.times.len();
+        let vol: Vec<f64> = (0..nr).map(|j| r[j] * (f[j + 1] - f[j])).collect();
+        let vsum: f64 = vol.iter().sum();
+        // thirds of web length (equal volume), counted from the outside
+        let thirds: Vec<usize> = (0..nr)
+            .map(|j| {
+                let outside: f64 = vol[j + 1..].iter().sum::<f64>() + 0.5 * vol[j];
+                ((3.0 * outside / vsum) as usize).min(2)
+            })
+            .collect();
+        let outer_w: f64 = (0..nr).filter(|&j| thirds[j] == 0).map(|j| vol[j]).sum();
+        FullRecord {
+            out: LaneAged {
+                position_m: wound.lanes[lane].position_m,
+                moisture_pct: Vec::with_capacity(nt),
+                permanent_strain: Vec::with_capacity(nt),
+                delayed_strain: Vec::with_capacity(nt),
+                elastic_strain: Vec::with_capacity(nt),
+                hygro_strain: Vec::with_capacity(nt),
+                strain_at_unwind: Vec::with_capacity(nt),
+                diameter_m: Vec::with_capacity(nt),
+                surface_pressure_pa: Vec::with_capacity(nt),
+                hardness: Vec::with_capacity(nt),
+                strain_at_unwind_by_third: [0.0; 3],
+                final_radial_stress_pa: Vec::new(),
+                final_tangential_stress_pa: Vec::new(),
+            },
+            hardness,
+            vol,
+            vsum,
+            thirds,
+            outer_w,
+            mc0: &prep.moisture.mc[0][lane],
+            hygro_md_per_pct: material.hygro_md_per_pct,
+            md_modulus_pa: material.md_modulus_pa,
+        }
+    }
+
+    /// The lane's record, with the final stresses.
+    pub fn finish(mut self, end: FinalStress) -> LaneAged {
+        self.out.final_radial_stress_pa = end.radial_pa;
+        self.out.final_tangential_stress_pa = end.tangential_pa;
+        self.out
+    }
+
+    /// Volume-weighted mean over the cells.
+    fn avg(&self, g: &dyn Fn(usize) -> f64) -> f64 {
+        (0..self.vol.len()).map(|j| self.vol[j] * g(j)).sum::<f64>() / self.vsum
+    }
+}
+
+impl Recorder for FullRecord<'_> {
+    fn record(&mut self, s: &Snapshot) {
+        let (mc, st, ct) = (s.mc, s.tangential_stress_pa, s.md_creep);
+        let (mc0, beta, e_t) = (self.mc0, self.hygro_md_per_pct, self.md_modulus_pa);
+        let nr = self.vol.len();
+        self.out.surface_pressure_pa.push(s.surface_pressure_pa);
+        self.out
+            .hardness
+            .push(self.hardness.hardness(s.surface_pressure_pa));
+        self.out.diameter_m.push(s.diameter_m);
+        let perm = self.avg(&|j| ct[j].permanent);
+        let del = self.avg(&|j| ct[j].delayed);
+        let hyg = self.avg(&|j| beta * (mc[j] - mc0[j]));
+        let unwind = |j: usize| ct[j].permanent + ct[j].delayed + beta * (mc[j] - mc0[j]);
+        let outer = (0..nr)
+            .filter(|&j| self.thirds[j] == 0)
+            .map(|j| self.vol[j] * unwind(j))
+            .sum::<f64>()
+            / self.outer_w;
+        let moist = self.avg(&|j| mc[j]);
+        let elastic = self.avg(&|j| st[j] / e_t);
+        let out = &mut self.out;
+        out.moisture_pct.push(moist);
+        out.permanent_strain.push(perm);
+        out.delayed_strain.push(del);
+        out.elastic_strain.push(elastic);
+        out.hygro_strain.push(hyg);
+        out.strain_at_unwind.push(outer);
+        let mut by = [0.0; 3];
+        let mut wsum = [0.0; 3];
+        for j in 0..nr {
+            by[self.thirds[j]] += self.vol[j] * unwind(j);
+            wsum[self.thirds[j]] += self.vol[j];
+        }
+        for z in 0..3 {
+            out.strain_at_unwind_by_third[z] = by[z] / wsum[z].max(1e-300);
+        }
+    }
+}

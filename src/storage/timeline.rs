@@ -1,0 +1,202 @@
+//! The storage time grid and the moisture field over it: what storage does to a roll
+//! independently of creep parameters.
+
+use super::moisture::{radial_faces, Field, Surfaces};
+use super::sorption::gab_moisture;
+use super::AgeOptions;
+use crate::case::{Material, Roll, Stance, Stretch, Wrap, WrapPermeance};
+use crate::lanes::Lanes;
+use crate::units::DAY_S;
+
+/// What storage uses of a case: the web, the roll, the wraps' permeances, the storage history and
+/// the times at which the state is wanted.
+#[derive(Debug, Clone, Copy)]
+pub struct StoreInput<'a> {
+    pub material: &'a Material,
+    pub roll: &'a Roll,
+    pub wraps: &'a WrapPermeance,
+    /// The stretches of storage, in order.
+    pub storage: &'a [Stretch],
+    /// Times (s since winding) that must be step ends of the time grid, such as the ages of
+    /// measurements; storage is extended to the last of them.
+    pub output_times_s: &'a [f64],
+}
+
+/// Floor contact at the lower end of a roll stored on end cuts that face's exchange to this
+/// fraction (assumption).
+pub const FLOOR_CONTACT: f64 = 0.1;
+
+/// Ambient conditions assumed past the last stretch (standard atmosphere, TAPPI T 402).
+fn standard_stretch() -> Stretch {
+    Stretch {
+        duration_s: 0.0,
+        temperature_k: 296.15,
+        rh: 0.5,
+        barrel_wrap: Wrap::None,
+        end_wrap: Wrap::None,
+        stance: Stance::OnEnd,
+        place: Some("assumed standard atmosphere".into()),
+    }
+}
+
+/// A time step: duration (s) and the stretch it belongs to.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Step {
+    pub dt: f64,
+    pub stretch: usize,
+}
+
+/// Time grid over the storage history: geometric steps within each segment between stretch ends
+/// and measurement ages, so measurement ages are step ends.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Timeline {
+    pub steps: Vec<Step>,
+    /// Time at the end of each step, s (`times[0] = 0` is the start).
+    pub times: Vec<f64>,
+    /// Stretches used (the given ones, plus an assumed one when output times go past storage).
+    pub stretches: Vec<Stretch>,
+    pub notes: Vec<String>,
+}
+
+/// Build the time grid for a storage history, with step ends at the output times.
+pub fn timeline(storage: &[Stretch], output_times_s: &[f64], opt: &AgeOptions) -> Timeline {
+    let mut stretches = storage.to_vec();
+    let mut notes = Vec::new();
+    let total: f64 = stretches.iter().map(|s| s.duration_s).sum();
+    let last_age = output_times_s.iter().copied().fold(0.0, f64::max);
+    if last_age > total + 1.0 {
+        let mut s = stretches.last().cloned().unwrap_or_else(standard_stretch);
+        s.duration_s = last_age - total;
+        notes.push(format!(
+            "measurements reach {:.1} d but storage history covers {:.1} d; the last {:.1} d assume {}",
+            last_age / DAY_S,
+            total / DAY_S,
+            s.duration_s / DAY_S,
+            if storage.is_empty() {
+                "23 C, 50 % RH, unwrapped"
+            } else {
+                "the last stretch continued"
+            }
+        ));
+        stretches.push(s);
+    }
+    let mut cuts: Vec<(f64, usize)> = Vec::new();
+    let mut t = 0.0;
+    for (i, s) in stretches.iter().enumerate() {
+        let t1 = t + s.duration_s;
+        let mut inner: Vec<f64> = output_times_s
+            .iter()
+            .copied()
+            .filter(|&a| a > t + 1.0 && a < t1 - 1.0)
+            .collect();
+        inner.sort_by(f64::total_cmp);
+        inner.dedup_by(|a, b| (*a - *b).abs() < 1.0);
+        for a in inner {
+            cuts.push((a, i));
+        }
+        cuts.push((t1, i));
+        t = t1;
+    }
+    let q: f64 = 1.15;
+    let n = opt.steps.max(1);
+    let mut steps = Vec::new();
+    let mut times = vec![0.0];
+    let mut t0 = 0.0;
+    for (t1, si) in cuts {
+        let span = t1 - t0;
+        if span <= 0.0 {
+            continue;
+        }
+        let norm = (q.powi(n as i32) - 1.0) / (q - 1.0);
+        let mut acc = t0;
+        for j in 0..n {
+            let dt = if j + 1 == n {
+                t1 - acc
+            } else {
+                span * q.powi(j as i32) / norm
+            };
+            acc += dt;
+            steps.push(Step { dt, stretch: si });
+            times.push(acc);
+        }
+        t0 = t1;
+    }
+    Timeline {
+        steps,
+        times,
+        stretches,
+        notes,
+    }
+}
+
+/// Moisture at each lane's radial cells over time.
+#[derive(Debug, Clone, PartialEq)]
+pub struct MoistureHistory {
+    /// Radial cell faces and centres shared with the mechanics, m.
+    pub faces: Vec<f64>,
+    pub r: Vec<f64>,
+    /// `mc[time][lane][cell]`, %.
+    pub mc: Vec<Vec<Vec<f64>>>,
+    /// Equilibrium moisture of each stretch, %.
+    pub m_eq: Vec<f64>,
+}
+
+fn surfaces(input: &StoreInput, s: &Stretch) -> Surfaces {
+    let w = input.wraps;
+    let end = w.of(s.end_wrap);
+    let back = if s.stance == Stance::OnEnd {
+        end * FLOOR_CONTACT
+    } else {
+        end
+    };
+    Surfaces {
+        front_m_s: end,
+        back_m_s: back,
+        barrel_m_s: w.of(s.barrel_wrap),
+        // The core tube is open at its ends; treated like a paper wrap (assumption).
+        core_m_s: w.paper_m_s,
+        m_eq: gab_moisture(&input.material.sorption, s.rh),
+    }
+}
+
+/// Run the moisture model over a time grid.
+pub fn moisture(
+    input: &StoreInput,
+    lanes: &Lanes,
+    tl: &Timeline,
+    opt: &AgeOptions,
+) -> MoistureHistory {
+    let m = input.material;
+    let faces = radial_faces(
+        0.5 * input.roll.core_diameter_m,
+        0.5 * input.roll.diameter_m,
+        opt.cells_r,
+    );
+    let mut field = Field::new(
+        input.roll.width_m,
+        opt.cells_x,
+        faces.clone(),
+        m.moisture_pct,
+        m.diffusivity_inplane_m2_s,
+        m.diffusivity_radial_m2_s,
+    );
+    let centres = lanes.positions();
+    let sample = |f: &Field| -> Vec<Vec<f64>> {
+        centres
+            .iter()
+            .map(|&x| (0..f.nr()).map(|j| f.at(x, j)).collect())
+            .collect()
+    };
+    let surf: Vec<Surfaces> = tl.stretches.iter().map(|s| surfaces(input, s)).collect();
+    let mut mc = vec![sample(&field)];
+    for st in &tl.steps {
+        field.step(st.dt, &surf[st.stretch]);
+        mc.push(sample(&field));
+    }
+    MoistureHistory {
+        r: field.r.clone(),
+        faces,
+        mc,
+        m_eq: surf.iter().map(|s| s.m_eq).collect(),
+    }
+}
