@@ -27,4 +27,3 @@ pub mod storage;
 pub mod units;
 pub mod vocab;
 pub mod winding;
-

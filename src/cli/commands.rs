@@ -116,10 +116,7 @@ pub fn check(cases: &[PathBuf], set: &[String], out: Output) -> Result<Outcome, 
     } else {
         Value::Null
     };
-    let s = out.pick(
-        || json,
-        || report::check_view::cases_text(&loaded, out.sys),
-    )?;
+    let s = out.pick(|| json, || report::check_view::cases_text(&loaded, out.sys))?;
     Ok(Outcome::Ok(s))
 }
 

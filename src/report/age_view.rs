@@ -44,8 +44,8 @@ pub fn text(c: &Case, lanes: &Lanes, a: &Aged, sys: System) -> String {
             format!("{:+.4} %", l.strain_at_unwind[n] * 100.0),
             format!("{:+.2}", (l.strain_at_unwind[n] - mean) * 1e3),
             match sys {
-                System::Si => format!("{:+.2} mm", dd * 1e3),
-                System::Us => format!("{:+.1} mil", dd / 25.4e-6),
+                System::Si => crate::units::signed(dd, crate::units::Kind::Length, sys, false, 2),
+                System::Us => crate::units::signed(dd, crate::units::Kind::Length, sys, true, 1),
             },
             format!("{:.1} -> {:.1}", l.hardness[0], l.hardness[n]),
         ]);

@@ -1,0 +1,170 @@
+//! What-if: the roll as measured against the same roll changed, both run forward with the creep
+//! fitted on the measured case, carried to the variant's lanes by lane centre.
+
+use super::actions::{self, spread_mm_per_m};
+use super::{base_scenario, features, fitted, DiagnoseError, DiagnoseOptions};
+use crate::case::Case;
+use crate::lanes::{self, Lanes};
+use crate::rules::{self, Table};
+use crate::storage::LaneCreep;
+use crate::vocab::Defect;
+use crate::winding::Options;
+use features::Features;
+use serde::Serialize;
+
+/// A what-if comparison: the case as measured and with changes applied, both run forward with the
+/// creep fitted on the measured case (creep is a property of the paper, not of the change).
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct WhatIf {
+    pub case: String,
+    pub changes: Vec<String>,
+    pub spread_before_mm_per_m: f64,
+    pub spread_after_mm_per_m: f64,
+    /// Lane centres, m.
+    pub position_m: Vec<f64>,
+    /// Lane length at unwind over the mean lane, before and after, mm/m.
+    pub excess_before_mm_per_m: Vec<f64>,
+    pub excess_after_mm_per_m: Vec<f64>,
+    /// Defects the rules predict before and after.
+    pub defects_before: Vec<Defect>,
+    pub defects_after: Vec<Defect>,
+}
+
+/// Compare a case with a variant of it. The variant's lanes are rebuilt from its own profiles
+/// and layout; each of its lanes gets the measured case's fitted creep at its centre
+/// ([`creep_at`]).
+pub fn what_if(
+    base: &Case,
+    variant: &Case,
+    changes: &[String],
+    table: &Table,
+    opt: &DiagnoseOptions,
+) -> Result<WhatIf, DiagnoseError> {
+    let f = fitted(base, opt)?;
+    let fitted_at: Vec<(f64, LaneCreep)> = f
+        .lanes
+        .lanes
+        .iter()
+        .map(|l| l.position_m)
+        .zip(f.creep.iter().copied())
+        .collect();
+    let run = |c: &Case| -> Result<(Lanes, actions::Outcome), DiagnoseError> {
+        let l = lanes::build(c);
+        let cr = creep_at(&fitted_at, &l.positions(), &LaneCreep::grade(&c.material));
+        let s = base_scenario(c, &l, cr, Options::default().levelling);
+        Ok((l, s.run(opt.nodes)?))
+    };
+    let (lb, ob) = run(base)?;
+    let (la, oa) = run(variant)?;
+    let fb = features::compute(base, &lb, &ob.wound, &ob.aged);
+    let fa = features::compute(variant, &la, &oa.wound, &oa.aged);
+    let defects = |f: &Features| {
+        let mut d: Vec<Defect> = rules::evaluate(table, &f.values)
+            .iter()
+            .map(|x| x.rule.defect)
+            .collect();
+        d.dedup();
+        d
+    };
+    Ok(WhatIf {
+        case: base.id.clone(),
+        changes: changes.to_vec(),
+        spread_before_mm_per_m: spread_mm_per_m(&ob.aged, &[]),
+        spread_after_mm_per_m: spread_mm_per_m(&oa.aged, &[]),
+        position_m: la.positions(),
+        excess_before_mm_per_m: fb.excess_mm_per_m.clone(),
+        excess_after_mm_per_m: fa.excess_mm_per_m.clone(),
+        defects_before: defects(&fb),
+        defects_after: defects(&fa),
+    })
+}
+
+/// Fitted creep carried onto lanes at `positions` (m): each lane gets the fitted lanes' creep
+/// interpolated by lane centre, flat beyond the outermost fitted lanes. The fitted scales
+/// multiply the delayed compliance and the viscous rate (see [`crate::fit::scaled`]), so those
+/// (and the retardation time) are interpolated in log. A lane at a fitted lane's centre keeps
+/// that lane's creep exactly; with no fitted lanes every lane gets `grade`.
+pub fn creep_at(
+    fitted: &[(f64, LaneCreep)],
+    positions: &[f64],
+    grade: &LaneCreep,
+) -> Vec<LaneCreep> {
+    if fitted.is_empty() {
+        return vec![*grade; positions.len()];
+    }
+    let log_interp = |x: f64, g: &dyn Fn(&LaneCreep) -> f64| {
+        let pts: Vec<(f64, f64)> = fitted.iter().map(|(p, c)| (*p, g(c).ln())).collect();
+        crate::interp::linear_flat(&pts, x).exp()
+    };
+    let burgers = |x: f64, b: &dyn Fn(&LaneCreep) -> crate::case::Burgers| crate::case::Burgers {
+        delayed: log_interp(x, &|c| b(c).delayed),
+        retardation_s: log_interp(x, &|c| b(c).retardation_s),
+        viscous_time_s: log_interp(x, &|c| b(c).viscous_time_s.recip()).recip(),
+    };
+    positions
+        .iter()
+        .map(|&x| match fitted.iter().find(|(p, _)| *p == x) {
+            Some((_, c)) => *c,
+            None => LaneCreep {
+                md: burgers(x, &|c| c.md),
+                radial: burgers(x, &|c| c.radial),
+            },
+        })
+        .collect()
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::case::Burgers;
+
+    fn grade() -> LaneCreep {
+        let b = Burgers {
+            delayed: 0.3,
+            retardation_s: 2.0 * crate::units::DAY_S,
+            viscous_time_s: 200.0 * crate::units::DAY_S,
+        };
+        LaneCreep { md: b, radial: b }
+    }
+
+    fn at_scale(s: f64) -> LaneCreep {
+        let g = grade();
+        LaneCreep {
+            md: crate::fit::scaled(&g.md, s),
+            radial: crate::fit::scaled(&g.radial, 2.0 * s),
+        }
+    }
+
+    /// A changed lane layout keeps each fitted creep where it was fitted: the high-creep lane at
+    /// 0.5 m stays at 0.5 m when a lane is added in front of it (matching by index would move it
+    /// to the lane at 0.3 m), beyond the outermost fitted lanes creep stays flat, and between two
+    /// fitted lanes the scale is interpolated in log (halfway between 1 and 8 is sqrt 8).
+    #[test]
+    fn fitted_creep_follows_lane_positions_not_indices() {
+        let g = grade();
+        let fitted: Vec<(f64, LaneCreep)> = [(0.1, 1.0), (0.3, 1.0), (0.5, 8.0), (0.7, 1.0)]
+            .iter()
+            .map(|&(x, s)| (x, at_scale(s)))
+            .collect();
+        let same: Vec<f64> = fitted.iter().map(|f| f.0).collect();
+        let kept = creep_at(&fitted, &same, &g);
+        for (k, f) in kept.iter().zip(&fitted) {
+            assert_eq!(*k, f.1);
+        }
+        let moved = creep_at(&fitted, &[0.02, 0.1, 0.3, 0.5, 0.7], &g);
+        assert_eq!(moved[3], fitted[2].1, "the high-creep lane stays at 0.5 m");
+        assert_eq!(moved[2], fitted[1].1);
+        let scale = |c: &LaneCreep| c.md.delayed / g.md.delayed;
+        assert!(
+            (scale(&moved[0]) - 1.0).abs() < 1e-12,
+            "flat beyond the front lane"
+        );
+        let mid = creep_at(&fitted, &[0.4], &g)[0];
+        assert!((scale(&mid) - 8f64.sqrt()).abs() < 1e-9, "{}", scale(&mid));
+        let viscous = g.md.viscous_time_s / mid.md.viscous_time_s;
+        assert!((viscous - 8f64.sqrt()).abs() < 1e-9, "{viscous}");
+        let radial = mid.radial.delayed / g.radial.delayed;
+        assert!((radial - 2.0 * 8f64.sqrt()).abs() < 1e-9, "{radial}");
+        assert_eq!(creep_at(&[], &[0.1, 0.2], &g), vec![g, g]);
+    }
+}
