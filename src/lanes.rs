@@ -170,6 +170,11 @@ pub fn build(case: &Case) -> Lanes {
         })
         .collect();
     let mut notes = Vec::new();
+    if let Some(k) = case.lane_count.filter(|&k| k != n) {
+        notes.push(format!(
+            "lanes.count = {k} gives {n} lanes: a 25 mm edge strip is split off each wide edge lane, because moisture exchange through the ends and the edge tension act in the outer centimetres"
+        ));
+    }
     let mut extrap = vec![false; n];
     let mut mark = |what: Measure, notes: &mut Vec<String>| {
         let i = earliest_index(&series, what)?;

@@ -69,20 +69,20 @@ fn run(c: &Case) -> fit::RollFit {
     fit::fit_roll(c, &l, &w, &AgeOptions::default()).unwrap()
 }
 
-/// Recovered within the reported uncertainty: over several seeds and three roll types, at least
-/// 90 % of the identifiable scales lie within 2 reported sigma of the truth (95 % expected for a
-/// Gaussian) and all within 3.5 sigma.
+/// Recovered within the reported uncertainty: over several seeds and two grades other than the
+/// demo's (coated paper, board), at least 93 % of the identifiable scales lie within 2 reported
+/// sigma of the truth (95.4 % expected for a calibrated Gaussian interval) and 99 % within 3
+/// sigma (99.7 % expected). Sigma is the posterior standard deviation of the log-scale.
 #[test]
 fn parameters_are_recovered_within_reported_uncertainty() {
-    let mut within2 = 0;
+    let (mut within2, mut within3) = (0, 0);
     let mut total = 0;
     let cases = [
-        ("field_cases/nordvik_pm3_caliper_band.yaml", 31.0),
         ("field_cases/kestrel_coated_cold_to_humid.yaml", 32.0),
         ("field_cases/harrowgate_board_dry_store.yaml", 44.0),
     ];
     for (k, (file, end)) in cases.iter().enumerate() {
-        for seed in [1u64, 2] {
+        for seed in [1u64, 2, 3] {
             let (c, truth) = synthetic(
                 file,
                 8,
@@ -115,18 +115,22 @@ fn parameters_are_recovered_within_reported_uncertainty() {
                     if z < 2.0 {
                         within2 += 1;
                     }
-                    assert!(
-                        z < 3.5,
-                        "{file} seed {seed}: fit {fitv} truth {tv} factor {sd_factor}"
-                    );
+                    if z < 3.0 {
+                        within3 += 1;
+                    }
                 }
             }
         }
     }
     assert!(total >= 60, "enough identifiable parameters: {total}");
+    eprintln!("recovery: {within2} and {within3} of {total} within 2 and 3 sigma");
     assert!(
-        within2 as f64 >= 0.9 * total as f64,
+        within2 as f64 >= 0.93 * total as f64,
         "{within2} of {total} within 2 sigma"
+    );
+    assert!(
+        within3 as f64 >= 0.99 * total as f64,
+        "{within3} of {total} within 3 sigma"
     );
 }
 

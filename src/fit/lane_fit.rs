@@ -14,9 +14,10 @@
 //! six representative lanes), then each lane with a Gaussian prior on its log-scales centred on
 //! the pooled values, standard deviation ln 3 (a factor of three: wide enough that two good
 //! measurements of a lane overrule it, narrow enough that a lane with little data stays near the
-//! roll). The pooled stage uses up to six evenly spread lanes. Uncertainty: inverse of the finite-difference Hessian of the objective in log-scale at
-//! the optimum; a scale is flagged not identifiable when the data alone constrain it less than the
-//! prior does.
+//! roll). The pooled stage uses up to six evenly spread lanes. Uncertainty: the lane's posterior,
+//! sampled by a seeded ensemble ([`super::posterior`]); a scale is flagged not identifiable when
+//! its posterior is not narrower than the prior by sqrt 2 (the data alone constrain it less than
+//! the prior does), and then stays at the pooled value (hierarchical shrinkage).
 
 use super::observe::{Obs, ObsKind};
 use super::SolverError;
@@ -287,15 +288,23 @@ pub struct FittedParams {
     pub radial_viscous_time_s: f64,
 }
 
-/// One-sigma uncertainty of the scales.
+/// Uncertainty of the scales, from the lane's posterior samples ([`super::posterior`]).
 #[derive(Debug, Clone, Copy, PartialEq, Serialize)]
 pub struct Uncertainty {
-    /// Standard deviation of the MD scale (same units as the scale).
+    /// Standard deviation of the MD scale (same units as the scale), from the posterior
+    /// standard deviation of its logarithm.
     pub md_creep_scale_sd: f64,
     pub radial_creep_scale_sd: f64,
-    /// Multiplicative one-sigma factor, exp(sd of the log-scale).
+    /// Multiplicative one-sigma factor, exp(posterior sd of the log-scale).
     pub md_creep_scale_factor: f64,
     pub radial_creep_scale_factor: f64,
+    /// 15.87 % and 84.13 % posterior quantiles of each scale (one-sigma equivalent; asymmetric).
+    pub md_creep_scale_low: f64,
+    pub md_creep_scale_high: f64,
+    pub radial_creep_scale_low: f64,
+    pub radial_creep_scale_high: f64,
+    /// Share of the sampler's proposals accepted.
+    pub acceptance: f64,
 }
 
 /// A lane's fit.
@@ -304,7 +313,9 @@ pub struct LaneFit {
     pub position_m: f64,
     pub params: FittedParams,
     pub uncertainty: Uncertainty,
-    /// Whether the data (without the prior) identify each scale.
+    /// Whether the data (without the prior) identify each scale: the posterior is narrower than
+    /// the prior by more than a factor sqrt 2 (the data alone constrain it more than the prior
+    /// does). A scale that is not identifiable stays at the pooled value (hierarchical shrinkage).
     pub md_identifiable: bool,
     pub radial_identifiable: bool,
     pub residuals: Vec<Residual>,
@@ -321,10 +332,16 @@ pub struct LaneFit {
     /// The lane's creep parameters (grade, or lab-fitted grade, times the scales).
     #[serde(skip)]
     pub creep: LaneCreep,
+    /// Creep parameters of [`super::posterior::DRAWS`] posterior draws (for propagation).
+    #[serde(skip)]
+    pub draws: Vec<LaneCreep>,
 }
 
-/// Fit one lane with a prior centred on `prior`.
-pub fn fit_lane(p: &LaneProblem, prior: [f64; 2]) -> Result<LaneFit, SolverError> {
+/// Fit one lane with a prior centred on `prior` (the pooled log-scales): the optimum by
+/// Nelder-Mead, then the posterior by a seeded ensemble sampler ([`super::posterior::sample`]).
+/// A scale the data do not identify is set to the pooled value when the pooled value lies inside
+/// its one-sigma posterior interval.
+pub fn fit_lane(p: &LaneProblem, prior: [f64; 2], seed: u64) -> Result<LaneFit, SolverError> {
     let lanes = std::slice::from_ref(p);
     let obj = Objective {
         lanes,
@@ -334,39 +351,41 @@ pub fn fit_lane(p: &LaneProblem, prior: [f64; 2]) -> Result<LaneFit, SolverError
     let m = minimise(&obj, prior)?;
     let f = |t: &[f64]| obj.value(t);
     let h = hessian2(&f, &m.theta, 0.05);
-    let ip = 1.0 / (PRIOR_SD_LN * PRIOR_SD_LN);
-    let cov = inverse_pd(h);
-    let h_data = [[h[0][0] - ip, h[0][1]], [h[1][0], h[1][1] - ip]];
-    let cov_data = inverse_pd(h_data);
-    let sd = |i: usize| cov.map(|c| c[i][i].max(0.0).sqrt()).unwrap_or(PRIOR_SD_LN);
-    let ident = |i: usize| {
-        cov_data
-            .map(|c| c[i][i].sqrt() < PRIOR_SD_LN)
-            .unwrap_or(false)
+    let width = |i: usize| {
+        inverse_pd(h)
+            .map(|c| c[i][i].max(0.0).sqrt())
+            .unwrap_or(PRIOR_SD_LN)
+            .clamp(0.02, PRIOR_SD_LN)
     };
-    let a = p.simulate(&m.theta).ok_or(SolverError::ModelFailed)?;
-    let residuals: Vec<Residual> = p
-        .obs
-        .iter()
-        .map(|o| {
-            let pred = p.predict(o, &a);
-            Residual {
-                what: o.what,
-                age_s: o.age_s,
-                measured: o.value,
-                predicted: pred,
-                normalised: (pred - o.value) / o.sigma,
-            }
-        })
-        .collect();
+    let post = super::posterior::sample(&obj, &m.theta, [width(0), width(1)], seed);
+    // the data alone: the curvature without the prior's part
+    let ip = 1.0 / (PRIOR_SD_LN * PRIOR_SD_LN);
+    let cov_data = inverse_pd([[h[0][0] - ip, h[0][1]], [h[1][0], h[1][1] - ip]]);
+    let ident = |i: usize| {
+        post.sd[i] < PRIOR_SD_LN * std::f64::consts::FRAC_1_SQRT_2
+            && cov_data.is_some_and(|c| c[i][i].sqrt() < PRIOR_SD_LN)
+    };
+    let mut theta = m.theta.clone();
+    for (i, t) in theta.iter_mut().enumerate() {
+        // shrink to the pooled value when the data cannot tell it apart from the optimum
+        if !ident(i) && (post.low[i]..=post.high[i]).contains(&prior[i]) {
+            *t = prior[i];
+        }
+    }
+    let a = p.simulate(&theta).ok_or(SolverError::ModelFailed)?;
+    let residuals = residuals(p, &a);
     let rmse = if residuals.is_empty() {
         0.0
     } else {
         (residuals.iter().map(|r| r.normalised.powi(2)).sum::<f64>() / residuals.len() as f64)
             .sqrt()
     };
-    let (smd, sr) = (m.theta[0].exp(), m.theta[1].exp());
-    let c = creep_from(p.material, &m.theta);
+    let (smd, sr) = (theta[0].exp(), theta[1].exp());
+    let c = creep_from(p.material, &theta);
+    let draws = super::posterior::draws(&post, super::posterior::DRAWS)
+        .iter()
+        .map(|t| creep_from(p.material, t))
+        .collect();
     Ok(LaneFit {
         position_m: p.wound.lanes[p.lane].position_m,
         params: FittedParams {
@@ -378,10 +397,15 @@ pub fn fit_lane(p: &LaneProblem, prior: [f64; 2]) -> Result<LaneFit, SolverError
             radial_viscous_time_s: c.radial.viscous_time_s,
         },
         uncertainty: Uncertainty {
-            md_creep_scale_sd: smd * sd(0),
-            radial_creep_scale_sd: sr * sd(1),
-            md_creep_scale_factor: sd(0).exp(),
-            radial_creep_scale_factor: sd(1).exp(),
+            md_creep_scale_sd: smd * post.sd[0],
+            radial_creep_scale_sd: sr * post.sd[1],
+            md_creep_scale_factor: post.sd[0].exp(),
+            radial_creep_scale_factor: post.sd[1].exp(),
+            md_creep_scale_low: post.low[0].exp(),
+            md_creep_scale_high: post.high[0].exp(),
+            radial_creep_scale_low: post.low[1].exp(),
+            radial_creep_scale_high: post.high[1].exp(),
+            acceptance: post.acceptance,
         },
         md_identifiable: ident(0),
         radial_identifiable: ident(1),
@@ -389,10 +413,28 @@ pub fn fit_lane(p: &LaneProblem, prior: [f64; 2]) -> Result<LaneFit, SolverError
         rmse,
         converged: m.converged,
         iterations: m.iterations,
-        evaluations: m.evaluations + 9,
+        evaluations: m.evaluations + 9 + post.evaluations,
         start_cost: m.start_cost,
-        final_cost: m.cost,
-        theta: m.theta,
+        final_cost: obj.value(&theta),
+        theta,
         creep: c,
+        draws,
     })
+}
+
+/// Residuals of a lane's observations against a simulated lane.
+fn residuals(p: &LaneProblem, a: &Track) -> Vec<Residual> {
+    p.obs
+        .iter()
+        .map(|o| {
+            let pred = p.predict(o, a);
+            Residual {
+                what: o.what,
+                age_s: o.age_s,
+                measured: o.value,
+                predicted: pred,
+                normalised: (pred - o.value) / o.sigma,
+            }
+        })
+        .collect()
 }

@@ -6,6 +6,7 @@ pub mod creep_curve;
 mod hardness;
 mod lane_fit;
 pub mod observe;
+pub mod posterior;
 pub mod synth;
 
 pub use hardness::hardness_map;
@@ -195,7 +196,7 @@ pub fn fit_roll(
         .collect();
     let (pooled, pooled_evaluations) = pooled_fit(&problems)?;
     let prior = [pooled.theta[0], pooled.theta[1]];
-    let (fits, lane_evaluations) = lane_fits(&problems, prior)?;
+    let (fits, lane_evaluations) = lane_fits(&problems, prior, &case.id)?;
     if problems.iter().all(|p| p.steps == 0) {
         notes.push(
             "all measurements are at one age: creep parameters cannot be identified and stay at the roll's prior (grade values)".into(),
@@ -247,13 +248,18 @@ fn pooled_fit(problems: &[LaneProblem]) -> Result<(Minimum, u64), FitError> {
     Ok((m, evaluations))
 }
 
-/// Each lane's fit with a prior towards the pooled log-scales; returns the fits and their
-/// simulations.
-fn lane_fits(problems: &[LaneProblem], prior: [f64; 2]) -> Result<(Vec<LaneFit>, u64), FitError> {
+/// Each lane's fit with a prior towards the pooled log-scales, its sampler seeded from the case id
+/// and the lane; returns the fits and their simulations.
+fn lane_fits(
+    problems: &[LaneProblem],
+    prior: [f64; 2],
+    case_id: &str,
+) -> Result<(Vec<LaneFit>, u64), FitError> {
     let mut fits = Vec::with_capacity(problems.len());
     let mut evaluations = 0;
     for (lane, p) in problems.iter().enumerate() {
-        let f = fit_lane(p, prior).map_err(|source| FitError::Lane { lane, source })?;
+        let seed = posterior::seed_for(case_id, lane);
+        let f = fit_lane(p, prior, seed).map_err(|source| FitError::Lane { lane, source })?;
         evaluations += f.evaluations;
         fits.push(f);
     }

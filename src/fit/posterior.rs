@@ -1,0 +1,157 @@
+//! Posterior of one lane's two log creep scales by a short seeded affine-invariant ensemble
+//! sampler (Goodman and Weare 2010, the "stretch move" with a = 2).
+//!
+//! Why sampling: the misfit is flat towards small scales and steep towards large ones, so the
+//! curvature at the optimum (a Gaussian interval) is too narrow on one side and too wide on the
+//! other. The ensemble is affine invariant, so the strong MD/radial correlation costs nothing, and
+//! it needs no tuning. The objective is the lane's negative log posterior (data misfit plus the
+//! Gaussian prior towards the pooled scales), so the samples are draws of the posterior.
+//!
+//! Determinism: the generator is ChaCha8 seeded from a fixed hash (FNV-1a, 64 bit) of the case id
+//! and the lane index, never from the operating system; the walkers are updated in a fixed order.
+//! The result is a pure function of its inputs (lanes can be sampled in any order or in parallel).
+
+use super::lane_fit::Objective;
+use rand::{Rng, SeedableRng};
+use rand_chacha::ChaCha8Rng;
+
+/// Walkers in the ensemble (at least twice the dimension; 4x here).
+pub const WALKERS: usize = 8;
+/// Stretch-move sweeps; the first half is discarded as burn-in.
+pub const SWEEPS: usize = 40;
+/// Stretch scale of the move (Goodman and Weare 2010 recommend 2).
+const STRETCH: f64 = 2.0;
+/// Posterior draws kept per lane for propagation (evenly thinned from the kept samples).
+pub const DRAWS: usize = 16;
+
+/// FNV-1a 64-bit hash of a case id and a lane index: the sampler's seed.
+pub fn seed_for(case_id: &str, lane: usize) -> u64 {
+    let mut h: u64 = 0xcbf2_9ce4_8422_2325;
+    for b in case_id.bytes().chain((lane as u64).to_le_bytes()) {
+        h ^= u64::from(b);
+        h = h.wrapping_mul(0x0100_0000_01b3);
+    }
+    h
+}
+
+/// Posterior summary of one lane's log-scales (MD, radial).
+#[derive(Debug, Clone, PartialEq)]
+pub struct Posterior {
+    /// Kept samples of (ln MD scale, ln radial scale).
+    pub samples: Vec<[f64; 2]>,
+    /// Posterior median of each log-scale.
+    pub median: [f64; 2],
+    /// Posterior standard deviation of each log-scale.
+    pub sd: [f64; 2],
+    /// 15.87 % and 84.13 % quantiles of each log-scale (a one-sigma equivalent interval).
+    pub low: [f64; 2],
+    pub high: [f64; 2],
+    /// Share of proposals accepted.
+    pub acceptance: f64,
+    /// Objective evaluations (lane simulations).
+    pub evaluations: u64,
+}
+
+/// A standard normal draw (Box-Muller).
+fn normal(rng: &mut ChaCha8Rng) -> f64 {
+    let u1: f64 = rng.random::<f64>().max(1e-300);
+    let u2: f64 = rng.random::<f64>();
+    (-2.0 * u1.ln()).sqrt() * (std::f64::consts::TAU * u2).cos()
+}
+
+/// Quantile `q` of sorted values (linear between order statistics).
+pub fn quantile(sorted: &[f64], q: f64) -> f64 {
+    if sorted.is_empty() {
+        return f64::NAN;
+    }
+    let x = q.clamp(0.0, 1.0) * (sorted.len() - 1) as f64;
+    let i = x.floor() as usize;
+    let j = (i + 1).min(sorted.len() - 1);
+    sorted[i] + (x - i as f64) * (sorted[j] - sorted[i])
+}
+
+/// Sample the posterior exp(-objective) starting from walkers spread around `start` with one-sigma
+/// widths `width` (from the curvature, or the prior).
+pub fn sample(obj: &Objective, start: &[f64], width: [f64; 2], seed: u64) -> Posterior {
+    let mut rng = ChaCha8Rng::seed_from_u64(seed);
+    let mut walkers: Vec<[f64; 2]> = (0..WALKERS)
+        .map(|_| {
+            [
+                start[0] + width[0] * normal(&mut rng),
+                start[1] + width[1] * normal(&mut rng),
+            ]
+        })
+        .collect();
+    let mut cost: Vec<f64> = walkers.iter().map(|w| obj.value(w)).collect();
+    let mut evaluations = WALKERS as u64;
+    let mut accepted = 0usize;
+    let mut kept = Vec::with_capacity(WALKERS * SWEEPS / 2);
+    for sweep in 0..SWEEPS {
+        for k in 0..WALKERS {
+            // a partner other than k, uniformly
+            let mut j = rng.random_range(0..WALKERS - 1);
+            if j >= k {
+                j += 1;
+            }
+            let u: f64 = rng.random::<f64>();
+            let z = ((STRETCH - 1.0) * u + 1.0).powi(2) / STRETCH;
+            let (a, b) = (walkers[k], walkers[j]);
+            let y = [b[0] + z * (a[0] - b[0]), b[1] + z * (a[1] - b[1])];
+            let cy = obj.value(&y);
+            evaluations += 1;
+            // acceptance ratio z^(d-1) p(y)/p(x), d = 2
+            let log_r = z.ln() - cy + cost[k];
+            let r: f64 = rng.random::<f64>();
+            if r.max(1e-300).ln() < log_r {
+                walkers[k] = y;
+                cost[k] = cy;
+                accepted += 1;
+            }
+        }
+        if sweep >= SWEEPS / 2 {
+            kept.extend(walkers.iter().copied());
+        }
+    }
+    summarise(
+        kept,
+        accepted as f64 / (WALKERS * SWEEPS) as f64,
+        evaluations,
+    )
+}
+
+fn summarise(samples: Vec<[f64; 2]>, acceptance: f64, evaluations: u64) -> Posterior {
+    let n = samples.len() as f64;
+    let mut median = [0.0; 2];
+    let mut sd = [0.0; 2];
+    let mut low = [0.0; 2];
+    let mut high = [0.0; 2];
+    for d in 0..2 {
+        let mut v: Vec<f64> = samples.iter().map(|s| s[d]).collect();
+        v.sort_by(f64::total_cmp);
+        let m = v.iter().sum::<f64>() / n;
+        sd[d] = (v.iter().map(|x| (x - m).powi(2)).sum::<f64>() / (n - 1.0).max(1.0)).sqrt();
+        median[d] = quantile(&v, 0.5);
+        low[d] = quantile(&v, 0.1587);
+        high[d] = quantile(&v, 0.8413);
+    }
+    Posterior {
+        samples,
+        median,
+        sd,
+        low,
+        high,
+        acceptance,
+        evaluations,
+    }
+}
+
+/// `count` draws evenly thinned from the kept samples (all of them when fewer).
+pub fn draws(p: &Posterior, count: usize) -> Vec<[f64; 2]> {
+    let n = p.samples.len();
+    if n == 0 {
+        return Vec::new();
+    }
+    (0..count.min(n))
+        .map(|k| p.samples[k * n / count.min(n)])
+        .collect()
+}
