@@ -258,14 +258,17 @@ fn usage_errors_exit_with_one() {
 
 #[test]
 fn unknown_word_lists_the_allowed_words_with_line() {
-    let p = variant(
-        "wrap.yaml",
-        &demo().replacen("barrel_wrap: paper", "barrel_wrap: foil", 1),
-    );
+    let text = demo().replacen("barrel_wrap: paper", "barrel_wrap: foil", 1);
+    let line = 1 + text
+        .lines()
+        .position(|l| l.contains("barrel_wrap: foil"))
+        .expect("the demo has a paper barrel wrap");
+    let p = variant("wrap.yaml", &text);
+    let at = format!("wrap.yaml:{line}:");
     bad(
         &["check", p.to_str().unwrap()],
         &[
-            "wrap.yaml:67:",
+            &at,
             "storage[0].barrel_wrap",
             "'foil' is not one of: none, paper, film",
         ],
