@@ -7,8 +7,8 @@
 
 use crate::case::{Case, Measure, Profile};
 use crate::interp::linear_extrap;
+use crate::note::Note;
 use crate::numeric::weighted_mean;
-use crate::units::DAY_S;
 use serde::Serialize;
 
 /// Where a lane's caliper came from.
@@ -70,7 +70,7 @@ pub struct Lanes {
     pub mean_caliper_m: f64,
     pub caliper_source: CaliperSource,
     /// Notes on how the lanes were built (extrapolation, inference).
-    pub notes: Vec<String>,
+    pub notes: Vec<Note>,
     /// Every measured profile on the lanes, in the case's order.
     #[serde(skip)]
     pub series: Vec<Series>,
@@ -171,7 +171,7 @@ pub fn build(case: &Case) -> Lanes {
         .collect();
     let mut notes = Vec::new();
     let mut extrap = vec![false; n];
-    let mut mark = |what: Measure, notes: &mut Vec<String>| {
+    let mut mark = |what: Measure, notes: &mut Vec<Note>| {
         let i = earliest_index(&series, what)?;
         let (p, s) = (&case.profiles[i], &series[i]);
         if s.extrapolated {
@@ -180,13 +180,12 @@ pub fn build(case: &Case) -> Lanes {
                     extrap[i] = true;
                 }
             }
-            notes.push(format!(
-                "{:?} profile at {:.0} d covers {:.0}-{:.0} mm; lanes outside that were extrapolated linearly",
-                p.what,
-                p.age_s / DAY_S,
-                p.positions_m[0] * 1e3,
-                p.positions_m[p.positions_m.len() - 1] * 1e3
-            ));
+            notes.push(Note::Extrapolated {
+                what: p.what,
+                age_s: p.age_s,
+                from_m: p.positions_m[0],
+                to_m: p.positions_m[p.positions_m.len() - 1],
+            });
         }
         Some(s.values.clone())
     };
@@ -229,7 +228,7 @@ fn lane_calipers(
     cal: Option<&[f64]>,
     dia: Option<&[f64]>,
     widths: &[f64],
-    notes: &mut Vec<String>,
+    notes: &mut Vec<Note>,
 ) -> (Vec<f64>, CaliperSource) {
     let nominal = case.material.caliper_m;
     let r_core = 0.5 * case.roll.core_diameter_m;
@@ -240,10 +239,7 @@ fn lane_calipers(
             // caliper (uncompressed estimate).
             let dbar = weighted_mean(d, widths);
             let build = (0.5 * dbar - r_core).max(1e-9);
-            notes.push(
-                "no caliper profile: lane calipers inferred from the earliest diameter profile"
-                    .into(),
-            );
+            notes.push(Note::CaliperFromDiameter);
             (
                 d.iter()
                     .map(|&di| nominal * (1.0 + 0.5 * (di - dbar) / build))

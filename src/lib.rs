@@ -20,6 +20,7 @@ pub mod diagnose;
 pub mod fit;
 pub mod interp;
 pub mod lanes;
+pub mod note;
 pub mod numeric;
 pub mod report;
 pub mod rules;

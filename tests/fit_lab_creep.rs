@@ -43,7 +43,9 @@ fn lab_creep_curves_set_the_grade_md_creep() {
     assert_relative_eq!(b.delayed, truth.delayed, max_relative = 0.02);
     assert_relative_eq!(b.retardation_s, truth.retardation_s, max_relative = 0.02);
     assert_relative_eq!(b.viscous_time_s, truth.viscous_time_s, max_relative = 0.02);
-    assert!(notes.iter().any(|n| n.contains("lab curve")));
+    assert!(notes
+        .iter()
+        .any(|n| matches!(n, rollsleuth::note::Note::LabCreep { .. })));
     // radial creep untouched
     assert_eq!(fitted.material.creep.radial, c.material.creep.radial);
 }

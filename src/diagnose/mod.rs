@@ -13,6 +13,7 @@ pub use whatif::{creep_at, what_if, WhatIf};
 use crate::case::Case;
 use crate::fit::{fit_roll, FitError};
 use crate::lanes::{self, Lanes};
+use crate::note::Note;
 use crate::rules::{self, Table};
 use crate::storage::{AgeOptions, LaneCreep};
 use crate::vocab::{Action, Cause, Defect, Feature, Likelihood};
@@ -145,7 +146,7 @@ pub struct Diagnosis {
     /// lane, (position m, pressure Pa at each radius).
     #[serde(skip)]
     pub pressure_curves: (Vec<f64>, Vec<(f64, Vec<f64>)>),
-    pub notes: Vec<String>,
+    pub notes: Vec<Note>,
 }
 
 /// The base scenario of a diagnosed case: fitted creep per lane, storage as simulated (extended
@@ -258,9 +259,11 @@ pub fn diagnose(
     let complaint = case.complaint.as_deref().and_then(Defect::from_word);
     let agreement = complaint.map(|c| agreement(c, &findings));
     let lane_results = lane_results(&fit, &lanes, &feats);
-    notes.extend(fit.aged.notes.iter().cloned());
-    notes.sort();
-    notes.dedup();
+    for n in &fit.aged.notes {
+        if !notes.contains(n) {
+            notes.push(*n);
+        }
+    }
     Ok(Diagnosis {
         pressure_curves: pressure_curves(&wound),
         case: case.id.clone(),

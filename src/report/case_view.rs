@@ -322,7 +322,7 @@ pub fn lanes_text(c: &Case, l: &Lanes, sys: System) -> String {
         let _ = writeln!(out, "* extrapolated beyond the measured positions");
     }
     for n in &l.notes {
-        let _ = writeln!(out, "note: {n}");
+        let _ = writeln!(out, "note: {}", super::words::note(n));
     }
     let _ = writeln!(
         out,
@@ -350,7 +350,7 @@ pub fn lanes_json(c: &Case, l: &Lanes) -> Value {
             "strain": x.wound_strain_difference,
             "extrapolated": x.extrapolated,
         })).collect::<Vec<_>>(),
-        "notes": l.notes,
+        "notes": super::words::note_texts(&l.notes),
     })
 }
 

@@ -73,7 +73,7 @@ pub fn text(c: &Case, lanes: &Lanes, f: &RollFit, sys: System) -> String {
         f.noise.diameter_source
     );
     for n in &f.notes {
-        let _ = writeln!(out, "note: {n}");
+        let _ = writeln!(out, "note: {}", super::words::note(n));
     }
     out
 }
@@ -137,6 +137,6 @@ pub fn json(c: &Case, f: &RollFit) -> Value {
         "prior_sd_ln": f.prior_sd_ln,
         "noise": f.noise,
         "evaluations": f.evaluations,
-        "notes": f.notes,
+        "notes": super::words::note_texts(&f.notes),
     })
 }
