@@ -444,6 +444,15 @@ pub fn sig(v: f64, n: usize) -> String {
     format!("{v:.decimals$}")
 }
 
+/// Label of a length difference per unit length (a ratio of 1e-3): mm/m in SI, mil/in in US
+/// customary. Both are the same number, so values need no conversion.
+pub fn per_mille_label(sys: System) -> &'static str {
+    match sys {
+        System::Si => "mm/m",
+        System::Us => "mil/in",
+    }
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;

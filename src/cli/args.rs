@@ -73,9 +73,13 @@ pub enum Command {
         case: CaseArg,
         #[command(flatten)]
         rules: RulesArg,
-        /// Write a root-cause report (Markdown, SVG plot, JSON) into this folder.
+        /// Write the root-cause report into this folder: CASE.html (self-contained, with plots),
+        /// CASE.md (for tickets) and CASE.json.
         #[arg(long, value_name = "DIR")]
         out: Option<PathBuf>,
+        /// Analysis date printed in the report, YYYY-MM-DD, or `today` for the system clock.
+        #[arg(long, value_name = "DATE")]
+        date: Option<String>,
     },
     /// Compare the case as measured with the same roll changed by --set (e.g. lower tension).
     Whatif {

@@ -173,14 +173,15 @@ pub fn diagnose(
     arg: &CaseArg,
     rules: &RulesArg,
     dir: Option<&Path>,
+    date: Option<&str>,
     out: Output,
 ) -> Result<Outcome, CliError> {
     let c = load(arg)?;
     let table = load_rules(rules)?;
-    let d = diagnose::diagnose(&c, &table, &DiagnoseOptions::default())?;
-    if let Some(dir) = dir {
-        write_report(dir, &c, &d, out.sys)?;
-    }
+    let d = match dir {
+        Some(dir) => write_report(dir, &c, &table, rules, date, out.sys)?,
+        None => diagnose::diagnose(&c, &table, &DiagnoseOptions::default())?,
+    };
     let s = out.pick(
         || report::diagnose_view::json(&d),
         || report::diagnose_view::text(&d, out.sys),
@@ -274,31 +275,61 @@ pub fn rules_lint(file: Option<&Path>, out: Output) -> Result<Outcome, CliError>
 
 /// The report files of a diagnosis: lane plot, pressure plot, Markdown and JSON, each written
 /// whole or not at all.
-fn write_report(dir: &Path, c: &Case, d: &Diagnosis, sys: System) -> Result<(), CliError> {
-    let fail = |source: std::io::Error| CliError::Report {
+/// The analysis date: `YYYY-MM-DD` as given, `today` from the system clock, or none.
+fn analysis_date(date: Option<&str>) -> Result<Option<String>, CliError> {
+    use report::files;
+    Ok(match date {
+        None => None,
+        Some("today") => {
+            let secs = std::time::SystemTime::now()
+                .duration_since(std::time::UNIX_EPOCH)
+                .map(|d| d.as_secs_f64())
+                .unwrap_or(0.0);
+            Some(files::date_from_days(
+                (secs / crate::units::DAY_S).floor() as i64
+            ))
+        }
+        Some(s) => Some(files::parse_date(s).ok_or_else(|| CliError::BadDate(s.to_string()))?),
+    })
+}
+
+/// Diagnose and write the root-cause report (`diagnose --out DIR`): the fit is made once and
+/// shared by the diagnosis and the report's plots.
+fn write_report(
+    dir: &Path,
+    c: &Case,
+    table: &Table,
+    rules: &RulesArg,
+    date: Option<&str>,
+    sys: System,
+) -> Result<Diagnosis, CliError> {
+    use report::{files, report_data};
+    let date = analysis_date(date)?;
+    let text = match &rules.rules {
+        Some(p) => std::fs::read(p).map_err(|source| CliError::RulesText {
+            path: p.clone(),
+            source,
+        })?,
+        None => rules::DEFAULT_RULES.as_bytes().to_vec(),
+    };
+    let opt = DiagnoseOptions::default();
+    let fitted = diagnose::fitted(c, &opt)?;
+    let d = diagnose::diagnose_fitted(c, table, &opt, &fitted)?;
+    let data = report_data::ReportData {
+        case: c,
+        fitted: &fitted,
+        diagnosis: &d,
+        rules: report_data::RulesInfo {
+            source: table.source.clone(),
+            fingerprint: files::fingerprint(&text),
+            rules: table.rules.len(),
+        },
+        date,
+        sys,
+    };
+    files::write_report(dir, &data).map_err(|source| CliError::Report {
         dir: dir.to_path_buf(),
         source,
-    };
-    std::fs::create_dir_all(dir).map_err(fail)?;
-    let stem = report::file_stem(&c.id);
-    let plot = format!("{stem}_lanes.svg");
-    let files = [
-        (plot.clone(), report::diagnose_view::svg(d, c.roll.width_m)),
-        (
-            format!("{stem}_pressure.svg"),
-            report::diagnose_view::pressure_svg(d),
-        ),
-        (
-            format!("{stem}_report.md"),
-            report::diagnose_view::markdown(d, &plot, sys),
-        ),
-        (
-            format!("{stem}_diagnosis.json"),
-            report::json_text(&report::diagnose_view::json(d))?,
-        ),
-    ];
-    for (name, content) in files {
-        report::write_atomic(&dir.join(name), &content).map_err(fail)?;
-    }
-    Ok(())
+    })?;
+    Ok(d)
 }

@@ -35,6 +35,13 @@ pub enum CliError {
         dir: PathBuf,
         source: std::io::Error,
     },
+    #[error("--date {0:?}: not a calendar date; write YYYY-MM-DD (e.g. 2026-12-02) or `today`")]
+    BadDate(String),
+    #[error("{}: cannot read the rule table: {source}", .path.display())]
+    RulesText {
+        path: PathBuf,
+        source: std::io::Error,
+    },
     #[error("cannot write the JSON output: {0}")]
     Json(#[from] serde_json::Error),
     #[error("whatif needs at least one --set path=value, e.g. --set winding.tension=\"1.8 pli\"")]
@@ -57,7 +64,7 @@ impl CliError {
     /// output that could not be written.
     pub fn exit_code(&self) -> u8 {
         match self {
-            CliError::WhatIfNeedsSet | CliError::TriageNeedsFiles => 1,
+            CliError::WhatIfNeedsSet | CliError::TriageNeedsFiles | CliError::BadDate(_) => 1,
             CliError::Case(_)
             | CliError::Cases(_)
             | CliError::Rules(_)
@@ -68,6 +75,7 @@ impl CliError {
             | CliError::WhatIfLanes(_)
             | CliError::Folder { .. }
             | CliError::Report { .. }
+            | CliError::RulesText { .. }
             | CliError::Json(_) => 2,
         }
     }

@@ -52,7 +52,8 @@ pub fn run(cli: &Cli) -> Result<Outcome, CliError> {
             case,
             rules,
             out: dir,
-        } => commands::diagnose(case, rules, dir.as_deref(), out),
+            date,
+        } => commands::diagnose(case, rules, dir.as_deref(), date.as_deref(), out),
         Command::Whatif { case, rules } => commands::whatif(case, rules, out),
         Command::Triage { paths, rules } => commands::triage(paths, rules, out),
         Command::Rules { command } => match command {

@@ -230,18 +230,28 @@ pub fn diagnose(
     table: &Table,
     opt: &DiagnoseOptions,
 ) -> Result<Diagnosis, DiagnoseError> {
+    diagnose_fitted(case, table, opt, &fitted(case, opt)?)
+}
+
+/// Diagnose a case already wound and fitted with [`fitted`] (the report reuses the fit).
+pub fn diagnose_fitted(
+    case: &Case,
+    table: &Table,
+    opt: &DiagnoseOptions,
+    fitted: &Fitted,
+) -> Result<Diagnosis, DiagnoseError> {
     let Fitted {
         lanes,
         wound,
         fit,
         creep,
-    } = fitted(case, opt)?;
-    let feats = features::compute(case, &lanes, &wound, &fit.aged);
+    } = fitted;
+    let feats = features::compute(case, lanes, wound, &fit.aged);
     let fired = rules::evaluate(table, &feats.values);
-    let base = base_scenario(case, &lanes, creep, Options::default().levelling);
+    let base = base_scenario(case, lanes, creep.clone(), Options::default().levelling);
     let mut notes = fit.notes.clone();
     let (base_spread, causes) = if opt.what_if {
-        attribute_causes(&base, &wound, opt.nodes)?
+        attribute_causes(&base, wound, opt.nodes)?
     } else {
         (feats.get(Feature::SpreadMmPerM), Vec::new())
     };
@@ -253,19 +263,19 @@ pub fn diagnose(
     };
     let mut findings = Vec::new();
     for fr in &fired {
-        findings.push(finding(fr, case, &lanes, &feats, &mut checker)?);
+        findings.push(finding(fr, case, lanes, &feats, &mut checker)?);
     }
     // `case` accepts only vocabulary words as the complaint
     let complaint = case.complaint.as_deref().and_then(Defect::from_word);
     let agreement = complaint.map(|c| agreement(c, &findings));
-    let lane_results = lane_results(&fit, &lanes, &feats);
+    let lane_results = lane_results(fit, lanes, &feats);
     for n in &fit.aged.notes {
         if !notes.contains(n) {
             notes.push(*n);
         }
     }
     Ok(Diagnosis {
-        pressure_curves: pressure_curves(&wound),
+        pressure_curves: pressure_curves(wound),
         case: case.id.clone(),
         title: case.title.clone(),
         rules: table.source.clone(),

@@ -5,9 +5,18 @@
 
 pub mod age_view;
 pub mod case_view;
+pub mod chart;
 pub mod check_view;
 pub mod diagnose_view;
+pub mod document;
+pub mod document_tables;
+pub mod escape;
+pub mod files;
 pub mod fit_view;
+pub mod html;
+pub mod markdown;
+pub mod plots;
+pub mod report_data;
 pub mod rules_view;
 pub mod stress_view;
 pub mod triage_view;
@@ -65,19 +74,6 @@ pub fn json_text(v: &serde_json::Value) -> Result<String, serde_json::Error> {
     let mut s = serde_json::to_string_pretty(v)?;
     s.push('\n');
     Ok(s)
-}
-
-/// A file-name stem from a case id: letters, digits, `-` and `_` kept, anything else `_`.
-pub fn file_stem(id: &str) -> String {
-    id.chars()
-        .map(|ch| {
-            if ch.is_ascii_alphanumeric() || ch == '-' || ch == '_' {
-                ch
-            } else {
-                '_'
-            }
-        })
-        .collect()
 }
 
 /// Write a file atomically: to a temporary file beside it, then rename, so a failure never leaves
