@@ -362,3 +362,35 @@ fn a_bad_date_is_a_usage_error_and_writes_nothing() {
     assert!(String::from_utf8_lossy(&o.stderr).contains("YYYY-MM-DD"));
     assert!(!dir.exists() || std::fs::read_dir(&dir).unwrap().next().is_none());
 }
+
+#[test]
+fn the_same_case_gives_the_same_report_bytes_and_today_reads_the_clock() {
+    let (a, b) = (out_dir("same-a"), out_dir("same-b"));
+    let (ca, _, fa) = report(&[], &a);
+    let (cb, _, fb) = report(&[], &b);
+    assert_eq!(ca, cb);
+    assert_eq!(fa.len(), 3);
+    assert_eq!(fa, fb, "same input, same bytes");
+    let c = out_dir("today");
+    let o = Command::new(env!("CARGO_BIN_EXE_rollsleuth"))
+        .args(["diagnose", "--date", "today", "--out"])
+        .arg(&c)
+        .output()
+        .unwrap();
+    assert!(matches!(o.status.code(), Some(0 | 1)));
+    let html = std::fs::read_to_string(c.join("NVP-PM3-24117-R06.html")).unwrap();
+    let doc = check_structure(&html);
+    let date = keyed(&doc, "date");
+    let bytes = date.as_bytes();
+    assert!(
+        bytes.len() == 10
+            && bytes[4] == b'-'
+            && bytes[7] == b'-'
+            && date.chars().filter(|c| c.is_ascii_digit()).count() == 8
+            && date.as_str() >= "2026-01-01",
+        "{date}"
+    );
+    for d in [a, b, c] {
+        let _ = std::fs::remove_dir_all(d);
+    }
+}
