@@ -1,6 +1,7 @@
 //! A browser renders each field case's report: headless Chromium (Debian package `chromium`,
 //! installed by `.ci/run`) screenshots the HTML to PNG at A4 proportions (1240 x 1754 px), and
-//! the image must have that size and not be blank (pixel variance well above zero).
+//! the image must have that size and not be blank (pixel variance well above zero), and the page
+//! must log nothing to the browser console.
 //!
 //! Without chromium the test fails when `CI` is set (CI must install it) and otherwise prints
 //! why it did not run.
@@ -99,6 +100,9 @@ fn chromium_renders_every_field_case_report() {
                 "--disable-component-update",
                 "--disable-sync",
                 "--no-first-run",
+                // console messages go to stderr as `INFO:CONSOLE(...)` lines
+                "--enable-logging=stderr",
+                "--v=0",
             ])
             .arg(format!("--user-data-dir={}", profile.display()))
             .arg(format!("--screenshot={}", shot.display()))
@@ -111,6 +115,9 @@ fn chromium_renders_every_field_case_report() {
             "{case}: no screenshot; chromium said: {}",
             String::from_utf8_lossy(&out.stderr)
         );
+        let log = String::from_utf8_lossy(&out.stderr);
+        let console: Vec<&str> = log.lines().filter(|l| l.contains(":CONSOLE")).collect();
+        assert!(console.is_empty(), "{case}: console messages: {console:?}");
         let (w, h, var) = png_stats(&shot);
         assert_eq!((w, h), SIZE, "{case}: screenshot size");
         // a blank page has variance 0; text, tables and a plot on white give thousands
