@@ -10,7 +10,8 @@
 //! - [`fit`]: creep fitted per lane to measured hardness and diameter (argmin);
 //! - [`rules`]: rule tables, lint and evaluation;
 //! - [`diagnose`]: features, findings, root-cause shares, corrections re-run;
-//! - [`report`]: tables, JSON, Markdown and SVG; [`cli`]: arguments and exit codes;
+//! - [`report`]: tables, JSON, the root-cause report (HTML with SVG plots, Markdown);
+//! - [`cli`]: arguments and exit codes;
 //! - [`vocab`]: features, corrections, defects, likelihoods and causes as enums;
 //! - [`interp`], [`numeric`]: small shared kernels.
 

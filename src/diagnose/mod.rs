@@ -142,10 +142,6 @@ pub struct Diagnosis {
     pub spread_mm_per_m: f64,
     /// Whether the output advises action (then it carries the safety note).
     pub advises_action: bool,
-    /// Wound-in interlayer pressure against radius per lane, for plotting: radii (m) and, per
-    /// lane, (position m, pressure Pa at each radius).
-    #[serde(skip)]
-    pub pressure_curves: (Vec<f64>, Vec<(f64, Vec<f64>)>),
     pub notes: Vec<Note>,
 }
 
@@ -275,7 +271,6 @@ pub fn diagnose_fitted(
         }
     }
     Ok(Diagnosis {
-        pressure_curves: pressure_curves(wound),
         case: case.id.clone(),
         title: case.title.clone(),
         rules: table.source.clone(),
@@ -452,27 +447,4 @@ fn lane_results(fit: &crate::fit::RollFit, lanes: &Lanes, feats: &Features) -> V
             fit_rmse: l.rmse,
         })
         .collect()
-}
-
-/// Wound-in interlayer pressure against radius per lane, thinned to about 200 radii.
-#[allow(clippy::type_complexity)]
-fn pressure_curves(wound: &crate::winding::Wound) -> (Vec<f64>, Vec<(f64, Vec<f64>)>) {
-    let stride = (wound.radius_m.len() / 200).max(1);
-    (
-        wound.radius_m.iter().step_by(stride).copied().collect(),
-        wound
-            .lanes
-            .iter()
-            .map(|l| {
-                (
-                    l.position_m,
-                    l.radial_stress_pa
-                        .iter()
-                        .step_by(stride)
-                        .map(|s| -s)
-                        .collect(),
-                )
-            })
-            .collect(),
-    )
 }

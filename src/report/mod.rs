@@ -1,4 +1,5 @@
-//! Human output (comfy-table tables, SVG plots, Markdown) and JSON documents.
+//! Human output (comfy-table tables; the root-cause report as HTML with plotters SVG plots and as
+//! Markdown) and JSON documents.
 //!
 //! **Invariant:** the only module that turns results into words; models and diagnosis return
 //! structured data. Output is deterministic: same input, same bytes.
