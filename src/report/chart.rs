@@ -230,7 +230,7 @@ fn ranges(c: &Chart) -> ((f64, f64), (f64, f64)) {
     } else {
         0.12
     };
-    ((x0, x1), range(ys, true, (0.08, top)))
+    ((x0, x1), range(ys, true, (0.1, top)))
 }
 
 /// The chart context of a line chart.
