@@ -306,9 +306,14 @@ fn defaults(c: &Case, v: &mut Vec<Block>) {
     });
 }
 
+/// The model's notes, the provenance (rule table, tool, date, case file, units) and the safety
+/// note.
 pub fn provenance(r: &ReportData, v: &mut Vec<Block>) {
     let d = r.diagnosis;
-    let mut notes: Vec<Vec<Span>> = d.notes.iter().map(|n| vec![t(n.clone())]).collect();
+    let mut notes: Vec<Vec<Span>> = super::words::notes(d)
+        .into_iter()
+        .map(|n| vec![t(n)])
+        .collect();
     notes.extend(
         r.case
             .warnings
