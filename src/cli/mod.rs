@@ -151,25 +151,28 @@ fn route_notes(o: Outcome, cli: &Cli) -> Outcome {
             }
     );
     let width = crate::report::width() as usize;
-    let split = |s: String| {
-        let s = if prose {
-            crate::report::wrap_prose(&s, width)
+    let wrap = |s: &str| {
+        if prose {
+            crate::report::wrap_prose(s, width)
         } else {
-            s
-        };
+            s.to_string()
+        }
+    };
+    let split = |s: String| {
         let mut keep = String::with_capacity(s.len());
-        let mut err = std::io::stderr().lock();
+        let mut err = String::new();
         for line in s.split_inclusive('\n') {
             let note = line.starts_with("note: ");
             if note || line.starts_with("warning: ") {
                 if !(note && cli.quiet) {
-                    let _ = err.write_all(line.as_bytes());
+                    err.push_str(line);
                 }
             } else {
                 keep.push_str(line);
             }
         }
-        keep
+        let _ = std::io::stderr().lock().write_all(wrap(&err).as_bytes());
+        wrap(&keep)
     };
     match o {
         Outcome::Ok(s) => Outcome::Ok(split(s)),
