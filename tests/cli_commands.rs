@@ -142,13 +142,13 @@ fn whatif_compares_before_and_after() {
     assert_eq!(code, 0, "{err}");
     assert!(out.contains("->") && out.contains("Safety"));
     let (code, _, _) = run(&["whatif"]);
-    assert_eq!(code, 1, "whatif without --set is a usage error");
+    assert_eq!(code, 2, "whatif without --set is a usage error");
 }
 
 #[test]
 fn triage_ranks_rolls_and_reports_bad_files() {
     let (code, out, err) = run(&["triage", "field_cases", "no/such.yaml"]);
-    assert_eq!(code, 1, "{err}");
+    assert_eq!(code, 2, "a bad file exits 2 after the rest: {err}");
     assert!(
         out.contains("NVP-PM3-24117-R06")
             && out.contains("KCP-CM2-8841-R03")

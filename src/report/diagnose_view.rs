@@ -2,17 +2,22 @@
 //! root-cause report files are in `document`, `html`, `markdown` and `plots`.
 
 use super::words;
-use super::{pos, table, SAFETY};
+use super::{pos, short, strain_unit, table, SAFETY};
+
+/// Longest source text in a table cell (the full text is in --json and the report).
+const SOURCE_CHARS: usize = 60;
 use crate::diagnose::{CauseShare, Diagnosis, Finding};
 use crate::units::System;
+use crate::vocab::Feature;
 use serde_json::{json, Value};
 use std::fmt::Write;
 
-fn cond(above: Option<f64>, below: Option<f64>) -> String {
+fn cond(feature: Feature, above: Option<f64>, below: Option<f64>, sys: System) -> String {
+    let v = |x: f64| words::feature_value(feature, x, sys);
     match (above, below) {
-        (Some(a), Some(b)) => format!("between {a} and {b}"),
-        (Some(a), None) => format!("above {a}"),
-        (None, Some(b)) => format!("below {b}"),
+        (Some(a), Some(b)) => format!("between {} and {}", v(a), v(b)),
+        (Some(a), None) => format!("above {}", v(a)),
+        (None, Some(b)) => format!("below {}", v(b)),
         _ => String::new(),
     }
 }
@@ -25,9 +30,10 @@ fn lanes_text(lanes: &[crate::diagnose::LaneRef], sys: System) -> String {
         .iter()
         .map(|l| {
             format!(
-                "{} ({:+.2} mm/m)",
+                "{} ({:+.2} {})",
                 pos(l.position_m, sys),
-                l.excess_mm_per_m
+                l.excess_mm_per_m,
+                strain_unit(sys)
             )
         })
         .collect::<Vec<_>>()
@@ -40,8 +46,12 @@ pub fn text(d: &Diagnosis, sys: System) -> String {
     let _ = writeln!(out, "Diagnosis of case {}: {}", d.case, d.title);
     let _ = writeln!(
         out,
-        "Predicted length spread across the width at unwind: {:.2} mm per metre of web ({} lanes; rules: {}).",
+        "Predicted length spread across the width at unwind: {:.2} {} of web ({} lanes; rules: {}).",
         d.spread_mm_per_m,
+        match sys {
+            System::Si => "mm per metre",
+            System::Us => "mil per inch",
+        },
         d.lanes.len(),
         d.rules
     );
@@ -55,7 +65,7 @@ pub fn text(d: &Diagnosis, sys: System) -> String {
         let _ = writeln!(
             out,
             "\nRoot cause (each cause removed in turn):\n{}",
-            causes_table(&d.causes)
+            causes_table(&d.causes, sys)
         );
     }
     if let Some(a) = &d.agreement {
@@ -94,15 +104,18 @@ fn finding_text(rank: usize, f: &Finding, sys: System) -> String {
     let mut t = table(&["evidence", "value", "fires when", "source"]);
     for e in &f.evidence {
         t.add_row(vec![
-            e.feature.word().to_string(),
-            format!("{:.3}", e.value),
-            cond(e.above, e.below),
-            e.source.clone(),
+            words::feature(e.feature).to_string(),
+            words::feature_value(e.feature, e.value, sys),
+            cond(e.feature, e.above, e.below, sys),
+            short(&e.source, SOURCE_CHARS),
         ]);
     }
     let _ = writeln!(out, "{t}");
     if !f.corrections.is_empty() {
-        let mut c = table(&["correction", "spread before mm/m", "after mm/m", "why"]);
+        let unit = strain_unit(sys);
+        let before = format!("spread before {unit}");
+        let after = format!("after {unit}");
+        let mut c = table(&["correction", &before, &after, "why"]);
         for x in &f.corrections {
             c.add_row(vec![
                 x.text.clone(),
@@ -121,8 +134,9 @@ fn finding_text(rank: usize, f: &Finding, sys: System) -> String {
 }
 
 /// Root-cause shares as a table.
-fn causes_table(causes: &[CauseShare]) -> comfy_table::Table {
-    let mut c = table(&["cause", "removed as", "spread without it mm/m", "share"]);
+fn causes_table(causes: &[CauseShare], sys: System) -> comfy_table::Table {
+    let without = format!("spread without it {}", strain_unit(sys));
+    let mut c = table(&["cause", "removed as", &without, "share"]);
     for x in causes {
         c.add_row(vec![
             words::cause(x.cause).to_string(),

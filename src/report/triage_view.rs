@@ -56,12 +56,66 @@ impl TriageRow {
     }
 }
 
+/// The columns of the triage CSV (SI; the spread is mm of extra length per m of web).
+const CSV_COLUMNS: [&str; 8] = [
+    "file",
+    "case",
+    "spread_mm_per_m",
+    "top_likelihood",
+    "defects",
+    "complaint",
+    "agrees",
+    "error",
+];
+
+/// The header line of the triage CSV.
+pub fn triage_csv_header() -> String {
+    csv_text(|w| w.write_record(CSV_COLUMNS))
+}
+
+/// Triage rows as CSV lines (no header); defects are separated by `;`.
+pub fn triage_csv_rows(rows: &[TriageRow]) -> String {
+    csv_text(|w| {
+        for r in rows {
+            let defects: Vec<&str> = r.defects.iter().map(|d| d.word()).collect();
+            w.write_record([
+                r.file.clone(),
+                r.case.clone(),
+                if r.error.is_some() {
+                    String::new()
+                } else {
+                    format!("{:.4}", r.spread_mm_per_m)
+                },
+                format!("{:.2}", r.top_likelihood),
+                defects.join(";"),
+                r.complaint.map(|c| c.word()).unwrap_or_default().into(),
+                r.agrees.map(|a| a.to_string()).unwrap_or_default(),
+                r.error
+                    .as_deref()
+                    .map(|e| e.lines().next().unwrap_or(""))
+                    .unwrap_or_default()
+                    .into(),
+            ])?;
+        }
+        Ok(())
+    })
+}
+
+fn csv_text(fill: impl FnOnce(&mut csv::Writer<Vec<u8>>) -> csv::Result<()>) -> String {
+    let mut w = csv::Writer::from_writer(Vec::new());
+    // Writing to memory cannot fail.
+    let _ = fill(&mut w);
+    let bytes = w.into_inner().unwrap_or_default();
+    String::from_utf8_lossy(&bytes).into_owned()
+}
+
 /// Triage table.
-pub fn triage_text(rows: &[TriageRow]) -> String {
+pub fn triage_text(rows: &[TriageRow], sys: System) -> String {
+    let spread = format!("length spread {}", super::strain_unit(sys));
     let mut t = table(&[
         "roll",
         "file",
-        "spread mm/m",
+        &spread,
         "likely defects",
         "complaint",
         "agrees",
@@ -76,7 +130,10 @@ pub fn triage_text(rows: &[TriageRow]) -> String {
                 format!("{:.2}", r.spread_mm_per_m)
             },
             match &r.error {
-                Some(e) => format!("error: {}", e.lines().next().unwrap_or("")),
+                Some(e) => format!(
+                    "error: {}",
+                    super::short(e.lines().next().unwrap_or(""), 120)
+                ),
                 None if r.defects.is_empty() => "none".into(),
                 None => defect_list(&r.defects),
             },

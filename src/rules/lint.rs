@@ -99,8 +99,9 @@ fn check_header(r: &RawRule, p: &mut Problems) -> Option<(Defect, Likelihood)> {
             r.defect.referenced.line(),
             id,
             format!(
-                "unknown defect '{}'; use one of: {}",
+                "unknown defect '{}';{} use one of: {}",
                 r.defect.value,
+                did_you_mean(&r.defect.value, WORDS.iter().copied()),
                 WORDS.join(", ")
             ),
         );
@@ -139,8 +140,9 @@ fn check_condition(c: &RawCondition, id: &str, p: &mut Problems) -> Option<Condi
             line,
             id,
             format!(
-                "unknown feature '{}'; known features: {}",
+                "unknown feature '{}';{} known features: {}",
                 c.feature.value,
+                did_you_mean(&c.feature.value, Feature::ALL.iter().map(|f| f.word())),
                 Feature::ALL
                     .iter()
                     .map(|f| f.word())
@@ -193,8 +195,9 @@ fn check_correction(c: &RawCorrection, id: &str, p: &mut Problems) -> Option<Cor
             line,
             id,
             format!(
-                "unknown action '{}'; use one of: {}",
+                "unknown action '{}';{} use one of: {}",
                 c.action.value,
+                did_you_mean(&c.action.value, Action::ALL.iter().map(|a| a.word())),
                 Action::ALL
                     .iter()
                     .map(|a| a.word())
@@ -251,4 +254,51 @@ fn separated(a: &Rule, b: &Rule) -> bool {
             }
         })
     })
+}
+
+/// " did you mean 'x'?" for the known word nearest to `word` (Levenshtein distance at most a
+/// third of its length, at least 2), else nothing.
+pub(crate) fn did_you_mean<'a>(word: &str, known: impl Iterator<Item = &'a str>) -> String {
+    let limit = (word.chars().count() / 3).max(2);
+    known
+        .map(|k| (edit_distance(word, k), k))
+        .filter(|(d, _)| *d <= limit)
+        .min()
+        .map(|(_, k)| format!(" did you mean '{k}'?"))
+        .unwrap_or_default()
+}
+
+/// Levenshtein edit distance (insertions, deletions, substitutions), by characters.
+pub(crate) fn edit_distance(a: &str, b: &str) -> usize {
+    let b: Vec<char> = b.chars().collect();
+    let mut prev: Vec<usize> = (0..=b.len()).collect();
+    for (i, ca) in a.chars().enumerate() {
+        let mut cur = vec![i + 1; b.len() + 1];
+        for (j, &cb) in b.iter().enumerate() {
+            let sub = prev[j] + usize::from(ca != cb);
+            cur[j + 1] = sub.min(prev[j + 1] + 1).min(cur[j] + 1);
+        }
+        prev = cur;
+    }
+    prev[b.len()]
+}
+
+#[cfg(test)]
+mod suggest_tests {
+    use super::*;
+
+    /// Worked examples of Levenshtein (1966) distance: kitten/sitting 3, flaw/lawn 2.
+    #[test]
+    fn edit_distance_matches_textbook_examples() {
+        assert_eq!(edit_distance("kitten", "sitting"), 3);
+        assert_eq!(edit_distance("flaw", "lawn"), 2);
+        assert_eq!(edit_distance("", "abc"), 3);
+    }
+
+    #[test]
+    fn suggests_the_nearest_known_word() {
+        let s = did_you_mean("lokal_peak_ratio", Feature::ALL.iter().map(|f| f.word()));
+        assert_eq!(s, " did you mean 'local_peak_ratio'?");
+        assert_eq!(did_you_mean("zzzz", ["baggy_lane"].into_iter()), "");
+    }
 }
