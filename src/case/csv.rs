@@ -6,12 +6,12 @@ use std::path::Path;
 /// (position, value) rows of a profile CSV, as written (units applied by validation).
 pub(super) fn read_profile(path: &Path) -> Result<Vec<(f64, f64)>, String> {
     let shown = path.display().to_string();
+    let bytes = crate::input::read_bytes(path).map_err(|e| {
+        format!("CSV file '{shown}' {e} (the path is relative to the case file's folder)")
+    })?;
     let mut rdr = csv::ReaderBuilder::new()
         .trim(csv::Trim::All)
-        .from_path(path)
-        .map_err(|e| {
-            format!("cannot read CSV '{shown}': {e}; the path is relative to the case file")
-        })?;
+        .from_reader(bytes.as_slice());
     let headers = rdr.headers().map_err(|e| format!("{shown}: {e}"))?.clone();
     let col = |name: &str| headers.iter().position(|h| h.eq_ignore_ascii_case(name));
     let (Some(pc), Some(vc)) = (col("position"), col("value")) else {

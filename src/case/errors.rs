@@ -17,7 +17,7 @@ pub struct Problem {
 #[derive(Debug, Clone, PartialEq, Error)]
 pub enum CaseError {
     /// The file could not be read.
-    #[error("{file}: cannot read the case file: {message}. Fix: check the path.")]
+    #[error("{file}: the case file {message}.")]
     Read { file: String, message: String },
     /// The YAML is malformed, or a field is missing, misspelt or of the wrong type.
     #[error("{file}: {}", syntax_text(.message))]

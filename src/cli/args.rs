@@ -13,6 +13,10 @@ pub struct Cli {
     /// Units for human output.
     #[arg(long, global = true, value_enum, default_value_t = UnitsArg::Si)]
     pub units: UnitsArg,
+    /// Largest input file (case, rule table, CSV) in bytes; default 8 MiB, or the environment
+    /// variable ROLLSLEUTH_MAX_INPUT_SIZE.
+    #[arg(long, global = true, value_name = "BYTES")]
+    pub max_input_size: Option<u64>,
     #[command(subcommand)]
     pub command: Command,
 }

@@ -64,7 +64,11 @@ fn case_files(paths: &[PathBuf]) -> Result<Vec<PathBuf>, CliError> {
             })?;
             let mut v: Vec<PathBuf> = rd
                 .filter_map(|e| e.ok().map(|e| e.path()))
-                .filter(|x| x.extension().is_some_and(|e| e == "yaml" || e == "yml"))
+                .filter(|x| {
+                    x.extension().is_some_and(|e| {
+                        e.eq_ignore_ascii_case("yaml") || e.eq_ignore_ascii_case("yml")
+                    })
+                })
                 .collect();
             v.sort();
             out.extend(v);
@@ -297,8 +301,6 @@ fn write_report(dir: &Path, c: &Case, d: &Diagnosis, sys: System) -> Result<(), 
             report::json_text(&report::diagnose_view::json(d))?,
         ),
     ];
-    for (name, content) in files {
-        report::write_atomic(&dir.join(name), &content).map_err(fail)?;
-    }
+    report::write_set(dir, &files).map_err(fail)?;
     Ok(())
 }

@@ -173,7 +173,7 @@ pub fn svg(d: &Diagnosis, width_m: f64) -> String {
         s,
         "<svg xmlns=\"http://www.w3.org/2000/svg\" width=\"{w}\" height=\"{h}\" font-family=\"Helvetica, Arial, sans-serif\" font-size=\"12\">\n<rect width=\"{w}\" height=\"{h}\" fill=\"white\"/>\n"
     );
-    let _ = writeln!(s, "<text x=\"{m}\" y=\"20\">Predicted length at unwind over the width-weighted mean lane, mm per m (case {})</text>", d.case);
+    let _ = writeln!(s, "<text x=\"{m}\" y=\"20\">Predicted length at unwind over the width-weighted mean lane, mm per m (case {})</text>", super::escape::xml(&d.case));
     let run = d.features.get(Feature::RunningStrainMmPerM);
     for (lim, label) in [
         (0.5 * run, "half the running strain: looks baggy"),
@@ -241,7 +241,7 @@ pub fn pressure_svg(d: &Diagnosis) -> String {
     let y = |p: f64| h - m - (h - 1.8 * m) * p / pmax;
     let mut s = String::new();
     let _ = writeln!(s, "<svg xmlns=\"http://www.w3.org/2000/svg\" width=\"{w}\" height=\"{h}\" font-family=\"Helvetica, Arial, sans-serif\" font-size=\"12\">\n<rect width=\"{w}\" height=\"{h}\" fill=\"white\"/>");
-    let _ = writeln!(s, "<text x=\"{m}\" y=\"24\">Wound-in interlayer pressure against radius, every lane (case {})</text>", d.case);
+    let _ = writeln!(s, "<text x=\"{m}\" y=\"24\">Wound-in interlayer pressure against radius, every lane (case {})</text>", super::escape::xml(&d.case));
     let _ = writeln!(s, "<line x1=\"{m}\" y1=\"{:.1}\" x2=\"{:.1}\" y2=\"{:.1}\" stroke=\"black\"/><line x1=\"{m}\" y1=\"{:.1}\" x2=\"{m}\" y2=\"{:.1}\" stroke=\"black\"/>", y(0.0), w - 0.5 * m, y(0.0), y(0.0), y(pmax));
     let n = curves.len().max(1);
     for (k, (_, p)) in curves.iter().enumerate() {
@@ -269,7 +269,7 @@ pub fn pressure_svg(d: &Diagnosis) -> String {
 /// Markdown root-cause report (refers to the SVG plot by file name).
 pub fn markdown(d: &Diagnosis, plot_file: &str, sys: System) -> String {
     let mut s = String::new();
-    let _ = writeln!(s, "# Root-cause report: {}\n\n{}\n", d.case, d.title);
+    let _ = writeln!(s, "# Root-cause report: {}\n\n{}\n", md(&d.case), md(&d.title));
     let _ = writeln!(
         s,
         "Predicted length spread across the width at unwind: **{:.2} mm per metre of web**.\n",
@@ -318,6 +318,8 @@ pub fn markdown(d: &Diagnosis, plot_file: &str, sys: System) -> String {
     s
 }
 
+use super::escape::markdown as md;
+
 /// One finding in Markdown: heading, mechanism, lanes, evidence and corrections.
 fn finding_markdown(rank: usize, f: &Finding, sys: System) -> String {
     let mut s = String::new();
@@ -326,7 +328,7 @@ fn finding_markdown(rank: usize, f: &Finding, sys: System) -> String {
         "### {rank}. {} ({} likelihood)\n\n{}\n\nWhere: {}\n",
         words::defect(f.defect),
         f.likelihood,
-        f.mechanism,
+        md(&f.mechanism),
         lanes_text(&f.lanes, sys)
     );
     let _ = writeln!(
@@ -340,7 +342,7 @@ fn finding_markdown(rank: usize, f: &Finding, sys: System) -> String {
             e.feature,
             e.value,
             cond(e.above, e.below),
-            e.source
+            md(&e.source)
         );
     }
     if !f.corrections.is_empty() {
@@ -352,7 +354,10 @@ fn finding_markdown(rank: usize, f: &Finding, sys: System) -> String {
             let _ = writeln!(
                 s,
                 "| {} | {:.2} | {:.2} | {} |",
-                c.text, c.spread_before_mm_per_m, c.spread_after_mm_per_m, c.why
+                md(&c.text),
+                c.spread_before_mm_per_m,
+                c.spread_after_mm_per_m,
+                md(&c.why)
             );
         }
     }
