@@ -105,7 +105,8 @@ pub fn read_bytes(path: &Path) -> Result<Vec<u8>, InputError> {
 /// dropped).
 pub fn read_text(path: &Path) -> Result<String, InputError> {
     let bytes = read_bytes(path)?;
-    let mut text = String::from_utf8(bytes).map_err(|e| InputError::NotUtf8(e.utf8_error().valid_up_to()))?;
+    let mut text =
+        String::from_utf8(bytes).map_err(|e| InputError::NotUtf8(e.utf8_error().valid_up_to()))?;
     if text.starts_with('\u{feff}') {
         text.drain(..3);
     }

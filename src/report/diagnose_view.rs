@@ -269,7 +269,12 @@ pub fn pressure_svg(d: &Diagnosis) -> String {
 /// Markdown root-cause report (refers to the SVG plot by file name).
 pub fn markdown(d: &Diagnosis, plot_file: &str, sys: System) -> String {
     let mut s = String::new();
-    let _ = writeln!(s, "# Root-cause report: {}\n\n{}\n", md(&d.case), md(&d.title));
+    let _ = writeln!(
+        s,
+        "# Root-cause report: {}\n\n{}\n",
+        md(&d.case),
+        md(&d.title)
+    );
     let _ = writeln!(
         s,
         "Predicted length spread across the width at unwind: **{:.2} mm per metre of web**.\n",
