@@ -35,7 +35,7 @@ pub fn max_input_bytes() -> u64 {
 #[derive(Debug, Clone, PartialEq, thiserror::Error)]
 pub enum InputError {
     /// The file does not exist or cannot be opened.
-    #[error("cannot open the file ({0}). Fix: check the path and its permissions")]
+    #[error("cannot be opened ({0}). Fix: check the path and its permissions")]
     Open(String),
     /// Not a regular file (a folder, FIFO, device or socket).
     #[error("is {0}, not a regular file. Fix: give the path of a file saved on disk")]
