@@ -101,6 +101,23 @@ fn with_edge_strips(mut e: Vec<f64>) -> Vec<f64> {
     e
 }
 
+/// Most lanes made from a profile's positions when the case states no lanes; a denser scan is
+/// merged to this many (a note says so).
+pub const MAX_IMPLICIT_LANES: usize = 60;
+
+/// The profile with the most positions (caliper first, then diameter, then hardness).
+fn densest(case: &Case) -> Option<&Profile> {
+    [Measure::Caliper, Measure::Diameter, Measure::Hardness]
+        .iter()
+        .filter_map(|m| {
+            case.profiles
+                .iter()
+                .filter(|p| p.what == *m)
+                .max_by_key(|p| p.positions_m.len())
+        })
+        .max_by_key(|p| p.positions_m.len())
+}
+
 /// Lane edges (m) for a case: explicit edges as given; otherwise a lane count or the densest
 /// profile's positions, with an edge strip split off each wide edge lane.
 pub fn edges(case: &Case) -> Vec<f64> {
@@ -111,20 +128,17 @@ pub fn edges(case: &Case) -> Vec<f64> {
     if let Some(n) = case.lane_count {
         return with_edge_strips((0..=n).map(|i| w * i as f64 / n as f64).collect());
     }
-    let pick = [Measure::Caliper, Measure::Diameter, Measure::Hardness]
-        .iter()
-        .filter_map(|m| {
-            case.profiles
-                .iter()
-                .filter(|p| p.what == *m)
-                .max_by_key(|p| p.positions_m.len())
-        })
-        .max_by_key(|p| p.positions_m.len());
-    match pick {
+    match densest(case) {
         Some(p) => {
             let x = &p.positions_m;
+            let mut mids: Vec<f64> = x.windows(2).map(|w| 0.5 * (w[0] + w[1])).collect();
+            if mids.len() + 1 > MAX_IMPLICIT_LANES {
+                // merge neighbours: keep every k-th inner edge so at most MAX_IMPLICIT_LANES remain
+                let k = (mids.len() + 1).div_ceil(MAX_IMPLICIT_LANES);
+                mids = mids.into_iter().skip(k - 1).step_by(k).collect();
+            }
             let mut e = vec![0.0];
-            e.extend(x.windows(2).map(|w| 0.5 * (w[0] + w[1])));
+            e.extend(mids);
             e.push(w);
             with_edge_strips(e)
         }
@@ -170,6 +184,17 @@ pub fn build(case: &Case) -> Lanes {
         })
         .collect();
     let mut notes = Vec::new();
+    if let Some(p) = densest(case).filter(|p| {
+        case.lane_edges_m.is_none()
+            && case.lane_count.is_none()
+            && p.positions_m.len() > MAX_IMPLICIT_LANES
+    }) {
+        notes.push(Note::LanesMerged {
+            what: p.what,
+            positions: p.positions_m.len(),
+            lanes: n,
+        });
+    }
     let mut extrap = vec![false; n];
     let mut mark = |what: Measure, notes: &mut Vec<Note>| {
         let i = earliest_index(&series, what)?;

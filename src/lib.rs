@@ -19,6 +19,7 @@ pub mod case;
 pub mod cli;
 pub mod diagnose;
 pub mod fit;
+pub mod input;
 pub mod interp;
 pub mod lanes;
 pub mod note;

@@ -19,6 +19,14 @@ pub enum Note {
         from_m: f64,
         to_m: f64,
     },
+    /// A dense profile and no `lanes:` given: neighbouring positions were merged into fewer lanes.
+    LanesMerged {
+        what: Measure,
+        /// Positions in the profile.
+        positions: usize,
+        /// Lanes made.
+        lanes: usize,
+    },
     /// No caliper profile: lane calipers were inferred from the earliest diameter profile.
     CaliperFromDiameter,
     /// Lab creep curves set a direction's Burgers parameters.

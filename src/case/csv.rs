@@ -65,8 +65,11 @@ fn name_unit(cell: &str) -> (String, Option<String>) {
 /// Read a profile CSV (see the module notes).
 pub(super) fn read_profile(path: &Path, cols: &Columns) -> Result<CsvProfile, String> {
     let shown = path.display().to_string();
-    let text = std::fs::read_to_string(path).map_err(|e| {
-        format!("cannot read CSV '{shown}': {e}; the path is relative to the case file")
+    let bytes = crate::input::read_bytes(path).map_err(|e| {
+        format!("CSV file '{shown}' {e} (the path is relative to the case file's folder)")
+    })?;
+    let text = String::from_utf8(bytes).map_err(|_| {
+        format!("CSV file '{shown}' is not UTF-8 text; save it as UTF-8 (plain CSV)")
     })?;
     let header_line = text.lines().next().unwrap_or("");
     let delim = delimiter(header_line);

@@ -30,6 +30,10 @@ pub struct Cli {
     /// when standard output is not a terminal.
     #[arg(long, global = true, value_name = "COLUMNS", value_parser = clap::value_parser!(u16).range(40..))]
     pub width: Option<u16>,
+    /// Largest input file (case, rule table, CSV) in bytes; default 8 MiB, or the environment
+    /// variable ROLLSLEUTH_MAX_INPUT_SIZE.
+    #[arg(long, global = true, value_name = "BYTES")]
+    pub max_input_size: Option<u64>,
     #[command(subcommand)]
     pub command: Command,
 }

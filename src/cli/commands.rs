@@ -92,7 +92,11 @@ pub(super) fn case_files(paths: &[PathBuf]) -> Result<Vec<PathBuf>, CliError> {
             })?;
             let mut v: Vec<PathBuf> = rd
                 .filter_map(|e| e.ok().map(|e| e.path()))
-                .filter(|x| x.extension().is_some_and(|e| e == "yaml" || e == "yml"))
+                .filter(|x| {
+                    x.extension().is_some_and(|e| {
+                        e.eq_ignore_ascii_case("yaml") || e.eq_ignore_ascii_case("yml")
+                    })
+                })
                 .collect();
             v.sort();
             out.extend(v);

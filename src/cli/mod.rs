@@ -34,6 +34,9 @@ pub enum Outcome {
 
 /// Run a parsed command.
 pub fn run(cli: &Cli) -> Result<Outcome, CliError> {
+    if let Some(b) = cli.max_input_size {
+        crate::input::set_max_input_bytes(b);
+    }
     let out = Output {
         json: cli.json,
         sys: match cli.units {

@@ -83,34 +83,22 @@ pub fn date_from_days(z: i64) -> String {
 /// renames. If any temporary file cannot be written, the temporary files are removed and no
 /// target is touched.
 pub fn write_set(files: &[(PathBuf, String)]) -> std::io::Result<()> {
-    let tmp_of = |p: &Path| -> PathBuf {
-        let name = p
-            .file_name()
-            .map(|n| n.to_string_lossy().into_owned())
-            .unwrap_or_else(|| "out".into());
-        p.with_file_name(format!(".{name}.{}.tmp", std::process::id()))
+    // every file shares one folder here; the exclusive temporary files and the renames are
+    // `report::write_set`'s (tempfile: unpredictable names, no symlink following)
+    let Some(dir) = files.first().and_then(|(p, _)| p.parent()) else {
+        return Ok(());
     };
-    let mut written: Vec<PathBuf> = Vec::new();
-    for (path, content) in files {
-        let tmp = tmp_of(path);
-        if let Err(e) = std::fs::write(&tmp, content) {
-            let _ = std::fs::remove_file(&tmp);
-            for t in &written {
-                let _ = std::fs::remove_file(t);
-            }
-            return Err(e);
-        }
-        written.push(tmp);
-    }
-    for ((path, _), tmp) in files.iter().zip(&written) {
-        if let Err(e) = std::fs::rename(tmp, path) {
-            for t in &written {
-                let _ = std::fs::remove_file(t);
-            }
-            return Err(e);
-        }
-    }
-    Ok(())
+    let named: Vec<(String, String)> = files
+        .iter()
+        .map(|(p, c)| {
+            let name = p
+                .file_name()
+                .map(|n| n.to_string_lossy().into_owned())
+                .unwrap_or_else(|| "out".into());
+            (name, c.clone())
+        })
+        .collect();
+    super::write_set(dir, &named)
 }
 
 /// The files of a root-cause report: `<stem>.html`, `<stem>.md` and `<stem>.json` in `dir`

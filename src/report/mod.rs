@@ -113,22 +113,68 @@ pub fn json_text(v: &serde_json::Value) -> Result<String, serde_json::Error> {
     Ok(s)
 }
 
-/// Write a file atomically: to a temporary file beside it, then rename, so a failure never leaves
-/// a partial output file.
+/// Longest file-name stem made from a case id, characters.
+pub const MAX_STEM_CHARS: usize = 64;
+
+/// A file-name stem from a case id: letters, digits, `-` and `_` kept, anything else `_`; at most
+/// [`MAX_STEM_CHARS`] characters; an id with no letter or digit gives `case`.
+pub fn file_stem(id: &str) -> String {
+    let s: String = id
+        .chars()
+        .take(MAX_STEM_CHARS)
+        .map(|ch| {
+            if ch.is_ascii_alphanumeric() || ch == '-' || ch == '_' {
+                ch
+            } else {
+                '_'
+            }
+        })
+        .collect();
+    if s.chars().any(|c| c.is_ascii_alphanumeric()) {
+        s
+    } else {
+        "case".into()
+    }
+}
+
+/// Write a file atomically: to a temporary file created exclusively beside it under an
+/// unpredictable name, then renamed over the target (a symlink at the target is replaced, never
+/// followed). On any error the temporary file is removed.
 pub fn write_atomic(path: &std::path::Path, content: &str) -> std::io::Result<()> {
-    let dir = path.parent().filter(|p| !p.as_os_str().is_empty());
-    let name = path
-        .file_name()
+    let dir = path.parent().unwrap_or(std::path::Path::new(""));
+    write_set(dir, &[(file_name_of(path), content.to_string())])
+}
+
+fn file_name_of(path: &std::path::Path) -> String {
+    path.file_name()
         .map(|n| n.to_string_lossy().into_owned())
-        .unwrap_or_else(|| "out".into());
-    let tmp = match dir {
-        Some(d) => d.join(format!(".{name}.{}.tmp", std::process::id())),
-        None => std::path::PathBuf::from(format!(".{name}.{}.tmp", std::process::id())),
+        .unwrap_or_else(|| "out".into())
+}
+
+/// Write a set of files into `dir` so that a failure leaves the previous set intact: every file
+/// is first written whole to its own temporary file in `dir`, and only when all are written are
+/// they renamed into place. Temporary files are removed on any error.
+pub fn write_set(dir: &std::path::Path, files: &[(String, String)]) -> std::io::Result<()> {
+    use std::io::Write;
+    let dir = if dir.as_os_str().is_empty() {
+        std::path::Path::new(".")
+    } else {
+        dir
     };
-    std::fs::write(&tmp, content)?;
-    std::fs::rename(&tmp, path).inspect_err(|_| {
-        let _ = std::fs::remove_file(&tmp);
-    })
+    let mut temps = Vec::with_capacity(files.len());
+    for (name, content) in files {
+        let mut t = tempfile::Builder::new()
+            .prefix(".rollsleuth-")
+            .suffix(".tmp")
+            .tempfile_in(dir)?;
+        t.write_all(content.as_bytes())?;
+        t.as_file().sync_all()?;
+        temps.push((t, dir.join(name)));
+    }
+    for (t, target) in temps {
+        t.persist(&target).map_err(|e| e.error)?;
+    }
+    Ok(())
 }
 
 /// Prose lines longer than `width` broken at spaces, continuation lines indented like the line

@@ -93,6 +93,14 @@ pub fn note(n: &Note) -> String {
             from_m * 1e3,
             to_m * 1e3
         ),
+        Note::LanesMerged {
+            what,
+            positions,
+            lanes,
+        } => format!(
+            "the {} profile has {positions} positions and no `lanes:` were given; neighbouring positions were merged into {lanes} lanes (state `lanes:` to choose)",
+            measure(what)
+        ),
         Note::CaliperFromDiameter => {
             "no caliper profile: lane calipers inferred from the earliest diameter profile".into()
         }

@@ -29,6 +29,7 @@ impl Validator {
         }
         self.warn_taper(roll.as_ref(), winding.as_ref());
         self.warn_nip(material.as_ref(), winding.as_ref());
+        self.physical(&raw, material.as_ref(), winding.as_ref());
         Some(Case {
             source: file.to_string(),
             id: raw.case.clone(),

@@ -20,6 +20,8 @@ struct Units {
     position: String,
     value: String,
 }
+/// Most positions read per profile (a scanner exports a few hundred over a machine width).
+pub(in crate::case) const MAX_PROFILE_POINTS: usize = 5000;
 
 impl Validator {
     pub(super) fn profiles(
@@ -75,6 +77,17 @@ impl Validator {
                     "{} positions but {} values; each position needs exactly one value",
                     positions.len(),
                     values.len()
+                ),
+            );
+            return None;
+        }
+        if positions.len() > MAX_PROFILE_POINTS {
+            self.push(
+                &f("positions"),
+                line,
+                format!(
+                    "{} positions; at most {MAX_PROFILE_POINTS} are read per profile. Fix: average the scan onto fewer positions (every 5-10 mm is plenty for lanes)",
+                    positions.len()
                 ),
             );
             return None;
