@@ -36,7 +36,10 @@ impl Validator {
             (Some(q), _) => ("winding.tension", Some(line_of(q))),
             _ => ("winding.taper", None),
         };
-        if !(t_max <= carry) {
+        if !matches!(
+            t_max.partial_cmp(&carry),
+            Some(std::cmp::Ordering::Less | std::cmp::Ordering::Equal)
+        ) {
             self.push(
                 field,
                 line,
