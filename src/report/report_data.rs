@@ -256,14 +256,7 @@ impl ReportData<'_> {
         if times.is_empty() {
             return Vec::new();
         }
-        let nearest = |t: f64| {
-            times
-                .iter()
-                .enumerate()
-                .min_by(|a, b| (a.1 - t).abs().total_cmp(&(b.1 - t).abs()))
-                .map(|(i, _)| i)
-                .unwrap_or(0)
-        };
+        let nearest = |t: f64| crate::numeric::closest_index(&times, t);
         let mut picks: Vec<(usize, Option<usize>)> = vec![(0, None)];
         let mut end = 0.0;
         for (k, s) in self.case.storage.iter().enumerate() {
