@@ -34,8 +34,11 @@ pub fn max_input_bytes() -> u64 {
 /// Why an input file was refused; each message says what to do.
 #[derive(Debug, Clone, PartialEq, thiserror::Error)]
 pub enum InputError {
-    /// The file does not exist or cannot be opened.
-    #[error("cannot be opened ({0}). Fix: check the path and its permissions")]
+    /// The file does not exist.
+    #[error("does not exist, so rollsleuth cannot read it. Fix: check the path (a relative path starts from the current folder)")]
+    Missing,
+    /// The file exists but cannot be opened or read.
+    #[error("exists but rollsleuth cannot read it ({0}). Fix: check the file's permissions, or copy it to a readable place")]
     Open(String),
     /// Not a regular file (a folder, FIFO, device or socket).
     #[error("is {0}, not a regular file. Fix: give the path of a file saved on disk")]
@@ -49,6 +52,15 @@ pub enum InputError {
     /// Not UTF-8 text.
     #[error("is not UTF-8 text (first bad byte at offset {0}). Fix: save the file as UTF-8 text; a spreadsheet or word processor file must be exported as plain text first")]
     NotUtf8(usize),
+}
+
+/// The error for an I/O failure on opening or reading.
+fn open_error(e: std::io::Error) -> InputError {
+    match e.kind() {
+        std::io::ErrorKind::NotFound => InputError::Missing,
+        std::io::ErrorKind::PermissionDenied => InputError::Open("permission denied".into()),
+        _ => InputError::Open(e.to_string()),
+    }
 }
 
 /// What kind of non-regular file this is, in plain words.
@@ -75,7 +87,7 @@ fn kind_of(ft: &std::fs::FileType) -> &'static str {
 
 /// Check that `path` is a regular file (following a symlink to its target) without opening it.
 pub fn check_regular(path: &Path) -> Result<u64, InputError> {
-    let meta = std::fs::metadata(path).map_err(|e| InputError::Open(e.to_string()))?;
+    let meta = std::fs::metadata(path).map_err(open_error)?;
     if !meta.file_type().is_file() {
         return Err(InputError::NotRegular(kind_of(&meta.file_type())));
     }
@@ -89,12 +101,12 @@ pub fn read_bytes(path: &Path) -> Result<Vec<u8>, InputError> {
     if len > limit {
         return Err(InputError::TooLarge { limit });
     }
-    let file = std::fs::File::open(path).map_err(|e| InputError::Open(e.to_string()))?;
+    let file = std::fs::File::open(path).map_err(open_error)?;
     // the file may have changed since the metadata was read: the read itself is bounded too
     let mut buf = Vec::with_capacity(len as usize);
     file.take(limit + 1)
         .read_to_end(&mut buf)
-        .map_err(|e| InputError::Open(e.to_string()))?;
+        .map_err(open_error)?;
     if buf.len() as u64 > limit {
         return Err(InputError::TooLarge { limit });
     }

@@ -168,6 +168,17 @@ static UNITS: &[Unit] = &[
     u(&["h", "hr", "hrs", "hour", "hours"], Kind::Duration, 3600.0),
     u(&["d", "day", "days"], Kind::Duration, DAY_S),
     u(&["wk", "week", "weeks"], Kind::Duration, 7.0 * DAY_S),
+    // a month is a twelfth of the Julian year of 365.25 d (IAU)
+    u(
+        &["mo", "month", "months"],
+        Kind::Duration,
+        365.25 / 12.0 * DAY_S,
+    ),
+    u(
+        &["y", "yr", "year", "years"],
+        Kind::Duration,
+        365.25 * DAY_S,
+    ),
     // speed
     u(&["m/s"], Kind::Speed, 1.0),
     u(&["m/min", "mpm"], Kind::Speed, 1.0 / 60.0),

@@ -154,5 +154,8 @@ fn triage_ranks_rolls_and_reports_bad_files() {
             && out.contains("KCP-CM2-8841-R03")
             && out.contains("HGB-BM1-5520-R11")
     );
-    assert!(out.contains("error:"), "a bad file is listed, not fatal");
+    assert!(
+        out.contains("Not diagnosed") && out.contains("no/such.yaml: the case file does not exist"),
+        "a bad file is listed with its whole message, not fatal: {out}"
+    );
 }

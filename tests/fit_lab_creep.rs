@@ -68,7 +68,8 @@ fn lab_creep_in_a_case_file_is_read_and_checked() {
         "{}",
         String::from_utf8_lossy(&o.stderr)
     );
-    assert!(String::from_utf8_lossy(&o.stdout).contains("md creep from 1 lab curve"));
+    // notes go to standard error (the results table to standard output)
+    assert!(String::from_utf8_lossy(&o.stderr).contains("md creep from 1 lab curve"));
     let bad = dir.join("lab_bad.yaml");
     std::fs::write(
         &bad,

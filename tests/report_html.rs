@@ -358,7 +358,7 @@ fn a_bad_date_is_a_usage_error_and_writes_nothing() {
         .arg(&dir)
         .output()
         .unwrap();
-    assert_eq!(o.status.code(), Some(1));
+    assert_eq!(o.status.code(), Some(2));
     assert!(String::from_utf8_lossy(&o.stderr).contains("YYYY-MM-DD"));
     assert!(!dir.exists() || std::fs::read_dir(&dir).unwrap().next().is_none());
 }

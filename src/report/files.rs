@@ -79,26 +79,31 @@ pub fn date_from_days(z: i64) -> String {
     format!("{y:04}-{m:02}-{d:02}")
 }
 
-/// Write every file of a set: all temporary files first (beside their targets), then the
-/// renames. If any temporary file cannot be written, the temporary files are removed and no
-/// target is touched.
+/// Write every file of a set so that a failure leaves the previous set intact: each file is
+/// first written whole to a temporary file created exclusively beside its target under an
+/// unpredictable name (`tempfile`; a symlink at the target is replaced by the rename, never
+/// followed), and only when all are written are they renamed into place. On any error the
+/// temporary files are removed and no target is touched.
 pub fn write_set(files: &[(PathBuf, String)]) -> std::io::Result<()> {
-    // every file shares one folder here; the exclusive temporary files and the renames are
-    // `report::write_set`'s (tempfile: unpredictable names, no symlink following)
-    let Some(dir) = files.first().and_then(|(p, _)| p.parent()) else {
-        return Ok(());
-    };
-    let named: Vec<(String, String)> = files
-        .iter()
-        .map(|(p, c)| {
-            let name = p
-                .file_name()
-                .map(|n| n.to_string_lossy().into_owned())
-                .unwrap_or_else(|| "out".into());
-            (name, c.clone())
-        })
-        .collect();
-    super::write_set(dir, &named)
+    use std::io::Write;
+    let mut temps = Vec::with_capacity(files.len());
+    for (target, content) in files {
+        let dir = match target.parent() {
+            Some(d) if !d.as_os_str().is_empty() => d,
+            _ => Path::new("."),
+        };
+        let mut t = tempfile::Builder::new()
+            .prefix(".rollsleuth-")
+            .suffix(".tmp")
+            .tempfile_in(dir)?;
+        t.write_all(content.as_bytes())?;
+        t.as_file().sync_all()?;
+        temps.push((t, target));
+    }
+    for (t, target) in temps {
+        t.persist(target).map_err(|e| e.error)?;
+    }
+    Ok(())
 }
 
 /// The files of a root-cause report: `<stem>.html`, `<stem>.md` and `<stem>.json` in `dir`

@@ -109,7 +109,8 @@ fn csv_text(fill: impl FnOnce(&mut csv::Writer<Vec<u8>>) -> csv::Result<()>) -> 
     String::from_utf8_lossy(&bytes).into_owned()
 }
 
-/// Triage table.
+/// Triage table: the diagnosed rolls, worst first (the roll id is never wrapped, the file is
+/// shown by its name), then the files that could not be diagnosed, each with its whole message.
 pub fn triage_text(rows: &[TriageRow], sys: System) -> String {
     let spread = format!("length spread {}", super::strain_unit(sys));
     let mut t = table(&[
@@ -120,22 +121,24 @@ pub fn triage_text(rows: &[TriageRow], sys: System) -> String {
         "complaint",
         "agrees",
     ]);
+    let mut failed = String::new();
     for r in rows {
+        if let Some(e) = &r.error {
+            failed.push_str(&format!("  {}\n", e.trim_end()));
+            continue;
+        }
+        let name = std::path::Path::new(&r.file)
+            .file_name()
+            .map(|n| n.to_string_lossy().into_owned())
+            .unwrap_or_else(|| r.file.clone());
         t.add_row(vec![
             r.case.clone(),
-            r.file.clone(),
-            if r.error.is_some() {
-                "-".into()
+            name,
+            format!("{:.2}", r.spread_mm_per_m),
+            if r.defects.is_empty() {
+                "none".into()
             } else {
-                format!("{:.2}", r.spread_mm_per_m)
-            },
-            match &r.error {
-                Some(e) => format!(
-                    "error: {}",
-                    super::short(e.lines().next().unwrap_or(""), 120)
-                ),
-                None if r.defects.is_empty() => "none".into(),
-                None => defect_list(&r.defects),
+                defect_list(&r.defects)
             },
             r.complaint
                 .map(words::defect)
@@ -148,7 +151,22 @@ pub fn triage_text(rows: &[TriageRow], sys: System) -> String {
             },
         ]);
     }
-    format!("{t}\nTriage uses the fast settings (no corrections re-run); run `rollsleuth diagnose CASE` on a roll for the full report.\n{SAFETY}\n")
+    if let Some(col) = t.column_mut(0) {
+        col.set_constraint(comfy_table::ColumnConstraint::ContentWidth);
+    }
+    let mut out = if t.row_count() > 0 {
+        format!("{t}\n")
+    } else {
+        "No roll could be diagnosed.\n".to_string()
+    };
+    if !failed.is_empty() {
+        out.push_str("Not diagnosed (bad input; fix and run again):\n");
+        out.push_str(&failed);
+    }
+    out.push_str("Triage uses the fast settings (no corrections re-run); run `rollsleuth diagnose CASE` on a roll for the full report.\n");
+    out.push_str(SAFETY);
+    out.push('\n');
+    out
 }
 
 /// Triage as JSON: the rolls, worst first, and the safety note.

@@ -22,7 +22,7 @@ use std::path::Path;
 /// The default rule table shipped with rollsleuth.
 pub const DEFAULT_RULES: &str = include_str!("../../rules/default.yaml");
 /// Name under which the default table is reported.
-pub const DEFAULT_NAME: &str = "built-in default table (see `rollsleuth rules show`)";
+pub const DEFAULT_NAME: &str = "the built-in default table (print it with: rollsleuth rules show)";
 
 /// A rule table file.
 #[derive(Debug, Clone, Deserialize)]
