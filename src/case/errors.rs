@@ -39,7 +39,8 @@ pub enum CaseError {
 
 /// The parser's message without its `error: ` prefix, with a fix for the common cases.
 fn syntax_text(message: &str) -> String {
-    let m = message.trim_end();
+    let plain = crate::input::plain_yaml_message(message);
+    let m = plain.trim_end();
     let mut s = m.strip_prefix("error: ").unwrap_or(m).to_string();
     if message.contains("unknown field") {
         s.push_str("\nFix: check the spelling; `rollsleuth template` prints every field.");

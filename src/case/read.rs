@@ -70,7 +70,8 @@ pub fn load_str(
 
 /// The first line of a parser message, without its `error: ` prefix and location.
 fn first_line(message: &str) -> String {
-    let l = message.lines().next().unwrap_or("").trim();
+    let plain = crate::input::plain_yaml_message(message);
+    let l = plain.lines().next().unwrap_or("").trim();
     let l = l.strip_prefix("error: ").unwrap_or(l);
     // drop "line N column M: " that points into the re-serialised text
     match l.find(": ").filter(|_| l.starts_with("line ")) {
