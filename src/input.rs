@@ -125,31 +125,6 @@ pub fn read_text(path: &Path) -> Result<String, InputError> {
     Ok(text)
 }
 
-#[cfg(test)]
-mod tests {
-    use super::*;
-
-    #[test]
-    fn devices_and_folders_are_refused_before_reading() {
-        assert_eq!(
-            read_bytes(Path::new("/dev/zero")),
-            Err(InputError::NotRegular("a device"))
-        );
-        assert_eq!(
-            read_bytes(Path::new("/")),
-            Err(InputError::NotRegular("a folder"))
-        );
-    }
-
-    #[test]
-    fn non_utf8_text_names_the_offset() {
-        let dir = tempfile::tempdir().unwrap();
-        let p = dir.path().join("latin1.yaml");
-        std::fs::write(&p, b"name: caf\xe9\n").unwrap();
-        assert_eq!(read_text(&p), Err(InputError::NotUtf8(9)));
-    }
-}
-
 /// A YAML parser's message in our words: the parser's advice to its programmer (option names,
 /// function names, Rust integer types) replaced by what the user can do.
 pub fn plain_yaml_message(message: &str) -> String {
@@ -195,4 +170,29 @@ pub fn plain_yaml_message(message: &str) -> String {
         );
     }
     m
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn devices_and_folders_are_refused_before_reading() {
+        assert_eq!(
+            read_bytes(Path::new("/dev/zero")),
+            Err(InputError::NotRegular("a device"))
+        );
+        assert_eq!(
+            read_bytes(Path::new("/")),
+            Err(InputError::NotRegular("a folder"))
+        );
+    }
+
+    #[test]
+    fn non_utf8_text_names_the_offset() {
+        let dir = tempfile::tempdir().unwrap();
+        let p = dir.path().join("latin1.yaml");
+        std::fs::write(&p, b"name: caf\xe9\n").unwrap();
+        assert_eq!(read_text(&p), Err(InputError::NotUtf8(9)));
+    }
 }
