@@ -363,6 +363,22 @@ pub enum System {
     Us,
 }
 
+static MESSAGE_SYSTEM: std::sync::atomic::AtomicBool = std::sync::atomic::AtomicBool::new(false);
+
+/// Set the unit system that input messages (range errors) use; the CLI sets it from `--units`.
+pub fn set_message_system(sys: System) {
+    MESSAGE_SYSTEM.store(sys == System::Us, std::sync::atomic::Ordering::Relaxed);
+}
+
+/// The unit system input messages use (SI unless set).
+pub fn message_system() -> System {
+    if MESSAGE_SYSTEM.load(std::sync::atomic::Ordering::Relaxed) {
+        System::Us
+    } else {
+        System::Si
+    }
+}
+
 /// A display unit: label and the factor from SI (display = si / factor - offset handled for T).
 pub struct Display {
     /// Unit label.

@@ -367,3 +367,14 @@ fn exit_codes_are_0_none_1_findings_2_bad_input_or_usage() {
     let (code, _, _) = run(cmd().args(["stress", "--nodes", "many"]));
     assert_eq!(code, 2);
 }
+
+#[test]
+fn range_errors_use_the_chosen_units() {
+    // 1 pli = 175.1268 N/m (NIST SP 811, 2008, B.8: lbf = 4.448222 N, in = 0.0254 m)
+    let (code, _, err) =
+        run(cmd().args(["--units", "us", "check", "--set", "winding.tension=-3 pli"]));
+    assert_eq!(code, 2);
+    assert!(err.contains("-3.000 pli"), "{err}");
+    let (_, _, err) = run(cmd().args(["check", "--set", "winding.tension=-3 pli"]));
+    assert!(err.contains("-525.4 N/m"), "{err}");
+}

@@ -71,6 +71,17 @@ pub(super) fn read_profile(path: &Path, cols: &Columns) -> Result<CsvProfile, St
     let text = String::from_utf8(bytes).map_err(|_| {
         format!("CSV file '{shown}' is not UTF-8 text; save it as UTF-8 (plain CSV)")
     })?;
+    parse_profile(&text, &shown, cols)
+}
+
+/// The rows of a profile CSV given as text with the default column names (`name` stands for the
+/// file in messages): the entry point for fuzzing and for tools that hold the text already.
+pub fn profile_rows(text: &str, name: &str) -> Result<Vec<(f64, f64)>, String> {
+    parse_profile(text, name, &Columns::default()).map(|p| p.rows)
+}
+
+/// Parse a profile CSV's text (see the module notes); `shown` names the file in messages.
+fn parse_profile(text: &str, shown: &str, cols: &Columns) -> Result<CsvProfile, String> {
     let header_line = text.lines().next().unwrap_or("");
     let delim = delimiter(header_line);
     let decimal_comma = delim == b';';

@@ -13,6 +13,7 @@ pub mod raw;
 mod read;
 mod validate;
 
+pub use csv::profile_rows;
 pub use errors::{CaseError, Problem};
 pub use model::*;
 pub use overrides::apply_set;

@@ -46,6 +46,7 @@ pub fn run(cli: &Cli) -> Result<Outcome, CliError> {
         quiet: cli.quiet,
         verbose: cli.verbose,
     };
+    crate::units::set_message_system(out.sys);
     match &cli.command {
         Command::Template => commands::template(out),
         Command::Check { cases, set } => commands::check(cases, set, out),

@@ -136,7 +136,7 @@ impl Validator {
         }
         let below = if range.open_low() { v <= lo } else { v < lo };
         if below || v > hi {
-            let d = units::display(kind, units::System::Si, false);
+            let d = units::display(kind, units::message_system(), false);
             let show = |x: f64| {
                 if x.is_finite() {
                     units::sig(d.from_si(x), 4)
