@@ -7,10 +7,12 @@
 //! - [`lanes`]: cross-width profiles to lanes;
 //! - [`winding`]: wound-in stresses per lane (Hakiel accretion, core, nip, speed, lane coupling);
 //! - [`storage`]: creep, relaxation and moisture in the stored roll, per lane;
+//! - [`limits`]: physical limits checked after each stage (warnings in every output);
 //! - [`fit`]: creep fitted per lane to measured hardness and diameter (argmin);
 //! - [`rules`]: rule tables, lint and evaluation;
 //! - [`diagnose`]: features, findings, root-cause shares, corrections re-run;
-//! - [`report`]: tables, JSON, Markdown and SVG; [`cli`]: arguments and exit codes;
+//! - [`report`]: tables, JSON, the root-cause report (HTML with SVG plots, Markdown);
+//! - [`cli`]: arguments and exit codes;
 //! - [`vocab`]: features, corrections, defects, likelihoods and causes as enums;
 //! - [`interp`], [`numeric`]: small shared kernels.
 
@@ -18,8 +20,11 @@ pub mod case;
 pub mod cli;
 pub mod diagnose;
 pub mod fit;
+pub mod input;
 pub mod interp;
 pub mod lanes;
+pub mod limits;
+pub mod note;
 pub mod numeric;
 pub mod report;
 pub mod rules;

@@ -251,23 +251,51 @@ fn several_problems_are_all_reported() {
 }
 
 #[test]
-fn usage_errors_exit_with_one() {
+fn usage_errors_exit_with_two() {
+    // 2 as clap's own usage errors; 1 is kept for findings.
     let (code, _, err) = run(&["no-such-command"]);
-    assert_eq!(code, 1, "{err}");
+    assert_eq!(code, 2, "{err}");
 }
 
 #[test]
 fn unknown_word_lists_the_allowed_words_with_line() {
-    let p = variant(
-        "wrap.yaml",
-        &demo().replacen("barrel_wrap: paper", "barrel_wrap: foil", 1),
-    );
+    let text = demo().replacen("barrel_wrap: paper", "barrel_wrap: foil", 1);
+    let line = 1 + text
+        .lines()
+        .position(|l| l.contains("barrel_wrap: foil"))
+        .expect("the demo has a paper barrel wrap");
+    let p = variant("wrap.yaml", &text);
+    let at = format!("wrap.yaml:{line}:");
     bad(
         &["check", p.to_str().unwrap()],
         &[
-            "wrap.yaml:67:",
+            &at,
             "storage[0].barrel_wrap",
             "'foil' is not one of: none, paper, film",
         ],
+    );
+}
+
+#[test]
+fn set_keeps_the_file_lines_and_blames_itself_for_its_own_values() {
+    // a problem in the file keeps the line of the file as written; a problem in a value that
+    // `--set` wrote is reported against that `--set` argument
+    let text = demo();
+    let first_rh = text.lines().position(|l| l.contains("rh: \"")).unwrap();
+    let line = first_rh + 1;
+    let old = text.lines().nth(first_rh).unwrap().to_string();
+    let broken = old.replacen("rh: \"", "rh: \"1", 1);
+    let p = variant("set_lines.yaml", &text.replacen(&old, &broken, 1));
+    let file = p.to_str().unwrap();
+    bad(
+        &["check", file, "--set", "winding.tension=-3 pli"],
+        &[
+            &format!("{file}:{line}: storage[0].rh"),
+            "--set winding.tension=-3 pli: winding.tension",
+        ],
+    );
+    bad(
+        &["check", file, "--set", "winding.tension=[1, 2]"],
+        &["--set winding.tension=[1, 2]", "no longer fits"],
     );
 }

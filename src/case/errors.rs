@@ -9,6 +9,8 @@ pub struct Problem {
     pub field: String,
     /// 1-based line in the case file, where known.
     pub line: Option<u64>,
+    /// The `--set` argument that wrote the field, when one did.
+    pub set: Option<String>,
     /// What is wrong and how to fix it.
     pub message: String,
 }
@@ -17,7 +19,7 @@ pub struct Problem {
 #[derive(Debug, Clone, PartialEq, Error)]
 pub enum CaseError {
     /// The file could not be read.
-    #[error("{file}: cannot read the case file: {message}. Fix: check the path.")]
+    #[error("{file}: the case file {message}.")]
     Read { file: String, message: String },
     /// The YAML is malformed, or a field is missing, misspelt or of the wrong type.
     #[error("{file}: {}", syntax_text(.message))]
@@ -37,7 +39,8 @@ pub enum CaseError {
 
 /// The parser's message without its `error: ` prefix, with a fix for the common cases.
 fn syntax_text(message: &str) -> String {
-    let m = message.trim_end();
+    let plain = crate::input::plain_yaml_message(message);
+    let m = plain.trim_end();
     let mut s = m.strip_prefix("error: ").unwrap_or(m).to_string();
     if message.contains("unknown field") {
         s.push_str("\nFix: check the spelling; `rollsleuth template` prints every field.");
@@ -55,9 +58,10 @@ fn invalid_text(file: &str, problems: &[Problem]) -> String {
         if n == 1 { "" } else { "s" }
     );
     for p in problems {
-        match p.line {
-            Some(l) => s.push_str(&format!("\n  {file}:{l}: {}: {}", p.field, p.message)),
-            None => s.push_str(&format!("\n  {file}: {}: {}", p.field, p.message)),
+        match (&p.set, p.line) {
+            (Some(arg), _) => s.push_str(&format!("\n  --set {arg}: {}: {}", p.field, p.message)),
+            (None, Some(l)) => s.push_str(&format!("\n  {file}:{l}: {}: {}", p.field, p.message)),
+            (None, None) => s.push_str(&format!("\n  {file}: {}: {}", p.field, p.message)),
         }
     }
     s
@@ -71,11 +75,12 @@ mod tests {
     fn every_variant_names_its_input_and_fix() {
         let read = CaseError::Read {
             file: "a.yaml".into(),
-            message: "No such file".into(),
+            message: "cannot be opened (No such file). Fix: check the path and its permissions"
+                .into(),
         };
         assert_eq!(
             read.to_string(),
-            "a.yaml: cannot read the case file: No such file. Fix: check the path."
+            "a.yaml: the case file cannot be opened (No such file). Fix: check the path and its permissions."
         );
         let syn = CaseError::Syntax {
             file: "a.yaml".into(),
@@ -91,11 +96,13 @@ mod tests {
                 Problem {
                     field: "roll.width".into(),
                     line: Some(7),
+                    set: None,
                     message: "bad".into(),
                 },
                 Problem {
                     field: "winding.tension".into(),
                     line: None,
+                    set: None,
                     message: "missing".into(),
                 },
             ],

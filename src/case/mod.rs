@@ -6,12 +6,14 @@
 mod csv;
 pub mod defaults;
 mod errors;
+mod lines;
 pub mod model;
 mod overrides;
 pub mod raw;
 mod read;
 mod validate;
 
+pub use csv::profile_rows;
 pub use errors::{CaseError, Problem};
 pub use model::*;
 pub use overrides::apply_set;

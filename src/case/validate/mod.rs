@@ -10,9 +10,10 @@ mod hardness;
 mod lab_creep;
 mod lanes;
 mod material;
+mod physical;
 mod profiles;
 mod roll;
 mod storage;
 mod winding;
 
-pub(super) use checks::Validator;
+pub(super) use checks::{LineSource, Validator};
