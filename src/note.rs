@@ -4,6 +4,7 @@
 //! **Invariant:** no prose here; times in s, positions in m, moduli in Pa.
 
 use crate::case::Measure;
+use crate::vocab::{Defect, Feature};
 use serde::Serialize;
 
 /// Something a stage noticed, with the numbers behind it.
@@ -71,6 +72,57 @@ pub enum Note {
     },
     /// A stage result beyond a physical limit: shown as a warning in every output.
     Limit(Limit),
+    /// A rule's deciding feature does not stand above what measurement noise alone makes: no
+    /// finding ([`crate::diagnose::confidence`]).
+    BelowNoiseFloor {
+        defect: Defect,
+        feature: Feature,
+        /// The feature's value, its value on the noise-free uniform roll, and the noise floor
+        /// (95 % of |noisy - uniform|), all in the feature's own unit.
+        value: f64,
+        uniform: f64,
+        floor: f64,
+        /// Share of the noise-only uniform rolls that fire the rule as strongly.
+        noise_share: f64,
+    },
+    /// A rule that fired on the fitted roll holds in fewer than half of the plausible states.
+    Unlikely {
+        defect: Defect,
+        /// Share of the posterior states in which the rule holds.
+        probability: f64,
+    },
+    /// What the measurement noise lets the diagnosis resolve.
+    Resolution {
+        /// One-sigma caliper repeatability, m.
+        caliper_repeatability_m: f64,
+        /// Smallest caliper band (lane range) that stands above the noise, m.
+        band_m: f64,
+        /// Smallest lane excess over its neighbours that stands above the noise, mm per m of web.
+        lane_excess_mm_per_m: f64,
+        /// Smallest centre-minus-edges length difference that does, mm/m.
+        centre_edges_mm_per_m: f64,
+    },
+    /// A lane's fit misfit is above 3 noise units: the model does not explain its readings.
+    LaneNotExplained {
+        /// Lane centre, m.
+        position_m: f64,
+        /// Root-mean-square residual, noise units.
+        misfit: f64,
+    },
+    /// The roll's pooled misfit is above 3 noise units.
+    RollNotExplained {
+        /// Root-mean-square residual over every reading, noise units.
+        misfit: f64,
+    },
+    /// A finding rests on lanes the model does not explain or whose creep the data do not
+    /// identify (kept at the pooled value).
+    FindingOnWeakLanes {
+        defect: Defect,
+        /// Lanes the finding names, of which not explained, of which with a scale not identified.
+        lanes: usize,
+        unexplained: usize,
+        unidentified: usize,
+    },
 }
 
 /// A physical limit a stage result went beyond (checked by [`crate::limits`]).
@@ -120,8 +172,12 @@ pub enum Limit {
 }
 
 impl Note {
-    /// Whether this note is a warning (a physical limit passed), not information.
+    /// Whether this note is a warning (a physical limit passed, measurements the model does not
+    /// explain), not information.
     pub fn is_warning(&self) -> bool {
-        matches!(self, Note::Limit(_))
+        matches!(
+            self,
+            Note::Limit(_) | Note::LaneNotExplained { .. } | Note::RollNotExplained { .. }
+        ) || matches!(self, Note::FindingOnWeakLanes { unexplained, .. } if *unexplained > 0)
     }
 }

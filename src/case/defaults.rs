@@ -210,6 +210,11 @@ pub const HARDNESS_REPEAT: Def = d(
     "1.5",
     "rebound-type roll hardness readings repeat within 1-2 scale units (common practice)",
 );
+/// Caliper repeatability default (one sigma of a profile reading).
+pub const CALIPER_REPEAT: Def = d(
+    "0.5 um",
+    "a caliper profile value is an average of several readings of a paper caliper gauge (dead-weight micrometer to ISO 534, read to 1 um; or a scanner averaged over a slice) and repeats to about 0.5 um, 0.5-1 % of a 50-100 um sheet (common practice)",
+);
 /// Default core when the case gives none.
 pub const CORE: (Def, Def, Def) = (
     d(

@@ -348,6 +348,10 @@ pub struct Case {
     pub lab_creep: Vec<LabCreep>,
     /// Web tension at the converter, N/m (the tension against which a long lane runs slack).
     pub converting_tension_n_per_m: f64,
+    /// One-sigma repeatability of a caliper reading, m, when a caliper profile gives one (else
+    /// [`super::defaults::CALIPER_REPEAT`] applies).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub caliper_repeatability_m: Option<f64>,
     pub defaults: Vec<DefaultUsed>,
     pub warnings: Vec<String>,
 }

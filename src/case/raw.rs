@@ -322,6 +322,9 @@ pub struct RawProfile {
     /// Names of the CSV's position and value columns, when not `position` and `value`.
     #[serde(default)]
     pub columns: Option<RawColumns>,
+    /// One-sigma repeatability of a caliper reading (caliper profiles only).
+    #[serde(default)]
+    pub repeatability: Option<Q>,
 }
 
 /// CSV column names of a profile.

@@ -5,6 +5,7 @@
 //! **Invariant:** returns structured findings, never prose; `report` turns them into words.
 
 pub mod actions;
+pub mod confidence;
 pub mod features;
 mod whatif;
 
@@ -89,6 +90,8 @@ pub struct Finding {
     pub defect: Defect,
     pub rule: String,
     pub likelihood: Likelihood,
+    /// Share of the plausible states (posterior draws) in which the rule's condition holds.
+    pub probability: f64,
     pub weight: f64,
     pub mechanism: String,
     pub evidence: Vec<Evidence>,
@@ -143,6 +146,8 @@ pub struct Diagnosis {
     /// Whether the output advises action (then it carries the safety note).
     pub advises_action: bool,
     pub notes: Vec<Note>,
+    /// Noise floor, lane intervals and misfit ([`confidence`]).
+    pub confidence: confidence::Confidence,
     /// The case's own warnings from loading (words of `case`'s validation).
     pub case_warnings: Vec<String>,
 }
@@ -263,6 +268,15 @@ pub fn diagnose_fitted(
     for fr in &fired {
         findings.push(finding(fr, case, lanes, &feats, &mut checker)?);
     }
+    let confidence = confidence::assess(
+        case,
+        table,
+        fitted,
+        &feats,
+        &mut findings,
+        &mut notes,
+        opt.nodes,
+    )?;
     // `case` accepts only vocabulary words as the complaint
     let complaint = case.complaint.as_deref().and_then(Defect::from_word);
     let agreement = complaint.map(|c| agreement(c, &findings));
@@ -284,6 +298,7 @@ pub fn diagnose_fitted(
         agreement,
         lanes: lane_results,
         notes,
+        confidence,
         case_warnings: case.warnings.clone(),
     })
 }
@@ -394,6 +409,7 @@ fn finding(
         defect: r.defect,
         rule: r.id.clone(),
         likelihood: r.likelihood,
+        probability: 1.0,
         weight: r.weight,
         mechanism: r.mechanism.clone(),
         evidence: r

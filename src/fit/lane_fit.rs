@@ -335,6 +335,9 @@ pub struct LaneFit {
     /// Creep parameters of [`super::posterior::DRAWS`] posterior draws (for propagation).
     #[serde(skip)]
     pub draws: Vec<LaneCreep>,
+    /// Log-scales (MD, radial) of the same draws.
+    #[serde(skip)]
+    pub draws_theta: Vec<[f64; 2]>,
 }
 
 /// Fit one lane with a prior centred on `prior` (the pooled log-scales): the optimum by
@@ -382,10 +385,7 @@ pub fn fit_lane(p: &LaneProblem, prior: [f64; 2], seed: u64) -> Result<LaneFit, 
     };
     let (smd, sr) = (theta[0].exp(), theta[1].exp());
     let c = creep_from(p.material, &theta);
-    let draws = super::posterior::draws(&post, super::posterior::DRAWS)
-        .iter()
-        .map(|t| creep_from(p.material, t))
-        .collect();
+    let (draws, draws_theta) = pinned_draws(p.material, &post, &theta, prior);
     Ok(LaneFit {
         position_m: p.wound.lanes[p.lane].position_m,
         params: FittedParams {
@@ -419,7 +419,23 @@ pub fn fit_lane(p: &LaneProblem, prior: [f64; 2], seed: u64) -> Result<LaneFit, 
         theta,
         creep: c,
         draws,
+        draws_theta,
     })
+}
+
+/// Posterior draws for propagation; a scale shrunk to the pooled value stays there, as the
+/// optimum does.
+fn pinned_draws(
+    material: &Material,
+    post: &super::posterior::Posterior,
+    theta: &[f64],
+    prior: [f64; 2],
+) -> (Vec<LaneCreep>, Vec<[f64; 2]>) {
+    let t: Vec<[f64; 2]> = super::posterior::draws(post, super::posterior::DRAWS)
+        .iter()
+        .map(|t| [0, 1].map(|i| if theta[i] == prior[i] { prior[i] } else { t[i] }))
+        .collect();
+    (t.iter().map(|x| creep_from(material, x)).collect(), t)
 }
 
 /// Residuals of a lane's observations against a simulated lane.

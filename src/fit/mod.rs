@@ -272,14 +272,17 @@ fn lane_fits(
     prior: [f64; 2],
     case_id: &str,
 ) -> Result<(Vec<LaneFit>, u64), FitError> {
-    let mut fits = Vec::with_capacity(problems.len());
-    let mut evaluations = 0;
-    for (lane, p) in problems.iter().enumerate() {
-        let seed = posterior::seed_for(case_id, lane);
-        let f = fit_lane(p, prior, seed).map_err(|source| FitError::Lane { lane, source })?;
-        evaluations += f.evaluations;
-        fits.push(f);
-    }
+    use rayon::prelude::*;
+    // each lane's sampler has its own seed, so the lanes run in parallel and in any order
+    let fits: Vec<LaneFit> = problems
+        .par_iter()
+        .enumerate()
+        .map(|(lane, p)| {
+            let seed = posterior::seed_for(case_id, lane);
+            fit_lane(p, prior, seed).map_err(|source| FitError::Lane { lane, source })
+        })
+        .collect::<Result<_, _>>()?;
+    let evaluations = fits.iter().map(|f| f.evaluations).sum();
     Ok((fits, evaluations))
 }
 

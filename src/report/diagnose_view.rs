@@ -80,6 +80,7 @@ pub fn text(d: &Diagnosis, sys: System) -> String {
             }
         );
     }
+    out.push_str(&lanes_table(&d.confidence, sys));
     for w in words::warnings(d) {
         let _ = writeln!(out, "warning: {w}");
     }
@@ -92,14 +93,42 @@ pub fn text(d: &Diagnosis, sys: System) -> String {
     out
 }
 
+/// Each lane's length at unwind with its 5-95 % interval over the plausible states, and how well
+/// the model fits its readings (misfit in noise units).
+fn lanes_table(c: &crate::diagnose::confidence::Confidence, sys: System) -> String {
+    let unit = strain_unit(sys);
+    let (len, range) = (format!("length {unit}"), format!("5-95 % {unit}"));
+    let mut t = table(&["lane at", &len, &range, "misfit (noise units)"]);
+    for l in &c.lanes {
+        t.add_row(vec![
+            pos(l.position_m, sys),
+            format!("{:+.2}", l.excess_mm_per_m),
+            format!(
+                "{:+.2} .. {:+.2}",
+                l.excess_mm_per_m_p05, l.excess_mm_per_m_p95
+            ),
+            format!(
+                "{:.1}{}",
+                l.misfit,
+                if l.explained { "" } else { " not explained" }
+            ),
+        ]);
+    }
+    format!(
+        "\nLanes at unwind ({} plausible states; roll misfit {:.1}):\n{t}\n",
+        c.states, c.roll_misfit
+    )
+}
+
 /// One finding: defect, mechanism, lanes, evidence and corrections checked.
 fn finding_text(rank: usize, f: &Finding, sys: System) -> String {
     let mut out = String::new();
     let _ = writeln!(
         out,
-        "\n{rank}. {} ({} likelihood; rule {})",
+        "\n{rank}. {} ({} likelihood, probability {:.2}; rule {})",
         words::defect(f.defect),
         f.likelihood,
+        f.probability,
         f.rule
     );
     let _ = writeln!(out, "   Why: {}", f.mechanism);
@@ -172,6 +201,7 @@ pub fn json(d: &Diagnosis) -> Value {
         "agreement": d.agreement,
         "features": d.features.values,
         "lanes": d.lanes,
+        "confidence": d.confidence,
         "notes": words::notes(d),
         "warnings": words::warnings(d),
         "safety": if d.advises_action { Some(SAFETY) } else { None },

@@ -121,6 +121,70 @@ pub fn note_json(case_warnings: &[String], notes: &[Note]) -> (Vec<String>, Vec<
     (n, w)
 }
 
+fn defect_name(d: crate::vocab::Defect) -> &'static str {
+    defect(d)
+}
+
+fn feature_name(f: crate::vocab::Feature) -> &'static str {
+    feature(f)
+}
+
+/// A note of the diagnosis's confidence (noise floor, resolution, misfit) as a sentence.
+fn confidence_note(n: &Note) -> String {
+    match *n {
+        Note::BelowNoiseFloor {
+            defect,
+            feature,
+            value,
+            uniform,
+            floor,
+            noise_share,
+        } => format!(
+            "{} not reported: measurement noise alone fires its rule as strongly in {:.0} % of uniform rolls ({} = {} against a uniform roll's {}; noise moves it by up to {} in 95 % of them)",
+            defect_name(defect),
+            noise_share * 100.0,
+            feature_name(feature),
+            crate::units::sig(value, 3),
+            crate::units::sig(uniform, 3),
+            crate::units::sig(floor, 2)
+        ),
+        Note::Unlikely { defect, probability } => format!(
+            "{} not reported: its rule holds in only {:.0} % of the plausible states (posterior draws)",
+            defect_name(defect),
+            probability * 100.0
+        ),
+        Note::Resolution {
+            caliper_repeatability_m,
+            band_m,
+            lane_excess_mm_per_m,
+            centre_edges_mm_per_m,
+        } => format!(
+            "resolution of these measurements (caliper read to {:.1} um, one sigma): a caliper band must exceed {:.1} um, a lane's excess length over its neighbours {:.3} % and centre against edges {:.3} % of the web length to stand above noise (95 % of noise-only uniform rolls)",
+            caliper_repeatability_m * 1e6,
+            band_m * 1e6,
+            lane_excess_mm_per_m / 10.0,
+            centre_edges_mm_per_m / 10.0
+        ),
+        Note::LaneNotExplained { position_m, misfit } => format!(
+            "the lane at {:.0} mm is not explained by the model: its readings miss the fit by {misfit:.1} noise units (rms; over 3)",
+            position_m * 1e3
+        ),
+        Note::RollNotExplained { misfit } => format!(
+            "the roll is not explained by the model: its readings miss the fit by {misfit:.1} noise units (rms over every reading; over 3)"
+        ),
+        Note::FindingOnWeakLanes {
+            defect,
+            lanes,
+            unexplained,
+            unidentified,
+        } => format!(
+            "{} rests on {lanes} lane(s): {unexplained} not explained by the model, {unidentified} with creep the data do not identify (kept at the pooled value)",
+            defect_name(defect)
+        ),
+        _ => String::new(),
+    }
+}
+
 /// A stage's note as a sentence (times in days, positions in mm, moduli in GPa).
 pub fn note(n: &Note) -> String {
     use crate::units::DAY_S;
@@ -148,6 +212,12 @@ pub fn note(n: &Note) -> String {
         Note::LanesCount { asked, lanes } => format!(
             "lanes.count = {asked} gives {lanes} lanes: a 25 mm edge strip is split off each wide edge lane, because moisture exchange through the ends and the edge tension act in the outer centimetres"
         ),
+        Note::BelowNoiseFloor { .. }
+        | Note::Unlikely { .. }
+        | Note::Resolution { .. }
+        | Note::LaneNotExplained { .. }
+        | Note::RollNotExplained { .. }
+        | Note::FindingOnWeakLanes { .. } => confidence_note(n),
         Note::CaliperFromDiameter => {
             "no caliper profile: lane calipers inferred from the earliest diameter profile".into()
         }

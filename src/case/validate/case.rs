@@ -21,6 +21,7 @@ impl Validator {
         let storage = self.storage(&raw.storage);
         let width = roll.as_ref().map(|r| r.width_m);
         let profiles = self.profiles(&raw.profiles, width, file);
+        let caliper_repeatability_m = self.caliper_repeatability(&raw.profiles);
         let (lane_edges_m, lane_count) = self.lanes(raw.lanes.as_ref(), width);
         let lab_creep = self.lab_creep(&raw.lab_creep);
         let converting = self.converting(&raw, roll.as_ref(), winding.as_ref());
@@ -46,6 +47,7 @@ impl Validator {
             hardness: hardness?,
             wraps: wraps?,
             converting_tension_n_per_m: converting?,
+            caliper_repeatability_m,
             lab_creep: lab_creep?,
             defaults: std::mem::take(&mut self.defaults),
             warnings: std::mem::take(&mut self.warnings),

@@ -3,7 +3,7 @@
 
 use super::super::csv::{read_profile, Columns};
 use super::super::model::*;
-use super::super::raw::{RawColumns, RawProfile};
+use super::super::raw::{RawColumns, RawProfile, Word};
 use super::checks::{line_of, Range, Validator};
 use crate::units::Kind;
 use serde_saphyr::Spanned;
@@ -39,6 +39,30 @@ impl Validator {
             }
         }
         ok.then_some(out)
+    }
+
+    /// The caliper repeatability the caliper profiles give, m (the largest when several do);
+    /// `repeatability` on another profile is an error (hardness has `hardness.repeatability`).
+    pub(super) fn caliper_repeatability(&mut self, ps: &[RawProfile]) -> Option<f64> {
+        let mut out: Option<f64> = None;
+        for (i, p) in ps.iter().enumerate() {
+            let Some(q) = p.repeatability.as_ref() else {
+                continue;
+            };
+            let field = format!("profiles[{i}].repeatability");
+            if !matches!(p.what.value, Word::Known(Measure::Caliper)) {
+                self.push(
+                    &field,
+                    Some(line_of(&p.what)),
+                    "repeatability is read for caliper profiles only; hardness takes `hardness.repeatability`. Fix: remove it here".into(),
+                );
+                continue;
+            }
+            if let Some(v) = self.q(q, &field, Kind::Length, Range::Positive) {
+                out = Some(out.map_or(v, |o| o.max(v)));
+            }
+        }
+        out
     }
 
     fn profile(
