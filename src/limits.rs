@@ -26,8 +26,29 @@ pub fn saturation_moisture_pct(g: &Gab) -> f64 {
     g.monolayer_pct * g.c * k / ((1.0 - k) * (1.0 - k + g.c * k))
 }
 
-/// Checks on the wound-in state: winding speed against the lift-off speed, and the stack's
-/// compression at the highest radial pressure of each lane.
+/// The lanes past a limit: how many, and the worst as (position, value). `value` is `None` for a
+/// lane within the limit; a NaN value counts as past it and is the worst.
+fn worst(values: impl Iterator<Item = (f64, Option<f64>)>) -> Option<(u32, f64, f64)> {
+    let mut out: Option<(u32, f64, f64)> = None;
+    for (pos, v) in values {
+        let Some(v) = v else { continue };
+        out = Some(match out {
+            None => (1, pos, v),
+            Some((n, _, w)) if v.is_nan() || (!w.is_nan() && v > w) => (n + 1, pos, v),
+            Some((n, p, w)) => (n + 1, p, w),
+        });
+    }
+    out
+}
+
+/// `Some(v)` when `v` is past `limit` or not a number.
+fn past(v: f64, limit: f64) -> Option<f64> {
+    (v.is_nan() || v > limit).then_some(v)
+}
+
+/// Checks on the wound-in state: winding speed against the lift-off speed; the MD strain of the
+/// largest tangential stress and the stack's compression at the highest radial pressure, one
+/// note per kind naming the worst lane and the number of lanes.
 pub fn after_winding(w: &Wound, material: &Material, speed_m_s: f64) -> Vec<Note> {
     let mut out = Vec::new();
     if speed_m_s > w.lift_off_speed_m_s {
@@ -36,56 +57,82 @@ pub fn after_winding(w: &Wound, material: &Material, speed_m_s: f64) -> Vec<Note
             lift_off_m_s: w.lift_off_speed_m_s,
         }));
     }
-    for l in &w.lanes {
-        let p_max = l
-            .radial_stress_pa
-            .iter()
-            .map(|s| -s)
-            .fold(0.0_f64, f64::max);
-        let strain = material.stack.strain(p_max);
-        if strain.is_nan() || strain > MAX_STACK_STRAIN {
-            out.push(Note::Limit(Limit::StackCrushed {
-                position_m: l.position_m,
-                pressure_pa: p_max,
-                strain,
-            }));
-        }
+    let peak = |v: &[f64], sign: f64| v.iter().map(|s| sign * s).fold(0.0_f64, f64::max);
+    let md = w.lanes.iter().map(|l| {
+        let s = peak(&l.tangential_stress_pa, 1.0).max(peak(&l.tangential_stress_pa, -1.0));
+        (
+            l.position_m,
+            past(s / material.md_modulus_pa, crate::case::MAX_WEB_STRAIN),
+        )
+    });
+    if let Some((lanes, position_m, strain)) = worst(md) {
+        out.push(Note::Limit(Limit::MdStrainBeyondWeb {
+            lanes,
+            position_m,
+            stress_pa: strain * material.md_modulus_pa,
+            strain,
+        }));
+    }
+    let stack = w.lanes.iter().map(|l| {
+        let p = peak(&l.radial_stress_pa, -1.0);
+        (
+            l.position_m,
+            past(material.stack.strain(p), MAX_STACK_STRAIN),
+        )
+    });
+    if let Some((lanes, position_m, strain)) = worst(stack) {
+        out.push(Note::Limit(Limit::StackCrushed {
+            lanes,
+            position_m,
+            pressure_pa: material.stack.pressure(strain),
+            strain,
+        }));
     }
     out
 }
 
 /// Checks on the roll after storage: lane diameters outside the core, moisture at or below
-/// saturation, finite predicted hardness. One note per lane and kind (its worst value).
+/// saturation, finite predicted hardness; one note per kind naming the worst lane.
 pub fn after_storage(a: &Aged, material: &Material, roll: &Roll) -> Vec<Note> {
     let mut out = Vec::new();
+    let core = roll.core_diameter_m;
+    // how far inside the core's surface (m): positive is past the limit
+    let inside = a.lanes.iter().map(|l| {
+        let d = l.diameter_m.iter().copied().fold(f64::INFINITY, f64::min);
+        (l.position_m, past(core - d, -f64::EPSILON * core))
+    });
+    if let Some((lanes, position_m, depth)) = worst(inside) {
+        out.push(Note::Limit(Limit::DiameterInsideCore {
+            lanes,
+            position_m,
+            diameter_m: core - depth,
+            core_diameter_m: core,
+        }));
+    }
     let saturation = saturation_moisture_pct(&material.sorption);
-    for l in &a.lanes {
-        let d_min = l.diameter_m.iter().copied().fold(f64::INFINITY, f64::min);
-        if d_min.is_nan() || d_min <= roll.core_diameter_m {
-            out.push(Note::Limit(Limit::DiameterInsideCore {
-                position_m: l.position_m,
-                diameter_m: d_min,
-                core_diameter_m: roll.core_diameter_m,
-            }));
-        }
-        let m_max = l
+    // 0.01 percentage point: the diffusion solver's rounding, far below any gauge
+    let wet = a.lanes.iter().map(|l| {
+        let m = l
             .moisture_pct
             .iter()
             .copied()
             .fold(f64::NEG_INFINITY, f64::max);
-        // 0.01 percentage point: the diffusion solver's rounding, far below any gauge
-        if m_max.is_nan() || m_max > saturation + 0.01 {
-            out.push(Note::Limit(Limit::MoistureAboveSaturation {
-                position_m: l.position_m,
-                moisture_pct: m_max,
-                saturation_pct: saturation,
-            }));
-        }
-        if l.hardness.iter().any(|h| !h.is_finite()) {
-            out.push(Note::Limit(Limit::HardnessNotFinite {
-                position_m: l.position_m,
-            }));
-        }
+        (l.position_m, past(m, saturation + 0.01))
+    });
+    if let Some((lanes, position_m, moisture_pct)) = worst(wet) {
+        out.push(Note::Limit(Limit::MoistureAboveSaturation {
+            lanes,
+            position_m,
+            moisture_pct,
+            saturation_pct: saturation,
+        }));
+    }
+    let bad = a.lanes.iter().map(|l| {
+        let any = l.hardness.iter().any(|h| !h.is_finite());
+        (l.position_m, any.then_some(1.0))
+    });
+    if let Some((lanes, position_m, _)) = worst(bad) {
+        out.push(Note::Limit(Limit::HardnessNotFinite { lanes, position_m }));
     }
     out
 }
@@ -112,5 +159,22 @@ mod tests {
         );
         let open = Gab { k: 1.0, ..g };
         assert!(saturation_moisture_pct(&open).is_infinite());
+    }
+
+    #[test]
+    fn the_worst_lane_and_the_count_are_kept() {
+        let v = [
+            (0.1, None),
+            (0.2, Some(2.0)),
+            (0.3, Some(5.0)),
+            (0.4, Some(3.0)),
+        ];
+        assert_eq!(worst(v.into_iter()), Some((3, 0.3, 5.0)));
+        let n = worst([(0.1, Some(2.0)), (0.2, Some(f64::NAN))].into_iter()).unwrap();
+        assert_eq!((n.0, n.1), (2, 0.2));
+        assert!(n.2.is_nan());
+        assert_eq!(worst([(0.1, None)].into_iter()), None);
+        assert_eq!(past(1.0, 2.0), None);
+        assert!(past(f64::NAN, 2.0).is_some());
     }
 }

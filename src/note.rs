@@ -77,9 +77,23 @@ pub enum Limit {
         /// Lift-off speed, m/s.
         lift_off_m_s: f64,
     },
+    /// A lane's MD (tangential) stress strains the web beyond what a web can carry (in tension
+    /// it would break, in compression it would buckle).
+    MdStrainBeyondWeb {
+        /// Lanes past the limit (the worst is described).
+        lanes: u32,
+        /// Centre of the worst lane, m.
+        position_m: f64,
+        /// Largest MD stress magnitude, Pa.
+        stress_pa: f64,
+        /// That stress over the MD modulus.
+        strain: f64,
+    },
     /// The stack law puts a lane's stack at a compressive strain past any real void content.
     StackCrushed {
-        /// Lane centre, m.
+        /// Lanes past the limit (the worst is described).
+        lanes: u32,
+        /// Centre of the worst lane, m.
         position_m: f64,
         /// Highest interlayer pressure, Pa.
         pressure_pa: f64,
@@ -88,7 +102,9 @@ pub enum Limit {
     },
     /// A lane's diameter fell to or inside the core during storage.
     DiameterInsideCore {
-        /// Lane centre, m.
+        /// Lanes past the limit (the worst is described).
+        lanes: u32,
+        /// Centre of the worst lane, m.
         position_m: f64,
         /// Smallest diameter, m.
         diameter_m: f64,
@@ -97,7 +113,9 @@ pub enum Limit {
     },
     /// A lane's moisture rose above the isotherm's saturation value.
     MoistureAboveSaturation {
-        /// Lane centre, m.
+        /// Lanes past the limit (the worst is described).
+        lanes: u32,
+        /// Centre of the worst lane, m.
         position_m: f64,
         /// Highest mean moisture, %.
         moisture_pct: f64,
@@ -106,7 +124,9 @@ pub enum Limit {
     },
     /// A lane's predicted hardness is not a finite number.
     HardnessNotFinite {
-        /// Lane centre, m.
+        /// Lanes past the limit (the worst is described).
+        lanes: u32,
+        /// Centre of the worst lane, m.
         position_m: f64,
     },
 }

@@ -192,6 +192,10 @@ pub fn note(n: &Note) -> String {
 pub fn limit(l: &crate::note::Limit) -> String {
     use crate::note::Limit;
     const SO: &str = "results that depend on it are not physical; check the inputs";
+    let at = |lanes: u32, position_m: f64| match lanes {
+        1 => format!("lane at {:.0} mm", position_m * 1e3),
+        n => format!("{n} lanes (worst at {:.0} mm)", position_m * 1e3),
+    };
     match *l {
         Limit::AboveLiftOff {
             speed_m_s,
@@ -199,38 +203,53 @@ pub fn limit(l: &crate::note::Limit) -> String {
         } => format!(
             "the winding speed {speed_m_s:.1} m/s is above the lift-off speed {lift_off_m_s:.1} m/s at the roll's mean wound-in stress: outer layers could not stay on the roll as modelled; {SO}"
         ),
+        Limit::MdStrainBeyondWeb {
+            lanes,
+            position_m,
+            stress_pa,
+            strain,
+        } => format!(
+            "{}: an MD stress of {:.1} MPa strains the web by {:.2} %, beyond the {:.0} % a web can carry; {SO} (winding, roll.core)",
+            at(lanes, position_m),
+            stress_pa / 1e6,
+            strain * 100.0,
+            crate::case::MAX_WEB_STRAIN * 100.0
+        ),
         Limit::StackCrushed {
+            lanes,
             position_m,
             pressure_pa,
             strain,
         } => format!(
-            "lane at {:.0} mm: the stack law compresses the stack by {:.0} % at {:.2} MPa, more than the sheet's void content allows ({:.0} %); {SO} (material.stack)",
-            position_m * 1e3,
+            "{}: the stack law compresses the stack by {:.0} % at {:.2} MPa, more than the sheet's void content allows ({:.0} %); {SO} (material.stack)",
+            at(lanes, position_m),
             strain * 100.0,
             pressure_pa / 1e6,
             crate::limits::MAX_STACK_STRAIN * 100.0
         ),
         Limit::DiameterInsideCore {
+            lanes,
             position_m,
             diameter_m,
             core_diameter_m,
         } => format!(
-            "lane at {:.0} mm: the diameter falls to {:.1} mm, at or inside the {:.1} mm core; {SO}",
-            position_m * 1e3,
+            "{}: the diameter falls to {:.1} mm, at or inside the {:.1} mm core; {SO}",
+            at(lanes, position_m),
             diameter_m * 1e3,
             core_diameter_m * 1e3
         ),
         Limit::MoistureAboveSaturation {
+            lanes,
             position_m,
             moisture_pct,
             saturation_pct,
         } => format!(
-            "lane at {:.0} mm: moisture reaches {moisture_pct:.2} %, above the isotherm's saturation {saturation_pct:.2} %; {SO} (material.sorption, storage)",
-            position_m * 1e3
+            "{}: moisture reaches {moisture_pct:.2} %, above the isotherm's saturation {saturation_pct:.2} %; {SO} (material.sorption, storage)",
+            at(lanes, position_m)
         ),
-        Limit::HardnessNotFinite { position_m } => format!(
-            "lane at {:.0} mm: the predicted hardness is not a finite number; {SO} (hardness.calibration)",
-            position_m * 1e3
+        Limit::HardnessNotFinite { lanes, position_m } => format!(
+            "{}: the predicted hardness is not a finite number; {SO} (hardness.calibration)",
+            at(lanes, position_m)
         ),
     }
 }
