@@ -3,7 +3,7 @@
 
 use super::words;
 use super::{pos, table, SAFETY};
-use crate::diagnose::{CauseShare, Diagnosis, Finding};
+use crate::diagnose::{Attribution, CheckedCorrection, Diagnosis, Finding};
 use crate::units::System;
 use crate::vocab::Feature;
 use serde_json::{json, Value};
@@ -26,8 +26,9 @@ fn lanes_text(lanes: &[crate::diagnose::LaneRef], sys: System) -> String {
         .iter()
         .map(|l| {
             format!(
-                "{} ({:+.2} mm/m)",
+                "{}{} ({:+.2} mm/m)",
                 pos(l.position_m, sys),
+                if l.extrapolated { "*" } else { "" },
                 l.excess_mm_per_m
             )
         })
@@ -51,13 +52,6 @@ pub fn text(d: &Diagnosis, sys: System) -> String {
     }
     for (k, f) in d.findings.iter().enumerate() {
         out.push_str(&finding_text(k + 1, f, sys));
-    }
-    if !d.causes.is_empty() {
-        let _ = writeln!(
-            out,
-            "\nRoot cause (each cause removed in turn):\n{}",
-            causes_table(&d.causes)
-        );
     }
     if let Some(a) = &d.agreement {
         let _ = writeln!(
@@ -102,47 +96,100 @@ fn finding_text(rank: usize, f: &Finding, sys: System) -> String {
         ]);
     }
     let _ = writeln!(out, "{t}");
-    if !f.corrections.is_empty() {
-        let mut c = table(&["correction", "spread before mm/m", "after mm/m", "why"]);
-        for x in &f.corrections {
-            c.add_row(vec![
-                x.text.clone(),
-                format!("{:.2}", x.spread_before_mm_per_m),
-                if x.spread_after_mm_per_m.is_finite() {
-                    format!("{:.2}", x.spread_after_mm_per_m)
-                } else {
-                    "not run".into()
-                },
-                x.why.clone(),
-            ]);
+    if let Some(a) = &f.attribution {
+        let _ = writeln!(
+            out,
+            "   Root cause, on {}: {:.3} as predicted, {:.3} with every source removed.",
+            words::quantity(a.quantity),
+            a.value,
+            a.value_without_sources
+        );
+        for (head, rows) in attribution_rows(a) {
+            let mut t = table(&head);
+            for r in rows {
+                t.add_row(r);
+            }
+            let _ = writeln!(out, "{t}");
         }
-        let _ = writeln!(out, "{c}");
+    }
+    if !f.corrections.is_empty() {
+        let mut c = table(&["correction", "before", "after", "improves", "why"]);
+        for x in &f.corrections {
+            c.add_row(correction_row(x));
+        }
+        let _ = writeln!(out, "   Corrections, on {}:\n{c}", words::quantity(q_of(f)));
     }
     out
 }
 
-/// Root-cause shares as a table.
-fn causes_table(causes: &[CauseShare]) -> comfy_table::Table {
-    let mut c = table(&["cause", "removed as", "spread without it mm/m", "share"]);
-    for x in causes {
-        c.add_row(vec![
-            words::cause(x.cause).to_string(),
-            words::removed(x.cause).to_string(),
-            format!("{:.2}", x.spread_without_mm_per_m),
-            format!("{:.0} %", x.share * 100.0),
-        ]);
-    }
-    c
+/// The quantity a finding is judged on.
+fn q_of(f: &Finding) -> crate::vocab::Quantity {
+    f.corrections
+        .first()
+        .map(|c| c.quantity)
+        .or(f.attribution.as_ref().map(|a| a.quantity))
+        .unwrap_or(crate::vocab::Quantity::SpreadMmPerM)
 }
 
-/// A cause share in JSON: the cause and how it was removed, in words.
-fn cause_json(c: &CauseShare) -> Value {
-    json!({
-        "cause": words::cause(c.cause),
-        "removed": words::removed(c.cause),
-        "spread_without_mm_per_m": c.spread_without_mm_per_m,
-        "share": c.share,
-    })
+/// A correction's cells: text, before, after, improves, why.
+fn correction_row(x: &CheckedCorrection) -> Vec<String> {
+    vec![
+        x.text.clone(),
+        format!("{:.3}", x.before),
+        x.after.map_or("not run".into(), |a| format!("{a:.3}")),
+        match x.improves {
+            Some(true) => "yes".into(),
+            Some(false) => "no: not recommended".into(),
+            None => "not run".into(),
+        },
+        x.why.clone(),
+    ]
+}
+
+/// The attribution's two tables: sources with Shapley shares, amplifiers at an alternative.
+#[allow(clippy::type_complexity)]
+fn attribution_rows(a: &Attribution) -> Vec<([&'static str; 4], Vec<Vec<String>>)> {
+    let src = a
+        .shares
+        .iter()
+        .map(|s| {
+            vec![
+                words::cause(s.cause).to_string(),
+                words::removed(s.cause).to_string(),
+                format!("{:+.3}", s.contribution),
+                s.share
+                    .map_or("-".into(), |v| format!("{:.0} %", v * 100.0)),
+            ]
+        })
+        .collect();
+    let amp = a
+        .sensitivities
+        .iter()
+        .map(|s| {
+            let (name, alt) = words::amplifier(s.amplifier);
+            vec![
+                name.to_string(),
+                alt.to_string(),
+                format!("{:.3}", s.value_at_alternative),
+                format!("{:+.3}", s.value_at_alternative - a.value),
+            ]
+        })
+        .collect();
+    vec![
+        (
+            [
+                "source (Shapley share)",
+                "removed as",
+                "contribution",
+                "share",
+            ],
+            src,
+        ),
+        (
+            ["amplifier", "feasible alternative", "value there", "change"],
+            amp,
+        ),
+    ]
 }
 
 /// JSON diagnosis.
@@ -152,7 +199,7 @@ pub fn json(d: &Diagnosis) -> Value {
         "rules": d.rules,
         "spread_mm_per_m": d.spread_mm_per_m,
         "findings": d.findings,
-        "causes": d.causes.iter().map(cause_json).collect::<Vec<_>>(),
+        "runs": d.runs,
         "agreement": d.agreement,
         "features": d.features.values,
         "lanes": d.lanes,
@@ -283,20 +330,6 @@ pub fn markdown(d: &Diagnosis, plot_file: &str, sys: System) -> String {
     for (k, f) in d.findings.iter().enumerate() {
         s.push_str(&finding_markdown(k + 1, f, sys));
     }
-    if !d.causes.is_empty() {
-        let _ = writeln!(s, "## Root cause\n\n| cause | removed as | spread without (mm/m) | share |\n|---|---|---|---|");
-        for c in &d.causes {
-            let _ = writeln!(
-                s,
-                "| {} | {} | {:.2} | {:.0} % |",
-                words::cause(c.cause),
-                words::removed(c.cause),
-                c.spread_without_mm_per_m,
-                c.share * 100.0
-            );
-        }
-        s.push('\n');
-    }
     s.push_str(&lanes_markdown(d, sys));
     s.push_str(&features_markdown(d));
     if let Some(a) = &d.agreement {
@@ -343,17 +376,29 @@ fn finding_markdown(rank: usize, f: &Finding, sys: System) -> String {
             e.source
         );
     }
+    if let Some(a) = &f.attribution {
+        let _ = writeln!(
+            s,
+            "\nRoot cause, on {}: {:.3} as predicted, {:.3} with every source removed.",
+            words::quantity(a.quantity),
+            a.value,
+            a.value_without_sources
+        );
+        for (head, rows) in attribution_rows(a) {
+            let _ = writeln!(s, "\n| {} |\n|---|---|---|---|", head.join(" | "));
+            for r in rows {
+                let _ = writeln!(s, "| {} |", r.join(" | "));
+            }
+        }
+    }
     if !f.corrections.is_empty() {
         let _ = writeln!(
             s,
-            "\n| correction | spread before (mm/m) | after (mm/m) | why |\n|---|---|---|---|"
+            "\nCorrections, on {}:\n\n| correction | before | after | improves | why |\n|---|---|---|---|---|",
+            words::quantity(q_of(f))
         );
         for c in &f.corrections {
-            let _ = writeln!(
-                s,
-                "| {} | {:.2} | {:.2} | {} |",
-                c.text, c.spread_before_mm_per_m, c.spread_after_mm_per_m, c.why
-            );
+            let _ = writeln!(s, "| {} |", correction_row(c).join(" | "));
         }
     }
     s.push('\n');
@@ -367,7 +412,8 @@ fn lanes_markdown(d: &Diagnosis, sys: System) -> String {
     for (i, l) in d.lanes.iter().enumerate() {
         let _ = writeln!(
             s,
-            "| {i} | {} | {:+.2} % | {:+.2} | {:.2} | {:.2} | {:.2} |",
+            "| {i}{} | {} | {:+.2} % | {:+.2} | {:.2} | {:.2} | {:.2} |",
+            if l.extrapolated { "*" } else { "" },
             pos(l.position_m, sys),
             l.caliper_deviation * 100.0,
             l.excess_mm_per_m,
