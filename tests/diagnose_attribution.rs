@@ -71,9 +71,9 @@ fn efficient(f: &Finding) {
 /// nip and the web tension are amplifiers, never sources.
 #[test]
 fn caliper_leads_the_baggy_lane_whether_nip_or_web_tension() {
-    let with_nip = banded("1.2 pli", "4 pli");
+    let with_nip = banded("2.0 pli", "10 pli");
     let mu = with_nip.material.friction;
-    let t = 1.2 + mu * 4.0;
+    let t = 2.0 + mu * 10.0;
     for c in [with_nip, banded(&format!("{t:.4} pli"), "0 pli")] {
         let d = run(&c);
         let f = find(&d, Defect::BaggyLane);
@@ -239,7 +239,7 @@ fn edge_and_centre_findings_name_only_their_long_lanes() {
     for l in &f.lanes {
         let x = l.position_m / width;
         assert!(
-            x <= 0.15 || x >= 0.85 || l.index == 0 || l.index == 8,
+            x <= 0.15 || x >= 0.85 || l.index == 0 || l.index + 1 == w.lanes.len(),
             "{:?}",
             f.lanes
         );

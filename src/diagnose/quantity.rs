@@ -284,12 +284,12 @@ pub fn locate(
             e.extend(ends);
             e.sort_unstable();
             e.dedup();
-            e.retain(|&i| x[i] > cm);
+            e.retain(|&i| x[i] > cm.max(0.0));
             e
         }
         Defect::BaggyCenter => {
             let em = mean(ends.iter().map(|&i| x[i]));
-            centre.into_iter().filter(|&i| x[i] > em).collect()
+            centre.into_iter().filter(|&i| x[i] > em.max(0.0)).collect()
         }
         Defect::Starring | Defect::CrepeWrinkles => near_extreme(
             &(0..n)

@@ -330,6 +330,13 @@ pub fn markdown(d: &Diagnosis, plot_file: &str, sys: System) -> String {
     for (k, f) in d.findings.iter().enumerate() {
         s.push_str(&finding_markdown(k + 1, f, sys));
     }
+    if d.findings.iter().any(|f| f.attribution.is_some()) {
+        let _ = writeln!(
+            s,
+            "## Root cause\n\nUnder each finding: {}.\n",
+            words::SHARES_NOTE
+        );
+    }
     s.push_str(&lanes_markdown(d, sys));
     s.push_str(&features_markdown(d));
     if let Some(a) = &d.agreement {
