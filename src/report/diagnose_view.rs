@@ -109,7 +109,7 @@ fn finding_text(rank: usize, f: &Finding, sys: System) -> String {
     if let Some(a) = &f.attribution {
         let _ = writeln!(
             out,
-            "   Root cause, on {}: {} as predicted, {} with every source removed.",
+            "   Root cause, on the {}: {} as predicted, {} with every source removed.",
             words::quantity(a.quantity),
             words::quantity_value(a.quantity, a.value, sys),
             words::quantity_value(a.quantity, a.value_without_sources, sys)
@@ -129,7 +129,7 @@ fn finding_text(rank: usize, f: &Finding, sys: System) -> String {
         }
         let _ = writeln!(
             out,
-            "   Corrections, on {}:\n{c}",
+            "   Corrections, on the {}:\n{c}",
             words::quantity(first.quantity)
         );
     }
@@ -151,7 +151,10 @@ pub fn correction_row(x: &CheckedCorrection, sys: System) -> Vec<String> {
 
 /// The attribution's two tables: sources with Shapley shares, amplifiers at an alternative.
 #[allow(clippy::type_complexity)]
-pub fn attribution_rows(a: &Attribution, sys: System) -> Vec<([&'static str; 4], Vec<Vec<String>>)> {
+pub fn attribution_rows(
+    a: &Attribution,
+    sys: System,
+) -> Vec<([&'static str; 4], Vec<Vec<String>>)> {
     let q = a.quantity;
     let src = a
         .shares
@@ -161,8 +164,7 @@ pub fn attribution_rows(a: &Attribution, sys: System) -> Vec<([&'static str; 4],
                 words::cause(s.cause).to_string(),
                 words::removed(s.cause).to_string(),
                 words::quantity_change(q, s.contribution, sys),
-                s.share
-                    .map_or("-".into(), |v| format!("{:.0} %", v * 100.0)),
+                words::share(s.share),
             ]
         })
         .collect();
@@ -181,7 +183,12 @@ pub fn attribution_rows(a: &Attribution, sys: System) -> Vec<([&'static str; 4],
         .collect();
     vec![
         (
-            ["source (Shapley share)", "removed as", "contribution", "share"],
+            [
+                "source (Shapley share)",
+                "removed as",
+                "contribution",
+                "share",
+            ],
             src,
         ),
         (

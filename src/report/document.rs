@@ -2,8 +2,8 @@
 //! `markdown` render (and escape) the same way: headline, findings with evidence, root cause and
 //! corrections, plots, tables, inputs, defaults used, provenance and the safety note.
 
-use super::{document_cause, document_tables};
 use super::report_data::ReportData;
+use super::{document_cause, document_tables};
 use super::{pos, q};
 use crate::units::{self, Kind, System};
 use crate::vocab::{Defect, Feature};

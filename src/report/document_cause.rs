@@ -23,7 +23,7 @@ pub fn main_cause(d: &Diagnosis) -> Option<Vec<Span>> {
     Some(vec![
         b("Main cause: "),
         t(format!(
-            "{} ({:.0} % of {}, finding {}: {}).",
+            "{} ({:.0} % of the {}, finding {}: {}).",
             words::cause(lead.cause),
             lead.share.unwrap_or(0.0) * 100.0,
             words::quantity(a.quantity),
@@ -31,6 +31,14 @@ pub fn main_cause(d: &Diagnosis) -> Option<Vec<Span>> {
             words::defect(f.defect)
         )),
     ])
+}
+
+/// A sentence's first letter in upper case.
+fn capitalised(s: &str) -> String {
+    let mut c = s.chars();
+    c.next()
+        .map(|f| f.to_uppercase().chain(c).collect())
+        .unwrap_or_default()
 }
 
 /// The section: how shares are made, then each finding's root cause and corrections.
@@ -54,7 +62,7 @@ pub fn root_cause(r: &ReportData, v: &mut Vec<Block>) {
     } else {
         v.push(Block::Para(vec![
             b("How: "),
-            t(format!("{}.", words::SHARES_NOTE)),
+            t(format!("{}.", capitalised(words::SHARES_METHOD))),
         ]));
         v.push(Block::Para(vec![
             b("Model runs: "),
@@ -84,7 +92,7 @@ fn finding(n: usize, f: &Finding, sys: System, v: &mut Vec<Block>) {
     v.push(Block::Heading(
         3,
         format!(
-            "{n}. {}: on {}",
+            "{n}. {}: on the {}",
             words::defect(f.defect),
             words::quantity(q)
         ),
@@ -118,7 +126,10 @@ fn finding(n: usize, f: &Finding, sys: System, v: &mut Vec<Block>) {
                     t(c.after
                         .map(|a| words::quantity_change(q, a - c.before, sys))
                         .unwrap_or_default()),
-                    k(words::improves(c.improves), format!("improves.{n}.{}", c.action)),
+                    k(
+                        words::improves(c.improves),
+                        format!("improves.{n}.{}", c.action),
+                    ),
                     t(c.why.clone()),
                 ]
             })
@@ -148,11 +159,7 @@ fn attribution(n: usize, a: &Attribution, sys: System, v: &mut Vec<Block>) {
                     t(words::cause(s.cause)),
                     t(words::removed(s.cause)),
                     t(words::quantity_change(q, s.contribution, sys)),
-                    k(
-                        s.share
-                            .map_or("-".into(), |x| format!("{:.0} %", x * 100.0)),
-                        format!("share.{n}.{}", s.cause),
-                    ),
+                    k(words::share(s.share), format!("share.{n}.{}", s.cause)),
                 ]
             })
             .collect(),
@@ -173,7 +180,11 @@ fn attribution(n: usize, a: &Attribution, sys: System, v: &mut Vec<Block>) {
                     t(name),
                     t(alt),
                     t(words::quantity_value(q, s.value_at_alternative, sys)),
-                    t(words::quantity_change(q, s.value_at_alternative - a.value, sys)),
+                    t(words::quantity_change(
+                        q,
+                        s.value_at_alternative - a.value,
+                        sys,
+                    )),
                 ]
             })
             .collect(),

@@ -62,13 +62,15 @@ pub fn amplifier(a: Amplifier) -> (&'static str, &'static str) {
     }
 }
 
-/// A quantity's name (its unit goes with each value, see [`quantity_value`]).
+/// A quantity's name, to follow "the" (its unit goes with each value, see [`quantity_value`]).
 pub fn quantity(q: Quantity) -> &'static str {
     match q {
-        Quantity::LaneExcessMmPerM => "the lane's excess length over the mean lane",
-        Quantity::LocalPeakMmPerM => "the lane's excess length over its neighbours",
-        Quantity::CentreMinusEdgesMmPerM => "centre minus edges length",
-        Quantity::EdgesMinusCentreMmPerM => "edges minus centre length",
+        Quantity::LaneExcessMmPerM => {
+            "largest excess length of the finding's lanes over the mean lane"
+        }
+        Quantity::LocalPeakMmPerM => "excess length of the finding's lane over its neighbours",
+        Quantity::CentreMinusEdgesMmPerM => "centre-minus-edges length difference",
+        Quantity::EdgesMinusCentreMmPerM => "edges-minus-centre length difference",
         Quantity::CoreMdCompressionMpa => "MD compressive stress near the core",
         Quantity::SurfacePressureKpa => "interlayer pressure at the surface after storage",
         Quantity::OuterMdStressMpa => "MD stress in the outer wrap after storage",
@@ -89,6 +91,8 @@ fn quantity_si(q: Quantity, v: f64) -> Option<f64> {
 
 /// A quantity's value for tables, with its unit in the chosen system ("0.842 mm/m", "31.2 kPa").
 pub fn quantity_value(q: Quantity, v: f64, sys: System) -> String {
+    // a value that rounds to zero is shown without a sign
+    let v = if v.abs() < 5e-4 { 0.0 } else { v };
     match (q, quantity_si(q, v)) {
         (_, Some(si)) => units::show(si, Kind::Pressure, sys, false),
         (Quantity::DiameterRidgePerMille, _) => format!("{v:.2} per mille"),
@@ -98,10 +102,21 @@ pub fn quantity_value(q: Quantity, v: f64, sys: System) -> String {
 
 /// A change of a quantity for tables, signed, with its unit ("-0.120 mm/m", "+4.2 kPa").
 pub fn quantity_change(q: Quantity, dv: f64, sys: System) -> String {
+    let dv = if dv.abs() < 5e-4 { 0.0 } else { dv };
     match (q, quantity_si(q, dv)) {
         (_, Some(si)) => units::signed(si, Kind::Pressure, sys, false, 1),
         (Quantity::DiameterRidgePerMille, _) => format!("{dv:+.2} per mille"),
         _ => format!("{dv:+.3} {}", units::strain_label(sys)),
+    }
+}
+
+/// A source's share as a percentage ("93 %"; "-" when there is no change to share; a share that
+/// rounds to zero without a sign).
+pub fn share(x: Option<f64>) -> String {
+    match x {
+        Some(x) if (x * 100.0).abs() < 0.5 => "0 %".into(),
+        Some(x) => format!("{:.0} %", x * 100.0),
+        None => "-".into(),
     }
 }
 
@@ -115,13 +130,13 @@ pub fn improves(i: Option<bool>) -> &'static str {
 }
 
 /// How root causes are attributed, said whenever they were.
-pub const SHARES_NOTE: &str = "root cause: each source's share is its Shapley value (Shapley 1953) over every subset of source removals, on the finding's own quantity: independent of the order of removal, interactions shared evenly, and the shares add up to the change with every source removed; web tension, nip, speed and storage time amplify a non-uniformity without making one, so they are shown as the quantity at a feasible alternative";
+pub const SHARES_METHOD: &str = "each source's share is its Shapley value (Shapley 1953) over every subset of source removals, on the finding's own quantity: independent of the order of removal, interactions shared evenly, and the shares add up to the change with every source removed; web tension, nip, speed and storage time amplify a non-uniformity without making one, so they are shown as the quantity at a feasible alternative";
 
 /// The diagnosis's notes with the notes its results imply, sorted, each once.
 pub fn notes(d: &Diagnosis) -> Vec<String> {
     let mut n = note_texts(&d.notes);
     if d.findings.iter().any(|f| f.attribution.is_some()) {
-        n.push(SHARES_NOTE.to_string());
+        n.push(format!("root cause: {SHARES_METHOD}"));
     }
     if d.lanes.iter().any(|l| l.extrapolated) {
         n.push("lanes marked * lie beyond the measured positions: their profile values are extrapolated".to_string());
