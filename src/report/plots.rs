@@ -299,7 +299,12 @@ pub fn bars(r: &ReportData) -> Vec<Plot> {
                 shares.push(BarRow {
                     label: format!("{name}: {}", super::words::cause(s.cause)),
                     before: None,
-                    value: 100.0 * x,
+                    // a share that rounds to zero is drawn and labelled as 0
+                    value: if (100.0 * x).abs() < 0.5 {
+                        0.0
+                    } else {
+                        100.0 * x
+                    },
                 });
             }
         }
