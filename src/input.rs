@@ -125,6 +125,53 @@ pub fn read_text(path: &Path) -> Result<String, InputError> {
     Ok(text)
 }
 
+/// A YAML parser's message in our words: the parser's advice to its programmer (option names,
+/// function names, Rust integer types) replaced by what the user can do.
+pub fn plain_yaml_message(message: &str) -> String {
+    let mut m = message.to_string();
+    for (from, to) in [
+        (
+            ", set DuplicateKeyPolicy in Options if acceptable",
+            " (each field may appear only once; remove or merge the repeated line)",
+        ),
+        (
+            "set DuplicateKeyPolicy in Options if acceptable",
+            "each field may appear only once",
+        ),
+        (
+            "use from_str_multiple",
+            "the file holds more than one YAML document (separated by '---'); keep one",
+        ),
+        (
+            "invalid u32",
+            "not a whole number (write a plain whole number, no unit)",
+        ),
+        (
+            "invalid u64",
+            "not a whole number (write a plain whole number, no unit)",
+        ),
+        (
+            "invalid usize",
+            "not a whole number (write a plain whole number, no unit)",
+        ),
+        (
+            "invalid i64",
+            "not a whole number (write a plain whole number, no unit)",
+        ),
+        ("invalid f64", "not a number"),
+    ] {
+        m = m.replace(from, to);
+    }
+    if let Some(i) = m.find("budget breached") {
+        let end = m[i..].find('\n').map_or(m.len(), |e| i + e);
+        m.replace_range(
+            i..end,
+            "the YAML expands past the size limit (too many aliases, nodes or nesting levels); write the values out plainly",
+        );
+    }
+    m
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;

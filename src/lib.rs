@@ -7,6 +7,7 @@
 //! - [`lanes`]: cross-width profiles to lanes;
 //! - [`winding`]: wound-in stresses per lane (Hakiel accretion, core, nip, speed, lane coupling);
 //! - [`storage`]: creep, relaxation and moisture in the stored roll, per lane;
+//! - [`limits`]: physical limits checked after each stage (warnings in every output);
 //! - [`fit`]: creep fitted per lane to measured hardness and diameter (argmin);
 //! - [`rules`]: rule tables, lint and evaluation;
 //! - [`diagnose`]: features, findings, root-cause shares, corrections re-run;
@@ -22,6 +23,7 @@ pub mod fit;
 pub mod input;
 pub mod interp;
 pub mod lanes;
+pub mod limits;
 pub mod note;
 pub mod numeric;
 pub mod report;

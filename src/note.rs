@@ -61,4 +61,59 @@ pub enum Note {
         /// No history was given: the added time is at the standard atmosphere, unwrapped.
         standard: bool,
     },
+    /// A stage result beyond a physical limit: shown as a warning in every output.
+    Limit(Limit),
+}
+
+/// A physical limit a stage result went beyond (checked by [`crate::limits`]).
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+#[serde(tag = "limit", rename_all = "snake_case")]
+pub enum Limit {
+    /// Wound faster than the speed at which a layer at the mean wound-in stress stops pressing
+    /// on the roll: the wound-in state cannot hold.
+    AboveLiftOff {
+        /// Winding speed, m/s.
+        speed_m_s: f64,
+        /// Lift-off speed, m/s.
+        lift_off_m_s: f64,
+    },
+    /// The stack law puts a lane's stack at a compressive strain past any real void content.
+    StackCrushed {
+        /// Lane centre, m.
+        position_m: f64,
+        /// Highest interlayer pressure, Pa.
+        pressure_pa: f64,
+        /// Compressive radial strain there.
+        strain: f64,
+    },
+    /// A lane's diameter fell to or inside the core during storage.
+    DiameterInsideCore {
+        /// Lane centre, m.
+        position_m: f64,
+        /// Smallest diameter, m.
+        diameter_m: f64,
+        /// Core outside diameter, m.
+        core_diameter_m: f64,
+    },
+    /// A lane's moisture rose above the isotherm's saturation value.
+    MoistureAboveSaturation {
+        /// Lane centre, m.
+        position_m: f64,
+        /// Highest mean moisture, %.
+        moisture_pct: f64,
+        /// Saturation moisture (GAB at unit activity), %.
+        saturation_pct: f64,
+    },
+    /// A lane's predicted hardness is not a finite number.
+    HardnessNotFinite {
+        /// Lane centre, m.
+        position_m: f64,
+    },
+}
+
+impl Note {
+    /// Whether this note is a warning (a physical limit passed), not information.
+    pub fn is_warning(&self) -> bool {
+        matches!(self, Note::Limit(_))
+    }
 }

@@ -275,3 +275,27 @@ fn unknown_word_lists_the_allowed_words_with_line() {
         ],
     );
 }
+
+#[test]
+fn set_keeps_the_file_lines_and_blames_itself_for_its_own_values() {
+    // a problem in the file keeps the line of the file as written; a problem in a value that
+    // `--set` wrote is reported against that `--set` argument
+    let text = demo();
+    let first_rh = text.lines().position(|l| l.contains("rh: \"")).unwrap();
+    let line = first_rh + 1;
+    let old = text.lines().nth(first_rh).unwrap().to_string();
+    let broken = old.replacen("rh: \"", "rh: \"1", 1);
+    let p = variant("set_lines.yaml", &text.replacen(&old, &broken, 1));
+    let file = p.to_str().unwrap();
+    bad(
+        &["check", file, "--set", "winding.tension=-3 pli"],
+        &[
+            &format!("{file}:{line}: storage[0].rh"),
+            "--set winding.tension=-3 pli: winding.tension",
+        ],
+    );
+    bad(
+        &["check", file, "--set", "winding.tension=[1, 2]"],
+        &["--set winding.tension=[1, 2]", "no longer fits"],
+    );
+}

@@ -315,3 +315,54 @@ fn a_long_or_empty_case_id_gives_bounded_file_names() {
         assert!(n.len() < 100, "{n:?}");
     }
 }
+
+#[test]
+fn a_csv_path_cannot_leave_the_case_folder() {
+    let d = tempfile::tempdir().unwrap();
+    let inner = d.path().join("case");
+    std::fs::create_dir(&inner).unwrap();
+    let outside = write(d.path(), "secret.csv", "position,value\n1,2\n");
+    std::os::unix::fs::symlink(&outside, inner.join("link.csv")).unwrap();
+    let caliper = "    positions: [50, 150, 250, 350, 450, 550, 650, 750, 850, 950, 1050, 1150, 1250, 1350, 1450, 1550]\n    values: [71.8, 72.1, 71.9, 72.0, 72.2, 72.6, 74.3, 72.5, 72.0, 71.9, 72.1, 71.8, 72.0, 71.9, 72.1, 71.7]\n";
+    for (name, path) in [
+        ("abs.yaml", s(&outside).to_string()),
+        ("up.yaml", "../secret.csv".to_string()),
+        ("link.yaml", "link.csv".to_string()),
+    ] {
+        let case = write(
+            &inner,
+            name,
+            &DEMO.replacen(caliper, &format!("    csv: \"{path}\"\n"), 1),
+        );
+        let r = run(&["check", s(&case)]);
+        refused(&r, &["profiles[0].csv", "case file's folder"]);
+    }
+}
+
+#[test]
+fn parser_advice_is_reworded_for_the_user() {
+    let d = tempfile::tempdir().unwrap();
+    let dup = write(d.path(), "dup.yaml", &format!("{DEMO}case: again\n"));
+    refused(&run(&["check", s(&dup)]), &["dup.yaml", "only once"]);
+    // an alias bomb: each level repeats the one below ten times
+    let mut bomb = String::from("a: &a [x, x, x, x, x, x, x, x, x, x]\n");
+    for i in 0..12 {
+        let below = if i == 0 {
+            "a".to_string()
+        } else {
+            format!("b{}", i - 1)
+        };
+        bomb.push_str(&format!(
+            "b{i}: &b{i} [{}]\n",
+            vec![format!("*{below}"); 10].join(", ")
+        ));
+    }
+    let r = run(&["check", s(&write(d.path(), "bomb.yaml", &bomb))]);
+    refused(&r, &["bomb.yaml"]);
+    let count = write(
+        d.path(),
+        "count.yaml",
+        &DEMO.replacen("format: 1", "format: 1.5", 1),
+    );
+    refused(&run(&["check", s(&count)]), &["count.yaml", "format"]);
+}

@@ -9,6 +9,8 @@ pub struct Problem {
     pub field: String,
     /// 1-based line in the case file, where known.
     pub line: Option<u64>,
+    /// The `--set` argument that wrote the field, when one did.
+    pub set: Option<String>,
     /// What is wrong and how to fix it.
     pub message: String,
 }
@@ -37,7 +39,8 @@ pub enum CaseError {
 
 /// The parser's message without its `error: ` prefix, with a fix for the common cases.
 fn syntax_text(message: &str) -> String {
-    let m = message.trim_end();
+    let plain = crate::input::plain_yaml_message(message);
+    let m = plain.trim_end();
     let mut s = m.strip_prefix("error: ").unwrap_or(m).to_string();
     if message.contains("unknown field") {
         s.push_str("\nFix: check the spelling; `rollsleuth template` prints every field.");
@@ -55,9 +58,10 @@ fn invalid_text(file: &str, problems: &[Problem]) -> String {
         if n == 1 { "" } else { "s" }
     );
     for p in problems {
-        match p.line {
-            Some(l) => s.push_str(&format!("\n  {file}:{l}: {}: {}", p.field, p.message)),
-            None => s.push_str(&format!("\n  {file}: {}: {}", p.field, p.message)),
+        match (&p.set, p.line) {
+            (Some(arg), _) => s.push_str(&format!("\n  --set {arg}: {}: {}", p.field, p.message)),
+            (None, Some(l)) => s.push_str(&format!("\n  {file}:{l}: {}: {}", p.field, p.message)),
+            (None, None) => s.push_str(&format!("\n  {file}: {}: {}", p.field, p.message)),
         }
     }
     s
@@ -92,11 +96,13 @@ mod tests {
                 Problem {
                     field: "roll.width".into(),
                     line: Some(7),
+                    set: None,
                     message: "bad".into(),
                 },
                 Problem {
                     field: "winding.tension".into(),
                     line: None,
+                    set: None,
                     message: "missing".into(),
                 },
             ],

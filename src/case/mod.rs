@@ -6,6 +6,7 @@
 mod csv;
 pub mod defaults;
 mod errors;
+mod lines;
 pub mod model;
 mod overrides;
 pub mod raw;

@@ -5,7 +5,7 @@ use super::errors::CaseError;
 use super::model::Case;
 use super::overrides;
 use super::raw::RawCase;
-use super::validate::Validator;
+use super::validate::{LineSource, Validator};
 use std::path::Path;
 
 /// The demo case embedded in the binary.
@@ -35,19 +35,48 @@ pub fn load_str(
     base: Option<&Path>,
     sets: &[String],
 ) -> Result<Case, CaseError> {
-    let (raw, lines_known) = if sets.is_empty() {
-        (parse_yaml(text, file)?, true)
+    let (raw, lines) = if sets.is_empty() {
+        (parse_yaml(text, file)?, LineSource::Spans)
     } else {
+        // the file as written must parse on its own: its errors keep their lines
+        parse_yaml(text, file)?;
         let json = overrides::edited_text(text, file, sets)?;
-        (parse_yaml(&json, &format!("{file} (with --set)"))?, false)
+        let raw = serde_saphyr::from_str(&json).map_err(|e| CaseError::Set {
+            arg: sets.join(" "),
+            message: format!(
+                "the edited case no longer fits the case schema ({})",
+                first_line(&e.to_string())
+            ),
+        })?;
+        let sets = sets
+            .iter()
+            .map(|s| {
+                let path = s.split_once('=').map_or(s.as_str(), |p| p.0).trim();
+                (path.to_string(), s.clone())
+            })
+            .collect();
+        let lines = super::lines::field_lines(text);
+        (raw, LineSource::Edited { lines, sets })
     };
-    let mut v = Validator::new(lines_known, base);
+    let mut v = Validator::new(lines, base);
     match v.case(raw, file) {
         Some(c) if v.problems.is_empty() => Ok(c),
         _ => Err(CaseError::Invalid {
             file: file.to_string(),
             problems: v.problems,
         }),
+    }
+}
+
+/// The first line of a parser message, without its `error: ` prefix and location.
+fn first_line(message: &str) -> String {
+    let plain = crate::input::plain_yaml_message(message);
+    let l = plain.lines().next().unwrap_or("").trim();
+    let l = l.strip_prefix("error: ").unwrap_or(l);
+    // drop "line N column M: " that points into the re-serialised text
+    match l.find(": ").filter(|_| l.starts_with("line ")) {
+        Some(i) => l[i + 2..].to_string(),
+        None => l.to_string(),
     }
 }
 

@@ -138,6 +138,8 @@ pub struct Diagnosis {
     /// Whether the output advises action (then it carries the safety note).
     pub advises_action: bool,
     pub notes: Vec<Note>,
+    /// The case's own warnings from loading (words of `case`'s validation).
+    pub case_warnings: Vec<String>,
 }
 
 /// The base scenario of a diagnosed case: fitted creep per lane, storage as simulated (extended
@@ -268,6 +270,7 @@ pub fn diagnose_fitted(
         agreement,
         lanes: lane_results,
         notes,
+        case_warnings: case.warnings.clone(),
     })
 }
 

@@ -80,7 +80,25 @@ pub fn age_measured(
     opt: &AgeOptions,
 ) -> Result<Aged, FitError> {
     let (prep, map) = prepared(case, lanes, wound, opt)?;
-    Ok(age_prepared(&case.material, &prep, wound, None, &map)?)
+    let aged = age_prepared(&case.material, &prep, wound, None, &map)?;
+    Ok(with_limits(case, wound, aged))
+}
+
+/// The aged roll with a note for every physical limit the winding or storage result passed
+/// ([`crate::limits`]).
+fn with_limits(case: &Case, wound: &Wound, mut aged: Aged) -> Aged {
+    let mut found = crate::limits::after_winding(wound, &case.material, case.winding.speed_m_s);
+    found.extend(crate::limits::after_storage(
+        &aged,
+        &case.material,
+        &case.roll,
+    ));
+    for n in found {
+        if !aged.notes.contains(&n) {
+            aged.notes.push(n);
+        }
+    }
+    aged
 }
 
 /// Measurement noise used in the fit.
@@ -201,6 +219,7 @@ pub fn fit_roll(
     }
     let creep: Vec<LaneCreep> = fits.iter().map(|f| f.creep).collect();
     let aged = age_prepared(&case.material, &prep, wound, Some(&creep), &map)?;
+    let aged = with_limits(case, wound, aged);
     let strain = aged.final_strain_at_unwind();
     let spread_strain = spread(&strain);
     Ok(RollFit {

@@ -70,8 +70,8 @@ pub fn text(c: &Case, lanes: &Lanes, a: &Aged, sys: System) -> String {
         out,
         "Strain at unwind is the stress-free MD strain a lane keeps (permanent + delayed creep + hygroexpansion); a lane longer than the mean by more than about 0.5 mm/m runs visibly slack on light webs (common practice)."
     );
-    for note in &a.notes {
-        let _ = writeln!(out, "note: {}", super::words::note(note));
+    for line in super::words::note_lines(&c.warnings, &a.notes) {
+        let _ = writeln!(out, "{line}");
     }
     out
 }
@@ -108,13 +108,15 @@ fn time_line(lanes: &Lanes, a: &Aged) -> comfy_table::Table {
 
 /// JSON with arrays over `times_s`.
 pub fn json(c: &Case, a: &Aged) -> Value {
+    let (notes, warnings) = super::words::note_json(&c.warnings, &a.notes);
     json!({
         "case": c.id,
         "times_s": a.times_s,
         "radius_m": a.radius_m,
         "equilibrium_moisture_pct": a.equilibrium_moisture_pct,
         "hardness_map": a.hardness_map,
-        "notes": super::words::note_texts(&a.notes),
+        "notes": notes,
+        "warnings": warnings,
         "lanes": a.lanes,
     })
 }

@@ -321,8 +321,8 @@ pub fn lanes_text(c: &Case, l: &Lanes, sys: System) -> String {
     if l.lanes.iter().any(|x| x.extrapolated) {
         let _ = writeln!(out, "* extrapolated beyond the measured positions");
     }
-    for n in &l.notes {
-        let _ = writeln!(out, "note: {}", super::words::note(n));
+    for line in super::words::note_lines(&c.warnings, &l.notes) {
+        let _ = writeln!(out, "{line}");
     }
     let _ = writeln!(
         out,
@@ -333,6 +333,7 @@ pub fn lanes_text(c: &Case, l: &Lanes, sys: System) -> String {
 
 /// Per-lane JSON.
 pub fn lanes_json(c: &Case, l: &Lanes) -> Value {
+    let (notes, warnings) = super::words::note_json(&c.warnings, &l.notes);
     json!({
         "case": c.id,
         "mean_caliper_m": l.mean_caliper_m,
@@ -350,7 +351,8 @@ pub fn lanes_json(c: &Case, l: &Lanes) -> Value {
             "strain": x.wound_strain_difference,
             "extrapolated": x.extrapolated,
         })).collect::<Vec<_>>(),
-        "notes": super::words::note_texts(&l.notes),
+        "notes": notes,
+        "warnings": warnings,
     })
 }
 

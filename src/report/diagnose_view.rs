@@ -75,6 +75,9 @@ pub fn text(d: &Diagnosis, sys: System) -> String {
             }
         );
     }
+    for w in words::warnings(d) {
+        let _ = writeln!(out, "warning: {w}");
+    }
     for n in words::notes(d) {
         let _ = writeln!(out, "note: {n}");
     }
@@ -210,6 +213,7 @@ pub fn json(d: &Diagnosis) -> Value {
         "features": d.features.values,
         "lanes": d.lanes,
         "notes": words::notes(d),
+        "warnings": words::warnings(d),
         "safety": if d.advises_action { Some(SAFETY) } else { None },
     })
 }

@@ -315,10 +315,9 @@ pub fn provenance(r: &ReportData, v: &mut Vec<Block>) {
         .map(|n| vec![t(n)])
         .collect();
     notes.extend(
-        r.case
-            .warnings
-            .iter()
-            .map(|w| vec![b("warning: "), t(w.clone())]),
+        super::words::warnings(d)
+            .into_iter()
+            .map(|w| vec![b("warning: "), t(w)]),
     );
     if !notes.is_empty() {
         v.push(Block::Heading(2, "Model notes".into(), "notes"));

@@ -72,8 +72,8 @@ pub fn text(c: &Case, lanes: &Lanes, f: &RollFit, sys: System) -> String {
         crate::units::show(f.noise.diameter_m, crate::units::Kind::Length, sys, false),
         f.noise.diameter_source
     );
-    for n in &f.notes {
-        let _ = writeln!(out, "note: {}", super::words::note(n));
+    for line in super::words::note_lines(&c.warnings, &all_notes(f)) {
+        let _ = writeln!(out, "{line}");
     }
     out
 }
@@ -116,6 +116,7 @@ fn worst_residuals(f: &RollFit, sys: System) -> Option<comfy_table::Table> {
 
 /// JSON of the fit.
 pub fn json(c: &Case, f: &RollFit) -> Value {
+    let (notes, warnings) = super::words::note_json(&c.warnings, &all_notes(f));
     json!({
         "case": c.id,
         "lanes": f.lanes.iter().enumerate().map(|(i, l)| json!({
@@ -138,8 +139,20 @@ pub fn json(c: &Case, f: &RollFit) -> Value {
         "prior_sd_ln": f.prior_sd_ln,
         "noise": f.noise,
         "evaluations": f.evaluations,
-        "notes": super::words::note_texts(&f.notes),
+        "notes": notes,
+        "warnings": warnings,
     })
+}
+
+/// The fit's notes and its aged roll's, each once.
+fn all_notes(f: &RollFit) -> Vec<crate::note::Note> {
+    let mut v = f.notes.clone();
+    for n in &f.aged.notes {
+        if !v.contains(n) {
+            v.push(*n);
+        }
+    }
+    v
 }
 
 /// A fitted scale with its 1-sigma range from a multiplicative factor: "1.02 (0.79-1.32)".

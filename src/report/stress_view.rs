@@ -82,11 +82,20 @@ pub fn text(c: &Case, w: &Wound, sys: System) -> String {
             slack.join(", ")
         );
     }
+    for line in super::words::note_lines(&c.warnings, &limits(c, w)) {
+        let _ = writeln!(out, "{line}");
+    }
     out
+}
+
+/// The physical limits the wound state passed.
+fn limits(c: &Case, w: &Wound) -> Vec<crate::note::Note> {
+    crate::limits::after_winding(w, &c.material, c.winding.speed_m_s)
 }
 
 /// JSON with full radial arrays per lane.
 pub fn json(c: &Case, w: &Wound) -> Value {
+    let (notes, warnings) = super::words::note_json(&c.warnings, &limits(c, w));
     json!({
         "case": c.id,
         "radius_m": w.radius_m,
@@ -106,5 +115,7 @@ pub fn json(c: &Case, w: &Wound) -> Value {
             "wound_in_tension_n_per_m": l.wound_in_tension_n_per_m,
             "summary": l.summary,
         })).collect::<Vec<_>>(),
+        "notes": notes,
+        "warnings": warnings,
     })
 }

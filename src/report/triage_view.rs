@@ -15,6 +15,8 @@ pub struct TriageRow {
     pub complaint: Option<Defect>,
     pub agrees: Option<bool>,
     pub error: Option<String>,
+    /// The case's warnings and every physical limit a stage passed, in words.
+    pub warnings: Vec<String>,
 }
 
 impl TriageRow {
@@ -31,6 +33,7 @@ impl TriageRow {
             complaint: d.agreement.as_ref().map(|a| a.complaint),
             agrees: d.agreement.as_ref().map(|a| a.agrees),
             error: None,
+            warnings: words::warnings(d),
         }
     }
     /// A roll that could not be diagnosed.
@@ -44,6 +47,7 @@ impl TriageRow {
             complaint: None,
             agrees: None,
             error: Some(e.to_string()),
+            warnings: Vec::new(),
         }
     }
     /// Ranking: failures first, then likelihood, then spread.
@@ -57,7 +61,7 @@ impl TriageRow {
 }
 
 /// The columns of the triage CSV (SI; the spread is mm of extra length per m of web).
-const CSV_COLUMNS: [&str; 8] = [
+const CSV_COLUMNS: [&str; 9] = [
     "file",
     "case",
     "spread_mm_per_m",
@@ -66,6 +70,7 @@ const CSV_COLUMNS: [&str; 8] = [
     "complaint",
     "agrees",
     "error",
+    "warnings",
 ];
 
 /// The header line of the triage CSV.
@@ -95,6 +100,7 @@ pub fn triage_csv_rows(rows: &[TriageRow]) -> String {
                     .map(|e| e.lines().next().unwrap_or(""))
                     .unwrap_or_default()
                     .into(),
+                r.warnings.join(" | "),
             ])?;
         }
         Ok(())
@@ -122,7 +128,11 @@ pub fn triage_text(rows: &[TriageRow], sys: System) -> String {
         "agrees",
     ]);
     let mut failed = String::new();
+    let mut warned = String::new();
     for r in rows {
+        for w in &r.warnings {
+            warned.push_str(&format!("warning: {}: {w}\n", r.case));
+        }
         if let Some(e) = &r.error {
             failed.push_str(&format!("  {}\n", e.trim_end()));
             continue;
@@ -163,6 +173,7 @@ pub fn triage_text(rows: &[TriageRow], sys: System) -> String {
         out.push_str("Not diagnosed (bad input; fix and run again):\n");
         out.push_str(&failed);
     }
+    out.push_str(&warned);
     out.push_str("Triage uses the fast settings (no corrections re-run); run `rollsleuth diagnose CASE` on a roll for the full report.\n");
     out.push_str(SAFETY);
     out.push('\n');

@@ -132,9 +132,16 @@ pub fn improves(i: Option<bool>) -> &'static str {
 /// How root causes are attributed, said whenever they were.
 pub const SHARES_METHOD: &str = "each source's share is its Shapley value (Shapley 1953) over every subset of source removals, on the finding's own quantity: independent of the order of removal, interactions shared evenly, and the shares add up to the change with every source removed; web tension, nip, speed and storage time amplify a non-uniformity without making one, so they are shown as the quantity at a feasible alternative";
 
-/// The diagnosis's notes with the notes its results imply, sorted, each once.
+/// The diagnosis's notes with the notes its results imply, sorted, each once (warnings are
+/// apart: [`warnings`]).
 pub fn notes(d: &Diagnosis) -> Vec<String> {
-    let mut n = note_texts(&d.notes);
+    let info: Vec<Note> = d
+        .notes
+        .iter()
+        .filter(|n| !n.is_warning())
+        .copied()
+        .collect();
+    let mut n = note_texts(&info);
     if d.findings.iter().any(|f| f.attribution.is_some()) {
         n.push(format!("root cause: {SHARES_METHOD}"));
     }
@@ -144,6 +151,43 @@ pub fn notes(d: &Diagnosis) -> Vec<String> {
     n.sort();
     n.dedup();
     n
+}
+
+/// The diagnosis's warnings: the case's own, then every physical limit a stage passed.
+pub fn warnings(d: &Diagnosis) -> Vec<String> {
+    let mut w = d.case_warnings.clone();
+    w.extend(d.notes.iter().filter(|n| n.is_warning()).map(note));
+    w
+}
+
+/// A stage's notes as output lines: `warning: ...` for the case's warnings and the physical
+/// limits passed, then `note: ...` for the rest.
+pub fn note_lines(case_warnings: &[String], notes: &[Note]) -> Vec<String> {
+    let mut v: Vec<String> = case_warnings
+        .iter()
+        .map(|w| format!("warning: {w}"))
+        .collect();
+    v.extend(
+        notes
+            .iter()
+            .filter(|n| n.is_warning())
+            .map(|n| format!("warning: {}", note(n))),
+    );
+    v.extend(
+        notes
+            .iter()
+            .filter(|n| !n.is_warning())
+            .map(|n| format!("note: {}", note(n))),
+    );
+    v
+}
+
+/// A stage's notes for JSON: `(notes, warnings)`, the warnings with the case's own first.
+pub fn note_json(case_warnings: &[String], notes: &[Note]) -> (Vec<String>, Vec<String>) {
+    let mut w = case_warnings.to_vec();
+    w.extend(notes.iter().filter(|n| n.is_warning()).map(note));
+    let n = notes.iter().filter(|n| !n.is_warning()).map(note).collect();
+    (n, w)
 }
 
 /// A stage's note as a sentence (times in days, positions in mm, moduli in GPa).
@@ -208,6 +252,54 @@ pub fn note(n: &Note) -> String {
             } else {
                 "the last stretch continued"
             }
+        ),
+        Note::Limit(l) => limit(&l),
+    }
+}
+
+/// A physical limit passed, as a sentence that says what it means for the findings.
+pub fn limit(l: &crate::note::Limit) -> String {
+    use crate::note::Limit;
+    const SO: &str = "results that depend on it are not physical; check the inputs";
+    match *l {
+        Limit::AboveLiftOff {
+            speed_m_s,
+            lift_off_m_s,
+        } => format!(
+            "the winding speed {speed_m_s:.1} m/s is above the lift-off speed {lift_off_m_s:.1} m/s at the roll's mean wound-in stress: outer layers could not stay on the roll as modelled; {SO}"
+        ),
+        Limit::StackCrushed {
+            position_m,
+            pressure_pa,
+            strain,
+        } => format!(
+            "lane at {:.0} mm: the stack law compresses the stack by {:.0} % at {:.2} MPa, more than the sheet's void content allows ({:.0} %); {SO} (material.stack)",
+            position_m * 1e3,
+            strain * 100.0,
+            pressure_pa / 1e6,
+            crate::limits::MAX_STACK_STRAIN * 100.0
+        ),
+        Limit::DiameterInsideCore {
+            position_m,
+            diameter_m,
+            core_diameter_m,
+        } => format!(
+            "lane at {:.0} mm: the diameter falls to {:.1} mm, at or inside the {:.1} mm core; {SO}",
+            position_m * 1e3,
+            diameter_m * 1e3,
+            core_diameter_m * 1e3
+        ),
+        Limit::MoistureAboveSaturation {
+            position_m,
+            moisture_pct,
+            saturation_pct,
+        } => format!(
+            "lane at {:.0} mm: moisture reaches {moisture_pct:.2} %, above the isotherm's saturation {saturation_pct:.2} %; {SO} (material.sorption, storage)",
+            position_m * 1e3
+        ),
+        Limit::HardnessNotFinite { position_m } => format!(
+            "lane at {:.0} mm: the predicted hardness is not a finite number; {SO} (hardness.calibration)",
+            position_m * 1e3
         ),
     }
 }

@@ -183,7 +183,7 @@ pub fn load_file(path: &Path) -> Result<Table, RulesError> {
 pub fn parse(text: &str, file: &str) -> Result<Table, RulesError> {
     let raw: RawTable = serde_saphyr::from_str(text).map_err(|e| RulesError::Syntax {
         file: file.to_string(),
-        message: e.to_string(),
+        message: crate::input::plain_yaml_message(&e.to_string()),
     })?;
     let (table, problems) = lint(&raw, file);
     if problems.is_empty() {

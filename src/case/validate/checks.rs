@@ -11,13 +11,27 @@ use std::path::{Path, PathBuf};
 
 /// Collects problems, defaults used and warnings while the sections are validated.
 pub(in crate::case) struct Validator {
-    /// False when `--set` re-read the case and file lines are lost.
-    lines_known: bool,
+    /// Where problems get their lines.
+    lines: LineSource,
     /// Directory that relative CSV paths start from.
     pub(super) base: Option<PathBuf>,
     pub(in crate::case) problems: Vec<Problem>,
     pub(super) defaults: Vec<DefaultUsed>,
     pub(super) warnings: Vec<String>,
+}
+
+/// Where a problem's line comes from.
+pub(in crate::case) enum LineSource {
+    /// The case was read as written: each value's own location.
+    Spans,
+    /// The case was edited by `--set` and re-read: lines of the file as written, by field path;
+    /// problems under a set path are reported against the `--set` argument.
+    Edited {
+        /// Field path -> line in the file as written.
+        lines: std::collections::BTreeMap<String, u64>,
+        /// (field path, whole `--set` argument), in the order given.
+        sets: Vec<(String, String)>,
+    },
 }
 
 /// Line of a located value in the case file (1-based).
@@ -50,9 +64,9 @@ impl Range {
 }
 
 impl Validator {
-    pub(in crate::case) fn new(lines_known: bool, base: Option<&Path>) -> Validator {
+    pub(in crate::case) fn new(lines: LineSource, base: Option<&Path>) -> Validator {
         Validator {
-            lines_known,
+            lines,
             base: base.map(Path::to_path_buf),
             problems: Vec::new(),
             defaults: Vec::new(),
@@ -61,14 +75,24 @@ impl Validator {
     }
 
     pub(super) fn push(&mut self, field: &str, line: Option<u64>, message: String) {
-        let line = if self.lines_known {
-            line.filter(|&l| l > 0)
-        } else {
-            None
+        let (line, set) = match &self.lines {
+            LineSource::Spans => (line.filter(|&l| l > 0), None),
+            LineSource::Edited { lines, sets } => {
+                // the last --set that covers the field wrote its value
+                match sets
+                    .iter()
+                    .rev()
+                    .find(|(p, _)| super::super::lines::is_under(field, p))
+                {
+                    Some((_, arg)) => (None, Some(arg.clone())),
+                    None => (super::super::lines::line_for(lines, field), None),
+                }
+            }
         };
         self.problems.push(Problem {
             field: field.to_string(),
             line,
+            set,
             message,
         });
     }

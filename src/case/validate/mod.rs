@@ -16,4 +16,4 @@ mod roll;
 mod storage;
 mod winding;
 
-pub(super) use checks::Validator;
+pub(super) use checks::{LineSource, Validator};

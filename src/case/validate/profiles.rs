@@ -147,9 +147,12 @@ impl Validator {
         columns: Option<&RawColumns>,
         field: &str,
     ) -> Option<PointsFrom> {
-        let path = match &self.base {
-            Some(b) => b.join(&c.value),
-            None => PathBuf::from(&c.value),
+        let path = match confined(self.base.as_deref(), &c.value) {
+            Ok(p) => p,
+            Err(message) => {
+                self.push(field, Some(line_of(c)), message);
+                return None;
+            }
         };
         let cols = match columns {
             Some(m) => Columns {
@@ -332,4 +335,32 @@ fn likely_unit(
         .into_iter()
         .filter(|u| !u.eq_ignore_ascii_case(labelled))
         .find(|u| factor(u).is_some_and(|f| (band.0..=band.1).contains(&(written * f / nominal))))
+}
+
+/// A CSV path from a case file, resolved inside the case file's folder: relative, no `..`, and
+/// not leading out of the folder through a symbolic link. A case file received from elsewhere
+/// cannot make rollsleuth read any other file on the machine.
+pub(super) fn confined(base: Option<&std::path::Path>, rel: &str) -> Result<PathBuf, String> {
+    use std::path::Component;
+    let p = std::path::Path::new(rel);
+    let fix = "Fix: put the CSV file in the case file's folder (or a folder below it) and give its path from there, e.g. csv: scans/caliper.csv";
+    if p.as_os_str().is_empty()
+        || p.components()
+            .any(|c| !matches!(c, Component::Normal(_) | Component::CurDir))
+    {
+        return Err(format!(
+            "'{rel}' is not a path inside the case file's folder (absolute paths and '..' are refused). {fix}"
+        ));
+    }
+    let base = base.unwrap_or(std::path::Path::new("."));
+    let joined = base.join(p);
+    // a missing file is reported by the reader; a file that exists must resolve inside `base`
+    if let (Ok(b), Ok(f)) = (base.canonicalize(), joined.canonicalize()) {
+        if !f.starts_with(&b) {
+            return Err(format!(
+                "'{rel}' leads out of the case file's folder through a symbolic link. {fix}"
+            ));
+        }
+    }
+    Ok(joined)
 }
