@@ -91,6 +91,24 @@ fn bench_triage(c: &mut Criterion) {
         })
     });
     let full = rollsleuth::diagnose::DiagnoseOptions::default();
+    // the cost of the re-runs: model runs per diagnosis (Shapley subsets of the sources, the
+    // amplifiers' alternatives and the corrections, each distinct scenario once)
+    let d = rollsleuth::diagnose::diagnose(&case, &table, &full).expect("diagnoses");
+    let corrections: usize = d.findings.iter().map(|f| f.corrections.len()).sum();
+    let sources = d
+        .findings
+        .first()
+        .and_then(|f| f.attribution.as_ref())
+        .map_or(0, |a| a.shares.len());
+    eprintln!(
+        "runs per diagnosis of the demo roll: {} winding runs, {} storage runs ({} findings, {} sources -> {} subsets, {} corrections listed)",
+        d.runs.winding_runs,
+        d.runs.storage_runs,
+        d.findings.len(),
+        sources,
+        1usize << sources,
+        corrections
+    );
     c.bench_function("diagnose one 18-lane roll (full, with re-runs)", |b| {
         b.iter(|| {
             rollsleuth::diagnose::diagnose(black_box(&case), &table, &full).expect("diagnoses")

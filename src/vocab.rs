@@ -82,9 +82,15 @@ words! {
         FlattenCaliper = "flatten_caliper",
         ScaleTension = "scale_tension",
         TaperTension = "taper_tension",
+        /// Raise the start of the winder's tension and taper it to `factor` of the start at full
+        /// diameter, keeping the winder's mean tension over the web length.
+        RaiseStartAndTaper = "raise_start_and_taper",
         ScaleNip = "scale_nip",
         FilmWrap = "film_wrap",
         StoreAtEquilibrium = "store_at_equilibrium",
+        /// Make the paper at the moisture in equilibrium with the pressroom (the last storage
+        /// stretch's humidity).
+        MakeAtPressroomEquilibrium = "make_at_pressroom_equilibrium",
         KeepWrappedUntilUse = "keep_wrapped_until_use",
         ShortenStorage = "shorten_storage",
         SlitOut = "slit_out",
@@ -97,11 +103,13 @@ impl Action {
         match self {
             Action::ScaleTension
             | Action::TaperTension
+            | Action::RaiseStartAndTaper
             | Action::ScaleNip
             | Action::ShortenStorage => true,
             Action::FlattenCaliper
             | Action::FilmWrap
             | Action::StoreAtEquilibrium
+            | Action::MakeAtPressroomEquilibrium
             | Action::KeepWrappedUntilUse
             | Action::SlitOut => false,
         }
@@ -129,15 +137,70 @@ impl Likelihood {
 }
 
 words! {
-    /// Causes of the lane-to-lane length differences a diagnosis attributes by removing each.
+    /// Sources of non-uniformity across the width that attribution shares a finding's quantity
+    /// among (Shapley values over their removals).
     pub enum Cause {
         CaliperProfile = "caliper_profile",
+        /// Moisture gradients from the storage humidity and the wraps.
         StorageMoisture = "storage_moisture",
-        WoundInTensionProfile = "wound_in_tension_profile",
-        Nip = "nip",
+        /// Lane-to-lane creep differences that the measurements identify.
         LaneToLaneCreep = "lane_to_lane_creep",
-        /// No single removal reduced the spread.
-        NotAttributable = "not_attributable",
+    }
+}
+
+words! {
+    /// Settings that amplify a non-uniformity without causing one; reported as sensitivities at
+    /// a feasible alternative.
+    pub enum Amplifier {
+        WebTension = "web_tension",
+        Nip = "nip",
+        Speed = "speed",
+        StorageTime = "storage_time",
+    }
+}
+
+words! {
+    /// The quantity a finding is judged on; each word carries its unit.
+    pub enum Quantity {
+        /// The finding's lane over the width-weighted mean lane at unwind.
+        LaneExcessMmPerM = "lane_excess_mm_per_m",
+        /// The finding's lane over the mean of its neighbours (two each side) at unwind.
+        LocalPeakMmPerM = "local_peak_mm_per_m",
+        /// Centre half minus the outermost lanes at unwind.
+        CentreMinusEdgesMmPerM = "centre_minus_edges_mm_per_m",
+        /// Outermost lanes minus the centre half at unwind.
+        EdgesMinusCentreMmPerM = "edges_minus_centre_mm_per_m",
+        /// Largest MD compressive stress in the inner third of the wound roll.
+        CoreMdCompressionMpa = "core_md_compression_mpa",
+        /// Lowest interlayer pressure at the surface after storage.
+        SurfacePressureKpa = "surface_pressure_kpa",
+        /// Largest MD stress in the outer wrap after storage.
+        OuterMdStressMpa = "outer_md_stress_mpa",
+        /// The finding's lane diameter over its neighbours' (two each side), per mille.
+        DiameterRidgePerMille = "diameter_ridge_per_mille",
+        /// Largest minus smallest lane at unwind.
+        SpreadMmPerM = "spread_mm_per_m",
+    }
+}
+
+impl Quantity {
+    /// Whether a lower value is better (all but the surface pressure).
+    pub const fn lower_is_better(self) -> bool {
+        !matches!(self, Quantity::SurfacePressureKpa)
+    }
+
+    /// The quantity's unit as written in JSON fields.
+    pub const fn unit(self) -> &'static str {
+        match self {
+            Quantity::LaneExcessMmPerM
+            | Quantity::LocalPeakMmPerM
+            | Quantity::CentreMinusEdgesMmPerM
+            | Quantity::EdgesMinusCentreMmPerM
+            | Quantity::SpreadMmPerM => "mm_per_m",
+            Quantity::CoreMdCompressionMpa | Quantity::OuterMdStressMpa => "mpa",
+            Quantity::SurfacePressureKpa => "kpa",
+            Quantity::DiameterRidgePerMille => "per_mille",
+        }
     }
 }
 
@@ -290,6 +353,8 @@ mod tests {
         check(Action::ALL, Action::word);
         check(Likelihood::ALL, Likelihood::word);
         check(Cause::ALL, Cause::word);
+        check(Amplifier::ALL, Amplifier::word);
+        check(Quantity::ALL, Quantity::word);
         check(Feature::ALL, Feature::word);
         assert_eq!(WORDS.len(), Defect::ALL.len());
         assert_eq!(Defect::from_word("baggy_center"), Some(Defect::BaggyCenter));

@@ -45,7 +45,7 @@ impl Features {
 pub const SLACK_MM_PER_M: f64 = 0.5;
 
 /// Prominence over the mean lane for a local peak to count as a long band, mm/m (common practice).
-const BAND_MM_PER_M: f64 = 0.3;
+pub const BAND_MM_PER_M: f64 = 0.3;
 
 fn median(v: &[f64]) -> f64 {
     let mut s = v.to_vec();

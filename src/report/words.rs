@@ -2,10 +2,10 @@
 //! exhaustive, so a new word does not compile until it has its text here.
 
 use crate::case::Measure;
-use crate::diagnose::{CauseShare, Diagnosis};
+use crate::diagnose::Diagnosis;
 use crate::note::Note;
 use crate::units::{self, Kind, System};
-use crate::vocab::{Cause, Defect, Feature};
+use crate::vocab::{Amplifier, Cause, Defect, Feature, Quantity};
 
 /// Plain words for a defect ("baggy_center" -> "baggy centre").
 pub fn defect(d: Defect) -> &'static str {
@@ -34,37 +34,103 @@ pub fn complaint(word: &str) -> String {
     }
 }
 
-/// A cause's name.
+/// A source's name.
 pub fn cause(c: Cause) -> &'static str {
     match c {
         Cause::CaliperProfile => "caliper profile",
-        Cause::StorageMoisture => "storage moisture",
-        Cause::WoundInTensionProfile => "wound-in tension profile",
-        Cause::Nip => "nip",
-        Cause::LaneToLaneCreep => "lane-to-lane creep",
-        Cause::NotAttributable => "not attributable",
+        Cause::StorageMoisture => "moisture gradients from storage and wraps",
+        Cause::LaneToLaneCreep => "lane-to-lane creep (as the measurements identify it)",
     }
 }
 
-/// How a cause was removed to measure its share.
+/// How a source is removed to measure its share.
 pub fn removed(c: Cause) -> &'static str {
     match c {
         Cause::CaliperProfile => "caliper made uniform across the width",
-        Cause::StorageMoisture => "storage at humidity in equilibrium with the paper",
-        Cause::WoundInTensionProfile => "lane tensions made equal (fully levelled)",
-        Cause::Nip => "nip removed",
+        Cause::StorageMoisture => "storage at the humidity in equilibrium with the paper",
         Cause::LaneToLaneCreep => "every lane given the roll's mean creep",
-        Cause::NotAttributable => "no single cause removal reduced the spread",
     }
 }
 
-/// How cause shares are normalised, said whenever shares were attributed.
-const SHARES_NOTE: &str = "cause shares: each cause's reduction of the spread when removed alone, normalised to add to 1 (causes interact, so removals need not add up)";
-
-/// Whether the causes carry attributed shares (some removal reduced the spread).
-fn attributed(causes: &[CauseShare]) -> bool {
-    !causes.is_empty() && causes.iter().all(|c| c.cause != Cause::NotAttributable)
+/// An amplifier's name and its feasible alternative.
+pub fn amplifier(a: Amplifier) -> (&'static str, &'static str) {
+    match a {
+        Amplifier::WebTension => ("web tension", "web tension 15 % lower"),
+        Amplifier::Nip => ("nip", "nip load 40 % lighter"),
+        Amplifier::Speed => ("winding speed", "winding 20 % slower"),
+        Amplifier::StorageTime => ("storage time", "storage time halved"),
+    }
 }
+
+/// A quantity's name, to follow "the" (its unit goes with each value, see [`quantity_value`]).
+pub fn quantity(q: Quantity) -> &'static str {
+    match q {
+        Quantity::LaneExcessMmPerM => {
+            "largest excess length of the finding's lanes over the mean lane"
+        }
+        Quantity::LocalPeakMmPerM => "excess length of the finding's lane over its neighbours",
+        Quantity::CentreMinusEdgesMmPerM => "centre-minus-edges length difference",
+        Quantity::EdgesMinusCentreMmPerM => "edges-minus-centre length difference",
+        Quantity::CoreMdCompressionMpa => "MD compressive stress near the core",
+        Quantity::SurfacePressureKpa => "interlayer pressure at the surface after storage",
+        Quantity::OuterMdStressMpa => "MD stress in the outer wrap after storage",
+        Quantity::DiameterRidgePerMille => "diameter ridge over the neighbouring lanes",
+        Quantity::SpreadMmPerM => "length spread across the width",
+    }
+}
+
+/// A quantity's value in its unit (`Quantity::unit`) as SI for [`units`], or None when it is a
+/// strain or a ratio shown as it is.
+fn quantity_si(q: Quantity, v: f64) -> Option<f64> {
+    match q {
+        Quantity::CoreMdCompressionMpa | Quantity::OuterMdStressMpa => Some(v * 1e6),
+        Quantity::SurfacePressureKpa => Some(v * 1e3),
+        _ => None,
+    }
+}
+
+/// A quantity's value for tables, with its unit in the chosen system ("0.842 mm/m", "31.2 kPa").
+pub fn quantity_value(q: Quantity, v: f64, sys: System) -> String {
+    // a value that rounds to zero is shown without a sign
+    let v = if v.abs() < 5e-4 { 0.0 } else { v };
+    match (q, quantity_si(q, v)) {
+        (_, Some(si)) => units::show(si, Kind::Pressure, sys, false),
+        (Quantity::DiameterRidgePerMille, _) => format!("{v:.2} per mille"),
+        _ => format!("{v:.3} {}", units::strain_label(sys)),
+    }
+}
+
+/// A change of a quantity for tables, signed, with its unit ("-0.120 mm/m", "+4.2 kPa").
+pub fn quantity_change(q: Quantity, dv: f64, sys: System) -> String {
+    let dv = if dv.abs() < 5e-4 { 0.0 } else { dv };
+    match (q, quantity_si(q, dv)) {
+        (_, Some(si)) => units::signed(si, Kind::Pressure, sys, false, 1),
+        (Quantity::DiameterRidgePerMille, _) => format!("{dv:+.2} per mille"),
+        _ => format!("{dv:+.3} {}", units::strain_label(sys)),
+    }
+}
+
+/// A source's share as a percentage ("93 %"; "-" when there is no change to share; a share that
+/// rounds to zero without a sign).
+pub fn share(x: Option<f64>) -> String {
+    match x {
+        Some(x) if (x * 100.0).abs() < 0.5 => "0 %".into(),
+        Some(x) => format!("{:.0} %", x * 100.0),
+        None => "-".into(),
+    }
+}
+
+/// Whether a correction improves its finding's quantity, in words.
+pub fn improves(i: Option<bool>) -> &'static str {
+    match i {
+        Some(true) => "yes",
+        Some(false) => "no: not recommended",
+        None => "not run",
+    }
+}
+
+/// How root causes are attributed, said whenever they were.
+pub const SHARES_METHOD: &str = "each source's share is its Shapley value (Shapley 1953) over every subset of source removals, on the finding's own quantity: independent of the order of removal, interactions shared evenly, and the shares add up to the change with every source removed; web tension, nip, speed and storage time amplify a non-uniformity without making one, so they are shown as the quantity at a feasible alternative";
 
 /// The diagnosis's notes with the notes its results imply, sorted, each once (warnings are
 /// apart: [`warnings`]).
@@ -76,8 +142,11 @@ pub fn notes(d: &Diagnosis) -> Vec<String> {
         .copied()
         .collect();
     let mut n = note_texts(&info);
-    if attributed(&d.causes) {
-        n.push(SHARES_NOTE.to_string());
+    if d.findings.iter().any(|f| f.attribution.is_some()) {
+        n.push(format!("root cause: {SHARES_METHOD}"));
+    }
+    if d.lanes.iter().any(|l| l.extrapolated) {
+        n.push("lanes marked * lie beyond the measured positions: their profile values are extrapolated".to_string());
     }
     n.sort();
     n.dedup();
