@@ -6,7 +6,7 @@
 //! **Invariant:** pure functions of stage results; no prose (words are in `report::words`).
 
 use crate::case::{Gab, Material, Roll};
-use crate::note::{Limit, Note};
+use crate::note::{Limit, Note, Strength};
 use crate::storage::Aged;
 use crate::winding::Wound;
 
@@ -49,7 +49,7 @@ fn past(v: f64, limit: f64) -> Option<f64> {
 /// Checks on the wound-in state: winding speed against the lift-off speed; the MD strain of the
 /// largest tangential stress and the stack's compression at the highest radial pressure, one
 /// note per kind naming the worst lane and the number of lanes.
-pub fn after_winding(w: &Wound, material: &Material, speed_m_s: f64) -> Vec<Note> {
+pub fn after_winding(w: &Wound, material: &Material, roll: &Roll, speed_m_s: f64) -> Vec<Note> {
     let mut out = Vec::new();
     if speed_m_s > w.lift_off_speed_m_s {
         out.push(Note::Limit(Limit::AboveLiftOff {
@@ -57,22 +57,18 @@ pub fn after_winding(w: &Wound, material: &Material, speed_m_s: f64) -> Vec<Note
             lift_off_m_s: w.lift_off_speed_m_s,
         }));
     }
-    let peak = |v: &[f64], sign: f64| v.iter().map(|s| sign * s).fold(0.0_f64, f64::max);
-    let md = w.lanes.iter().map(|l| {
-        let s = peak(&l.tangential_stress_pa, 1.0).max(peak(&l.tangential_stress_pa, -1.0));
-        (
-            l.position_m,
-            past(s / material.md_modulus_pa, crate::case::MAX_WEB_STRAIN),
-        )
-    });
-    if let Some((lanes, position_m, strain)) = worst(md) {
-        out.push(Note::Limit(Limit::MdStrainBeyondWeb {
-            lanes,
-            position_m,
-            stress_pa: strain * material.md_modulus_pa,
-            strain,
-        }));
+    for r in strength(material, roll, w) {
+        if r.lanes > 0 {
+            out.push(Note::Limit(Limit::Strength {
+                which: r.which,
+                lanes: r.lanes,
+                position_m: r.position_m,
+                value_pa: r.value_pa,
+                limit_pa: r.limit_pa,
+            }));
+        }
     }
+    let peak = |v: &[f64], sign: f64| v.iter().map(|s| sign * s).fold(0.0_f64, f64::max);
     let stack = w.lanes.iter().map(|l| {
         let p = peak(&l.radial_stress_pa, -1.0);
         (
@@ -89,6 +85,71 @@ pub fn after_winding(w: &Wound, material: &Material, speed_m_s: f64) -> Vec<Note
         }));
     }
     out
+}
+
+/// A wound state against one strength: the largest ratio over the lanes.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct StrengthRatio {
+    pub which: Strength,
+    /// Largest state over its limit (0 when the limit is not positive).
+    pub ratio: f64,
+    /// The state in the worst lane (a magnitude), Pa.
+    pub value_pa: f64,
+    /// The limit, Pa.
+    pub limit_pa: f64,
+    /// Centre of the worst lane, m.
+    pub position_m: f64,
+    /// Lanes whose state exceeds the limit.
+    pub lanes: u32,
+}
+
+/// The wound state against the web's strength (ZD crush, MD compression, MD tension) and, where
+/// the core has a collapse pressure ([`crate::winding::collapse_pressure`]), the core's.
+pub fn strength(material: &Material, roll: &Roll, w: &Wound) -> Vec<StrengthRatio> {
+    use crate::winding::LaneSummary;
+    let s = &material.strength;
+    type State = fn(&LaneSummary) -> f64;
+    let mut items: Vec<(Strength, f64, State)> = vec![
+        (Strength::ZdCrush, s.zd_crush_pa, |l| l.peak_pressure_pa),
+        (Strength::MdCompression, s.md_compressive_pa, |l| {
+            (-l.tangential_min_pa).max(0.0)
+        }),
+        (Strength::MdTension, s.md_tensile_pa, |l| {
+            l.tangential_max_pa.max(0.0)
+        }),
+    ];
+    let collapse = crate::winding::collapse_pressure(
+        &roll.core,
+        0.5 * roll.core_diameter_m,
+        roll.core_rating_pa,
+    );
+    if let Some(pc) = collapse {
+        items.push((Strength::CoreCollapse, pc, |l| l.core_pressure_pa));
+    }
+    items
+        .into_iter()
+        .map(|(which, limit_pa, state)| {
+            let mut r = StrengthRatio {
+                which,
+                ratio: 0.0,
+                value_pa: 0.0,
+                limit_pa,
+                position_m: w.lanes.first().map_or(0.0, |l| l.position_m),
+                lanes: 0,
+            };
+            for l in &w.lanes {
+                let v = state(&l.summary);
+                let ratio = if limit_pa > 0.0 { v / limit_pa } else { 0.0 };
+                if ratio.is_nan() || ratio > 1.0 {
+                    r.lanes += 1;
+                }
+                if ratio.is_nan() || ratio > r.ratio {
+                    (r.ratio, r.value_pa, r.position_m) = (ratio, v, l.position_m);
+                }
+            }
+            r
+        })
+        .collect()
 }
 
 /// Checks on the roll after storage: lane diameters outside the core, moisture at or below

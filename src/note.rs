@@ -77,17 +77,17 @@ pub enum Limit {
         /// Lift-off speed, m/s.
         lift_off_m_s: f64,
     },
-    /// A lane's MD (tangential) stress strains the web beyond what a web can carry (in tension
-    /// it would break, in compression it would buckle).
-    MdStrainBeyondWeb {
+    /// A wound state beyond the web's or the core's strength.
+    Strength {
+        which: Strength,
         /// Lanes past the limit (the worst is described).
         lanes: u32,
         /// Centre of the worst lane, m.
         position_m: f64,
-        /// Largest MD stress magnitude, Pa.
-        stress_pa: f64,
-        /// That stress over the MD modulus.
-        strain: f64,
+        /// The state there (a magnitude), Pa.
+        value_pa: f64,
+        /// The limit, Pa.
+        limit_pa: f64,
     },
     /// The stack law puts a lane's stack at a compressive strain past any real void content.
     StackCrushed {
@@ -129,6 +129,20 @@ pub enum Limit {
         /// Centre of the worst lane, m.
         position_m: f64,
     },
+}
+
+/// Which strength a wound state is compared with.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum Strength {
+    /// Peak interlayer pressure against the stack's ZD crush limit.
+    ZdCrush,
+    /// Most compressive MD stress against the MD compressive strength (starring).
+    MdCompression,
+    /// Highest MD tensile stress against the MD tensile strength.
+    MdTension,
+    /// Interlayer pressure on the core against the core's collapse pressure.
+    CoreCollapse,
 }
 
 impl Note {

@@ -58,6 +58,10 @@ words! {
         CrepeWrinkles = "crepe_wrinkles",
         Telescoping = "telescoping",
         Bursts = "bursts",
+        /// The core crushed or went out of round under the wound roll's pressure.
+        CoreCollapse = "core_collapse",
+        /// Layers crushed (permanent caliper loss, blocking) by excessive interlayer pressure.
+        CrushedLayers = "crushed_layers",
         /// The complainant saw no defect.
         NoDefect = "none",
     }
@@ -180,6 +184,10 @@ words! {
         DiameterRidgePerMille = "diameter_ridge_per_mille",
         /// Largest minus smallest lane at unwind.
         SpreadMmPerM = "spread_mm_per_m",
+        /// Largest interlayer pressure in the finding's lanes at winding.
+        PeakPressureMpa = "peak_pressure_mpa",
+        /// Largest interlayer pressure on the core at winding.
+        CorePressureMpa = "core_pressure_mpa",
     }
 }
 
@@ -197,7 +205,10 @@ impl Quantity {
             | Quantity::CentreMinusEdgesMmPerM
             | Quantity::EdgesMinusCentreMmPerM
             | Quantity::SpreadMmPerM => "mm_per_m",
-            Quantity::CoreMdCompressionMpa | Quantity::OuterMdStressMpa => "mpa",
+            Quantity::CoreMdCompressionMpa
+            | Quantity::OuterMdStressMpa
+            | Quantity::PeakPressureMpa
+            | Quantity::CorePressureMpa => "mpa",
             Quantity::SurfacePressureKpa => "kpa",
             Quantity::DiameterRidgePerMille => "per_mille",
         }
@@ -232,6 +243,12 @@ words! {
         DiameterRidgePerMille = "diameter_ridge_per_mille",
         NipToTensionRatio = "nip_to_tension_ratio",
         SlackLanes = "slack_lanes",
+        CorePressureRatio = "core_pressure_ratio",
+        PeakPressureCrushRatio = "peak_pressure_crush_ratio",
+        MdCompressionStrengthRatio = "md_compression_strength_ratio",
+        MdTensionStrengthRatio = "md_tension_strength_ratio",
+        OuterMoistureLossPct = "outer_moisture_loss_pct",
+        PaperGrade = "paper_grade",
     }
 }
 
@@ -290,6 +307,12 @@ impl Feature {
             F::DiameterRidgePerMille => spec("largest lane diameter at winding over the mean of its neighbours (two each side), per mille of diameter", 0.0, INF, false),
             F::NipToTensionRatio => spec("friction x nip load over web tension", 0.0, INF, false),
             F::SlackLanes => spec("lanes longer than the mean lane by over 0.5 mm/m", 0.0, INF, false),
+            F::CorePressureRatio => spec("highest interlayer pressure on the core over the core's collapse pressure (maker's rating or thin-ring buckling); 0 for a rigid core without a rating", 0.0, INF, false),
+            F::PeakPressureCrushRatio => spec("highest wound-in interlayer pressure over the stack's ZD crush limit", 0.0, INF, false),
+            F::MdCompressionStrengthRatio => spec("most compressive MD stress at winding over the MD compressive strength (0: no compression)", 0.0, INF, false),
+            F::MdTensionStrengthRatio => spec("highest MD stress in the outer wraps at the end of storage over the MD tensile strength", -INF, INF, false),
+            F::OuterMoistureLossPct => spec("largest moisture loss of a lane's outer wraps (outer third of the web length) over storage, points (negative: gained moisture)", -INF, INF, false),
+            F::PaperGrade => spec("1 for a paper grade (newsprint, coated, board, or a custom grade with MD hygroexpansion), 0 for film", 0.0, 1.0, false),
         }
     }
 }

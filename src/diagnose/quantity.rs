@@ -18,6 +18,8 @@ pub const fn quantity_of(d: Defect) -> Quantity {
         Defect::Telescoping => Quantity::SurfacePressureKpa,
         Defect::Bursts => Quantity::OuterMdStressMpa,
         Defect::Ridges | Defect::GaugeBands => Quantity::DiameterRidgePerMille,
+        Defect::CrushedLayers => Quantity::PeakPressureMpa,
+        Defect::CoreCollapse => Quantity::CorePressureMpa,
         Defect::NoDefect => Quantity::SpreadMmPerM,
     }
 }
@@ -123,6 +125,19 @@ impl Site<'_> {
                     .map(|k| neighbour_mean(&r, k).map_or(0.0, |m| (r[k] - m) / med * 1e3)))
             }
             Quantity::SpreadMmPerM => max(s.iter().copied()) + max(s.iter().map(|x| -x)),
+            Quantity::PeakPressureMpa => {
+                max(self
+                    .focus(&kept)
+                    .into_iter()
+                    .map(|k| o.wound.lanes[kept[k]].summary.peak_pressure_pa))
+                    / 1e6
+            }
+            Quantity::CorePressureMpa => {
+                max(kept
+                    .iter()
+                    .map(|&i| o.wound.lanes[i].summary.core_pressure_pa))
+                    / 1e6
+            }
         };
         if v.is_finite() {
             v
@@ -247,7 +262,6 @@ pub fn locate(
     let n = x.len();
     let centre = features::centre_lanes(lanes, width_m);
     let ends = features::end_lanes(lanes);
-    let last = o.aged.last();
     match defect {
         Defect::BaggyLane => local_band(x),
         Defect::Puckers | Defect::Corrugations => {
@@ -291,25 +305,55 @@ pub fn locate(
             let em = mean(ends.iter().map(|&i| x[i]));
             centre.into_iter().filter(|&i| x[i] > em.max(0.0)).collect()
         }
-        Defect::Starring | Defect::CrepeWrinkles => near_extreme(
-            &(0..n)
-                .map(|i| core_compression(&o.wound, i))
-                .collect::<Vec<_>>(),
-        ),
-        Defect::Telescoping => near_extreme(
-            &o.aged
-                .lanes
-                .iter()
-                .map(|l| -l.surface_pressure_pa[last])
-                .collect::<Vec<_>>(),
-        ),
-        Defect::Bursts => near_extreme(
-            &o.aged
-                .lanes
-                .iter()
-                .map(|l| *l.final_tangential_stress_pa.last().unwrap_or(&0.0))
-                .collect::<Vec<_>>(),
-        ),
+        Defect::Starring
+        | Defect::CrepeWrinkles
+        | Defect::Telescoping
+        | Defect::Bursts
+        | Defect::CrushedLayers
+        | Defect::CoreCollapse => near_extreme(&stress_state(defect, o)),
         Defect::NoDefect => Vec::new(),
+    }
+}
+
+/// Per lane, the stress state a stress-based defect is located by (the lanes near its extreme).
+fn stress_state(defect: Defect, o: &Outcome) -> Vec<f64> {
+    let n = o.wound.lanes.len();
+    let last = o.aged.last();
+    match defect {
+        Defect::Starring | Defect::CrepeWrinkles => {
+            (0..n).map(|i| core_compression(&o.wound, i)).collect()
+        }
+        Defect::Telescoping => o
+            .aged
+            .lanes
+            .iter()
+            .map(|l| -l.surface_pressure_pa[last])
+            .collect(),
+        Defect::Bursts => o
+            .aged
+            .lanes
+            .iter()
+            .map(|l| *l.final_tangential_stress_pa.last().unwrap_or(&0.0))
+            .collect(),
+        Defect::CrushedLayers => o
+            .wound
+            .lanes
+            .iter()
+            .map(|l| l.summary.peak_pressure_pa)
+            .collect(),
+        Defect::CoreCollapse => o
+            .wound
+            .lanes
+            .iter()
+            .map(|l| l.summary.core_pressure_pa)
+            .collect(),
+        Defect::BaggyLane
+        | Defect::BaggyCenter
+        | Defect::BaggyEdges
+        | Defect::Puckers
+        | Defect::Ridges
+        | Defect::Corrugations
+        | Defect::GaugeBands
+        | Defect::NoDefect => vec![0.0; n],
     }
 }

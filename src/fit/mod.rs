@@ -87,7 +87,8 @@ pub fn age_measured(
 /// The aged roll with a note for every physical limit the winding or storage result passed
 /// ([`crate::limits`]).
 fn with_limits(case: &Case, wound: &Wound, mut aged: Aged) -> Aged {
-    let mut found = crate::limits::after_winding(wound, &case.material, case.winding.speed_m_s);
+    let mut found =
+        crate::limits::after_winding(wound, &case.material, &case.roll, case.winding.speed_m_s);
     found.extend(crate::limits::after_storage(
         &aged,
         &case.material,

@@ -21,6 +21,8 @@ pub fn defect(d: Defect) -> &'static str {
         Defect::CrepeWrinkles => "crepe wrinkles",
         Defect::Telescoping => "telescoping",
         Defect::Bursts => "bursts",
+        Defect::CoreCollapse => "core collapse",
+        Defect::CrushedLayers => "crushed layers",
         Defect::NoDefect => "none",
     }
 }
@@ -76,6 +78,10 @@ pub fn quantity(q: Quantity) -> &'static str {
         Quantity::OuterMdStressMpa => "MD stress in the outer wrap after storage",
         Quantity::DiameterRidgePerMille => "diameter ridge over the neighbouring lanes",
         Quantity::SpreadMmPerM => "length spread across the width",
+        Quantity::PeakPressureMpa => {
+            "highest interlayer pressure in the finding's lanes at winding"
+        }
+        Quantity::CorePressureMpa => "interlayer pressure on the core at winding",
     }
 }
 
@@ -83,7 +89,10 @@ pub fn quantity(q: Quantity) -> &'static str {
 /// strain or a ratio shown as it is.
 fn quantity_si(q: Quantity, v: f64) -> Option<f64> {
     match q {
-        Quantity::CoreMdCompressionMpa | Quantity::OuterMdStressMpa => Some(v * 1e6),
+        Quantity::CoreMdCompressionMpa
+        | Quantity::OuterMdStressMpa
+        | Quantity::PeakPressureMpa
+        | Quantity::CorePressureMpa => Some(v * 1e6),
         Quantity::SurfacePressureKpa => Some(v * 1e3),
         _ => None,
     }
@@ -259,7 +268,7 @@ pub fn note(n: &Note) -> String {
 
 /// A physical limit passed, as a sentence that says what it means for the findings.
 pub fn limit(l: &crate::note::Limit) -> String {
-    use crate::note::Limit;
+    use crate::note::{Limit, Strength};
     const SO: &str = "results that depend on it are not physical; check the inputs";
     let at = |lanes: u32, position_m: f64| match lanes {
         1 => format!("lane at {:.0} mm", position_m * 1e3),
@@ -272,18 +281,27 @@ pub fn limit(l: &crate::note::Limit) -> String {
         } => format!(
             "the winding speed {speed_m_s:.1} m/s is above the lift-off speed {lift_off_m_s:.1} m/s at the roll's mean wound-in stress: outer layers could not stay on the roll as modelled; {SO}"
         ),
-        Limit::MdStrainBeyondWeb {
+        Limit::Strength {
+            which,
             lanes,
             position_m,
-            stress_pa,
-            strain,
-        } => format!(
-            "{}: an MD stress of {:.1} MPa strains the web by {:.2} %, beyond the {:.0} % a web can carry; {SO} (winding, roll.core)",
-            at(lanes, position_m),
-            stress_pa / 1e6,
-            strain * 100.0,
-            crate::case::MAX_WEB_STRAIN * 100.0
-        ),
+            value_pa,
+            limit_pa,
+        } => {
+            let (what, limit, field) = match which {
+                Strength::ZdCrush => ("interlayer pressure", "the stack's crush limit", "material.strength.zd_crush"),
+                Strength::MdCompression => ("MD compression", "the web's MD compressive strength: layers can buckle (starring)", "material.strength.md_compressive"),
+                Strength::MdTension => ("MD tension", "the web's MD tensile strength: wraps can split", "material.strength.md_tensile"),
+                Strength::CoreCollapse => ("pressure on the core", "the core's collapse pressure (its rating, else thin-ring buckling)", "roll.core"),
+            };
+            format!(
+                "{}: {what} of {:.2} MPa is {:.2} times {limit} ({:.2} MPa); check {field} and the winding, or treat the roll with care",
+                at(lanes, position_m),
+                value_pa / 1e6,
+                value_pa / limit_pa,
+                limit_pa / 1e6
+            )
+        }
         Limit::StackCrushed {
             lanes,
             position_m,
@@ -366,6 +384,12 @@ pub fn feature(f: Feature) -> &'static str {
         F::DiameterRidgePerMille => "diameter ridge",
         F::NipToTensionRatio => "nip-induced / web tension",
         F::SlackLanes => "slack lanes",
+        F::CorePressureRatio => "core pressure / collapse pressure",
+        F::PeakPressureCrushRatio => "peak pressure / crush limit",
+        F::MdCompressionStrengthRatio => "MD compression / compressive strength",
+        F::MdTensionStrengthRatio => "outer MD stress / tensile strength",
+        F::OuterMoistureLossPct => "moisture lost by the outer wraps",
+        F::PaperGrade => "paper grade (1) or film (0)",
     }
 }
 
@@ -386,16 +410,22 @@ pub fn feature_value(f: Feature, v: f64, sys: System) -> String {
         }
         F::SurfacePressureEndKpa => units::show(v * 1e3, Kind::Pressure, sys, false),
         F::CaliperRangePct | F::SurfacePressureLossPct => format!("{v:.1} %"),
-        F::EdgeMoistureChangePct | F::MoistureChangePct => format!("{v:+.2} points"),
+        F::EdgeMoistureChangePct | F::MoistureChangePct | F::OuterMoistureLossPct => {
+            format!("{v:+.2} points")
+        }
         F::MoistureShare | F::CreepShare => format!("{:.0} %", v * 100.0),
         F::DiameterRidgePerMille => format!("{v:.2} per mille"),
-        F::BandCount | F::SlackLanes => format!("{v:.0}"),
+        F::BandCount | F::SlackLanes | F::PaperGrade => format!("{v:.0}"),
         F::LocalPeakRatio
         | F::CentreMinusEdgesRatio
         | F::LongestLaneRatio
         | F::CaliperCorrelation
         | F::WoundTensionRatio
-        | F::NipToTensionRatio => format!("{v:.3}"),
+        | F::NipToTensionRatio
+        | F::CorePressureRatio
+        | F::PeakPressureCrushRatio
+        | F::MdCompressionStrengthRatio
+        | F::MdTensionStrengthRatio => format!("{v:.3}"),
     }
 }
 

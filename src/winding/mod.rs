@@ -9,7 +9,7 @@ mod core;
 pub mod hakiel;
 mod roll;
 
-pub use self::core::{core_stiffness, of as core_of};
+pub use self::core::{collapse_pressure, core_stiffness, of as core_of, ring_collapse_pressure};
 pub use centrifugal::{disk_stress, lift_off_speed};
 pub use roll::{
     lane_model, wind, LaneStress, LaneSummary, Options, WindError, WindInput, Wound,
