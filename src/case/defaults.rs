@@ -38,7 +38,7 @@ const MSHIFT: &str =
 const MSORP: &str =
     "mechano-sorptive creep exceeds creep at the highest RH of a cycle (Byrd 1972; from memory); value assumed";
 
-const TENSILE: &str = "MD tensile strength: breaking length / tensile index of the grade class times its density (handbook ranges, from memory)";
+const TENSILE: &str = "MD tensile strength (tension per width over caliper): newsprint 30-50 MPa, board 40-70 MPa (from memory); the middle of the range";
 const SCT: &str = "MD short-span compressive strength about a third to a half of the MD tensile strength for paper (SCT, from memory)";
 const CRUSH: &str = "interlayer pressure at which the stack takes permanent caliper loss: an order of magnitude only (calendering compacts paper at tens of MPa in a nip lasting milliseconds; wound rolls stay below a few MPa; bulky board crushes first; from memory); give material.strength.zd_crush when known";
 
@@ -119,7 +119,7 @@ fn paper(v: [&'static str; 10]) -> GradeDefaults {
         activation: d("100 kJ/mol", ARRH),
         moisture_shift: d("0.15", MSHIFT),
         mechanosorptive: d("0.5", MSORP),
-        md_tensile: d("30 MPa", TENSILE),
+        md_tensile: d("40 MPa", TENSILE),
         md_compressive: d("12 MPa", SCT),
         zd_crush: d("10 MPa", CRUSH),
     }
@@ -215,7 +215,7 @@ pub fn for_grade(g: Grade) -> Option<GradeDefaults> {
                 "8 %",
                 "5.5 %",
             ]),
-            ["30 MPa", "12 MPa", "10 MPa"],
+            ["40 MPa", "12 MPa", "10 MPa"],
         ),
         Grade::Coated => with_strength(
             paper([
@@ -230,7 +230,7 @@ pub fn for_grade(g: Grade) -> Option<GradeDefaults> {
                 "5.5 %",
                 "4.8 %",
             ]),
-            ["35 MPa", "15 MPa", "12 MPa"],
+            ["40 MPa", "15 MPa", "12 MPa"],
         ),
         Grade::Board => with_strength(
             paper([
@@ -245,7 +245,7 @@ pub fn for_grade(g: Grade) -> Option<GradeDefaults> {
                 "7 %",
                 "5.5 %",
             ]),
-            ["50 MPa", "18 MPa", "3 MPa"],
+            ["55 MPa", "18 MPa", "3 MPa"],
         ),
         Grade::Film => film(),
         Grade::Custom => return None,
