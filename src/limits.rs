@@ -152,6 +152,26 @@ pub fn strength(material: &Material, roll: &Roll, w: &Wound) -> Vec<StrengthRati
         .collect()
 }
 
+/// Condensation on a cold roll brought into warm humid air ([`crate::storage::condensation`]):
+/// one note per stretch where water condenses.
+pub fn condensation(storage: &[crate::case::Stretch], material: &Material) -> Vec<Note> {
+    crate::storage::condensation::check(storage)
+        .into_iter()
+        .map(|c| {
+            Note::Limit(Limit::Condensation {
+                stretch: c.stretch as u32,
+                roll_k: c.roll_k,
+                dew_point_k: c.dew_point_k,
+                wet_s: c.wet_s,
+                water_kg_m2: c.water_kg_m2,
+                outer_rise_pct: c.outer_rise_pct(material.density_kg_m3),
+                barrel: c.barrel,
+                ends: c.ends,
+            })
+        })
+        .collect()
+}
+
 /// Checks on the roll after storage: lane diameters outside the core, moisture at or below
 /// saturation, finite predicted hardness; one note per kind naming the worst lane.
 pub fn after_storage(a: &Aged, material: &Material, roll: &Roll) -> Vec<Note> {

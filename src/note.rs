@@ -77,6 +77,25 @@ pub enum Limit {
         /// Lift-off speed, m/s.
         lift_off_m_s: f64,
     },
+    /// A cold roll brought into air whose dew point is above the roll's temperature: water
+    /// condenses on the faces not wrapped in film until their surface warms.
+    Condensation {
+        /// Index of the storage stretch the roll was brought into.
+        stretch: u32,
+        /// Roll temperature on arrival, K.
+        roll_k: f64,
+        /// Dew point of the new air, K.
+        dew_point_k: f64,
+        /// Time the surface stays below the dew point, s.
+        wet_s: f64,
+        /// Water condensed per unit area of exposed face, kg/m2.
+        water_kg_m2: f64,
+        /// Moisture rise of the outer 2 mm of wraps if they take it all up, percentage points.
+        outer_rise_pct: f64,
+        /// Whether the barrel and the end faces were exposed.
+        barrel: bool,
+        ends: bool,
+    },
     /// A wound state beyond the web's or the core's strength.
     Strength {
         which: Strength,

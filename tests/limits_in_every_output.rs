@@ -38,11 +38,11 @@ fn every_command_warns_when_the_roll_is_wound_above_lift_off() {
             "{cmd} JSON: {w:?}"
         );
     }
-    // a roll well inside every limit (the Kestrel field case) has no warning at all
+    // a roll well inside every limit (the Harrowgate field case) has no warning at all
     let (_, out, _) = run(&[
         "diagnose",
         "--json",
-        "field_cases/kestrel_coated_cold_to_humid.yaml",
+        "field_cases/harrowgate_board_dry_store.yaml",
     ]);
     let v: serde_json::Value = serde_json::from_str(&out).unwrap();
     assert_eq!(

@@ -94,6 +94,7 @@ fn with_limits(case: &Case, wound: &Wound, mut aged: Aged) -> Aged {
         &case.material,
         &case.roll,
     ));
+    found.extend(crate::limits::condensation(&case.storage, &case.material));
     for n in found {
         if !aged.notes.contains(&n) {
             aged.notes.push(n);

@@ -281,6 +281,7 @@ pub fn limit(l: &crate::note::Limit) -> String {
         } => format!(
             "the winding speed {speed_m_s:.1} m/s is above the lift-off speed {lift_off_m_s:.1} m/s at the roll's mean wound-in stress: outer layers could not stay on the roll as modelled; {SO}"
         ),
+        Limit::Condensation { .. } => condensation(l),
         Limit::Strength {
             which,
             lanes,
@@ -339,6 +340,38 @@ pub fn limit(l: &crate::note::Limit) -> String {
             at(lanes, position_m)
         ),
     }
+}
+
+/// A condensation warning as a sentence.
+fn condensation(l: &crate::note::Limit) -> String {
+    use crate::note::Limit;
+    let Limit::Condensation {
+        stretch,
+        roll_k,
+        dew_point_k,
+        wet_s,
+        water_kg_m2,
+        outer_rise_pct,
+        barrel,
+        ends,
+    } = *l
+    else {
+        return String::new();
+    };
+    format!(
+            "storage stretch {}: the roll came in at {:.1} C, below the air's dew point {:.1} C: water condenses on the {} for about {:.0} min ({:.0} g/m2, up to {:+.1} points of moisture in the outer 2 mm of wraps); the model's moisture field does not include it, so the outer wraps and ends may be wetter than predicted. Let rolls warm up wrapped in film before unwrapping (common practice)",
+            stretch + 1,
+            roll_k - crate::units::ZERO_C_K,
+            dew_point_k - crate::units::ZERO_C_K,
+            match (barrel, ends) {
+                (true, true) => "barrel and end faces",
+                (true, false) => "barrel",
+                _ => "end faces",
+            },
+            wet_s / 60.0,
+            water_kg_m2 * 1e3,
+            outer_rise_pct
+        )
 }
 
 /// Notes as sentences, in the order given.
