@@ -222,7 +222,7 @@ pub fn triage(paths: &[PathBuf], rules: &RulesArg, out: Output) -> Result<Outcom
         return Err(CliError::TriageNeedsFiles);
     }
     let opt = DiagnoseOptions {
-        nodes: 101,
+        nodes: crate::winding::DEFAULT_NODES,
         what_if: false,
     };
     let mut rows: Vec<TriageRow> = files

@@ -33,7 +33,7 @@ pub struct DiagnoseOptions {
 impl Default for DiagnoseOptions {
     fn default() -> Self {
         DiagnoseOptions {
-            nodes: 201,
+            nodes: crate::winding::DEFAULT_NODES,
             what_if: true,
         }
     }

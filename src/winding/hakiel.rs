@@ -74,12 +74,12 @@ const GAUSS6: [(f64, f64); 6] = [
     (0.932_469_514_203_152, 0.171_324_492_379_170),
 ];
 
-/// One exact element: from z at the inner end of an interval of log-length `tau`, return
+/// One exact element: from z at the inner end of an interval of log-length `tau` (`grow` =
+/// e^tau), return
 /// (phi_in / phi_out, z at the outer end).
 #[inline]
-fn element(g: f64, z0: f64, tau: f64) -> (f64, f64) {
+fn element(g: f64, z0: f64, tau: f64, grow: f64) -> (f64, f64) {
     let e1 = (-g * tau).exp();
-    let grow = tau.exp();
     let a = g + z0;
     let d = a + (g - z0) * e1 * e1;
     let inv = 1.0 / d;
@@ -158,11 +158,9 @@ pub struct LaneState {
     /// Increment of the current sub-step (zone), and of the last grid step (all nodes).
     s: Vec<f64>,
     last: Vec<f64>,
-    /// z at the start and middle of the sub-step (zone scratch).
-    z0: Vec<f64>,
-    zm: Vec<f64>,
     // active intervals
     tau: Vec<f64>,
+    grow: Vec<f64>,
     rho: Vec<f64>,
     /// Active index of the zone's bottom node (a grid node).
     b: usize,
@@ -210,9 +208,8 @@ impl LaneState {
             agrid: Vec::with_capacity(cap),
             s: Vec::with_capacity(cap),
             last: Vec::with_capacity(cap),
-            z0: Vec::with_capacity(cap),
-            zm: Vec::with_capacity(cap),
             tau: Vec::with_capacity(cap),
+            grow: Vec::with_capacity(cap),
             rho: Vec::with_capacity(cap),
             b: 0,
             fresh: 0,
@@ -231,8 +228,6 @@ impl LaneState {
         self.agrid.push(grid);
         self.s.push(0.0);
         self.last.push(0.0);
-        self.z0.push(0.0);
-        self.zm.push(0.0);
     }
 
     /// Add the next grid node: the layers between the current surface and the next grid
@@ -268,35 +263,23 @@ impl LaneState {
             };
             let top = self.ar.len() - 1;
             let tau_new = (r_new / self.ar[top]).ln();
-            // predictor at the start-of-step pressures, corrector at mid-step; the tangential
-            // increment z ds is integrated over the step by Simpson's rule, with z at the
-            // start, middle and end of the step (z changes fast while a layer is newly covered)
+            // predictor at the start-of-step pressures, corrector at mid-step
             let q = self.zone_sweep(m, top, tau_new, 0.0);
-            self.z0[b..=top].copy_from_slice(&self.az[b..=top]);
             self.zone_march(top, -sigma_w * q);
             let q = self.zone_sweep(m, top, tau_new, 0.5);
             self.zone_march(top, -sigma_w * q);
             if !q.is_finite() {
                 return Err(fail);
             }
-            self.zm[b..=top].copy_from_slice(&self.az[b..=top]);
-            self.zone_sweep(m, top, tau_new, 1.0);
-            for j in b..=top {
-                let z1 = self.az[j];
-                self.az[j] = (self.z0[j] + 4.0 * self.zm[j] + z1) / 6.0;
-            }
             self.build += r_new - self.ar[top];
             self.tau.push(tau_new);
+            self.grow.push(r_new / self.ar[top]);
             self.rho.push(0.0);
             self.push_node(r_new, sigma_w, if i == self.sub { k } else { usize::MAX });
             for j in self.zcut..=top {
                 let sj = self.s[j];
                 self.apply(m, j, sj);
                 self.last[j] += sj;
-            }
-            // keep the end-of-step z for the next sweep's start
-            for j in b..=top {
-                self.az[j] = 6.0 * self.az[j] - self.z0[j] - 4.0 * self.zm[j];
             }
             if self.zcut == b {
                 load_b += self.s[b];
@@ -318,7 +301,10 @@ impl LaneState {
     #[inline]
     fn apply(&mut self, m: &LaneModel, j: usize, s: f64) {
         self.asr[j] += s;
-        self.ast[j] += s * self.az[j];
+        if j == 0 {
+            // exact at the core (z = 1 + kappa); elsewhere sigma_t comes from equilibrium
+            self.ast[0] += s * self.az[0];
+        }
         let e = m.stack.strain(-self.asr[j]);
         let de = e - self.aeps[j];
         self.aeps[j] = e;
@@ -340,7 +326,7 @@ impl LaneState {
         for j in from..b {
             let pn = p(self, j + 1);
             let g = m.g(0.5 * (pj + pn));
-            let (rho, z1) = element(g, zj, self.tau[j]);
+            let (rho, z1) = element(g, zj, self.tau[j], self.grow[j]);
             self.rho[j] = rho;
             self.az[j + 1] = z1;
             zj = z1;
@@ -388,7 +374,7 @@ impl LaneState {
         for j in b..top {
             let pn = p(self, j + 1);
             let g = m.g(0.5 * (pj + pn));
-            let (rho, z1) = element(g, zj, self.tau[j]);
+            let (rho, z1) = element(g, zj, self.tau[j], self.grow[j]);
             self.rho[j] = rho;
             self.az[j + 1] = z1;
             zj = z1;
@@ -430,8 +416,10 @@ impl LaneState {
                 self.build += new - old;
                 self.rho[b] = rho;
                 self.tau[b] = (self.ar[e] / self.ar[b]).ln();
+                self.grow[b] = self.ar[e] / self.ar[b];
                 let gone = b + 1..e;
                 self.tau.drain(b + 1..e);
+                self.grow.drain(b + 1..e);
                 self.rho.drain(b + 1..e);
                 for v in [
                     &mut self.ar,
@@ -441,8 +429,6 @@ impl LaneState {
                     &mut self.aeps,
                     &mut self.s,
                     &mut self.last,
-                    &mut self.z0,
-                    &mut self.zm,
                 ] {
                     v.drain(gone.clone());
                 }

@@ -13,5 +13,5 @@ pub use self::core::{core_stiffness, of as core_of};
 pub use centrifugal::{disk_stress, lift_off_speed};
 pub use roll::{
     lane_model, wind, LaneStress, LaneSummary, Options, WindError, WindInput, Wound,
-    DEFAULT_LEVELLING, SURFACE_ZONE_M,
+    DEFAULT_LEVELLING, DEFAULT_NODES, SURFACE_ZONE_M,
 };
