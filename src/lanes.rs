@@ -7,8 +7,8 @@
 
 use crate::case::{Case, Measure, Profile};
 use crate::interp::linear_extrap;
+use crate::note::Note;
 use crate::numeric::weighted_mean;
-use crate::units::DAY_S;
 use serde::Serialize;
 
 /// Where a lane's caliper came from.
@@ -70,7 +70,7 @@ pub struct Lanes {
     pub mean_caliper_m: f64,
     pub caliper_source: CaliperSource,
     /// Notes on how the lanes were built (extrapolation, inference).
-    pub notes: Vec<String>,
+    pub notes: Vec<Note>,
     /// Every measured profile on the lanes, in the case's order.
     #[serde(skip)]
     pub series: Vec<Series>,
@@ -101,6 +101,23 @@ fn with_edge_strips(mut e: Vec<f64>) -> Vec<f64> {
     e
 }
 
+/// Most lanes made from a profile's positions when the case states no lanes; a denser scan is
+/// merged to this many (a note says so).
+pub const MAX_IMPLICIT_LANES: usize = 60;
+
+/// The profile with the most positions (caliper first, then diameter, then hardness).
+fn densest(case: &Case) -> Option<&Profile> {
+    [Measure::Caliper, Measure::Diameter, Measure::Hardness]
+        .iter()
+        .filter_map(|m| {
+            case.profiles
+                .iter()
+                .filter(|p| p.what == *m)
+                .max_by_key(|p| p.positions_m.len())
+        })
+        .max_by_key(|p| p.positions_m.len())
+}
+
 /// Lane edges (m) for a case: explicit edges as given; otherwise a lane count or the densest
 /// profile's positions, with an edge strip split off each wide edge lane.
 pub fn edges(case: &Case) -> Vec<f64> {
@@ -111,20 +128,17 @@ pub fn edges(case: &Case) -> Vec<f64> {
     if let Some(n) = case.lane_count {
         return with_edge_strips((0..=n).map(|i| w * i as f64 / n as f64).collect());
     }
-    let pick = [Measure::Caliper, Measure::Diameter, Measure::Hardness]
-        .iter()
-        .filter_map(|m| {
-            case.profiles
-                .iter()
-                .filter(|p| p.what == *m)
-                .max_by_key(|p| p.positions_m.len())
-        })
-        .max_by_key(|p| p.positions_m.len());
-    match pick {
+    match densest(case) {
         Some(p) => {
             let x = &p.positions_m;
+            let mut mids: Vec<f64> = x.windows(2).map(|w| 0.5 * (w[0] + w[1])).collect();
+            if mids.len() + 1 > MAX_IMPLICIT_LANES {
+                // merge neighbours: keep every k-th inner edge so at most MAX_IMPLICIT_LANES remain
+                let k = (mids.len() + 1).div_ceil(MAX_IMPLICIT_LANES);
+                mids = mids.into_iter().skip(k - 1).step_by(k).collect();
+            }
             let mut e = vec![0.0];
-            e.extend(x.windows(2).map(|w| 0.5 * (w[0] + w[1])));
+            e.extend(mids);
             e.push(w);
             with_edge_strips(e)
         }
@@ -170,8 +184,19 @@ pub fn build(case: &Case) -> Lanes {
         })
         .collect();
     let mut notes = Vec::new();
+    if let Some(p) = densest(case).filter(|p| {
+        case.lane_edges_m.is_none()
+            && case.lane_count.is_none()
+            && p.positions_m.len() > MAX_IMPLICIT_LANES
+    }) {
+        notes.push(Note::LanesMerged {
+            what: p.what,
+            positions: p.positions_m.len(),
+            lanes: n,
+        });
+    }
     let mut extrap = vec![false; n];
-    let mut mark = |what: Measure, notes: &mut Vec<String>| {
+    let mut mark = |what: Measure, notes: &mut Vec<Note>| {
         let i = earliest_index(&series, what)?;
         let (p, s) = (&case.profiles[i], &series[i]);
         if s.extrapolated {
@@ -180,13 +205,12 @@ pub fn build(case: &Case) -> Lanes {
                     extrap[i] = true;
                 }
             }
-            notes.push(format!(
-                "{:?} profile at {:.0} d covers {:.0}-{:.0} mm; lanes outside that were extrapolated linearly",
-                p.what,
-                p.age_s / DAY_S,
-                p.positions_m[0] * 1e3,
-                p.positions_m[p.positions_m.len() - 1] * 1e3
-            ));
+            notes.push(Note::Extrapolated {
+                what: p.what,
+                age_s: p.age_s,
+                from_m: p.positions_m[0],
+                to_m: p.positions_m[p.positions_m.len() - 1],
+            });
         }
         Some(s.values.clone())
     };
@@ -229,7 +253,7 @@ fn lane_calipers(
     cal: Option<&[f64]>,
     dia: Option<&[f64]>,
     widths: &[f64],
-    notes: &mut Vec<String>,
+    notes: &mut Vec<Note>,
 ) -> (Vec<f64>, CaliperSource) {
     let nominal = case.material.caliper_m;
     let r_core = 0.5 * case.roll.core_diameter_m;
@@ -240,10 +264,7 @@ fn lane_calipers(
             // caliper (uncompressed estimate).
             let dbar = weighted_mean(d, widths);
             let build = (0.5 * dbar - r_core).max(1e-9);
-            notes.push(
-                "no caliper profile: lane calipers inferred from the earliest diameter profile"
-                    .into(),
-            );
+            notes.push(Note::CaliperFromDiameter);
             (
                 d.iter()
                     .map(|&di| nominal * (1.0 + 0.5 * (di - dbar) / build))

@@ -10,7 +10,8 @@
 //! - [`fit`]: creep fitted per lane to measured hardness and diameter (argmin);
 //! - [`rules`]: rule tables, lint and evaluation;
 //! - [`diagnose`]: features, findings, root-cause shares, corrections re-run;
-//! - [`report`]: tables, JSON, Markdown and SVG; [`cli`]: arguments and exit codes;
+//! - [`report`]: tables, JSON, the root-cause report (HTML with SVG plots, Markdown);
+//! - [`cli`]: arguments and exit codes;
 //! - [`vocab`]: features, corrections, defects, likelihoods and causes as enums;
 //! - [`interp`], [`numeric`]: small shared kernels.
 
@@ -18,8 +19,10 @@ pub mod case;
 pub mod cli;
 pub mod diagnose;
 pub mod fit;
+pub mod input;
 pub mod interp;
 pub mod lanes;
+pub mod note;
 pub mod numeric;
 pub mod report;
 pub mod rules;

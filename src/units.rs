@@ -168,6 +168,17 @@ static UNITS: &[Unit] = &[
     u(&["h", "hr", "hrs", "hour", "hours"], Kind::Duration, 3600.0),
     u(&["d", "day", "days"], Kind::Duration, DAY_S),
     u(&["wk", "week", "weeks"], Kind::Duration, 7.0 * DAY_S),
+    // a month is a twelfth of the Julian year of 365.25 d (IAU)
+    u(
+        &["mo", "month", "months"],
+        Kind::Duration,
+        365.25 / 12.0 * DAY_S,
+    ),
+    u(
+        &["y", "yr", "year", "years"],
+        Kind::Duration,
+        365.25 * DAY_S,
+    ),
     // speed
     u(&["m/s"], Kind::Speed, 1.0),
     u(&["m/min", "mpm"], Kind::Speed, 1.0 / 60.0),
@@ -183,10 +194,16 @@ static UNITS: &[Unit] = &[
     // grammage
     u(&["g/m2", "gsm"], Kind::Grammage, 1e-3),
     u(&["kg/m2"], Kind::Grammage, 1.0),
+    // basis weights of the trade: pounds per ream of 3000 ft2 (paper) or per 1000 ft2 (board)
     u(
-        &["lb/3000ft2"],
+        &["lb/3000ft2", "lb/3000 ft2", "lb/ream"],
         Kind::Grammage,
         LB_KG / (3000.0 * FOOT_M * FOOT_M),
+    ),
+    u(
+        &["lb/1000ft2", "lb/1000 ft2", "lb/msf"],
+        Kind::Grammage,
+        LB_KG / (1000.0 * FOOT_M * FOOT_M),
     ),
     // humidity and moisture
     u(&["%", "%RH", "% RH"], Kind::Humidity, 0.01),
@@ -276,6 +293,11 @@ fn split_number(text: &str) -> Result<(f64, &str), UnitError> {
     Ok((v, t[end..].trim()))
 }
 
+/// A unit spelling without spaces ("lb/1000 ft2" and "lb/1000ft2" are one unit).
+fn squeeze(s: &str) -> String {
+    s.chars().filter(|c| !c.is_whitespace()).collect()
+}
+
 /// Read a quantity of the given kind and return its SI value.
 ///
 /// # Units
@@ -301,14 +323,21 @@ pub fn parse(text: &str, kind: Kind) -> Result<f64, UnitError> {
     if unit.is_empty() {
         return Err(UnitError::MissingUnit { kind });
     }
-    let norm = unit.replace('²', "2").replace('³', "3");
+    let norm = squeeze(&unit.replace('²', "2").replace('³', "3"));
     let mut other: Option<Kind> = None;
-    for un in UNITS {
-        if un.names.iter().any(|n| *n == norm) {
-            if un.kind == kind {
-                return Ok(v * un.factor + un.offset);
+    // The spelling as written first, then ignoring case ("2.0 PLI", "350 n/m"): no two units
+    // of one kind differ only in case.
+    for same in [
+        (|a: &str, b: &str| a == b) as fn(&str, &str) -> bool,
+        |a: &str, b: &str| a.to_lowercase() == b.to_lowercase(),
+    ] {
+        for un in UNITS {
+            if un.names.iter().any(|n| same(&squeeze(n), &norm)) {
+                if un.kind == kind {
+                    return Ok(v * un.factor + un.offset);
+                }
+                other.get_or_insert(un.kind);
             }
-            other.get_or_insert(un.kind);
         }
     }
     match other {
@@ -393,6 +422,15 @@ pub fn display(kind: Kind, sys: System, fine: bool) -> Display {
     }
 }
 
+/// Label of a length difference per length of web (a strain of 1e-3 per unit): "mm/m" in SI,
+/// "mil/in" in US units; the number is the same in both.
+pub fn strain_label(sys: System) -> &'static str {
+    match sys {
+        System::Si => "mm/m",
+        System::Us => "mil/in",
+    }
+}
+
 /// A signed change for humans with its unit label and `decimals` decimals, e.g. "+0.12 mm" or
 /// "-4.7 mil"; `fine` picks the small length unit as in [`display`].
 pub fn signed(si: f64, kind: Kind, sys: System, fine: bool, decimals: usize) -> String {
@@ -444,6 +482,15 @@ pub fn sig(v: f64, n: usize) -> String {
     format!("{v:.decimals$}")
 }
 
+/// Label of a length difference per unit length (a ratio of 1e-3): mm/m in SI, mil/in in US
+/// customary. Both are the same number, so values need no conversion.
+pub fn per_mille_label(sys: System) -> &'static str {
+    match sys {
+        System::Si => "mm/m",
+        System::Us => "mil/in",
+    }
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -478,6 +525,38 @@ mod tests {
             parse("25", Kind::LineForce),
             Err(UnitError::MissingUnit { .. })
         ));
+    }
+
+    /// Unit words are read whatever their case, and the same word never names two units of one
+    /// kind when case is ignored (else the case-blind match would be ambiguous).
+    #[test]
+    fn unit_words_ignore_case() {
+        assert_relative_eq!(
+            parse("2.0 PLI", Kind::LineForce).unwrap(),
+            2.0 * LBF_N / INCH_M
+        );
+        assert_relative_eq!(parse("350 n/m", Kind::LineForce).unwrap(), 350.0);
+        assert_relative_eq!(parse("3.5 MIL", Kind::Length).unwrap(), 3.5 * INCH_M * 1e-3);
+        assert_relative_eq!(
+            parse("25 PSI", Kind::Pressure).unwrap(),
+            25.0 * LBF_N / (INCH_M * INCH_M)
+        );
+        for (i, a) in UNITS.iter().enumerate() {
+            for b in &UNITS[i + 1..] {
+                if a.kind != b.kind {
+                    continue;
+                }
+                for x in a.names {
+                    for y in b.names {
+                        assert_ne!(
+                            squeeze(x).to_lowercase(),
+                            squeeze(y).to_lowercase(),
+                            "{x} / {y}"
+                        );
+                    }
+                }
+            }
+        }
     }
 
     #[test]

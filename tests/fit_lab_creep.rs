@@ -43,7 +43,9 @@ fn lab_creep_curves_set_the_grade_md_creep() {
     assert_relative_eq!(b.delayed, truth.delayed, max_relative = 0.02);
     assert_relative_eq!(b.retardation_s, truth.retardation_s, max_relative = 0.02);
     assert_relative_eq!(b.viscous_time_s, truth.viscous_time_s, max_relative = 0.02);
-    assert!(notes.iter().any(|n| n.contains("lab curve")));
+    assert!(notes
+        .iter()
+        .any(|n| matches!(n, rollsleuth::note::Note::LabCreep { .. })));
     // radial creep untouched
     assert_eq!(fitted.material.creep.radial, c.material.creep.radial);
 }
@@ -66,7 +68,8 @@ fn lab_creep_in_a_case_file_is_read_and_checked() {
         "{}",
         String::from_utf8_lossy(&o.stderr)
     );
-    assert!(String::from_utf8_lossy(&o.stdout).contains("md creep from 1 lab curve"));
+    // notes go to standard error (the results table to standard output)
+    assert!(String::from_utf8_lossy(&o.stderr).contains("md creep from 1 lab curve"));
     let bad = dir.join("lab_bad.yaml");
     std::fs::write(
         &bad,

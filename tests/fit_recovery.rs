@@ -225,5 +225,5 @@ fn one_measurement_time_flags_non_identifiable_parameters() {
     for lf in &f.lanes {
         assert!(!lf.md_identifiable && !lf.radial_identifiable);
     }
-    assert!(f.notes.iter().any(|n| n.contains("cannot be identified")));
+    assert!(f.notes.contains(&rollsleuth::note::Note::OneAge));
 }

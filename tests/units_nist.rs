@@ -116,3 +116,39 @@ fn wrong_units_are_named_in_the_error() {
     let e = parse("2.2", Kind::LineForce).unwrap_err().to_string();
     assert!(e.contains("needs a unit"), "{e}");
 }
+
+/// Basis weights of the trade, NIST SP 811 (2008) Appendix B: 1 lb/1000 ft2 = 4.882428 g/m2 and
+/// 1 lb/3000 ft2 = 1.627476 g/m2; checked also from the exact pound (0.45359237 kg) and square
+/// foot (0.09290304 m2). Unit words are read whatever their case and spacing.
+#[test]
+fn basis_weights_convert_per_nist_sp811() {
+    let per_msf = 0.453_592_37 / (1000.0 * 0.092_903_04);
+    let per_ream = 0.453_592_37 / (3000.0 * 0.092_903_04);
+    assert_relative_eq!(per_msf * 1e3, 4.882428, max_relative = 1e-6);
+    assert_relative_eq!(per_ream * 1e3, 1.627476, max_relative = 1e-6);
+    for text in [
+        "1 lb/1000 ft2",
+        "1 lb/1000ft2",
+        "1 LB/1000 FT2",
+        "1 lb/1000 ft²",
+    ] {
+        assert_relative_eq!(
+            parse(text, Kind::Grammage).unwrap(),
+            per_msf,
+            max_relative = 1e-12
+        );
+    }
+    for text in ["1 lb/3000 ft2", "1 lb/3000ft2"] {
+        assert_relative_eq!(
+            parse(text, Kind::Grammage).unwrap(),
+            per_ream,
+            max_relative = 1e-12
+        );
+    }
+    assert_relative_eq!(
+        parse("2.0 PLI", Kind::LineForce).unwrap(),
+        2.0 * 175.1268,
+        max_relative = 1e-6
+    );
+    assert_relative_eq!(parse("350 n/m", Kind::LineForce).unwrap(), 350.0);
+}

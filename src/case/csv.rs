@@ -1,37 +1,214 @@
-//! Reading a profile's CSV file (columns `position` and `value`, header line first) before
-//! validation; a bad file gives one message naming the file and, for a bad row, its line.
+//! Reading a profile's CSV file before validation. The delimiter is detected from the header
+//! line (comma, semicolon or tab; with semicolons a decimal comma is read too). Columns are
+//! `position` and `value`, or the names a case maps them to; a header may carry a unit in
+//! brackets (`position (mm)`, `value (mil)`). Rows scanned from the back edge first are sorted
+//! (with a note); a position given twice is an error naming both lines.
 
 use std::path::Path;
 
-/// (position, value) rows of a profile CSV, as written (units applied by validation).
-pub(super) fn read_profile(path: &Path) -> Result<Vec<(f64, f64)>, String> {
+/// A profile CSV as read: rows in increasing position, units from the header, and notes.
+#[derive(Debug, Clone, PartialEq, Default)]
+pub(super) struct CsvProfile {
+    /// (position, value) as written (units applied by validation), increasing in position.
+    pub rows: Vec<(f64, f64)>,
+    /// Unit of the positions given in the header, e.g. `position (mm)`.
+    pub position_unit: Option<String>,
+    /// Unit of the values given in the header, e.g. `value (mil)`.
+    pub value_unit: Option<String>,
+    /// What was done to the file on reading (sorted rows).
+    pub notes: Vec<String>,
+}
+
+/// The column names to read (`columns: {position: X, value: Y}` in the case; defaults
+/// `position` and `value`).
+pub(super) struct Columns<'a> {
+    pub position: &'a str,
+    pub value: &'a str,
+}
+
+impl Default for Columns<'_> {
+    fn default() -> Self {
+        Columns {
+            position: "position",
+            value: "value",
+        }
+    }
+}
+
+/// The delimiter of a CSV from its header line: the most frequent of tab, semicolon and comma
+/// (comma when none).
+fn delimiter(header: &str) -> u8 {
+    let n = |c: char| header.matches(c).count();
+    [(b'\t', n('\t')), (b';', n(';')), (b',', n(','))]
+        .into_iter()
+        .filter(|(_, k)| *k > 0)
+        .max_by_key(|(_, k)| *k)
+        .map(|(d, _)| d)
+        .unwrap_or(b',')
+}
+
+/// A header cell split into name and unit: "Position (mm)" gives ("position", Some("mm")).
+fn name_unit(cell: &str) -> (String, Option<String>) {
+    let cell = cell.trim();
+    match (cell.find(['(', '[']), cell.rfind([')', ']'])) {
+        (Some(a), Some(b)) if b > a => {
+            let unit = cell[a + 1..b].trim();
+            (
+                cell[..a].trim().to_lowercase(),
+                (!unit.is_empty()).then(|| unit.to_string()),
+            )
+        }
+        _ => (cell.to_lowercase(), None),
+    }
+}
+
+/// Read a profile CSV (see the module notes).
+pub(super) fn read_profile(path: &Path, cols: &Columns) -> Result<CsvProfile, String> {
     let shown = path.display().to_string();
+    let bytes = crate::input::read_bytes(path).map_err(|e| {
+        format!("CSV file '{shown}' {e} (the path is relative to the case file's folder)")
+    })?;
+    let text = String::from_utf8(bytes).map_err(|_| {
+        format!("CSV file '{shown}' is not UTF-8 text; save it as UTF-8 (plain CSV)")
+    })?;
+    let header_line = text.lines().next().unwrap_or("");
+    let delim = delimiter(header_line);
+    let decimal_comma = delim == b';';
     let mut rdr = csv::ReaderBuilder::new()
+        .delimiter(delim)
         .trim(csv::Trim::All)
-        .from_path(path)
-        .map_err(|e| {
-            format!("cannot read CSV '{shown}': {e}; the path is relative to the case file")
-        })?;
+        .from_reader(text.as_bytes());
     let headers = rdr.headers().map_err(|e| format!("{shown}: {e}"))?.clone();
-    let col = |name: &str| headers.iter().position(|h| h.eq_ignore_ascii_case(name));
-    let (Some(pc), Some(vc)) = (col("position"), col("value")) else {
+    let cells: Vec<(String, Option<String>)> = headers.iter().map(name_unit).collect();
+    let col = |name: &str| cells.iter().position(|(n, _)| *n == name.to_lowercase());
+    let (Some(pc), Some(vc)) = (col(cols.position), col(cols.value)) else {
+        let found: Vec<&str> = headers.iter().collect();
         return Err(format!(
-            "{shown}: needs a header line with columns `position` and `value`"
+            "{shown}:1: needs columns `{}` and `{}` (found: {}); name the columns in the header line, or map yours with `columns: {{position: NAME, value: NAME}}` in the profile",
+            cols.position,
+            cols.value,
+            found.join(", ")
         ));
     };
-    let mut rows = Vec::new();
-    for (k, rec) in rdr.records().enumerate() {
-        let lineno = k as u64 + 2;
-        let rec = rec.map_err(|e| format!("{shown}:{lineno}: {e}"))?;
-        let get = |i: usize| rec.get(i).and_then(|s| s.parse::<f64>().ok());
-        match (get(pc), get(vc)) {
-            (Some(p), Some(v)) if p.is_finite() && v.is_finite() => rows.push((p, v)),
+    let number = |s: &str| {
+        let s = if decimal_comma {
+            s.replace(',', ".")
+        } else {
+            s.to_string()
+        };
+        s.parse::<f64>().ok().filter(|v| v.is_finite())
+    };
+    let mut rows: Vec<(f64, f64, u64)> = Vec::new();
+    for rec in rdr.records() {
+        let rec = rec.map_err(|e| format!("{shown}: {e}"))?;
+        let lineno = rec.position().map(|p| p.line()).unwrap_or(0);
+        if rec.iter().all(|c| c.is_empty()) {
+            continue;
+        }
+        match (rec.get(pc).and_then(number), rec.get(vc).and_then(number)) {
+            (Some(p), Some(v)) => rows.push((p, v, lineno)),
             _ => {
                 return Err(format!(
-                    "{shown}:{lineno}: position and value must be finite numbers"
+                    "{shown}:{lineno}: position and value must be finite numbers{}",
+                    if decimal_comma {
+                        " (decimal comma or point)"
+                    } else {
+                        ""
+                    }
                 ))
             }
         }
     }
-    Ok(rows)
+    let mut notes = Vec::new();
+    if rows.windows(2).any(|w| w[1].0 < w[0].0) {
+        rows.sort_by(|a, b| a.0.total_cmp(&b.0));
+        notes.push(format!(
+            "{shown}: positions were not in increasing order (a scan from the back edge?); the rows were sorted by position"
+        ));
+    }
+    if let Some(w) = rows.windows(2).find(|w| w[1].0 == w[0].0) {
+        return Err(format!(
+            "{shown}: position {} is given twice (lines {} and {}); keep one reading per position",
+            w[0].0,
+            w[0].2.min(w[1].2),
+            w[0].2.max(w[1].2)
+        ));
+    }
+    Ok(CsvProfile {
+        rows: rows.iter().map(|r| (r.0, r.1)).collect(),
+        position_unit: cells[pc].1.clone(),
+        value_unit: cells[vc].1.clone(),
+        notes,
+    })
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn read(name: &str, text: &str, cols: &Columns) -> Result<CsvProfile, String> {
+        let p = std::env::temp_dir().join(format!("rollsleuth-csv-{}-{name}", std::process::id()));
+        std::fs::write(&p, text).unwrap();
+        let r = read_profile(&p, cols);
+        let _ = std::fs::remove_file(&p);
+        r
+    }
+
+    #[test]
+    fn detects_semicolons_with_decimal_commas_and_tabs() {
+        let s = read(
+            "semi.csv",
+            "position;value\n0;72,5\n100;73,25\n",
+            &Columns::default(),
+        )
+        .unwrap();
+        assert_eq!(s.rows, vec![(0.0, 72.5), (100.0, 73.25)]);
+        let t = read(
+            "tab.csv",
+            "position\tvalue\n0\t72.5\n100\t73\n",
+            &Columns::default(),
+        )
+        .unwrap();
+        assert_eq!(t.rows, vec![(0.0, 72.5), (100.0, 73.0)]);
+    }
+
+    #[test]
+    fn maps_columns_and_reads_units_in_the_header() {
+        let cols = Columns {
+            position: "x",
+            value: "Caliper",
+        };
+        let r = read("map.csv", "X (in),caliper [mil]\n0,3.5\n2,3.6\n", &cols).unwrap();
+        assert_eq!(r.rows, vec![(0.0, 3.5), (2.0, 3.6)]);
+        assert_eq!(r.position_unit.as_deref(), Some("in"));
+        assert_eq!(r.value_unit.as_deref(), Some("mil"));
+    }
+
+    #[test]
+    fn sorts_back_edge_first_scans_and_rejects_duplicates() {
+        let r = read(
+            "rev.csv",
+            "position,value\n200,1\n100,2\n0,3\n",
+            &Columns::default(),
+        )
+        .unwrap();
+        assert_eq!(r.rows, vec![(0.0, 3.0), (100.0, 2.0), (200.0, 1.0)]);
+        assert_eq!(r.notes.len(), 1);
+        let e = read(
+            "dup.csv",
+            "position,value\n0,1\n100,2\n100,3\n",
+            &Columns::default(),
+        )
+        .unwrap_err();
+        assert!(e.contains("lines 3 and 4"), "{e}");
+    }
+
+    #[test]
+    fn a_missing_column_names_what_was_found() {
+        let e = read("bad.csv", "pos;val\n0;1\n", &Columns::default()).unwrap_err();
+        assert!(
+            e.contains("found: pos, val") && e.contains("columns:"),
+            "{e}"
+        );
+    }
 }

@@ -17,7 +17,7 @@ pub struct Problem {
 #[derive(Debug, Clone, PartialEq, Error)]
 pub enum CaseError {
     /// The file could not be read.
-    #[error("{file}: cannot read the case file: {message}. Fix: check the path.")]
+    #[error("{file}: the case file {message}.")]
     Read { file: String, message: String },
     /// The YAML is malformed, or a field is missing, misspelt or of the wrong type.
     #[error("{file}: {}", syntax_text(.message))]
@@ -71,11 +71,12 @@ mod tests {
     fn every_variant_names_its_input_and_fix() {
         let read = CaseError::Read {
             file: "a.yaml".into(),
-            message: "No such file".into(),
+            message: "cannot be opened (No such file). Fix: check the path and its permissions"
+                .into(),
         };
         assert_eq!(
             read.to_string(),
-            "a.yaml: cannot read the case file: No such file. Fix: check the path."
+            "a.yaml: the case file cannot be opened (No such file). Fix: check the path and its permissions."
         );
         let syn = CaseError::Syntax {
             file: "a.yaml".into(),

@@ -319,6 +319,17 @@ pub struct RawProfile {
     pub values: Option<Spanned<Vec<f64>>>,
     #[serde(default)]
     pub csv: Option<Spanned<String>>,
+    /// Names of the CSV's position and value columns, when not `position` and `value`.
+    #[serde(default)]
+    pub columns: Option<RawColumns>,
+}
+
+/// CSV column names of a profile.
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct RawColumns {
+    pub position: String,
+    pub value: String,
 }
 
 #[derive(Debug, Deserialize)]

@@ -21,7 +21,7 @@ pub fn load_demo(sets: &[String]) -> Result<Case, CaseError> {
 /// Load and validate a case file, applying `--set path=value` overrides first.
 pub fn load_file(path: &Path, sets: &[String]) -> Result<Case, CaseError> {
     let file = path.display().to_string();
-    let text = std::fs::read_to_string(path).map_err(|e| CaseError::Read {
+    let text = crate::input::read_text(path).map_err(|e| CaseError::Read {
         file: file.clone(),
         message: e.to_string(),
     })?;

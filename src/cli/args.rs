@@ -10,9 +10,30 @@ pub struct Cli {
     /// Print JSON (SI units, field names carry their unit) instead of tables.
     #[arg(long, global = true)]
     pub json: bool,
-    /// Units for human output.
-    #[arg(long, global = true, value_enum, default_value_t = UnitsArg::Si)]
+    /// Units for human output (tables, headlines, notes, errors); JSON stays SI.
+    #[arg(
+        long,
+        global = true,
+        value_enum,
+        ignore_case = true,
+        env = "ROLLSLEUTH_UNITS",
+        default_value_t = UnitsArg::Si
+    )]
     pub units: UnitsArg,
+    /// Print only results and errors: no progress, warnings or notes on standard error.
+    #[arg(long, short, global = true, conflicts_with = "verbose")]
+    pub quiet: bool,
+    /// Also print notes (defaults used, files read) on standard error.
+    #[arg(long, short, global = true)]
+    pub verbose: bool,
+    /// Table width in columns. Default: the COLUMNS variable, else the terminal's width, else 100
+    /// when standard output is not a terminal.
+    #[arg(long, global = true, value_name = "COLUMNS", value_parser = clap::value_parser!(u16).range(40..))]
+    pub width: Option<u16>,
+    /// Largest input file (case, rule table, CSV) in bytes; default 8 MiB, or the environment
+    /// variable ROLLSLEUTH_MAX_INPUT_SIZE.
+    #[arg(long, global = true, value_name = "BYTES")]
+    pub max_input_size: Option<u64>,
     #[command(subcommand)]
     pub command: Command,
 }
@@ -29,7 +50,8 @@ pub enum UnitsArg {
 /// Case file and overrides.
 #[derive(Args, Debug, Clone)]
 pub struct CaseArg {
-    /// Case file (YAML). Without one, the embedded demo case is used.
+    /// Case file (YAML); `-` reads it from standard input. Without one, the embedded demo case
+    /// is used.
     pub case: Option<PathBuf>,
     /// Override a field before validation, e.g. --set winding.tension="1.8 pli" (repeatable).
     #[arg(long = "set", value_name = "PATH=VALUE")]
@@ -73,9 +95,13 @@ pub enum Command {
         case: CaseArg,
         #[command(flatten)]
         rules: RulesArg,
-        /// Write a root-cause report (Markdown, SVG plot, JSON) into this folder.
+        /// Write the root-cause report into this folder: CASE.html (self-contained, with plots),
+        /// CASE.md (for tickets) and CASE.json; the files written are listed on standard error.
         #[arg(long, value_name = "DIR")]
         out: Option<PathBuf>,
+        /// Analysis date printed in the report, YYYY-MM-DD, or `today` for the system clock.
+        #[arg(long, value_name = "DATE")]
+        date: Option<String>,
     },
     /// Compare the case as measured with the same roll changed by --set (e.g. lower tension).
     Whatif {
@@ -90,18 +116,43 @@ pub enum Command {
         paths: Vec<PathBuf>,
         #[command(flatten)]
         rules: RulesArg,
+        /// Output format (--json is the same as --format json).
+        #[arg(long, value_enum, default_value_t = TriageFormat::Table)]
+        format: TriageFormat,
+        /// Continue a batch: rolls listed in this earlier CSV output (`--format csv`) are
+        /// skipped, and the new rows are printed as CSV without a header, ready to append.
+        #[arg(long, value_name = "FILE")]
+        resume: Option<PathBuf>,
     },
-    /// Rule tables: check one, or list the features rules may use.
+    /// Rule tables: check one, print the built-in one, or list the features rules may use.
     Rules {
         #[command(subcommand)]
         command: RulesCommand,
     },
+    /// Print a shell completion script, e.g. `rollsleuth completions bash > rollsleuth.bash`.
+    Completions {
+        /// Shell to complete for.
+        shell: clap_complete::Shell,
+    },
+    /// Print the manual page (roff), e.g. `rollsleuth man > rollsleuth.1`.
+    Man,
+}
+
+/// How `triage` prints its rows.
+#[derive(Clone, Copy, Debug, ValueEnum, PartialEq, Eq)]
+pub enum TriageFormat {
+    /// A table for people, worst roll first.
+    Table,
+    /// One CSV row per roll (SI, header with units); usable with --resume.
+    Csv,
+    /// A JSON document.
+    Json,
 }
 
 /// Rule table choice.
 #[derive(Args, Debug, Clone)]
 pub struct RulesArg {
-    /// Rule table (YAML). Default: the shipped rules/default.yaml.
+    /// Rule table (YAML). Default: the built-in default table (see `rollsleuth rules show`).
     #[arg(long, value_name = "FILE")]
     pub rules: Option<PathBuf>,
 }
@@ -109,11 +160,13 @@ pub struct RulesArg {
 /// `rules` subcommands.
 #[derive(Subcommand, Debug)]
 pub enum RulesCommand {
-    /// Check a rule table (default: the shipped one).
+    /// Check a rule table (default: the built-in one).
     Lint {
         /// Rule table to check.
         file: Option<PathBuf>,
     },
     /// List the features a rule may test.
     Features,
+    /// Print the built-in default rule table (YAML), a starting point for your own.
+    Show,
 }

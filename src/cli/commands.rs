@@ -6,7 +6,7 @@ use super::{CliError, Outcome};
 use crate::case::{self, Case};
 use crate::diagnose::{self, DiagnoseOptions, Diagnosis};
 use crate::lanes::{self, Lanes};
-use crate::report::{self, TriageRow};
+use crate::report;
 use crate::rules::{self, Table};
 use crate::storage::AgeOptions;
 use crate::units::System;
@@ -21,6 +21,10 @@ pub struct Output {
     pub json: bool,
     /// Unit system for human text.
     pub sys: System,
+    /// No progress, notes or warnings on standard error.
+    pub quiet: bool,
+    /// Also say on standard error what is read and written.
+    pub verbose: bool,
 }
 
 impl Output {
@@ -36,17 +40,41 @@ impl Output {
             Ok(text())
         }
     }
+
+    /// A line on standard error unless `--quiet`.
+    pub fn tell(self, line: &str) {
+        if !self.quiet {
+            eprintln!("{line}");
+        }
+    }
+
+    /// A line on standard error with `--verbose` only.
+    pub fn detail(self, line: &str) {
+        if self.verbose {
+            eprintln!("{line}");
+        }
+    }
 }
 
-/// Load the case named by `arg`, or the demo case.
+/// Name under which a case read from standard input is reported.
+pub const STDIN_NAME: &str = "<standard input>";
+
+/// Load the case named by `arg` (`-`: standard input, CSV paths relative to the current
+/// folder), or the demo case.
 pub fn load(arg: &CaseArg) -> Result<Case, CliError> {
     Ok(match &arg.case {
+        Some(p) if p.as_os_str() == "-" => {
+            let mut text = String::new();
+            std::io::Read::read_to_string(&mut std::io::stdin(), &mut text)
+                .map_err(|source| CliError::Stdin { source })?;
+            case::load_str(&text, STDIN_NAME, Some(Path::new(".")), &arg.set)?
+        }
         Some(p) => case::load_file(p, &arg.set)?,
         None => case::load_demo(&arg.set)?,
     })
 }
 
-fn load_rules(arg: &RulesArg) -> Result<Table, CliError> {
+pub(super) fn load_rules(arg: &RulesArg) -> Result<Table, CliError> {
     Ok(match &arg.rules {
         Some(p) => rules::load_file(p)?,
         None => rules::load_default()?,
@@ -54,7 +82,7 @@ fn load_rules(arg: &RulesArg) -> Result<Table, CliError> {
 }
 
 /// Case files named by paths (folders expand to their *.yaml files, sorted).
-fn case_files(paths: &[PathBuf]) -> Result<Vec<PathBuf>, CliError> {
+pub(super) fn case_files(paths: &[PathBuf]) -> Result<Vec<PathBuf>, CliError> {
     let mut out = Vec::new();
     for p in paths {
         if p.is_dir() {
@@ -64,7 +92,11 @@ fn case_files(paths: &[PathBuf]) -> Result<Vec<PathBuf>, CliError> {
             })?;
             let mut v: Vec<PathBuf> = rd
                 .filter_map(|e| e.ok().map(|e| e.path()))
-                .filter(|x| x.extension().is_some_and(|e| e == "yaml" || e == "yml"))
+                .filter(|x| {
+                    x.extension().is_some_and(|e| {
+                        e.eq_ignore_ascii_case("yaml") || e.eq_ignore_ascii_case("yml")
+                    })
+                })
                 .collect();
             v.sort();
             out.extend(v);
@@ -173,14 +205,21 @@ pub fn diagnose(
     arg: &CaseArg,
     rules: &RulesArg,
     dir: Option<&Path>,
+    date: Option<&str>,
     out: Output,
 ) -> Result<Outcome, CliError> {
     let c = load(arg)?;
     let table = load_rules(rules)?;
-    let d = diagnose::diagnose(&c, &table, &DiagnoseOptions::default())?;
-    if let Some(dir) = dir {
-        write_report(dir, &c, &d, out.sys)?;
-    }
+    let d = match dir {
+        Some(dir) => {
+            let (d, files) = write_report(dir, &c, &table, rules, date, out.sys)?;
+            for f in files {
+                out.tell(&format!("wrote {}", f.display()));
+            }
+            d
+        }
+        None => diagnose::diagnose(&c, &table, &DiagnoseOptions::default())?,
+    };
     let s = out.pick(
         || report::diagnose_view::json(&d),
         || report::diagnose_view::text(&d, out.sys),
@@ -212,45 +251,6 @@ pub fn whatif(arg: &CaseArg, rules: &RulesArg, out: Output) -> Result<Outcome, C
     Ok(Outcome::Ok(s))
 }
 
-/// `triage`: every roll diagnosed with the fast settings, worst first; a roll that fails is a
-/// row, not the end of the run.
-pub fn triage(paths: &[PathBuf], rules: &RulesArg, out: Output) -> Result<Outcome, CliError> {
-    use rayon::prelude::*;
-    let table = load_rules(rules)?;
-    let files = case_files(paths)?;
-    if files.is_empty() {
-        return Err(CliError::TriageNeedsFiles);
-    }
-    let opt = DiagnoseOptions {
-        nodes: crate::winding::DEFAULT_NODES,
-        what_if: false,
-    };
-    let mut rows: Vec<TriageRow> = files
-        .par_iter()
-        .map(|f| match case::load_file(f, &[]) {
-            Ok(c) => match diagnose::diagnose(&c, &table, &opt) {
-                Ok(d) => TriageRow::from_diagnosis(f, &d),
-                Err(e) => TriageRow::failed(f, &e.to_string()),
-            },
-            Err(e) => TriageRow::failed(f, &e.to_string()),
-        })
-        .collect();
-    rows.sort_by(|a, b| {
-        b.rank_key()
-            .total_cmp(&a.rank_key())
-            .then(a.file.cmp(&b.file))
-    });
-    let any = rows
-        .iter()
-        .any(|r| !r.defects.is_empty() || r.error.is_some());
-    let s = out.pick(|| report::triage_json(&rows), || report::triage_text(&rows))?;
-    Ok(if any {
-        Outcome::Findings(s)
-    } else {
-        Outcome::Ok(s)
-    })
-}
-
 /// `rules features`.
 pub fn rules_features(out: Output) -> Result<Outcome, CliError> {
     let s = out.pick(
@@ -272,33 +272,61 @@ pub fn rules_lint(file: Option<&Path>, out: Output) -> Result<Outcome, CliError>
     Ok(Outcome::Ok(s))
 }
 
-/// The report files of a diagnosis: lane plot, pressure plot, Markdown and JSON, each written
-/// whole or not at all.
-fn write_report(dir: &Path, c: &Case, d: &Diagnosis, sys: System) -> Result<(), CliError> {
-    let fail = |source: std::io::Error| CliError::Report {
+/// The analysis date: `YYYY-MM-DD` as given, `today` from the system clock, or none.
+fn analysis_date(date: Option<&str>) -> Result<Option<String>, CliError> {
+    use report::files;
+    Ok(match date {
+        None => None,
+        Some("today") => {
+            let secs = std::time::SystemTime::now()
+                .duration_since(std::time::UNIX_EPOCH)
+                .map(|d| d.as_secs_f64())
+                .unwrap_or(0.0);
+            Some(files::date_from_days(
+                (secs / crate::units::DAY_S).floor() as i64
+            ))
+        }
+        Some(s) => Some(files::parse_date(s).ok_or_else(|| CliError::BadDate(s.to_string()))?),
+    })
+}
+
+/// Diagnose and write the root-cause report (`diagnose --out DIR`): the fit is made once and
+/// shared by the diagnosis and the report's plots.
+fn write_report(
+    dir: &Path,
+    c: &Case,
+    table: &Table,
+    rules: &RulesArg,
+    date: Option<&str>,
+    sys: System,
+) -> Result<(Diagnosis, Vec<PathBuf>), CliError> {
+    use report::{files, report_data};
+    let date = analysis_date(date)?;
+    let text = match &rules.rules {
+        Some(p) => std::fs::read(p).map_err(|source| CliError::RulesText {
+            path: p.clone(),
+            source,
+        })?,
+        None => rules::DEFAULT_RULES.as_bytes().to_vec(),
+    };
+    let opt = DiagnoseOptions::default();
+    let fitted = diagnose::fitted(c, &opt)?;
+    let d = diagnose::diagnose_fitted(c, table, &opt, &fitted)?;
+    let data = report_data::ReportData {
+        case: c,
+        fitted: &fitted,
+        diagnosis: &d,
+        rules: report_data::RulesInfo {
+            source: table.source.clone(),
+            fingerprint: files::fingerprint(&text),
+            rules: table.rules.len(),
+        },
+        date,
+        sys,
+    };
+    let written = files::write_report(dir, &data).map_err(|source| CliError::Report {
         dir: dir.to_path_buf(),
         source,
-    };
-    std::fs::create_dir_all(dir).map_err(fail)?;
-    let stem = report::file_stem(&c.id);
-    let plot = format!("{stem}_lanes.svg");
-    let files = [
-        (plot.clone(), report::diagnose_view::svg(d, c.roll.width_m)),
-        (
-            format!("{stem}_pressure.svg"),
-            report::diagnose_view::pressure_svg(d),
-        ),
-        (
-            format!("{stem}_report.md"),
-            report::diagnose_view::markdown(d, &plot, sys),
-        ),
-        (
-            format!("{stem}_diagnosis.json"),
-            report::json_text(&report::diagnose_view::json(d))?,
-        ),
-    ];
-    for (name, content) in files {
-        report::write_atomic(&dir.join(name), &content).map_err(fail)?;
-    }
-    Ok(())
+    })?;
+    Ok((d, written))
 }

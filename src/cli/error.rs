@@ -35,12 +35,27 @@ pub enum CliError {
         dir: PathBuf,
         source: std::io::Error,
     },
+    #[error("--date {0:?}: not a calendar date; write YYYY-MM-DD (e.g. 2026-12-02) or `today`")]
+    BadDate(String),
+    #[error("{}: cannot read the rule table: {source}", .path.display())]
+    RulesText {
+        path: PathBuf,
+        source: std::io::Error,
+    },
     #[error("cannot write the JSON output: {0}")]
     Json(#[from] serde_json::Error),
     #[error("whatif needs at least one --set path=value, e.g. --set winding.tension=\"1.8 pli\"")]
     WhatIfNeedsSet,
     #[error("triage needs case files or folders holding *.yaml case files")]
     TriageNeedsFiles,
+    #[error("cannot read the case from standard input: {source}")]
+    Stdin { source: std::io::Error },
+    #[error("cannot write the output: {source}")]
+    Stdout { source: std::io::Error },
+    #[error("{}: cannot resume from it: {message}; give the CSV that `triage --format csv` wrote", .path.display())]
+    Resume { path: PathBuf, message: String },
+    #[error("--resume needs --format csv (it continues a CSV output)")]
+    ResumeNeedsCsv,
 }
 
 /// Case errors one per line, each but the first with its own `error: ` prefix.
@@ -53,11 +68,15 @@ fn join_errors(errors: &[CaseError]) -> String {
 }
 
 impl CliError {
-    /// Exit code: 1 for a usage error, 2 for bad input, a model that could not be solved or
-    /// output that could not be written.
+    /// Exit code: 2 for a usage error, bad input, a model that could not be solved or output
+    /// that could not be written (1 is kept for findings).
     pub fn exit_code(&self) -> u8 {
         match self {
-            CliError::WhatIfNeedsSet | CliError::TriageNeedsFiles => 1,
+            CliError::WhatIfNeedsSet
+            | CliError::TriageNeedsFiles
+            | CliError::ResumeNeedsCsv
+            | CliError::BadDate(_) => super::USAGE_EXIT,
+            CliError::Stdin { .. } | CliError::Stdout { .. } | CliError::Resume { .. } => 2,
             CliError::Case(_)
             | CliError::Cases(_)
             | CliError::Rules(_)
@@ -68,7 +87,33 @@ impl CliError {
             | CliError::WhatIfLanes(_)
             | CliError::Folder { .. }
             | CliError::Report { .. }
+            | CliError::RulesText { .. }
             | CliError::Json(_) => 2,
+        }
+    }
+}
+
+impl CliError {
+    /// A word for the kind of failure, given in JSON errors (`error.kind`).
+    pub fn kind(&self) -> &'static str {
+        match self {
+            CliError::WhatIfNeedsSet
+            | CliError::TriageNeedsFiles
+            | CliError::ResumeNeedsCsv
+            | CliError::BadDate(_) => "usage",
+            CliError::Case(_)
+            | CliError::Cases(_)
+            | CliError::Rules(_)
+            | CliError::Stdin { .. }
+            | CliError::Resume { .. }
+            | CliError::RulesText { .. }
+            | CliError::Folder { .. } => "bad_input",
+            CliError::Wind(_)
+            | CliError::Age(_)
+            | CliError::Fit(_)
+            | CliError::Diagnose(_)
+            | CliError::WhatIfLanes(_) => "model",
+            CliError::Report { .. } | CliError::Json(_) | CliError::Stdout { .. } => "output",
         }
     }
 }
@@ -77,11 +122,13 @@ impl CliError {
 mod tests {
     use super::*;
 
-    /// Usage errors exit with 1, everything else with 2 (the codes the README documents).
+    /// Usage errors and every failure exit with 2; 1 is only for findings (the codes the
+    /// README documents).
     #[test]
-    fn usage_errors_exit_1_and_failures_exit_2() {
-        assert_eq!(CliError::WhatIfNeedsSet.exit_code(), 1);
-        assert_eq!(CliError::TriageNeedsFiles.exit_code(), 1);
+    fn usage_errors_and_failures_exit_2() {
+        assert_eq!(CliError::WhatIfNeedsSet.exit_code(), 2);
+        assert_eq!(CliError::TriageNeedsFiles.exit_code(), 2);
+        assert_eq!(CliError::WhatIfNeedsSet.kind(), "usage");
         let io = std::io::Error::other("disk full");
         let e = CliError::Report {
             dir: "out".into(),

@@ -13,6 +13,7 @@ pub use whatif::{creep_at, what_if, WhatIf};
 use crate::case::Case;
 use crate::fit::{fit_roll, FitError};
 use crate::lanes::{self, Lanes};
+use crate::note::Note;
 use crate::rules::{self, Table};
 use crate::storage::{AgeOptions, LaneCreep};
 use crate::vocab::{Action, Cause, Defect, Feature, Likelihood};
@@ -141,11 +142,7 @@ pub struct Diagnosis {
     pub spread_mm_per_m: f64,
     /// Whether the output advises action (then it carries the safety note).
     pub advises_action: bool,
-    /// Wound-in interlayer pressure against radius per lane, for plotting: radii (m) and, per
-    /// lane, (position m, pressure Pa at each radius).
-    #[serde(skip)]
-    pub pressure_curves: (Vec<f64>, Vec<(f64, Vec<f64>)>),
-    pub notes: Vec<String>,
+    pub notes: Vec<Note>,
 }
 
 /// The base scenario of a diagnosed case: fitted creep per lane, storage as simulated (extended
@@ -229,18 +226,28 @@ pub fn diagnose(
     table: &Table,
     opt: &DiagnoseOptions,
 ) -> Result<Diagnosis, DiagnoseError> {
+    diagnose_fitted(case, table, opt, &fitted(case, opt)?)
+}
+
+/// Diagnose a case already wound and fitted with [`fitted`] (the report reuses the fit).
+pub fn diagnose_fitted(
+    case: &Case,
+    table: &Table,
+    opt: &DiagnoseOptions,
+    fitted: &Fitted,
+) -> Result<Diagnosis, DiagnoseError> {
     let Fitted {
         lanes,
         wound,
         fit,
         creep,
-    } = fitted(case, opt)?;
-    let feats = features::compute(case, &lanes, &wound, &fit.aged);
+    } = fitted;
+    let feats = features::compute(case, lanes, wound, &fit.aged);
     let fired = rules::evaluate(table, &feats.values);
-    let base = base_scenario(case, &lanes, creep, Options::default().levelling);
+    let base = base_scenario(case, lanes, creep.clone(), Options::default().levelling);
     let mut notes = fit.notes.clone();
     let (base_spread, causes) = if opt.what_if {
-        attribute_causes(&base, &wound, opt.nodes)?
+        attribute_causes(&base, wound, opt.nodes)?
     } else {
         (feats.get(Feature::SpreadMmPerM), Vec::new())
     };
@@ -252,17 +259,18 @@ pub fn diagnose(
     };
     let mut findings = Vec::new();
     for fr in &fired {
-        findings.push(finding(fr, case, &lanes, &feats, &mut checker)?);
+        findings.push(finding(fr, case, lanes, &feats, &mut checker)?);
     }
     // `case` accepts only vocabulary words as the complaint
     let complaint = case.complaint.as_deref().and_then(Defect::from_word);
     let agreement = complaint.map(|c| agreement(c, &findings));
-    let lane_results = lane_results(&fit, &lanes, &feats);
-    notes.extend(fit.aged.notes.iter().cloned());
-    notes.sort();
-    notes.dedup();
+    let lane_results = lane_results(fit, lanes, &feats);
+    for n in &fit.aged.notes {
+        if !notes.contains(n) {
+            notes.push(*n);
+        }
+    }
     Ok(Diagnosis {
-        pressure_curves: pressure_curves(&wound),
         case: case.id.clone(),
         title: case.title.clone(),
         rules: table.source.clone(),
@@ -439,27 +447,4 @@ fn lane_results(fit: &crate::fit::RollFit, lanes: &Lanes, feats: &Features) -> V
             fit_rmse: l.rmse,
         })
         .collect()
-}
-
-/// Wound-in interlayer pressure against radius per lane, thinned to about 200 radii.
-#[allow(clippy::type_complexity)]
-fn pressure_curves(wound: &crate::winding::Wound) -> (Vec<f64>, Vec<(f64, Vec<f64>)>) {
-    let stride = (wound.radius_m.len() / 200).max(1);
-    (
-        wound.radius_m.iter().step_by(stride).copied().collect(),
-        wound
-            .lanes
-            .iter()
-            .map(|l| {
-                (
-                    l.position_m,
-                    l.radial_stress_pa
-                        .iter()
-                        .step_by(stride)
-                        .map(|s| -s)
-                        .collect(),
-                )
-            })
-            .collect(),
-    )
 }

@@ -17,11 +17,11 @@ pub use lane_fit::{
 
 use crate::case::Case;
 use crate::lanes::Lanes;
+use crate::note::Note;
 use crate::numeric::spread;
 use crate::storage::{
     age_prepared, prepare, AgeError, AgeOptions, Aged, HardnessMap, LaneCreep, Prepared, StoreInput,
 };
-use crate::units::DAY_S;
 use crate::winding::Wound;
 use serde::Serialize;
 
@@ -109,7 +109,7 @@ pub struct RollFit {
     pub noise: Noise,
     /// Total model evaluations (lane simulations).
     pub evaluations: u64,
-    pub notes: Vec<String>,
+    pub notes: Vec<Note>,
     /// The roll through storage with fitted parameters.
     #[serde(skip)]
     pub aged: Aged,
@@ -118,7 +118,7 @@ pub struct RollFit {
 /// The grade's creep with laboratory creep curves applied: each direction that has lab curves
 /// gets the Burgers parameters fitted to them (times shifted to the reference atmosphere with the
 /// case's Arrhenius and moisture shifts). Returns the updated case and notes.
-pub fn with_lab_creep(case: &Case) -> Result<(Case, Vec<String>), FitError> {
+pub fn with_lab_creep(case: &Case) -> Result<(Case, Vec<Note>), FitError> {
     let mut c = case.clone();
     let mut notes = Vec::new();
     let m = &case.material;
@@ -157,15 +157,15 @@ pub fn with_lab_creep(case: &Case) -> Result<(Case, Vec<String>), FitError> {
             direction: dir,
             source,
         })?;
-        notes.push(format!(
-            "{dir} creep from {} lab curve(s): delayed {:.3}, retardation {:.2} d, viscous time {:.0} d, elastic modulus {:.3} GPa{}",
-            curves.len(),
-            f.burgers.delayed,
-            f.burgers.retardation_s / DAY_S,
-            f.burgers.viscous_time_s / DAY_S,
-            f.modulus_pa / 1e9,
-            if f.converged { "" } else { " (lab-curve fit hit its iteration limit)" }
-        ));
+        notes.push(Note::LabCreep {
+            direction: dir,
+            curves: curves.len(),
+            delayed: f.burgers.delayed,
+            retardation_s: f.burgers.retardation_s,
+            viscous_time_s: f.burgers.viscous_time_s,
+            modulus_pa: f.modulus_pa,
+            converged: f.converged,
+        });
         if dir == "md" {
             c.material.creep.md = f.burgers;
         } else {
@@ -197,9 +197,7 @@ pub fn fit_roll(
     let prior = [pooled.theta[0], pooled.theta[1]];
     let (fits, lane_evaluations) = lane_fits(&problems, prior)?;
     if problems.iter().all(|p| p.steps == 0) {
-        notes.push(
-            "all measurements are at one age: creep parameters cannot be identified and stay at the roll's prior (grade values)".into(),
-        );
+        notes.push(Note::OneAge);
     }
     let creep: Vec<LaneCreep> = fits.iter().map(|f| f.creep).collect();
     let aged = age_prepared(&case.material, &prep, wound, Some(&creep), &map)?;

@@ -2,6 +2,7 @@
 
 use crate::case::Measure;
 use crate::lanes::Lanes;
+use crate::note::Note;
 use crate::numeric::closest_index;
 use crate::storage::Timeline;
 use crate::units::DAY_S;
@@ -44,11 +45,7 @@ pub fn step_of(tl: &Timeline, age: f64) -> usize {
 /// Observations per lane from the lanes' measurement series, each with one-sigma repeatability:
 /// hardness `hardness_sd` (scale units), diameter [`DIAMETER_REPEATABILITY_M`]; and notes on
 /// measurements that could not be used.
-pub fn observations(
-    lanes: &Lanes,
-    tl: &Timeline,
-    hardness_sd: f64,
-) -> (Vec<Vec<Obs>>, Vec<String>) {
+pub fn observations(lanes: &Lanes, tl: &Timeline, hardness_sd: f64) -> (Vec<Vec<Obs>>, Vec<Note>) {
     let n = lanes.lanes.len();
     let mut out = vec![Vec::new(); n];
     let mut notes = Vec::new();
@@ -87,10 +84,7 @@ pub fn observations(
                     }
                 }
                 Some(_) => {}
-                None => notes.push(format!(
-                    "diameter profile at {:.0} d has no winding-time diameter to compare with; not used in the fit",
-                    p.age_s / DAY_S
-                )),
+                None => notes.push(Note::DiameterWithoutReference { age_s: p.age_s }),
             },
         }
     }

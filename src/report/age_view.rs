@@ -71,7 +71,7 @@ pub fn text(c: &Case, lanes: &Lanes, a: &Aged, sys: System) -> String {
         "Strain at unwind is the stress-free MD strain a lane keeps (permanent + delayed creep + hygroexpansion); a lane longer than the mean by more than about 0.5 mm/m runs visibly slack on light webs (common practice)."
     );
     for note in &a.notes {
-        let _ = writeln!(out, "note: {note}");
+        let _ = writeln!(out, "note: {}", super::words::note(note));
     }
     out
 }
@@ -114,7 +114,7 @@ pub fn json(c: &Case, a: &Aged) -> Value {
         "radius_m": a.radius_m,
         "equilibrium_moisture_pct": a.equilibrium_moisture_pct,
         "hardness_map": a.hardness_map,
-        "notes": a.notes,
+        "notes": super::words::note_texts(&a.notes),
         "lanes": a.lanes,
     })
 }

@@ -222,7 +222,7 @@ fn profiles_table(c: &Case, sys: System) -> Table {
             ),
         };
         p.add_row(vec![
-            format!("[{i}] {:?}", pr.what).to_lowercase(),
+            format!("{} {}", i + 1, super::words::measure(pr.what)),
             format!("{:.0} d", pr.age_s / DAY_S),
             pr.positions_m.len().to_string(),
             format!(
@@ -240,7 +240,7 @@ fn profiles_table(c: &Case, sys: System) -> Table {
 /// One row per storage stretch.
 fn storage_table(c: &Case, sys: System) -> Table {
     let mut s = table(&[
-        "stretch",
+        "storage period",
         "days",
         "temperature",
         "RH",
@@ -252,7 +252,7 @@ fn storage_table(c: &Case, sys: System) -> Table {
     let wrap = |w: Wrap| format!("{w:?}").to_lowercase();
     for (i, st) in c.storage.iter().enumerate() {
         s.add_row(vec![
-            i.to_string(),
+            (i + 1).to_string(),
             f(st.duration_s / DAY_S, 1),
             q(st.temperature_k, Kind::Temperature, sys),
             format!("{:.0} %", st.rh * 100.0),
@@ -279,11 +279,11 @@ pub fn lanes_text(c: &Case, l: &Lanes, sys: System) -> String {
     let mut out = String::new();
     let _ = writeln!(
         out,
-        "Case {}: {} lanes across {}; caliper from {:?} (mean {})",
+        "Case {}: {} lanes across {}; caliper from {} (mean {})",
         c.id,
         l.lanes.len(),
         q(c.roll.width_m, Kind::Length, sys),
-        l.caliper_source,
+        super::words::caliper_source(l.caliper_source),
         fine(l.mean_caliper_m, sys)
     );
     let mut t = table(&[
@@ -322,7 +322,7 @@ pub fn lanes_text(c: &Case, l: &Lanes, sys: System) -> String {
         let _ = writeln!(out, "* extrapolated beyond the measured positions");
     }
     for n in &l.notes {
-        let _ = writeln!(out, "note: {n}");
+        let _ = writeln!(out, "note: {}", super::words::note(n));
     }
     let _ = writeln!(
         out,
@@ -350,7 +350,7 @@ pub fn lanes_json(c: &Case, l: &Lanes) -> Value {
             "strain": x.wound_strain_difference,
             "extrapolated": x.extrapolated,
         })).collect::<Vec<_>>(),
-        "notes": l.notes,
+        "notes": super::words::note_texts(&l.notes),
     })
 }
 

@@ -27,30 +27,29 @@ pub fn text(c: &Case, lanes: &Lanes, f: &RollFit, sys: System) -> String {
         f.prior_sd_ln.exp()
     );
     let mean = lanes.mean(&f.strain_at_unwind);
+    let vs_mean = format!("vs mean lane {}", super::strain_unit(sys));
     let mut t = table(&[
         "lane",
-        "MD creep scale",
-        "radial creep scale",
-        "rmse (x noise)",
+        "MD creep scale (1-sigma range)",
+        "radial creep scale (1-sigma range)",
+        "fit error (in noise units)",
         "converged",
         "strain at unwind",
-        "vs mean mm/m",
+        &vs_mean,
     ]);
     for (i, l) in f.lanes.iter().enumerate() {
         let flag = |ok: bool| if ok { "" } else { " (not identifiable)" };
         t.add_row(vec![
             format!("{i} @ {}", pos(l.position_m, sys)),
-            format!(
-                "{:.2} x/÷ {:.2}{}",
+            scale_range(
                 l.params.md_creep_scale,
                 l.uncertainty.md_creep_scale_factor,
-                flag(l.md_identifiable)
+                flag(l.md_identifiable),
             ),
-            format!(
-                "{:.2} x/÷ {:.2}{}",
+            scale_range(
                 l.params.radial_creep_scale,
                 l.uncertainty.radial_creep_scale_factor,
-                flag(l.radial_identifiable)
+                flag(l.radial_identifiable),
             ),
             format!("{:.2}", l.rmse),
             if l.converged { "yes" } else { "no" }.to_string(),
@@ -59,27 +58,29 @@ pub fn text(c: &Case, lanes: &Lanes, f: &RollFit, sys: System) -> String {
         ]);
     }
     let _ = writeln!(out, "{t}");
-    if let Some(r) = worst_residuals(f) {
+    if let Some(r) = worst_residuals(f, sys) {
         let _ = writeln!(out, "Residuals of the worst-fitting lane:\n{r}");
     }
     let _ = writeln!(
         out,
-        "Spread of strain at unwind across the width: {:.4} % = {:.2} mm per metre of web. Noise: hardness {} units ({}), diameter {:.2} mm ({}).",
+        "Spread of strain at unwind across the width: {:.4} % = {:.2} {} of web. Noise: hardness {} units ({}), diameter {} ({}).",
         f.spread_strain * 100.0,
         f.spread_mm_per_m,
+        super::strain_unit(sys),
         f.noise.hardness,
         f.noise.hardness_source,
-        f.noise.diameter_m * 1e3,
+        crate::units::show(f.noise.diameter_m, crate::units::Kind::Length, sys, false),
         f.noise.diameter_source
     );
     for n in &f.notes {
-        let _ = writeln!(out, "note: {n}");
+        let _ = writeln!(out, "note: {}", super::words::note(n));
     }
     out
 }
 
 /// Residual table of the worst-fitting lane, if any lane was fitted.
-fn worst_residuals(f: &RollFit) -> Option<comfy_table::Table> {
+fn worst_residuals(f: &RollFit, sys: System) -> Option<comfy_table::Table> {
+    let dec = if sys == System::Us { 3 } else { 2 };
     let (i, worst) = f
         .lanes
         .iter()
@@ -97,13 +98,13 @@ fn worst_residuals(f: &RollFit) -> Option<comfy_table::Table> {
         let (m, p) = match x.what {
             Measure::Hardness => (format!("{:.1}", x.measured), format!("{:.1}", x.predicted)),
             _ => (
-                format!("{:+.2} mm", x.measured * 1e3),
-                format!("{:+.2} mm", x.predicted * 1e3),
+                crate::units::signed(x.measured, crate::units::Kind::Length, sys, false, dec),
+                crate::units::signed(x.predicted, crate::units::Kind::Length, sys, false, dec),
             ),
         };
         r.add_row(vec![
             i.to_string(),
-            format!("{:?}", x.what).to_lowercase(),
+            super::words::measure(x.what).to_string(),
             format!("{:.0}", x.age_s / DAY_S),
             m,
             p,
@@ -137,6 +138,19 @@ pub fn json(c: &Case, f: &RollFit) -> Value {
         "prior_sd_ln": f.prior_sd_ln,
         "noise": f.noise,
         "evaluations": f.evaluations,
-        "notes": f.notes,
+        "notes": super::words::note_texts(&f.notes),
     })
+}
+
+/// A fitted scale with its 1-sigma range from a multiplicative factor: "1.02 (0.79-1.32)".
+fn scale_range(value: f64, factor: f64, flag: &str) -> String {
+    if factor.is_finite() && factor >= 1.0 {
+        format!(
+            "{value:.2} ({:.2}-{:.2}){flag}",
+            value / factor,
+            value * factor
+        )
+    } else {
+        format!("{value:.2}{flag}")
+    }
 }

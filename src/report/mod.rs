@@ -1,32 +1,72 @@
-//! Human output (comfy-table tables, SVG plots, Markdown) and JSON documents.
+//! Human output (comfy-table tables; the root-cause report as HTML with plotters SVG plots and as
+//! Markdown) and JSON documents.
 //!
 //! **Invariant:** the only module that turns results into words; models and diagnosis return
 //! structured data. Output is deterministic: same input, same bytes.
 
 pub mod age_view;
 pub mod case_view;
+pub mod chart;
 pub mod check_view;
 pub mod diagnose_view;
+pub mod document;
+pub mod document_tables;
+pub mod escape;
+pub mod files;
 pub mod fit_view;
+pub mod html;
+pub mod markdown;
+pub mod plots;
+pub mod report_data;
 pub mod rules_view;
 pub mod stress_view;
 pub mod triage_view;
 pub mod words;
 
 pub use triage_view::{
-    triage_json, triage_text, whatif_json, whatif_text, TriageRow, WhatIfLanesError,
+    triage_csv_header, triage_csv_rows, triage_json, triage_text, whatif_json, whatif_text,
+    TriageRow, WhatIfLanesError,
 };
 
 use crate::units::{self, Kind, System};
 use comfy_table::{presets, ContentArrangement, Table};
+use std::sync::atomic::{AtomicU16, Ordering};
 
-/// A table in the project's style.
+/// Table width (columns) used when nothing else sets one: the width of output that is not a
+/// terminal, so output in pipes and files does not depend on who ran it.
+pub const DEFAULT_WIDTH: u16 = 100;
+
+static WIDTH: AtomicU16 = AtomicU16::new(DEFAULT_WIDTH);
+
+/// Set the width (columns) that tables wrap to; the CLI sets it once, from `--width`,
+/// `COLUMNS` or the terminal.
+pub fn set_width(columns: u16) {
+    WIDTH.store(columns.max(40), Ordering::Relaxed);
+}
+
+/// The width tables wrap to.
+pub fn width() -> u16 {
+    WIDTH.load(Ordering::Relaxed)
+}
+
+/// A table in the project's style, wrapping its cells to [`width`].
 pub fn table(headers: &[&str]) -> Table {
     let mut t = Table::new();
     t.load_style(presets::UTF8_FULL_CONDENSED)
-        .set_content_arrangement(ContentArrangement::Disabled)
+        .set_content_arrangement(ContentArrangement::Dynamic)
+        .set_width(width())
         .set_header(headers.iter().copied());
     t
+}
+
+/// A long text shortened for a table cell to at most `max` characters, ending in "..." when
+/// cut (the full text is in JSON and the report).
+pub fn short(text: &str, max: usize) -> String {
+    if text.chars().count() <= max {
+        return text.to_string();
+    }
+    let cut: String = text.chars().take(max.saturating_sub(3)).collect();
+    format!("{}...", cut.trim_end())
 }
 
 /// Format an SI quantity for humans in the chosen unit system.
@@ -37,6 +77,12 @@ pub fn q(si: f64, kind: Kind, sys: System) -> String {
 /// Format a caliper-sized length (um or mil).
 pub fn fine(si: f64, sys: System) -> String {
     units::show(si, Kind::Length, sys, true)
+}
+
+/// The label of a length difference per length of web: "mm/m", or "mil/in" in US units (the
+/// same number).
+pub fn strain_unit(sys: System) -> &'static str {
+    units::strain_label(sys)
 }
 
 /// Number with a fixed count of decimals.
@@ -67,33 +113,54 @@ pub fn json_text(v: &serde_json::Value) -> Result<String, serde_json::Error> {
     Ok(s)
 }
 
-/// A file-name stem from a case id: letters, digits, `-` and `_` kept, anything else `_`.
-pub fn file_stem(id: &str) -> String {
-    id.chars()
-        .map(|ch| {
-            if ch.is_ascii_alphanumeric() || ch == '-' || ch == '_' {
-                ch
-            } else {
-                '_'
+/// Prose lines longer than `width` broken at spaces, continuation lines indented like the line
+/// they continue; table lines (which already fit) and words longer than the width are left whole.
+pub fn wrap_prose(text: &str, width: usize) -> String {
+    let mut out = String::with_capacity(text.len() + text.len() / 16);
+    for line in text.split_inclusive('\n') {
+        let body = line.trim_end_matches('\n');
+        if body.chars().count() <= width || body.starts_with(['┌', '│', '╞', '├', '└', '|'])
+        {
+            out.push_str(line);
+            continue;
+        }
+        let indent: String = body.chars().take_while(|c| *c == ' ').collect();
+        let mut cur = String::new();
+        for word in body.split(' ').filter(|w| !w.is_empty()) {
+            let len = cur.chars().count();
+            if len > indent.len() && len + 1 + word.chars().count() > width {
+                out.push_str(cur.trim_end());
+                out.push('\n');
+                cur.clear();
             }
-        })
-        .collect()
+            if cur.is_empty() {
+                cur.push_str(&indent);
+            } else if cur.len() > indent.len() {
+                cur.push(' ');
+            }
+            cur.push_str(word);
+        }
+        out.push_str(cur.trim_end());
+        if line.ends_with('\n') {
+            out.push('\n');
+        }
+    }
+    out
 }
 
-/// Write a file atomically: to a temporary file beside it, then rename, so a failure never leaves
-/// a partial output file.
-pub fn write_atomic(path: &std::path::Path, content: &str) -> std::io::Result<()> {
-    let dir = path.parent().filter(|p| !p.as_os_str().is_empty());
-    let name = path
-        .file_name()
-        .map(|n| n.to_string_lossy().into_owned())
-        .unwrap_or_else(|| "out".into());
-    let tmp = match dir {
-        Some(d) => d.join(format!(".{name}.{}.tmp", std::process::id())),
-        None => std::path::PathBuf::from(format!(".{name}.{}.tmp", std::process::id())),
-    };
-    std::fs::write(&tmp, content)?;
-    std::fs::rename(&tmp, path).inspect_err(|_| {
-        let _ = std::fs::remove_file(&tmp);
-    })
+#[cfg(test)]
+mod wrap_tests {
+    use super::*;
+
+    #[test]
+    fn prose_wraps_with_its_indent_and_tables_stay() {
+        let s = wrap_prose("   Why: one two three four five six\n│ a ┆ b │\n", 16);
+        assert_eq!(
+            s,
+            "   Why: one two\n   three four\n   five six\n│ a ┆ b │\n"
+        );
+        for l in s.lines() {
+            assert!(l.chars().count() <= 16, "{l}");
+        }
+    }
 }

@@ -56,29 +56,89 @@ impl TriageRow {
     }
 }
 
-/// Triage table.
-pub fn triage_text(rows: &[TriageRow]) -> String {
+/// The columns of the triage CSV (SI; the spread is mm of extra length per m of web).
+const CSV_COLUMNS: [&str; 8] = [
+    "file",
+    "case",
+    "spread_mm_per_m",
+    "top_likelihood",
+    "defects",
+    "complaint",
+    "agrees",
+    "error",
+];
+
+/// The header line of the triage CSV.
+pub fn triage_csv_header() -> String {
+    csv_text(|w| w.write_record(CSV_COLUMNS))
+}
+
+/// Triage rows as CSV lines (no header); defects are separated by `;`.
+pub fn triage_csv_rows(rows: &[TriageRow]) -> String {
+    csv_text(|w| {
+        for r in rows {
+            let defects: Vec<&str> = r.defects.iter().map(|d| d.word()).collect();
+            w.write_record([
+                r.file.clone(),
+                r.case.clone(),
+                if r.error.is_some() {
+                    String::new()
+                } else {
+                    format!("{:.4}", r.spread_mm_per_m)
+                },
+                format!("{:.2}", r.top_likelihood),
+                defects.join(";"),
+                r.complaint.map(|c| c.word()).unwrap_or_default().into(),
+                r.agrees.map(|a| a.to_string()).unwrap_or_default(),
+                r.error
+                    .as_deref()
+                    .map(|e| e.lines().next().unwrap_or(""))
+                    .unwrap_or_default()
+                    .into(),
+            ])?;
+        }
+        Ok(())
+    })
+}
+
+fn csv_text(fill: impl FnOnce(&mut csv::Writer<Vec<u8>>) -> csv::Result<()>) -> String {
+    let mut w = csv::Writer::from_writer(Vec::new());
+    // Writing to memory cannot fail.
+    let _ = fill(&mut w);
+    let bytes = w.into_inner().unwrap_or_default();
+    String::from_utf8_lossy(&bytes).into_owned()
+}
+
+/// Triage table: the diagnosed rolls, worst first (the roll id is never wrapped, the file is
+/// shown by its name), then the files that could not be diagnosed, each with its whole message.
+pub fn triage_text(rows: &[TriageRow], sys: System) -> String {
+    let spread = format!("length spread {}", super::strain_unit(sys));
     let mut t = table(&[
         "roll",
         "file",
-        "spread mm/m",
+        &spread,
         "likely defects",
         "complaint",
         "agrees",
     ]);
+    let mut failed = String::new();
     for r in rows {
+        if let Some(e) = &r.error {
+            failed.push_str(&format!("  {}\n", e.trim_end()));
+            continue;
+        }
+        let name = std::path::Path::new(&r.file)
+            .file_name()
+            .map(|n| n.to_string_lossy().into_owned())
+            .unwrap_or_else(|| r.file.clone());
         t.add_row(vec![
             r.case.clone(),
-            r.file.clone(),
-            if r.error.is_some() {
-                "-".into()
+            name,
+            format!("{:.2}", r.spread_mm_per_m),
+            if r.defects.is_empty() {
+                "none".into()
             } else {
-                format!("{:.2}", r.spread_mm_per_m)
-            },
-            match &r.error {
-                Some(e) => format!("error: {}", e.lines().next().unwrap_or("")),
-                None if r.defects.is_empty() => "none".into(),
-                None => defect_list(&r.defects),
+                defect_list(&r.defects)
             },
             r.complaint
                 .map(words::defect)
@@ -91,7 +151,22 @@ pub fn triage_text(rows: &[TriageRow]) -> String {
             },
         ]);
     }
-    format!("{t}\nTriage uses the fast settings (no corrections re-run); run `rollsleuth diagnose CASE` on a roll for the full report.\n{SAFETY}\n")
+    if let Some(col) = t.column_mut(0) {
+        col.set_constraint(comfy_table::ColumnConstraint::ContentWidth);
+    }
+    let mut out = if t.row_count() > 0 {
+        format!("{t}\n")
+    } else {
+        "No roll could be diagnosed.\n".to_string()
+    };
+    if !failed.is_empty() {
+        out.push_str("Not diagnosed (bad input; fix and run again):\n");
+        out.push_str(&failed);
+    }
+    out.push_str("Triage uses the fast settings (no corrections re-run); run `rollsleuth diagnose CASE` on a roll for the full report.\n");
+    out.push_str(SAFETY);
+    out.push('\n');
+    out
 }
 
 /// Triage as JSON: the rolls, worst first, and the safety note.

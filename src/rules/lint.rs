@@ -28,6 +28,13 @@ impl Problems {
 pub fn lint(raw: &RawTable, file: &str) -> (Table, Vec<Lint>) {
     let mut p = Problems::default();
     check_format(raw, &mut p);
+    if raw.rules.is_empty() {
+        p.push(
+            raw.format.referenced.line(),
+            "-",
+            "the table has no rules, so no defect could ever be found; add at least one rule under `rules`".into(),
+        );
+    }
     let mut seen = BTreeSet::new();
     let mut rules = Vec::new();
     for r in &raw.rules {
@@ -99,8 +106,9 @@ fn check_header(r: &RawRule, p: &mut Problems) -> Option<(Defect, Likelihood)> {
             r.defect.referenced.line(),
             id,
             format!(
-                "unknown defect '{}'; use one of: {}",
+                "unknown defect '{}';{} use one of: {}",
                 r.defect.value,
+                did_you_mean(&r.defect.value, WORDS.iter().copied()),
                 WORDS.join(", ")
             ),
         );
@@ -139,8 +147,9 @@ fn check_condition(c: &RawCondition, id: &str, p: &mut Problems) -> Option<Condi
             line,
             id,
             format!(
-                "unknown feature '{}'; known features: {}",
+                "unknown feature '{}';{} known features: {}",
                 c.feature.value,
+                did_you_mean(&c.feature.value, Feature::ALL.iter().map(|f| f.word())),
                 Feature::ALL
                     .iter()
                     .map(|f| f.word())
@@ -172,6 +181,12 @@ fn check_reachable(c: &RawCondition, f: Feature, line: u64, id: &str, p: &mut Pr
             format!("condition on '{name}' needs `above` or `below`"),
         );
     }
+    for (word, v) in [("above", c.above), ("below", c.below)] {
+        if v.is_some_and(|v| !v.is_finite()) {
+            p.push(line, id, format!("`{word}` on '{name}' must be a finite number, not .nan or .inf; leave it out for no bound"));
+            return;
+        }
+    }
     let (lo, hi) = (
         c.above.unwrap_or(f64::NEG_INFINITY),
         c.below.unwrap_or(f64::INFINITY),
@@ -183,8 +198,45 @@ fn check_reachable(c: &RawCondition, f: Feature, line: u64, id: &str, p: &mut Pr
     }
 }
 
-/// A known action, with a factor in (0, 10) when it scales something. Returns the correction
-/// when its action is known.
+/// Plausible range of a correction's `factor` (dimensionless).
+pub const FACTOR_RANGE: (f64, f64) = (0.05, 20.0);
+
+/// Percentages stated in a correction's text ("about 15 %", "to 70%").
+fn stated_percentages(text: &str) -> Vec<f64> {
+    let mut out = Vec::new();
+    let b: Vec<char> = text.chars().collect();
+    for (i, ch) in b.iter().enumerate() {
+        if *ch != '%' {
+            continue;
+        }
+        let mut j = i;
+        while j > 0 && b[j - 1] == ' ' {
+            j -= 1;
+        }
+        let end = j;
+        while j > 0 && (b[j - 1].is_ascii_digit() || b[j - 1] == '.') {
+            j -= 1;
+        }
+        if let Ok(v) = b[j..end].iter().collect::<String>().parse::<f64>() {
+            out.push(v);
+        }
+    }
+    out
+}
+
+/// A factor agrees with a stated percentage N when it is N %, or N % less or more (within 2
+/// points).
+fn factor_matches_text(f: f64, text: &str) -> bool {
+    let pcts = stated_percentages(text);
+    pcts.is_empty()
+        || pcts.iter().any(|n| {
+            let x = n / 100.0;
+            [x, 1.0 - x, 1.0 + x].iter().any(|t| (f - t).abs() <= 0.02)
+        })
+}
+
+/// A known action, with a finite factor in [`FACTOR_RANGE`] when it scales something, matching
+/// the percentage its text states. Returns the correction when its action is known.
 fn check_correction(c: &RawCorrection, id: &str, p: &mut Problems) -> Option<Correction> {
     let line = c.action.referenced.line();
     let action = Action::from_word(&c.action.value);
@@ -193,8 +245,9 @@ fn check_correction(c: &RawCorrection, id: &str, p: &mut Problems) -> Option<Cor
             line,
             id,
             format!(
-                "unknown action '{}'; use one of: {}",
+                "unknown action '{}';{} use one of: {}",
                 c.action.value,
+                did_you_mean(&c.action.value, Action::ALL.iter().map(|a| a.word())),
                 Action::ALL
                     .iter()
                     .map(|a| a.word())
@@ -209,9 +262,19 @@ fn check_correction(c: &RawCorrection, id: &str, p: &mut Problems) -> Option<Cor
             id,
             format!("action '{}' needs a `factor` (e.g. 0.85)", c.action.value),
         ),
-        (true, Some(f)) if !(f > 0.0 && f < 10.0) => {
-            p.push(line, id, format!("factor {f} must be between 0 and 10"))
-        }
+        (true, Some(f)) if !(f >= FACTOR_RANGE.0 && f <= FACTOR_RANGE.1) => p.push(
+            line,
+            id,
+            format!(
+                "factor {f} must be between {} and {} (e.g. 0.85 for 15 % less)",
+                FACTOR_RANGE.0, FACTOR_RANGE.1
+            ),
+        ),
+        (true, Some(f)) if !factor_matches_text(f, &c.text) => p.push(
+            line,
+            id,
+            format!("factor {f} does not match the percentage the text states ('{}'); make them agree (e.g. factor 0.85 for \"about 15 % less\")", c.text),
+        ),
         _ => {}
     }
     Some(Correction {
@@ -251,4 +314,51 @@ fn separated(a: &Rule, b: &Rule) -> bool {
             }
         })
     })
+}
+
+/// " did you mean 'x'?" for the known word nearest to `word` (Levenshtein distance at most a
+/// third of its length, at least 2), else nothing.
+pub(crate) fn did_you_mean<'a>(word: &str, known: impl Iterator<Item = &'a str>) -> String {
+    let limit = (word.chars().count() / 3).max(2);
+    known
+        .map(|k| (edit_distance(word, k), k))
+        .filter(|(d, _)| *d <= limit)
+        .min()
+        .map(|(_, k)| format!(" did you mean '{k}'?"))
+        .unwrap_or_default()
+}
+
+/// Levenshtein edit distance (insertions, deletions, substitutions), by characters.
+pub(crate) fn edit_distance(a: &str, b: &str) -> usize {
+    let b: Vec<char> = b.chars().collect();
+    let mut prev: Vec<usize> = (0..=b.len()).collect();
+    for (i, ca) in a.chars().enumerate() {
+        let mut cur = vec![i + 1; b.len() + 1];
+        for (j, &cb) in b.iter().enumerate() {
+            let sub = prev[j] + usize::from(ca != cb);
+            cur[j + 1] = sub.min(prev[j + 1] + 1).min(cur[j] + 1);
+        }
+        prev = cur;
+    }
+    prev[b.len()]
+}
+
+#[cfg(test)]
+mod suggest_tests {
+    use super::*;
+
+    /// Worked examples of Levenshtein (1966) distance: kitten/sitting 3, flaw/lawn 2.
+    #[test]
+    fn edit_distance_matches_textbook_examples() {
+        assert_eq!(edit_distance("kitten", "sitting"), 3);
+        assert_eq!(edit_distance("flaw", "lawn"), 2);
+        assert_eq!(edit_distance("", "abc"), 3);
+    }
+
+    #[test]
+    fn suggests_the_nearest_known_word() {
+        let s = did_you_mean("lokal_peak_ratio", Feature::ALL.iter().map(|f| f.word()));
+        assert_eq!(s, " did you mean 'local_peak_ratio'?");
+        assert_eq!(did_you_mean("zzzz", ["baggy_lane"].into_iter()), "");
+    }
 }

@@ -22,7 +22,7 @@ use std::path::Path;
 /// The default rule table shipped with rollsleuth.
 pub const DEFAULT_RULES: &str = include_str!("../../rules/default.yaml");
 /// Name under which the default table is reported.
-pub const DEFAULT_NAME: &str = "<default: rules/default.yaml>";
+pub const DEFAULT_NAME: &str = "the built-in default table (print it with: rollsleuth rules show)";
 
 /// A rule table file.
 #[derive(Debug, Clone, Deserialize)]
@@ -134,7 +134,7 @@ pub struct Lint {
 /// Why a table cannot be used.
 #[derive(Debug, Clone, PartialEq, thiserror::Error)]
 pub enum RulesError {
-    #[error("{file}: cannot read the rule table: {message}. Fix: check the path.")]
+    #[error("{file}: the rule table {message}.")]
     Read { file: String, message: String },
     #[error("{file}: {}", syntax_message(.message))]
     Syntax { file: String, message: String },
@@ -172,7 +172,7 @@ pub fn load_default() -> Result<Table, RulesError> {
 /// Load a table from a file.
 pub fn load_file(path: &Path) -> Result<Table, RulesError> {
     let file = path.display().to_string();
-    let text = std::fs::read_to_string(path).map_err(|e| RulesError::Read {
+    let text = crate::input::read_text(path).map_err(|e| RulesError::Read {
         file: file.clone(),
         message: e.to_string(),
     })?;

@@ -19,6 +19,7 @@ use super::timeline::{moisture, timeline, MoistureHistory, StoreInput, Timeline}
 use crate::case::{Burgers, Material, Stack};
 use crate::interp::linear_extrap;
 use crate::lanes::Lanes;
+use crate::note::Note;
 use crate::numeric::thomas;
 use crate::units::DAY_S;
 use crate::winding::{Wound, SURFACE_ZONE_M};
@@ -104,7 +105,7 @@ pub struct Aged {
     /// Equilibrium moisture of each stretch, %.
     pub equilibrium_moisture_pct: Vec<f64>,
     pub hardness_map: HardnessMap,
-    pub notes: Vec<String>,
+    pub notes: Vec<Note>,
 }
 
 impl Aged {

@@ -6,7 +6,7 @@ use super::sorption::gab_moisture;
 use super::AgeOptions;
 use crate::case::{Material, Roll, Stance, Stretch, Wrap, WrapPermeance};
 use crate::lanes::Lanes;
-use crate::units::DAY_S;
+use crate::note::Note;
 
 /// What storage uses of a case: the web, the roll, the wraps' permeances, the storage history and
 /// the times at which the state is wanted.
@@ -55,7 +55,7 @@ pub struct Timeline {
     pub times: Vec<f64>,
     /// Stretches used (the given ones, plus an assumed one when output times go past storage).
     pub stretches: Vec<Stretch>,
-    pub notes: Vec<String>,
+    pub notes: Vec<Note>,
 }
 
 /// Build the time grid for a storage history, with step ends at the output times.
@@ -67,17 +67,12 @@ pub fn timeline(storage: &[Stretch], output_times_s: &[f64], opt: &AgeOptions) -
     if last_age > total + 1.0 {
         let mut s = stretches.last().cloned().unwrap_or_else(standard_stretch);
         s.duration_s = last_age - total;
-        notes.push(format!(
-            "measurements reach {:.1} d but storage history covers {:.1} d; the last {:.1} d assume {}",
-            last_age / DAY_S,
-            total / DAY_S,
-            s.duration_s / DAY_S,
-            if storage.is_empty() {
-                "23 C, 50 % RH, unwrapped"
-            } else {
-                "the last stretch continued"
-            }
-        ));
+        notes.push(Note::StorageExtended {
+            last_age_s: last_age,
+            covered_s: total,
+            added_s: s.duration_s,
+            standard: storage.is_empty(),
+        });
         stretches.push(s);
     }
     let mut cuts: Vec<(f64, usize)> = Vec::new();

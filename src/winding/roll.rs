@@ -78,7 +78,18 @@ pub enum WindError {
     /// Bad options.
     #[error("{0}")]
     Options(String),
+    /// No shared web strain carries the winder's tension (the bracket search hit its bound).
+    #[error("no web strain up to {limit} carries the wound-in tension of {tension_n_per_m:.4e} N/m; the tension is far above what the web can carry (check winding.tension, its unit, and material.md_modulus)")]
+    Tension {
+        /// Tension to be carried, N/m.
+        tension_n_per_m: f64,
+        /// Largest strain tried (dimensionless).
+        limit: f64,
+    },
 }
+
+/// Largest shared web strain the bracket search tries before it gives up (dimensionless).
+const MAX_SHARED_STRAIN: f64 = 1.0e3;
 
 /// Summary of one lane's wound-in state.
 #[derive(Debug, Clone, PartialEq, Serialize)]
@@ -147,7 +158,9 @@ pub struct Wound {
 }
 
 /// Find eps_0 so that sum w_i max(0, k_i (eps_0 + s_i)) = total (bisection; monotone).
-fn shared_strain(k: &[f64], s: &[f64], w: &[f64], total: f64) -> f64 {
+/// The bracket grows from the slackest possible strain by doubling steps, at most up to
+/// `MAX_SHARED_STRAIN` above it; past that, or on non-finite input, a typed error.
+fn shared_strain(k: &[f64], s: &[f64], w: &[f64], total: f64) -> Result<f64, WindError> {
     let f = |e: f64| -> f64 {
         k.iter()
             .zip(s)
@@ -157,11 +170,23 @@ fn shared_strain(k: &[f64], s: &[f64], w: &[f64], total: f64) -> f64 {
             - total
     };
     let smax = s.iter().cloned().fold(f64::NEG_INFINITY, f64::max);
-    let mut lo = -smax;
-    let mut hi = -smax + 1.0;
-    while f(hi) < 0.0 && hi < 1e3 {
-        hi *= 2.0;
+    let too_much = || WindError::Tension {
+        tension_n_per_m: total / w.iter().sum::<f64>(),
+        limit: MAX_SHARED_STRAIN,
+    };
+    if !smax.is_finite() || !total.is_finite() {
+        return Err(too_much());
     }
+    let mut lo = -smax;
+    let mut step = 1.0;
+    // at most log2(MAX_SHARED_STRAIN) = 10 doublings
+    while f(lo + step) < 0.0 {
+        if step >= MAX_SHARED_STRAIN {
+            return Err(too_much());
+        }
+        step *= 2.0;
+    }
+    let mut hi = lo + step;
     for _ in 0..100 {
         let mid = 0.5 * (lo + hi);
         if f(mid) < 0.0 {
@@ -173,7 +198,7 @@ fn shared_strain(k: &[f64], s: &[f64], w: &[f64], total: f64) -> f64 {
             break;
         }
     }
-    0.5 * (lo + hi)
+    Ok(0.5 * (lo + hi))
 }
 
 /// Lane model of a input.
@@ -247,7 +272,7 @@ fn accrete(
         }
         let rbar = radii.iter().zip(&widths).map(|(r, w)| r * w).sum::<f64>() / width;
         let t_web = input.winding.tension.at(2.0 * rbar.max(rk));
-        let e0 = shared_strain(&stiff, &offs, &widths, t_web * width);
+        let e0 = shared_strain(&stiff, &offs, &widths, t_web * width)?;
         for i in 0..n {
             tens[i] = stiff[i] * (e0 + offs[i]).max(0.0);
         }

@@ -24,8 +24,12 @@ impl Validator {
         let (lane_edges_m, lane_count) = self.lanes(raw.lanes.as_ref(), width);
         let lab_creep = self.lab_creep(&raw.lab_creep);
         let converting = self.converting(&raw, roll.as_ref(), winding.as_ref());
+        if let (Some(m), Some(r), Some(ps)) = (&material, &roll, &profiles) {
+            self.profile_scale(&raw.profiles, ps, m.caliper_m, r.diameter_m);
+        }
         self.warn_taper(roll.as_ref(), winding.as_ref());
         self.warn_nip(material.as_ref(), winding.as_ref());
+        self.physical(&raw, material.as_ref(), winding.as_ref());
         Some(Case {
             source: file.to_string(),
             id: raw.case.clone(),

@@ -10,6 +10,7 @@ mod hardness;
 mod lab_creep;
 mod lanes;
 mod material;
+mod physical;
 mod profiles;
 mod roll;
 mod storage;

@@ -1,8 +1,9 @@
 //! `profiles`: cross-width measurements given inline or as a CSV file, converted to SI and
 //! checked against the roll width.
 
+use super::super::csv::{read_profile, Columns};
 use super::super::model::*;
-use super::super::raw::RawProfile;
+use super::super::raw::{RawColumns, RawProfile};
 use super::checks::{line_of, Range, Validator};
 use crate::units::Kind;
 use serde_saphyr::Spanned;
@@ -10,6 +11,17 @@ use std::path::PathBuf;
 
 /// Numbers with the line they came from.
 type Points = Vec<(f64, Option<u64>)>;
+
+/// Positions, values, the file they came from, and the (position, value) units of a CSV header.
+type PointsFrom = (Points, Points, String, (Option<String>, Option<String>));
+
+/// The units a profile's positions and values are written in.
+struct Units {
+    position: String,
+    value: String,
+}
+/// Most positions read per profile (a scanner exports a few hundred over a machine width).
+pub(in crate::case) const MAX_PROFILE_POINTS: usize = 5000;
 
 impl Validator {
     pub(super) fn profiles(
@@ -39,17 +51,24 @@ impl Validator {
         let f = |n: &str| format!("profiles[{i}].{n}");
         let what = self.word(&p.what, &f("what"))?;
         let age = self.q(&p.age, &f("age"), Kind::Duration, Range::NonNegative);
-        let val_unit = p.unit.clone().unwrap_or_default();
         let line = Some(line_of(&p.what));
-        if what != Measure::Hardness && val_unit.is_empty() {
+        let (positions, values, origin, header_units) = self.points(i, p, file)?;
+        let units = Units {
+            position: p
+                .position_unit
+                .clone()
+                .or(header_units.0)
+                .unwrap_or_else(|| "mm".to_string()),
+            value: p.unit.clone().or(header_units.1).unwrap_or_default(),
+        };
+        if what != Measure::Hardness && units.value.is_empty() {
             self.push(
                 &f("unit"),
                 line,
-                "caliper and diameter values need a unit, e.g. `unit: um` or `unit: mm`".into(),
+                "caliper and diameter values need a unit, e.g. `unit: um` or `unit: mm` (or in the CSV header, `value (um)`)".into(),
             );
             return None;
         }
-        let (positions, values, origin) = self.points(i, p, file)?;
         if positions.len() != values.len() {
             self.push(
                 &f("values"),
@@ -62,6 +81,17 @@ impl Validator {
             );
             return None;
         }
+        if positions.len() > MAX_PROFILE_POINTS {
+            self.push(
+                &f("positions"),
+                line,
+                format!(
+                    "{} positions; at most {MAX_PROFILE_POINTS} are read per profile. Fix: average the scan onto fewer positions (every 5-10 mm is plenty for lanes)",
+                    positions.len()
+                ),
+            );
+            return None;
+        }
         if positions.len() < 2 {
             self.push(
                 &f("positions"),
@@ -70,7 +100,7 @@ impl Validator {
             );
             return None;
         }
-        let (pos_si, val_si) = self.points_si(i, p, what, &positions, &values, width)?;
+        let (pos_si, val_si) = self.points_si(i, &units, what, &positions, &values, width)?;
         Some(Profile {
             what,
             age_s: age?,
@@ -80,15 +110,17 @@ impl Validator {
         })
     }
 
-    /// Positions and values as written: inline lists or a CSV file, and where they came from.
-    fn points(&mut self, i: usize, p: &RawProfile, file: &str) -> Option<(Points, Points, String)> {
+    /// Positions and values as written: inline lists or a CSV file, where they came from, and
+    /// the units a CSV header gives.
+    fn points(&mut self, i: usize, p: &RawProfile, file: &str) -> Option<PointsFrom> {
         let f = |n: &str| format!("profiles[{i}].{n}");
         match (&p.csv, &p.positions, &p.values) {
-            (Some(c), None, None) => self.csv_points(c, &f("csv")),
+            (Some(c), None, None) => self.csv_points(c, p.columns.as_ref(), &f("csv")),
             (None, Some(ps), Some(vs)) => Some((
                 ps.value.iter().map(|&x| (x, Some(line_of(ps)))).collect(),
                 vs.value.iter().map(|&x| (x, Some(line_of(vs)))).collect(),
                 file.to_string(),
+                (None, None),
             )),
             (Some(c), _, _) => {
                 self.push(
@@ -109,17 +141,33 @@ impl Validator {
         }
     }
 
-    fn csv_points(&mut self, c: &Spanned<String>, field: &str) -> Option<(Points, Points, String)> {
+    fn csv_points(
+        &mut self,
+        c: &Spanned<String>,
+        columns: Option<&RawColumns>,
+        field: &str,
+    ) -> Option<PointsFrom> {
         let path = match &self.base {
             Some(b) => b.join(&c.value),
             None => PathBuf::from(&c.value),
         };
-        match super::super::csv::read_profile(&path) {
-            Ok(rows) => Some((
-                rows.iter().map(|r| (r.0, None)).collect(),
-                rows.iter().map(|r| (r.1, None)).collect(),
-                path.display().to_string(),
-            )),
+        let cols = match columns {
+            Some(m) => Columns {
+                position: &m.position,
+                value: &m.value,
+            },
+            None => Columns::default(),
+        };
+        match read_profile(&path, &cols) {
+            Ok(read) => Some({
+                self.warnings.extend(read.notes);
+                (
+                    read.rows.iter().map(|r| (r.0, None)).collect(),
+                    read.rows.iter().map(|r| (r.1, None)).collect(),
+                    path.display().to_string(),
+                    (read.position_unit, read.value_unit),
+                )
+            }),
             Err(message) => {
                 self.push(field, Some(line_of(c)), message);
                 None
@@ -131,27 +179,26 @@ impl Validator {
     fn points_si(
         &mut self,
         i: usize,
-        p: &RawProfile,
+        units: &Units,
         what: Measure,
         positions: &Points,
         values: &Points,
         width: Option<f64>,
     ) -> Option<(Vec<f64>, Vec<f64>)> {
         let f = |n: &str| format!("profiles[{i}].{n}");
-        let pos_unit = p.position_unit.clone().unwrap_or_else(|| "mm".to_string());
-        let val_unit = p.unit.clone().unwrap_or_default();
+        let (pos_unit, val_unit) = (&units.position, &units.value);
         let mut pos_si = Vec::new();
         let mut val_si = Vec::new();
         let mut ok = true;
         for (k, ((x, xl), (v, vl))) in positions.iter().zip(values.iter()).enumerate() {
             let xs = self.num_unit(
                 *x,
-                &pos_unit,
+                pos_unit,
                 &f(&format!("positions[{k}]")),
                 *xl,
                 Kind::Length,
             );
-            let vs = self.value_si(*v, *vl, what, &val_unit, &f(&format!("values[{k}]")));
+            let vs = self.value_si(*v, *vl, what, val_unit, &f(&format!("values[{k}]")));
             let (Some(x), Some(v)) = (xs, vs) else {
                 ok = false;
                 continue;
@@ -215,4 +262,74 @@ impl Validator {
         }
         true
     }
+}
+
+/// Band a caliper profile's mean must lie in, as a multiple of the material caliper (common
+/// practice: a real caliper profile varies by a few per cent, never by a factor of two).
+pub(in crate::case) const CALIPER_BAND: (f64, f64) = (0.5, 2.0);
+/// Band a diameter profile's mean must lie in, as a multiple of the stated roll diameter.
+pub(in crate::case) const DIAMETER_BAND: (f64, f64) = (0.8, 1.25);
+
+impl Validator {
+    /// A caliper or diameter profile whose mean is far from the material caliper or the roll
+    /// diameter was most likely written in another unit than the one it is labelled with.
+    pub(super) fn profile_scale(
+        &mut self,
+        raw: &[RawProfile],
+        profiles: &[Profile],
+        caliper_m: f64,
+        diameter_m: f64,
+    ) {
+        for (i, (r, p)) in raw.iter().zip(profiles).enumerate() {
+            let (nominal, band, name, fine) = match p.what {
+                Measure::Caliper => (caliper_m, CALIPER_BAND, "material.caliper", true),
+                Measure::Diameter => (diameter_m, DIAMETER_BAND, "roll.diameter", false),
+                Measure::Hardness => continue,
+            };
+            let mean = p.values.iter().sum::<f64>() / p.values.len().max(1) as f64;
+            let ratio = mean / nominal;
+            if (band.0..=band.1).contains(&ratio) {
+                continue;
+            }
+            let show = |v| crate::units::show(v, Kind::Length, crate::units::System::Si, fine);
+            let hint = r
+                .unit
+                .as_deref()
+                .and_then(|labelled| likely_unit(mean, labelled, nominal, band))
+                .map(|u| {
+                    format!(
+                        "; the values look like {u} labelled {}: fix `unit`",
+                        r.unit.as_deref().unwrap_or("")
+                    )
+                })
+                .unwrap_or_else(|| "; check the profile's unit and the nominal value".into());
+            self.push(
+                &format!("profiles[{i}].unit"),
+                Some(line_of(&r.what)),
+                format!(
+                    "the mean of this profile is {} = {ratio:.2} x {name} ({}), outside x{}..x{}{hint}",
+                    show(mean),
+                    show(nominal),
+                    band.0,
+                    band.1
+                ),
+            );
+        }
+    }
+}
+
+/// The length unit the numbers were probably written in: the one that brings the mean into the
+/// band, when the unit they are labelled with does not.
+fn likely_unit(
+    mean_si: f64,
+    labelled: &str,
+    nominal: f64,
+    band: (f64, f64),
+) -> Option<&'static str> {
+    let factor = |u: &str| crate::units::parse(&format!("1 {u}"), Kind::Length).ok();
+    let written = mean_si / factor(labelled)?;
+    ["um", "mil", "mm", "cm", "in", "m"]
+        .into_iter()
+        .filter(|u| !u.eq_ignore_ascii_case(labelled))
+        .find(|u| factor(u).is_some_and(|f| (band.0..=band.1).contains(&(written * f / nominal))))
 }

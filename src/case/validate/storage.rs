@@ -7,8 +7,24 @@ use super::checks::{Range, Validator};
 use crate::units::Kind;
 use Range::{Between, Positive};
 
+/// Most storage stretches in one case.
+pub(in crate::case) const MAX_STRETCHES: usize = 100;
+/// Longest total storage, s (20 years).
+pub(in crate::case) const MAX_STORAGE_S: f64 = 20.0 * 365.25 * crate::units::DAY_S;
+
 impl Validator {
     pub(super) fn storage(&mut self, s: &[RawStretch]) -> Option<Vec<Stretch>> {
+        if s.len() > MAX_STRETCHES {
+            self.push(
+                "storage",
+                s.get(MAX_STRETCHES).map(|st| super::checks::line_of(&st.duration)),
+                format!(
+                    "{} storage stretches; at most {MAX_STRETCHES} are read. Fix: merge stretches with similar temperature and humidity",
+                    s.len()
+                ),
+            );
+            return None;
+        }
         let mut out = Vec::new();
         let mut ok = true;
         for (i, st) in s.iter().enumerate() {
@@ -16,6 +32,18 @@ impl Validator {
                 Some(x) => out.push(x),
                 None => ok = false,
             }
+        }
+        let total: f64 = out.iter().map(|x: &Stretch| x.duration_s).sum();
+        if ok && total > MAX_STORAGE_S {
+            self.push(
+                "storage",
+                s.first().map(|st| super::checks::line_of(&st.duration)),
+                format!(
+                    "the stretches add up to {:.0} days, over the 20 years this model is meant for; check the durations' units (e.g. \"30 d\")",
+                    total / crate::units::DAY_S
+                ),
+            );
+            return None;
         }
         ok.then_some(out)
     }

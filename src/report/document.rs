@@ -1,0 +1,354 @@
+//! The root-cause report's content in reader order, as blocks of plain text that `html` and
+//! `markdown` render (and escape) the same way: headline, findings with evidence, root cause and
+//! corrections, plots, tables, inputs, defaults used, provenance and the safety note.
+
+use super::document_tables;
+use super::report_data::ReportData;
+use super::{pos, q};
+use crate::units::{self, Kind, System};
+use crate::vocab::{Defect, Feature};
+
+/// A run of text, optionally bold, optionally tagged with a key (HTML `data-key`) so tests can
+/// find the number.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Span {
+    pub text: String,
+    pub strong: bool,
+    pub key: Option<String>,
+}
+
+/// A table cell: text and an optional key.
+pub type Cell = Span;
+
+/// A block of the report.
+#[derive(Debug, Clone, PartialEq)]
+pub enum Block {
+    /// Heading level (1..=3), text, anchor id.
+    Heading(u8, String, &'static str),
+    /// A paragraph.
+    Para(Vec<Span>),
+    /// A bulleted list of paragraphs.
+    List(Vec<Vec<Span>>),
+    /// A table with a header row.
+    Table {
+        head: Vec<String>,
+        rows: Vec<Vec<Cell>>,
+    },
+    /// Where the plots go.
+    Plots,
+    /// A boxed note (the headline, the safety note).
+    Boxed(Vec<Vec<Span>>),
+}
+
+/// Plain text.
+pub fn t(s: impl Into<String>) -> Span {
+    Span {
+        text: s.into(),
+        strong: false,
+        key: None,
+    }
+}
+
+/// Bold text.
+pub fn b(s: impl Into<String>) -> Span {
+    Span {
+        text: s.into(),
+        strong: true,
+        key: None,
+    }
+}
+
+/// Text carrying a key.
+pub fn k(s: impl Into<String>, key: impl Into<String>) -> Span {
+    Span {
+        text: s.into(),
+        strong: false,
+        key: Some(key.into()),
+    }
+}
+
+/// A defect in plain language.
+fn plain(defect: &Defect) -> String {
+    super::words::defect(*defect).to_string()
+}
+
+/// A length difference per length (mm/m; mil/in is the same number), two decimals.
+fn per_mille(v: f64, sys: System) -> String {
+    format!("{v:.2} {}", units::per_mille_label(sys))
+}
+
+/// A feature value in the unit its name carries, in the report's unit system.
+pub fn feature_value(f: &Feature, v: f64, sys: System) -> String {
+    let name = f.word();
+    if name.ends_with("_mm_per_m") {
+        format!("{v:.3} {}", units::per_mille_label(sys))
+    } else if name.ends_with("_mm") {
+        let d = units::display(Kind::Length, sys, false);
+        format!("{:.3} {}", d.from_si(v * 1e-3), d.label)
+    } else if name.ends_with("_mpa") {
+        match sys {
+            System::Si => format!("{v:.3} MPa"),
+            System::Us => {
+                let d = units::display(Kind::Pressure, sys, false);
+                format!("{:.1} {}", d.from_si(v * 1e6), d.label)
+            }
+        }
+    } else if name.ends_with("_kpa") {
+        let d = units::display(Kind::Pressure, sys, false);
+        format!("{:.3} {}", d.from_si(v * 1e3), d.label)
+    } else if name.ends_with("_pct") {
+        format!("{v:.3} %")
+    } else {
+        format!("{v:.3}")
+    }
+}
+
+fn condition(name: &Feature, above: Option<f64>, below: Option<f64>, sys: System) -> String {
+    let v = |x: f64| feature_value(name, x, sys);
+    match (above, below) {
+        (Some(a), Some(b)) => format!("between {} and {}", v(a), v(b)),
+        (Some(a), None) => format!("above {}", v(a)),
+        (None, Some(b)) => format!("below {}", v(b)),
+        _ => String::new(),
+    }
+}
+
+/// The report's blocks.
+pub fn build(r: &ReportData) -> Vec<Block> {
+    let mut v = Vec::new();
+    headline(r, &mut v);
+    findings(r, &mut v);
+    root_cause(r, &mut v);
+    v.push(Block::Heading(2, "Plots".into(), "plots"));
+    v.push(Block::Plots);
+    document_tables::tables(r, &mut v);
+    document_tables::inputs(r, &mut v);
+    document_tables::provenance(r, &mut v);
+    v
+}
+
+fn headline(r: &ReportData, v: &mut Vec<Block>) {
+    let (c, d, sys) = (r.case, r.diagnosis, r.sys);
+    v.push(Block::Heading(
+        1,
+        format!("Root-cause report: {}", c.id),
+        "top",
+    ));
+    if !c.title.is_empty() {
+        v.push(Block::Para(vec![t(c.title.clone())]));
+    }
+    let mut lines = Vec::new();
+    lines.push(vec![
+        b("Roll: "),
+        t(format!(
+            "{}, {} grade, {} wide, {} diameter on a {} core, caliper {}.",
+            c.id,
+            format!("{:?}", c.material.grade).to_lowercase(),
+            q(c.roll.width_m, Kind::Length, sys),
+            q(c.roll.diameter_m, Kind::Length, sys),
+            q(c.roll.core_diameter_m, Kind::Length, sys),
+            super::fine(c.material.caliper_m, sys),
+        )),
+    ]);
+    lines.push(vec![
+        b("Complaint: "),
+        t(match &c.complaint {
+            Some(x) => format!("{}.", super::words::complaint(x)),
+            None => "none stated.".into(),
+        }),
+    ]);
+    let found = if d.findings.is_empty() {
+        "no rule fired: the roll is predicted to unwind within the rules' thresholds".to_string()
+    } else {
+        d.findings
+            .iter()
+            .map(|f| format!("{} ({} likelihood)", plain(&f.defect), f.likelihood))
+            .collect::<Vec<_>>()
+            .join("; ")
+    };
+    lines.push(vec![
+        b("Found: "),
+        t(format!(
+            "{found}. Predicted length spread across the width at unwind: "
+        )),
+        k(per_mille(d.spread_mm_per_m, sys), "spread"),
+        t("."),
+    ]);
+    if let Some(cause) = d.causes.iter().max_by(|a, b| a.share.total_cmp(&b.share)) {
+        lines.push(vec![
+            b("Main cause: "),
+            t(format!(
+                "{} ({:.0} % of the spread).",
+                super::words::cause(cause.cause),
+                cause.share * 100.0
+            )),
+        ]);
+    }
+    lines.push(vec![
+        b("Agreement with the complaint: "),
+        t(match &d.agreement {
+            None => "no complaint to compare with.".to_string(),
+            Some(a) => match (a.agrees, a.rank) {
+                (true, Some(r)) => format!("the prediction agrees (finding {r})."),
+                (true, None) => "the prediction agrees (no defect predicted).".into(),
+                (false, _) => "the prediction does not show it: check the measurements, the storage history and the rules' thresholds.".into(),
+            },
+        }),
+    ]);
+    v.push(Block::Boxed(lines));
+}
+
+fn lanes_text(f: &crate::diagnose::Finding, sys: System) -> String {
+    if f.lanes.is_empty() {
+        return "whole roll".into();
+    }
+    f.lanes
+        .iter()
+        .map(|l| {
+            format!(
+                "lane {} at {} ({:+.2} {})",
+                l.index,
+                pos(l.position_m, sys),
+                l.excess_mm_per_m,
+                units::per_mille_label(sys)
+            )
+        })
+        .collect::<Vec<_>>()
+        .join(", ")
+}
+
+fn findings(r: &ReportData, v: &mut Vec<Block>) {
+    let (d, sys) = (r.diagnosis, r.sys);
+    v.push(Block::Heading(2, "Findings".into(), "findings"));
+    if d.findings.is_empty() {
+        v.push(Block::Para(vec![t(
+            "No finding: no rule fired. The roll is predicted to unwind within the rules' thresholds.",
+        )]));
+    }
+    for (i, f) in d.findings.iter().enumerate() {
+        v.push(Block::Heading(
+            3,
+            format!(
+                "{}. {} ({} likelihood, rule {})",
+                i + 1,
+                plain(&f.defect),
+                f.likelihood,
+                f.rule
+            ),
+            "",
+        ));
+        v.push(Block::Para(vec![b("Why: "), t(f.mechanism.clone())]));
+        v.push(Block::Para(vec![b("Where: "), t(lanes_text(f, sys))]));
+        v.push(Block::Table {
+            head: vec![
+                "evidence".into(),
+                "value".into(),
+                "fires when".into(),
+                "source".into(),
+            ],
+            rows: f
+                .evidence
+                .iter()
+                .map(|e| {
+                    vec![
+                        t(e.feature.word()),
+                        k(
+                            feature_value(&e.feature, e.value, sys),
+                            format!("finding{}.{}", i + 1, e.feature),
+                        ),
+                        t(condition(&e.feature, e.above, e.below, sys)),
+                        t(e.source.clone()),
+                    ]
+                })
+                .collect(),
+        });
+    }
+}
+
+fn root_cause(r: &ReportData, v: &mut Vec<Block>) {
+    let (d, sys) = (r.diagnosis, r.sys);
+    let pm = units::per_mille_label(sys);
+    v.push(Block::Heading(
+        2,
+        "Root cause and corrections".into(),
+        "root-cause",
+    ));
+    if d.causes.is_empty() {
+        v.push(Block::Para(vec![t(
+            "Causes were not attributed (the model was not re-run).",
+        )]));
+    } else {
+        v.push(Block::Para(vec![t(
+            "Each cause removed in turn from the model; its share is the reduction of the spread, normalised to add to 100 %.",
+        )]));
+        v.push(Block::Table {
+            head: vec![
+                "cause".into(),
+                "removed as".into(),
+                format!("spread without it ({pm})"),
+                "share".into(),
+            ],
+            rows: d
+                .causes
+                .iter()
+                .map(|c| {
+                    vec![
+                        t(super::words::cause(c.cause)),
+                        t(super::words::removed(c.cause)),
+                        t(format!("{:.2}", c.spread_without_mm_per_m)),
+                        k(
+                            format!("{:.0} %", c.share * 100.0),
+                            format!("share.{}", super::words::cause(c.cause)),
+                        ),
+                    ]
+                })
+                .collect(),
+        });
+    }
+    let rows = correction_rows(d);
+    if !rows.is_empty() {
+        v.push(Block::Para(vec![t(
+            "Each correction applied to the model and the roll re-run through winding and storage:",
+        )]));
+        v.push(Block::Table {
+            head: vec![
+                "correction (finding)".into(),
+                format!("spread before ({pm})"),
+                format!("after ({pm})"),
+                "change".into(),
+                "why".into(),
+            ],
+            rows,
+        });
+    }
+}
+
+/// One row per correction of every finding: before, after, change, why.
+fn correction_rows(d: &crate::diagnose::Diagnosis) -> Vec<Vec<Span>> {
+    let mut rows = Vec::new();
+    for (i, f) in d.findings.iter().enumerate() {
+        for c in &f.corrections {
+            let ran = c.spread_after_mm_per_m.is_finite();
+            let (after, change) = if ran {
+                (
+                    format!("{:.2}", c.spread_after_mm_per_m),
+                    super::pct(
+                        (c.spread_after_mm_per_m - c.spread_before_mm_per_m)
+                            / c.spread_before_mm_per_m.abs().max(1e-12),
+                        0,
+                    ),
+                )
+            } else {
+                ("not run".into(), String::new())
+            };
+            rows.push(vec![
+                t(format!("{} ({})", c.text, plain(&f.defect))),
+                t(format!("{:.2}", c.spread_before_mm_per_m)),
+                k(after, format!("after.{}.{}", i + 1, c.action)),
+                t(change),
+                t(c.why.clone()),
+            ]);
+        }
+    }
+    rows
+}

@@ -1,0 +1,317 @@
+//! Hostile and careless inputs against the built binary, each run under a 10 s wall-clock kill
+//! and an address-space cap (`prlimit --as`, util-linux). Every run must end with exit 0/1 and no
+//! panic, or exit 2 with a message that names the problem.
+
+use std::io::Read;
+use std::path::{Path, PathBuf};
+use std::process::{Command, Stdio};
+use std::time::{Duration, Instant};
+
+const BIN: &str = env!("CARGO_BIN_EXE_rollsleuth");
+const DEMO: &str = include_str!("../field_cases/nordvik_pm3_caliper_band.yaml");
+/// Address-space cap for one run, bytes.
+const MEM_CAP: u64 = 1 << 30;
+
+struct Run {
+    code: i32,
+    stdout: String,
+    stderr: String,
+}
+
+/// Run the binary with a memory cap; kill it after 10 s (a hang fails the test).
+fn run(args: &[&str]) -> Run {
+    let mut cmd = if Path::new("/usr/bin/prlimit").exists() {
+        let mut c = Command::new("/usr/bin/prlimit");
+        c.arg(format!("--as={MEM_CAP}")).arg(BIN);
+        c
+    } else {
+        Command::new(BIN)
+    };
+    let mut child = cmd
+        .args(args)
+        .env_remove("ROLLSLEUTH_MAX_INPUT_SIZE")
+        .stdin(Stdio::null())
+        .stdout(Stdio::piped())
+        .stderr(Stdio::piped())
+        .spawn()
+        .expect("spawn rollsleuth");
+    let mut out = child.stdout.take().unwrap();
+    let mut err = child.stderr.take().unwrap();
+    let t_out = std::thread::spawn(move || {
+        let mut s = String::new();
+        let _ = out.read_to_string(&mut s);
+        s
+    });
+    let t_err = std::thread::spawn(move || {
+        let mut s = String::new();
+        let _ = err.read_to_string(&mut s);
+        s
+    });
+    let start = Instant::now();
+    let status = loop {
+        if let Some(st) = child.try_wait().unwrap() {
+            break st;
+        }
+        if start.elapsed() > Duration::from_secs(10) {
+            let _ = child.kill();
+            let _ = child.wait();
+            panic!("rollsleuth {args:?} ran over 10 s (killed)");
+        }
+        std::thread::sleep(Duration::from_millis(20));
+    };
+    let r = Run {
+        code: status.code().unwrap_or(-1),
+        stdout: t_out.join().unwrap(),
+        stderr: t_err.join().unwrap(),
+    };
+    assert!(
+        !r.stderr.contains("panicked"),
+        "panic on {args:?}: {}",
+        r.stderr
+    );
+    assert!(
+        (0..=2).contains(&r.code),
+        "exit {} on {args:?}: {}",
+        r.code,
+        r.stderr
+    );
+    r
+}
+
+/// Exit 2 with a message containing every word given.
+fn refused(r: &Run, words: &[&str]) {
+    assert_eq!(r.code, 2, "exit 2 expected: {}{}", r.stdout, r.stderr);
+    for w in words {
+        assert!(r.stderr.contains(w), "'{w}' not in: {}", r.stderr);
+    }
+    for jargon in [
+        "DuplicateKeyPolicy",
+        "from_str_multiple",
+        "budget breached",
+        "invalid u32",
+    ] {
+        assert!(!r.stderr.contains(jargon), "jargon in: {}", r.stderr);
+    }
+}
+
+fn write(dir: &Path, name: &str, text: &str) -> PathBuf {
+    let p = dir.join(name);
+    std::fs::write(&p, text).unwrap();
+    p
+}
+
+fn s(p: &Path) -> &str {
+    p.to_str().unwrap()
+}
+
+#[test]
+fn a_unit_slip_in_tension_is_refused_not_a_hang() {
+    let d = tempfile::tempdir().unwrap();
+    let case = write(
+        d.path(),
+        "t.yaml",
+        &DEMO.replacen("tension: \"2.0 pli\"", "tension: \"380 N/mm\"", 1),
+    );
+    refused(&run(&["stress", s(&case)]), &["winding.tension", "t.yaml:"]);
+}
+
+#[test]
+fn a_nip_far_above_the_tension_is_refused() {
+    let d = tempfile::tempdir().unwrap();
+    let case = write(
+        d.path(),
+        "t.yaml",
+        &DEMO.replacen("nip: \"10 pli\"", "nip: \"10 kN/mm\"", 1),
+    );
+    refused(&run(&["check", s(&case)]), &["winding.nip"]);
+}
+
+#[test]
+fn devices_and_fifos_are_refused_before_reading() {
+    refused(&run(&["check", "/dev/zero"]), &["not a regular file"]);
+    refused(
+        &run(&["rules", "lint", "/dev/zero"]),
+        &["not a regular file"],
+    );
+    let d = tempfile::tempdir().unwrap();
+    let fifo = d.path().join("pipe.yaml");
+    let ok = Command::new("mkfifo").arg(&fifo).status().unwrap();
+    assert!(ok.success());
+    refused(&run(&["check", s(&fifo)]), &["named pipe"]);
+    // a FIFO as a profile CSV
+    let case = write(
+        d.path(),
+        "c.yaml",
+        &DEMO.replacen(
+            "    positions: [50, 150, 250, 350, 450, 550, 650, 750, 850, 950, 1050, 1150, 1250, 1350, 1450, 1550]\n    values: [71.8, 72.1, 71.9, 72.0, 72.2, 72.6, 74.3, 72.5, 72.0, 71.9, 72.1, 71.8, 72.0, 71.9, 72.1, 71.7]\n",
+            "    csv: pipe.yaml\n",
+            1,
+        ),
+    );
+    refused(&run(&["check", s(&case)]), &["named pipe"]);
+}
+
+#[test]
+fn triage_skips_fifos_and_reads_upper_case_extensions() {
+    let d = tempfile::tempdir().unwrap();
+    write(d.path(), "UPPER.YAML", DEMO);
+    let ok = Command::new("mkfifo")
+        .arg(d.path().join("stuck.yaml"))
+        .status()
+        .unwrap();
+    assert!(ok.success());
+    let r = run(&["triage", s(d.path())]);
+    assert!(r.stdout.contains("UPPER.YAML"), "{}", r.stdout);
+    assert!(r.stdout.contains("named pipe"), "{}", r.stdout);
+}
+
+#[test]
+fn oversized_files_are_refused_unless_the_limit_is_raised() {
+    let d = tempfile::tempdir().unwrap();
+    let mut big = DEMO.to_string();
+    big.push_str(&format!("# {}\n", "x".repeat(9 << 20)));
+    let case = write(d.path(), "big.yaml", &big);
+    refused(
+        &run(&["check", s(&case)]),
+        &["input limit", "--max-input-size"],
+    );
+    let r = run(&["--max-input-size", "20000000", "check", s(&case)]);
+    assert_eq!(r.code, 0, "{}", r.stderr);
+}
+
+#[test]
+fn non_utf8_files_get_a_clear_message() {
+    let d = tempfile::tempdir().unwrap();
+    let p = d.path().join("latin1.yaml");
+    let mut bytes = DEMO.as_bytes().to_vec();
+    bytes.extend_from_slice(b"# caf\xe9\n");
+    std::fs::write(&p, bytes).unwrap();
+    refused(&run(&["check", s(&p)]), &["not UTF-8", "latin1.yaml"]);
+}
+
+#[test]
+fn too_many_storage_stretches_or_profile_points_are_refused() {
+    let d = tempfile::tempdir().unwrap();
+    let stretch = "  - { duration: \"1 d\", temperature: \"20 C\", rh: \"50 %\" }\n";
+    let case = write(
+        d.path(),
+        "s.yaml",
+        &format!("{DEMO}{}", stretch.repeat(5000)),
+    );
+    refused(&run(&["diagnose", s(&case)]), &["storage stretches"]);
+    let long = write(
+        d.path(),
+        "l.yaml",
+        &DEMO.replacen("duration: \"9 d\"", "duration: \"9000 y\"", 1),
+    );
+    refused(&run(&["age", s(&long)]), &["20 years"]);
+}
+
+#[test]
+fn a_dense_scan_without_lanes_is_merged_with_a_note() {
+    let d = tempfile::tempdir().unwrap();
+    let n = 3000;
+    let mut csv = String::from("position,value\n");
+    for k in 0..n {
+        let x = 1600.0 * (k as f64 + 0.5) / n as f64;
+        csv.push_str(&format!("{x:.3},{:.2}\n", 72.0 + 0.5 * (x / 200.0).sin()));
+    }
+    write(d.path(), "scan.csv", &csv);
+    let case = write(
+        d.path(),
+        "c.yaml",
+        &DEMO.replacen(
+            "    positions: [50, 150, 250, 350, 450, 550, 650, 750, 850, 950, 1050, 1150, 1250, 1350, 1450, 1550]\n    values: [71.8, 72.1, 71.9, 72.0, 72.2, 72.6, 74.3, 72.5, 72.0, 71.9, 72.1, 71.8, 72.0, 71.9, 72.1, 71.7]\n",
+            "    csv: scan.csv\n",
+            1,
+        ),
+    );
+    let r = run(&["lanes", s(&case)]);
+    assert_eq!(r.code, 0, "{}", r.stderr);
+    assert!(
+        r.stderr.contains("merged into"),
+        "a note, on standard error: {}",
+        r.stderr
+    );
+}
+
+#[test]
+fn bad_rule_tables_fail_lint() {
+    let d = tempfile::tempdir().unwrap();
+    let rules = include_str!("../rules/default.yaml");
+    let nan = write(
+        d.path(),
+        "nan.yaml",
+        &rules.replacen("above: 0.5,", "above: .nan,", 1),
+    );
+    let r = run(&["rules", "lint", s(&nan)]);
+    refused(&r, &["finite"]);
+    let empty = write(d.path(), "empty.yaml", "format: 1\nrules: []\n");
+    refused(&run(&["rules", "lint", s(&empty)]), &["no rules"]);
+    let tiny = write(
+        d.path(),
+        "tiny.yaml",
+        &rules.replacen("factor: 0.85", "factor: 1e-300", 1),
+    );
+    refused(&run(&["rules", "lint", s(&tiny)]), &["factor"]);
+    let off = write(
+        d.path(),
+        "off.yaml",
+        &rules.replacen("factor: 0.85", "factor: 0.5", 1),
+    );
+    refused(&run(&["rules", "lint", s(&off)]), &["percentage"]);
+}
+
+#[test]
+fn the_report_never_follows_a_planted_symlink_and_leaves_no_temporary_files() {
+    let d = tempfile::tempdir().unwrap();
+    let out = d.path().join("out");
+    std::fs::create_dir(&out).unwrap();
+    let victim = write(d.path(), "victim.txt", "keep me\n");
+    let id = "<b>x</b>&\"";
+    let case = write(
+        d.path(),
+        "c.yaml",
+        &DEMO.replacen("case: NVP-PM3-24117-R06", &format!("case: '{id}'"), 1),
+    );
+    let stem = "_b_x__b___";
+    std::os::unix::fs::symlink(&victim, out.join(format!("{stem}.md"))).unwrap();
+    let r = run(&["diagnose", s(&case), "--out", s(&out)]);
+    assert!(r.code <= 1, "{}", r.stderr);
+    assert_eq!(std::fs::read_to_string(&victim).unwrap(), "keep me\n");
+    let md = out.join(format!("{stem}.md"));
+    assert!(std::fs::symlink_metadata(&md)
+        .unwrap()
+        .file_type()
+        .is_file());
+    let html = std::fs::read_to_string(out.join(format!("{stem}.html"))).unwrap();
+    assert!(!html.contains("<b>x"), "unescaped id in the HTML report");
+    assert!(html.contains("&lt;b&gt;x"));
+    let names: Vec<String> = std::fs::read_dir(&out)
+        .unwrap()
+        .map(|e| e.unwrap().file_name().to_string_lossy().into_owned())
+        .collect();
+    assert!(names.iter().all(|n| !n.ends_with(".tmp")), "{names:?}");
+    assert_eq!(names.len(), 3, "html, md and json: {names:?}");
+}
+
+#[test]
+fn a_long_or_empty_case_id_gives_bounded_file_names() {
+    let d = tempfile::tempdir().unwrap();
+    let out = d.path().join("out");
+    let case = write(
+        d.path(),
+        "c.yaml",
+        &DEMO.replacen(
+            "case: NVP-PM3-24117-R06",
+            &format!("case: '{}'", "a".repeat(300)),
+            1,
+        ),
+    );
+    let r = run(&["diagnose", s(&case), "--out", s(&out)]);
+    assert!(r.code <= 1, "{}", r.stderr);
+    for e in std::fs::read_dir(&out).unwrap() {
+        let n = e.unwrap().file_name();
+        assert!(n.len() < 100, "{n:?}");
+    }
+}
