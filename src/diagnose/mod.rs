@@ -17,7 +17,7 @@ use crate::note::Note;
 use crate::rules::{self, Table};
 use crate::storage::{AgeOptions, LaneCreep};
 use crate::vocab::{Action, Cause, Defect, Feature, Likelihood};
-use crate::winding::{wind, Options, WindError, WindInput};
+use crate::winding::{wind, Cache, Options, WindError, WindInput};
 use actions::{apply, spread_mm_per_m, Change, RunError, Scenario, ABLATIONS};
 use features::Features;
 use serde::Serialize;
@@ -246,8 +246,15 @@ pub fn diagnose_fitted(
     let fired = rules::evaluate(table, &feats.values);
     let base = base_scenario(case, lanes, creep.clone(), Options::default().levelling);
     let mut notes = fit.notes.clone();
+    let mut winds = Cache::default();
+    winds.insert(
+        &base.wind_input(),
+        lanes,
+        base.wind_options(opt.nodes),
+        wound,
+    );
     let (base_spread, causes) = if opt.what_if {
-        attribute_causes(&base, wound, opt.nodes)?
+        attribute_causes(&base, wound, opt.nodes, &mut winds)?
     } else {
         (feats.get(Feature::SpreadMmPerM), Vec::new())
     };
@@ -256,6 +263,7 @@ pub fn diagnose_fitted(
         base_spread,
         opt,
         cache: Vec::new(),
+        winds,
     };
     let mut findings = Vec::new();
     for fr in &fired {
@@ -291,12 +299,13 @@ fn attribute_causes(
     base: &Scenario,
     wound: &crate::winding::Wound,
     nodes: usize,
+    winds: &mut Cache,
 ) -> Result<(f64, Vec<CauseShare>), DiagnoseError> {
     let b = base.age_on(wound.clone())?;
     let s0 = spread_mm_per_m(&b.aged, &[]);
     let mut raw = Vec::new();
     for (cause, change, factor) in ABLATIONS {
-        let s = apply(base, change, factor, &[]).run(nodes)?;
+        let s = apply(base, change, factor, &[]).run_cached(nodes, winds)?;
         let without = spread_mm_per_m(&s.aged, &[]);
         raw.push((cause, without, (s0 - without).max(0.0)));
     }
@@ -326,6 +335,7 @@ struct Checker<'a> {
     base_spread: f64,
     opt: &'a DiagnoseOptions,
     cache: Vec<(CorrectionKey, f64)>,
+    winds: Cache,
 }
 
 impl Checker<'_> {
@@ -349,7 +359,7 @@ impl Checker<'_> {
             return Ok(*v);
         }
         let s = apply(self.base, Change::Correct(action), factor, lanes);
-        let out = s.run(self.opt.nodes)?;
+        let out = s.run_cached(self.opt.nodes, &mut self.winds)?;
         let v = spread_mm_per_m(&out.aged, &s.excluded);
         self.cache.push((key, v));
         Ok(v)

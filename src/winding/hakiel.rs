@@ -28,10 +28,13 @@
 //! layer, and the new layers' pressure is integrated over their own interval in closed form of
 //! the kernel (Gauss-Legendre in x = e^(-g t)) rather than lumped at one node. The tangential
 //! increment is z s (equilibrium, s_t = s + r s'). The only approximations left are E_r constant
-//! on an interval and over a step (taken at the mid-step pressure, predictor-corrector): both
-//! second order in the node spacing, and the layer's own inward decay over about r / g needs no
+//! on an interval and over a step (taken at the mid-step pressure: predictor-corrector in the
+//! surface zone, extrapolated from the previous step's increment in the deep part, where a step
+//! changes the pressure little and smoothly): both second order in the node spacing, and the layer's own inward decay over about r / g needs no
 //! resolving. Increments that have decayed below 1e-15 of the local pressure are not carried
-//! further in, and the per-interval ratios are only recomputed where the pressure changed.
+//! further in, and the per-interval ratios are only recomputed where the pressure changed. The
+//! stack strain behind the compressed build is updated by its change per increment (a series
+//! for small changes, no logarithm per node per step).
 
 use crate::case::Stack;
 
@@ -58,6 +61,27 @@ impl LaneModel {
     #[inline]
     fn g(&self, p: f64) -> f64 {
         (self.e_t / self.stack.modulus(p)).sqrt()
+    }
+}
+
+/// Change of the stack's compressive strain from pressure `p0` to `p1` (Pa). For the Pfeiffer
+/// law it is ln(1 + x) / K2 with x = (p1 - p0) / (K1 + p0); small steps (|x| < 1e-3, most of
+/// them deep in the roll) take the series to x^5 (remainder below 2e-16 relative) instead of a
+/// logarithm.
+#[inline]
+fn strain_change(stack: &Stack, p0: f64, p1: f64) -> f64 {
+    let (p0, p1) = (p0.max(0.0), p1.max(0.0));
+    match *stack {
+        Stack::Pfeiffer { k1_pa, k2 } => {
+            let x = (p1 - p0) / (k1_pa + p0);
+            let l = if x.abs() < 1e-3 {
+                x * (1.0 - x * (0.5 - x * (1.0 / 3.0 - x * (0.25 - 0.2 * x))))
+            } else {
+                x.ln_1p()
+            };
+            l / k2
+        }
+        Stack::Constant { .. } => stack.strain(p1) - stack.strain(p0),
     }
 }
 
@@ -285,10 +309,8 @@ impl LaneState {
                 load_b += self.s[b];
             }
         }
-        // corrector for the deep part: ratios at the mid-step pressure of this step
-        self.deep_march(m, load_b, false);
-        self.deep_sweep(m);
-        self.deep_march(m, load_b, true);
+        // deep part: ratios at the mid-step pressure extrapolated from the last step
+        self.deep_march(m, load_b);
         if !self.asr.iter().all(|x| x.is_finite()) {
             return Err(fail);
         }
@@ -300,14 +322,14 @@ impl LaneState {
     /// Add increment `s` to active node `j`, keeping the build sum.
     #[inline]
     fn apply(&mut self, m: &LaneModel, j: usize, s: f64) {
+        let p0 = -self.asr[j];
         self.asr[j] += s;
         if j == 0 {
             // exact at the core (z = 1 + kappa); elsewhere sigma_t comes from equilibrium
             self.ast[0] += s * self.az[0];
         }
-        let e = m.stack.strain(-self.asr[j]);
-        let de = e - self.aeps[j];
-        self.aeps[j] = e;
+        let de = strain_change(&m.stack, p0, -self.asr[j]);
+        self.aeps[j] += de;
         let hi = self.ar[(j + 1).min(self.ar.len() - 1)];
         let lo = self.ar[j.saturating_sub(1)];
         self.build -= 0.5 * de * (hi - lo);
@@ -334,9 +356,9 @@ impl LaneState {
         }
     }
 
-    /// Carry the load that reached the zone bottom through the deep part.
-    /// With `apply` false, only record the increment (for the corrector's pressures).
-    fn deep_march(&mut self, m: &LaneModel, load_b: f64, apply: bool) {
+    /// Carry the load that reached the zone bottom through the deep part, recording the
+    /// increment (the next step's mid-step pressure estimate).
+    fn deep_march(&mut self, m: &LaneModel, load_b: f64) {
         let mut s = load_b;
         let mut j = self.b;
         while j > 0 {
@@ -345,15 +367,11 @@ impl LaneState {
                 break;
             }
             j -= 1;
-            if apply {
-                self.apply(m, j, s);
-            }
+            self.apply(m, j, s);
             self.last[j] = s;
         }
         self.dcut = j;
-        if apply {
-            self.fresh = j.saturating_sub(1);
-        }
+        self.fresh = j.saturating_sub(1);
     }
 
     /// Zone ratios from the zone bottom to the surface node `top`; returns the load factor of

@@ -4,12 +4,14 @@
 //!
 //! **Invariant:** pure functions of the material, roll, winder settings and lanes; no I/O, no printing, nothing of rules.
 
+mod cache;
 mod centrifugal;
 mod core;
 pub mod hakiel;
 mod roll;
 
 pub use self::core::{core_stiffness, of as core_of};
+pub use cache::Cache;
 pub use centrifugal::{disk_stress, lift_off_speed};
 pub use roll::{
     lane_model, wind, LaneStress, LaneSummary, Options, WindError, WindInput, Wound,
