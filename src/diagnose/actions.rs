@@ -6,7 +6,7 @@ use crate::lanes::Lanes;
 use crate::numeric::spread;
 use crate::storage::{age, gab_moisture, AgeError, AgeOptions, Aged, HardnessMap, LaneCreep};
 use crate::vocab::Action;
-use crate::winding::{wind, Options, WindError, WindInput, Wound};
+use crate::winding::{Cache, Options, WindError, WindInput, Wound};
 
 /// Everything a forward run needs.
 #[derive(Debug, Clone, PartialEq)]
@@ -38,15 +38,26 @@ pub enum RunError {
 impl Scenario {
     /// Run winding and storage.
     pub fn run(&self, nodes: usize) -> Result<Outcome, RunError> {
-        let wound = wind(
-            &WindInput::new(&self.case.material, &self.case.roll, &self.case.winding),
-            &self.lanes,
-            Options {
-                nodes,
-                levelling: self.levelling,
-            },
-        )?;
+        self.run_cached(nodes, &mut Cache::default())
+    }
+
+    /// Run winding and storage, reusing a wound state from `winds` when the winding inputs match.
+    pub fn run_cached(&self, nodes: usize, winds: &mut Cache) -> Result<Outcome, RunError> {
+        let wound = winds.wind(&self.wind_input(), &self.lanes, self.wind_options(nodes))?;
         self.age_on(wound)
+    }
+
+    /// What winding reads of this scenario's case.
+    pub fn wind_input(&self) -> WindInput<'_> {
+        WindInput::new(&self.case.material, &self.case.roll, &self.case.winding)
+    }
+
+    /// Winding options of this scenario at `nodes` nodes.
+    pub fn wind_options(&self, nodes: usize) -> Options {
+        Options {
+            nodes,
+            levelling: self.levelling,
+        }
     }
 
     /// Run storage on a wound state already computed for this scenario's case, lanes and

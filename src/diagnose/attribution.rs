@@ -13,10 +13,8 @@
 //! alike and a whole run for scenarios that are alike, and counts the runs.
 
 use super::actions::{apply, Change, Outcome, RunError, Scenario};
-use crate::case::{Material, Roll, Winding};
-use crate::lanes::Lanes;
 use crate::vocab::{Action, Amplifier, Cause, Quantity};
-use crate::winding::{wind, Options, WindInput, Wound};
+use crate::winding::{Cache, Wound};
 use serde::Serialize;
 use std::rc::Rc;
 
@@ -29,33 +27,27 @@ pub struct RunCount {
     pub storage_runs: usize,
 }
 
-/// What a winding run depends on.
-type WindKey = (Material, Roll, Winding, Lanes, u64);
-
 /// Runs scenarios forward, each distinct one once.
 pub struct Runner {
     nodes: usize,
-    wound: Vec<(WindKey, Wound)>,
+    winds: Cache,
     done: Vec<(Scenario, Rc<Outcome>)>,
     pub count: RunCount,
-}
-
-fn wind_key(s: &Scenario) -> WindKey {
-    (
-        s.case.material.clone(),
-        s.case.roll.clone(),
-        s.case.winding.clone(),
-        s.lanes.clone(),
-        s.levelling.to_bits(),
-    )
 }
 
 impl Runner {
     /// A runner with `nodes` radial nodes, seeded with a wound state already computed for `base`.
     pub fn new(nodes: usize, base: &Scenario, wound: Wound) -> Self {
+        let mut winds = Cache::default();
+        winds.insert(
+            &base.wind_input(),
+            &base.lanes,
+            base.wind_options(nodes),
+            &wound,
+        );
         Runner {
             nodes,
-            wound: vec![(wind_key(base), wound)],
+            winds,
             done: Vec::new(),
             count: RunCount::default(),
         }
@@ -68,23 +60,13 @@ impl Runner {
         if let Some((_, o)) = self.done.iter().find(|(k, _)| *k == key) {
             return Ok(Rc::clone(o));
         }
-        let wk = wind_key(s);
-        let wound = match self.wound.iter().find(|(k, _)| *k == wk) {
-            Some((_, w)) => w.clone(),
-            None => {
-                let w = wind(
-                    &WindInput::new(&s.case.material, &s.case.roll, &s.case.winding),
-                    &s.lanes,
-                    Options {
-                        nodes: self.nodes,
-                        levelling: s.levelling,
-                    },
-                )?;
-                self.count.winding_runs += 1;
-                self.wound.push((wk, w.clone()));
-                w
-            }
-        };
+        let held = self.winds.len();
+        let wound = self
+            .winds
+            .wind(&s.wind_input(), &s.lanes, s.wind_options(self.nodes))?;
+        if self.winds.len() > held {
+            self.count.winding_runs += 1;
+        }
         let o = Rc::new(key.age_on(wound)?);
         self.count.storage_runs += 1;
         self.done.push((key, Rc::clone(&o)));
