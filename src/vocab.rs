@@ -62,6 +62,9 @@ words! {
         CoreCollapse = "core_collapse",
         /// Layers crushed (permanent caliper loss, blocking) by excessive interlayer pressure.
         CrushedLayers = "crushed_layers",
+        /// One side of the roll wound longer than the other (a wedge across the width): the web
+        /// runs slack on one side and walks at unwind.
+        ConicalRoll = "conical_roll",
         /// The complainant saw no defect.
         NoDefect = "none",
     }
@@ -188,6 +191,8 @@ words! {
         PeakPressureMpa = "peak_pressure_mpa",
         /// Largest interlayer pressure on the core at winding.
         CorePressureMpa = "core_pressure_mpa",
+        /// Front-to-back difference of a straight line fitted to the lanes at unwind.
+        SideToSideMmPerM = "side_to_side_mm_per_m",
     }
 }
 
@@ -204,7 +209,8 @@ impl Quantity {
             | Quantity::LocalPeakMmPerM
             | Quantity::CentreMinusEdgesMmPerM
             | Quantity::EdgesMinusCentreMmPerM
-            | Quantity::SpreadMmPerM => "mm_per_m",
+            | Quantity::SpreadMmPerM
+            | Quantity::SideToSideMmPerM => "mm_per_m",
             Quantity::CoreMdCompressionMpa
             | Quantity::OuterMdStressMpa
             | Quantity::PeakPressureMpa
@@ -228,6 +234,7 @@ words! {
         PeakWidthMm = "peak_width_mm",
         CentreMinusEdgesMmPerM = "centre_minus_edges_mm_per_m",
         SideToSideMmPerM = "side_to_side_mm_per_m",
+        SideToSideRatio = "side_to_side_ratio",
         BandCount = "band_count",
         CaliperCorrelation = "caliper_correlation",
         CaliperRangePct = "caliper_range_pct",
@@ -291,6 +298,7 @@ impl Feature {
             F::LocalPeakMmPerM => spec("largest excess of an inner lane (not an outermost lane) over its neighbours (two each side), mm/m", -INF, INF, true),
             F::PeakWidthMm => spec("width of the long band around the longest lane, mm", 0.0, INF, false),
             F::CentreMinusEdgesMmPerM => spec("centre half minus the outermost lane each side, mm/m (positive: baggy centre)", -INF, INF, true),
+            F::SideToSideRatio => spec("front-to-back difference of a straight-line fit over the web's running strain T/(E h)", 0.0, INF, false),
             F::SideToSideMmPerM => spec("front-to-back difference of a straight-line fit, absolute, mm/m", 0.0, INF, true),
             F::BandCount => spec("number of long bands (local peaks over 0.3 mm/m prominent)", 0.0, INF, false),
             F::CaliperCorrelation => spec("correlation of lane caliper with lane length at unwind, -1..1", -1.0, 1.0, false),

@@ -241,8 +241,16 @@ fn long_band(u: &Unwind) -> Vec<usize> {
 
 /// Front-to-back difference of a least-squares straight line across the width, absolute, mm/m.
 fn side_to_side(u: &Unwind) -> f64 {
-    let (x, s) = (&u.x, &u.s);
-    let n = u.n() as f64;
+    straight_line_difference(&u.x, &u.s, u.width)
+}
+
+/// Difference over `width` of the least-squares straight line through `(x, s)`, absolute, in
+/// the unit of `s` (0 when the positions do not spread).
+pub fn straight_line_difference(x: &[f64], s: &[f64], width: f64) -> f64 {
+    let n = x.len().min(s.len()) as f64;
+    if n < 2.0 {
+        return 0.0;
+    }
     let xm = x.iter().sum::<f64>() / n;
     let sm = s.iter().sum::<f64>() / n;
     let sxx: f64 = x.iter().map(|a| (a - xm).powi(2)).sum();
@@ -255,7 +263,7 @@ fn side_to_side(u: &Unwind) -> f64 {
     } else {
         0.0
     };
-    (slope * u.width).abs()
+    (slope * width).abs()
 }
 
 /// Local maxima standing out from the mean lane by over [`BAND_MM_PER_M`].
@@ -482,6 +490,7 @@ pub fn compute(case: &Case, lanes: &Lanes, wound: &Wound, aged: &Aged) -> Featur
         F::LocalPeakRatio => ratio(len.local_peak),
         F::CentreMinusEdgesRatio => ratio(len.centre_minus_edges),
         F::LongestLaneRatio => ratio(len.longest_excess),
+        F::SideToSideRatio => ratio(len.side_to_side),
         F::RunningStrainMmPerM => finite(running),
         F::SpreadMmPerM => finite(len.spread),
         F::LongestLaneExcessMmPerM => finite(len.longest_excess),

@@ -20,6 +20,7 @@ pub const fn quantity_of(d: Defect) -> Quantity {
         Defect::Ridges | Defect::GaugeBands => Quantity::DiameterRidgePerMille,
         Defect::CrushedLayers => Quantity::PeakPressureMpa,
         Defect::CoreCollapse => Quantity::CorePressureMpa,
+        Defect::ConicalRoll => Quantity::SideToSideMmPerM,
         Defect::NoDefect => Quantity::SpreadMmPerM,
     }
 }
@@ -125,6 +126,13 @@ impl Site<'_> {
                     .map(|k| neighbour_mean(&r, k).map_or(0.0, |m| (r[k] - m) / med * 1e3)))
             }
             Quantity::SpreadMmPerM => max(s.iter().copied()) + max(s.iter().map(|x| -x)),
+            Quantity::SideToSideMmPerM => {
+                let x: Vec<f64> = kept
+                    .iter()
+                    .map(|&i| self.lanes.lanes[i].position_m)
+                    .collect();
+                features::straight_line_difference(&x, &s, self.width_m)
+            }
             Quantity::PeakPressureMpa => {
                 max(self
                     .focus(&kept)
@@ -301,6 +309,23 @@ pub fn locate(
             e.retain(|&i| x[i] > cm.max(0.0));
             e
         }
+        Defect::ConicalRoll => {
+            // the long side: the lanes above the mean lane on the side the line rises to
+            let half = 0.5 * width_m;
+            let front: f64 = mean(
+                (0..n)
+                    .filter(|&i| lanes.lanes[i].position_m < half)
+                    .map(|i| x[i]),
+            );
+            let back: f64 = mean(
+                (0..n)
+                    .filter(|&i| lanes.lanes[i].position_m >= half)
+                    .map(|i| x[i]),
+            );
+            (0..n)
+                .filter(|&i| (lanes.lanes[i].position_m >= half) == (back > front) && x[i] > 0.0)
+                .collect()
+        }
         Defect::BaggyCenter => {
             let em = mean(ends.iter().map(|&i| x[i]));
             centre.into_iter().filter(|&i| x[i] > em.max(0.0)).collect()
@@ -354,6 +379,7 @@ fn stress_state(defect: Defect, o: &Outcome) -> Vec<f64> {
         | Defect::Ridges
         | Defect::Corrugations
         | Defect::GaugeBands
+        | Defect::ConicalRoll
         | Defect::NoDefect => vec![0.0; n],
     }
 }

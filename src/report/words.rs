@@ -23,6 +23,7 @@ pub fn defect(d: Defect) -> &'static str {
         Defect::Bursts => "bursts",
         Defect::CoreCollapse => "core collapse",
         Defect::CrushedLayers => "crushed layers",
+        Defect::ConicalRoll => "conical roll (one side long)",
         Defect::NoDefect => "none",
     }
 }
@@ -82,6 +83,9 @@ pub fn quantity(q: Quantity) -> &'static str {
             "highest interlayer pressure in the finding's lanes at winding"
         }
         Quantity::CorePressureMpa => "interlayer pressure on the core at winding",
+        Quantity::SideToSideMmPerM => {
+            "front-to-back length difference (straight line across the width)"
+        }
     }
 }
 
@@ -402,6 +406,7 @@ pub fn feature(f: Feature) -> &'static str {
         F::PeakWidthMm => "width of the long band",
         F::CentreMinusEdgesMmPerM => "centre minus edges",
         F::SideToSideMmPerM => "front-to-back difference",
+        F::SideToSideRatio => "front-to-back / running strain",
         F::BandCount => "number of long bands",
         F::CaliperCorrelation => "caliper / length correlation",
         F::CaliperRangePct => "caliper range",
@@ -452,6 +457,7 @@ pub fn feature_value(f: Feature, v: f64, sys: System) -> String {
         F::LocalPeakRatio
         | F::CentreMinusEdgesRatio
         | F::LongestLaneRatio
+        | F::SideToSideRatio
         | F::CaliperCorrelation
         | F::WoundTensionRatio
         | F::NipToTensionRatio
