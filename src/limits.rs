@@ -46,9 +46,9 @@ fn past(v: f64, limit: f64) -> Option<f64> {
     (v.is_nan() || v > limit).then_some(v)
 }
 
-/// Checks on the wound-in state: winding speed against the lift-off speed; the MD strain of the
-/// largest tangential stress and the stack's compression at the highest radial pressure, one
-/// note per kind naming the worst lane and the number of lanes.
+/// Checks on the wound-in state: winding speed against the lift-off speed; the web's and the
+/// core's strength ([`strength`]); the stack's compression at each lane's peak interlayer
+/// pressure. One note per kind, naming the worst lane and the number of lanes.
 pub fn after_winding(w: &Wound, material: &Material, roll: &Roll, speed_m_s: f64) -> Vec<Note> {
     let mut out = Vec::new();
     if speed_m_s > w.lift_off_speed_m_s {
@@ -68,13 +68,9 @@ pub fn after_winding(w: &Wound, material: &Material, roll: &Roll, speed_m_s: f64
             }));
         }
     }
-    let peak = |v: &[f64], sign: f64| v.iter().map(|s| sign * s).fold(0.0_f64, f64::max);
     let stack = w.lanes.iter().map(|l| {
-        let p = peak(&l.radial_stress_pa, -1.0);
-        (
-            l.position_m,
-            past(material.stack.strain(p), MAX_STACK_STRAIN),
-        )
+        let strain = material.stack.strain(l.summary.peak_pressure_pa);
+        (l.position_m, past(strain, MAX_STACK_STRAIN))
     });
     if let Some((lanes, position_m, strain)) = worst(stack) {
         out.push(Note::Limit(Limit::StackCrushed {
@@ -158,7 +154,7 @@ pub fn condensation(storage: &[crate::case::Stretch], material: &Material) -> Ve
     crate::storage::condensation::check(storage)
         .into_iter()
         .map(|c| {
-            Note::Limit(Limit::Condensation {
+            Note::Limit(Limit::Condensation(crate::note::Condensed {
                 stretch: c.stretch as u32,
                 roll_k: c.roll_k,
                 dew_point_k: c.dew_point_k,
@@ -167,7 +163,7 @@ pub fn condensation(storage: &[crate::case::Stretch], material: &Material) -> Ve
                 outer_rise_pct: c.outer_rise_pct(material.density_kg_m3),
                 barrel: c.barrel,
                 ends: c.ends,
-            })
+            }))
         })
         .collect()
 }

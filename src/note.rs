@@ -79,23 +79,7 @@ pub enum Limit {
     },
     /// A cold roll brought into air whose dew point is above the roll's temperature: water
     /// condenses on the faces not wrapped in film until their surface warms.
-    Condensation {
-        /// Index of the storage stretch the roll was brought into.
-        stretch: u32,
-        /// Roll temperature on arrival, K.
-        roll_k: f64,
-        /// Dew point of the new air, K.
-        dew_point_k: f64,
-        /// Time the surface stays below the dew point, s.
-        wet_s: f64,
-        /// Water condensed per unit area of exposed face, kg/m2.
-        water_kg_m2: f64,
-        /// Moisture rise of the outer 2 mm of wraps if they take it all up, percentage points.
-        outer_rise_pct: f64,
-        /// Whether the barrel and the end faces were exposed.
-        barrel: bool,
-        ends: bool,
-    },
+    Condensation(Condensed),
     /// A wound state beyond the web's or the core's strength.
     Strength {
         which: Strength,
@@ -150,6 +134,26 @@ pub enum Limit {
     },
 }
 
+/// Water condensed on a cold roll brought into warmer, humid air ([`Limit::Condensation`]).
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct Condensed {
+    /// Index of the storage stretch the roll was brought into.
+    pub stretch: u32,
+    /// Roll temperature on arrival, K.
+    pub roll_k: f64,
+    /// Dew point of the new air, K.
+    pub dew_point_k: f64,
+    /// Time the surface stays below the dew point, s.
+    pub wet_s: f64,
+    /// Water condensed per unit area of exposed face, kg/m2.
+    pub water_kg_m2: f64,
+    /// Moisture rise of the outer 2 mm of wraps if they take it all up, percentage points.
+    pub outer_rise_pct: f64,
+    /// Whether the barrel and the end faces were exposed.
+    pub barrel: bool,
+    pub ends: bool,
+}
+
 /// Which strength a wound state is compared with.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
 #[serde(rename_all = "snake_case")]
@@ -162,6 +166,15 @@ pub enum Strength {
     MdTension,
     /// Interlayer pressure on the core against the core's collapse pressure.
     CoreCollapse,
+}
+
+/// Append the notes of `more` that `notes` does not hold yet, in order.
+pub fn push_new(notes: &mut Vec<Note>, more: impl IntoIterator<Item = Note>) {
+    for n in more {
+        if !notes.contains(&n) {
+            notes.push(n);
+        }
+    }
 }
 
 impl Note {

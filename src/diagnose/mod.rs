@@ -221,7 +221,6 @@ pub fn diagnose_fitted(
     let feats = features::compute(case, lanes, wound, &fit.aged);
     let fired = rules::evaluate(table, &feats.values);
     let base = base_scenario(case, lanes, creep.clone(), Options::default().levelling);
-    let mut notes = fit.notes.clone();
     let fitted_outcome = Outcome {
         wound: wound.clone(),
         aged: fit.aged.clone(),
@@ -253,11 +252,6 @@ pub fn diagnose_fitted(
     let complaint = case.complaint.as_deref().and_then(Defect::from_word);
     let agreement = complaint.map(|c| agreement(c, &findings));
     let lane_results = lane_results(fit, lanes, &feats);
-    for n in &fit.aged.notes {
-        if !notes.contains(n) {
-            notes.push(*n);
-        }
-    }
     Ok(Diagnosis {
         case: case.id.clone(),
         title: case.title.clone(),
@@ -269,7 +263,7 @@ pub fn diagnose_fitted(
         runs: rerun.map(|(r, _)| r.count).unwrap_or_default(),
         agreement,
         lanes: lane_results,
-        notes,
+        notes: fit.all_notes(),
         case_warnings: case.warnings.clone(),
     })
 }

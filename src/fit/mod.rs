@@ -95,11 +95,7 @@ fn with_limits(case: &Case, wound: &Wound, mut aged: Aged) -> Aged {
         &case.roll,
     ));
     found.extend(crate::limits::condensation(&case.storage, &case.material));
-    for n in found {
-        if !aged.notes.contains(&n) {
-            aged.notes.push(n);
-        }
-    }
+    crate::note::push_new(&mut aged.notes, found);
     aged
 }
 
@@ -133,6 +129,15 @@ pub struct RollFit {
     /// The roll through storage with fitted parameters.
     #[serde(skip)]
     pub aged: Aged,
+}
+
+impl RollFit {
+    /// The fit's notes and its aged roll's, each once.
+    pub fn all_notes(&self) -> Vec<Note> {
+        let mut v = self.notes.clone();
+        crate::note::push_new(&mut v, self.aged.notes.iter().copied());
+        v
+    }
 }
 
 /// The grade's creep with laboratory creep curves applied: each direction that has lab curves

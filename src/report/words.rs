@@ -148,13 +148,7 @@ pub const SHARES_METHOD: &str = "each source's share is its Shapley value (Shapl
 /// The diagnosis's notes with the notes its results imply, sorted, each once (warnings are
 /// apart: [`warnings`]).
 pub fn notes(d: &Diagnosis) -> Vec<String> {
-    let info: Vec<Note> = d
-        .notes
-        .iter()
-        .filter(|n| !n.is_warning())
-        .copied()
-        .collect();
-    let mut n = note_texts(&info);
+    let mut n = note_json(&[], &d.notes).0;
     if d.findings.iter().any(|f| f.attribution.is_some()) {
         n.push(format!("root cause: {SHARES_METHOD}"));
     }
@@ -168,34 +162,19 @@ pub fn notes(d: &Diagnosis) -> Vec<String> {
 
 /// The diagnosis's warnings: the case's own, then every physical limit a stage passed.
 pub fn warnings(d: &Diagnosis) -> Vec<String> {
-    let mut w = d.case_warnings.clone();
-    w.extend(d.notes.iter().filter(|n| n.is_warning()).map(note));
-    w
+    note_json(&d.case_warnings, &d.notes).1
 }
 
 /// A stage's notes as output lines: `warning: ...` for the case's warnings and the physical
 /// limits passed, then `note: ...` for the rest.
 pub fn note_lines(case_warnings: &[String], notes: &[Note]) -> Vec<String> {
-    let mut v: Vec<String> = case_warnings
-        .iter()
-        .map(|w| format!("warning: {w}"))
-        .collect();
-    v.extend(
-        notes
-            .iter()
-            .filter(|n| n.is_warning())
-            .map(|n| format!("warning: {}", note(n))),
-    );
-    v.extend(
-        notes
-            .iter()
-            .filter(|n| !n.is_warning())
-            .map(|n| format!("note: {}", note(n))),
-    );
-    v
+    let (info, warn) = note_json(case_warnings, notes);
+    let warn = warn.into_iter().map(|w| format!("warning: {w}"));
+    warn.chain(info.into_iter().map(|n| format!("note: {n}")))
+        .collect()
 }
 
-/// A stage's notes for JSON: `(notes, warnings)`, the warnings with the case's own first.
+/// A stage's notes in words, apart: `(notes, warnings)`, the warnings with the case's own first.
 pub fn note_json(case_warnings: &[String], notes: &[Note]) -> (Vec<String>, Vec<String>) {
     let mut w = case_warnings.to_vec();
     w.extend(notes.iter().filter(|n| n.is_warning()).map(note));
@@ -285,7 +264,7 @@ pub fn limit(l: &crate::note::Limit) -> String {
         } => format!(
             "the winding speed {speed_m_s:.1} m/s is above the lift-off speed {lift_off_m_s:.1} m/s at the roll's mean wound-in stress: outer layers could not stay on the roll as modelled; {SO}"
         ),
-        Limit::Condensation { .. } => condensation(l),
+        Limit::Condensation(c) => condensation(&c),
         Limit::Strength {
             which,
             lanes,
@@ -347,9 +326,8 @@ pub fn limit(l: &crate::note::Limit) -> String {
 }
 
 /// A condensation warning as a sentence.
-fn condensation(l: &crate::note::Limit) -> String {
-    use crate::note::Limit;
-    let Limit::Condensation {
+fn condensation(c: &crate::note::Condensed) -> String {
+    let crate::note::Condensed {
         stretch,
         roll_k,
         dew_point_k,
@@ -358,10 +336,7 @@ fn condensation(l: &crate::note::Limit) -> String {
         outer_rise_pct,
         barrel,
         ends,
-    } = *l
-    else {
-        return String::new();
-    };
+    } = *c;
     format!(
             "storage stretch {}: the roll came in at {:.1} C, below the air's dew point {:.1} C: water condenses on the {} for about {:.0} min ({:.0} g/m2, up to {:+.1} points of moisture in the outer 2 mm of wraps); the model's moisture field does not include it, so the outer wraps and ends may be wetter than predicted. Let rolls warm up wrapped in film before unwrapping (common practice)",
             stretch + 1,
