@@ -78,29 +78,73 @@ fn bench(c: &mut Criterion) {
 }
 
 fn bench_triage(c: &mut Criterion) {
-    // one returned roll as triage diagnoses it (fast settings, no corrections re-run)
-    let case = case::load_demo(&[]).expect("demo case loads");
+    // a 40-lane roll as triage diagnoses it (no re-runs) and as diagnose does (with re-runs)
+    let case = roll(200);
     let table = rollsleuth::rules::load_default().expect("default rules load");
     let opt = rollsleuth::diagnose::DiagnoseOptions {
-        nodes: 101,
         what_if: false,
+        ..Default::default()
     };
-    c.bench_function("triage one 18-lane roll (fast settings)", |b| {
+    c.bench_function("triage one 40-lane roll", |b| {
         b.iter(|| {
             rollsleuth::diagnose::diagnose(black_box(&case), &table, &opt).expect("diagnoses")
         })
     });
     let full = rollsleuth::diagnose::DiagnoseOptions::default();
-    c.bench_function("diagnose one 18-lane roll (full, with re-runs)", |b| {
+    // the cost of the re-runs: model runs per diagnosis (Shapley subsets of the sources, the
+    // amplifiers' alternatives and the corrections, each distinct scenario once)
+    let d = rollsleuth::diagnose::diagnose(&case, &table, &full).expect("diagnoses");
+    let corrections: usize = d.findings.iter().map(|f| f.corrections.len()).sum();
+    let sources = d
+        .findings
+        .first()
+        .and_then(|f| f.attribution.as_ref())
+        .map_or(0, |a| a.shares.len());
+    eprintln!(
+        "runs per diagnosis of the 40-lane roll: {} winding runs, {} storage runs ({} findings, {} sources -> {} subsets, {} corrections listed)",
+        d.runs.winding_runs,
+        d.runs.storage_runs,
+        d.findings.len(),
+        sources,
+        1usize << sources,
+        corrections
+    );
+    c.bench_function("diagnose one 40-lane roll (with re-runs)", |b| {
         b.iter(|| {
             rollsleuth::diagnose::diagnose(black_box(&case), &table, &full).expect("diagnoses")
         })
     });
 }
 
+/// Winding at 1 % accuracy: the soft study roll of tests/winding_convergence.rs (within 1 % of
+/// the converged radial stress at 201 nodes, 0.25 % at the default 401).
+fn bench_accuracy(c: &mut Criterion) {
+    let soft = case::load_file(
+        std::path::Path::new("benches/numpy_hakiel/soft_roll.yaml"),
+        &[],
+    )
+    .expect("study roll loads");
+    let l = lanes::build(&soft);
+    for nodes in [201, 401] {
+        c.bench_function(&format!("wind the soft study roll, {nodes} nodes"), |b| {
+            b.iter(|| {
+                wind(
+                    black_box(&WindInput::new(&soft.material, &soft.roll, &soft.winding)),
+                    &l,
+                    Options {
+                        nodes,
+                        ..Options::default()
+                    },
+                )
+                .expect("winds")
+            })
+        });
+    }
+}
+
 criterion_group! {
     name = benches;
     config = Criterion::default().sample_size(10);
-    targets = bench, bench_triage
+    targets = bench, bench_triage, bench_accuracy
 }
 criterion_main!(benches);

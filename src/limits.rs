@@ -6,7 +6,7 @@
 //! **Invariant:** pure functions of stage results; no prose (words are in `report::words`).
 
 use crate::case::{Gab, Material, Roll};
-use crate::note::{Limit, Note};
+use crate::note::{Limit, Note, Strength};
 use crate::storage::Aged;
 use crate::winding::Wound;
 
@@ -26,9 +26,30 @@ pub fn saturation_moisture_pct(g: &Gab) -> f64 {
     g.monolayer_pct * g.c * k / ((1.0 - k) * (1.0 - k + g.c * k))
 }
 
-/// Checks on the wound-in state: winding speed against the lift-off speed, and the stack's
-/// compression at the highest radial pressure of each lane.
-pub fn after_winding(w: &Wound, material: &Material, speed_m_s: f64) -> Vec<Note> {
+/// The lanes past a limit: how many, and the worst as (position, value). `value` is `None` for a
+/// lane within the limit; a NaN value counts as past it and is the worst.
+fn worst(values: impl Iterator<Item = (f64, Option<f64>)>) -> Option<(u32, f64, f64)> {
+    let mut out: Option<(u32, f64, f64)> = None;
+    for (pos, v) in values {
+        let Some(v) = v else { continue };
+        out = Some(match out {
+            None => (1, pos, v),
+            Some((n, _, w)) if v.is_nan() || (!w.is_nan() && v > w) => (n + 1, pos, v),
+            Some((n, p, w)) => (n + 1, p, w),
+        });
+    }
+    out
+}
+
+/// `Some(v)` when `v` is past `limit` or not a number.
+fn past(v: f64, limit: f64) -> Option<f64> {
+    (v.is_nan() || v > limit).then_some(v)
+}
+
+/// Checks on the wound-in state: winding speed against the lift-off speed; the web's and the
+/// core's strength ([`strength`]); the stack's compression at each lane's peak interlayer
+/// pressure. One note per kind, naming the worst lane and the number of lanes.
+pub fn after_winding(w: &Wound, material: &Material, roll: &Roll, speed_m_s: f64) -> Vec<Note> {
     let mut out = Vec::new();
     if speed_m_s > w.lift_off_speed_m_s {
         out.push(Note::Limit(Limit::AboveLiftOff {
@@ -36,56 +57,159 @@ pub fn after_winding(w: &Wound, material: &Material, speed_m_s: f64) -> Vec<Note
             lift_off_m_s: w.lift_off_speed_m_s,
         }));
     }
-    for l in &w.lanes {
-        let p_max = l
-            .radial_stress_pa
-            .iter()
-            .map(|s| -s)
-            .fold(0.0_f64, f64::max);
-        let strain = material.stack.strain(p_max);
-        if strain.is_nan() || strain > MAX_STACK_STRAIN {
-            out.push(Note::Limit(Limit::StackCrushed {
-                position_m: l.position_m,
-                pressure_pa: p_max,
-                strain,
+    for r in strength(material, roll, w) {
+        if r.lanes > 0 {
+            out.push(Note::Limit(Limit::Strength {
+                which: r.which,
+                lanes: r.lanes,
+                position_m: r.position_m,
+                value_pa: r.value_pa,
+                limit_pa: r.limit_pa,
             }));
         }
+    }
+    let stack = w.lanes.iter().map(|l| {
+        let strain = material.stack.strain(l.summary.peak_pressure_pa);
+        (l.position_m, past(strain, MAX_STACK_STRAIN))
+    });
+    if let Some((lanes, position_m, strain)) = worst(stack) {
+        out.push(Note::Limit(Limit::StackCrushed {
+            lanes,
+            position_m,
+            pressure_pa: material.stack.pressure(strain),
+            strain,
+        }));
     }
     out
 }
 
+/// A wound state against one strength: the largest ratio over the lanes.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct StrengthRatio {
+    pub which: Strength,
+    /// Largest state over its limit (0 when the limit is not positive).
+    pub ratio: f64,
+    /// The state in the worst lane (a magnitude), Pa.
+    pub value_pa: f64,
+    /// The limit, Pa.
+    pub limit_pa: f64,
+    /// Centre of the worst lane, m.
+    pub position_m: f64,
+    /// Lanes whose state exceeds the limit.
+    pub lanes: u32,
+}
+
+/// The wound state against the web's strength (ZD crush, MD compression, MD tension) and, where
+/// the core has a collapse pressure ([`crate::winding::collapse_pressure`]), the core's.
+pub fn strength(material: &Material, roll: &Roll, w: &Wound) -> Vec<StrengthRatio> {
+    use crate::winding::LaneSummary;
+    let s = &material.strength;
+    type State = fn(&LaneSummary) -> f64;
+    let mut items: Vec<(Strength, f64, State)> = vec![
+        (Strength::ZdCrush, s.zd_crush_pa, |l| l.peak_pressure_pa),
+        (Strength::MdCompression, s.md_compressive_pa, |l| {
+            (-l.tangential_min_pa).max(0.0)
+        }),
+        (Strength::MdTension, s.md_tensile_pa, |l| {
+            l.tangential_max_pa.max(0.0)
+        }),
+    ];
+    let collapse = crate::winding::collapse_pressure(
+        &roll.core,
+        0.5 * roll.core_diameter_m,
+        roll.core_rating_pa,
+    );
+    if let Some(pc) = collapse {
+        items.push((Strength::CoreCollapse, pc, |l| l.core_pressure_pa));
+    }
+    items
+        .into_iter()
+        .map(|(which, limit_pa, state)| {
+            let mut r = StrengthRatio {
+                which,
+                ratio: 0.0,
+                value_pa: 0.0,
+                limit_pa,
+                position_m: w.lanes.first().map_or(0.0, |l| l.position_m),
+                lanes: 0,
+            };
+            for l in &w.lanes {
+                let v = state(&l.summary);
+                let ratio = if limit_pa > 0.0 { v / limit_pa } else { 0.0 };
+                if ratio.is_nan() || ratio > 1.0 {
+                    r.lanes += 1;
+                }
+                if ratio.is_nan() || ratio > r.ratio {
+                    (r.ratio, r.value_pa, r.position_m) = (ratio, v, l.position_m);
+                }
+            }
+            r
+        })
+        .collect()
+}
+
+/// Condensation on a cold roll brought into warm humid air ([`crate::storage::condensation`]):
+/// one note per stretch where water condenses.
+pub fn condensation(storage: &[crate::case::Stretch], material: &Material) -> Vec<Note> {
+    crate::storage::condensation::check(storage)
+        .into_iter()
+        .map(|c| {
+            Note::Limit(Limit::Condensation(crate::note::Condensed {
+                stretch: c.stretch as u32,
+                roll_k: c.roll_k,
+                dew_point_k: c.dew_point_k,
+                wet_s: c.wet_s,
+                water_kg_m2: c.water_kg_m2,
+                outer_rise_pct: c.outer_rise_pct(material.density_kg_m3),
+                barrel: c.barrel,
+                ends: c.ends,
+            }))
+        })
+        .collect()
+}
+
 /// Checks on the roll after storage: lane diameters outside the core, moisture at or below
-/// saturation, finite predicted hardness. One note per lane and kind (its worst value).
+/// saturation, finite predicted hardness; one note per kind naming the worst lane.
 pub fn after_storage(a: &Aged, material: &Material, roll: &Roll) -> Vec<Note> {
     let mut out = Vec::new();
+    let core = roll.core_diameter_m;
+    // how far inside the core's surface (m): positive is past the limit
+    let inside = a.lanes.iter().map(|l| {
+        let d = l.diameter_m.iter().copied().fold(f64::INFINITY, f64::min);
+        (l.position_m, past(core - d, -f64::EPSILON * core))
+    });
+    if let Some((lanes, position_m, depth)) = worst(inside) {
+        out.push(Note::Limit(Limit::DiameterInsideCore {
+            lanes,
+            position_m,
+            diameter_m: core - depth,
+            core_diameter_m: core,
+        }));
+    }
     let saturation = saturation_moisture_pct(&material.sorption);
-    for l in &a.lanes {
-        let d_min = l.diameter_m.iter().copied().fold(f64::INFINITY, f64::min);
-        if d_min.is_nan() || d_min <= roll.core_diameter_m {
-            out.push(Note::Limit(Limit::DiameterInsideCore {
-                position_m: l.position_m,
-                diameter_m: d_min,
-                core_diameter_m: roll.core_diameter_m,
-            }));
-        }
-        let m_max = l
+    // 0.01 percentage point: the diffusion solver's rounding, far below any gauge
+    let wet = a.lanes.iter().map(|l| {
+        let m = l
             .moisture_pct
             .iter()
             .copied()
             .fold(f64::NEG_INFINITY, f64::max);
-        // 0.01 percentage point: the diffusion solver's rounding, far below any gauge
-        if m_max.is_nan() || m_max > saturation + 0.01 {
-            out.push(Note::Limit(Limit::MoistureAboveSaturation {
-                position_m: l.position_m,
-                moisture_pct: m_max,
-                saturation_pct: saturation,
-            }));
-        }
-        if l.hardness.iter().any(|h| !h.is_finite()) {
-            out.push(Note::Limit(Limit::HardnessNotFinite {
-                position_m: l.position_m,
-            }));
-        }
+        (l.position_m, past(m, saturation + 0.01))
+    });
+    if let Some((lanes, position_m, moisture_pct)) = worst(wet) {
+        out.push(Note::Limit(Limit::MoistureAboveSaturation {
+            lanes,
+            position_m,
+            moisture_pct,
+            saturation_pct: saturation,
+        }));
+    }
+    let bad = a.lanes.iter().map(|l| {
+        let any = l.hardness.iter().any(|h| !h.is_finite());
+        (l.position_m, any.then_some(1.0))
+    });
+    if let Some((lanes, position_m, _)) = worst(bad) {
+        out.push(Note::Limit(Limit::HardnessNotFinite { lanes, position_m }));
     }
     out
 }
@@ -112,5 +236,22 @@ mod tests {
         );
         let open = Gab { k: 1.0, ..g };
         assert!(saturation_moisture_pct(&open).is_infinite());
+    }
+
+    #[test]
+    fn the_worst_lane_and_the_count_are_kept() {
+        let v = [
+            (0.1, None),
+            (0.2, Some(2.0)),
+            (0.3, Some(5.0)),
+            (0.4, Some(3.0)),
+        ];
+        assert_eq!(worst(v.into_iter()), Some((3, 0.3, 5.0)));
+        let n = worst([(0.1, Some(2.0)), (0.2, Some(f64::NAN))].into_iter()).unwrap();
+        assert_eq!((n.0, n.1), (2, 0.2));
+        assert!(n.2.is_nan());
+        assert_eq!(worst([(0.1, None)].into_iter()), None);
+        assert_eq!(past(1.0, 2.0), None);
+        assert!(past(f64::NAN, 2.0).is_some());
     }
 }

@@ -77,13 +77,15 @@ pub enum Note {
     BelowNoiseFloor {
         defect: Defect,
         feature: Feature,
-        /// The feature's value, its value on the noise-free uniform roll, and the noise floor
-        /// (95 % of |noisy - uniform|), all in the feature's own unit.
+        /// The feature's value, its value on the noise-free uniform roll, and the smallest
+        /// |value - uniform| that stands above noise, all in the feature's own unit.
         value: f64,
         uniform: f64,
-        floor: f64,
-        /// Share of the noise-only uniform rolls that fire the rule as strongly.
-        noise_share: f64,
+        threshold: f64,
+        /// One-sided chance that measurement noise alone moves the feature this far, and the
+        /// level a finding needs (5 % over the features tested).
+        noise_chance: f64,
+        level: f64,
     },
     /// A rule that fired on the fitted roll holds in fewer than half of the plausible states.
     Unlikely {
@@ -137,9 +139,26 @@ pub enum Limit {
         /// Lift-off speed, m/s.
         lift_off_m_s: f64,
     },
+    /// A cold roll brought into air whose dew point is above the roll's temperature: water
+    /// condenses on the faces not wrapped in film until their surface warms.
+    Condensation(Condensed),
+    /// A wound state beyond the web's or the core's strength.
+    Strength {
+        which: Strength,
+        /// Lanes past the limit (the worst is described).
+        lanes: u32,
+        /// Centre of the worst lane, m.
+        position_m: f64,
+        /// The state there (a magnitude), Pa.
+        value_pa: f64,
+        /// The limit, Pa.
+        limit_pa: f64,
+    },
     /// The stack law puts a lane's stack at a compressive strain past any real void content.
     StackCrushed {
-        /// Lane centre, m.
+        /// Lanes past the limit (the worst is described).
+        lanes: u32,
+        /// Centre of the worst lane, m.
         position_m: f64,
         /// Highest interlayer pressure, Pa.
         pressure_pa: f64,
@@ -148,7 +167,9 @@ pub enum Limit {
     },
     /// A lane's diameter fell to or inside the core during storage.
     DiameterInsideCore {
-        /// Lane centre, m.
+        /// Lanes past the limit (the worst is described).
+        lanes: u32,
+        /// Centre of the worst lane, m.
         position_m: f64,
         /// Smallest diameter, m.
         diameter_m: f64,
@@ -157,7 +178,9 @@ pub enum Limit {
     },
     /// A lane's moisture rose above the isotherm's saturation value.
     MoistureAboveSaturation {
-        /// Lane centre, m.
+        /// Lanes past the limit (the worst is described).
+        lanes: u32,
+        /// Centre of the worst lane, m.
         position_m: f64,
         /// Highest mean moisture, %.
         moisture_pct: f64,
@@ -166,9 +189,54 @@ pub enum Limit {
     },
     /// A lane's predicted hardness is not a finite number.
     HardnessNotFinite {
-        /// Lane centre, m.
+        /// Lanes past the limit (the worst is described).
+        lanes: u32,
+        /// Centre of the worst lane, m.
         position_m: f64,
     },
+}
+
+/// Water condensed on a cold roll brought into warmer, humid air ([`Limit::Condensation`]).
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct Condensed {
+    /// Index of the storage stretch the roll was brought into.
+    pub stretch: u32,
+    /// Roll temperature on arrival, K.
+    pub roll_k: f64,
+    /// Dew point of the new air, K.
+    pub dew_point_k: f64,
+    /// Time the surface stays below the dew point, s.
+    pub wet_s: f64,
+    /// Water condensed per unit area of exposed face, kg/m2.
+    pub water_kg_m2: f64,
+    /// Moisture rise of the outer 2 mm of wraps if they take it all up, percentage points.
+    pub outer_rise_pct: f64,
+    /// Whether the barrel and the end faces were exposed.
+    pub barrel: bool,
+    pub ends: bool,
+}
+
+/// Which strength a wound state is compared with.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum Strength {
+    /// Peak interlayer pressure against the stack's ZD crush limit.
+    ZdCrush,
+    /// Most compressive MD stress against the MD compressive strength (starring).
+    MdCompression,
+    /// Highest MD tensile stress against the MD tensile strength.
+    MdTension,
+    /// Interlayer pressure on the core against the core's collapse pressure.
+    CoreCollapse,
+}
+
+/// Append the notes of `more` that `notes` does not hold yet, in order.
+pub fn push_new(notes: &mut Vec<Note>, more: impl IntoIterator<Item = Note>) {
+    for n in more {
+        if !notes.contains(&n) {
+            notes.push(n);
+        }
+    }
 }
 
 impl Note {

@@ -58,6 +58,13 @@ words! {
         CrepeWrinkles = "crepe_wrinkles",
         Telescoping = "telescoping",
         Bursts = "bursts",
+        /// The core crushed or went out of round under the wound roll's pressure.
+        CoreCollapse = "core_collapse",
+        /// Layers crushed (permanent caliper loss, blocking) by excessive interlayer pressure.
+        CrushedLayers = "crushed_layers",
+        /// One side of the roll wound longer than the other (a wedge across the width): the web
+        /// runs slack on one side and walks at unwind.
+        ConicalRoll = "conical_roll",
         /// The complainant saw no defect.
         NoDefect = "none",
     }
@@ -82,9 +89,15 @@ words! {
         FlattenCaliper = "flatten_caliper",
         ScaleTension = "scale_tension",
         TaperTension = "taper_tension",
+        /// Raise the start of the winder's tension and taper it to `factor` of the start at full
+        /// diameter, keeping the winder's mean tension over the web length.
+        RaiseStartAndTaper = "raise_start_and_taper",
         ScaleNip = "scale_nip",
         FilmWrap = "film_wrap",
         StoreAtEquilibrium = "store_at_equilibrium",
+        /// Make the paper at the moisture in equilibrium with the pressroom (the last storage
+        /// stretch's humidity).
+        MakeAtPressroomEquilibrium = "make_at_pressroom_equilibrium",
         KeepWrappedUntilUse = "keep_wrapped_until_use",
         ShortenStorage = "shorten_storage",
         SlitOut = "slit_out",
@@ -97,11 +110,13 @@ impl Action {
         match self {
             Action::ScaleTension
             | Action::TaperTension
+            | Action::RaiseStartAndTaper
             | Action::ScaleNip
             | Action::ShortenStorage => true,
             Action::FlattenCaliper
             | Action::FilmWrap
             | Action::StoreAtEquilibrium
+            | Action::MakeAtPressroomEquilibrium
             | Action::KeepWrappedUntilUse
             | Action::SlitOut => false,
         }
@@ -129,15 +144,80 @@ impl Likelihood {
 }
 
 words! {
-    /// Causes of the lane-to-lane length differences a diagnosis attributes by removing each.
+    /// Sources of non-uniformity across the width that attribution shares a finding's quantity
+    /// among (Shapley values over their removals).
     pub enum Cause {
         CaliperProfile = "caliper_profile",
+        /// Moisture gradients from the storage humidity and the wraps.
         StorageMoisture = "storage_moisture",
-        WoundInTensionProfile = "wound_in_tension_profile",
-        Nip = "nip",
+        /// Lane-to-lane creep differences that the measurements identify.
         LaneToLaneCreep = "lane_to_lane_creep",
-        /// No single removal reduced the spread.
-        NotAttributable = "not_attributable",
+    }
+}
+
+words! {
+    /// Settings that amplify a non-uniformity without causing one; reported as sensitivities at
+    /// a feasible alternative.
+    pub enum Amplifier {
+        WebTension = "web_tension",
+        Nip = "nip",
+        Speed = "speed",
+        StorageTime = "storage_time",
+    }
+}
+
+words! {
+    /// The quantity a finding is judged on; each word carries its unit.
+    pub enum Quantity {
+        /// The finding's lane over the width-weighted mean lane at unwind.
+        LaneExcessMmPerM = "lane_excess_mm_per_m",
+        /// The finding's lane over the mean of its neighbours (two each side) at unwind.
+        LocalPeakMmPerM = "local_peak_mm_per_m",
+        /// Centre half minus the outermost lanes at unwind.
+        CentreMinusEdgesMmPerM = "centre_minus_edges_mm_per_m",
+        /// Outermost lanes minus the centre half at unwind.
+        EdgesMinusCentreMmPerM = "edges_minus_centre_mm_per_m",
+        /// Largest MD compressive stress in the inner third of the wound roll.
+        CoreMdCompressionMpa = "core_md_compression_mpa",
+        /// Lowest interlayer pressure at the surface after storage.
+        SurfacePressureKpa = "surface_pressure_kpa",
+        /// Largest MD stress in the outer wrap after storage.
+        OuterMdStressMpa = "outer_md_stress_mpa",
+        /// The finding's lane diameter over its neighbours' (two each side), per mille.
+        DiameterRidgePerMille = "diameter_ridge_per_mille",
+        /// Largest minus smallest lane at unwind.
+        SpreadMmPerM = "spread_mm_per_m",
+        /// Largest interlayer pressure in the finding's lanes at winding.
+        PeakPressureMpa = "peak_pressure_mpa",
+        /// Largest interlayer pressure on the core at winding.
+        CorePressureMpa = "core_pressure_mpa",
+        /// Front-to-back difference of a straight line fitted to the lanes at unwind.
+        SideToSideMmPerM = "side_to_side_mm_per_m",
+    }
+}
+
+impl Quantity {
+    /// Whether a lower value is better (all but the surface pressure).
+    pub const fn lower_is_better(self) -> bool {
+        !matches!(self, Quantity::SurfacePressureKpa)
+    }
+
+    /// The quantity's unit as written in JSON fields.
+    pub const fn unit(self) -> &'static str {
+        match self {
+            Quantity::LaneExcessMmPerM
+            | Quantity::LocalPeakMmPerM
+            | Quantity::CentreMinusEdgesMmPerM
+            | Quantity::EdgesMinusCentreMmPerM
+            | Quantity::SpreadMmPerM
+            | Quantity::SideToSideMmPerM => "mm_per_m",
+            Quantity::CoreMdCompressionMpa
+            | Quantity::OuterMdStressMpa
+            | Quantity::PeakPressureMpa
+            | Quantity::CorePressureMpa => "mpa",
+            Quantity::SurfacePressureKpa => "kpa",
+            Quantity::DiameterRidgePerMille => "per_mille",
+        }
     }
 }
 
@@ -154,6 +234,7 @@ words! {
         PeakWidthMm = "peak_width_mm",
         CentreMinusEdgesMmPerM = "centre_minus_edges_mm_per_m",
         SideToSideMmPerM = "side_to_side_mm_per_m",
+        SideToSideRatio = "side_to_side_ratio",
         BandCount = "band_count",
         CaliperCorrelation = "caliper_correlation",
         CaliperRangePct = "caliper_range_pct",
@@ -169,6 +250,12 @@ words! {
         DiameterRidgePerMille = "diameter_ridge_per_mille",
         NipToTensionRatio = "nip_to_tension_ratio",
         SlackLanes = "slack_lanes",
+        CorePressureRatio = "core_pressure_ratio",
+        PeakPressureCrushRatio = "peak_pressure_crush_ratio",
+        MdCompressionStrengthRatio = "md_compression_strength_ratio",
+        MdTensionStrengthRatio = "md_tension_strength_ratio",
+        OuterMoistureLossPct = "outer_moisture_loss_pct",
+        PaperGrade = "paper_grade",
     }
 }
 
@@ -211,6 +298,7 @@ impl Feature {
             F::LocalPeakMmPerM => spec("largest excess of an inner lane (not an outermost lane) over its neighbours (two each side), mm/m", -INF, INF, true),
             F::PeakWidthMm => spec("width of the long band around the longest lane, mm", 0.0, INF, false),
             F::CentreMinusEdgesMmPerM => spec("centre half minus the outermost lane each side, mm/m (positive: baggy centre)", -INF, INF, true),
+            F::SideToSideRatio => spec("front-to-back difference of a straight-line fit over the web's running strain T/(E h)", 0.0, INF, false),
             F::SideToSideMmPerM => spec("front-to-back difference of a straight-line fit, absolute, mm/m", 0.0, INF, true),
             F::BandCount => spec("number of long bands (local peaks over 0.3 mm/m prominent)", 0.0, INF, false),
             F::CaliperCorrelation => spec("correlation of lane caliper with lane length at unwind, -1..1", -1.0, 1.0, false),
@@ -227,6 +315,12 @@ impl Feature {
             F::DiameterRidgePerMille => spec("largest lane diameter at winding over the mean of its neighbours (two each side), per mille of diameter", 0.0, INF, false),
             F::NipToTensionRatio => spec("friction x nip load over web tension", 0.0, INF, false),
             F::SlackLanes => spec("lanes longer than the mean lane by over 0.5 mm/m", 0.0, INF, false),
+            F::CorePressureRatio => spec("highest interlayer pressure on the core over the core's collapse pressure (maker's rating or thin-ring buckling); 0 for a rigid core without a rating", 0.0, INF, false),
+            F::PeakPressureCrushRatio => spec("highest wound-in interlayer pressure over the stack's ZD crush limit", 0.0, INF, false),
+            F::MdCompressionStrengthRatio => spec("most compressive MD stress at winding over the MD compressive strength (0: no compression)", 0.0, INF, false),
+            F::MdTensionStrengthRatio => spec("highest MD stress in the outer wraps at the end of storage over the MD tensile strength", -INF, INF, false),
+            F::OuterMoistureLossPct => spec("largest moisture loss of a lane's outer wraps (outer third of the web length) over storage, points (negative: gained moisture)", -INF, INF, false),
+            F::PaperGrade => spec("1 for a paper grade (newsprint, coated, board, or a custom grade with MD hygroexpansion), 0 for film", 0.0, 1.0, false),
         }
     }
 }
@@ -290,6 +384,8 @@ mod tests {
         check(Action::ALL, Action::word);
         check(Likelihood::ALL, Likelihood::word);
         check(Cause::ALL, Cause::word);
+        check(Amplifier::ALL, Amplifier::word);
+        check(Quantity::ALL, Quantity::word);
         check(Feature::ALL, Feature::word);
         assert_eq!(WORDS.len(), Defect::ALL.len());
         assert_eq!(Defect::from_word("baggy_center"), Some(Defect::BaggyCenter));

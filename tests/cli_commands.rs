@@ -89,14 +89,16 @@ fn json_field_names_carry_si_units() {
     for k in ["defect", "likelihood", "evidence", "lanes", "corrections"] {
         assert!(f.get(k).is_some(), "finding lacks {k}");
     }
-    assert!(f["corrections"][0].get("spread_after_mm_per_m").is_some());
-    let shares: f64 = v["causes"]
+    assert!(f["corrections"][0].get("after").is_some());
+    let a = &f["attribution"];
+    let sum: f64 = a["shares"]
         .as_array()
         .unwrap()
         .iter()
-        .map(|c| c["share"].as_f64().unwrap())
+        .map(|c| c["contribution"].as_f64().unwrap())
         .sum();
-    assert!((shares - 1.0).abs() < 1e-9);
+    let total = a["value"].as_f64().unwrap() - a["value_without_sources"].as_f64().unwrap();
+    assert!((sum - total).abs() <= 1e-9 * total.abs().max(1e-9));
     assert!(v["safety"].as_str().unwrap().contains("Safety"));
 }
 

@@ -27,7 +27,8 @@ fn defects(d: &Diagnosis) -> Vec<Defect> {
     d.findings.iter().map(|f| f.defect).collect()
 }
 
-/// Each shipped field case gives the finding its story intends, and its cause shares add to 1.
+/// Each shipped field case gives the finding its story intends, and every finding's Shapley
+/// shares add up to its quantity's change with every source removed (efficiency).
 #[test]
 fn field_cases_give_their_intended_finding_and_shares_add_up() {
     for (name, want, lane_mm) in [
@@ -51,11 +52,25 @@ fn field_cases_give_their_intended_finding_and_shares_add_up() {
                 f.lanes
             );
         }
-        let total: f64 = d.causes.iter().map(|c| c.share).sum();
-        assert!((total - 1.0).abs() < 1e-9, "{name}: shares add to {total}");
-        // every correction was re-run and reported before/after
-        for c in &f.corrections {
-            assert!(c.spread_after_mm_per_m.is_finite());
+        for g in &d.findings {
+            let a = g.attribution.as_ref().unwrap();
+            let sum: f64 = a.shares.iter().map(|s| s.contribution).sum();
+            let total = a.value - a.value_without_sources;
+            assert!(
+                (sum - total).abs() <= 1e-9 * total.abs().max(1e-9),
+                "{name}: {sum} vs {total}"
+            );
+            // every correction was re-run; those that do not improve come last
+            assert!(g
+                .corrections
+                .iter()
+                .all(|c| c.after.is_some_and(f64::is_finite)));
+            let flags: Vec<bool> = g
+                .corrections
+                .iter()
+                .map(|c| c.improves == Some(true))
+                .collect();
+            assert!(flags.windows(2).all(|w| w[0] || !w[1]), "{name}: {flags:?}");
         }
         assert!(d.advises_action);
     }
@@ -76,7 +91,7 @@ fn caliper_correction_is_backed_by_the_model() {
         .iter()
         .find(|c| c.action == Action::FlattenCaliper)
         .unwrap();
-    assert!(flat.spread_after_mm_per_m < 0.7 * flat.spread_before_mm_per_m);
+    assert!(flat.after.unwrap() < 0.7 * flat.before, "{flat:?}");
 }
 
 fn uniform(storage: &str) -> Case {

@@ -71,10 +71,10 @@ fn run(c: &Case) -> Diagnosis {
 }
 
 /// Twenty rolls that differ only by seeded caliper, hardness and diameter noise: none gives a
-/// finding with high likelihood, and few give any. The target is at most one of the
-/// twenty; this version reaches four (seeds 8, 17, 20: ridge from caliper noise passing the
-/// one-in-24 test; seed 4: baggy edges from edge-lane creep scatter), so the bound guards the
-/// present state until the floor is sharpened (more noise rolls, a stricter test).
+/// finding with high likelihood, and at most two give any. The noise test holds the chance that
+/// noise alone puts up any finding to 5 % (Bonferroni over the deciding features; Dunn 1961), so
+/// one roll in twenty is what a calibrated test gives on average, and more than two happen with
+/// probability 0.075 (binomial, n = 20, p = 0.05). The seeds are fixed, so the count is too.
 #[test]
 fn rolls_differing_only_by_noise_give_no_finding() {
     let flat = [72e-6; 9];
@@ -92,7 +92,8 @@ fn rolls_differing_only_by_noise_give_no_finding() {
             assert!(l.excess_mm_per_m_p05 <= l.excess_mm_per_m_p95, "{l:?}");
         }
     }
-    assert!(fired.len() <= 4, "{fired:?}");
+    eprintln!("noise-only rolls with a finding: {fired:?}");
+    assert!(fired.len() <= 2, "{fired:?}");
 }
 
 /// A real 4 % caliper band at 0.8 m gives a baggy lane there with probability above 0.9.

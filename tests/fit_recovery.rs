@@ -69,13 +69,32 @@ fn run(c: &Case) -> fit::RollFit {
     fit::fit_roll(c, &l, &w, &AgeOptions::default()).unwrap()
 }
 
+/// Smallest k with P(X <= k) >= q for X ~ Binomial(n, p) (exact sum).
+fn binomial_quantile(n: usize, p: f64, q: f64) -> usize {
+    let mut pmf = (1.0 - p).powi(n as i32);
+    let mut cdf = pmf;
+    for k in 0..n {
+        if cdf >= q {
+            return k;
+        }
+        pmf *= (n - k) as f64 / (k + 1) as f64 * p / (1.0 - p);
+        cdf += pmf;
+    }
+    n
+}
+
 /// Recovered within the reported uncertainty: over several seeds and two grades other than the
-/// demo's (coated paper, board), at least 93 % of the identifiable scales lie within 2 reported
-/// sigma of the truth (95.4 % expected for a calibrated Gaussian interval) and 99 % within 3
-/// sigma (99.7 % expected). Sigma is the posterior standard deviation of the log-scale.
+/// demo's (coated paper, board), the identifiable scales that fall outside 1, 2 and 3 reported
+/// sigma of the truth are as many as a calibrated Gaussian interval puts there (31.7 %, 4.55 %,
+/// 0.27 %, two-sided normal tails) or fewer: no count lies above the 99.5 % quantile of its
+/// binomial distribution, so the intervals are not narrower than the data allow. They may be
+/// conservative, but not by more than 1.5x: the 1-sigma count is at least the 0.5 % quantile for
+/// the 13.4 % two-sided tail beyond 1.5 sigma. (Measured: 14, 4 and 1 of 90 outside 1, 2 and
+/// 3 sigma; the prior towards the pooled scales widens the core of the posterior.) Sigma is the
+/// posterior standard deviation of the log-scale.
 #[test]
 fn parameters_are_recovered_within_reported_uncertainty() {
-    let (mut within2, mut within3) = (0, 0);
+    let mut outside = [0usize; 3];
     let mut total = 0;
     let cases = [
         ("field_cases/kestrel_coated_cold_to_humid.yaml", 32.0),
@@ -112,25 +131,31 @@ fn parameters_are_recovered_within_reported_uncertainty() {
                     }
                     let z = (fitv.ln() - tv.ln()).abs() / sd_factor.ln();
                     total += 1;
-                    if z < 2.0 {
-                        within2 += 1;
-                    }
-                    if z < 3.0 {
-                        within3 += 1;
+                    for (i, o) in outside.iter_mut().enumerate() {
+                        if z > (i + 1) as f64 {
+                            *o += 1;
+                        }
                     }
                 }
             }
         }
     }
     assert!(total >= 60, "enough identifiable parameters: {total}");
-    eprintln!("recovery: {within2} and {within3} of {total} within 2 and 3 sigma");
+    eprintln!("recovery: {outside:?} of {total} outside 1, 2 and 3 sigma");
+    let tail = [0.3173, 0.0455, 0.0027];
+    for (i, (o, p)) in outside.iter().zip(tail).enumerate() {
+        let hi = binomial_quantile(total, p, 0.995);
+        assert!(
+            *o <= hi,
+            "{o} of {total} outside {} sigma (at most {hi})",
+            i + 1
+        );
+    }
+    let lo = binomial_quantile(total, 0.1336, 0.005);
     assert!(
-        within2 as f64 >= 0.93 * total as f64,
-        "{within2} of {total} within 2 sigma"
-    );
-    assert!(
-        within3 as f64 >= 0.99 * total as f64,
-        "{within3} of {total} within 3 sigma"
+        outside[0] >= lo,
+        "{} of {total} outside 1 sigma (at least {lo})",
+        outside[0]
     );
 }
 

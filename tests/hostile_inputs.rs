@@ -1,4 +1,4 @@
-//! Hostile and careless inputs against the built binary, each run under a 10 s wall-clock kill
+//! Hostile and careless inputs against the built binary, each run under a 60 s wall-clock kill
 //! and an address-space cap (`prlimit --as`, util-linux). Every run must end with exit 0/1 and no
 //! panic, or exit 2 with a message that names the problem.
 
@@ -18,7 +18,8 @@ struct Run {
     stderr: String,
 }
 
-/// Run the binary with a memory cap; kill it after 10 s (a hang fails the test).
+/// Run the binary with a memory cap; kill it after 60 s (a hang fails the test; the limit guards
+/// against hangs, not speed: parallel tests share two cores).
 fn run(args: &[&str]) -> Run {
     let mut cmd = if Path::new("/usr/bin/prlimit").exists() {
         let mut c = Command::new("/usr/bin/prlimit");
@@ -52,10 +53,10 @@ fn run(args: &[&str]) -> Run {
         if let Some(st) = child.try_wait().unwrap() {
             break st;
         }
-        if start.elapsed() > Duration::from_secs(10) {
+        if start.elapsed() > Duration::from_secs(60) {
             let _ = child.kill();
             let _ = child.wait();
-            panic!("rollsleuth {args:?} ran over 10 s (killed)");
+            panic!("rollsleuth {args:?} ran over 60 s (killed)");
         }
         std::thread::sleep(Duration::from_millis(20));
     };

@@ -38,8 +38,12 @@ fn every_command_warns_when_the_roll_is_wound_above_lift_off() {
             "{cmd} JSON: {w:?}"
         );
     }
-    // the demo as given passes every limit: no warning at all
-    let (_, out, _) = run(&["diagnose", "--json"]);
+    // a roll well inside every limit (the Harrowgate field case) has no warning at all
+    let (_, out, _) = run(&[
+        "diagnose",
+        "--json",
+        "field_cases/harrowgate_board_dry_store.yaml",
+    ]);
     let v: serde_json::Value = serde_json::from_str(&out).unwrap();
     assert_eq!(
         v["warnings"].as_array().unwrap().len(),

@@ -61,6 +61,15 @@ fn file<'a>(files: &'a [(String, String)], ext: &str) -> &'a str {
         })
 }
 
+/// Whether a shown value (number first, then its unit) is `v` in the JSON's `unit`, to the
+/// shown precision (four significant digits, or two decimals): stresses in MPa are shown in kPa
+/// in an SI report.
+fn close(shown: &str, v: f64, unit: &str) -> bool {
+    let number: f64 = shown.split_whitespace().next().unwrap().parse().unwrap();
+    let v = if unit == "mpa" { v * 1e3 } else { v };
+    (number - v).abs() <= 5e-4 * v.abs() + 5e-3
+}
+
 /// Text of the element carrying `data-key="key"`.
 fn keyed(doc: &roxmltree::Document, key: &str) -> String {
     doc.descendants()
@@ -178,24 +187,49 @@ fn every_field_case_report_is_well_formed_self_contained_and_agrees_with_the_jso
                     "{case} {name}: {shown} vs {v}"
                 );
             }
+            // its root cause: the shares and the quantity as the JSON has them
+            if let Some(a) = f["attribution"].as_object() {
+                let unit = a["unit"].as_str().unwrap();
+                let value = a["value"].as_f64().unwrap();
+                let shown = keyed(&doc, &format!("value.{}", i + 1));
+                assert!(
+                    close(&shown, value, unit),
+                    "{case} value: {shown} vs {value}"
+                );
+                for s in a["shares"].as_array().unwrap() {
+                    let key = format!("share.{}.{}", i + 1, s["cause"].as_str().unwrap());
+                    let shown = keyed(&doc, &key);
+                    match s["share"].as_f64() {
+                        Some(x) => {
+                            let number: f64 = shown.trim_end_matches(" %").parse().unwrap();
+                            assert!((number - x * 100.0).abs() <= 0.5, "{case} {key}: {shown}");
+                        }
+                        None => assert_eq!(shown, "-", "{case} {key}"),
+                    }
+                }
+            }
+            // its corrections, re-run and judged on the same quantity
             for c in f["corrections"].as_array().unwrap() {
-                if let Some(after) = c["spread_after_mm_per_m"].as_f64() {
-                    let shown = keyed(
-                        &doc,
-                        &format!("after.{}.{}", i + 1, c["action"].as_str().unwrap()),
+                let action = c["action"].as_str().unwrap();
+                if let Some(after) = c["after"].as_f64() {
+                    let shown = keyed(&doc, &format!("after.{}.{action}", i + 1));
+                    let unit = c["unit"].as_str().unwrap();
+                    assert!(
+                        close(&shown, after, unit),
+                        "{case} {action}: {shown} vs {after}"
                     );
-                    assert_eq!(shown, format!("{after:.2}"));
+                    let improves = keyed(&doc, &format!("improves.{}.{action}", i + 1));
+                    assert_eq!(
+                        improves.starts_with("yes"),
+                        c["improves"].as_bool().unwrap(),
+                        "{case} {action}"
+                    );
                 }
             }
         }
         for (i, l) in json["lanes"].as_array().unwrap().iter().enumerate() {
             let x = l["excess_mm_per_m"].as_f64().unwrap();
             assert_eq!(keyed(&doc, &format!("lane{i}.excess")), format!("{x:+.2}"));
-        }
-        for c in json["causes"].as_array().unwrap() {
-            let share = c["share"].as_f64().unwrap();
-            let shown = keyed(&doc, &format!("share.{}", c["cause"].as_str().unwrap()));
-            assert_eq!(shown, format!("{:.0} %", share * 100.0));
         }
         assert_eq!(keyed(&doc, "date"), "2026-12-02");
         assert_eq!(

@@ -63,9 +63,9 @@ fn scipy_table() -> Vec<(f64, f64, f64)> {
 fn wind(model: &LaneModel, rc: f64, big_r: f64, tw: f64, nodes: usize) -> LaneState {
     let h = (big_r - rc) / (nodes as f64 - 1.0);
     let grid: Vec<f64> = (0..nodes).map(|j| rc + j as f64 * h).collect();
-    let mut st = LaneState::new(grid.clone());
-    for &rk in grid.iter() {
-        st.add(model, tw * h / rk, tw, tw * h).unwrap();
+    let mut st = LaneState::new(grid.clone(), model);
+    for _ in 0..grid.len() {
+        st.add(model, tw, tw * h).unwrap();
     }
     st.finish(tw);
     st

@@ -38,6 +38,10 @@ const MSHIFT: &str =
 const MSORP: &str =
     "mechano-sorptive creep exceeds creep at the highest RH of a cycle (Byrd 1972; from memory); value assumed";
 
+const TENSILE: &str = "MD tensile strength (tension per width over caliper): newsprint 30-50 MPa, board 40-70 MPa (from memory); the middle of the range";
+const SCT: &str = "MD short-span compressive strength about a third to a half of the MD tensile strength for paper (SCT, from memory)";
+const CRUSH: &str = "interlayer pressure at which the stack takes permanent caliper loss: an order of magnitude only (calendering compacts paper at tens of MPa in a nip lasting milliseconds; wound rolls stay below a few MPa; bulky board crushes first; from memory); give material.strength.zd_crush when known";
+
 /// Grade defaults.
 #[derive(Debug, Clone, Copy)]
 pub struct GradeDefaults {
@@ -67,6 +71,10 @@ pub struct GradeDefaults {
     pub activation: Def,
     pub moisture_shift: Def,
     pub mechanosorptive: Def,
+    /// MD tensile strength, MD compressive strength, ZD crush pressure.
+    pub md_tensile: Def,
+    pub md_compressive: Def,
+    pub zd_crush: Def,
 }
 
 const PAPER_CREEP: (Def, Def, Def, Def, Def, Def) = (
@@ -80,6 +88,7 @@ const PAPER_CREEP: (Def, Def, Def, Def, Def, Def) = (
 
 /// Paper-like defaults from the grade-specific values: caliper, density, MD and CD moduli,
 /// Pfeiffer K1 and K2, MD and CD hygroexpansion, moisture and GAB monolayer, as written.
+/// The strength values (MD tensile, MD compressive, ZD crush) are set per grade afterwards.
 fn paper(v: [&'static str; 10]) -> GradeDefaults {
     let [caliper, density, emd, ecd, k1, k2, hmd, hcd, mc, gm] = v;
     let (md_d, md_r, md_v, r_d, r_r, r_v) = PAPER_CREEP;
@@ -110,7 +119,18 @@ fn paper(v: [&'static str; 10]) -> GradeDefaults {
         activation: d("100 kJ/mol", ARRH),
         moisture_shift: d("0.15", MSHIFT),
         mechanosorptive: d("0.5", MSORP),
+        md_tensile: d("40 MPa", TENSILE),
+        md_compressive: d("12 MPa", SCT),
+        zd_crush: d("10 MPa", CRUSH),
     }
+}
+
+/// A grade's strength defaults: MD tensile, MD compressive and ZD crush, as written.
+fn with_strength(mut g: GradeDefaults, v: [&'static str; 3]) -> GradeDefaults {
+    g.md_tensile = d(v[0], TENSILE);
+    g.md_compressive = d(v[1], SCT);
+    g.zd_crush = d(v[2], CRUSH);
+    g
 }
 
 /// Polymer film: the paper form with film values and sources.
@@ -142,48 +162,91 @@ fn film() -> GradeDefaults {
     }
     f.hygro_zd = d("0 /%", polymer);
     f.friction = d("0.3", "film-on-film friction 0.2-0.5 (from memory)");
+    // a polyolefin film creeps more than paper at room temperature and does not respond to
+    // moisture: no moisture shift, no mechano-sorptive creep
+    let fc = "polyolefin film at room temperature: compliance rises about 10-20 % per decade of time (Findley, Lai and Onaran 1976 give polymer creep of this order; from memory); Burgers fit, assumption";
+    f.md_delayed = d("0.5", fc);
+    f.md_retardation = d("1 d", fc);
+    f.md_viscous = d("200 d", fc);
+    let fr = "film stack: entrained air and surface roughness carry the radial load; creep relative to the stack compliance (assumption)";
+    f.r_delayed = d("0.05", fr);
+    f.r_retardation = d("1 d", fr);
+    f.r_viscous = d("2000 d", fr);
+    f.activation = d(
+        "80 kJ/mol",
+        "polypropylene creep activation energy of order 80 kJ/mol (from memory)",
+    );
+    f.moisture_shift = d(
+        "0",
+        "a polyolefin does not take up water: no moisture shift",
+    );
+    f.mechanosorptive = d(
+        "0",
+        "no sorption, so no mechano-sorptive creep (polyolefin film)",
+    );
+    f.md_tensile = d(
+        "120 MPa",
+        "oriented polypropylene film MD tensile strength 100-200 MPa (handbook range, from memory)",
+    );
+    f.md_compressive = d(
+        "30 MPa",
+        "polypropylene compressive yield of order 30-40 MPa (from memory)",
+    );
+    f.zd_crush = d(
+        "20 MPa",
+        "a polyolefin film stack deforms permanently near the polymer's yield stress, 20-40 MPa (from memory)",
+    );
     f
 }
 
 /// Defaults for a grade class. `Custom` returns `None`: every field must be given.
 pub fn for_grade(g: Grade) -> Option<GradeDefaults> {
     Some(match g {
-        Grade::Newsprint => paper([
-            "72 um",
-            "620 kg/m3",
-            "5.5 GPa",
-            "2.0 GPa",
-            "1 kPa",
-            "50",
-            "0.0005 /%",
-            "0.0015 /%",
-            "8 %",
-            "5.5 %",
-        ]),
-        Grade::Coated => paper([
-            "95 um",
-            "780 kg/m3",
-            "6.5 GPa",
-            "3.0 GPa",
-            "2 kPa",
-            "70",
-            "0.0004 /%",
-            "0.0012 /%",
-            "5.5 %",
-            "4.8 %",
-        ]),
-        Grade::Board => paper([
-            "350 um",
-            "700 kg/m3",
-            "7.5 GPa",
-            "3.2 GPa",
-            "5 kPa",
-            "35",
-            "0.0004 /%",
-            "0.0012 /%",
-            "7 %",
-            "5.5 %",
-        ]),
+        Grade::Newsprint => with_strength(
+            paper([
+                "72 um",
+                "620 kg/m3",
+                "5.5 GPa",
+                "2.0 GPa",
+                "1 kPa",
+                "50",
+                "0.0005 /%",
+                "0.0015 /%",
+                "8 %",
+                "5.5 %",
+            ]),
+            ["40 MPa", "12 MPa", "10 MPa"],
+        ),
+        Grade::Coated => with_strength(
+            paper([
+                "95 um",
+                "780 kg/m3",
+                "6.5 GPa",
+                "3.0 GPa",
+                "2 kPa",
+                "70",
+                "0.0004 /%",
+                "0.0012 /%",
+                "5.5 %",
+                "4.8 %",
+            ]),
+            ["40 MPa", "15 MPa", "12 MPa"],
+        ),
+        Grade::Board => with_strength(
+            paper([
+                "350 um",
+                "700 kg/m3",
+                "7.5 GPa",
+                "3.2 GPa",
+                "5 kPa",
+                "35",
+                "0.0004 /%",
+                "0.0012 /%",
+                "7 %",
+                "5.5 %",
+            ]),
+            ["55 MPa", "18 MPa", "3 MPa"],
+        ),
         Grade::Film => film(),
         Grade::Custom => return None,
     })

@@ -141,6 +141,20 @@ pub struct Material {
     pub sorption: Gab,
     /// Creep parameters (grade values; `fit` refines them per lane).
     pub creep: Creep,
+    /// Strength limits the wound state is checked against.
+    pub strength: Strength,
+}
+
+/// Strength limits of the web, Pa (positive numbers).
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct Strength {
+    /// MD tensile strength, Pa (stress = breaking force per width over caliper).
+    pub md_tensile_pa: f64,
+    /// MD compressive strength (short-span compression), Pa: beyond it layers buckle (starring).
+    pub md_compressive_pa: f64,
+    /// ZD compressive limit: the interlayer pressure at which the stack is crushed
+    /// (permanent caliper loss, blocking of coated or embossed layers), Pa.
+    pub zd_crush_pa: f64,
 }
 
 /// Core stiffness.
@@ -170,6 +184,9 @@ pub struct Roll {
     /// Core outer diameter, m.
     pub core_diameter_m: f64,
     pub core: Core,
+    /// The core maker's rated collapse (crush) pressure, Pa, when the case gives one
+    /// (`roll.core.rating`); else the collapse pressure is computed from the tube.
+    pub core_rating_pa: Option<f64>,
 }
 
 /// Web tension: constant or a taper table against roll diameter.

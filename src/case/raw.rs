@@ -218,6 +218,20 @@ pub struct RawMaterial {
     pub sorption: Option<RawGab>,
     #[serde(default)]
     pub creep: Option<RawCreep>,
+    #[serde(default)]
+    pub strength: Option<RawStrength>,
+}
+
+/// `strength: { md_tensile, md_compressive, zd_crush }`, each optional (grade defaults).
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct RawStrength {
+    #[serde(default)]
+    pub md_tensile: Option<Q>,
+    #[serde(default)]
+    pub md_compressive: Option<Q>,
+    #[serde(default)]
+    pub zd_crush: Option<Q>,
 }
 
 #[derive(Debug, Deserialize)]
@@ -268,7 +282,8 @@ pub struct RawRoll {
     pub core: Option<RawCore>,
 }
 
-/// `core: { rigid: true }` or `core: { modulus, wall, poisson }`.
+/// `core: { rigid: true }` or `core: { modulus, wall, poisson }`, each with an optional maker's
+/// collapse `rating` (a pressure).
 #[derive(Debug, Deserialize)]
 #[serde(deny_unknown_fields)]
 pub struct RawCore {
@@ -280,6 +295,8 @@ pub struct RawCore {
     pub wall: Option<Q>,
     #[serde(default)]
     pub poisson: Option<Q>,
+    #[serde(default)]
+    pub rating: Option<Q>,
 }
 
 #[derive(Debug, Deserialize)]

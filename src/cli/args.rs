@@ -78,7 +78,7 @@ pub enum Command {
         #[command(flatten)]
         case: CaseArg,
         /// Radial nodes per lane.
-        #[arg(long, default_value_t = 401)]
+        #[arg(long, default_value_t = crate::winding::DEFAULT_NODES)]
         nodes: usize,
         /// CD levelling fraction 0..1 (0: independent lanes).
         #[arg(long, default_value_t = crate::winding::DEFAULT_LEVELLING)]

@@ -52,7 +52,7 @@ pub fn triage(
     }
     let bar = progress(todo.len() as u64, out.quiet);
     let opt = DiagnoseOptions {
-        nodes: 101,
+        nodes: crate::winding::DEFAULT_NODES,
         what_if: false,
     };
     let stdout = std::io::stdout();

@@ -5,11 +5,11 @@ use crate::case::{Case, Tension, Wrap};
 use crate::lanes::Lanes;
 use crate::numeric::spread;
 use crate::storage::{age, gab_moisture, AgeError, AgeOptions, Aged, HardnessMap, LaneCreep};
-use crate::vocab::{Action, Cause};
-use crate::winding::{wind, Options, WindError, WindInput, Wound};
+use crate::vocab::Action;
+use crate::winding::{Cache, Options, WindError, WindInput, Wound};
 
 /// Everything a forward run needs.
-#[derive(Debug, Clone)]
+#[derive(Debug, Clone, PartialEq)]
 pub struct Scenario {
     pub case: Case,
     pub lanes: Lanes,
@@ -38,15 +38,26 @@ pub enum RunError {
 impl Scenario {
     /// Run winding and storage.
     pub fn run(&self, nodes: usize) -> Result<Outcome, RunError> {
-        let wound = wind(
-            &WindInput::new(&self.case.material, &self.case.roll, &self.case.winding),
-            &self.lanes,
-            Options {
-                nodes,
-                levelling: self.levelling,
-            },
-        )?;
+        self.run_cached(nodes, &mut Cache::default())
+    }
+
+    /// Run winding and storage, reusing a wound state from `winds` when the winding inputs match.
+    pub fn run_cached(&self, nodes: usize, winds: &mut Cache) -> Result<Outcome, RunError> {
+        let wound = winds.wind(&self.wind_input(), &self.lanes, self.wind_options(nodes))?;
         self.age_on(wound)
+    }
+
+    /// What winding reads of this scenario's case.
+    pub fn wind_input(&self) -> WindInput<'_> {
+        WindInput::new(&self.case.material, &self.case.roll, &self.case.winding)
+    }
+
+    /// Winding options of this scenario at `nodes` nodes.
+    pub fn wind_options(&self, nodes: usize) -> Options {
+        Options {
+            nodes,
+            levelling: self.levelling,
+        }
     }
 
     /// Run storage on a wound state already computed for this scenario's case, lanes and
@@ -94,38 +105,19 @@ pub fn rh_for_moisture(case: &Case, mc: f64) -> f64 {
     0.5 * (lo + hi)
 }
 
-/// A model change: a correction from a rule table, or one of the ablations that remove a cause
-/// for root-cause attribution.
+/// A model change: a correction from a rule table, a source removal or an amplifier's feasible
+/// alternative for attribution.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 pub enum Change {
     /// A rule table's correction.
     Correct(Action),
-    /// Every lane wound at the same tension (full CD levelling).
-    UniformLaneTension,
     /// Every lane given the roll's mean creep.
     UniformCreep,
+    /// The web tension alone scaled (the nip left as it is).
+    ScaleWebTension,
+    /// The winding speed scaled.
+    ScaleSpeed,
 }
-
-/// The cause ablations: each cause, the change that removes it and its factor.
-pub const ABLATIONS: [(Cause, Change, Option<f64>); 5] = [
-    (
-        Cause::CaliperProfile,
-        Change::Correct(Action::FlattenCaliper),
-        None,
-    ),
-    (
-        Cause::StorageMoisture,
-        Change::Correct(Action::StoreAtEquilibrium),
-        None,
-    ),
-    (
-        Cause::WoundInTensionProfile,
-        Change::UniformLaneTension,
-        None,
-    ),
-    (Cause::Nip, Change::Correct(Action::ScaleNip), Some(0.0)),
-    (Cause::LaneToLaneCreep, Change::UniformCreep, None),
-];
 
 /// Apply a change with its factor (1 when none). `slit` lists the lanes a `slit_out` leaves out.
 pub fn apply(s: &Scenario, change: Change, factor: Option<f64>, slit: &[usize]) -> Scenario {
@@ -133,14 +125,52 @@ pub fn apply(s: &Scenario, change: Change, factor: Option<f64>, slit: &[usize]) 
     let f = factor.unwrap_or(1.0);
     match change {
         Change::Correct(a) => correct(&mut n, a, f, slit),
-        Change::UniformLaneTension => n.levelling = 1.0,
         Change::UniformCreep => uniform_creep(&mut n.creep),
+        Change::ScaleWebTension => n.case.winding.tension = scaled(&n.case.winding.tension, f),
+        Change::ScaleSpeed => n.case.winding.speed_m_s *= f,
     }
     n
 }
 
-/// Apply a rule table's action with factor `f`.
+/// A tension schedule scaled by `f`.
+fn scaled(t: &Tension, f: f64) -> Tension {
+    match t {
+        Tension::Constant { tension_n_per_m } => Tension::Constant {
+            tension_n_per_m: tension_n_per_m * f,
+        },
+        Tension::Taper { points } => Tension::Taper {
+            points: points.iter().map(|(d, t)| (*d, t * f)).collect(),
+        },
+    }
+}
+
+/// Mean of `g(d)` over diameters `d0..d1` weighted by the web length wound there (proportional
+/// to d dd), by the trapezoid rule on 400 intervals.
+fn length_weighted_mean(d0: f64, d1: f64, g: &dyn Fn(f64) -> f64) -> f64 {
+    let n = 400;
+    let (mut num, mut den) = (0.0, 0.0);
+    for k in 0..=n {
+        let d = d0 + (d1 - d0) * k as f64 / n as f64;
+        let w = if k == 0 || k == n { 0.5 } else { 1.0 } * d;
+        num += w * g(d);
+        den += w;
+    }
+    num / den
+}
+
+/// A linear taper from a raised start to `f` times the start at full diameter, with the same
+/// web-length-weighted mean tension as `t`: the tension moved from the outer wraps to the inner.
+pub fn raised_start_taper(t: &Tension, d0: f64, d1: f64, f: f64) -> Tension {
+    let shape = |d: f64| 1.0 - (1.0 - f) * (d - d0) / (d1 - d0).max(1e-12);
+    let start = length_weighted_mean(d0, d1, &|d| t.at(d)) / length_weighted_mean(d0, d1, &shape);
+    Tension::Taper {
+        points: vec![(d0, start), (d1, start * f)],
+    }
+}
+
+/// Apply a rule table's action with factor `f`, as its text says.
 fn correct(n: &mut Scenario, action: Action, f: f64, slit: &[usize]) {
+    let (d0, d1) = (n.case.roll.core_diameter_m, n.case.roll.diameter_m);
     match action {
         Action::FlattenCaliper => {
             let m = n.lanes.mean_caliper_m;
@@ -149,23 +179,20 @@ fn correct(n: &mut Scenario, action: Action, f: f64, slit: &[usize]) {
                 l.caliper_deviation = 0.0;
             }
         }
+        // the wound-in tension is web tension + friction x nip load (Good, Wu and Fikes 1994):
+        // scaling it scales both parts
         Action::ScaleTension => {
-            n.case.winding.tension = match &n.case.winding.tension {
-                Tension::Constant { tension_n_per_m } => Tension::Constant {
-                    tension_n_per_m: tension_n_per_m * f,
-                },
-                Tension::Taper { points } => Tension::Taper {
-                    points: points.iter().map(|(d, t)| (*d, t * f)).collect(),
-                },
-            }
+            n.case.winding.tension = scaled(&n.case.winding.tension, f);
+            n.case.winding.nip_n_per_m *= f;
         }
         Action::TaperTension => {
-            let d0 = n.case.roll.core_diameter_m;
-            let d1 = n.case.roll.diameter_m;
             let t0 = n.case.winding.tension.at(d0);
             n.case.winding.tension = Tension::Taper {
                 points: vec![(d0, t0), (d1, t0 * f)],
             };
+        }
+        Action::RaiseStartAndTaper => {
+            n.case.winding.tension = raised_start_taper(&n.case.winding.tension, d0, d1, f);
         }
         Action::ScaleNip => n.case.winding.nip_n_per_m *= f,
         Action::FilmWrap => {
@@ -184,6 +211,11 @@ fn correct(n: &mut Scenario, action: Action, f: f64, slit: &[usize]) {
             let rh = rh_for_moisture(&n.case, n.case.material.moisture_pct);
             for st in &mut n.case.storage {
                 st.rh = rh;
+            }
+        }
+        Action::MakeAtPressroomEquilibrium => {
+            if let Some(rh) = n.case.storage.last().map(|st| st.rh) {
+                n.case.material.moisture_pct = gab_moisture(&n.case.material.sorption, rh);
             }
         }
         Action::ShortenStorage => {

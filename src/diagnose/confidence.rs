@@ -11,17 +11,21 @@
 //!   profile readings (put on the lanes as the readings are), lane creep scales moved from the
 //!   pooled scales as far as a draw of the lane's own posterior lies from its fit (what the
 //!   hardness and diameter reading noise leaves unresolved; zero for a scale the data do not
-//!   identify, which the fit keeps at the pooled value). A finding stands above the floor when the
-//!   noise-free uniform roll already
-//!   fires its rule (the pattern comes from winding or storage, not from the lanes), or when at
-//!   most [`NULL_SHARE`] of the noise rolls fire the rule with its deciding feature (the first
-//!   condition) at least as far from the uniform roll's (a one-sided test under "noise only";
-//!   with 24 rolls, at most one). A finding whose rule
-//!   holds in fewer than half of the plausible states is dropped with a note too.
-//!   Findings below the floor are dropped with a note; a note states the resolution (the 95 %
-//!   quantile of what noise does to a caliper band, a lane's excess and centre against edges).
+//!   identify, which the fit keeps at the pooled value). A finding stands above noise when the
+//!   noise-free uniform roll already fires its rule's deciding condition (the first; the pattern
+//!   comes from winding or storage, not from the lanes), or when the chance that noise alone moves
+//!   the deciding feature as far from the uniform roll is at most [`FAMILY_LEVEL`] shared over the
+//!   deciding features tested (Bonferroni), so noise alone puts up any finding at all in at most
+//!   5 % of rolls. The chance comes from a normal fitted to the noise rolls' deviations, and is
+//!   never below 1 / ([`NOISE_ROLLS`] + 1) while a noise roll deviates as far (a guard where the
+//!   tail is heavier than normal); for a
+//!   caliper band (deciding feature `caliper_range_pct`) from the readings themselves
+//!   ([`BandTest`], Monte Carlo, no winding). A finding whose rule holds in fewer than half of
+//!   the plausible states is dropped too. Dropped findings get a note; a note states the
+//!   resolution (the smallest caliper band, lane excess and centre-to-edges difference that pass).
 //! - **Grading.** Likelihood from the probability (high at 0.9 or more, medium at 0.6, else low),
-//!   never above the rule's own label, and high only when no noise roll fires it as strongly.
+//!   never above the rule's own label, and high only with a clear margin over noise
+//!   ([`NoiseTest::clear`]).
 //! - **Consistency.** A lane whose fit misfit (root-mean-square residual in noise units) exceeds
 //!   [`MISFIT_LIMIT`] is not explained; so is the roll when its pooled misfit does. Findings on
 //!   such lanes, or on lanes with a scale the data do not identify, are named in notes.
@@ -32,32 +36,21 @@
 //! **Invariant:** no prose; notes carry numbers (positions in m, lengths in mm per m of web).
 
 use super::features::{self, Features};
+use super::noise::{caliper_repeatability, noise_floor, Floor};
+pub use super::noise::{
+    FeatureFloor, BAND_DRAWS, FAMILY_LEVEL, FLOOR_QUANTILE, NOISE_NODES, NOISE_ROLLS,
+};
 use super::{DiagnoseError, Finding, Fitted};
-use crate::case::{Case, Measure};
-use crate::fit::{creep_from, posterior, prepared, with_lab_creep, FitError};
-use crate::lanes::Lanes;
+use crate::case::Case;
+use crate::fit::{posterior, prepared, with_lab_creep, FitError};
 use crate::note::Note;
 use crate::rules::{Rule, Table};
 use crate::storage::{age_prepared, AgeOptions, LaneCreep};
 use crate::vocab::{Feature, FeatureValues, Likelihood};
-use crate::winding::{wind, Options, WindInput};
-use rand::{Rng, SeedableRng};
-use rand_chacha::ChaCha8Rng;
 use serde::Serialize;
 
-/// Uniform rolls made of measurement noise alone.
-pub const NOISE_ROLLS: usize = 24;
-/// Quantile of the noise-only deviations that sets the floor.
-pub const FLOOR_QUANTILE: f64 = 0.95;
 /// Misfit (root-mean-square residual in noise units) above which a lane is not explained.
 pub const MISFIT_LIMIT: f64 = 3.0;
-/// Most winding nodes of a noise roll (floors are differences between rolls at the same nodes).
-pub const NOISE_NODES: usize = 61;
-/// Largest share of noise rolls that may fire a finding as strongly for it to stand above noise
-/// (a one-sided test at 5 %).
-pub const NULL_SHARE: f64 = 0.05;
-/// Seed offset of the noise rolls (distinct from any lane index of the sampler).
-const NOISE_SEED_LANE: usize = 1 << 20;
 
 /// A lane's length at unwind with its spread over the plausible states.
 #[derive(Debug, Clone, PartialEq, Serialize)]
@@ -77,16 +70,6 @@ pub struct LaneSpread {
     pub explained: bool,
 }
 
-/// What measurement noise alone makes of a feature.
-#[derive(Debug, Clone, PartialEq, Serialize)]
-pub struct FeatureFloor {
-    pub feature: Feature,
-    /// Value on the noise-free uniform roll (feature's own unit).
-    pub uniform: f64,
-    /// 95 % quantile of |noisy - uniform| over the noise rolls (feature's own unit).
-    pub floor: f64,
-}
-
 /// Confidence of a diagnosis.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct Confidence {
@@ -104,25 +87,6 @@ pub struct Confidence {
     pub roll_misfit: f64,
     /// Rules whose finding was dropped below the noise floor.
     pub below_floor: Vec<String>,
-}
-
-/// The caliper repeatability of a case, m, and its source.
-fn caliper_repeatability(case: &Case) -> (f64, String) {
-    match case.caliper_repeatability_m {
-        Some(v) => (v, "case file".into()),
-        None => {
-            let d = crate::case::defaults::CALIPER_REPEAT;
-            let v = crate::units::parse(d.text, crate::units::Kind::Length).unwrap_or(1e-6);
-            (v, d.source.to_string())
-        }
-    }
-}
-
-/// A standard normal draw (Box-Muller).
-fn normal(rng: &mut ChaCha8Rng) -> f64 {
-    let u1: f64 = rng.random::<f64>().max(1e-300);
-    let u2: f64 = rng.random::<f64>();
-    (-2.0 * u1.ln()).sqrt() * (std::f64::consts::TAU * u2).cos()
 }
 
 /// Assess a diagnosis: drop findings below the noise floor, give each a probability and a graded
@@ -170,20 +134,85 @@ pub fn assess(
     })
 }
 
-/// Whether the noise-free uniform roll fires the rule's deciding condition, and the rule's floor
-/// and the share of noise rolls that fire it as strongly ([`noise_share`]).
-fn floor_test(r: &Rule, feats: &Features, fl: &Floor) -> (bool, (f64, f64)) {
-    let own = r
-        .when
-        .first()
-        .and_then(|c| {
-            fl.floors
-                .iter()
-                .find(|x| x.feature == c.feature)
-                .map(|x| c.holds(x.uniform))
-        })
-        .unwrap_or(true);
-    (own, noise_share(r, feats, fl))
+/// The noise test of a rule's deciding condition (its first).
+struct NoiseTest {
+    /// The noise-free uniform roll already fires the deciding condition (the pattern comes from
+    /// winding or storage, not from the lanes).
+    own: bool,
+    /// One-sided chance that measurement noise alone moves the deciding feature this far from the
+    /// uniform roll.
+    chance: f64,
+    /// Level the chance must not exceed: [`FAMILY_LEVEL`] over the number of features tested.
+    level: f64,
+}
+
+impl NoiseTest {
+    fn stands(&self) -> bool {
+        self.own || self.chance <= self.level
+    }
+    /// A clear margin for a high likelihood: noise alone at least ten times less likely than
+    /// the test's level (common practice for a "clear" margin, not a published value).
+    fn clear(&self) -> bool {
+        self.own || self.chance <= 0.1 * self.level
+    }
+}
+
+/// Chance that a noise deviation (mean `m`, standard deviation `sd`) reaches `d`: the upper tail
+/// of a normal fitted to the noise rolls' deviations (a parametric bootstrap, Efron and
+/// Tibshirani 1993, ch. 6).
+fn gaussian_chance(d: f64, m: f64, sd: f64) -> f64 {
+    if sd > 0.0 {
+        0.5 * crate::numeric::erfc((d - m) / sd / std::f64::consts::SQRT_2)
+    } else if d > m * (1.0 + 1e-9) + 1e-12 {
+        0.0
+    } else {
+        1.0
+    }
+}
+
+/// The noise test of rule `r` on the diagnosed roll's features.
+fn noise_test(r: &Rule, feats: &Features, fl: &Floor) -> NoiseTest {
+    let level = FAMILY_LEVEL / fl.floors.len().max(1) as f64;
+    let found = r.when.first().and_then(|c| {
+        fl.floors
+            .iter()
+            .find(|x| x.feature == c.feature)
+            .map(|x| (c, x))
+    });
+    let Some((c, x)) = found else {
+        return NoiseTest {
+            own: true,
+            chance: 0.0,
+            level,
+        };
+    };
+    // a rule that rests on the caliper profile (thick lanes long, or a caliper range) may stand
+    // on the band test: its false alarms are already counted in the family's share
+    let on_caliper = r.when.iter().any(|k| {
+        k.above.is_some()
+            && matches!(
+                k.feature,
+                Feature::CaliperRangePct | Feature::CaliperCorrelation
+            )
+    });
+    let d = (feats.get(c.feature) - x.uniform).abs();
+    let mut own_chance = gaussian_chance(d, x.noise_mean, x.noise_sd);
+    if d <= x.noise_max {
+        // within what the noise rolls themselves reached: never below the empirical share
+        own_chance = own_chance.max(1.0 / (NOISE_ROLLS + 1) as f64);
+    }
+    let chance = if c.feature == Feature::CaliperRangePct {
+        fl.band.chance
+    } else if on_caliper {
+        fl.band.chance.min(own_chance)
+    } else {
+        own_chance
+    };
+    NoiseTest {
+        own: c.holds(x.uniform),
+        chance,
+        level,
+    }
 }
 
 /// Drop the findings that do not stand above the noise floor, with a note each; their rules.
@@ -199,28 +228,29 @@ fn drop_below_floor(
         let Some(r) = table.rules.iter().find(|r| r.id == f.rule) else {
             return true;
         };
-        let (own, (share, _)) = floor_test(r, feats, fl);
-        let keep = own || share <= NULL_SHARE;
-        if !keep {
-            below.push(f.rule.clone());
-            let c = r.when.first();
-            if let Some((c, x)) = c.and_then(|c| {
-                fl.floors
-                    .iter()
-                    .find(|x| x.feature == c.feature)
-                    .map(|x| (c, x))
-            }) {
-                notes.push(Note::BelowNoiseFloor {
-                    defect: f.defect,
-                    feature: c.feature,
-                    value: feats.get(c.feature),
-                    uniform: x.uniform,
-                    floor: x.floor,
-                    noise_share: share,
-                });
-            }
+        let t = noise_test(r, feats, fl);
+        if t.stands() {
+            return true;
         }
-        keep
+        below.push(f.rule.clone());
+        let c = r.when.first();
+        if let Some((c, x)) = c.and_then(|c| {
+            fl.floors
+                .iter()
+                .find(|x| x.feature == c.feature)
+                .map(|x| (c, x))
+        }) {
+            notes.push(Note::BelowNoiseFloor {
+                defect: f.defect,
+                feature: c.feature,
+                value: feats.get(c.feature),
+                uniform: x.uniform,
+                threshold: x.threshold,
+                noise_chance: t.chance,
+                level: t.level,
+            });
+        }
+        false
     });
     below
 }
@@ -242,13 +272,16 @@ fn grade_findings(
             .filter(|s| r.when.iter().all(|c| c.holds(s.values[c.feature])))
             .count();
         f.probability = holds as f64 / states.len().max(1) as f64;
-        let (own, (share, _)) = floor_test(r, feats, fl);
-        f.likelihood = grade(f.probability, own || share == 0.0, r.likelihood);
+        f.likelihood = grade(
+            f.probability,
+            noise_test(r, feats, fl).clear(),
+            r.likelihood,
+        );
     }
 }
 
-/// Likelihood from a probability, capped by the rule's label; high needs a clear margin (no noise
-/// roll fires the rule as strongly, or the noise-free uniform roll fires it).
+/// Likelihood from a probability, capped by the rule's label; high needs a clear margin over
+/// noise ([`NoiseTest::clear`]).
 fn grade(p: f64, wide: bool, label: Likelihood) -> Likelihood {
     let rank = |l: Likelihood| match l {
         Likelihood::High => 2,
@@ -297,172 +330,6 @@ fn posterior_states(lab: &Case, fitted: &Fitted) -> Result<Vec<State>, DiagnoseE
         });
     }
     Ok(out)
-}
-
-/// What noise alone makes: floors of the deciding features, the resolution note, and the feature
-/// values of every noise roll.
-struct Floor {
-    floors: Vec<FeatureFloor>,
-    resolution: Note,
-    rolls: Vec<FeatureValues>,
-}
-
-/// Share of the noise rolls in which the rule fires with its deciding feature at least as far
-/// from the uniform roll's as in `feats` (a one-sided p-value under "noise only"), and that
-/// distance in `feats`.
-fn noise_share(r: &Rule, feats: &Features, fl: &Floor) -> (f64, f64) {
-    let Some(c) = r.when.first() else {
-        return (0.0, 0.0);
-    };
-    let Some(u) = fl.floors.iter().find(|x| x.feature == c.feature) else {
-        return (0.0, 0.0);
-    };
-    let d = (feats.get(c.feature) - u.uniform).abs();
-    let n = fl
-        .rolls
-        .iter()
-        .filter(|v| {
-            r.when.iter().all(|k| k.holds(v[k.feature])) && (v[c.feature] - u.uniform).abs() >= d
-        })
-        .count();
-    (n as f64 / fl.rolls.len().max(1) as f64, d)
-}
-
-/// Lanes of a uniform roll: every caliper profile set to its mean plus `noise` (one draw per
-/// reading, m; none for the noise-free roll) and put on the lanes as the case's own profiles are
-/// (so lanes average or interpolate the noise as they do the readings); without a caliper profile
-/// the lanes' own deviations are drawn with `lane_sigma` (fraction).
-fn uniform_lanes(lab: &Case, lanes: &Lanes, noise: Option<(&mut ChaCha8Rng, f64)>) -> Lanes {
-    let has_profile = lab.profiles.iter().any(|p| p.what == Measure::Caliper);
-    let mut rng_sigma = noise;
-    if has_profile {
-        let mut c = lab.clone();
-        for p in c.profiles.iter_mut().filter(|p| p.what == Measure::Caliper) {
-            let m = p.values.iter().sum::<f64>() / p.values.len().max(1) as f64;
-            for v in p.values.iter_mut() {
-                *v = m + rng_sigma.as_mut().map_or(0.0, |(r, s)| *s * normal(r));
-            }
-        }
-        return crate::lanes::build(&c);
-    }
-    let mut l = lanes.clone();
-    for lane in l.lanes.iter_mut() {
-        let d = rng_sigma.as_mut().map_or(0.0, |(r, s)| {
-            *s / lanes.mean_caliper_m.max(1e-12) * normal(r)
-        });
-        lane.caliper_deviation = d;
-        lane.caliper_m = lanes.mean_caliper_m * (1.0 + d);
-    }
-    l
-}
-
-/// A roll on `lanes` wound at `nodes` and run through storage with `creep` per lane: its features.
-fn roll_features(
-    lab: &Case,
-    lanes: &Lanes,
-    creep: &[LaneCreep],
-    nodes: usize,
-) -> Result<Features, DiagnoseError> {
-    let wound = wind(
-        &WindInput::new(&lab.material, &lab.roll, &lab.winding),
-        lanes,
-        Options {
-            nodes,
-            ..Options::default()
-        },
-    )?;
-    let (prep, map) = prepared(lab, lanes, &wound, &AgeOptions::default())?;
-    let aged =
-        age_prepared(&lab.material, &prep, &wound, Some(creep), &map).map_err(FitError::from)?;
-    Ok(features::compute(lab, lanes, &wound, &aged))
-}
-
-/// Creep per lane of a noise-only roll: the pooled log-scales moved by one of the lane's own
-/// posterior draws' deviations from its fitted log-scales (a random draw per lane), so the
-/// correlation of the two scales is kept; a scale the data do not identify does not move.
-fn noisy_creep(lab: &Case, fit: &crate::fit::RollFit, rng: &mut ChaCha8Rng) -> Vec<LaneCreep> {
-    let pooled = [
-        fit.pooled_md_creep_scale.ln(),
-        fit.pooled_radial_creep_scale.ln(),
-    ];
-    fit.lanes
-        .iter()
-        .map(|l| {
-            let n = l.draws_theta.len();
-            let t = if n == 0 {
-                pooled
-            } else {
-                let d = l.draws_theta[rng.random_range(0..n)];
-                [0, 1].map(|i| pooled[i] + d[i] - l.theta[i])
-            };
-            creep_from(&lab.material, &t)
-        })
-        .collect()
-}
-
-/// Floors of the deciding features of `table`'s rules from [`NOISE_ROLLS`] noise-only uniform
-/// rolls (wound at no more than [`NOISE_NODES`] nodes, run in parallel, drawn in a fixed order),
-/// and the resolution note.
-fn noise_floor(
-    lab: &Case,
-    fitted: &Fitted,
-    table: &Table,
-    nodes: usize,
-) -> Result<Floor, DiagnoseError> {
-    use rayon::prelude::*;
-    let fit = &fitted.fit;
-    let nodes = nodes.min(NOISE_NODES);
-    let (rep, _) = caliper_repeatability(lab);
-    let l0 = uniform_lanes(lab, &fitted.lanes, None);
-    let none = noisy_creep(lab, fit, &mut ChaCha8Rng::seed_from_u64(0)).len();
-    let pooled = creep_from(
-        &lab.material,
-        &[
-            fit.pooled_md_creep_scale.ln(),
-            fit.pooled_radial_creep_scale.ln(),
-        ],
-    );
-    let clean = roll_features(lab, &l0, &vec![pooled; none], nodes)?;
-    let mut rng = ChaCha8Rng::seed_from_u64(posterior::seed_for(&lab.id, NOISE_SEED_LANE));
-    let inputs: Vec<(Lanes, Vec<LaneCreep>)> = (0..NOISE_ROLLS)
-        .map(|_| {
-            let l = uniform_lanes(lab, &fitted.lanes, Some((&mut rng, rep)));
-            (l, noisy_creep(lab, fit, &mut rng))
-        })
-        .collect();
-    let rolls: Vec<Features> = inputs
-        .par_iter()
-        .map(|(l, c)| roll_features(lab, l, c, nodes))
-        .collect::<Result<_, _>>()?;
-    let floor_of = |x: Feature| {
-        let mut v: Vec<f64> = rolls
-            .iter()
-            .map(|f| (f.get(x) - clean.get(x)).abs())
-            .collect();
-        v.sort_by(f64::total_cmp);
-        posterior::quantile(&v, FLOOR_QUANTILE)
-    };
-    let mut floors: Vec<FeatureFloor> = Vec::new();
-    for c in table.rules.iter().filter_map(|r| r.when.first()) {
-        if !floors.iter().any(|x| x.feature == c.feature) {
-            floors.push(FeatureFloor {
-                feature: c.feature,
-                uniform: clean.get(c.feature),
-                floor: floor_of(c.feature),
-            });
-        }
-    }
-    let resolution = Note::Resolution {
-        caliper_repeatability_m: rep,
-        band_m: floor_of(Feature::CaliperRangePct) / 100.0 * fitted.lanes.mean_caliper_m,
-        lane_excess_mm_per_m: floor_of(Feature::LocalPeakMmPerM),
-        centre_edges_mm_per_m: floor_of(Feature::CentreMinusEdgesMmPerM),
-    };
-    Ok(Floor {
-        floors,
-        resolution,
-        rolls: rolls.into_iter().map(|f| f.values).collect(),
-    })
 }
 
 /// Each lane's length at unwind with its spread over the states, and its misfit.

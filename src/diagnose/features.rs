@@ -13,7 +13,7 @@
 //! computed an `edges_or_ends` set that always equalled the ends; it is replaced by these two
 //! named sets, with the features' values unchanged.)
 
-use crate::case::Case;
+use crate::case::{Case, Grade};
 use crate::lanes::Lanes;
 use crate::storage::Aged;
 use crate::vocab::{Feature, FeatureValues};
@@ -45,7 +45,7 @@ impl Features {
 pub const SLACK_MM_PER_M: f64 = 0.5;
 
 /// Prominence over the mean lane for a local peak to count as a long band, mm/m (common practice).
-const BAND_MM_PER_M: f64 = 0.3;
+pub const BAND_MM_PER_M: f64 = 0.3;
 
 fn median(v: &[f64]) -> f64 {
     let mut s = v.to_vec();
@@ -241,8 +241,16 @@ fn long_band(u: &Unwind) -> Vec<usize> {
 
 /// Front-to-back difference of a least-squares straight line across the width, absolute, mm/m.
 fn side_to_side(u: &Unwind) -> f64 {
-    let (x, s) = (&u.x, &u.s);
-    let n = u.n() as f64;
+    straight_line_difference(&u.x, &u.s, u.width)
+}
+
+/// Difference over `width` of the least-squares straight line through `(x, s)`, absolute, in
+/// the unit of `s` (0 when the positions do not spread).
+pub fn straight_line_difference(x: &[f64], s: &[f64], width: f64) -> f64 {
+    let n = x.len().min(s.len()) as f64;
+    if n < 2.0 {
+        return 0.0;
+    }
     let xm = x.iter().sum::<f64>() / n;
     let sm = s.iter().sum::<f64>() / n;
     let sxx: f64 = x.iter().map(|a| (a - xm).powi(2)).sum();
@@ -255,7 +263,7 @@ fn side_to_side(u: &Unwind) -> f64 {
     } else {
         0.0
     };
-    (slope * u.width).abs()
+    (slope * width).abs()
 }
 
 /// Local maxima standing out from the mean lane by over [`BAND_MM_PER_M`].
@@ -410,6 +418,55 @@ fn finite(v: f64) -> f64 {
     }
 }
 
+/// The wound and stored state against the strength limits, the drying of the outer wraps and
+/// the grade kind.
+struct LimitRatios {
+    core: f64,
+    crush: f64,
+    md_compression: f64,
+    md_tension: f64,
+    outer_loss: f64,
+    paper: f64,
+}
+
+fn limit_ratios(
+    case: &Case,
+    wound: &Wound,
+    aged: &Aged,
+    last: usize,
+    st: &StressStates,
+) -> LimitRatios {
+    use crate::note::Strength;
+    let checks = crate::limits::strength(&case.material, &case.roll, wound);
+    let ratio = |which: Strength| {
+        checks
+            .iter()
+            .find(|c| c.which == which)
+            .map_or(0.0, |c| c.ratio)
+    };
+    let m = &case.material;
+    let outer_loss = max_from(
+        f64::NEG_INFINITY,
+        aged.lanes.iter().map(|l| {
+            let o = &l.outer_moisture_pct;
+            o.first().copied().unwrap_or(0.0) - o.get(last).copied().unwrap_or(0.0)
+        }),
+    );
+    let paper = match m.grade {
+        Grade::Film => false,
+        Grade::Custom => m.hygro_md_per_pct > 0.0,
+        Grade::Newsprint | Grade::Coated | Grade::Board => true,
+    };
+    LimitRatios {
+        core: ratio(Strength::CoreCollapse),
+        crush: ratio(Strength::ZdCrush),
+        md_compression: ratio(Strength::MdCompression),
+        md_tension: st.outer_md_end_mpa * 1e6 / m.strength.md_tensile_pa.max(1e-9),
+        outer_loss,
+        paper: if paper { 1.0 } else { 0.0 },
+    }
+}
+
 /// Compute the features of a predicted roll.
 pub fn compute(case: &Case, lanes: &Lanes, wound: &Wound, aged: &Aged) -> Features {
     let last = aged.last();
@@ -422,6 +479,7 @@ pub fn compute(case: &Case, lanes: &Lanes, wound: &Wound, aged: &Aged) -> Featur
     let st = stress_states(wound, aged, last);
     let (edge_moisture, moisture_change) = moisture_change(aged, last, &centre, &ends);
     let (tension_ratio, ridge, nip_ratio) = winding_states(case, wound);
+    let lim = limit_ratios(case, wound, aged, last, &st);
     let excess: Vec<f64> = u.s.iter().map(|v| v - u.mean_w).collect();
     let slack: Vec<usize> = (0..u.n()).filter(|&i| excess[i] > SLACK_MM_PER_M).collect();
     let running = running_strain(case, lanes);
@@ -432,6 +490,7 @@ pub fn compute(case: &Case, lanes: &Lanes, wound: &Wound, aged: &Aged) -> Featur
         F::LocalPeakRatio => ratio(len.local_peak),
         F::CentreMinusEdgesRatio => ratio(len.centre_minus_edges),
         F::LongestLaneRatio => ratio(len.longest_excess),
+        F::SideToSideRatio => ratio(len.side_to_side),
         F::RunningStrainMmPerM => finite(running),
         F::SpreadMmPerM => finite(len.spread),
         F::LongestLaneExcessMmPerM => finite(len.longest_excess),
@@ -454,6 +513,12 @@ pub fn compute(case: &Case, lanes: &Lanes, wound: &Wound, aged: &Aged) -> Featur
         F::DiameterRidgePerMille => finite(ridge),
         F::NipToTensionRatio => finite(nip_ratio),
         F::SlackLanes => finite(slack.len() as f64),
+        F::CorePressureRatio => finite(lim.core),
+        F::PeakPressureCrushRatio => finite(lim.crush),
+        F::MdCompressionStrengthRatio => finite(lim.md_compression),
+        F::MdTensionStrengthRatio => finite(lim.md_tension),
+        F::OuterMoistureLossPct => finite(lim.outer_loss),
+        F::PaperGrade => lim.paper,
     });
     Features {
         values,

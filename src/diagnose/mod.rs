@@ -1,13 +1,20 @@
 //! Diagnosis: the whole chain (lanes, winding, storage, fit), features of the predicted roll, the
-//! rules they fire, root-cause shares by removing each cause in turn, and each correction checked
-//! by re-running the model with it applied.
+//! rules they fire, and per finding: the lanes carrying its evidence, the root cause on its own
+//! quantity (`attribution`) and each correction re-run and checked on it (`corrections`).
 //!
 //! **Invariant:** returns structured findings, never prose; `report` turns them into words.
 
 pub mod actions;
+pub mod attribution;
 pub mod confidence;
+pub mod corrections;
 pub mod features;
+mod noise;
+pub mod quantity;
 mod whatif;
+
+pub use attribution::{Attribution, RunCount};
+pub use corrections::CheckedCorrection;
 
 pub use whatif::{creep_at, what_if, WhatIf};
 
@@ -17,10 +24,12 @@ use crate::lanes::{self, Lanes};
 use crate::note::Note;
 use crate::rules::{self, Table};
 use crate::storage::{AgeOptions, LaneCreep};
-use crate::vocab::{Action, Cause, Defect, Feature, Likelihood};
+use crate::vocab::{Defect, Feature, Likelihood};
 use crate::winding::{wind, Options, WindError, WindInput};
-use actions::{apply, spread_mm_per_m, Change, RunError, Scenario, ABLATIONS};
+use actions::{Outcome, RunError, Scenario};
+use attribution::{Runner, Runs};
 use features::Features;
+use quantity::{locate, quantity_of, Site};
 use serde::Serialize;
 
 /// Diagnosis options.
@@ -70,18 +79,8 @@ pub struct LaneRef {
     pub position_m: f64,
     /// Lane length at unwind over the width-weighted mean lane, mm per m of web.
     pub excess_mm_per_m: f64,
-}
-
-/// A correction with the model re-run.
-#[derive(Debug, Clone, PartialEq, Serialize)]
-pub struct CheckedCorrection {
-    pub action: Action,
-    pub factor: Option<f64>,
-    pub text: String,
-    pub why: String,
-    /// Spread of the strain at unwind before and after, mm/m.
-    pub spread_before_mm_per_m: f64,
-    pub spread_after_mm_per_m: f64,
+    /// Whether a profile had to be extrapolated to this lane.
+    pub extrapolated: bool,
 }
 
 /// A finding.
@@ -98,16 +97,10 @@ pub struct Finding {
     pub lanes: Vec<LaneRef>,
     /// The length difference behind the finding (its first feature), mm/m when a length.
     pub length_difference_mm_per_m: f64,
+    /// Root cause on the finding's own quantity (None when re-runs are off).
+    pub attribution: Option<Attribution>,
+    /// Corrections checked on the same quantity; those that do not improve it last.
     pub corrections: Vec<CheckedCorrection>,
-}
-
-/// A cause's share of the predicted nonuniformity.
-#[derive(Debug, Clone, PartialEq, Serialize)]
-pub struct CauseShare {
-    pub cause: Cause,
-    /// Spread with this cause removed, mm/m.
-    pub spread_without_mm_per_m: f64,
-    pub share: f64,
 }
 
 /// Does the prediction agree with what the complainant saw?
@@ -129,6 +122,8 @@ pub struct LaneResult {
     pub md_creep_scale: f64,
     pub radial_creep_scale: f64,
     pub fit_rmse: f64,
+    /// Whether a profile had to be extrapolated to this lane.
+    pub extrapolated: bool,
 }
 
 /// The diagnosis of one roll.
@@ -139,7 +134,8 @@ pub struct Diagnosis {
     pub rules: String,
     pub features: Features,
     pub findings: Vec<Finding>,
-    pub causes: Vec<CauseShare>,
+    /// Model runs made for the attribution and the corrections.
+    pub runs: RunCount,
     pub agreement: Option<Agreement>,
     pub lanes: Vec<LaneResult>,
     pub spread_mm_per_m: f64,
@@ -176,24 +172,6 @@ pub fn base_scenario(
     }
 }
 
-/// Lanes a finding concerns (none: the whole roll).
-fn lanes_for(defect: Defect, case: &Case, lanes: &Lanes, f: &Features) -> Vec<usize> {
-    let w = case.roll.width_m;
-    match defect {
-        Defect::BaggyEdges => features::edge_lanes(lanes, w),
-        Defect::BaggyCenter => features::centre_lanes(lanes, w),
-        Defect::Starring | Defect::CrepeWrinkles | Defect::Telescoping | Defect::Bursts => {
-            Vec::new()
-        }
-        Defect::BaggyLane
-        | Defect::Puckers
-        | Defect::Ridges
-        | Defect::Corrugations
-        | Defect::GaugeBands
-        | Defect::NoDefect => f.peak_lanes.clone(),
-    }
-}
-
 /// A case wound and fitted: what diagnosis and what-if start from.
 pub struct Fitted {
     pub lanes: Lanes,
@@ -224,9 +202,6 @@ pub fn fitted(case: &Case, opt: &DiagnoseOptions) -> Result<Fitted, DiagnoseErro
     })
 }
 
-/// A correction run's identity: action, factor bits, slit lanes.
-type CorrectionKey = (Action, Option<u64>, Vec<usize>);
-
 /// Diagnose a case with a rule table.
 pub fn diagnose(
     case: &Case,
@@ -252,22 +227,34 @@ pub fn diagnose_fitted(
     let feats = features::compute(case, lanes, wound, &fit.aged);
     let fired = rules::evaluate(table, &feats.values);
     let base = base_scenario(case, lanes, creep.clone(), Options::default().levelling);
-    let mut notes = fit.notes.clone();
-    let (base_spread, causes) = if opt.what_if {
-        attribute_causes(&base, wound, opt.nodes)?
-    } else {
-        (feats.get(Feature::SpreadMmPerM), Vec::new())
+    let fitted_outcome = Outcome {
+        wound: wound.clone(),
+        aged: fit.aged.clone(),
     };
-    let mut checker = Checker {
-        base: &base,
-        base_spread,
-        opt,
-        cache: Vec::new(),
+    let identified = fit
+        .lanes
+        .iter()
+        .any(|l| l.md_identifiable || l.radial_identifiable);
+    let mut rerun = if opt.what_if {
+        let mut runner = Runner::new(opt.nodes, &base, wound.clone());
+        let runs = attribution::prepare(&base, &mut runner, identified)?;
+        Some((runner, runs))
+    } else {
+        None
     };
     let mut findings = Vec::new();
     for fr in &fired {
-        findings.push(finding(fr, case, lanes, &feats, &mut checker)?);
+        findings.push(finding(
+            fr,
+            case,
+            lanes,
+            &feats,
+            &fitted_outcome,
+            &base,
+            rerun.as_mut(),
+        )?);
     }
+    let mut notes = fit.all_notes();
     let confidence = confidence::assess(
         case,
         table,
@@ -281,11 +268,6 @@ pub fn diagnose_fitted(
     let complaint = case.complaint.as_deref().and_then(Defect::from_word);
     let agreement = complaint.map(|c| agreement(c, &findings));
     let lane_results = lane_results(fit, lanes, &feats);
-    for n in &fit.aged.notes {
-        if !notes.contains(n) {
-            notes.push(*n);
-        }
-    }
     Ok(Diagnosis {
         case: case.id.clone(),
         title: case.title.clone(),
@@ -294,7 +276,7 @@ pub fn diagnose_fitted(
         advises_action: !findings.is_empty(),
         features: feats,
         findings,
-        causes,
+        runs: rerun.map(|(r, _)| r.count).unwrap_or_default(),
         agreement,
         lanes: lane_results,
         notes,
@@ -303,107 +285,48 @@ pub fn diagnose_fitted(
     })
 }
 
-/// Root-cause attribution: the base spread, and each cause's share from removing it alone (the
-/// base scenario winds exactly as the fitted roll did, so its wound state is reused).
-fn attribute_causes(
-    base: &Scenario,
-    wound: &crate::winding::Wound,
-    nodes: usize,
-) -> Result<(f64, Vec<CauseShare>), DiagnoseError> {
-    let b = base.age_on(wound.clone())?;
-    let s0 = spread_mm_per_m(&b.aged, &[]);
-    let mut raw = Vec::new();
-    for (cause, change, factor) in ABLATIONS {
-        let s = apply(base, change, factor, &[]).run(nodes)?;
-        let without = spread_mm_per_m(&s.aged, &[]);
-        raw.push((cause, without, (s0 - without).max(0.0)));
-    }
-    let total: f64 = raw.iter().map(|r| r.2).sum();
-    let mut causes: Vec<CauseShare> = raw
-        .iter()
-        .map(|&(cause, w, red)| CauseShare {
-            cause,
-            spread_without_mm_per_m: w,
-            share: if total > 0.0 { red / total } else { 0.0 },
-        })
-        .collect();
-    if total <= 0.0 {
-        causes.push(CauseShare {
-            cause: Cause::NotAttributable,
-            spread_without_mm_per_m: s0,
-            share: 1.0,
-        });
-    }
-    Ok((s0, causes))
-}
-
-/// Re-runs corrections on the base scenario, each distinct one once.
-struct Checker<'a> {
-    base: &'a Scenario,
-    /// Spread of the base scenario, mm/m.
-    base_spread: f64,
-    opt: &'a DiagnoseOptions,
-    cache: Vec<(CorrectionKey, f64)>,
-}
-
-impl Checker<'_> {
-    /// Spread after a correction (NaN when re-runs are off); `lanes` are the finding's lanes.
-    fn spread_after(
-        &mut self,
-        action: Action,
-        factor: Option<f64>,
-        lanes: &[usize],
-    ) -> Result<f64, DiagnoseError> {
-        if !self.opt.what_if {
-            return Ok(f64::NAN);
-        }
-        let slit = if action == Action::SlitOut {
-            lanes.to_vec()
-        } else {
-            Vec::new()
-        };
-        let key = (action, factor.map(f64::to_bits), slit);
-        if let Some((_, v)) = self.cache.iter().find(|(k, _)| *k == key) {
-            return Ok(*v);
-        }
-        let s = apply(self.base, Change::Correct(action), factor, lanes);
-        let out = s.run(self.opt.nodes)?;
-        let v = spread_mm_per_m(&out.aged, &s.excluded);
-        self.cache.push((key, v));
-        Ok(v)
-    }
-}
-
-/// A fired rule as a finding: its evidence, lanes and checked corrections.
+/// A fired rule as a finding: its evidence, the lanes that carry it, its root cause and its
+/// corrections, both on the defect's own quantity. `rerun`: the runner and the attribution runs
+/// (None when re-runs are off).
 fn finding(
     fr: &rules::Fired,
     case: &Case,
     lanes: &Lanes,
     feats: &Features,
-    checker: &mut Checker,
+    fitted: &Outcome,
+    base: &Scenario,
+    rerun: Option<&mut (Runner, Runs)>,
 ) -> Result<Finding, DiagnoseError> {
     let r = fr.rule;
-    let idx = lanes_for(r.defect, case, lanes, feats);
+    let idx = locate(r.defect, lanes, case.roll.width_m, feats, fitted);
     let lane_refs: Vec<LaneRef> = idx
         .iter()
         .map(|&i| LaneRef {
             index: i,
             position_m: lanes.lanes[i].position_m,
             excess_mm_per_m: feats.excess_mm_per_m[i],
+            extrapolated: lanes.lanes[i].extrapolated,
         })
         .collect();
-    let mut corrections = Vec::new();
-    for c in &r.corrections {
-        let after = checker.spread_after(c.action, c.factor, &idx)?;
-        corrections.push(CheckedCorrection {
-            action: c.action,
-            factor: c.factor,
-            text: c.text.clone(),
-            why: c.why.clone(),
-            spread_before_mm_per_m: checker.base_spread,
-            spread_after_mm_per_m: after,
-        });
-    }
+    let q = quantity_of(r.defect);
+    let site = Site {
+        lanes,
+        width_m: case.roll.width_m,
+        at: &idx,
+        excluded: &[],
+    };
+    let (attribution, corrections) = match rerun {
+        Some((runner, runs)) => {
+            let a = attribution::attribute(runs, q, &|o| site.measure(q, o));
+            let b = std::rc::Rc::clone(&runs.subsets[0]);
+            let c = corrections::check(&r.corrections, q, &site, base, &b, Some(runner))?;
+            (Some(a), c)
+        }
+        None => (
+            None,
+            corrections::check(&r.corrections, q, &site, base, fitted, None)?,
+        ),
+    };
     let first = r.when.first().map(|c| c.feature);
     Ok(Finding {
         defect: r.defect,
@@ -429,6 +352,7 @@ fn finding(
             Some(f) if f.spec().is_length => feats.get(f).abs(),
             _ => feats.get(Feature::SpreadMmPerM),
         },
+        attribution,
         corrections,
     })
 }
@@ -464,6 +388,7 @@ fn lane_results(fit: &crate::fit::RollFit, lanes: &Lanes, feats: &Features) -> V
             md_creep_scale: l.params.md_creep_scale,
             radial_creep_scale: l.params.radial_creep_scale,
             fit_rmse: l.rmse,
+            extrapolated: lanes.lanes[i].extrapolated,
         })
         .collect()
 }

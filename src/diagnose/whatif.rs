@@ -8,7 +8,7 @@ use crate::lanes::{self, Lanes};
 use crate::rules::{self, Table};
 use crate::storage::LaneCreep;
 use crate::vocab::Defect;
-use crate::winding::Options;
+use crate::winding::{Cache, Options};
 use features::Features;
 use serde::Serialize;
 
@@ -48,11 +48,15 @@ pub fn what_if(
         .map(|l| l.position_m)
         .zip(f.creep.iter().copied())
         .collect();
-    let run = |c: &Case| -> Result<(Lanes, actions::Outcome), DiagnoseError> {
+    let mut winds = Cache::default();
+    let mut run = |c: &Case| -> Result<(Lanes, actions::Outcome), DiagnoseError> {
         let l = lanes::build(c);
         let cr = creep_at(&fitted_at, &l.positions(), &LaneCreep::grade(&c.material));
         let s = base_scenario(c, &l, cr, Options::default().levelling);
-        Ok((l, s.run(opt.nodes)?))
+        if std::ptr::eq(c, base) {
+            winds.insert(&s.wind_input(), &l, s.wind_options(opt.nodes), &f.wound);
+        }
+        Ok((l, s.run_cached(opt.nodes, &mut winds)?))
     };
     let (lb, ob) = run(base)?;
     let (la, oa) = run(variant)?;

@@ -88,17 +88,15 @@ pub fn age_measured(
 /// The aged roll with a note for every physical limit the winding or storage result passed
 /// ([`crate::limits`]).
 fn with_limits(case: &Case, wound: &Wound, mut aged: Aged) -> Aged {
-    let mut found = crate::limits::after_winding(wound, &case.material, case.winding.speed_m_s);
+    let mut found =
+        crate::limits::after_winding(wound, &case.material, &case.roll, case.winding.speed_m_s);
     found.extend(crate::limits::after_storage(
         &aged,
         &case.material,
         &case.roll,
     ));
-    for n in found {
-        if !aged.notes.contains(&n) {
-            aged.notes.push(n);
-        }
-    }
+    found.extend(crate::limits::condensation(&case.storage, &case.material));
+    crate::note::push_new(&mut aged.notes, found);
     aged
 }
 
@@ -132,6 +130,15 @@ pub struct RollFit {
     /// The roll through storage with fitted parameters.
     #[serde(skip)]
     pub aged: Aged,
+}
+
+impl RollFit {
+    /// The fit's notes and its aged roll's, each once.
+    pub fn all_notes(&self) -> Vec<Note> {
+        let mut v = self.notes.clone();
+        crate::note::push_new(&mut v, self.aged.notes.iter().copied());
+        v
+    }
 }
 
 /// The grade's creep with laboratory creep curves applied: each direction that has lab curves
@@ -267,22 +274,28 @@ fn pooled_fit(problems: &[LaneProblem]) -> Result<(Minimum, u64), FitError> {
 
 /// Each lane's fit with a prior towards the pooled log-scales, its sampler seeded from the case id
 /// and the lane; returns the fits and their simulations.
+///
+/// Lanes are fitted in parallel (each fit is a pure function of its lane and seed); results are
+/// taken in lane order, and the first failing lane by index is reported, so the output does not
+/// depend on the number of threads.
 fn lane_fits(
     problems: &[LaneProblem],
     prior: [f64; 2],
     case_id: &str,
 ) -> Result<(Vec<LaneFit>, u64), FitError> {
     use rayon::prelude::*;
-    // each lane's sampler has its own seed, so the lanes run in parallel and in any order
-    let fits: Vec<LaneFit> = problems
+    let all: Vec<_> = problems
         .par_iter()
         .enumerate()
-        .map(|(lane, p)| {
-            let seed = posterior::seed_for(case_id, lane);
-            fit_lane(p, prior, seed).map_err(|source| FitError::Lane { lane, source })
-        })
-        .collect::<Result<_, _>>()?;
-    let evaluations = fits.iter().map(|f| f.evaluations).sum();
+        .map(|(lane, p)| fit_lane(p, prior, posterior::seed_for(case_id, lane)))
+        .collect();
+    let mut fits = Vec::with_capacity(problems.len());
+    let mut evaluations = 0;
+    for (lane, f) in all.into_iter().enumerate() {
+        let f = f.map_err(|source| FitError::Lane { lane, source })?;
+        evaluations += f.evaluations;
+        fits.push(f);
+    }
     Ok((fits, evaluations))
 }
 

@@ -1,12 +1,13 @@
-//! `diagnose` terminal and JSON output: findings with evidence, causes, corrections checked. The
-//! root-cause report files are in `document`, `html`, `markdown` and `plots`.
+//! `diagnose` terminal and JSON output: findings with evidence, each with its root cause and its
+//! corrections checked on its own quantity. The root-cause report files are in `document`,
+//! `html`, `markdown` and `plots`.
 
 use super::words;
 use super::{pos, short, strain_unit, table, SAFETY};
 
 /// Longest source text in a table cell (the full text is in --json and the report).
 const SOURCE_CHARS: usize = 60;
-use crate::diagnose::{CauseShare, Diagnosis, Finding};
+use crate::diagnose::{Attribution, CheckedCorrection, Diagnosis, Finding};
 use crate::units::System;
 use crate::vocab::Feature;
 use serde_json::{json, Value};
@@ -30,8 +31,9 @@ fn lanes_text(lanes: &[crate::diagnose::LaneRef], sys: System) -> String {
         .iter()
         .map(|l| {
             format!(
-                "{} ({:+.2} {})",
+                "{}{} ({:+.2} {})",
                 pos(l.position_m, sys),
+                if l.extrapolated { "*" } else { "" },
                 l.excess_mm_per_m,
                 strain_unit(sys)
             )
@@ -60,13 +62,6 @@ pub fn text(d: &Diagnosis, sys: System) -> String {
     }
     for (k, f) in d.findings.iter().enumerate() {
         out.push_str(&finding_text(k + 1, f, sys));
-    }
-    if !d.causes.is_empty() {
-        let _ = writeln!(
-            out,
-            "\nRoot cause (each cause removed in turn):\n{}",
-            causes_table(&d.causes, sys)
-        );
     }
     if let Some(a) = &d.agreement {
         let _ = writeln!(
@@ -143,51 +138,96 @@ fn finding_text(rank: usize, f: &Finding, sys: System) -> String {
         ]);
     }
     let _ = writeln!(out, "{t}");
-    if !f.corrections.is_empty() {
-        let unit = strain_unit(sys);
-        let before = format!("spread before {unit}");
-        let after = format!("after {unit}");
-        let mut c = table(&["correction", &before, &after, "why"]);
-        for x in &f.corrections {
-            c.add_row(vec![
-                x.text.clone(),
-                format!("{:.2}", x.spread_before_mm_per_m),
-                if x.spread_after_mm_per_m.is_finite() {
-                    format!("{:.2}", x.spread_after_mm_per_m)
-                } else {
-                    "not run".into()
-                },
-                x.why.clone(),
-            ]);
+    if let Some(a) = &f.attribution {
+        let _ = writeln!(
+            out,
+            "   Root cause, on the {}: {} as predicted, {} with every source removed.",
+            words::quantity(a.quantity),
+            words::quantity_value(a.quantity, a.value, sys),
+            words::quantity_value(a.quantity, a.value_without_sources, sys)
+        );
+        for (head, rows) in attribution_rows(a, sys) {
+            let mut t = table(&head);
+            for r in rows {
+                t.add_row(r);
+            }
+            let _ = writeln!(out, "{t}");
         }
-        let _ = writeln!(out, "{c}");
+    }
+    if let Some(first) = f.corrections.first() {
+        let mut c = table(&["correction", "before", "after", "improves", "why"]);
+        for x in &f.corrections {
+            c.add_row(correction_row(x, sys));
+        }
+        let _ = writeln!(
+            out,
+            "   Corrections, on the {}:\n{c}",
+            words::quantity(first.quantity)
+        );
     }
     out
 }
 
-/// Root-cause shares as a table.
-fn causes_table(causes: &[CauseShare], sys: System) -> comfy_table::Table {
-    let without = format!("spread without it {}", strain_unit(sys));
-    let mut c = table(&["cause", "removed as", &without, "share"]);
-    for x in causes {
-        c.add_row(vec![
-            words::cause(x.cause).to_string(),
-            words::removed(x.cause).to_string(),
-            format!("{:.2}", x.spread_without_mm_per_m),
-            format!("{:.0} %", x.share * 100.0),
-        ]);
-    }
-    c
+/// A correction's cells: text, before, after, improves, why.
+pub fn correction_row(x: &CheckedCorrection, sys: System) -> Vec<String> {
+    vec![
+        x.text.clone(),
+        words::quantity_value(x.quantity, x.before, sys),
+        x.after.map_or("not run".into(), |a| {
+            words::quantity_value(x.quantity, a, sys)
+        }),
+        words::improves(x.improves).to_string(),
+        x.why.clone(),
+    ]
 }
 
-/// A cause share in JSON: the cause and how it was removed, in words.
-fn cause_json(c: &CauseShare) -> Value {
-    json!({
-        "cause": words::cause(c.cause),
-        "removed": words::removed(c.cause),
-        "spread_without_mm_per_m": c.spread_without_mm_per_m,
-        "share": c.share,
-    })
+/// The attribution's two tables: sources with Shapley shares, amplifiers at an alternative.
+#[allow(clippy::type_complexity)]
+pub fn attribution_rows(
+    a: &Attribution,
+    sys: System,
+) -> Vec<([&'static str; 4], Vec<Vec<String>>)> {
+    let q = a.quantity;
+    let src = a
+        .shares
+        .iter()
+        .map(|s| {
+            vec![
+                words::cause(s.cause).to_string(),
+                words::removed(s.cause).to_string(),
+                words::quantity_change(q, s.contribution, sys),
+                words::share(s.share),
+            ]
+        })
+        .collect();
+    let amp = a
+        .sensitivities
+        .iter()
+        .map(|s| {
+            let (name, alt) = words::amplifier(s.amplifier);
+            vec![
+                name.to_string(),
+                alt.to_string(),
+                words::quantity_value(q, s.value_at_alternative, sys),
+                words::quantity_change(q, s.value_at_alternative - a.value, sys),
+            ]
+        })
+        .collect();
+    vec![
+        (
+            [
+                "source (Shapley share)",
+                "removed as",
+                "contribution",
+                "share",
+            ],
+            src,
+        ),
+        (
+            ["amplifier", "feasible alternative", "value there", "change"],
+            amp,
+        ),
+    ]
 }
 
 /// JSON diagnosis.
@@ -197,7 +237,7 @@ pub fn json(d: &Diagnosis) -> Value {
         "rules": d.rules,
         "spread_mm_per_m": d.spread_mm_per_m,
         "findings": d.findings,
-        "causes": d.causes.iter().map(cause_json).collect::<Vec<_>>(),
+        "runs": d.runs,
         "agreement": d.agreement,
         "features": d.features.values,
         "lanes": d.lanes,

@@ -2,8 +2,8 @@
 //! `markdown` render (and escape) the same way: headline, findings with evidence, root cause and
 //! corrections, plots, tables, inputs, defaults used, provenance and the safety note.
 
-use super::document_tables;
 use super::report_data::ReportData;
+use super::{document_cause, document_tables};
 use super::{pos, q};
 use crate::units::{self, Kind, System};
 use crate::vocab::{Defect, Feature};
@@ -118,7 +118,7 @@ pub fn build(r: &ReportData) -> Vec<Block> {
     let mut v = Vec::new();
     headline(r, &mut v);
     findings(r, &mut v);
-    root_cause(r, &mut v);
+    document_cause::root_cause(r, &mut v);
     v.push(Block::Heading(2, "Plots".into(), "plots"));
     v.push(Block::Plots);
     document_tables::tables(r, &mut v);
@@ -174,15 +174,8 @@ fn headline(r: &ReportData, v: &mut Vec<Block>) {
         k(per_mille(d.spread_mm_per_m, sys), "spread"),
         t("."),
     ]);
-    if let Some(cause) = d.causes.iter().max_by(|a, b| a.share.total_cmp(&b.share)) {
-        lines.push(vec![
-            b("Main cause: "),
-            t(format!(
-                "{} ({:.0} % of the spread).",
-                super::words::cause(cause.cause),
-                cause.share * 100.0
-            )),
-        ]);
+    if let Some(line) = document_cause::main_cause(d) {
+        lines.push(line);
     }
     lines.push(vec![
         b("Agreement with the complaint: "),
@@ -206,9 +199,10 @@ fn lanes_text(f: &crate::diagnose::Finding, sys: System) -> String {
         .iter()
         .map(|l| {
             format!(
-                "lane {} at {} ({:+.2} {})",
+                "lane {} at {}{} ({:+.2} {})",
                 l.index,
                 pos(l.position_m, sys),
+                if l.extrapolated { "*" } else { "" },
                 l.excess_mm_per_m,
                 units::per_mille_label(sys)
             )
@@ -263,92 +257,4 @@ fn findings(r: &ReportData, v: &mut Vec<Block>) {
                 .collect(),
         });
     }
-}
-
-fn root_cause(r: &ReportData, v: &mut Vec<Block>) {
-    let (d, sys) = (r.diagnosis, r.sys);
-    let pm = units::per_mille_label(sys);
-    v.push(Block::Heading(
-        2,
-        "Root cause and corrections".into(),
-        "root-cause",
-    ));
-    if d.causes.is_empty() {
-        v.push(Block::Para(vec![t(
-            "Causes were not attributed (the model was not re-run).",
-        )]));
-    } else {
-        v.push(Block::Para(vec![t(
-            "Each cause removed in turn from the model; its share is the reduction of the spread, normalised to add to 100 %.",
-        )]));
-        v.push(Block::Table {
-            head: vec![
-                "cause".into(),
-                "removed as".into(),
-                format!("spread without it ({pm})"),
-                "share".into(),
-            ],
-            rows: d
-                .causes
-                .iter()
-                .map(|c| {
-                    vec![
-                        t(super::words::cause(c.cause)),
-                        t(super::words::removed(c.cause)),
-                        t(format!("{:.2}", c.spread_without_mm_per_m)),
-                        k(
-                            format!("{:.0} %", c.share * 100.0),
-                            format!("share.{}", super::words::cause(c.cause)),
-                        ),
-                    ]
-                })
-                .collect(),
-        });
-    }
-    let rows = correction_rows(d);
-    if !rows.is_empty() {
-        v.push(Block::Para(vec![t(
-            "Each correction applied to the model and the roll re-run through winding and storage:",
-        )]));
-        v.push(Block::Table {
-            head: vec![
-                "correction (finding)".into(),
-                format!("spread before ({pm})"),
-                format!("after ({pm})"),
-                "change".into(),
-                "why".into(),
-            ],
-            rows,
-        });
-    }
-}
-
-/// One row per correction of every finding: before, after, change, why.
-fn correction_rows(d: &crate::diagnose::Diagnosis) -> Vec<Vec<Span>> {
-    let mut rows = Vec::new();
-    for (i, f) in d.findings.iter().enumerate() {
-        for c in &f.corrections {
-            let ran = c.spread_after_mm_per_m.is_finite();
-            let (after, change) = if ran {
-                (
-                    format!("{:.2}", c.spread_after_mm_per_m),
-                    super::pct(
-                        (c.spread_after_mm_per_m - c.spread_before_mm_per_m)
-                            / c.spread_before_mm_per_m.abs().max(1e-12),
-                        0,
-                    ),
-                )
-            } else {
-                ("not run".into(), String::new())
-            };
-            rows.push(vec![
-                t(format!("{} ({})", c.text, plain(&f.defect))),
-                t(format!("{:.2}", c.spread_before_mm_per_m)),
-                k(after, format!("after.{}.{}", i + 1, c.action)),
-                t(change),
-                t(c.why.clone()),
-            ]);
-        }
-    }
-    rows
 }

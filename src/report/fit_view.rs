@@ -72,7 +72,7 @@ pub fn text(c: &Case, lanes: &Lanes, f: &RollFit, sys: System) -> String {
         crate::units::show(f.noise.diameter_m, crate::units::Kind::Length, sys, false),
         f.noise.diameter_source
     );
-    for line in super::words::note_lines(&c.warnings, &all_notes(f)) {
+    for line in super::words::note_lines(&c.warnings, &f.all_notes()) {
         let _ = writeln!(out, "{line}");
     }
     out
@@ -116,7 +116,7 @@ fn worst_residuals(f: &RollFit, sys: System) -> Option<comfy_table::Table> {
 
 /// JSON of the fit.
 pub fn json(c: &Case, f: &RollFit) -> Value {
-    let (notes, warnings) = super::words::note_json(&c.warnings, &all_notes(f));
+    let (notes, warnings) = super::words::note_json(&c.warnings, &f.all_notes());
     json!({
         "case": c.id,
         "lanes": f.lanes.iter().enumerate().map(|(i, l)| json!({
@@ -142,17 +142,6 @@ pub fn json(c: &Case, f: &RollFit) -> Value {
         "notes": notes,
         "warnings": warnings,
     })
-}
-
-/// The fit's notes and its aged roll's, each once.
-fn all_notes(f: &RollFit) -> Vec<crate::note::Note> {
-    let mut v = f.notes.clone();
-    for n in &f.aged.notes {
-        if !v.contains(n) {
-            v.push(*n);
-        }
-    }
-    v
 }
 
 /// A fitted scale with its 1-sigma range from a multiplicative factor: "1.02 (0.79-1.32)".

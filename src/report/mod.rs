@@ -10,6 +10,7 @@ pub mod chart;
 pub mod check_view;
 pub mod diagnose_view;
 pub mod document;
+pub mod document_cause;
 pub mod document_tables;
 pub mod escape;
 pub mod files;

@@ -285,48 +285,55 @@ pub fn moisture(r: &ReportData) -> Plot {
     }
 }
 
-/// Plot (5): root-cause shares and the corrections' effect on the spread, as bars.
+/// Plot (5): each finding's root-cause shares, and its corrections' effect on its own quantity,
+/// as bars.
 pub fn bars(r: &ReportData) -> Vec<Plot> {
     let d = r.diagnosis;
-    let pm = units::per_mille_label(r.sys);
     let mut out = Vec::new();
-    if !d.causes.is_empty() {
-        let rows: Vec<BarRow> = d
-            .causes
-            .iter()
-            .map(|c| BarRow {
-                label: super::words::cause(c.cause).to_string(),
-                before: None,
-                value: 100.0 * c.share,
-            })
-            .collect();
-        out.push(Plot {
-            id: "plot-causes",
-            caption: "Share of the predicted spread each cause accounts for (the spread's reduction when the cause alone is removed, normalised to add to 100 %).".into(),
-            svg: bar_chart("Root-cause shares", "share of the spread (%)", &rows, "%"),
-        });
-    }
-    let mut rows: Vec<BarRow> = Vec::new();
-    for f in &d.findings {
+    let mut shares = Vec::new();
+    let mut fixes = Vec::new();
+    for (i, f) in d.findings.iter().enumerate() {
+        let name = format!("{}. {}", i + 1, super::words::defect(f.defect));
+        for s in f.attribution.iter().flat_map(|a| &a.shares) {
+            if let Some(x) = s.share {
+                shares.push(BarRow {
+                    label: format!("{name}: {}", super::words::cause(s.cause)),
+                    before: None,
+                    // a share that rounds to zero is drawn and labelled as 0
+                    value: if (100.0 * x).abs() < 0.5 {
+                        0.0
+                    } else {
+                        100.0 * x
+                    },
+                });
+            }
+        }
         for c in &f.corrections {
-            if c.spread_after_mm_per_m.is_finite() && rows.iter().all(|r| r.label != c.text) {
-                rows.push(BarRow {
-                    label: c.text.clone(),
-                    before: Some(c.spread_before_mm_per_m),
-                    value: c.spread_after_mm_per_m,
+            if let Some(a) = c.after.filter(|_| c.before.abs() > 1e-12) {
+                fixes.push(BarRow {
+                    label: format!("{name}: {}", c.text),
+                    before: Some(100.0),
+                    value: 100.0 * a / c.before,
                 });
             }
         }
     }
-    if !rows.is_empty() {
+    if !shares.is_empty() {
+        out.push(Plot {
+            id: "plot-causes",
+            caption: "Each finding's sources, as Shapley shares of the change in the finding's own quantity when every source is removed (the tables under Root cause give the quantity and the amplifiers).".into(),
+            svg: bar_chart("Root-cause shares per finding", "share of the finding's quantity (%)", &shares, "%"),
+        });
+    }
+    if !fixes.is_empty() {
         out.push(Plot {
             id: "plot-corrections",
-            caption: format!("Predicted length spread across the width before (hatched outline) and after (filled) each correction, from re-running the model, {pm}."),
+            caption: "Each correction re-run: the quantity of the finding it answers before (hatched outline, 100 %) and after (filled), as a percentage of before; lower is better except for the surface pressure of telescoping.".into(),
             svg: bar_chart(
-                "Corrections: predicted spread before and after",
-                &format!("length spread across the width ({pm})"),
-                &rows,
-                pm,
+                "Corrections: the finding's quantity before and after",
+                "finding's quantity after the correction (% of before)",
+                &fixes,
+                "%",
             ),
         });
     }

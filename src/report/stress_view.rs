@@ -90,7 +90,7 @@ pub fn text(c: &Case, w: &Wound, sys: System) -> String {
 
 /// The physical limits the wound state passed.
 fn limits(c: &Case, w: &Wound) -> Vec<crate::note::Note> {
-    crate::limits::after_winding(w, &c.material, c.winding.speed_m_s)
+    crate::limits::after_winding(w, &c.material, &c.roll, c.winding.speed_m_s)
 }
 
 /// JSON with full radial arrays per lane.

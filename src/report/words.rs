@@ -2,10 +2,10 @@
 //! exhaustive, so a new word does not compile until it has its text here.
 
 use crate::case::Measure;
-use crate::diagnose::{CauseShare, Diagnosis};
+use crate::diagnose::Diagnosis;
 use crate::note::Note;
 use crate::units::{self, Kind, System};
-use crate::vocab::{Cause, Defect, Feature};
+use crate::vocab::{Amplifier, Cause, Defect, Feature, Quantity};
 
 /// Plain words for a defect ("baggy_center" -> "baggy centre").
 pub fn defect(d: Defect) -> &'static str {
@@ -21,6 +21,9 @@ pub fn defect(d: Defect) -> &'static str {
         Defect::CrepeWrinkles => "crepe wrinkles",
         Defect::Telescoping => "telescoping",
         Defect::Bursts => "bursts",
+        Defect::CoreCollapse => "core collapse",
+        Defect::CrushedLayers => "crushed layers",
+        Defect::ConicalRoll => "conical roll (one side long)",
         Defect::NoDefect => "none",
     }
 }
@@ -34,50 +37,123 @@ pub fn complaint(word: &str) -> String {
     }
 }
 
-/// A cause's name.
+/// A source's name.
 pub fn cause(c: Cause) -> &'static str {
     match c {
         Cause::CaliperProfile => "caliper profile",
-        Cause::StorageMoisture => "storage moisture",
-        Cause::WoundInTensionProfile => "wound-in tension profile",
-        Cause::Nip => "nip",
-        Cause::LaneToLaneCreep => "lane-to-lane creep",
-        Cause::NotAttributable => "not attributable",
+        Cause::StorageMoisture => "moisture gradients from storage and wraps",
+        Cause::LaneToLaneCreep => "lane-to-lane creep (as the measurements identify it)",
     }
 }
 
-/// How a cause was removed to measure its share.
+/// How a source is removed to measure its share.
 pub fn removed(c: Cause) -> &'static str {
     match c {
         Cause::CaliperProfile => "caliper made uniform across the width",
-        Cause::StorageMoisture => "storage at humidity in equilibrium with the paper",
-        Cause::WoundInTensionProfile => "lane tensions made equal (fully levelled)",
-        Cause::Nip => "nip removed",
+        Cause::StorageMoisture => "storage at the humidity in equilibrium with the paper",
         Cause::LaneToLaneCreep => "every lane given the roll's mean creep",
-        Cause::NotAttributable => "no single cause removal reduced the spread",
     }
 }
 
-/// How cause shares are normalised, said whenever shares were attributed.
-const SHARES_NOTE: &str = "cause shares: each cause's reduction of the spread when removed alone, normalised to add to 1 (causes interact, so removals need not add up)";
-
-/// Whether the causes carry attributed shares (some removal reduced the spread).
-fn attributed(causes: &[CauseShare]) -> bool {
-    !causes.is_empty() && causes.iter().all(|c| c.cause != Cause::NotAttributable)
+/// An amplifier's name and its feasible alternative.
+pub fn amplifier(a: Amplifier) -> (&'static str, &'static str) {
+    match a {
+        Amplifier::WebTension => ("web tension", "web tension 15 % lower"),
+        Amplifier::Nip => ("nip", "nip load 40 % lighter"),
+        Amplifier::Speed => ("winding speed", "winding 20 % slower"),
+        Amplifier::StorageTime => ("storage time", "storage time halved"),
+    }
 }
+
+/// A quantity's name, to follow "the" (its unit goes with each value, see [`quantity_value`]).
+pub fn quantity(q: Quantity) -> &'static str {
+    match q {
+        Quantity::LaneExcessMmPerM => {
+            "largest excess length of the finding's lanes over the mean lane"
+        }
+        Quantity::LocalPeakMmPerM => "excess length of the finding's lane over its neighbours",
+        Quantity::CentreMinusEdgesMmPerM => "centre-minus-edges length difference",
+        Quantity::EdgesMinusCentreMmPerM => "edges-minus-centre length difference",
+        Quantity::CoreMdCompressionMpa => "MD compressive stress near the core",
+        Quantity::SurfacePressureKpa => "interlayer pressure at the surface after storage",
+        Quantity::OuterMdStressMpa => "MD stress in the outer wrap after storage",
+        Quantity::DiameterRidgePerMille => "diameter ridge over the neighbouring lanes",
+        Quantity::SpreadMmPerM => "length spread across the width",
+        Quantity::PeakPressureMpa => {
+            "highest interlayer pressure in the finding's lanes at winding"
+        }
+        Quantity::CorePressureMpa => "interlayer pressure on the core at winding",
+        Quantity::SideToSideMmPerM => {
+            "front-to-back length difference (straight line across the width)"
+        }
+    }
+}
+
+/// A quantity's value in its unit (`Quantity::unit`) as SI for [`units`], or None when it is a
+/// strain or a ratio shown as it is.
+fn quantity_si(q: Quantity, v: f64) -> Option<f64> {
+    match q {
+        Quantity::CoreMdCompressionMpa
+        | Quantity::OuterMdStressMpa
+        | Quantity::PeakPressureMpa
+        | Quantity::CorePressureMpa => Some(v * 1e6),
+        Quantity::SurfacePressureKpa => Some(v * 1e3),
+        _ => None,
+    }
+}
+
+/// A quantity's value for tables, with its unit in the chosen system ("0.842 mm/m", "31.2 kPa").
+pub fn quantity_value(q: Quantity, v: f64, sys: System) -> String {
+    // a value that rounds to zero is shown without a sign
+    let v = if v.abs() < 5e-4 { 0.0 } else { v };
+    match (q, quantity_si(q, v)) {
+        (_, Some(si)) => units::show(si, Kind::Pressure, sys, false),
+        (Quantity::DiameterRidgePerMille, _) => format!("{v:.2} per mille"),
+        _ => format!("{v:.3} {}", units::strain_label(sys)),
+    }
+}
+
+/// A change of a quantity for tables, signed, with its unit ("-0.120 mm/m", "+4.2 kPa").
+pub fn quantity_change(q: Quantity, dv: f64, sys: System) -> String {
+    let dv = if dv.abs() < 5e-4 { 0.0 } else { dv };
+    match (q, quantity_si(q, dv)) {
+        (_, Some(si)) => units::signed(si, Kind::Pressure, sys, false, 1),
+        (Quantity::DiameterRidgePerMille, _) => format!("{dv:+.2} per mille"),
+        _ => format!("{dv:+.3} {}", units::strain_label(sys)),
+    }
+}
+
+/// A source's share as a percentage ("93 %"; "-" when there is no change to share; a share that
+/// rounds to zero without a sign).
+pub fn share(x: Option<f64>) -> String {
+    match x {
+        Some(x) if (x * 100.0).abs() < 0.5 => "0 %".into(),
+        Some(x) => format!("{:.0} %", x * 100.0),
+        None => "-".into(),
+    }
+}
+
+/// Whether a correction improves its finding's quantity, in words.
+pub fn improves(i: Option<bool>) -> &'static str {
+    match i {
+        Some(true) => "yes",
+        Some(false) => "no: not recommended",
+        None => "not run",
+    }
+}
+
+/// How root causes are attributed, said whenever they were.
+pub const SHARES_METHOD: &str = "each source's share is its Shapley value (Shapley 1953) over every subset of source removals, on the finding's own quantity: independent of the order of removal, interactions shared evenly, and the shares add up to the change with every source removed; web tension, nip, speed and storage time amplify a non-uniformity without making one, so they are shown as the quantity at a feasible alternative";
 
 /// The diagnosis's notes with the notes its results imply, sorted, each once (warnings are
 /// apart: [`warnings`]).
 pub fn notes(d: &Diagnosis) -> Vec<String> {
-    let info: Vec<Note> = d
-        .notes
-        .iter()
-        .filter(|n| !n.is_warning())
-        .copied()
-        .collect();
-    let mut n = note_texts(&info);
-    if attributed(&d.causes) {
-        n.push(SHARES_NOTE.to_string());
+    let mut n = note_json(&[], &d.notes).0;
+    if d.findings.iter().any(|f| f.attribution.is_some()) {
+        n.push(format!("root cause: {SHARES_METHOD}"));
+    }
+    if d.lanes.iter().any(|l| l.extrapolated) {
+        n.push("lanes marked * lie beyond the measured positions: their profile values are extrapolated".to_string());
     }
     n.sort();
     n.dedup();
@@ -86,34 +162,19 @@ pub fn notes(d: &Diagnosis) -> Vec<String> {
 
 /// The diagnosis's warnings: the case's own, then every physical limit a stage passed.
 pub fn warnings(d: &Diagnosis) -> Vec<String> {
-    let mut w = d.case_warnings.clone();
-    w.extend(d.notes.iter().filter(|n| n.is_warning()).map(note));
-    w
+    note_json(&d.case_warnings, &d.notes).1
 }
 
 /// A stage's notes as output lines: `warning: ...` for the case's warnings and the physical
 /// limits passed, then `note: ...` for the rest.
 pub fn note_lines(case_warnings: &[String], notes: &[Note]) -> Vec<String> {
-    let mut v: Vec<String> = case_warnings
-        .iter()
-        .map(|w| format!("warning: {w}"))
-        .collect();
-    v.extend(
-        notes
-            .iter()
-            .filter(|n| n.is_warning())
-            .map(|n| format!("warning: {}", note(n))),
-    );
-    v.extend(
-        notes
-            .iter()
-            .filter(|n| !n.is_warning())
-            .map(|n| format!("note: {}", note(n))),
-    );
-    v
+    let (info, warn) = note_json(case_warnings, notes);
+    let warn = warn.into_iter().map(|w| format!("warning: {w}"));
+    warn.chain(info.into_iter().map(|n| format!("note: {n}")))
+        .collect()
 }
 
-/// A stage's notes for JSON: `(notes, warnings)`, the warnings with the case's own first.
+/// A stage's notes in words, apart: `(notes, warnings)`, the warnings with the case's own first.
 pub fn note_json(case_warnings: &[String], notes: &[Note]) -> (Vec<String>, Vec<String>) {
     let mut w = case_warnings.to_vec();
     w.extend(notes.iter().filter(|n| n.is_warning()).map(note));
@@ -137,16 +198,18 @@ fn confidence_note(n: &Note) -> String {
             feature,
             value,
             uniform,
-            floor,
-            noise_share,
+            threshold,
+            noise_chance,
+            level,
         } => format!(
-            "{} not reported: measurement noise alone fires its rule as strongly in {:.0} % of uniform rolls ({} = {} against a uniform roll's {}; noise moves it by up to {} in 95 % of them)",
+            "{} not reported: measurement noise alone moves {} this far with a chance of {} % (a finding needs {} % or less: 5 % shared over the features tested); {} against a uniform roll's {}, while standing above noise takes a difference of {}",
             defect_name(defect),
-            noise_share * 100.0,
             feature_name(feature),
+            crate::units::sig(noise_chance * 100.0, 2),
+            crate::units::sig(level * 100.0, 2),
             crate::units::sig(value, 3),
             crate::units::sig(uniform, 3),
-            crate::units::sig(floor, 2)
+            crate::units::sig(threshold, 2)
         ),
         Note::Unlikely { defect, probability } => format!(
             "{} not reported: its rule holds in only {:.0} % of the plausible states (posterior draws)",
@@ -159,7 +222,7 @@ fn confidence_note(n: &Note) -> String {
             lane_excess_mm_per_m,
             centre_edges_mm_per_m,
         } => format!(
-            "resolution of these measurements (caliper read to {:.1} um, one sigma): a caliper band must exceed {:.1} um, a lane's excess length over its neighbours {:.3} % and centre against edges {:.3} % of the web length to stand above noise (95 % of noise-only uniform rolls)",
+            "resolution of these measurements (caliper read to {:.1} um, one sigma): a caliper band must exceed {:.1} um, a lane's excess length over its neighbours {:.3} % and centre against edges {:.3} % of the web length to stand above noise (a 5 % chance, shared over the features tested, that noise alone does it)",
             caliper_repeatability_m * 1e6,
             band_m * 1e6,
             lane_excess_mm_per_m / 10.0,
@@ -263,8 +326,12 @@ pub fn note(n: &Note) -> String {
 
 /// A physical limit passed, as a sentence that says what it means for the findings.
 pub fn limit(l: &crate::note::Limit) -> String {
-    use crate::note::Limit;
+    use crate::note::{Limit, Strength};
     const SO: &str = "results that depend on it are not physical; check the inputs";
+    let at = |lanes: u32, position_m: f64| match lanes {
+        1 => format!("lane at {:.0} mm", position_m * 1e3),
+        n => format!("{n} lanes (worst at {:.0} mm)", position_m * 1e3),
+    };
     match *l {
         Limit::AboveLiftOff {
             speed_m_s,
@@ -272,40 +339,93 @@ pub fn limit(l: &crate::note::Limit) -> String {
         } => format!(
             "the winding speed {speed_m_s:.1} m/s is above the lift-off speed {lift_off_m_s:.1} m/s at the roll's mean wound-in stress: outer layers could not stay on the roll as modelled; {SO}"
         ),
+        Limit::Condensation(c) => condensation(&c),
+        Limit::Strength {
+            which,
+            lanes,
+            position_m,
+            value_pa,
+            limit_pa,
+        } => {
+            let (what, limit, field) = match which {
+                Strength::ZdCrush => ("interlayer pressure", "the stack's crush limit", "material.strength.zd_crush"),
+                Strength::MdCompression => ("MD compression", "the web's MD compressive strength: layers can buckle (starring)", "material.strength.md_compressive"),
+                Strength::MdTension => ("MD tension", "the web's MD tensile strength: wraps can split", "material.strength.md_tensile"),
+                Strength::CoreCollapse => ("pressure on the core", "the core's collapse pressure (its rating, else thin-ring buckling)", "roll.core"),
+            };
+            format!(
+                "{}: {what} of {:.2} MPa is {:.2} times {limit} ({:.2} MPa); check {field} and the winding, or treat the roll with care",
+                at(lanes, position_m),
+                value_pa / 1e6,
+                value_pa / limit_pa,
+                limit_pa / 1e6
+            )
+        }
         Limit::StackCrushed {
+            lanes,
             position_m,
             pressure_pa,
             strain,
         } => format!(
-            "lane at {:.0} mm: the stack law compresses the stack by {:.0} % at {:.2} MPa, more than the sheet's void content allows ({:.0} %); {SO} (material.stack)",
-            position_m * 1e3,
+            "{}: the stack law compresses the stack by {:.0} % at {:.2} MPa, more than the sheet's void content allows ({:.0} %); {SO} (material.stack)",
+            at(lanes, position_m),
             strain * 100.0,
             pressure_pa / 1e6,
             crate::limits::MAX_STACK_STRAIN * 100.0
         ),
         Limit::DiameterInsideCore {
+            lanes,
             position_m,
             diameter_m,
             core_diameter_m,
         } => format!(
-            "lane at {:.0} mm: the diameter falls to {:.1} mm, at or inside the {:.1} mm core; {SO}",
-            position_m * 1e3,
+            "{}: the diameter falls to {:.1} mm, at or inside the {:.1} mm core; {SO}",
+            at(lanes, position_m),
             diameter_m * 1e3,
             core_diameter_m * 1e3
         ),
         Limit::MoistureAboveSaturation {
+            lanes,
             position_m,
             moisture_pct,
             saturation_pct,
         } => format!(
-            "lane at {:.0} mm: moisture reaches {moisture_pct:.2} %, above the isotherm's saturation {saturation_pct:.2} %; {SO} (material.sorption, storage)",
-            position_m * 1e3
+            "{}: moisture reaches {moisture_pct:.2} %, above the isotherm's saturation {saturation_pct:.2} %; {SO} (material.sorption, storage)",
+            at(lanes, position_m)
         ),
-        Limit::HardnessNotFinite { position_m } => format!(
-            "lane at {:.0} mm: the predicted hardness is not a finite number; {SO} (hardness.calibration)",
-            position_m * 1e3
+        Limit::HardnessNotFinite { lanes, position_m } => format!(
+            "{}: the predicted hardness is not a finite number; {SO} (hardness.calibration)",
+            at(lanes, position_m)
         ),
     }
+}
+
+/// A condensation warning as a sentence.
+fn condensation(c: &crate::note::Condensed) -> String {
+    let crate::note::Condensed {
+        stretch,
+        roll_k,
+        dew_point_k,
+        wet_s,
+        water_kg_m2,
+        outer_rise_pct,
+        barrel,
+        ends,
+    } = *c;
+    format!(
+            "storage stretch {}: the roll came in at {:.1} C, below the air's dew point {:.1} C: water condenses on the {} for about {:.0} min ({:.0} g/m2, up to {:+.1} points of moisture in the outer 2 mm of wraps); the model's moisture field does not include it, so the outer wraps and ends may be wetter than predicted. Let rolls warm up wrapped in film before unwrapping (common practice)",
+            stretch + 1,
+            roll_k - crate::units::ZERO_C_K,
+            dew_point_k - crate::units::ZERO_C_K,
+            match (barrel, ends) {
+                (true, true) => "barrel and end faces",
+                (true, false) => "barrel",
+                _ => "end faces",
+            },
+            wet_s / 60.0,
+            water_kg_m2 * 1e3,
+            outer_rise_pct
+        )
 }
 
 /// Notes as sentences, in the order given.
@@ -336,6 +456,7 @@ pub fn feature(f: Feature) -> &'static str {
         F::PeakWidthMm => "width of the long band",
         F::CentreMinusEdgesMmPerM => "centre minus edges",
         F::SideToSideMmPerM => "front-to-back difference",
+        F::SideToSideRatio => "front-to-back / running strain",
         F::BandCount => "number of long bands",
         F::CaliperCorrelation => "caliper / length correlation",
         F::CaliperRangePct => "caliper range",
@@ -351,6 +472,12 @@ pub fn feature(f: Feature) -> &'static str {
         F::DiameterRidgePerMille => "diameter ridge",
         F::NipToTensionRatio => "nip-induced / web tension",
         F::SlackLanes => "slack lanes",
+        F::CorePressureRatio => "core pressure / collapse pressure",
+        F::PeakPressureCrushRatio => "peak pressure / crush limit",
+        F::MdCompressionStrengthRatio => "MD compression / compressive strength",
+        F::MdTensionStrengthRatio => "outer MD stress / tensile strength",
+        F::OuterMoistureLossPct => "moisture lost by the outer wraps",
+        F::PaperGrade => "paper grade (1) or film (0)",
     }
 }
 
@@ -371,16 +498,23 @@ pub fn feature_value(f: Feature, v: f64, sys: System) -> String {
         }
         F::SurfacePressureEndKpa => units::show(v * 1e3, Kind::Pressure, sys, false),
         F::CaliperRangePct | F::SurfacePressureLossPct => format!("{v:.1} %"),
-        F::EdgeMoistureChangePct | F::MoistureChangePct => format!("{v:+.2} points"),
+        F::EdgeMoistureChangePct | F::MoistureChangePct | F::OuterMoistureLossPct => {
+            format!("{v:+.2} points")
+        }
         F::MoistureShare | F::CreepShare => format!("{:.0} %", v * 100.0),
         F::DiameterRidgePerMille => format!("{v:.2} per mille"),
-        F::BandCount | F::SlackLanes => format!("{v:.0}"),
+        F::BandCount | F::SlackLanes | F::PaperGrade => format!("{v:.0}"),
         F::LocalPeakRatio
         | F::CentreMinusEdgesRatio
         | F::LongestLaneRatio
+        | F::SideToSideRatio
         | F::CaliperCorrelation
         | F::WoundTensionRatio
-        | F::NipToTensionRatio => format!("{v:.3}"),
+        | F::NipToTensionRatio
+        | F::CorePressureRatio
+        | F::PeakPressureCrushRatio
+        | F::MdCompressionStrengthRatio
+        | F::MdTensionStrengthRatio => format!("{v:.3}"),
     }
 }
 

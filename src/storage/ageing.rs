@@ -70,6 +70,8 @@ pub struct LaneAged {
     pub position_m: f64,
     /// Mean moisture over the radius, %.
     pub moisture_pct: Vec<f64>,
+    /// Mean moisture of the outer third of the web length (the outer wraps), %.
+    pub outer_moisture_pct: Vec<f64>,
     /// Permanent (viscous + mechano-sorptive) MD strain, area-weighted over the radius.
     pub permanent_strain: Vec<f64>,
     /// Delayed (recoverable, still present at unwind) MD creep strain.

@@ -4,6 +4,7 @@
 //! state; no I/O, no printing, nothing of rules. Storage never reads measurements.
 
 mod ageing;
+pub mod condensation;
 mod creep;
 mod hardness;
 pub mod moisture;

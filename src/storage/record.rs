@@ -92,6 +92,7 @@ impl<'a> FullRecord<'a> {
                 delayed_strain: Vec::with_capacity(nt),
                 elastic_strain: Vec::with_capacity(nt),
                 hygro_strain: Vec::with_capacity(nt),
+                outer_moisture_pct: Vec::with_capacity(nt),
                 strain_at_unwind: Vec::with_capacity(nt),
                 diameter_m: Vec::with_capacity(nt),
                 surface_pressure_pa: Vec::with_capacity(nt),
@@ -144,9 +145,15 @@ impl Recorder for FullRecord<'_> {
             .sum::<f64>()
             / self.outer_w;
         let moist = self.avg(&|j| mc[j]);
+        let outer_mc = (0..nr)
+            .filter(|&j| self.thirds[j] == 0)
+            .map(|j| self.vol[j] * mc[j])
+            .sum::<f64>()
+            / self.outer_w;
         let elastic = self.avg(&|j| st[j] / e_t);
         let out = &mut self.out;
         out.moisture_pct.push(moist);
+        out.outer_moisture_pct.push(outer_mc);
         out.permanent_strain.push(perm);
         out.delayed_strain.push(del);
         out.elastic_strain.push(elastic);

@@ -37,3 +37,35 @@ pub fn of(core: &Core, core_radius_m: f64) -> Option<f64> {
         )),
     }
 }
+
+/// Elastic collapse pressure of a thin ring under external pressure, Pa: p_cr = 3 E I / r^3 with
+/// I = t^3 / 12 per unit length (Timoshenko and Gere 1961, Theory of Elastic Stability, 2nd ed.,
+/// ring buckling; from memory), r the mid-wall radius. For a thick paper core this overstates
+/// (the wall crushes first); a maker's rating, when given, is used instead.
+///
+/// # Units
+/// `modulus_pa` Pa, `wall_m` and `outer_radius_m` m; returns Pa.
+///
+/// ```
+/// // 3 GPa tube, 4 mm wall, 38 mm outer radius: r = 36 mm, p = 3 E t^3 / (12 r^3) = 1.029 MPa
+/// let p = rollsleuth::winding::ring_collapse_pressure(3e9, 0.004, 0.038);
+/// assert!((p / 1e6 - 1.0288).abs() < 1e-3);
+/// ```
+pub fn ring_collapse_pressure(modulus_pa: f64, wall_m: f64, outer_radius_m: f64) -> f64 {
+    let r = (outer_radius_m - 0.5 * wall_m).max(1e-9);
+    3.0 * modulus_pa * wall_m.powi(3) / 12.0 / r.powi(3)
+}
+
+/// Collapse pressure of a case's core, Pa: the maker's `rating` when given, else the thin-ring
+/// buckling pressure of a tube; `None` for a rigid core without a rating.
+pub fn collapse_pressure(core: &Core, core_radius_m: f64, rating_pa: Option<f64>) -> Option<f64> {
+    if rating_pa.is_some() {
+        return rating_pa;
+    }
+    match *core {
+        Core::Rigid => None,
+        Core::Tube {
+            modulus_pa, wall_m, ..
+        } => Some(ring_collapse_pressure(modulus_pa, wall_m, core_radius_m)),
+    }
+}

@@ -8,16 +8,35 @@
 //!
 //! with s the radial stress increment, E_t the MD modulus and E_r the radial (stack) modulus at
 //! the current interlayer pressure (Pfeiffer 1966: E_r = K2 (P + K1)). Boundary conditions: at
-//! the new outer layer s = -p_new (the pressure the new layer adds, T h / r for a thin ring); at
-//! the core r s' = (E_t / E_c - 1 + nu) s (core stiffness E_c; rigid core: E_t / E_c = 0).
-//! Central differences on a uniform grid give a tridiagonal system solved by the Thomas
-//! algorithm; the core condition uses a ghost node (second order), and the new node takes half
-//! of its own layer's pressure (trapezoid rule over the accretion integral), so the result
-//! converges at second order in the node spacing. The tangential stress follows
-//! from equilibrium, s_t = s_r + r s_r'; a new layer enters at its wound-in stress.
+//! the new outer layer s = -p_new (the pressure the new layer adds, sigma_w dr / r for a thin
+//! ring of thickness dr); at the core r s' = (E_t / E_c - 1 + nu) s (core stiffness E_c; rigid
+//! core: E_t / E_c = 0).
+//!
+//! # Discretisation: an exact element per interval
+//! In t = ln r the equation has constant coefficients where E_r is constant,
+//! s_tt + 2 s_t + (1 - g^2) s = 0 with g = sqrt(E_t / E_r), whose solutions are r^(-1 +/- g)
+//! (Altmann 1968). E_r is taken constant on each grid interval, at the mean of its end
+//! pressures, and the equation is solved exactly there. With z = 1 + r s'/s, the core condition
+//! gives z = 1 + kappa at the core, and across an interval of log-length tau
+//!
+//! z1 = g (a - b) / (a + b),  phi1 / phi0 = e^(-tau) e^(g tau) (a + b) / (2 g),
+//! a = g + z0,  b = (g - z0) e^(-2 g tau),
+//!
+//! where phi is the solution that meets the core condition. Since a Dirichlet load at the outer
+//! edge only scales phi, a unit pressure at radius s gives the increment phi(r) / phi(s) at r:
+//! each step's increment is a product of the per-interval ratios, marched inward from the new
+//! layer, and the new layers' pressure is integrated over their own interval in closed form of
+//! the kernel (Gauss-Legendre in x = e^(-g t)) rather than lumped at one node. The tangential
+//! increment is z s (equilibrium, s_t = s + r s'). The only approximations left are E_r constant
+//! on an interval and over a step (taken at the mid-step pressure: predictor-corrector in the
+//! surface zone, extrapolated from the previous step's increment in the deep part, where a step
+//! changes the pressure little and smoothly): both second order in the node spacing, and the layer's own inward decay over about r / g needs no
+//! resolving. Increments that have decayed below 1e-15 of the local pressure are not carried
+//! further in, and the per-interval ratios are only recomputed where the pressure changed. The
+//! stack strain behind the compressed build is updated by its change per increment (a series
+//! for small changes, no logarithm per node per step).
 
 use crate::case::Stack;
-use crate::numeric::thomas;
 
 /// Material and boundary data for one lane's accretion.
 #[derive(Debug, Clone, Copy)]
@@ -37,30 +56,148 @@ impl LaneModel {
     pub fn kappa(&self) -> f64 {
         self.core_stiffness.map_or(0.0, |ec| self.e_t / ec) - 1.0 + self.poisson
     }
+
+    /// g = sqrt(E_t / E_r) at interlayer pressure `p` (Pa).
+    #[inline]
+    fn g(&self, p: f64) -> f64 {
+        (self.e_t / self.stack.modulus(p)).sqrt()
+    }
 }
 
-/// A lane being wound: stresses at the grid nodes wound so far.
+/// Change of the stack's compressive strain from pressure `p0` to `p1` (Pa). For the Pfeiffer
+/// law it is ln(1 + x) / K2 with x = (p1 - p0) / (K1 + p0); small steps (|x| < 1e-3, most of
+/// them deep in the roll) take the series to x^5 (remainder below 2e-16 relative) instead of a
+/// logarithm.
+#[inline]
+fn strain_change(stack: &Stack, p0: f64, p1: f64) -> f64 {
+    let (p0, p1) = (p0.max(0.0), p1.max(0.0));
+    match *stack {
+        Stack::Pfeiffer { k1_pa, k2 } => {
+            let x = (p1 - p0) / (k1_pa + p0);
+            let l = if x.abs() < 1e-3 {
+                x * (1.0 - x * (0.5 - x * (1.0 / 3.0 - x * (0.25 - 0.2 * x))))
+            } else {
+                x.ln_1p()
+            };
+            l / k2
+        }
+        Stack::Constant { .. } => stack.strain(p1) - stack.strain(p0),
+    }
+}
+
+/// Increments smaller than this fraction of the local radial stress are not carried inward.
+const NEGLIGIBLE: f64 = 1e-15;
+
+/// Six-point Gauss-Legendre nodes and weights on [-1, 1] (Abramowitz and Stegun, Table 25.4).
+const GAUSS6: [(f64, f64); 6] = [
+    (-0.932_469_514_203_152, 0.171_324_492_379_170),
+    (-0.661_209_386_466_265, 0.360_761_573_048_139),
+    (-0.238_619_186_083_197, 0.467_913_934_572_691),
+    (0.238_619_186_083_197, 0.467_913_934_572_691),
+    (0.661_209_386_466_265, 0.360_761_573_048_139),
+    (0.932_469_514_203_152, 0.171_324_492_379_170),
+];
+
+/// One exact element: from z at the inner end of an interval of log-length `tau` (`grow` =
+/// e^tau), return
+/// (phi_in / phi_out, z at the outer end).
+#[inline]
+fn element(g: f64, z0: f64, tau: f64, grow: f64) -> (f64, f64) {
+    let e1 = (-g * tau).exp();
+    let a = g + z0;
+    let d = a + (g - z0) * e1 * e1;
+    let inv = 1.0 / d;
+    (2.0 * g * e1 * grow * inv, 2.0 * g * a * inv - g)
+}
+
+/// Integral over an interval of log-length `tau` of phi(inner) / phi(t) dt: the pressure at the
+/// inner end, per unit wound-in stress, of the layers wound over the interval. With
+/// x = e^(-g t) the integrand is 2 x^(-1/g) / (a + b x^2), smooth on [e^(-g tau), 1].
+fn new_layer_load(g: f64, z0: f64, tau: f64) -> f64 {
+    let x1 = (-g * tau).exp();
+    let (a, b) = (g + z0, g - z0);
+    let (mid, half) = (0.5 * (1.0 + x1), 0.5 * (1.0 - x1));
+    let mut sum = 0.0;
+    for (xi, w) in GAUSS6 {
+        let x = mid + half * xi;
+        sum += w * (-x.ln() / g).exp() / (a + b * x * x);
+    }
+    2.0 * half * sum
+}
+
+/// Refinement of the accretion near the surface for grid `r`: each grid interval is wound in
+/// `sub` steps, and the sub-nodes are kept while they lie within `depth` grid intervals of the
+/// surface, where the stack is soft and the pressure profile steep. On a grid of
+/// [`REFERENCE_INTERVALS`] intervals a step's layers span [`SUB_SPAN`] of the unloaded stack's
+/// inward decay length r / g(0); the number of steps per interval does not depend on the grid,
+/// so refining the grid refines the steps with it (one resolution knob). The zone reaches
+/// [`ZONE_DECAYS`] decay lengths deep. Returns (sub, depth).
+pub fn refinement(m: &LaneModel, r: &[f64]) -> (usize, usize) {
+    let (first, last) = match (r.first(), r.last()) {
+        (Some(a), Some(b)) if r.len() > 1 => (*a, *b),
+        _ => return (1, 1),
+    };
+    let tau_max = r.windows(2).map(|w| (w[1] / w[0]).ln()).fold(0.0, f64::max);
+    let g0 = m.g(0.0);
+    let per_interval = g0 * (last / first).ln() / REFERENCE_INTERVALS;
+    let sub = (per_interval / SUB_SPAN).ceil().clamp(1.0, 64.0) as usize;
+    let depth = (ZONE_DECAYS / (g0 * tau_max)).ceil().clamp(1.0, 4096.0) as usize;
+    (sub, depth)
+}
+
+/// Grid intervals at which a step spans [`SUB_SPAN`] decay lengths.
+pub const REFERENCE_INTERVALS: f64 = 400.0;
+/// Step size, in decay lengths of the unloaded stack, on the reference grid.
+pub const SUB_SPAN: f64 = 0.25;
+/// Depth of the refined zone, in decay lengths of the unloaded stack.
+pub const ZONE_DECAYS: f64 = 4.0;
+
+/// A lane being wound on a grid of output nodes.
+///
+/// Internally the nodes in use ("active") are the output nodes below the refined zone and every
+/// sub-node inside it. The deep part (output nodes only) is updated once per grid step, with
+/// its radial modulus at the mid-step pressure estimated from the previous step's increment;
+/// the zone is updated at every sub-step with a predictor-corrector.
 #[derive(Debug, Clone)]
 pub struct LaneState {
-    /// Grid radii, m (shared nominal grid, uniform spacing).
+    /// Grid radii, m (increasing; need not be uniform).
     pub r: Vec<f64>,
-    /// Radial stress, Pa (compression negative).
+    /// Radial stress at the grid nodes, Pa (compression negative); valid after [`Self::finish`].
     pub sr: Vec<f64>,
-    /// Tangential (MD) stress, Pa.
+    /// Tangential (MD) stress, Pa; valid after [`Self::finish`].
     pub st: Vec<f64>,
     /// Wound-in tension each node was wound with, N/m.
     pub wit: Vec<f64>,
-    /// Number of nodes wound so far.
+    /// Number of grid nodes wound so far.
     pub wound: usize,
-    a: Vec<f64>,
-    b: Vec<f64>,
-    c: Vec<f64>,
-    d: Vec<f64>,
+    sub: usize,
+    depth: usize,
+    // active nodes
+    ar: Vec<f64>,
+    asr: Vec<f64>,
+    ast: Vec<f64>,
+    az: Vec<f64>,
+    aeps: Vec<f64>,
+    agrid: Vec<usize>,
+    /// Increment of the current sub-step (zone), and of the last grid step (all nodes).
     s: Vec<f64>,
-    pred: Vec<f64>,
+    last: Vec<f64>,
+    // active intervals
+    tau: Vec<f64>,
+    grow: Vec<f64>,
+    rho: Vec<f64>,
+    /// Active index of the zone's bottom node (a grid node).
+    b: usize,
+    /// Deep intervals below this one have ratios valid for the current pressures.
+    fresh: usize,
+    /// Lowest deep node the last grid step's increment reached.
+    dcut: usize,
+    zcut: usize,
+    /// Sum over active intervals of dr (1 - mean strain), m.
+    build: f64,
 }
 
-/// The linear system at one accretion step could not be solved.
+/// The accretion step could not be computed.
 #[derive(Debug, Clone, PartialEq)]
 pub struct StepFailure {
     /// Node index being added.
@@ -68,126 +205,281 @@ pub struct StepFailure {
 }
 
 impl LaneState {
-    /// An empty lane on grid `r` (m).
-    pub fn new(r: Vec<f64>) -> Self {
+    /// An empty lane on grid `r` (m, increasing), refined for model `m` by [`refinement`].
+    pub fn new(r: Vec<f64>, m: &LaneModel) -> Self {
+        let (sub, depth) = refinement(m, &r);
+        Self::with_refinement(r, sub, depth)
+    }
+
+    /// An empty lane on grid `r` with `sub` steps per grid interval, sub-nodes kept `depth`
+    /// intervals deep.
+    pub fn with_refinement(r: Vec<f64>, sub: usize, depth: usize) -> Self {
         let n = r.len();
+        let cap = n + sub * (depth + 1) + 1;
         LaneState {
-            r,
             sr: vec![0.0; n],
             st: vec![0.0; n],
             wit: vec![0.0; n],
+            r,
             wound: 0,
-            a: vec![0.0; n],
-            b: vec![0.0; n],
-            c: vec![0.0; n],
-            d: vec![0.0; n],
-            s: vec![0.0; n],
-            pred: vec![0.0; n],
+            sub: sub.max(1),
+            depth: depth.max(1),
+            ar: Vec::with_capacity(cap),
+            asr: Vec::with_capacity(cap),
+            ast: Vec::with_capacity(cap),
+            az: Vec::with_capacity(cap),
+            aeps: Vec::with_capacity(cap),
+            agrid: Vec::with_capacity(cap),
+            s: Vec::with_capacity(cap),
+            last: Vec::with_capacity(cap),
+            tau: Vec::with_capacity(cap),
+            grow: Vec::with_capacity(cap),
+            rho: Vec::with_capacity(cap),
+            b: 0,
+            fresh: 0,
+            dcut: 0,
+            zcut: 0,
+            build: 0.0,
         }
     }
 
-    /// Add the next node (layer group). `p_new` is the interlayer pressure it adds (Pa),
-    /// `sigma_w` its wound-in stress (Pa), `wit` its wound-in tension (N/m).
-    pub fn add(
-        &mut self,
-        m: &LaneModel,
-        p_new: f64,
-        sigma_w: f64,
-        wit: f64,
-    ) -> Result<(), StepFailure> {
+    fn push_node(&mut self, r: f64, sigma_w: f64, grid: usize) {
+        self.ar.push(r);
+        self.asr.push(0.0);
+        self.ast.push(sigma_w);
+        self.az.push(0.0);
+        self.aeps.push(0.0);
+        self.agrid.push(grid);
+        self.s.push(0.0);
+        self.last.push(0.0);
+    }
+
+    /// Add the next grid node: the layers between the current surface and the next grid
+    /// radius. `sigma_w` is their wound-in stress (Pa), `wit` their wound-in tension (N/m).
+    pub fn add(&mut self, m: &LaneModel, sigma_w: f64, wit: f64) -> Result<(), StepFailure> {
         let k = self.wound;
         if k >= self.r.len() {
             return Err(StepFailure { step: k });
         }
-        let kappa = m.kappa();
+        self.wit[k] = wit;
         if k == 0 {
-            // First group straight on the core.
-            self.sr[0] = -0.5 * p_new;
-            self.st[0] = sigma_w + 0.5 * (1.0 + kappa) * (-p_new);
-            self.wit[0] = wit;
+            // The first layer lies on the core; it carries its wound-in stress and no pressure.
+            self.push_node(self.r[0], sigma_w, 0);
+            self.az[0] = 1.0 + m.kappa();
             self.wound = 1;
             return Ok(());
         }
-        let h = self.r[1] - self.r[0];
-        let n = k + 1;
-        // Predictor with E_r at the current pressure, corrector with E_r at the mid-step
-        // pressure P - ds/2 (the radial modulus follows the pressure during the step).
-        self.solve(m, k, h, kappa, p_new, false)?;
-        self.pred[..n].copy_from_slice(&self.d[..n]);
-        self.solve(m, k, h, kappa, p_new, true)?;
-        let ds = &self.d;
-        for i in 0..k {
-            let r = self.r[i];
-            let rds = if i == 0 {
-                kappa * ds[0]
-            } else {
-                r * (ds[i + 1] - ds[i - 1]) / (2.0 * h)
-            };
-            self.sr[i] += ds[i];
-            self.st[i] += ds[i] + rds;
+        let fail = StepFailure { step: k };
+        // deep part: ratios at the mid-step pressure estimated from the last step's increment
+        self.deep_sweep(m);
+        let b = self.b;
+        for i in b..self.ar.len() {
+            self.last[i] = 0.0;
         }
-        // Trapezoid weight: the new node carries half its own layer's pressure, so the sum of
-        // increments integrates the continuum accretion integral to second order in h.
-        self.sr[k] = 0.5 * ds[k];
-        let rds_k = self.r[k] * (ds[k] - ds[k - 1]) / h;
-        self.st[k] = sigma_w + 0.5 * (ds[k] + rds_k);
-        self.wit[k] = wit;
-        self.wound = n;
+        let (r0, r1) = (self.r[k - 1], self.r[k]);
+        let tau_f = (r1 / r0).ln() / self.sub as f64;
+        let mut load_b = 0.0;
+        for i in 1..=self.sub {
+            let r_new = if i == self.sub {
+                r1
+            } else {
+                r0 * (tau_f * i as f64).exp()
+            };
+            let top = self.ar.len() - 1;
+            let tau_new = (r_new / self.ar[top]).ln();
+            // predictor at the start-of-step pressures, corrector at mid-step
+            let q = self.zone_sweep(m, top, tau_new, 0.0);
+            self.zone_march(top, -sigma_w * q);
+            let q = self.zone_sweep(m, top, tau_new, 0.5);
+            self.zone_march(top, -sigma_w * q);
+            if !q.is_finite() {
+                return Err(fail);
+            }
+            self.build += r_new - self.ar[top];
+            self.tau.push(tau_new);
+            self.grow.push(r_new / self.ar[top]);
+            self.rho.push(0.0);
+            self.push_node(r_new, sigma_w, if i == self.sub { k } else { usize::MAX });
+            for j in self.zcut..=top {
+                let sj = self.s[j];
+                self.apply(m, j, sj);
+                self.last[j] += sj;
+            }
+            if self.zcut == b {
+                load_b += self.s[b];
+            }
+        }
+        // deep part: ratios at the mid-step pressure extrapolated from the last step
+        self.deep_march(m, load_b);
+        if !self.asr.iter().all(|x| x.is_finite()) {
+            return Err(fail);
+        }
+        self.coarsen();
+        self.wound = k + 1;
         Ok(())
     }
 
-    /// Solve the increment system for step `k` into `self.d`; with `mid`, evaluate E_r at the
-    /// mid-step pressure using the predictor in `self.pred`.
-    fn solve(
-        &mut self,
-        m: &LaneModel,
-        k: usize,
-        h: f64,
-        kappa: f64,
-        p_new: f64,
-        mid: bool,
-    ) -> Result<(), StepFailure> {
-        let n = k + 1;
-        for i in 0..k {
-            let r = self.r[i];
-            let p_now = -self.sr[i] - if mid { 0.5 * self.pred[i] } else { 0.0 };
-            let er = m.stack.modulus(p_now);
-            let q = r * r / (h * h);
-            let p = 1.5 * r / h;
-            let (ai, bi, ci) = (q - p, -2.0 * q + (1.0 - m.e_t / er), q + p);
-            if i == 0 {
-                // ghost node: s_{-1} = s_1 - 2 h kappa s_0 / r_0
-                self.a[0] = 0.0;
-                self.b[0] = bi - 2.0 * h * kappa * ai / r;
-                self.c[0] = ai + ci;
-            } else {
-                self.a[i] = ai;
-                self.b[i] = bi;
-                self.c[i] = ci;
-            }
-            self.d[i] = 0.0;
+    /// Add increment `s` to active node `j`, keeping the build sum.
+    #[inline]
+    fn apply(&mut self, m: &LaneModel, j: usize, s: f64) {
+        let p0 = -self.asr[j];
+        self.asr[j] += s;
+        if j == 0 {
+            // exact at the core (z = 1 + kappa); elsewhere sigma_t comes from equilibrium
+            self.ast[0] += s * self.az[0];
         }
-        // Dirichlet at the new outer node.
-        self.a[k] = 0.0;
-        self.b[k] = 1.0;
-        self.c[k] = 0.0;
-        self.d[k] = -p_new;
-        if thomas(
-            &self.a[..n],
-            &self.b[..n],
-            &self.c[..n],
-            &mut self.d[..n],
-            &mut self.s[..n],
-        ) {
-            Ok(())
-        } else {
-            Err(StepFailure { step: k })
+        let de = strain_change(&m.stack, p0, -self.asr[j]);
+        self.aeps[j] += de;
+        let hi = self.ar[(j + 1).min(self.ar.len() - 1)];
+        let lo = self.ar[j.saturating_sub(1)];
+        self.build -= 0.5 * de * (hi - lo);
+    }
+
+    /// Recompute the deep ratios from `fresh` up to the zone bottom, at pressures half way
+    /// through the step as estimated from the last step's increment.
+    fn deep_sweep(&mut self, m: &LaneModel) {
+        let (from, b, dcut) = (self.fresh.min(self.b), self.b, self.dcut);
+        let p = |st: &Self, i: usize| -> f64 {
+            let half = if i >= dcut { 0.5 * st.last[i] } else { 0.0 };
+            -(st.asr[i] + half)
+        };
+        let mut zj = self.az[from];
+        let mut pj = p(self, from);
+        for j in from..b {
+            let pn = p(self, j + 1);
+            let g = m.g(0.5 * (pj + pn));
+            let (rho, z1) = element(g, zj, self.tau[j], self.grow[j]);
+            self.rho[j] = rho;
+            self.az[j + 1] = z1;
+            zj = z1;
+            pj = pn;
         }
     }
 
-    /// End of winding: the outermost node is the free surface, with zero radial stress and
-    /// exactly its wound-in stress (the half-layer terms of the trapezoid rule vanish there).
+    /// Carry the load that reached the zone bottom through the deep part, recording the
+    /// increment (the next step's mid-step pressure estimate).
+    fn deep_march(&mut self, m: &LaneModel, load_b: f64) {
+        let mut s = load_b;
+        let mut j = self.b;
+        while j > 0 {
+            s *= self.rho[j - 1];
+            if s.abs() <= NEGLIGIBLE * self.asr[j - 1].abs() {
+                break;
+            }
+            j -= 1;
+            self.apply(m, j, s);
+            self.last[j] = s;
+        }
+        self.dcut = j;
+        self.fresh = j.saturating_sub(1);
+    }
+
+    /// Zone ratios from the zone bottom to the surface node `top`; returns the load factor of
+    /// a new interval of log-length `tau_new` above `top`. With `mid`, pressures are taken half
+    /// way through the sub-step, using the increment in `self.s`.
+    fn zone_sweep(&mut self, m: &LaneModel, top: usize, tau_new: f64, frac: f64) -> f64 {
+        let (b, cut) = (self.b, self.zcut);
+        let p = |st: &Self, i: usize| -> f64 {
+            let half = if frac > 0.0 && i >= cut {
+                frac * st.s[i]
+            } else {
+                0.0
+            };
+            -(st.asr[i] + half)
+        };
+        let mut zj = self.az[b];
+        let mut pj = p(self, b);
+        for j in b..top {
+            let pn = p(self, j + 1);
+            let g = m.g(0.5 * (pj + pn));
+            let (rho, z1) = element(g, zj, self.tau[j], self.grow[j]);
+            self.rho[j] = rho;
+            self.az[j + 1] = z1;
+            zj = z1;
+            pj = pn;
+        }
+        // the new interval: zero pressure at its outer end
+        new_layer_load(m.g(0.5 * pj), zj, tau_new)
+    }
+
+    /// March the increment `s_top` at the surface node inward to the zone bottom or until it
+    /// is negligible.
+    fn zone_march(&mut self, top: usize, s_top: f64) {
+        self.s[top] = s_top;
+        let mut i = top;
+        while i > self.b {
+            let next = self.s[i] * self.rho[i - 1];
+            if next.abs() <= NEGLIGIBLE * self.asr[i - 1].abs() {
+                break;
+            }
+            self.s[i - 1] = next;
+            i -= 1;
+        }
+        self.zcut = i;
+    }
+
+    /// Drop the sub-nodes of grid intervals deeper than `depth` below the surface.
+    fn coarsen(&mut self) {
+        while (self.ar.len() - 1 - self.b) / self.sub > self.depth {
+            let (b, e) = (self.b, self.b + self.sub);
+            if self.sub > 1 {
+                let mut rho = 1.0;
+                let mut old = 0.0;
+                for j in b..e {
+                    rho *= self.rho[j];
+                    old += (self.ar[j + 1] - self.ar[j])
+                        * (1.0 - 0.5 * (self.aeps[j] + self.aeps[j + 1]));
+                }
+                let new = (self.ar[e] - self.ar[b]) * (1.0 - 0.5 * (self.aeps[b] + self.aeps[e]));
+                self.build += new - old;
+                self.rho[b] = rho;
+                self.tau[b] = (self.ar[e] / self.ar[b]).ln();
+                self.grow[b] = self.ar[e] / self.ar[b];
+                let gone = b + 1..e;
+                self.tau.drain(b + 1..e);
+                self.grow.drain(b + 1..e);
+                self.rho.drain(b + 1..e);
+                for v in [
+                    &mut self.ar,
+                    &mut self.asr,
+                    &mut self.ast,
+                    &mut self.az,
+                    &mut self.aeps,
+                    &mut self.s,
+                    &mut self.last,
+                ] {
+                    v.drain(gone.clone());
+                }
+                self.agrid.drain(gone);
+            }
+            self.b += 1;
+        }
+    }
+
+    /// End of winding: copy the grid nodes' stresses out. The outermost node is the free
+    /// surface with exactly its wound-in stress.
+    ///
+    /// Inside the roll the tangential stress is taken from equilibrium, sigma_t = d(r sigma_r)/dr
+    /// (three-point differences on the nodes in use, which include the refined zone at the
+    /// surface), rather than summed from the increments z ds: that sum nearly cancels the
+    /// wound-in stress and so loses the relative accuracy the radial stress has. At the core
+    /// the sum is exact (z = 1 + kappa there) and is kept.
     pub fn finish(&mut self, sigma_w_last: f64) {
+        let n = self.ar.len();
+        for i in 1..n.saturating_sub(1) {
+            let (r0, r1, r2) = (self.ar[i - 1], self.ar[i], self.ar[i + 1]);
+            let (f0, f1, f2) = (r0 * self.asr[i - 1], r1 * self.asr[i], r2 * self.asr[i + 1]);
+            let (h0, h1) = (r1 - r0, r2 - r1);
+            self.ast[i] = (-h1 / (h0 * (h0 + h1))) * f0
+                + ((h1 - h0) / (h0 * h1)) * f1
+                + (h0 / (h1 * (h0 + h1))) * f2;
+        }
+        for (i, &g) in self.agrid.iter().enumerate() {
+            if g != usize::MAX {
+                self.sr[g] = self.asr[i];
+                self.st[g] = self.ast[i];
+            }
+        }
         if self.wound > 0 {
             let k = self.wound - 1;
             self.sr[k] = 0.0;
@@ -195,18 +487,17 @@ impl LaneState {
         }
     }
 
-    /// Compressed thickness of the wound build (m) for layers of caliper `caliper` with `m`
-    /// layers per node, plus the core's inward displacement.
-    pub fn outer_radius(&self, m: &LaneModel, layers_per_node: f64, caliper: f64) -> f64 {
+    /// Compressed radius of the wound build (m): the core radius, less the core's inward
+    /// displacement, plus each wound interval's layers at compressed thickness. `layers_per_m`
+    /// is the number of layers per metre of grid (1 / mean compressed layer thickness) and
+    /// `caliper` this lane's uncompressed caliper (m); interval strains are the mean of the
+    /// end nodes' strains (trapezoid rule).
+    pub fn outer_radius(&self, m: &LaneModel, layers_per_m: f64, caliper: f64) -> f64 {
         let r0 = self.r[0];
-        let core_u = match m.core_stiffness {
-            Some(ec) if self.wound > 0 => self.sr[0] * r0 / ec,
+        let core_u = match (m.core_stiffness, self.asr.first()) {
+            (Some(ec), Some(&sr0)) => sr0 * r0 / ec,
             _ => 0.0,
         };
-        let mut build = 0.0;
-        for i in 0..self.wound {
-            build += 1.0 - m.stack.strain(-self.sr[i]);
-        }
-        r0 + core_u + build * layers_per_node * caliper
+        r0 + core_u + self.build * layers_per_m * caliper
     }
 }

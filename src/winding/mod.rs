@@ -4,14 +4,16 @@
 //!
 //! **Invariant:** pure functions of the material, roll, winder settings and lanes; no I/O, no printing, nothing of rules.
 
+mod cache;
 mod centrifugal;
 mod core;
 pub mod hakiel;
 mod roll;
 
-pub use self::core::{core_stiffness, of as core_of};
+pub use self::core::{collapse_pressure, core_stiffness, of as core_of, ring_collapse_pressure};
+pub use cache::Cache;
 pub use centrifugal::{disk_stress, lift_off_speed};
 pub use roll::{
     lane_model, wind, LaneStress, LaneSummary, Options, WindError, WindInput, Wound,
-    DEFAULT_LEVELLING, SURFACE_ZONE_M,
+    DEFAULT_LEVELLING, DEFAULT_NODES, SURFACE_ZONE_M,
 };

@@ -256,6 +256,34 @@ const CREEP: &[Row] = &[
     ),
 ];
 
+/// Strength limits (the wound state is checked against them).
+const STRENGTH: &[Row] = &[
+    row(
+        "material.strength.md_tensile",
+        |m| m.strength.as_ref()?.md_tensile.as_ref(),
+        Kind::Pressure,
+        Between(1e5, 1e10),
+        |d| d.md_tensile,
+        |m, v| m.strength.md_tensile_pa = v,
+    ),
+    row(
+        "material.strength.md_compressive",
+        |m| m.strength.as_ref()?.md_compressive.as_ref(),
+        Kind::Pressure,
+        Between(1e5, 1e10),
+        |d| d.md_compressive,
+        |m, v| m.strength.md_compressive_pa = v,
+    ),
+    row(
+        "material.strength.zd_crush",
+        |m| m.strength.as_ref()?.zd_crush.as_ref(),
+        Kind::Pressure,
+        Between(1e4, 1e10),
+        |d| d.zd_crush,
+        |m, v| m.strength.zd_crush_pa = v,
+    ),
+];
+
 fn set_pfeiffer(m: &mut Material, k1: Option<f64>, k2: Option<f64>) {
     if let Stack::Pfeiffer { k1_pa, k2: k } = &mut m.stack {
         *k1_pa = k1.unwrap_or(*k1_pa);
@@ -300,6 +328,11 @@ fn blank(grade: Grade) -> Material {
             moisture_shift_dec_per_pct: 0.0,
             mechanosorptive_per_pct: 0.0,
         },
+        strength: Strength {
+            md_tensile_pa: 0.0,
+            md_compressive_pa: 0.0,
+            zd_crush_pa: 0.0,
+        },
     }
 }
 
@@ -315,6 +348,7 @@ impl Validator {
         ok &= self.stack(m, gd.as_ref(), &mut out);
         ok &= self.rows(m, gd.as_ref(), MOISTURE, &mut out);
         ok &= self.rows(m, gd.as_ref(), CREEP, &mut out);
+        ok &= self.rows(m, gd.as_ref(), STRENGTH, &mut out);
         ok.then_some(out)
     }
 

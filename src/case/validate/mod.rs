@@ -17,3 +17,4 @@ mod storage;
 mod winding;
 
 pub(super) use checks::{LineSource, Validator};
+pub use physical::MAX_WEB_STRAIN;

@@ -9,7 +9,7 @@ use super::checks::{line_of, Validator};
 /// Largest MD strain a web may be wound at (dimensionless, 1 %): paper and board break at about
 /// 1-3 % MD strain and films yield near a few percent, so a wound-in strain above 1 % means a
 /// unit slip or a wrong modulus (common practice).
-pub(in crate::case) const MAX_WEB_STRAIN: f64 = 0.01;
+pub const MAX_WEB_STRAIN: f64 = 0.01;
 
 /// Largest ratio of friction x nip load to web tension accepted (dimensionless). Nip-induced
 /// tension is measured at up to a few times the web tension (Good, Wu and Fikes 1994); a ratio

@@ -50,6 +50,13 @@ impl Validator {
                 poisson,
                 ..
             }) => self.tube_core(m, wq, poisson.as_ref(), core_d),
+            Some(RawCore {
+                rigid: None,
+                modulus: None,
+                wall: None,
+                poisson: None,
+                ..
+            }) => self.default_core(core_d),
             Some(_) => {
                 self.push(
                     "roll.core",
@@ -61,11 +68,16 @@ impl Validator {
             }
             None => self.default_core(core_d),
         };
+        let rating = match r.core.as_ref().and_then(|c| c.rating.as_ref()) {
+            Some(q) => Some(self.q(q, "roll.core.rating", Kind::Pressure, Positive)?),
+            None => None,
+        };
         Some(Roll {
             width_m: width?,
             diameter_m: dia?,
             core_diameter_m: core_d?,
             core: core?,
+            core_rating_pa: rating,
         })
     }
 

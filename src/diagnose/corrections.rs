@@ -1,0 +1,90 @@
+//! Each correction of a finding re-run exactly as its text says (see `actions::apply`) and
+//! checked on the finding's own quantity, before and after. A correction that does not move the
+//! quantity the better way is marked and listed last.
+
+use super::actions::{apply, Change, Outcome, RunError, Scenario};
+use super::attribution::Runner;
+use super::quantity::Site;
+use crate::rules::Correction;
+use crate::vocab::{Action, Quantity};
+use serde::Serialize;
+
+/// A correction with the model re-run, judged on the finding's quantity.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct CheckedCorrection {
+    pub action: Action,
+    pub factor: Option<f64>,
+    pub text: String,
+    pub why: String,
+    pub quantity: Quantity,
+    /// Unit of `before`, `after` and the intervals.
+    pub unit: &'static str,
+    /// The finding's quantity as predicted.
+    pub before: f64,
+    /// The quantity with the correction applied (None when re-runs are off).
+    pub after: Option<f64>,
+    /// Uncertainty interval of `before` and `after`, when the fit provides one.
+    pub before_interval: Option<(f64, f64)>,
+    pub after_interval: Option<(f64, f64)>,
+    /// Whether the quantity moves the better way (None when not re-run).
+    pub improves: Option<bool>,
+}
+
+/// Relative change below which a correction counts as no improvement (a numerical tolerance of
+/// the re-runs, not a physical threshold).
+const TOLERANCE: f64 = 1e-3;
+
+/// Whether `after` is better than `before` for `q` by more than the tolerance.
+pub fn improves(q: Quantity, before: f64, after: f64) -> bool {
+    let d = after - before;
+    let margin = TOLERANCE * before.abs().max(1e-9);
+    if q.lower_is_better() {
+        d < -margin
+    } else {
+        d > margin
+    }
+}
+
+/// Check a finding's corrections: each re-run through `runner` (None: re-runs off), measured
+/// at `site` (the finding's lanes; a slit-out leaves them out). Improving corrections first, in
+/// the rule's order, then the rest.
+pub fn check(
+    corrections: &[Correction],
+    q: Quantity,
+    site: &Site,
+    base: &Scenario,
+    base_outcome: &Outcome,
+    mut runner: Option<&mut Runner>,
+) -> Result<Vec<CheckedCorrection>, RunError> {
+    let before = site.measure(q, base_outcome);
+    let mut out = Vec::new();
+    for c in corrections {
+        let after = match runner.as_deref_mut() {
+            Some(r) => {
+                let s = apply(base, Change::Correct(c.action), c.factor, site.at);
+                let o = r.run(&s)?;
+                let at = Site {
+                    excluded: &s.excluded,
+                    ..*site
+                };
+                Some(at.measure(q, &o))
+            }
+            None => None,
+        };
+        out.push(CheckedCorrection {
+            action: c.action,
+            factor: c.factor,
+            text: c.text.clone(),
+            why: c.why.clone(),
+            quantity: q,
+            unit: q.unit(),
+            before,
+            after,
+            before_interval: None,
+            after_interval: None,
+            improves: after.map(|a| improves(q, before, a)),
+        });
+    }
+    out.sort_by_key(|c| c.improves == Some(false));
+    Ok(out)
+}

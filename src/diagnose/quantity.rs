@@ -1,0 +1,385 @@
+//! Each defect's own quantity, measured on a forward run, and the lanes that carry a finding's
+//! evidence.
+
+use super::actions::Outcome;
+use super::features::{self, Features};
+use crate::lanes::Lanes;
+use crate::vocab::{Defect, Quantity};
+use crate::winding::Wound;
+
+/// The quantity a defect is judged on.
+pub const fn quantity_of(d: Defect) -> Quantity {
+    match d {
+        Defect::BaggyLane | Defect::Puckers => Quantity::LaneExcessMmPerM,
+        Defect::Corrugations => Quantity::LocalPeakMmPerM,
+        Defect::BaggyCenter => Quantity::CentreMinusEdgesMmPerM,
+        Defect::BaggyEdges => Quantity::EdgesMinusCentreMmPerM,
+        Defect::Starring | Defect::CrepeWrinkles => Quantity::CoreMdCompressionMpa,
+        Defect::Telescoping => Quantity::SurfacePressureKpa,
+        Defect::Bursts => Quantity::OuterMdStressMpa,
+        Defect::Ridges | Defect::GaugeBands => Quantity::DiameterRidgePerMille,
+        Defect::CrushedLayers => Quantity::PeakPressureMpa,
+        Defect::CoreCollapse => Quantity::CorePressureMpa,
+        Defect::ConicalRoll => Quantity::SideToSideMmPerM,
+        Defect::NoDefect => Quantity::SpreadMmPerM,
+    }
+}
+
+/// Where a quantity is measured: the roll's lanes, the finding's lanes and the lanes left out.
+pub struct Site<'a> {
+    pub lanes: &'a Lanes,
+    /// Roll width, m.
+    pub width_m: f64,
+    /// The finding's lanes (its evidence); none: the whole roll.
+    pub at: &'a [usize],
+    /// Lanes slit out.
+    pub excluded: &'a [usize],
+}
+
+/// Mean of up to two neighbours each side of position `k` in `v` (None for a lone value).
+fn neighbour_mean(v: &[f64], k: usize) -> Option<f64> {
+    let nb: Vec<f64> = (k.saturating_sub(2)..(k + 3).min(v.len()))
+        .filter(|&j| j != k)
+        .map(|j| v[j])
+        .collect();
+    (!nb.is_empty()).then(|| nb.iter().sum::<f64>() / nb.len() as f64)
+}
+
+fn mean(v: impl Iterator<Item = f64>) -> f64 {
+    let (s, n) = v.fold((0.0, 0usize), |(s, n), x| (s + x, n + 1));
+    if n == 0 {
+        0.0
+    } else {
+        s / n as f64
+    }
+}
+
+/// Largest of an iterator (NEG_INFINITY when empty).
+fn max(v: impl Iterator<Item = f64>) -> f64 {
+    v.fold(f64::NEG_INFINITY, f64::max)
+}
+
+impl Site<'_> {
+    /// Lanes kept (not slit out).
+    fn kept(&self) -> Vec<usize> {
+        (0..self.lanes.lanes.len())
+            .filter(|i| !self.excluded.contains(i))
+            .collect()
+    }
+
+    /// Positions in `kept` of the finding's lanes still kept, or every kept lane when none is.
+    fn focus(&self, kept: &[usize]) -> Vec<usize> {
+        let f: Vec<usize> = (0..kept.len())
+            .filter(|&k| self.at.contains(&kept[k]))
+            .collect();
+        if f.is_empty() {
+            (0..kept.len()).collect()
+        } else {
+            f
+        }
+    }
+
+    /// Evaluate `q` on an outcome, in the quantity's unit (0 when not finite).
+    pub fn measure(&self, q: Quantity, o: &Outcome) -> f64 {
+        let kept = self.kept();
+        let last = o.aged.last();
+        let s: Vec<f64> = kept
+            .iter()
+            .map(|&i| o.aged.lanes[i].strain_at_unwind[last] * 1e3)
+            .collect();
+        let v = match q {
+            Quantity::LaneExcessMmPerM => {
+                let w = self.lanes.widths();
+                let wsum: f64 = kept.iter().map(|&i| w[i]).sum();
+                let mw = kept.iter().zip(&s).map(|(&i, v)| w[i] * v).sum::<f64>() / wsum;
+                max(self.focus(&kept).into_iter().map(|k| s[k] - mw))
+            }
+            Quantity::LocalPeakMmPerM => max(self
+                .focus(&kept)
+                .into_iter()
+                .filter_map(|k| neighbour_mean(&s, k).map(|m| s[k] - m))),
+            Quantity::CentreMinusEdgesMmPerM => self.centre_minus_ends(&kept, &s),
+            Quantity::EdgesMinusCentreMmPerM => -self.centre_minus_ends(&kept, &s),
+            Quantity::CoreMdCompressionMpa => {
+                max(kept.iter().map(|&i| core_compression(&o.wound, i))) / 1e6
+            }
+            Quantity::SurfacePressureKpa => {
+                -max(kept
+                    .iter()
+                    .map(|&i| -o.aged.lanes[i].surface_pressure_pa[last]))
+                    / 1e3
+            }
+            Quantity::OuterMdStressMpa => {
+                max(kept.iter().map(|&i| {
+                    *o.aged.lanes[i]
+                        .final_tangential_stress_pa
+                        .last()
+                        .unwrap_or(&0.0)
+                })) / 1e6
+            }
+            Quantity::DiameterRidgePerMille => {
+                let r = outer_radii(&o.wound, &kept);
+                let med = median(&r);
+                max(self
+                    .focus(&kept)
+                    .into_iter()
+                    .map(|k| neighbour_mean(&r, k).map_or(0.0, |m| (r[k] - m) / med * 1e3)))
+            }
+            Quantity::SpreadMmPerM => max(s.iter().copied()) + max(s.iter().map(|x| -x)),
+            Quantity::SideToSideMmPerM => {
+                let x: Vec<f64> = kept
+                    .iter()
+                    .map(|&i| self.lanes.lanes[i].position_m)
+                    .collect();
+                features::straight_line_difference(&x, &s, self.width_m)
+            }
+            Quantity::PeakPressureMpa => {
+                max(self
+                    .focus(&kept)
+                    .into_iter()
+                    .map(|k| o.wound.lanes[kept[k]].summary.peak_pressure_pa))
+                    / 1e6
+            }
+            Quantity::CorePressureMpa => {
+                max(kept
+                    .iter()
+                    .map(|&i| o.wound.lanes[i].summary.core_pressure_pa))
+                    / 1e6
+            }
+        };
+        if v.is_finite() {
+            v
+        } else {
+            0.0
+        }
+    }
+
+    /// Centre half minus the outermost kept lane each side, mm/m.
+    fn centre_minus_ends(&self, kept: &[usize], s: &[f64]) -> f64 {
+        let centre = features::centre_lanes(self.lanes, self.width_m);
+        let c = mean(
+            (0..kept.len())
+                .filter(|&k| centre.contains(&kept[k]))
+                .map(|k| s[k]),
+        );
+        let e = if kept.len() >= 2 {
+            0.5 * (s[0] + s[kept.len() - 1])
+        } else {
+            0.0
+        };
+        c - e
+    }
+}
+
+/// Largest MD compressive stress of lane `i` in the inner third of the wound roll, Pa.
+fn core_compression(w: &Wound, i: usize) -> f64 {
+    let rc = w.radius_m[0];
+    let inner = rc + (w.radius_m[w.radius_m.len() - 1] - rc) / 3.0;
+    max(w.lanes[i]
+        .tangential_stress_pa
+        .iter()
+        .zip(&w.radius_m)
+        .filter(|(_, r)| **r <= inner)
+        .map(|(t, _)| -t))
+}
+
+fn outer_radii(w: &Wound, idx: &[usize]) -> Vec<f64> {
+    idx.iter()
+        .map(|&i| w.lanes[i].summary.outer_radius_m)
+        .collect()
+}
+
+fn median(v: &[f64]) -> f64 {
+    let mut s = v.to_vec();
+    s.sort_by(f64::total_cmp);
+    match s.len() {
+        0 => 1.0,
+        n if n % 2 == 1 => s[n / 2],
+        n => 0.5 * (s[n / 2 - 1] + s[n / 2]),
+    }
+}
+
+/// Contiguous lanes around `peak` whose `v` exceeds `level`.
+fn around(v: &[f64], peak: usize, level: f64) -> Vec<usize> {
+    let (mut lo, mut hi) = (peak, peak);
+    while lo > 0 && v[lo - 1] > level {
+        lo -= 1;
+    }
+    while hi + 1 < v.len() && v[hi + 1] > level {
+        hi += 1;
+    }
+    (lo..=hi).collect()
+}
+
+/// Index of the largest value.
+fn argmax(v: &[f64]) -> usize {
+    (0..v.len()).fold(0, |a, i| if v[i] > v[a] { i } else { a })
+}
+
+/// A lane's excess over the mean of its neighbours, per lane (0 for a lone lane).
+fn local_excess(v: &[f64]) -> Vec<f64> {
+    (0..v.len())
+        .map(|i| neighbour_mean(v, i).map_or(0.0, |m| v[i] - m))
+        .collect()
+}
+
+/// The band around the lane that stands out most from its neighbours: lanes above halfway
+/// between that lane and its neighbours' mean. Only inner lanes can peak from five lanes up, as
+/// in the local-peak feature.
+fn local_band(v: &[f64]) -> Vec<usize> {
+    let n = v.len();
+    if n == 0 {
+        return Vec::new();
+    }
+    let loc = local_excess(v);
+    let inner: Vec<f64> = (0..n)
+        .map(|i| {
+            if n >= 5 && (i == 0 || i == n - 1) {
+                f64::NEG_INFINITY
+            } else {
+                loc[i]
+            }
+        })
+        .collect();
+    let p = argmax(&inner);
+    around(v, p, v[p] - 0.5 * loc[p])
+}
+
+/// Lanes whose value is within 10 % of the extreme; none (the whole roll) when every lane is.
+fn near_extreme(v: &[f64]) -> Vec<usize> {
+    let top = max(v.iter().copied());
+    let idx: Vec<usize> = (0..v.len())
+        .filter(|&i| v[i] >= top - 0.1 * top.abs())
+        .collect();
+    if idx.len() == v.len() {
+        Vec::new()
+    } else {
+        idx
+    }
+}
+
+/// The lanes that carry a finding's evidence (none: the whole roll).
+pub fn locate(
+    defect: Defect,
+    lanes: &Lanes,
+    width_m: f64,
+    f: &Features,
+    o: &Outcome,
+) -> Vec<usize> {
+    let x = &f.excess_mm_per_m;
+    let n = x.len();
+    let centre = features::centre_lanes(lanes, width_m);
+    let ends = features::end_lanes(lanes);
+    match defect {
+        Defect::BaggyLane => local_band(x),
+        Defect::Puckers | Defect::Corrugations => {
+            // the local maxima standing out from the mean lane (the feature's bands)
+            let b: Vec<usize> = (0..n)
+                .filter(|&i| {
+                    (i == 0 || x[i] > x[i - 1])
+                        && (i + 1 == n || x[i] > x[i + 1])
+                        && x[i] > features::BAND_MM_PER_M
+                })
+                .collect();
+            if b.is_empty() {
+                local_band(x)
+            } else {
+                b
+            }
+        }
+        Defect::Ridges => {
+            let r = outer_radii(&o.wound, &(0..n).collect::<Vec<_>>());
+            let loc = local_excess(&r);
+            let p = argmax(&loc);
+            let mut band = around(&loc, p, 0.5 * loc[p]);
+            band.retain(|&i| loc[i] > 0.0);
+            band
+        }
+        Defect::GaugeBands => {
+            let c: Vec<f64> = lanes.lanes.iter().map(|l| l.caliper_deviation).collect();
+            let p = argmax(&c);
+            around(&c, p, 0.5 * (c[p] + median(&c)))
+        }
+        Defect::BaggyEdges => {
+            let cm = mean(centre.iter().map(|&i| x[i]));
+            let mut e = features::edge_lanes(lanes, width_m);
+            e.extend(ends);
+            e.sort_unstable();
+            e.dedup();
+            e.retain(|&i| x[i] > cm.max(0.0));
+            e
+        }
+        Defect::ConicalRoll => {
+            // the long side: the lanes above the mean lane on the side the line rises to
+            let half = 0.5 * width_m;
+            let front: f64 = mean(
+                (0..n)
+                    .filter(|&i| lanes.lanes[i].position_m < half)
+                    .map(|i| x[i]),
+            );
+            let back: f64 = mean(
+                (0..n)
+                    .filter(|&i| lanes.lanes[i].position_m >= half)
+                    .map(|i| x[i]),
+            );
+            (0..n)
+                .filter(|&i| (lanes.lanes[i].position_m >= half) == (back > front) && x[i] > 0.0)
+                .collect()
+        }
+        Defect::BaggyCenter => {
+            let em = mean(ends.iter().map(|&i| x[i]));
+            centre.into_iter().filter(|&i| x[i] > em.max(0.0)).collect()
+        }
+        Defect::Starring
+        | Defect::CrepeWrinkles
+        | Defect::Telescoping
+        | Defect::Bursts
+        | Defect::CrushedLayers
+        | Defect::CoreCollapse => near_extreme(&stress_state(defect, o)),
+        Defect::NoDefect => Vec::new(),
+    }
+}
+
+/// Per lane, the stress state a stress-based defect is located by (the lanes near its extreme).
+fn stress_state(defect: Defect, o: &Outcome) -> Vec<f64> {
+    let n = o.wound.lanes.len();
+    let last = o.aged.last();
+    match defect {
+        Defect::Starring | Defect::CrepeWrinkles => {
+            (0..n).map(|i| core_compression(&o.wound, i)).collect()
+        }
+        Defect::Telescoping => o
+            .aged
+            .lanes
+            .iter()
+            .map(|l| -l.surface_pressure_pa[last])
+            .collect(),
+        Defect::Bursts => o
+            .aged
+            .lanes
+            .iter()
+            .map(|l| *l.final_tangential_stress_pa.last().unwrap_or(&0.0))
+            .collect(),
+        Defect::CrushedLayers => o
+            .wound
+            .lanes
+            .iter()
+            .map(|l| l.summary.peak_pressure_pa)
+            .collect(),
+        Defect::CoreCollapse => o
+            .wound
+            .lanes
+            .iter()
+            .map(|l| l.summary.core_pressure_pa)
+            .collect(),
+        Defect::BaggyLane
+        | Defect::BaggyCenter
+        | Defect::BaggyEdges
+        | Defect::Puckers
+        | Defect::Ridges
+        | Defect::Corrugations
+        | Defect::GaugeBands
+        | Defect::ConicalRoll
+        | Defect::NoDefect => vec![0.0; n],
+    }
+}
