@@ -27,6 +27,24 @@ pub fn linear_flat(points: &[(f64, f64)], x: f64) -> f64 {
     y0 + (y1 - y0) * (x - x0) / (x1 - x0)
 }
 
+/// How much a reading's independent noise grows in [`linear_extrap`] at `x`: the root sum of
+/// squares of the two readings' weights, never below 1 (inside the readings the lanes share
+/// readings, so no lane counts as better than one reading; beyond them the end segment's slope
+/// amplifies the noise: 1.58 at half a reading spacing out).
+pub fn noise_gain(xs: &[f64], x: f64) -> f64 {
+    let n = xs.len();
+    if n < 2 {
+        return 1.0;
+    }
+    let i = xs.partition_point(|&p| p <= x).clamp(1, n - 1);
+    let (x0, x1) = (xs[i - 1], xs[i]);
+    if x1 - x0 <= 0.0 {
+        return 1.0;
+    }
+    let w = (x - x0) / (x1 - x0);
+    ((1.0 - w).powi(2) + w * w).sqrt().max(1.0)
+}
+
 /// Linear interpolation of `ys` at `xs` (sorted) onto `x`, extrapolating linearly from the end
 /// segments; returns the value and whether it extrapolated.
 pub fn linear_extrap(xs: &[f64], ys: &[f64], x: f64) -> (f64, bool) {
@@ -44,4 +62,22 @@ pub fn linear_extrap(xs: &[f64], ys: &[f64], x: f64) -> (f64, bool) {
         return (y1, out);
     }
     (y0 + (y1 - y0) * (x - x0) / (x1 - x0), out)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// The variance of a weighted sum of independent readings is the sum of the squared weights
+    /// times their variance (Bienaymé's formula): at half a spacing beyond the last reading the
+    /// weights are -0.5 and 1.5, so the noise grows by sqrt(2.5) = 1.581; inside, never below 1.
+    #[test]
+    fn noise_gain_grows_beyond_the_readings() {
+        let xs = [0.0, 1.0, 2.0];
+        assert!((noise_gain(&xs, 2.5) - 2.5f64.sqrt()).abs() < 1e-12);
+        assert!((noise_gain(&xs, -0.5) - 2.5f64.sqrt()).abs() < 1e-12);
+        assert_eq!(noise_gain(&xs, 0.5), 1.0);
+        assert_eq!(noise_gain(&xs, 1.0), 1.0);
+        assert_eq!(noise_gain(&[1.0], 5.0), 1.0);
+    }
 }

@@ -60,6 +60,9 @@ pub struct Series {
     pub values: Vec<f64>,
     /// True where some lane centre lies outside the measured positions.
     pub extrapolated: bool,
+    /// Factor on a reading's noise at each lane centre ([`crate::interp::noise_gain`]: 1 inside
+    /// the readings, more where a lane is extrapolated).
+    pub noise_gain: Vec<f64>,
 }
 
 /// The lanes of a roll.
@@ -200,6 +203,10 @@ pub fn build(case: &Case) -> Lanes {
                 age_s: p.age_s,
                 values,
                 extrapolated,
+                noise_gain: centres
+                    .iter()
+                    .map(|&x| crate::interp::noise_gain(&p.positions_m, x))
+                    .collect(),
             }
         })
         .collect();

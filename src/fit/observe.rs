@@ -43,7 +43,8 @@ pub fn step_of(tl: &Timeline, age: f64) -> usize {
 }
 
 /// Observations per lane from the lanes' measurement series, each with one-sigma repeatability:
-/// hardness `hardness_sd` (scale units), diameter [`DIAMETER_REPEATABILITY_M`]; and notes on
+/// hardness `hardness_sd` (scale units), diameter [`DIAMETER_REPEATABILITY_M`], times the
+/// series' noise gain at the lane (larger for an extrapolated lane); and notes on
 /// measurements that could not be used.
 pub fn observations(lanes: &Lanes, tl: &Timeline, hardness_sd: f64) -> (Vec<Vec<Obs>>, Vec<Note>) {
     let n = lanes.lanes.len();
@@ -65,7 +66,7 @@ pub fn observations(lanes: &Lanes, tl: &Timeline, hardness_sd: f64) -> (Vec<Vec<
                         age_s: p.age_s,
                         step,
                         value: *v,
-                        sigma: hardness_sd,
+                        sigma: hardness_sd * p.noise_gain[i],
                         kind: ObsKind::Absolute,
                     });
                 }
@@ -78,7 +79,9 @@ pub fn observations(lanes: &Lanes, tl: &Timeline, hardness_sd: f64) -> (Vec<Vec<
                             age_s: p.age_s,
                             step,
                             value: v - v0[i],
-                            sigma: DIAMETER_REPEATABILITY_M * std::f64::consts::SQRT_2,
+                            sigma: DIAMETER_REPEATABILITY_M
+                                * std::f64::consts::SQRT_2
+                                * p.noise_gain[i],
                             kind: ObsKind::ChangeFrom { step0: *s0 },
                         });
                     }

@@ -157,12 +157,21 @@ fn headline(r: &ReportData, v: &mut Vec<Block>) {
             None => "none stated.".into(),
         }),
     ]);
-    let found = if d.findings.is_empty() {
+    let found = if d.findings.is_empty() && d.confidence.below_floor.is_empty() {
         "no rule fired: the roll is predicted to unwind within the rules' thresholds".to_string()
+    } else if d.findings.is_empty() {
+        "nothing that stands above measurement noise (see the notes for what the measurements can resolve)".to_string()
     } else {
         d.findings
             .iter()
-            .map(|f| format!("{} ({} likelihood)", plain(&f.defect), f.likelihood))
+            .map(|f| {
+                format!(
+                    "{} ({} likelihood, probability {:.2})",
+                    plain(&f.defect),
+                    f.likelihood,
+                    f.probability
+                )
+            })
             .collect::<Vec<_>>()
             .join("; ")
     };
@@ -215,18 +224,25 @@ fn findings(r: &ReportData, v: &mut Vec<Block>) {
     let (d, sys) = (r.diagnosis, r.sys);
     v.push(Block::Heading(2, "Findings".into(), "findings"));
     if d.findings.is_empty() {
-        v.push(Block::Para(vec![t(
-            "No finding: no rule fired. The roll is predicted to unwind within the rules' thresholds.",
-        )]));
+        v.push(Block::Para(vec![t(if d.confidence.below_floor.is_empty() {
+            "No finding: no rule fired. The roll is predicted to unwind within the rules' thresholds."
+        } else {
+            "No finding stands above measurement noise: the rules that fired did so no more strongly than noise alone would make them (see the notes for what the measurements can resolve)."
+        })]));
     }
+    v.push(Block::Para(vec![t(format!(
+        "Probability: the share of {} plausible states of the fitted creep (posterior draws) in which the rule holds. A finding is kept only where measurement noise alone would make it with a chance of 5 % or less, shared over the features tested (compared with {} uniform rolls that differ only by noise).",
+        d.confidence.states, d.confidence.noise_rolls
+    ))]));
     for (i, f) in d.findings.iter().enumerate() {
         v.push(Block::Heading(
             3,
             format!(
-                "{}. {} ({} likelihood, rule {})",
+                "{}. {} ({} likelihood, probability {:.2}, rule {})",
                 i + 1,
                 plain(&f.defect),
                 f.likelihood,
+                f.probability,
                 f.rule
             ),
             "",

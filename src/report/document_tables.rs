@@ -85,6 +85,16 @@ fn lane_table(r: &ReportData) -> Block {
                     format!("{:+.2}", l.excess_mm_per_m),
                     format!("lane{i}.excess"),
                 ),
+                t(d.confidence
+                    .lanes
+                    .get(i)
+                    .map(|c| {
+                        format!(
+                            "{:+.2} to {:+.2}",
+                            c.excess_mm_per_m_p05, c.excess_mm_per_m_p95
+                        )
+                    })
+                    .unwrap_or_default()),
                 t(md.unwrap_or_default()),
                 t(radial.unwrap_or_default()),
                 t(format!("{:.2}", l.fit_rmse)),
@@ -105,6 +115,7 @@ fn lane_table(r: &ReportData) -> Block {
                 "length at unwind vs mean lane ({})",
                 units::per_mille_label(sys)
             ),
+            "5-95 % of plausible states".into(),
             "MD creep scale".into(),
             "radial creep scale".into(),
             "fit rmse".into(),

@@ -112,6 +112,38 @@ pub fn surveys(r: &ReportData) -> Vec<Plot> {
     out
 }
 
+/// The 5 % and 95 % lane lengths over the plausible states, dotted (none without them).
+fn lane_quantiles(r: &ReportData, xd: &units::Display) -> Vec<Series> {
+    let (d, c) = (r.diagnosis, &r.diagnosis.confidence.lanes);
+    if c.len() != d.lanes.len() || c.is_empty() {
+        return Vec::new();
+    }
+    [
+        ("5 % of plausible states", false),
+        ("95 % of plausible states", true),
+    ]
+    .into_iter()
+    .map(|(label, high)| {
+        let mut s = series(
+            label,
+            c.iter()
+                .map(|l| {
+                    let y = if high {
+                        l.excess_mm_per_m_p95
+                    } else {
+                        l.excess_mm_per_m_p05
+                    };
+                    (xd.from_si(l.position_m), y)
+                })
+                .collect(),
+        );
+        s.line = Line::Dotted;
+        s.color = PALETTE[2];
+        s
+    })
+    .collect()
+}
+
 /// Plot (2): predicted lane length at unwind across the width, with thresholds, the complaint
 /// region and extrapolated lanes.
 pub fn lane_length(r: &ReportData) -> Plot {
@@ -128,6 +160,7 @@ pub fn lane_length(r: &ReportData) -> Plot {
     );
     all.marker = Marker::Circle;
     let mut sv = vec![all];
+    sv.extend(lane_quantiles(r, &xd));
     let xp: Vec<(f64, f64)> = d
         .lanes
         .iter()
@@ -177,7 +210,7 @@ pub fn lane_length(r: &ReportData) -> Plot {
     };
     Plot {
         id: "plot-lane-length",
-        caption: "Predicted length of each lane at unwind over the width-weighted mean lane. Dashed lines: thresholds (common practice); hatched: where the complaint is; crosses: lanes whose profile values were extrapolated. The model carries no per-lane uncertainty band; the fit's uncertainty is in the lane table.".into(),
+        caption: "Predicted length of each lane at unwind over the width-weighted mean lane. Dashed lines: thresholds (common practice); hatched: where the complaint is; crosses: lanes whose profile values were extrapolated; dotted: 5 % and 95 % of the lane lengths over the plausible states of the fitted creep (posterior draws).".into(),
         svg: line_chart(&chart),
     }
 }
