@@ -24,6 +24,8 @@ pub fn defect(d: Defect) -> &'static str {
         Defect::CoreCollapse => "core collapse",
         Defect::CrushedLayers => "crushed layers",
         Defect::ConicalRoll => "conical roll (one side long)",
+        Defect::OutOfRound => "out-of-round roll (flat from storage on the side)",
+        Defect::LooseOuterWraps => "loose outer wraps (air wound in)",
         Defect::NoDefect => "none",
     }
 }
@@ -86,6 +88,10 @@ pub fn quantity(q: Quantity) -> &'static str {
         Quantity::SideToSideMmPerM => {
             "front-to-back length difference (straight line across the width)"
         }
+        Quantity::UnwindStressSwingMpa => "once-per-turn swing of web stress at unwind",
+        Quantity::OuterZonePressureKpa => {
+            "lowest interlayer pressure of the outer wraps at winding"
+        }
     }
 }
 
@@ -96,8 +102,9 @@ fn quantity_si(q: Quantity, v: f64) -> Option<f64> {
         Quantity::CoreMdCompressionMpa
         | Quantity::OuterMdStressMpa
         | Quantity::PeakPressureMpa
-        | Quantity::CorePressureMpa => Some(v * 1e6),
-        Quantity::SurfacePressureKpa => Some(v * 1e3),
+        | Quantity::CorePressureMpa
+        | Quantity::UnwindStressSwingMpa => Some(v * 1e6),
+        Quantity::SurfacePressureKpa | Quantity::OuterZonePressureKpa => Some(v * 1e3),
         _ => None,
     }
 }
@@ -403,6 +410,11 @@ pub fn feature(f: Feature) -> &'static str {
         F::MdTensionStrengthRatio => "outer MD stress / tensile strength",
         F::OuterMoistureLossPct => "moisture lost by the outer wraps",
         F::PaperGrade => "paper grade (1) or film (0)",
+        F::RunOutMm => "run-out at unwind from storage on the side",
+        F::UnwindTensionSwingRatio => "once-per-turn tension swing / converting tension",
+        F::UnwindStressStrengthRatio => "peak web stress at unwind / tensile strength",
+        F::AirFilmRoughnessRatio => "entrained air film / roughness",
+        F::AirTensionLossRatio => "wound-in tension lost to air / web tension",
     }
 }
 
@@ -417,7 +429,7 @@ pub fn feature_value(f: Feature, v: f64, sys: System) -> String {
         | F::LocalPeakMmPerM
         | F::CentreMinusEdgesMmPerM
         | F::SideToSideMmPerM => format!("{v:.3} {strain}"),
-        F::PeakWidthMm => units::show(v * 1e-3, Kind::Length, sys, false),
+        F::PeakWidthMm | F::RunOutMm => units::show(v * 1e-3, Kind::Length, sys, false),
         F::CoreMdStressMpa | F::OuterMdStressEndMpa => {
             units::show(v * 1e6, Kind::Pressure, sys, false)
         }
@@ -439,7 +451,11 @@ pub fn feature_value(f: Feature, v: f64, sys: System) -> String {
         | F::CorePressureRatio
         | F::PeakPressureCrushRatio
         | F::MdCompressionStrengthRatio
-        | F::MdTensionStrengthRatio => format!("{v:.3}"),
+        | F::MdTensionStrengthRatio
+        | F::UnwindTensionSwingRatio
+        | F::UnwindStressStrengthRatio
+        | F::AirFilmRoughnessRatio
+        | F::AirTensionLossRatio => format!("{v:.3}"),
     }
 }
 
