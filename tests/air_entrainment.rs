@@ -134,3 +134,21 @@ fn air_lowers_the_outer_wraps_pressure_at_winding() {
     let p = |d: &Diagnosis| d.features.get(Feature::SurfacePressureEndKpa);
     assert!(p(&fast) < p(&vented), "{} against {}", p(&fast), p(&vented));
 }
+
+#[test]
+fn air_that_takes_all_the_wound_in_tension_is_a_warning() {
+    // 100 N/m at 2500 m/min: the film (about 0.4 mm at full diameter) takes more hoop strain
+    // than the web tension gives; the ordinary fast roll keeps some
+    let floats = invented(&[
+        "winding.tension=\"100 N/m\"",
+        "winding.speed=\"2500 m/min\"",
+    ]);
+    let notes = rollsleuth::limits::air_floats(&floats);
+    assert!(matches!(
+        notes.as_slice(),
+        [rollsleuth::note::Note::Limit(
+            rollsleuth::note::Limit::AirFloats { .. }
+        )]
+    ));
+    assert!(rollsleuth::limits::air_floats(&invented(&[])).is_empty());
+}

@@ -181,3 +181,29 @@ fn the_same_roll_stored_on_end_is_not_out_of_round() {
         d.findings.iter().map(|f| f.defect).collect::<Vec<_>>()
     );
 }
+
+#[test]
+fn a_contact_wider_than_hertz_allows_is_a_warning() {
+    use rollsleuth::note::{Limit, Note};
+    use rollsleuth::winding::{wind, Options, WindInput};
+    let mut c = invented("on_side");
+    let lanes = rollsleuth::lanes::build(&c);
+    let wi = WindInput::new(&c.material, &c.roll, &c.winding);
+    let wound = wind(&wi, &lanes, Options::default()).unwrap();
+    // the invented roll's contact is narrow: no warning
+    assert!(rollsleuth::limits::flat_contact(&c, &wound).is_empty());
+    // a stack ten times softer than any paper (0.1 MPa): a = sqrt(4 P R / (pi E)) is about a
+    // third of the radius, outside Hertz's small-contact theory
+    c.material.stack = Stack::Constant {
+        radial_modulus_pa: 1e5,
+    };
+    let notes = rollsleuth::limits::flat_contact(&c, &wound);
+    match notes.as_slice() {
+        [Note::Limit(Limit::FlatContact {
+            half_width_m,
+            radius_m,
+            ..
+        })] => assert!(*half_width_m > 0.25 * radius_m),
+        other => panic!("{other:?}"),
+    }
+}

@@ -272,6 +272,7 @@ pub fn limit(l: &crate::note::Limit) -> String {
             "the winding speed {speed_m_s:.1} m/s is above the lift-off speed {lift_off_m_s:.1} m/s at the roll's mean wound-in stress: outer layers could not stay on the roll as modelled; {SO}"
         ),
         Limit::Condensation(c) => condensation(&c),
+        Limit::FlatContact { .. } | Limit::AirFloats { .. } => unwind_limit(l),
         Limit::Strength {
             which,
             lanes,
@@ -329,6 +330,34 @@ pub fn limit(l: &crate::note::Limit) -> String {
             "{}: the predicted hardness is not a finite number; {SO} (hardness.calibration)",
             at(lanes, position_m)
         ),
+    }
+}
+
+/// The out-of-round and air limits as sentences (the other limits: [`limit`]).
+fn unwind_limit(l: &crate::note::Limit) -> String {
+    use crate::note::Limit;
+    match *l {
+        Limit::FlatContact {
+            half_width_m,
+            radius_m,
+            peak_pressure_pa,
+            crush_pa,
+        } => format!(
+            "stored on its side, the roll's floor contact is {:.0} mm half-width on a {:.0} mm radius with a peak pressure of {:.2} MPa (crush limit {:.2} MPa): the Hertz line contact behind the out-of-round estimate holds for a narrow contact below the crush limit; treat the flat as a rough bound",
+            half_width_m * 1e3,
+            radius_m * 1e3,
+            peak_pressure_pa / 1e6,
+            crush_pa / 1e6
+        ),
+        Limit::AirFloats {
+            film_m,
+            roughness_m,
+        } => format!(
+            "the air film entrained at full diameter ({:.1} um) exceeds the faces' combined roughness ({:.1} um) by enough to take away all the wound-in tension: the outer wraps float on air and the model holds their wound-in tension at zero; results that depend on it are not physical; check the inputs",
+            film_m * 1e6,
+            roughness_m * 1e6
+        ),
+        other => limit(&other),
     }
 }
 
