@@ -207,3 +207,20 @@ fn a_contact_wider_than_hertz_allows_is_a_warning() {
         other => panic!("{other:?}"),
     }
 }
+
+#[test]
+fn a_weak_web_on_the_same_flat_is_a_break_risk() {
+    // the invented roll's peak web stress is about 3.9 MPa; against an MD tensile strength of
+    // 7 MPa that is past half of it: the break rule fires, not the plain one
+    let mut c = invented("on_side");
+    c.material.strength.md_tensile_pa = 7e6;
+    let d = run(&c, false);
+    let rules: Vec<&str> = d
+        .findings
+        .iter()
+        .filter(|f| f.defect == Defect::OutOfRound)
+        .map(|f| f.rule.as_str())
+        .collect();
+    assert_eq!(rules, ["out-of-round-break"]);
+    assert!(d.features.get(Feature::UnwindStressStrengthRatio) > 0.5);
+}
