@@ -168,6 +168,57 @@ pub fn condensation(storage: &[crate::case::Stretch], material: &Material) -> Ve
         .collect()
 }
 
+/// Hertz's line contact holds for a contact narrow against the radius (Johnson 1985, section
+/// 4.3); beyond a quarter of the radius it is extrapolated (common practice for "small").
+pub const MAX_CONTACT_TO_RADIUS: f64 = 0.25;
+
+/// The floor contact of a roll stored on its side ([`crate::storage::out_of_round`]) against the
+/// small-contact assumption and the stack's crush limit (elastic contact, grade creep).
+pub fn flat_contact(case: &crate::case::Case, wound: &Wound) -> Vec<Note> {
+    let k = wound.lanes.len().max(1) as f64;
+    let ps = wound
+        .lanes
+        .iter()
+        .map(|l| l.summary.surface_zone_pressure_pa)
+        .sum::<f64>()
+        / k;
+    let m = &case.material;
+    let r = 0.5 * case.roll.diameter_m;
+    crate::storage::out_of_round::flat(m, &case.roll, &case.storage, ps, &m.creep.radial)
+        .filter(|f| {
+            f.half_width_m > MAX_CONTACT_TO_RADIUS * r
+                || f.peak_pressure_pa > m.strength.zd_crush_pa
+        })
+        .map(|f| {
+            Note::Limit(Limit::FlatContact {
+                half_width_m: f.half_width_m,
+                radius_m: r,
+                peak_pressure_pa: f.peak_pressure_pa,
+                crush_pa: m.strength.zd_crush_pa,
+            })
+        })
+        .into_iter()
+        .collect()
+}
+
+/// Entrained air ([`crate::winding::air`]) that takes away all of the web tension's strain at
+/// full diameter.
+pub fn air_floats(case: &crate::case::Case) -> Vec<Note> {
+    use crate::winding::air;
+    let m = &case.material;
+    let (d, w) = (case.roll.diameter_m, &case.winding);
+    let t = w.tension.at(d);
+    let lost = air::strain_loss(m, w, 0.5 * d, t) * m.md_modulus_pa * m.caliper_m;
+    if lost >= t + m.friction * w.nip_n_per_m {
+        vec![Note::Limit(Limit::AirFloats {
+            film_m: air::film_m(w, 0.5 * d, t),
+            roughness_m: air::escape_gap_m(m),
+        })]
+    } else {
+        Vec::new()
+    }
+}
+
 /// Checks on the roll after storage: lane diameters outside the core, moisture at or below
 /// saturation, finite predicted hardness; one note per kind naming the worst lane.
 pub fn after_storage(a: &Aged, material: &Material, roll: &Roll) -> Vec<Note> {

@@ -187,6 +187,23 @@ pub enum Limit {
         /// Saturation moisture (GAB at unit activity), %.
         saturation_pct: f64,
     },
+    /// The floor contact of a roll stored on its side is outside Hertz's small-contact theory
+    /// (half-width over a quarter of the radius) or presses the stack past its crush limit.
+    FlatContact {
+        /// Contact half-width and roll radius, m.
+        half_width_m: f64,
+        radius_m: f64,
+        /// Hertz peak contact pressure and the stack's ZD crush limit, Pa.
+        peak_pressure_pa: f64,
+        crush_pa: f64,
+    },
+    /// Entrained air takes away all the wound-in tension of the outer wraps: the model's
+    /// wound-in tension is held at zero there (the layers float on air).
+    AirFloats {
+        /// Air film at full diameter and the combined roughness it must exceed, m.
+        film_m: f64,
+        roughness_m: f64,
+    },
     /// A lane's predicted hardness is not a finite number.
     HardnessNotFinite {
         /// Lanes past the limit (the worst is described).

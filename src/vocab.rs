@@ -65,6 +65,12 @@ words! {
         /// One side of the roll wound longer than the other (a wedge across the width): the web
         /// runs slack on one side and walks at unwind.
         ConicalRoll = "conical_roll",
+        /// A flat left by storage on the side: a once-per-turn swing of web tension at unwind
+        /// (registration faults, breaks).
+        OutOfRound = "out_of_round",
+        /// Air wound in with the web bleeds out and leaves the outer wraps loose (telescoping,
+        /// shifting layers).
+        LooseOuterWraps = "loose_outer_wraps",
         /// The complainant saw no defect.
         NoDefect = "none",
     }
@@ -101,6 +107,18 @@ words! {
         KeepWrappedUntilUse = "keep_wrapped_until_use",
         ShortenStorage = "shorten_storage",
         SlitOut = "slit_out",
+        /// Store the rolls on end (every stretch).
+        StoreOnEnd = "store_on_end",
+        /// Turn rolls stored on their side at regular intervals: `factor` is the share of the
+        /// time one contact line bears the weight (0.25: quarter turns, four lines).
+        TurnRolls = "turn_rolls",
+        /// Scale the converter's unwind speed.
+        ScaleUnwindSpeed = "scale_unwind_speed",
+        /// Scale the winding speed.
+        ScaleWindingSpeed = "scale_winding_speed",
+        /// Wind with a nip (a lay-on roll) of `factor` times the web tension at mid-build, or
+        /// keep the present nip when it is heavier.
+        AddNip = "add_nip",
     }
 }
 
@@ -112,13 +130,18 @@ impl Action {
             | Action::TaperTension
             | Action::RaiseStartAndTaper
             | Action::ScaleNip
-            | Action::ShortenStorage => true,
+            | Action::ShortenStorage
+            | Action::TurnRolls
+            | Action::ScaleUnwindSpeed
+            | Action::ScaleWindingSpeed
+            | Action::AddNip => true,
             Action::FlattenCaliper
             | Action::FilmWrap
             | Action::StoreAtEquilibrium
             | Action::MakeAtPressroomEquilibrium
             | Action::KeepWrappedUntilUse
-            | Action::SlitOut => false,
+            | Action::SlitOut
+            | Action::StoreOnEnd => false,
         }
     }
 }
@@ -193,13 +216,20 @@ words! {
         CorePressureMpa = "core_pressure_mpa",
         /// Front-to-back difference of a straight line fitted to the lanes at unwind.
         SideToSideMmPerM = "side_to_side_mm_per_m",
+        /// Amplitude of the once-per-turn swing of web stress at unwind (tension over caliper).
+        UnwindStressSwingMpa = "unwind_stress_swing_mpa",
+        /// Lowest mean interlayer pressure of the outer 25 mm at winding (higher is better).
+        OuterZonePressureKpa = "outer_zone_pressure_kpa",
     }
 }
 
 impl Quantity {
     /// Whether a lower value is better (all but the surface pressure).
     pub const fn lower_is_better(self) -> bool {
-        !matches!(self, Quantity::SurfacePressureKpa)
+        !matches!(
+            self,
+            Quantity::SurfacePressureKpa | Quantity::OuterZonePressureKpa
+        )
     }
 
     /// The quantity's unit as written in JSON fields.
@@ -214,8 +244,9 @@ impl Quantity {
             Quantity::CoreMdCompressionMpa
             | Quantity::OuterMdStressMpa
             | Quantity::PeakPressureMpa
-            | Quantity::CorePressureMpa => "mpa",
-            Quantity::SurfacePressureKpa => "kpa",
+            | Quantity::CorePressureMpa
+            | Quantity::UnwindStressSwingMpa => "mpa",
+            Quantity::SurfacePressureKpa | Quantity::OuterZonePressureKpa => "kpa",
             Quantity::DiameterRidgePerMille => "per_mille",
         }
     }
@@ -256,6 +287,11 @@ words! {
         MdTensionStrengthRatio = "md_tension_strength_ratio",
         OuterMoistureLossPct = "outer_moisture_loss_pct",
         PaperGrade = "paper_grade",
+        RunOutMm = "run_out_mm",
+        UnwindTensionSwingRatio = "unwind_tension_swing_ratio",
+        UnwindStressStrengthRatio = "unwind_stress_strength_ratio",
+        AirFilmRoughnessRatio = "air_film_roughness_ratio",
+        AirTensionLossRatio = "air_tension_loss_ratio",
     }
 }
 
@@ -320,6 +356,11 @@ impl Feature {
             F::MdCompressionStrengthRatio => spec("most compressive MD stress at winding over the MD compressive strength (0: no compression)", 0.0, INF, false),
             F::MdTensionStrengthRatio => spec("highest MD stress in the outer wraps at the end of storage over the MD tensile strength", -INF, INF, false),
             F::OuterMoistureLossPct => spec("largest moisture loss of a lane's outer wraps (outer third of the web length) over storage, points (negative: gained moisture)", -INF, INF, false),
+            F::RunOutMm => spec("radial run-out at unwind left by storage on the side (the flat's depth after recovery), mm; 0 for a roll stored on end", 0.0, INF, false),
+            F::UnwindTensionSwingRatio => spec("amplitude of the once-per-turn tension swing at the converter's speed over the converting tension", 0.0, INF, false),
+            F::UnwindStressStrengthRatio => spec("peak web stress at unwind (converting tension plus the swing, over caliper) over the MD tensile strength", 0.0, INF, false),
+            F::AirFilmRoughnessRatio => spec("air film entrained at full diameter (Knox-Sweeney, squeezed by a nip) over the combined roughness of two faces", 0.0, INF, false),
+            F::AirTensionLossRatio => spec("wound-in tension lost to entrained air at full diameter over the web tension there, 0..1", 0.0, INF, false),
             F::PaperGrade => spec("1 for a paper grade (newsprint, coated, board, or a custom grade with MD hygroexpansion), 0 for film", 0.0, 1.0, false),
         }
     }

@@ -3,7 +3,7 @@
 //! Good-Wu-Fikes wound-in tension, the GAB isotherm and a closed-form taper mean), and findings
 //! placed where a roll's defect is known to be.
 
-use rollsleuth::case::{self, Case, Measure, Profile, Wrap};
+use rollsleuth::case::{self, Case, Measure, Profile, Stance, Wrap};
 use rollsleuth::diagnose::actions::{apply, Change, Scenario};
 use rollsleuth::diagnose::{base_scenario, diagnose, DiagnoseOptions, Diagnosis, Finding};
 use rollsleuth::lanes;
@@ -188,6 +188,23 @@ fn each_correction_changes_what_its_text_says() {
                 assert!((n.case.storage_s() - 0.6 * b.case.storage_s()).abs() < 1e-6)
             }
             Action::SlitOut => assert_eq!(n.excluded, vec![3, 4]),
+            Action::StoreOnEnd => assert!(n.case.storage.iter().all(|s| s.stance == Stance::OnEnd)),
+            // "a quarter turn at regular intervals": one contact line bears the weight for the
+            // factor's share of each stretch
+            Action::TurnRolls => assert!(n.case.storage.iter().all(|s| s.contact_share == 0.6)),
+            Action::ScaleUnwindSpeed => assert!(
+                (n.case.converting_speed_m_s - 0.6 * b.case.converting_speed_m_s).abs() < 1e-12
+            ),
+            Action::ScaleWindingSpeed => {
+                assert!((n.case.winding.speed_m_s - 0.6 * b.case.winding.speed_m_s).abs() < 1e-12)
+            }
+            // "a nip of about the web tension": the nip is the factor times the web tension at
+            // mid-build, or the present nip when heavier (here 6 pli = 1051 N/m > 0.6 x 263 N/m)
+            Action::AddNip => {
+                let want = b.case.winding.nip_n_per_m.max(0.6 * t(&b, 0.5 * (d0 + d1)));
+                assert_eq!(n.case.winding.nip_n_per_m, want);
+                assert_eq!(n.case.winding.tension, b.case.winding.tension);
+            }
         }
         // nothing else of the winder changes unless the action is about winding
         if !matches!(
@@ -196,6 +213,8 @@ fn each_correction_changes_what_its_text_says() {
                 | Action::TaperTension
                 | Action::RaiseStartAndTaper
                 | Action::ScaleNip
+                | Action::ScaleWindingSpeed
+                | Action::AddNip
         ) {
             assert_eq!(n.case.winding, b.case.winding, "{a}");
         }

@@ -42,6 +42,8 @@ const TENSILE: &str = "MD tensile strength (tension per width over caliper): new
 const SCT: &str = "MD short-span compressive strength about a third to a half of the MD tensile strength for paper (SCT, from memory)";
 const CRUSH: &str = "interlayer pressure at which the stack takes permanent caliper loss: an order of magnitude only (calendering compacts paper at tens of MPa in a nip lasting milliseconds; wound rolls stay below a few MPa; bulky board crushes first; from memory); give material.strength.zd_crush when known";
 
+const ROUGH: &str = "Parker Print-Surf roughness (ISO 8791-4) of one face: newsprint 3-5 um, coated 0.8-1.5 um, board 3-6 um, polyolefin film well under 0.5 um (typical values, from memory)";
+
 /// Grade defaults.
 #[derive(Debug, Clone, Copy)]
 pub struct GradeDefaults {
@@ -75,6 +77,8 @@ pub struct GradeDefaults {
     pub md_tensile: Def,
     pub md_compressive: Def,
     pub zd_crush: Def,
+    /// Surface roughness of one face (air escapes through it at winding).
+    pub roughness: Def,
 }
 
 const PAPER_CREEP: (Def, Def, Def, Def, Def, Def) = (
@@ -122,6 +126,7 @@ fn paper(v: [&'static str; 10]) -> GradeDefaults {
         md_tensile: d("40 MPa", TENSILE),
         md_compressive: d("12 MPa", SCT),
         zd_crush: d("10 MPa", CRUSH),
+        roughness: d("4 um", ROUGH),
     }
 }
 
@@ -196,7 +201,16 @@ fn film() -> GradeDefaults {
         "20 MPa",
         "a polyolefin film stack deforms permanently near the polymer's yield stress, 20-40 MPa (from memory)",
     );
+    f.roughness = d("0.2 um", ROUGH);
     f
+}
+
+impl GradeDefaults {
+    /// The same defaults with another surface roughness, as written.
+    fn with_roughness(mut self, text: &'static str) -> Self {
+        self.roughness = d(text, ROUGH);
+        self
+    }
 }
 
 /// Defaults for a grade class. `Custom` returns `None`: every field must be given.
@@ -231,7 +245,8 @@ pub fn for_grade(g: Grade) -> Option<GradeDefaults> {
                 "4.8 %",
             ]),
             ["40 MPa", "15 MPa", "12 MPa"],
-        ),
+        )
+        .with_roughness("1.2 um"),
         Grade::Board => with_strength(
             paper([
                 "350 um",
@@ -246,7 +261,8 @@ pub fn for_grade(g: Grade) -> Option<GradeDefaults> {
                 "5.5 %",
             ]),
             ["55 MPa", "18 MPa", "3 MPa"],
-        ),
+        )
+        .with_roughness("4.5 um"),
         Grade::Film => film(),
         Grade::Custom => return None,
     })

@@ -143,6 +143,9 @@ pub struct Material {
     pub creep: Creep,
     /// Strength limits the wound state is checked against.
     pub strength: Strength,
+    /// Surface roughness of one face of the web (Parker Print-Surf-like gap roughness), m:
+    /// entrained air escapes through the valleys of two such faces in contact.
+    pub roughness_m: f64,
 }
 
 /// Strength limits of the web, Pa (positive numbers).
@@ -276,6 +279,10 @@ pub struct Stretch {
     pub end_wrap: Wrap,
     pub stance: Stance,
     pub place: Option<String>,
+    /// Share of the stretch one contact line of a roll stored on its side bears the weight, 0..1
+    /// (1: never turned; 0.25: a quarter turn at regular intervals, four lines share the load).
+    /// Not read from a case file: the `turn_rolls` correction sets it.
+    pub contact_share: f64,
 }
 
 /// Surface mass-transfer coefficients (m/s) of the wraps.
@@ -369,6 +376,9 @@ pub struct Case {
     /// [`super::defaults::CALIPER_REPEAT`] applies).
     #[serde(skip_serializing_if = "Option::is_none")]
     pub caliper_repeatability_m: Option<f64>,
+    /// Web speed at the converter's unwind, m/s (the once-per-turn swing of an out-of-round roll
+    /// is taken at this speed).
+    pub converting_speed_m_s: f64,
     pub defaults: Vec<DefaultUsed>,
     pub warnings: Vec<String>,
 }

@@ -178,6 +178,8 @@ pub struct RawLabCreep {
 pub struct RawConverting {
     #[serde(default)]
     pub tension: Option<Q>,
+    #[serde(default)]
+    pub speed: Option<Q>,
 }
 
 #[derive(Debug, Deserialize)]
@@ -220,6 +222,8 @@ pub struct RawMaterial {
     pub creep: Option<RawCreep>,
     #[serde(default)]
     pub strength: Option<RawStrength>,
+    #[serde(default)]
+    pub roughness: Option<Q>,
 }
 
 /// `strength: { md_tensile, md_compressive, zd_crush }`, each optional (grade defaults).

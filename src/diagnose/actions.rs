@@ -1,7 +1,7 @@
 //! Model changes behind corrections and root-cause attribution: each turns a scenario (case, lanes,
 //! CD levelling, fitted creep) into another, which is then re-run through winding and storage.
 
-use crate::case::{Case, Tension, Wrap};
+use crate::case::{Case, Stance, Tension, Wrap};
 use crate::lanes::Lanes;
 use crate::numeric::spread;
 use crate::storage::{age, gab_moisture, AgeError, AgeOptions, Aged, HardnessMap, LaneCreep};
@@ -24,6 +24,8 @@ pub struct Scenario {
 pub struct Outcome {
     pub wound: Wound,
     pub aged: Aged,
+    /// What the roll does at the converter's unwind (a flat from storage on the side).
+    pub unwind: super::unwind::AtUnwind,
 }
 
 /// A forward run failed.
@@ -73,7 +75,12 @@ impl Scenario {
             &HardnessMap::given(c.hardness.calibration.as_ref()),
             &AgeOptions::default(),
         )?;
-        Ok(Outcome { wound, aged })
+        let unwind = super::unwind::at_unwind(c, &wound, &self.creep);
+        Ok(Outcome {
+            wound,
+            aged,
+            unwind,
+        })
     }
 }
 
@@ -224,6 +231,22 @@ fn correct(n: &mut Scenario, action: Action, f: f64, slit: &[usize]) {
             }
         }
         Action::SlitOut => n.excluded = slit.to_vec(),
+        Action::StoreOnEnd => {
+            for st in &mut n.case.storage {
+                st.stance = Stance::OnEnd;
+            }
+        }
+        Action::TurnRolls => {
+            for st in &mut n.case.storage {
+                st.contact_share = st.contact_share.min(f);
+            }
+        }
+        Action::ScaleUnwindSpeed => n.case.converting_speed_m_s *= f,
+        Action::ScaleWindingSpeed => n.case.winding.speed_m_s *= f,
+        Action::AddNip => {
+            let t_mid = n.case.winding.tension.at(0.5 * (d0 + d1));
+            n.case.winding.nip_n_per_m = n.case.winding.nip_n_per_m.max(f * t_mid);
+        }
     }
 }
 

@@ -323,7 +323,12 @@ fn posterior_states(lab: &Case, fitted: &Fitted) -> Result<Vec<State>, DiagnoseE
         let creep: Vec<LaneCreep> = fitted.fit.lanes.iter().map(|l| l.draws[k]).collect();
         let aged = age_prepared(&lab.material, &prep, &fitted.wound, Some(&creep), &map)
             .map_err(FitError::from)?;
-        let f = features::compute(lab, &fitted.lanes, &fitted.wound, &aged);
+        let o = super::actions::Outcome {
+            unwind: super::unwind::at_unwind(lab, &fitted.wound, &creep),
+            wound: fitted.wound.clone(),
+            aged,
+        };
+        let f = features::compute(lab, &fitted.lanes, &o);
         out.push(State {
             values: f.values,
             excess_mm_per_m: f.excess_mm_per_m,

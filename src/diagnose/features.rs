@@ -468,7 +468,8 @@ fn limit_ratios(
 }
 
 /// Compute the features of a predicted roll.
-pub fn compute(case: &Case, lanes: &Lanes, wound: &Wound, aged: &Aged) -> Features {
+pub fn compute(case: &Case, lanes: &Lanes, o: &super::actions::Outcome) -> Features {
+    let (wound, aged) = (&o.wound, &o.aged);
     let last = aged.last();
     let u = Unwind::new(case, lanes, aged, last);
     let centre = centre_lanes(lanes, u.width);
@@ -485,6 +486,8 @@ pub fn compute(case: &Case, lanes: &Lanes, wound: &Wound, aged: &Aged) -> Featur
     let running = running_strain(case, lanes);
     // the ratios divide the finite values by the running strain
     let ratio = |v: f64| finite(v) / running.max(1e-12);
+    let un = super::unwind::features(case, &o.unwind);
+    let air = super::unwind::air_features(case);
     use Feature as F;
     let values = FeatureValues::from_fn(|f| match f {
         F::LocalPeakRatio => ratio(len.local_peak),
@@ -519,6 +522,11 @@ pub fn compute(case: &Case, lanes: &Lanes, wound: &Wound, aged: &Aged) -> Featur
         F::MdTensionStrengthRatio => finite(lim.md_tension),
         F::OuterMoistureLossPct => finite(lim.outer_loss),
         F::PaperGrade => lim.paper,
+        F::RunOutMm => finite(un.run_out_mm),
+        F::UnwindTensionSwingRatio => finite(un.tension_swing_ratio),
+        F::UnwindStressStrengthRatio => finite(un.stress_strength_ratio),
+        F::AirFilmRoughnessRatio => finite(air.film_roughness_ratio),
+        F::AirTensionLossRatio => finite(air.tension_loss_ratio),
     });
     Features {
         values,

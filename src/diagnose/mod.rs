@@ -11,6 +11,7 @@ pub mod corrections;
 pub mod features;
 mod noise;
 pub mod quantity;
+pub mod unwind;
 mod whatif;
 
 pub use attribution::{Attribution, RunCount};
@@ -224,13 +225,14 @@ pub fn diagnose_fitted(
         fit,
         creep,
     } = fitted;
-    let feats = features::compute(case, lanes, wound, &fit.aged);
-    let fired = rules::evaluate(table, &feats.values);
-    let base = base_scenario(case, lanes, creep.clone(), Options::default().levelling);
     let fitted_outcome = Outcome {
         wound: wound.clone(),
         aged: fit.aged.clone(),
+        unwind: unwind::at_unwind(case, wound, creep),
     };
+    let feats = features::compute(case, lanes, &fitted_outcome);
+    let fired = rules::evaluate(table, &feats.values);
+    let base = base_scenario(case, lanes, creep.clone(), Options::default().levelling);
     let identified = fit
         .lanes
         .iter()

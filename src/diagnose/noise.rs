@@ -132,7 +132,12 @@ fn roll_features(
     let (prep, map) = prepared(lab, lanes, &wound, &AgeOptions::default())?;
     let aged =
         age_prepared(&lab.material, &prep, &wound, Some(creep), &map).map_err(FitError::from)?;
-    Ok(features::compute(lab, lanes, &wound, &aged))
+    let o = super::actions::Outcome {
+        unwind: super::unwind::at_unwind(lab, &wound, creep),
+        wound,
+        aged,
+    };
+    Ok(features::compute(lab, lanes, &o))
 }
 
 /// Creep per lane of a noise-only roll: the pooled log-scales moved by one of the lane's own

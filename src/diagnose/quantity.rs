@@ -21,6 +21,8 @@ pub const fn quantity_of(d: Defect) -> Quantity {
         Defect::CrushedLayers => Quantity::PeakPressureMpa,
         Defect::CoreCollapse => Quantity::CorePressureMpa,
         Defect::ConicalRoll => Quantity::SideToSideMmPerM,
+        Defect::OutOfRound => Quantity::UnwindStressSwingMpa,
+        Defect::LooseOuterWraps => Quantity::OuterZonePressureKpa,
         Defect::NoDefect => Quantity::SpreadMmPerM,
     }
 }
@@ -140,6 +142,10 @@ impl Site<'_> {
                     .map(|k| o.wound.lanes[kept[k]].summary.peak_pressure_pa))
                     / 1e6
             }
+            Quantity::UnwindStressSwingMpa => {
+                o.unwind.swing.map_or(0.0, |s| s.stress_amplitude_pa) / 1e6
+            }
+            Quantity::OuterZonePressureKpa => outer_zone_kpa(&o.wound, &kept),
             Quantity::CorePressureMpa => {
                 max(kept
                     .iter()
@@ -181,6 +187,14 @@ fn core_compression(w: &Wound, i: usize) -> f64 {
         .zip(&w.radius_m)
         .filter(|(_, r)| **r <= inner)
         .map(|(t, _)| -t))
+}
+
+/// Lowest mean interlayer pressure of the outer 25 mm at winding over lanes `idx`, kPa.
+fn outer_zone_kpa(w: &Wound, idx: &[usize]) -> f64 {
+    -max(idx
+        .iter()
+        .map(|&i| -w.lanes[i].summary.surface_zone_pressure_pa))
+        / 1e3
 }
 
 fn outer_radii(w: &Wound, idx: &[usize]) -> Vec<f64> {
@@ -258,7 +272,8 @@ fn near_extreme(v: &[f64]) -> Vec<usize> {
     }
 }
 
-/// The lanes that carry a finding's evidence (none: the whole roll).
+/// The lanes that carry a finding's evidence (none: the whole roll; a flat and entrained air
+/// act across the whole width).
 pub fn locate(
     defect: Defect,
     lanes: &Lanes,
@@ -336,7 +351,7 @@ pub fn locate(
         | Defect::Bursts
         | Defect::CrushedLayers
         | Defect::CoreCollapse => near_extreme(&stress_state(defect, o)),
-        Defect::NoDefect => Vec::new(),
+        Defect::OutOfRound | Defect::LooseOuterWraps | Defect::NoDefect => Vec::new(),
     }
 }
 
@@ -380,6 +395,8 @@ fn stress_state(defect: Defect, o: &Outcome) -> Vec<f64> {
         | Defect::Corrugations
         | Defect::GaugeBands
         | Defect::ConicalRoll
+        | Defect::OutOfRound
+        | Defect::LooseOuterWraps
         | Defect::NoDefect => vec![0.0; n],
     }
 }

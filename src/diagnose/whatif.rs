@@ -60,8 +60,8 @@ pub fn what_if(
     };
     let (lb, ob) = run(base)?;
     let (la, oa) = run(variant)?;
-    let fb = features::compute(base, &lb, &ob.wound, &ob.aged);
-    let fa = features::compute(variant, &la, &oa.wound, &oa.aged);
+    let fb = features::compute(base, &lb, &ob);
+    let fa = features::compute(variant, &la, &oa);
     let defects = |f: &Features| {
         let mut d: Vec<Defect> = rules::evaluate(table, &f.values)
             .iter()

@@ -96,6 +96,8 @@ fn with_limits(case: &Case, wound: &Wound, mut aged: Aged) -> Aged {
         &case.roll,
     ));
     found.extend(crate::limits::condensation(&case.storage, &case.material));
+    found.extend(crate::limits::flat_contact(case, wound));
+    found.extend(crate::limits::air_floats(case));
     crate::note::push_new(&mut aged.notes, found);
     aged
 }

@@ -24,6 +24,8 @@ pub fn defect(d: Defect) -> &'static str {
         Defect::CoreCollapse => "core collapse",
         Defect::CrushedLayers => "crushed layers",
         Defect::ConicalRoll => "conical roll (one side long)",
+        Defect::OutOfRound => "out-of-round roll (flat from storage on the side)",
+        Defect::LooseOuterWraps => "loose outer wraps (air wound in)",
         Defect::NoDefect => "none",
     }
 }
@@ -86,6 +88,10 @@ pub fn quantity(q: Quantity) -> &'static str {
         Quantity::SideToSideMmPerM => {
             "front-to-back length difference (straight line across the width)"
         }
+        Quantity::UnwindStressSwingMpa => "once-per-turn swing of web stress at unwind",
+        Quantity::OuterZonePressureKpa => {
+            "lowest interlayer pressure of the outer wraps at winding"
+        }
     }
 }
 
@@ -96,8 +102,9 @@ fn quantity_si(q: Quantity, v: f64) -> Option<f64> {
         Quantity::CoreMdCompressionMpa
         | Quantity::OuterMdStressMpa
         | Quantity::PeakPressureMpa
-        | Quantity::CorePressureMpa => Some(v * 1e6),
-        Quantity::SurfacePressureKpa => Some(v * 1e3),
+        | Quantity::CorePressureMpa
+        | Quantity::UnwindStressSwingMpa => Some(v * 1e6),
+        Quantity::SurfacePressureKpa | Quantity::OuterZonePressureKpa => Some(v * 1e3),
         _ => None,
     }
 }
@@ -340,6 +347,7 @@ pub fn limit(l: &crate::note::Limit) -> String {
             "the winding speed {speed_m_s:.1} m/s is above the lift-off speed {lift_off_m_s:.1} m/s at the roll's mean wound-in stress: outer layers could not stay on the roll as modelled; {SO}"
         ),
         Limit::Condensation(c) => condensation(&c),
+        Limit::FlatContact { .. } | Limit::AirFloats { .. } => unwind_limit(l),
         Limit::Strength {
             which,
             lanes,
@@ -397,6 +405,34 @@ pub fn limit(l: &crate::note::Limit) -> String {
             "{}: the predicted hardness is not a finite number; {SO} (hardness.calibration)",
             at(lanes, position_m)
         ),
+    }
+}
+
+/// The out-of-round and air limits as sentences (the other limits: [`limit`]).
+fn unwind_limit(l: &crate::note::Limit) -> String {
+    use crate::note::Limit;
+    match *l {
+        Limit::FlatContact {
+            half_width_m,
+            radius_m,
+            peak_pressure_pa,
+            crush_pa,
+        } => format!(
+            "stored on its side, the roll's floor contact is {:.0} mm half-width on a {:.0} mm radius with a peak pressure of {:.2} MPa (crush limit {:.2} MPa): the Hertz line contact behind the out-of-round estimate holds for a narrow contact below the crush limit; treat the flat as a rough bound",
+            half_width_m * 1e3,
+            radius_m * 1e3,
+            peak_pressure_pa / 1e6,
+            crush_pa / 1e6
+        ),
+        Limit::AirFloats {
+            film_m,
+            roughness_m,
+        } => format!(
+            "the air film entrained at full diameter ({:.1} um) exceeds the faces' combined roughness ({:.1} um) by enough to take away all the wound-in tension: the outer wraps float on air and the model holds their wound-in tension at zero; results that depend on it are not physical; check the inputs",
+            film_m * 1e6,
+            roughness_m * 1e6
+        ),
+        other => limit(&other),
     }
 }
 
@@ -478,6 +514,11 @@ pub fn feature(f: Feature) -> &'static str {
         F::MdTensionStrengthRatio => "outer MD stress / tensile strength",
         F::OuterMoistureLossPct => "moisture lost by the outer wraps",
         F::PaperGrade => "paper grade (1) or film (0)",
+        F::RunOutMm => "run-out at unwind from storage on the side",
+        F::UnwindTensionSwingRatio => "once-per-turn tension swing / converting tension",
+        F::UnwindStressStrengthRatio => "peak web stress at unwind / tensile strength",
+        F::AirFilmRoughnessRatio => "entrained air film / roughness",
+        F::AirTensionLossRatio => "wound-in tension lost to air / web tension",
     }
 }
 
@@ -492,7 +533,7 @@ pub fn feature_value(f: Feature, v: f64, sys: System) -> String {
         | F::LocalPeakMmPerM
         | F::CentreMinusEdgesMmPerM
         | F::SideToSideMmPerM => format!("{v:.3} {strain}"),
-        F::PeakWidthMm => units::show(v * 1e-3, Kind::Length, sys, false),
+        F::PeakWidthMm | F::RunOutMm => units::show(v * 1e-3, Kind::Length, sys, false),
         F::CoreMdStressMpa | F::OuterMdStressEndMpa => {
             units::show(v * 1e6, Kind::Pressure, sys, false)
         }
@@ -514,7 +555,11 @@ pub fn feature_value(f: Feature, v: f64, sys: System) -> String {
         | F::CorePressureRatio
         | F::PeakPressureCrushRatio
         | F::MdCompressionStrengthRatio
-        | F::MdTensionStrengthRatio => format!("{v:.3}"),
+        | F::MdTensionStrengthRatio
+        | F::UnwindTensionSwingRatio
+        | F::UnwindStressStrengthRatio
+        | F::AirFilmRoughnessRatio
+        | F::AirTensionLossRatio => format!("{v:.3}"),
     }
 }
 

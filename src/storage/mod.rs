@@ -8,6 +8,7 @@ pub mod condensation;
 mod creep;
 mod hardness;
 pub mod moisture;
+pub mod out_of_round;
 mod record;
 mod shift;
 mod sorption;

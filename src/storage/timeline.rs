@@ -36,6 +36,7 @@ fn standard_stretch() -> Stretch {
         end_wrap: Wrap::None,
         stance: Stance::OnEnd,
         place: Some("assumed standard atmosphere".into()),
+        contact_share: 1.0,
     }
 }
 

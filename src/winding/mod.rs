@@ -4,6 +4,7 @@
 //!
 //! **Invariant:** pure functions of the material, roll, winder settings and lanes; no I/O, no printing, nothing of rules.
 
+pub mod air;
 mod cache;
 mod centrifugal;
 mod core;

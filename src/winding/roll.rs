@@ -273,13 +273,15 @@ fn accrete(
         let rbar = radii.iter().zip(&widths).map(|(r, w)| r * w).sum::<f64>() / width;
         let t_web = input.winding.tension.at(2.0 * rbar.max(rk));
         let e0 = shared_strain(&stiff, &offs, &widths, t_web * width)?;
+        // hoop strain lost as entrained air bleeds out (see `air`)
+        let air = super::air::strain_loss(mat, input.winding, rbar.max(rk), t_web);
         for i in 0..n {
             tens[i] = stiff[i] * (e0 + offs[i]).max(0.0);
         }
         for (i, st) in states.iter_mut().enumerate() {
             // effective wound-in tension: web + nip part, less what a ring spinning at the
-            // surface speed needs to hold itself (thin ring, rho c v^2)
-            let wit = (tens[i] + nip_part - rho * cal[i] * v * v).max(0.0);
+            // surface speed needs to hold itself (thin ring, rho c v^2) and the air's loss
+            let wit = (tens[i] + nip_part - rho * cal[i] * v * v - stiff[i] * air).max(0.0);
             // hoop stress on the grid: force over the compressed layer thickness, so that each
             // step adds pressure p r = sigma_w h (radial equilibrium holds exactly)
             let sigma_w = wit / c_eff;

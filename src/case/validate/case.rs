@@ -25,6 +25,7 @@ impl Validator {
         let (lane_edges_m, lane_count) = self.lanes(raw.lanes.as_ref(), width);
         let lab_creep = self.lab_creep(&raw.lab_creep);
         let converting = self.converting(&raw, roll.as_ref(), winding.as_ref());
+        let converting_speed = self.converting_speed(&raw, winding.as_ref());
         if let (Some(m), Some(r), Some(ps)) = (&material, &roll, &profiles) {
             self.profile_scale(&raw.profiles, ps, m.caliper_m, r.diameter_m);
         }
@@ -48,6 +49,7 @@ impl Validator {
             wraps: wraps?,
             converting_tension_n_per_m: converting?,
             caliper_repeatability_m,
+            converting_speed_m_s: converting_speed?,
             lab_creep: lab_creep?,
             defaults: std::mem::take(&mut self.defaults),
             warnings: std::mem::take(&mut self.warnings),
@@ -84,6 +86,21 @@ impl Validator {
                     "not given: assumed equal to the winding web tension",
                 );
                 t
+            }),
+        }
+    }
+
+    /// Converter unwind speed, m/s; defaults to the winding speed.
+    fn converting_speed(&mut self, raw: &RawCase, winding: Option<&Winding>) -> Option<f64> {
+        match raw.converting.as_ref().and_then(|c| c.speed.as_ref()) {
+            Some(q) => self.q(q, "converting.speed", Kind::Speed, Range::Positive),
+            None => winding.map(|w| {
+                self.record(
+                    "converting.speed",
+                    format!("{:.2} m/s", w.speed_m_s),
+                    "not given: assumed equal to the winding speed",
+                );
+                w.speed_m_s
             }),
         }
     }

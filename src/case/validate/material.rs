@@ -282,6 +282,14 @@ const STRENGTH: &[Row] = &[
         |d| d.zd_crush,
         |m, v| m.strength.zd_crush_pa = v,
     ),
+    row(
+        "material.roughness",
+        |m| m.roughness.as_ref(),
+        Kind::Length,
+        Between(1e-9, 1e-4),
+        |d| d.roughness,
+        |m, v| m.roughness_m = v,
+    ),
 ];
 
 fn set_pfeiffer(m: &mut Material, k1: Option<f64>, k2: Option<f64>) {
@@ -333,6 +341,7 @@ fn blank(grade: Grade) -> Material {
             md_compressive_pa: 0.0,
             zd_crush_pa: 0.0,
         },
+        roughness_m: 0.0,
     }
 }
 

@@ -74,6 +74,7 @@ impl Validator {
             end_wrap: ew?,
             stance: stance?,
             place: st.place.clone(),
+            contact_share: 1.0,
         })
     }
 
