@@ -175,13 +175,7 @@ pub const MAX_CONTACT_TO_RADIUS: f64 = 0.25;
 /// The floor contact of a roll stored on its side ([`crate::storage::out_of_round`]) against the
 /// small-contact assumption and the stack's crush limit (elastic contact, grade creep).
 pub fn flat_contact(case: &crate::case::Case, wound: &Wound) -> Vec<Note> {
-    let k = wound.lanes.len().max(1) as f64;
-    let ps = wound
-        .lanes
-        .iter()
-        .map(|l| l.summary.surface_zone_pressure_pa)
-        .sum::<f64>()
-        / k;
+    let ps = wound.mean_surface_pressure_pa();
     let m = &case.material;
     let r = 0.5 * case.roll.diameter_m;
     crate::storage::out_of_round::flat(m, &case.roll, &case.storage, ps, &m.creep.radial)

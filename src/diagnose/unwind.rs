@@ -97,13 +97,7 @@ pub fn at_unwind(case: &Case, wound: &Wound, creep: &[LaneCreep]) -> AtUnwind {
             .map(|c| c.radial.viscous_time_s.recip())
             .sum::<f64>();
     }
-    let k = wound.lanes.len().max(1) as f64;
-    let ps = wound
-        .lanes
-        .iter()
-        .map(|l| l.summary.surface_zone_pressure_pa)
-        .sum::<f64>()
-        / k;
+    let ps = wound.mean_surface_pressure_pa();
     let flat = out_of_round::flat(&case.material, &case.roll, &case.storage, ps, &radial);
     AtUnwind {
         swing: flat.map(|f| swing(case, f.residual_depth_m)),

@@ -273,6 +273,10 @@ pub struct Residual {
     /// Measured value (hardness units; diameter change in m).
     pub measured: f64,
     pub predicted: f64,
+    /// 5 % and 95 % of the prediction over the lane's posterior draws (same unit; the
+    /// prediction itself when there are no draws).
+    pub predicted_p05: f64,
+    pub predicted_p95: f64,
     /// predicted - measured, in units of the measurement's repeatability.
     pub normalised: f64,
 }
@@ -376,7 +380,7 @@ pub fn fit_lane(p: &LaneProblem, prior: [f64; 2], seed: u64) -> Result<LaneFit, 
         }
     }
     let a = p.simulate(&theta).ok_or(SolverError::ModelFailed)?;
-    let residuals = residuals(p, &a);
+    let mut residuals = residuals(p, &a);
     let rmse = if residuals.is_empty() {
         0.0
     } else {
@@ -386,6 +390,7 @@ pub fn fit_lane(p: &LaneProblem, prior: [f64; 2], seed: u64) -> Result<LaneFit, 
     let (smd, sr) = (theta[0].exp(), theta[1].exp());
     let c = creep_from(p.material, &theta);
     let (draws, draws_theta) = pinned_draws(p.material, &post, &theta, prior);
+    prediction_bands(p, &draws_theta, &mut residuals);
     Ok(LaneFit {
         position_m: p.wound.lanes[p.lane].position_m,
         params: FittedParams {
@@ -438,6 +443,25 @@ fn pinned_draws(
     (t.iter().map(|x| creep_from(material, x)).collect(), t)
 }
 
+/// Each residual's 5 % and 95 % prediction over the posterior draws (a draw the model cannot run
+/// is left out).
+fn prediction_bands(p: &LaneProblem, draws: &[[f64; 2]], residuals: &mut [Residual]) {
+    let preds: Vec<Vec<f64>> = draws
+        .iter()
+        .filter_map(|t| p.simulate(t))
+        .map(|a| p.obs.iter().map(|o| p.predict(o, &a)).collect())
+        .collect();
+    for (j, r) in residuals.iter_mut().enumerate() {
+        let mut v: Vec<f64> = preds.iter().map(|x| x[j]).collect();
+        if v.is_empty() {
+            continue;
+        }
+        v.sort_by(f64::total_cmp);
+        r.predicted_p05 = super::posterior::quantile(&v, 0.05);
+        r.predicted_p95 = super::posterior::quantile(&v, 0.95);
+    }
+}
+
 /// Residuals of a lane's observations against a simulated lane.
 fn residuals(p: &LaneProblem, a: &Track) -> Vec<Residual> {
     p.obs
@@ -449,6 +473,8 @@ fn residuals(p: &LaneProblem, a: &Track) -> Vec<Residual> {
                 age_s: o.age_s,
                 measured: o.value,
                 predicted: pred,
+                predicted_p05: pred,
+                predicted_p95: pred,
                 normalised: (pred - o.value) / o.sigma,
             }
         })

@@ -40,6 +40,36 @@ fn diameter_unit(sys: System) -> units::Display {
     units::display(Kind::Length, sys, sys == System::Us)
 }
 
+/// The model's 5 % and 95 % over the posterior draws of one survey, as dotted lines (none where
+/// the band has no width).
+fn model_band(
+    s: &super::report_data::Survey,
+    xd: &units::Display,
+    conv: &dyn Fn(f64) -> f64,
+    day: f64,
+    color: plotters::style::RGBColor,
+) -> Vec<Series> {
+    if s.band.iter().all(|(a, b)| a == b) {
+        return Vec::new();
+    }
+    [false, true]
+        .into_iter()
+        .map(|high| {
+            let mut b = series(
+                format!("model {} %, day {day:.0}", if high { 95 } else { 5 }),
+                s.points
+                    .iter()
+                    .zip(&s.band)
+                    .map(|(p, (lo, hi))| (xd.from_si(p.0), conv(if high { *hi } else { *lo })))
+                    .collect(),
+            );
+            b.line = Line::Dotted;
+            b.color = color;
+            b
+        })
+        .collect()
+}
+
 /// Plot (1): measured against predicted, one chart per measured quantity, every survey.
 pub fn surveys(r: &ReportData) -> Vec<Plot> {
     let (xl, xd) = width_axis(r.sys);
@@ -91,6 +121,7 @@ pub fn surveys(r: &ReportData) -> Vec<Plot> {
             p.color = color;
             series_v.push(m);
             series_v.push(p);
+            series_v.extend(model_band(s, &xd, &conv, day, color));
         }
         let chart = Chart {
             title: format!("Measured and predicted {name} across the width"),
@@ -104,7 +135,7 @@ pub fn surveys(r: &ReportData) -> Vec<Plot> {
         out.push(Plot {
             id,
             caption: format!(
-                "Measured {name} (markers, interpolated to lane centres, bars: one-sigma repeatability) and the fitted model (lines), for every survey."
+                "Measured {name} (markers, interpolated to lane centres, bars: one-sigma repeatability) and the fitted model (lines; dotted: 5 % and 95 % over the posterior draws of the lane creep), for every survey."
             ),
             svg: line_chart(&chart),
         });

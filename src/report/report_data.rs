@@ -40,6 +40,8 @@ pub struct Survey {
     /// Lane centre (m), measured value interpolated to it, the model's value. Hardness in scale
     /// units; diameter as the change since the winding-time survey, m.
     pub points: Vec<(f64, f64, f64)>,
+    /// The model's 5 % and 95 % over the posterior draws at each point (same units).
+    pub band: Vec<(f64, f64)>,
     /// One-sigma repeatability, same units as the values.
     pub sigma: f64,
 }
@@ -148,6 +150,7 @@ impl ReportData<'_> {
                             what: r.what,
                             age_s,
                             points: Vec::new(),
+                            band: Vec::new(),
                             sigma,
                         });
                         out.len() - 1
@@ -156,6 +159,7 @@ impl ReportData<'_> {
                 out[k]
                     .points
                     .push((lane.position_m, r.measured, r.predicted));
+                out[k].band.push((r.predicted_p05, r.predicted_p95));
             }
         }
         out.sort_by(|a, b| {

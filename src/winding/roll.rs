@@ -157,6 +157,18 @@ pub struct Wound {
     pub core_stiffness_pa: Option<f64>,
 }
 
+impl Wound {
+    /// Interlayer pressure in the outer wraps' zone, mean over the lanes, Pa.
+    pub fn mean_surface_pressure_pa(&self) -> f64 {
+        let k = self.lanes.len().max(1) as f64;
+        self.lanes
+            .iter()
+            .map(|l| l.summary.surface_zone_pressure_pa)
+            .sum::<f64>()
+            / k
+    }
+}
+
 /// Find eps_0 so that sum w_i max(0, k_i (eps_0 + s_i)) = total (bisection; monotone).
 /// The bracket grows from the slackest possible strain by doubling steps, at most up to
 /// `MAX_SHARED_STRAIN` above it; past that, or on non-finite input, a typed error.
