@@ -335,17 +335,19 @@ impl LaneState {
         self.build -= 0.5 * de * (hi - lo);
     }
 
-    /// Recompute the deep ratios from `fresh` up to the zone bottom, at pressures half way
-    /// through the step as estimated from the last step's increment.
-    fn deep_sweep(&mut self, m: &LaneModel) {
-        let (from, b, dcut) = (self.fresh.min(self.b), self.b, self.dcut);
-        let p = |st: &Self, i: usize| -> f64 {
-            let half = if i >= dcut { 0.5 * st.last[i] } else { 0.0 };
-            -(st.asr[i] + half)
-        };
+    /// Element ratios of the intervals from node `from` up to node `to`, with the pressure at node
+    /// i given by `p` (Pa, positive in compression) and each element's modulus at its mid
+    /// pressure; returns the load factor and the pressure at `to`.
+    fn sweep(
+        &mut self,
+        m: &LaneModel,
+        from: usize,
+        to: usize,
+        p: impl Fn(&Self, usize) -> f64,
+    ) -> (f64, f64) {
         let mut zj = self.az[from];
         let mut pj = p(self, from);
-        for j in from..b {
+        for j in from..to {
             let pn = p(self, j + 1);
             let g = m.g(0.5 * (pj + pn));
             let (rho, z1) = element(g, zj, self.tau[j], self.grow[j]);
@@ -354,6 +356,18 @@ impl LaneState {
             zj = z1;
             pj = pn;
         }
+        (zj, pj)
+    }
+
+    /// Recompute the deep ratios from `fresh` up to the zone bottom, at pressures half way
+    /// through the step as estimated from the last step's increment.
+    fn deep_sweep(&mut self, m: &LaneModel) {
+        let (from, b, dcut) = (self.fresh.min(self.b), self.b, self.dcut);
+        let p = |st: &Self, i: usize| -> f64 {
+            let half = if i >= dcut { 0.5 * st.last[i] } else { 0.0 };
+            -(st.asr[i] + half)
+        };
+        self.sweep(m, from, b, p);
     }
 
     /// Carry the load that reached the zone bottom through the deep part, recording the
@@ -387,17 +401,7 @@ impl LaneState {
             };
             -(st.asr[i] + half)
         };
-        let mut zj = self.az[b];
-        let mut pj = p(self, b);
-        for j in b..top {
-            let pn = p(self, j + 1);
-            let g = m.g(0.5 * (pj + pn));
-            let (rho, z1) = element(g, zj, self.tau[j], self.grow[j]);
-            self.rho[j] = rho;
-            self.az[j + 1] = z1;
-            zj = z1;
-            pj = pn;
-        }
+        let (zj, pj) = self.sweep(m, b, top, p);
         // the new interval: zero pressure at its outer end
         new_layer_load(m.g(0.5 * pj), zj, tau_new)
     }
