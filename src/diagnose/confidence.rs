@@ -135,7 +135,9 @@ pub fn assess(
 }
 
 /// The noise test of a rule's deciding condition (its first).
-struct NoiseTest {
+struct NoiseTest<'a> {
+    /// Floor of the deciding feature (`None`: the rule has no tested feature, so it stands).
+    floor: Option<&'a FeatureFloor>,
     /// The noise-free uniform roll already fires the deciding condition (the pattern comes from
     /// winding or storage, not from the lanes).
     own: bool,
@@ -146,7 +148,7 @@ struct NoiseTest {
     level: f64,
 }
 
-impl NoiseTest {
+impl NoiseTest<'_> {
     fn stands(&self) -> bool {
         self.own || self.chance <= self.level
     }
@@ -171,7 +173,7 @@ fn gaussian_chance(d: f64, m: f64, sd: f64) -> f64 {
 }
 
 /// The noise test of rule `r` on the diagnosed roll's features.
-fn noise_test(r: &Rule, feats: &Features, fl: &Floor) -> NoiseTest {
+fn noise_test<'a>(r: &Rule, feats: &Features, fl: &'a Floor) -> NoiseTest<'a> {
     let level = FAMILY_LEVEL / fl.floors.len().max(1) as f64;
     let found = r.when.first().and_then(|c| {
         fl.floors
@@ -181,6 +183,7 @@ fn noise_test(r: &Rule, feats: &Features, fl: &Floor) -> NoiseTest {
     });
     let Some((c, x)) = found else {
         return NoiseTest {
+            floor: None,
             own: true,
             chance: 0.0,
             level,
@@ -209,6 +212,7 @@ fn noise_test(r: &Rule, feats: &Features, fl: &Floor) -> NoiseTest {
         own_chance
     };
     NoiseTest {
+        floor: Some(x),
         own: c.holds(x.uniform),
         chance,
         level,
@@ -233,17 +237,11 @@ fn drop_below_floor(
             return true;
         }
         below.push(f.rule.clone());
-        let c = r.when.first();
-        if let Some((c, x)) = c.and_then(|c| {
-            fl.floors
-                .iter()
-                .find(|x| x.feature == c.feature)
-                .map(|x| (c, x))
-        }) {
+        if let Some(x) = t.floor {
             notes.push(Note::BelowNoiseFloor {
                 defect: f.defect,
-                feature: c.feature,
-                value: feats.get(c.feature),
+                feature: x.feature,
+                value: feats.get(x.feature),
                 uniform: x.uniform,
                 threshold: x.threshold,
                 noise_chance: t.chance,
@@ -319,16 +317,28 @@ fn posterior_states(lab: &Case, fitted: &Fitted) -> Result<Vec<State>, DiagnoseE
         .unwrap_or(0);
     let (prep, map) = prepared(lab, &fitted.lanes, &fitted.wound, &AgeOptions::default())?;
     let mut out = Vec::with_capacity(count);
+    // one outcome on the fitted wound state (cloned once); each state replaces its storage and
+    // unwind parts
+    let mut slot: Option<super::actions::Outcome> = None;
     for k in 0..count {
         let creep: Vec<LaneCreep> = fitted.fit.lanes.iter().map(|l| l.draws[k]).collect();
         let aged = age_prepared(&lab.material, &prep, &fitted.wound, Some(&creep), &map)
             .map_err(FitError::from)?;
-        let o = super::actions::Outcome {
-            unwind: super::unwind::at_unwind(lab, &fitted.wound, &creep),
-            wound: fitted.wound.clone(),
-            aged,
+        let unwind = super::unwind::at_unwind(lab, &fitted.wound, &creep);
+        let o = match slot.take() {
+            Some(mut o) => {
+                o.aged = aged;
+                o.unwind = unwind;
+                o
+            }
+            None => super::actions::Outcome {
+                wound: fitted.wound.clone(),
+                aged,
+                unwind,
+            },
         };
         let f = features::compute(lab, &fitted.lanes, &o);
+        slot = Some(o);
         out.push(State {
             values: f.values,
             excess_mm_per_m: f.excess_mm_per_m,
