@@ -46,6 +46,13 @@ pub struct Lane {
     pub hardness_deviation: Option<f64>,
     /// Wound-in MD strain difference implied by the diameter difference, dR/R, dimensionless.
     pub wound_strain_difference: Option<f64>,
+    /// The lane's MD strain excess in the web as it came to the winder, from the tension profile
+    /// at winding (Hooke's law: (T_i - T_mean) / (E_MD c_i), with the profile's shape at the
+    /// winder's tension at mid build), dimensionless; positive = a tight lane, which is shorter
+    /// when free. 0 without a tension profile.
+    pub web_strain: f64,
+    /// The lane's moisture at winding from a moisture profile, % (`None`: the material's).
+    pub winding_moisture_pct: Option<f64>,
     /// True where a profile value had to be extrapolated beyond the measured positions.
     pub extrapolated: bool,
 }
@@ -233,11 +240,14 @@ pub fn build(case: &Case) -> Lanes {
     let dia = mark(Measure::Diameter, &mut notes);
     let hard = mark(Measure::Hardness, &mut notes);
     let cal = mark(Measure::Caliper, &mut notes);
+    let tension = mark(Measure::Tension, &mut notes);
+    let moisture = mark(Measure::Moisture, &mut notes);
     let (calipers, source) =
         lane_calipers(case, cal.as_deref(), dia.as_deref(), &widths, &mut notes);
     let cbar = weighted_mean(&calipers, &widths);
     let dbar = dia.as_ref().map(|d| weighted_mean(d, &widths));
     let hbar = hard.as_ref().map(|h| weighted_mean(h, &widths));
+    let web = web_strains(case, tension.as_deref(), &calipers, &widths);
     let lanes = (0..n)
         .map(|i| Lane {
             index: i,
@@ -250,6 +260,8 @@ pub fn build(case: &Case) -> Lanes {
             diameter_deviation_m: dia.as_ref().zip(dbar).map(|(d, m)| d[i] - m),
             hardness_deviation: hard.as_ref().zip(hbar).map(|(h, m)| h[i] - m),
             wound_strain_difference: dia.as_ref().zip(dbar).map(|(d, m)| (d[i] - m) / m),
+            web_strain: web[i],
+            winding_moisture_pct: moisture.as_ref().map(|m| m[i]),
             extrapolated: extrap[i],
         })
         .collect();
@@ -260,6 +272,28 @@ pub fn build(case: &Case) -> Lanes {
         notes,
         series,
     }
+}
+
+/// Per lane, the web's MD strain excess at winding from the tension profile on the lanes
+/// (`tension`, N/m or fractions of the mean: only its shape is read): the lane carried T_i =
+/// T_w t_i / t_mean of the winder's tension T_w at mid build, so its strain was above the mean
+/// lane's by (T_i - T_w) / (E_MD c_i) (Hooke's law). Zeros without a profile, or when its mean is
+/// not positive.
+fn web_strains(case: &Case, tension: Option<&[f64]>, calipers: &[f64], widths: &[f64]) -> Vec<f64> {
+    let n = calipers.len();
+    let Some(t) = tension else {
+        return vec![0.0; n];
+    };
+    let tbar = weighted_mean(t, widths);
+    if !(tbar > 0.0 && tbar.is_finite()) {
+        return vec![0.0; n];
+    }
+    let (d0, d1) = (case.roll.core_diameter_m, case.roll.diameter_m);
+    let t_w = case.winding.tension.at(0.5 * (d0 + d1));
+    let e = case.material.md_modulus_pa;
+    (0..n)
+        .map(|i| t_w * (t[i] / tbar - 1.0) / (e * calipers[i]))
+        .collect()
 }
 
 /// Lane calipers (m) and where they came from: the earliest caliper profile on the lanes, else

@@ -119,6 +119,9 @@ words! {
         /// Wind with a nip (a lay-on roll) of `factor` times the web tension at mid-build, or
         /// keep the present nip when it is heavier.
         AddNip = "add_nip",
+        /// Make the web even across the width before it is wound: the tension and moisture
+        /// profiles at winding flat at their means.
+        EvenWebProfile = "even_web_profile",
     }
 }
 
@@ -141,7 +144,8 @@ impl Action {
             | Action::MakeAtPressroomEquilibrium
             | Action::KeepWrappedUntilUse
             | Action::SlitOut
-            | Action::StoreOnEnd => false,
+            | Action::StoreOnEnd
+            | Action::EvenWebProfile => false,
         }
     }
 }
@@ -175,6 +179,9 @@ words! {
         StorageMoisture = "storage_moisture",
         /// Lane-to-lane creep differences that the measurements identify.
         LaneToLaneCreep = "lane_to_lane_creep",
+        /// The web's own profile as it came to the winder (tension and moisture profiles
+        /// measured at winding): a web born baggy, not made so by the roll.
+        WebProfile = "web_profile",
     }
 }
 
@@ -292,6 +299,7 @@ words! {
         UnwindStressStrengthRatio = "unwind_stress_strength_ratio",
         AirFilmRoughnessRatio = "air_film_roughness_ratio",
         AirTensionLossRatio = "air_tension_loss_ratio",
+        WebLengthShare = "web_length_share",
     }
 }
 
@@ -339,8 +347,9 @@ impl Feature {
             F::BandCount => spec("number of long bands (local peaks over 0.3 mm/m prominent)", 0.0, INF, false),
             F::CaliperCorrelation => spec("correlation of lane caliper with lane length at unwind, -1..1", -1.0, 1.0, false),
             F::CaliperRangePct => spec("thickest minus thinnest lane caliper, % of mean", 0.0, INF, false),
-            F::MoistureShare => spec("share of the lane-to-lane length differences from hygroexpansion, 0..1", 0.0, 1.0, false),
-            F::CreepShare => spec("share of the lane-to-lane length differences from creep, 0..1", 0.0, 1.0, false),
+            F::MoistureShare => spec("share of the lane-to-lane length differences made in the roll (the web's own profile at winding taken out) from hygroexpansion, 0..1", 0.0, 1.0, false),
+            F::CreepShare => spec("share of the lane-to-lane length differences made in the roll (the web's own profile at winding taken out) from creep, 0..1", 0.0, 1.0, false),
+            F::WebLengthShare => spec("share of the longest lane's excess over the mean lane that the web brought to the winder (its own length from the tension profile at winding), 0..1", 0.0, 1.0, false),
             F::CoreMdStressMpa => spec("most compressive MD stress in the inner third at winding, MPa (negative: compression)", -INF, INF, false),
             F::SurfacePressureEndKpa => spec("lowest interlayer pressure in the outer 25 mm at the end of storage, kPa", 0.0, INF, false),
             F::SurfacePressureLossPct => spec("mean loss of surface-zone pressure over storage, %", -INF, 100.0, false),

@@ -121,6 +121,28 @@ fn each_correction_changes_what_its_text_says() {
         let f = if a.needs_factor() { Some(0.6) } else { None };
         let n = apply(&b, Change::Correct(a), f, &[3, 4]);
         match a {
+            // "even out the web before it is wound": no lane's own strain, the moisture at
+            // winding at its width-weighted mean
+            Action::EvenWebProfile => {
+                let mut w = b.clone();
+                for (i, l) in w.lanes.lanes.iter_mut().enumerate() {
+                    l.web_strain = 1e-4 * (i as f64 - 3.0);
+                    l.winding_moisture_pct = Some(8.0 + 0.1 * i as f64);
+                }
+                let wm: Vec<f64> = w
+                    .lanes
+                    .lanes
+                    .iter()
+                    .map(|l| l.winding_moisture_pct.unwrap())
+                    .collect();
+                let mean = w.lanes.mean(&wm);
+                let e = apply(&w, Change::Correct(a), f, &[3, 4]);
+                for l in &e.lanes.lanes {
+                    assert_eq!(l.web_strain, 0.0);
+                    assert!((l.winding_moisture_pct.unwrap() - mean).abs() < 1e-12);
+                }
+                assert_eq!(n, b, "a web without profiles is already even");
+            }
             Action::FlattenCaliper => {
                 assert!(n
                     .lanes

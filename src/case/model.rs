@@ -232,6 +232,12 @@ pub enum Measure {
     Diameter,
     /// Web caliper, m.
     Caliper,
+    /// Web tension across the width as the web came to the winder (a tension-profile
+    /// measurement), N/m; at winding only (age 0).
+    Tension,
+    /// Web moisture across the width at winding, % (the basis of `material.moisture`); at
+    /// winding only (age 0).
+    Moisture,
 }
 
 /// A cross-width profile.
@@ -242,7 +248,7 @@ pub struct Profile {
     pub age_s: f64,
     /// Positions from the front edge, m.
     pub positions_m: Vec<f64>,
-    /// Values in SI (m) or hardness scale units.
+    /// Values in SI (m, N/m), moisture in %, or hardness scale units.
     #[serde(rename = "values_si")]
     pub values: Vec<f64>,
     /// Where it came from (case file or CSV path).

@@ -445,7 +445,10 @@ mod tests {
     #[test]
     fn words_of_lists_every_variant() {
         assert_eq!(words_of::<Stance>(), &["on_end", "on_side"]);
-        assert_eq!(words_of::<Measure>(), &["hardness", "diameter", "caliper"]);
+        assert_eq!(
+            words_of::<Measure>(),
+            &["hardness", "diameter", "caliper", "tension", "moisture"]
+        );
         assert_eq!(words_of::<RawDirection>(), &["md", "radial"]);
     }
 

@@ -180,7 +180,7 @@ mod tests {
         );
         assert_eq!(
             msg("profiles[0].what").message,
-            "'gloss' is not one of: hardness, diameter, caliper"
+            "'gloss' is not one of: hardness, diameter, caliper, tension, moisture"
         );
         assert!(problems.iter().all(|p| p.line.is_some()));
     }

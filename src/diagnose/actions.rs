@@ -223,8 +223,13 @@ fn correct(n: &mut Scenario, action: Action, f: f64, slit: &[usize]) {
         Action::MakeAtPressroomEquilibrium => {
             if let Some(rh) = n.case.storage.last().map(|st| st.rh) {
                 n.case.material.moisture_pct = gab_moisture(&n.case.material.sorption, rh);
+                // the paper is made at that moisture across the width
+                for l in &mut n.lanes.lanes {
+                    l.winding_moisture_pct = None;
+                }
             }
         }
+        Action::EvenWebProfile => even_web(&mut n.lanes),
         Action::ShortenStorage => {
             for st in &mut n.case.storage {
                 st.duration_s *= f;
@@ -247,6 +252,22 @@ fn correct(n: &mut Scenario, action: Action, f: f64, slit: &[usize]) {
             let t_mid = n.case.winding.tension.at(0.5 * (d0 + d1));
             n.case.winding.nip_n_per_m = n.case.winding.nip_n_per_m.max(f * t_mid);
         }
+    }
+}
+
+/// The web made even before winding: no lane's own strain, the moisture at winding at its
+/// width-weighted mean over the lanes that have one.
+fn even_web(lanes: &mut Lanes) {
+    let given: Vec<(f64, f64)> = lanes
+        .lanes
+        .iter()
+        .filter_map(|l| l.winding_moisture_pct.map(|m| (m, l.width_m)))
+        .collect();
+    let (m, w): (Vec<f64>, Vec<f64>) = given.into_iter().unzip();
+    let mean = (!m.is_empty()).then(|| crate::numeric::weighted_mean(&m, &w));
+    for l in &mut lanes.lanes {
+        l.web_strain = 0.0;
+        l.winding_moisture_pct = l.winding_moisture_pct.and(mean);
     }
 }
 

@@ -80,6 +80,7 @@ pub const fn removal(c: Cause) -> Change {
         Cause::CaliperProfile => Change::Correct(Action::FlattenCaliper),
         Cause::StorageMoisture => Change::Correct(Action::StoreAtEquilibrium),
         Cause::LaneToLaneCreep => Change::UniformCreep,
+        Cause::WebProfile => Change::Correct(Action::EvenWebProfile),
     }
 }
 

@@ -291,14 +291,15 @@ fn caliper_link(lanes: &Lanes, u: &Unwind) -> (f64, f64) {
 }
 
 /// Shares of the lane-to-lane differences from hygroexpansion and from creep, in the same
-/// outer-third average (absolute deviations from the lane mean).
+/// outer-third average (absolute deviations from the lane mean, the web's own length profile at
+/// winding taken out of both).
 fn shares(aged: &Aged, last: usize) -> (f64, f64) {
     let n = aged.lanes.len() as f64;
     let hyg: Vec<f64> = aged.lanes.iter().map(|l| l.hygro_strain[last]).collect();
     let tot: Vec<f64> = aged
         .lanes
         .iter()
-        .map(|l| l.strain_at_unwind[last])
+        .map(|l| l.strain_at_unwind[last] - l.web_length_strain)
         .collect();
     let hm = hyg.iter().sum::<f64>() / n;
     let tm = tot.iter().sum::<f64>() / n;
@@ -314,6 +315,23 @@ fn shares(aged: &Aged, last: usize) -> (f64, f64) {
     } else {
         (0.0, 0.0)
     }
+}
+
+/// Share of the longest lane's excess over the mean lane that the web brought to the winder
+/// (its own length from the tension profile at winding), 0..1; 0 when the longest lane is not
+/// longer than the mean lane.
+fn web_share(aged: &Aged, u: &Unwind) -> f64 {
+    let web: Vec<f64> = aged
+        .lanes
+        .iter()
+        .map(|l| l.web_length_strain * 1e3)
+        .collect();
+    let excess = u.smax - u.mean_w;
+    if excess.is_nan() || excess <= 0.0 || web.is_empty() {
+        return 0.0;
+    }
+    let wbar = web.iter().zip(&u.w).map(|(a, b)| a * b).sum::<f64>() / u.w.iter().sum::<f64>();
+    ((web[u.imax] - wbar) / excess).clamp(0.0, 1.0)
 }
 
 /// Stress states tied to other defects, in MPa and kPa as the features name them.
@@ -477,6 +495,7 @@ pub fn compute(case: &Case, lanes: &Lanes, o: &super::actions::Outcome) -> Featu
     let len = length_pattern(&u, &centre, &ends);
     let (caliper_correlation, caliper_range_pct) = caliper_link(lanes, &u);
     let (moisture_share, creep_share) = shares(aged, last);
+    let web_length_share = web_share(aged, &u);
     let st = stress_states(wound, aged, last);
     let (edge_moisture, moisture_change) = moisture_change(aged, last, &centre, &ends);
     let (tension_ratio, ridge, nip_ratio) = winding_states(case, wound);
@@ -506,6 +525,7 @@ pub fn compute(case: &Case, lanes: &Lanes, o: &super::actions::Outcome) -> Featu
         F::CaliperRangePct => finite(caliper_range_pct),
         F::MoistureShare => finite(moisture_share),
         F::CreepShare => finite(creep_share),
+        F::WebLengthShare => finite(web_length_share),
         F::CoreMdStressMpa => finite(st.core_md_mpa),
         F::SurfacePressureEndKpa => finite(st.surface_pressure_end_kpa),
         F::SurfacePressureLossPct => finite(st.surface_pressure_loss_pct),

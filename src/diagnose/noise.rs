@@ -86,30 +86,66 @@ pub(super) struct Floor {
     pub(super) resolution: Note,
 }
 
-/// Lanes of a uniform roll: every caliper profile set to its mean plus `noise` (one draw per
-/// reading, m; none for the noise-free roll) and put on the lanes as the case's own profiles are
-/// (so lanes average or interpolate the noise as they do the readings); without a caliper profile
-/// the lanes' own deviations are drawn with `lane_sigma` (fraction).
+/// One-sigma repeatability of a tension-profile reading, as a fraction of the profile's mean
+/// (assumption: segmented-roll and air-bearing tension profilers read to a few per cent).
+pub const TENSION_REPEATABILITY: f64 = 0.02;
+
+/// One-sigma repeatability of a moisture-profile reading, percentage points (from memory: an
+/// on-line moisture scanner reads to about 0.1-0.2 points).
+pub const MOISTURE_REPEATABILITY_PCT: f64 = 0.15;
+
+/// Lanes of a uniform roll: every caliper, tension and moisture profile set to its mean plus
+/// noise (one draw per reading; caliper with `noise`'s sigma in m, tension with
+/// [`TENSION_REPEATABILITY`], moisture with [`MOISTURE_REPEATABILITY_PCT`]; none for the
+/// noise-free roll) and put on the lanes as the case's own profiles are (so lanes average or
+/// interpolate the noise as they do the readings); without a caliper profile the lanes' own
+/// deviations are drawn with `noise`'s sigma.
 fn uniform_lanes(lab: &Case, lanes: &Lanes, noise: Option<(&mut ChaCha8Rng, f64)>) -> Lanes {
-    let has_profile = lab.profiles.iter().any(|p| p.what == Measure::Caliper);
+    let flat = |m: Measure| lab.profiles.iter().any(|p| p.what == m);
+    let has_profile = flat(Measure::Caliper);
+    let web = flat(Measure::Tension) || flat(Measure::Moisture);
     let mut rng_sigma = noise;
-    if has_profile {
+    if has_profile || web {
         let mut c = lab.clone();
-        for p in c.profiles.iter_mut().filter(|p| p.what == Measure::Caliper) {
+        for p in c.profiles.iter_mut() {
             let m = p.values.iter().sum::<f64>() / p.values.len().max(1) as f64;
+            let sd = |s: f64| match p.what {
+                Measure::Caliper => Some(s),
+                Measure::Tension => Some(TENSION_REPEATABILITY * m),
+                Measure::Moisture => Some(MOISTURE_REPEATABILITY_PCT),
+                Measure::Hardness | Measure::Diameter => None,
+            };
+            if sd(0.0).is_none() {
+                continue;
+            }
             for v in p.values.iter_mut() {
-                *v = m + rng_sigma.as_mut().map_or(0.0, |(r, s)| *s * normal(r));
+                *v = m + rng_sigma
+                    .as_mut()
+                    .map_or(0.0, |(r, s)| sd(*s).unwrap_or(0.0) * normal(r));
             }
         }
-        return crate::lanes::build(&c);
+        let l = crate::lanes::build(&c);
+        if has_profile {
+            return l;
+        }
+        return draw_lane_calipers(l, lanes.mean_caliper_m, rng_sigma);
     }
-    let mut l = lanes.clone();
+    draw_lane_calipers(lanes.clone(), lanes.mean_caliper_m, rng_sigma)
+}
+
+/// Each lane's caliper the mean `mean_m` (m) times one plus a draw with `noise`'s sigma (m)
+/// over the mean; the mean itself for the noise-free roll.
+fn draw_lane_calipers(
+    mut l: Lanes,
+    mean_m: f64,
+    mut rng_sigma: Option<(&mut ChaCha8Rng, f64)>,
+) -> Lanes {
     for lane in l.lanes.iter_mut() {
-        let d = rng_sigma.as_mut().map_or(0.0, |(r, s)| {
-            *s / lanes.mean_caliper_m.max(1e-12) * normal(r)
-        });
+        let d = rng_sigma
+            .as_mut()
+            .map_or(0.0, |(r, s)| *s / mean_m.max(1e-12) * normal(r));
         lane.caliper_deviation = d;
-        lane.caliper_m = lanes.mean_caliper_m * (1.0 + d);
+        lane.caliper_m = mean_m * (1.0 + d);
     }
     l
 }

@@ -58,7 +58,8 @@ pub fn observations(lanes: &Lanes, tl: &Timeline, hardness_sd: f64) -> (Vec<Vec<
         let vals = &p.values;
         let step = step_of(tl, p.age_s);
         match p.what {
-            Measure::Caliper => {}
+            // read by winding and storage through the lanes, not fitted
+            Measure::Caliper | Measure::Tension | Measure::Moisture => {}
             Measure::Hardness => {
                 for (i, v) in vals.iter().enumerate() {
                     out[i].push(Obs {

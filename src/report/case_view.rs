@@ -220,6 +220,14 @@ fn profiles_table(c: &Case, sys: System) -> Table {
                 q(lo, Kind::Length, sys),
                 q(hi, Kind::Length, sys)
             ),
+            // N/m, or fractions of the mean for a profile given in %
+            Measure::Tension if hi <= 10.0 => format!("{:.1} .. {:.1} %", lo * 100.0, hi * 100.0),
+            Measure::Tension => format!(
+                "{} .. {}",
+                q(lo, Kind::LineForce, sys),
+                q(hi, Kind::LineForce, sys)
+            ),
+            Measure::Moisture => format!("{lo:.2} .. {hi:.2} %"),
         };
         p.add_row(vec![
             format!("{} {}", i + 1, super::words::measure(pr.what)),

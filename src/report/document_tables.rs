@@ -5,7 +5,7 @@
 use super::document::{b, feature_value, k, t, Block, Span};
 use super::report_data::ReportData;
 use super::{pos, q, SAFETY};
-use crate::case::{Case, Core, Measure, Stance, Tension, Wrap};
+use crate::case::{Case, Core, Stance, Tension, Wrap};
 use crate::units::{self, Kind, System};
 
 fn days(s: f64) -> String {
@@ -275,11 +275,7 @@ fn measurements_table(c: &Case, sys: System) -> Block {
         .iter()
         .map(|p| {
             vec![
-                t(match p.what {
-                    Measure::Hardness => "hardness",
-                    Measure::Diameter => "diameter",
-                    Measure::Caliper => "caliper",
-                }),
+                t(super::words::measure(p.what)),
                 t(days(p.age_s)),
                 t(p.positions_m.len().to_string()),
                 t(match (p.positions_m.first(), p.positions_m.last()) {

@@ -45,6 +45,9 @@ pub fn cause(c: Cause) -> &'static str {
         Cause::CaliperProfile => "caliper profile",
         Cause::StorageMoisture => "moisture gradients from storage and wraps",
         Cause::LaneToLaneCreep => "lane-to-lane creep (as the measurements identify it)",
+        Cause::WebProfile => {
+            "the web's own profile at winding (born baggy, not made so by the roll)"
+        }
     }
 }
 
@@ -54,6 +57,7 @@ pub fn removed(c: Cause) -> &'static str {
         Cause::CaliperProfile => "caliper made uniform across the width",
         Cause::StorageMoisture => "storage at the humidity in equilibrium with the paper",
         Cause::LaneToLaneCreep => "every lane given the roll's mean creep",
+        Cause::WebProfile => "the tension and moisture profiles at winding made flat",
     }
 }
 
@@ -475,6 +479,8 @@ fn measure_capitalised(m: Measure) -> &'static str {
         Measure::Hardness => "Hardness",
         Measure::Diameter => "Diameter",
         Measure::Caliper => "Caliper",
+        Measure::Tension => "Web tension at winding",
+        Measure::Moisture => "Web moisture at winding",
     }
 }
 
@@ -498,6 +504,7 @@ pub fn feature(f: Feature) -> &'static str {
         F::CaliperRangePct => "caliper range",
         F::MoistureShare => "share from moisture",
         F::CreepShare => "share from creep",
+        F::WebLengthShare => "share the web brought to the winder",
         F::CoreMdStressMpa => "MD stress near the core at winding",
         F::SurfacePressureEndKpa => "surface pressure after storage",
         F::SurfacePressureLossPct => "surface pressure lost in storage",
@@ -542,7 +549,7 @@ pub fn feature_value(f: Feature, v: f64, sys: System) -> String {
         F::EdgeMoistureChangePct | F::MoistureChangePct | F::OuterMoistureLossPct => {
             format!("{v:+.2} points")
         }
-        F::MoistureShare | F::CreepShare => format!("{:.0} %", v * 100.0),
+        F::MoistureShare | F::CreepShare | F::WebLengthShare => format!("{:.0} %", v * 100.0),
         F::DiameterRidgePerMille => format!("{v:.2} per mille"),
         F::BandCount | F::SlackLanes | F::PaperGrade => format!("{v:.0}"),
         F::LocalPeakRatio
@@ -569,6 +576,8 @@ pub fn measure(m: crate::case::Measure) -> &'static str {
         crate::case::Measure::Hardness => "hardness",
         crate::case::Measure::Diameter => "diameter",
         crate::case::Measure::Caliper => "caliper",
+        crate::case::Measure::Tension => "web tension at winding",
+        crate::case::Measure::Moisture => "web moisture at winding",
     }
 }
 

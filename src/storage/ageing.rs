@@ -80,8 +80,12 @@ pub struct LaneAged {
     pub elastic_strain: Vec<f64>,
     /// Free MD hygroexpansion since winding, beta_MD (MC - MC_0).
     pub hygro_strain: Vec<f64>,
-    /// Stress-free MD strain the web keeps at unwind (permanent + delayed + hygro), averaged over
-    /// the outer third of the web length (the first third unwound).
+    /// The web's own length excess as it came to the winder (from a tension profile at winding),
+    /// dimensionless; 0 without one. Included in `strain_at_unwind`.
+    pub web_length_strain: f64,
+    /// Stress-free MD strain the web keeps at unwind (permanent + delayed + hygro + the web's own
+    /// length excess at winding), averaged over the outer third of the web length (the first third
+    /// unwound).
     pub strain_at_unwind: Vec<f64>,
     /// The same at the end of storage for the outer, middle and inner thirds of web length.
     pub strain_at_unwind_by_third: [f64; 3],
@@ -143,6 +147,10 @@ pub struct Prepared {
     pub moisture: MoistureHistory,
     /// Reference moisture of the creep parameters: equilibrium at 50 % RH, %.
     pub mc_ref: f64,
+    /// Each lane's own length excess as the web came to the winder (minus its
+    /// [`crate::lanes::Lane::web_strain`]), dimensionless: carried through the roll unchanged
+    /// and part of the strain at unwind.
+    pub web_length: Vec<f64>,
 }
 
 /// Prepare the creep-independent parts (time grid and moisture field).
@@ -153,6 +161,7 @@ pub fn prepare(input: &StoreInput, lanes: &Lanes, opt: &AgeOptions) -> Prepared 
         mc_ref: gab_moisture(&input.material.sorption, 0.5),
         timeline,
         moisture,
+        web_length: lanes.lanes.iter().map(|l| 0.0 - l.web_strain).collect(),
     }
 }
 

@@ -131,6 +131,17 @@ impl Field {
         }
     }
 
+    /// Set the moisture through the layers of every lateral cell to `at(x)` (%, x in m from the
+    /// front edge) where it gives one: a moisture profile the web was wound with.
+    pub fn set_across(&mut self, at: impl Fn(f64) -> Option<f64>) {
+        let nr = self.nr();
+        for (ix, &x) in self.x.iter().enumerate() {
+            if let Some(m) = at(x) {
+                self.m[ix * nr..(ix + 1) * nr].fill(m);
+            }
+        }
+    }
+
     /// Number of radial cells.
     pub fn nr(&self) -> usize {
         self.r.len()
@@ -217,5 +228,46 @@ impl Field {
         let i1 = (i0 + 1).min(nx - 1);
         let t = pos - i0 as f64;
         (1.0 - t) * self.m[i0 * nr + j] + t * self.m[i1 * nr + j]
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::numeric::erfc;
+
+    /// A moisture step across the width at winding (a wet band in a sealed roll) spreads as
+    /// Crank's solution for two semi-infinite media: m = m2 + (m1 - m2) erfc(x / (2 sqrt(D t))) / 2
+    /// about the step (Crank 1975, "The Mathematics of Diffusion", 2nd ed., section 2.2, eq. 2.14
+    /// by memory of the number). Sealed faces (no exchange), the step at the middle of a roll far
+    /// wider than the diffusion length sqrt(D t).
+    #[test]
+    fn a_moisture_step_at_winding_spreads_as_crank_s_erfc() {
+        let (width, nx, d_x) = (0.2, 400, 1e-9);
+        let faces = radial_faces(0.05, 0.06, 3);
+        let mut f = Field::new(width, nx, faces, 8.0, d_x, 1e-13);
+        f.set_across(|x| (x < 0.1).then_some(10.0));
+        assert_eq!(f.m[0], 10.0);
+        assert_eq!(f.m[(nx - 1) * f.nr()], 8.0);
+        let sealed = Surfaces {
+            front_m_s: 0.0,
+            back_m_s: 0.0,
+            barrel_m_s: 0.0,
+            core_m_s: 0.0,
+            m_eq: 5.0,
+        };
+        let (days, steps) = (30.0, 300);
+        let t = days * crate::units::DAY_S;
+        for _ in 0..steps {
+            f.step(t / steps as f64, &sealed);
+        }
+        // diffusion length 2 sqrt(D t) = 3.2 mm against 0.5 mm cells
+        let l = 2.0 * (d_x * t).sqrt();
+        for ix in (nx / 2 - 12)..(nx / 2 + 12) {
+            let x = f.x[ix] - 0.1;
+            let want = 8.0 + 2.0 * 0.5 * erfc(x / l);
+            let got = f.m[ix * f.nr()];
+            assert!((got - want).abs() < 0.02, "x {x}: {got} vs {want}");
+        }
     }
 }

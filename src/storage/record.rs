@@ -57,6 +57,8 @@ pub struct FullRecord<'a> {
     thirds: Vec<usize>,
     outer_w: f64,
     mc0: &'a [f64],
+    /// The web's own length excess at winding, dimensionless.
+    born: f64,
     hygro_md_per_pct: f64,
     md_modulus_pa: f64,
 }
@@ -92,6 +94,7 @@ impl<'a> FullRecord<'a> {
                 delayed_strain: Vec::with_capacity(nt),
                 elastic_strain: Vec::with_capacity(nt),
                 hygro_strain: Vec::with_capacity(nt),
+                web_length_strain: prep.web_length.get(lane).copied().unwrap_or(0.0),
                 outer_moisture_pct: Vec::with_capacity(nt),
                 strain_at_unwind: Vec::with_capacity(nt),
                 diameter_m: Vec::with_capacity(nt),
@@ -107,6 +110,7 @@ impl<'a> FullRecord<'a> {
             thirds,
             outer_w,
             mc0: &prep.moisture.mc[0][lane],
+            born: prep.web_length.get(lane).copied().unwrap_or(0.0),
             hygro_md_per_pct: material.hygro_md_per_pct,
             md_modulus_pa: material.md_modulus_pa,
         }
@@ -128,7 +132,12 @@ impl<'a> FullRecord<'a> {
 impl Recorder for FullRecord<'_> {
     fn record(&mut self, s: &Snapshot) {
         let (mc, st, ct) = (s.mc, s.tangential_stress_pa, s.md_creep);
-        let (mc0, beta, e_t) = (self.mc0, self.hygro_md_per_pct, self.md_modulus_pa);
+        let (mc0, beta, e_t, born) = (
+            self.mc0,
+            self.hygro_md_per_pct,
+            self.md_modulus_pa,
+            self.born,
+        );
         let nr = self.vol.len();
         self.out.surface_pressure_pa.push(s.surface_pressure_pa);
         self.out
@@ -138,7 +147,7 @@ impl Recorder for FullRecord<'_> {
         let perm = self.avg(&|j| ct[j].permanent);
         let del = self.avg(&|j| ct[j].delayed);
         let hyg = self.avg(&|j| beta * (mc[j] - mc0[j]));
-        let unwind = |j: usize| ct[j].permanent + ct[j].delayed + beta * (mc[j] - mc0[j]);
+        let unwind = |j: usize| ct[j].permanent + ct[j].delayed + beta * (mc[j] - mc0[j]) + born;
         let outer = (0..nr)
             .filter(|&j| self.thirds[j] == 0)
             .map(|j| self.vol[j] * unwind(j))

@@ -176,6 +176,14 @@ pub fn moisture(
         m.diffusivity_inplane_m2_s,
         m.diffusivity_radial_m2_s,
     );
+    // a moisture profile at winding: each lane's moisture through its layers
+    field.set_across(|x| {
+        lanes
+            .lanes
+            .iter()
+            .find(|l| x >= l.left_m && x <= l.right_m)
+            .and_then(|l| l.winding_moisture_pct)
+    });
     let centres = lanes.positions();
     let sample = |f: &Field| -> Vec<Vec<f64>> {
         centres

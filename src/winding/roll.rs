@@ -11,6 +11,10 @@
 //! stack proportionally. Published 2-D studies find CD differences partly levelled inside the
 //! roll; `levelling` (0 = independent lanes, the upper bound; 1 = uniform tension, the lower
 //! bound) scales the lane-to-lane strain differences to bound that effect.
+//!
+//! A tension profile measured at winding adds each lane's own strain excess
+//! ([`crate::lanes::Lane::web_strain`]) to its offset, unlevelled: with equal radii the lanes carry
+//! the measured profile's shape, and a lane measured slack winds slack.
 
 use super::centrifugal::{disk_stress, lift_off_speed};
 use super::hakiel::{LaneModel, LaneState};
@@ -267,7 +271,10 @@ fn accrete(
     let rho = mat.density_kg_m3;
     let nip_part = mat.friction * input.winding.nip_n_per_m;
     let mut radii = vec![rc; n];
-    let mut offs = vec![0.0; n];
+    // the web's own lane strains (a tension profile at winding) come in unlevelled: they are the
+    // tensions the lanes carried in the free span
+    let web: Vec<f64> = lanes.lanes.iter().map(|l| l.web_strain).collect();
+    let mut offs = web.clone();
     let mut tens = vec![0.0; n];
     let mut last_wit = vec![0.0; n];
     // Lane radii are refreshed at least 400 times over the build (every node on coarser grids).
@@ -279,7 +286,7 @@ fn accrete(
             }
             let rbar = radii.iter().zip(&widths).map(|(r, w)| r * w).sum::<f64>() / width;
             for i in 0..n {
-                offs[i] = (1.0 - levelling) * (radii[i] - rbar) / rbar;
+                offs[i] = web[i] + (1.0 - levelling) * (radii[i] - rbar) / rbar;
             }
         }
         let rbar = radii.iter().zip(&widths).map(|(r, w)| r * w).sum::<f64>() / width;

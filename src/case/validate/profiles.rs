@@ -86,10 +86,14 @@ impl Validator {
             value: p.unit.clone().or(header_units.1).unwrap_or_default(),
         };
         if what != Measure::Hardness && units.value.is_empty() {
+            self.push(&f("unit"), line, unit_hint(what).into());
+            return None;
+        }
+        if matches!(what, Measure::Tension | Measure::Moisture) && age.is_some_and(|a| a > 0.0) {
             self.push(
-                &f("unit"),
-                line,
-                "caliper and diameter values need a unit, e.g. `unit: um` or `unit: mm` (or in the CSV header, `value (um)`)".into(),
+                &f("age"),
+                Some(line_of(&p.age)),
+                "tension and moisture profiles are read as the web was wound: give `age: \"0 d\"` (later surveys are hardness, diameter or caliper)".into(),
             );
             return None;
         }
@@ -257,19 +261,34 @@ impl Validator {
         unit: &str,
         field: &str,
     ) -> Option<f64> {
-        if what == Measure::Hardness {
-            if v.is_finite() {
-                return Some(v);
+        let kind = match what {
+            Measure::Hardness => {
+                if v.is_finite() {
+                    return Some(v);
+                }
+                self.push(
+                    field,
+                    line,
+                    "is not a finite number; remove the point or give its reading".into(),
+                );
+                return None;
             }
-            self.push(
-                field,
-                line,
-                "is not a finite number; remove the point or give its reading".into(),
-            );
-            return None;
-        }
-        let v = self.num_unit(v, unit, field, line, Kind::Length)?;
-        self.check_range(v, field, line, Kind::Length, Range::Positive)
+            Measure::Diameter | Measure::Caliper => Kind::Length,
+            Measure::Moisture => Kind::Moisture,
+            Measure::Tension if unit.trim() == "%" => {
+                // percent of the profile's mean, kept as a fraction: `lanes` reads only the
+                // profile's shape (each value over the mean), so N/m and % read alike
+                let v = self.check_range(v, field, line, Kind::Number, Range::NonNegative)?;
+                return Some(v / 100.0);
+            }
+            Measure::Tension => Kind::LineForce,
+        };
+        let v = self.num_unit(v, unit, field, line, kind)?;
+        let range = match what {
+            Measure::Tension => Range::NonNegative,
+            _ => Range::Positive,
+        };
+        self.check_range(v, field, line, kind, range)
     }
 
     /// Whether a position lies on the roll (when the width is known).
@@ -288,6 +307,19 @@ impl Validator {
             return false;
         }
         true
+    }
+}
+
+/// What a profile's missing `unit` should say.
+fn unit_hint(what: Measure) -> &'static str {
+    match what {
+        Measure::Hardness | Measure::Caliper | Measure::Diameter => {
+            "caliper and diameter values need a unit, e.g. `unit: um` or `unit: mm` (or in the CSV header, `value (um)`)"
+        }
+        Measure::Tension => {
+            "tension values need a unit: a line force (`unit: N/m`, `pli`, `kN/m`) or `unit: \"%\"` for percent of the profile's mean"
+        }
+        Measure::Moisture => "moisture values need a unit: `unit: \"%\"` (the basis of material.moisture)",
     }
 }
 
@@ -311,7 +343,7 @@ impl Validator {
             let (nominal, band, name, fine) = match p.what {
                 Measure::Caliper => (caliper_m, CALIPER_BAND, "material.caliper", true),
                 Measure::Diameter => (diameter_m, DIAMETER_BAND, "roll.diameter", false),
-                Measure::Hardness => continue,
+                Measure::Hardness | Measure::Tension | Measure::Moisture => continue,
             };
             let mean = p.values.iter().sum::<f64>() / p.values.len().max(1) as f64;
             let ratio = mean / nominal;
