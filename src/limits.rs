@@ -1,13 +1,17 @@
 //! Physical limits checked after each stage. The case was checked at load; these checks catch a
 //! stage result that no real roll can have (a roll wound faster than its layers can stay on, a
 //! stack squeezed past any real void content, moisture above saturation, a diameter inside the
-//! core). A violation becomes a [`Note::Limit`], which every output shows as a warning.
+//! core). A violation becomes a [`Note::Limit`], which every output shows as a warning; so does
+//! a wound state whose diameter profile disagrees with the one measured at winding.
 //!
 //! **Invariant:** pure functions of stage results; no prose (words are in `report::words`).
 
-use crate::case::{Gab, Material, Roll};
-use crate::note::{Limit, Note, Strength};
+use crate::case::{Gab, Material, Measure, Roll};
+use crate::lanes::Lanes;
+use crate::note::{DiameterMismatch, Limit, Note, Strength};
+use crate::numeric::weighted_mean;
 use crate::storage::Aged;
+use crate::units::DAY_S;
 use crate::winding::Wound;
 
 /// Largest compressive radial strain of the wound stack taken as physical (dimensionless):
@@ -146,6 +150,47 @@ pub fn strength(material: &Material, roll: &Roll, w: &Wound) -> Vec<StrengthRati
             r
         })
         .collect()
+}
+
+/// How many repeatabilities a lane's predicted diameter deviation may differ from the measured
+/// one before the wound state is said to disagree (three sigma, common practice).
+pub const DIAMETER_SIGMAS: f64 = 3.0;
+
+/// The wound state against the winding-time diameter profile (the earliest diameter profile
+/// read within a day of winding), when one is given: each lane's predicted diameter deviation
+/// from the width-weighted mean against the measured one. The tolerance is [`DIAMETER_SIGMAS`]
+/// x sqrt(2) x `repeatability_m` (m; one-sigma repeatability of a reading: a deviation from the
+/// mean carries about one reading's scatter, the comparison two). One note naming the worst lane.
+pub fn against_winding_diameter(lanes: &Lanes, w: &Wound, repeatability_m: f64) -> Option<Note> {
+    let s = lanes
+        .earliest(Measure::Diameter)
+        .filter(|s| s.age_s < DAY_S && s.values.len() == w.lanes.len())?;
+    let widths = lanes.widths();
+    let measured = &s.values;
+    let predicted: Vec<f64> = w
+        .lanes
+        .iter()
+        .map(|l| 2.0 * l.summary.outer_radius_m)
+        .collect();
+    let (m_mean, p_mean) = (
+        weighted_mean(measured, &widths),
+        weighted_mean(&predicted, &widths),
+    );
+    let tolerance_m = DIAMETER_SIGMAS * std::f64::consts::SQRT_2 * repeatability_m;
+    let off = (0..predicted.len()).map(|i| {
+        let miss = (predicted[i] - p_mean) - (measured[i] - m_mean);
+        (i as f64, past(miss.abs(), tolerance_m))
+    });
+    let (lanes_past, at, _) = worst(off)?;
+    let i = at as usize;
+    Some(Note::WindingDiameter(DiameterMismatch {
+        age_s: s.age_s,
+        lanes: lanes_past,
+        position_m: lanes.lanes[i].position_m,
+        predicted_m: predicted[i] - p_mean,
+        measured_m: measured[i] - m_mean,
+        tolerance_m,
+    }))
 }
 
 /// Condensation on a cold roll brought into warm humid air ([`crate::storage::condensation`]):

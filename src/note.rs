@@ -125,6 +125,28 @@ pub enum Note {
         unexplained: usize,
         unidentified: usize,
     },
+    /// The wound state's diameter profile disagrees with the winding-time diameter profile
+    /// beyond the readings' repeatability: shown as a warning (the winding model, its lanes or
+    /// its inputs do not describe this roll as wound).
+    WindingDiameter(DiameterMismatch),
+}
+
+/// Predicted against measured diameter profile at winding ([`Note::WindingDiameter`]); both as
+/// deviations from their own width-weighted mean, so the stated diameter does not enter.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct DiameterMismatch {
+    /// Age of the measured profile, s.
+    pub age_s: f64,
+    /// Lanes beyond the tolerance (the worst is described).
+    pub lanes: u32,
+    /// Centre of the worst lane, m.
+    pub position_m: f64,
+    /// Predicted diameter deviation there, m.
+    pub predicted_m: f64,
+    /// Measured diameter deviation there, m.
+    pub measured_m: f64,
+    /// Tolerance on the difference, m.
+    pub tolerance_m: f64,
 }
 
 /// A physical limit a stage result went beyond (checked by [`crate::limits`]).
@@ -258,11 +280,14 @@ pub fn push_new(notes: &mut Vec<Note>, more: impl IntoIterator<Item = Note>) {
 
 impl Note {
     /// Whether this note is a warning (a physical limit passed, measurements the model does not
-    /// explain), not information.
+    /// explain, the wound state against the winding-time diameters), not information.
     pub fn is_warning(&self) -> bool {
         matches!(
             self,
-            Note::Limit(_) | Note::LaneNotExplained { .. } | Note::RollNotExplained { .. }
+            Note::Limit(_)
+                | Note::LaneNotExplained { .. }
+                | Note::RollNotExplained { .. }
+                | Note::WindingDiameter(_)
         ) || matches!(self, Note::FindingOnWeakLanes { unexplained, .. } if *unexplained > 0)
     }
 }

@@ -170,10 +170,10 @@ pub fn stress(
     levelling: f64,
     out: Output,
 ) -> Result<Outcome, CliError> {
-    let (c, _, w) = wound_case(arg, winding::Options { nodes, levelling })?;
+    let (c, l, w) = wound_case(arg, winding::Options { nodes, levelling })?;
     let s = out.pick(
-        || report::stress_view::json(&c, &w),
-        || report::stress_view::text(&c, &w, out.sys),
+        || report::stress_view::json(&c, &l, &w),
+        || report::stress_view::text(&c, &l, &w, out.sys),
     )?;
     Ok(Outcome::Ok(s))
 }

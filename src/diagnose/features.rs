@@ -15,6 +15,7 @@
 
 use crate::case::{Case, Grade};
 use crate::lanes::Lanes;
+use crate::numeric::weighted_mean;
 use crate::storage::Aged;
 use crate::vocab::{Feature, FeatureValues};
 use crate::winding::Wound;
@@ -392,8 +393,16 @@ fn moisture_change(aged: &Aged, last: usize, centre: &[usize], edges: &[usize]) 
 }
 
 /// Winding states: highest over lowest lane wound-in tension, the largest diameter ridge (per
-/// mille of the median diameter), and friction x nip over web tension at mid diameter.
-fn winding_states(case: &Case, wound: &Wound) -> (f64, f64, f64) {
+/// mille of the median diameter), friction x nip over web tension at mid diameter, and the
+/// number of hard rings ([`hard_band_count`]).
+struct WindingStates {
+    tension_ratio: f64,
+    ridge: f64,
+    nip_ratio: f64,
+    hard_bands: usize,
+}
+
+fn winding_states(case: &Case, lanes: &Lanes, wound: &Wound) -> WindingStates {
     let wit: Vec<f64> = wound
         .lanes
         .iter()
@@ -419,7 +428,32 @@ fn winding_states(case: &Case, wound: &Wound) -> (f64, f64, f64) {
         .tension
         .at(0.5 * (case.roll.core_diameter_m + case.roll.diameter_m));
     let nip_ratio = case.material.friction * case.winding.nip_n_per_m / t_mid.max(1e-9);
-    (tension_ratio, ridge, nip_ratio)
+    WindingStates {
+        tension_ratio,
+        ridge,
+        nip_ratio,
+        hard_bands: hard_band_count(&wit, &lanes.widths()),
+    }
+}
+
+/// A lane wound in this fraction above the width-weighted mean lane's wound-in tension is a hard
+/// ring (assumption: of the order of the lane-to-lane scatter of wound-in tension on a roll
+/// wound without a pattern, so a peak beyond it is a pattern, not noise).
+pub const HARD_BAND_FRACTION: f64 = 0.1;
+
+/// Hard rings wound in: lanes whose mean wound-in tension `wit` (N/m) is a local maximum over
+/// both neighbours and [`HARD_BAND_FRACTION`] above the width-weighted mean (`widths` m).
+fn hard_band_count(wit: &[f64], widths: &[f64]) -> usize {
+    let n = wit.len();
+    let mean = weighted_mean(wit, widths);
+    let side = |j: Option<usize>| j.and_then(|j| wit.get(j)).copied();
+    (0..n)
+        .filter(|&i| {
+            let left = side(i.checked_sub(1)).unwrap_or(f64::NEG_INFINITY);
+            let right = side(Some(i + 1)).unwrap_or(f64::NEG_INFINITY);
+            wit[i] > left && wit[i] > right && wit[i] > (1.0 + HARD_BAND_FRACTION) * mean
+        })
+        .count()
 }
 
 /// The web's running strain T/(E c) at the converting tension, mm/m.
@@ -498,7 +532,7 @@ pub fn compute(case: &Case, lanes: &Lanes, o: &super::actions::Outcome) -> Featu
     let web_length_share = web_share(aged, &u);
     let st = stress_states(wound, aged, last);
     let (edge_moisture, moisture_change) = moisture_change(aged, last, &centre, &ends);
-    let (tension_ratio, ridge, nip_ratio) = winding_states(case, wound);
+    let ws = winding_states(case, lanes, wound);
     let lim = limit_ratios(case, wound, aged, last, &st);
     let excess: Vec<f64> = u.s.iter().map(|v| v - u.mean_w).collect();
     let slack: Vec<usize> = (0..u.n()).filter(|&i| excess[i] > SLACK_MM_PER_M).collect();
@@ -532,9 +566,10 @@ pub fn compute(case: &Case, lanes: &Lanes, o: &super::actions::Outcome) -> Featu
         F::OuterMdStressEndMpa => finite(st.outer_md_end_mpa),
         F::EdgeMoistureChangePct => finite(edge_moisture),
         F::MoistureChangePct => finite(moisture_change),
-        F::WoundTensionRatio => finite(tension_ratio),
-        F::DiameterRidgePerMille => finite(ridge),
-        F::NipToTensionRatio => finite(nip_ratio),
+        F::WoundTensionRatio => finite(ws.tension_ratio),
+        F::DiameterRidgePerMille => finite(ws.ridge),
+        F::NipToTensionRatio => finite(ws.nip_ratio),
+        F::HardBandCount => ws.hard_bands as f64,
         F::SlackLanes => finite(slack.len() as f64),
         F::CorePressureRatio => finite(lim.core),
         F::PeakPressureCrushRatio => finite(lim.crush),

@@ -82,12 +82,12 @@ pub fn age_measured(
 ) -> Result<Aged, FitError> {
     let (prep, map) = prepared(case, lanes, wound, opt)?;
     let aged = age_prepared(&case.material, &prep, wound, None, &map)?;
-    Ok(with_limits(case, wound, aged))
+    Ok(with_limits(case, lanes, wound, aged))
 }
 
 /// The aged roll with a note for every physical limit the winding or storage result passed
-/// ([`crate::limits`]).
-fn with_limits(case: &Case, wound: &Wound, mut aged: Aged) -> Aged {
+/// ([`crate::limits`]), and for a wound state that disagrees with the winding-time diameters.
+fn with_limits(case: &Case, lanes: &Lanes, wound: &Wound, mut aged: Aged) -> Aged {
     let mut found =
         crate::limits::after_winding(wound, &case.material, &case.roll, case.winding.speed_m_s);
     found.extend(crate::limits::after_storage(
@@ -98,6 +98,8 @@ fn with_limits(case: &Case, wound: &Wound, mut aged: Aged) -> Aged {
     found.extend(crate::limits::condensation(&case.storage, &case.material));
     found.extend(crate::limits::flat_contact(case, wound));
     found.extend(crate::limits::air_floats(case));
+    let rep = observe::DIAMETER_REPEATABILITY_M;
+    found.extend(crate::limits::against_winding_diameter(lanes, wound, rep));
     crate::note::push_new(&mut aged.notes, found);
     aged
 }
@@ -229,7 +231,7 @@ pub fn fit_roll(
     }
     let creep: Vec<LaneCreep> = fits.iter().map(|f| f.creep).collect();
     let aged = age_prepared(&case.material, &prep, wound, Some(&creep), &map)?;
-    let aged = with_limits(case, wound, aged);
+    let aged = with_limits(case, lanes, wound, aged);
     let strain = aged.final_strain_at_unwind();
     let spread_strain = spread(&strain);
     Ok(RollFit {

@@ -2,23 +2,15 @@
 
 use super::{pos, q, table};
 use crate::case::Case;
+use crate::lanes::Lanes;
 use crate::units::{Kind, System};
 use crate::winding::Wound;
 use serde_json::{json, Value};
 use std::fmt::Write;
 
 /// Per-lane table of the wound-in state.
-pub fn text(c: &Case, w: &Wound, sys: System) -> String {
-    let mut out = String::new();
-    let _ = writeln!(
-        out,
-        "Case {}: wound-in state, {} lanes, {:.0} layers on {} nodes per lane, CD levelling {:.2}",
-        c.id,
-        w.lanes.len(),
-        w.layers,
-        w.radius_m.len(),
-        w.levelling
-    );
+pub fn text(c: &Case, l: &Lanes, w: &Wound, sys: System) -> String {
+    let mut out = heading(c, w, sys);
     let mut t = table(&[
         "lane",
         "wound-in tension",
@@ -82,20 +74,41 @@ pub fn text(c: &Case, w: &Wound, sys: System) -> String {
             slack.join(", ")
         );
     }
-    for line in super::words::note_lines(&c.warnings, &limits(c, w)) {
+    for line in super::words::note_lines(&c.warnings, &limits(c, l, w)) {
         let _ = writeln!(out, "{line}");
     }
     out
 }
 
-/// The physical limits the wound state passed.
-fn limits(c: &Case, w: &Wound) -> Vec<crate::note::Note> {
-    crate::limits::after_winding(w, &c.material, &c.roll, c.winding.speed_m_s)
+/// The first line: the case, the grid and the CD levelling.
+fn heading(c: &Case, w: &Wound, sys: System) -> String {
+    let lag = if w.shear_lag_m.is_finite() {
+        q(w.shear_lag_m, Kind::Length, sys)
+    } else {
+        "the whole width".into()
+    };
+    format!(
+        "Case {}: wound-in state, {} lanes, {:.0} layers on {} nodes per lane, CD levelling over a shear lag of {lag} (uniform levelling {:.2} on top)\n",
+        c.id,
+        w.lanes.len(),
+        w.layers,
+        w.radius_m.len(),
+        w.levelling
+    )
+}
+
+/// The physical limits the wound state passed, and its diameters against the winding-time
+/// diameter profile.
+fn limits(c: &Case, l: &Lanes, w: &Wound) -> Vec<crate::note::Note> {
+    let mut out = crate::limits::after_winding(w, &c.material, &c.roll, c.winding.speed_m_s);
+    let rep = crate::fit::observe::DIAMETER_REPEATABILITY_M;
+    out.extend(crate::limits::against_winding_diameter(l, w, rep));
+    out
 }
 
 /// JSON with full radial arrays per lane.
-pub fn json(c: &Case, w: &Wound) -> Value {
-    let (notes, warnings) = super::words::note_json(&c.warnings, &limits(c, w));
+pub fn json(c: &Case, l: &Lanes, w: &Wound) -> Value {
+    let (notes, warnings) = super::words::note_json(&c.warnings, &limits(c, l, w));
     json!({
         "case": c.id,
         "radius_m": w.radius_m,
@@ -104,16 +117,18 @@ pub fn json(c: &Case, w: &Wound) -> Value {
         "stack_compression": w.stack_compression,
         "layer_thickness_m": w.layer_thickness_m,
         "levelling": w.levelling,
+        "shear_lag_m": w.shear_lag_m,
         "core_stiffness_pa": w.core_stiffness_pa,
         "lift_off_speed_m_s": w.lift_off_speed_m_s,
-        "lanes": w.lanes.iter().map(|l| json!({
-            "position_m": l.position_m,
-            "caliper_m": l.caliper_m,
+        "lanes": w.lanes.iter().map(|x| json!({
+            "position_m": x.position_m,
+            "caliper_m": x.caliper_m,
             "radius_m": w.radius_m,
-            "radial_stress_pa": l.radial_stress_pa,
-            "tangential_stress_pa": l.tangential_stress_pa,
-            "wound_in_tension_n_per_m": l.wound_in_tension_n_per_m,
-            "summary": l.summary,
+            "radial_stress_pa": x.radial_stress_pa,
+            "tangential_stress_pa": x.tangential_stress_pa,
+            "wound_in_tension_n_per_m": x.wound_in_tension_n_per_m,
+            "nip_load_n_per_m": x.nip_load_n_per_m,
+            "summary": x.summary,
         })).collect::<Vec<_>>(),
         "notes": notes,
         "warnings": warnings,

@@ -332,6 +332,15 @@ pub fn note(n: &Note) -> String {
             }
         ),
         Note::Limit(l) => limit(&l),
+        Note::WindingDiameter(m) => format!(
+            "the wound state disagrees with the diameter profile at {:.0} d: at {:.0} mm the predicted diameter is {:+.2} mm from the mean, the measured {:+.2} mm (tolerance {:.2} mm, three times the repeatability of the difference; {} lanes beyond it); check the caliper profile, the lanes and the winder settings before trusting the findings (profiles, winding)",
+            m.age_s / DAY_S,
+            m.position_m * 1e3,
+            m.predicted_m * 1e3,
+            m.measured_m * 1e3,
+            m.tolerance_m * 1e3,
+            m.lanes
+        ),
     }
 }
 
@@ -514,6 +523,7 @@ pub fn feature(f: Feature) -> &'static str {
         F::WoundTensionRatio => "highest / lowest wound-in tension",
         F::DiameterRidgePerMille => "diameter ridge",
         F::NipToTensionRatio => "nip-induced / web tension",
+        F::HardBandCount => "number of hard rings wound in",
         F::SlackLanes => "slack lanes",
         F::CorePressureRatio => "core pressure / collapse pressure",
         F::PeakPressureCrushRatio => "peak pressure / crush limit",
@@ -551,7 +561,7 @@ pub fn feature_value(f: Feature, v: f64, sys: System) -> String {
         }
         F::MoistureShare | F::CreepShare | F::WebLengthShare => format!("{:.0} %", v * 100.0),
         F::DiameterRidgePerMille => format!("{v:.2} per mille"),
-        F::BandCount | F::SlackLanes | F::PaperGrade => format!("{v:.0}"),
+        F::BandCount | F::SlackLanes | F::PaperGrade | F::HardBandCount => format!("{v:.0}"),
         F::LocalPeakRatio
         | F::CentreMinusEdgesRatio
         | F::LongestLaneRatio

@@ -8,6 +8,7 @@ pub mod air;
 mod cache;
 mod centrifugal;
 mod core;
+pub mod coupling;
 pub mod hakiel;
 mod roll;
 

@@ -2,21 +2,25 @@
 //!
 //! Lane coupling (finite-width winding, after the idea of Cole and Hakiel 1992 and Lee and Wickert
 //! 2002, from memory): every lane shares one rotation, so a lane whose compressed build is larger
-//! by dR than the width-weighted mean is stretched by about dR/R more than the mean lane. The web
-//! strain in lane i is eps_0 + (1 - levelling) (R_i - R)/R; lane tension is E_MD c_i times that
-//! strain, zero where it would go negative (a slack lane), and eps_0 is found so the lane tensions
-//! add up to the winder's web tension. Each lane then adds its own pressure, compresses its own
-//! stack (Pfeiffer law), and so feeds back on its radius: a thick lane takes more tension,
-//! compresses more and partly closes its own excess, which is why caliper differences do not
-//! stack proportionally. Published 2-D studies find CD differences partly levelled inside the
-//! roll; `levelling` (0 = independent lanes, the upper bound; 1 = uniform tension, the lower
-//! bound) scales the lane-to-lane strain differences to bound that effect.
+//! by dR than the width-weighted mean is stretched by about dR/R more than the mean lane. Those
+//! offsets are levelled across the width over a shear-lag length, and the nip load is shared by
+//! contact (both in [`super::coupling`]). The web strain in lane i is eps_0 + e_i with e_i the
+//! levelled offset; lane tension is E_MD c_i times that strain, zero where it would go negative (a
+//! slack lane), and eps_0 is found so the lane tensions add up to the winder's web tension. Each
+//! lane then adds its own pressure, compresses its own stack (Pfeiffer law), and so feeds back on
+//! its radius: a thick lane takes more tension and more nip, compresses more and partly closes its
+//! own excess, which is why caliper differences do not stack proportionally. `levelling` (default
+//! 0.5, an assumption) is a further uniform levelling on top of the shear lag (1 = uniform
+//! tension, the ablation): the shear-lag length of a paper web is about a centimetre, so it sets
+//! how lane width matters, while published 2-D studies find CD differences partly levelled inside
+//! the roll over wider bands too.
 //!
 //! A tension profile measured at winding adds each lane's own strain excess
 //! ([`crate::lanes::Lane::web_strain`]) to its offset, unlevelled: with equal radii the lanes carry
 //! the measured profile's shape, and a lane measured slack winds slack.
 
 use super::centrifugal::{disk_stress, lift_off_speed};
+use super::coupling;
 use super::hakiel::{LaneModel, LaneState};
 use crate::case::{Material, Roll, Winding};
 use crate::lanes::Lanes;
@@ -46,7 +50,8 @@ impl<'a> WindInput<'a> {
 pub struct Options {
     /// Number of radial nodes (layer groups) per lane.
     pub nodes: usize,
-    /// CD levelling fraction, 0..1.
+    /// Uniform CD levelling fraction on top of the shear-lag levelling, 0..1 (0: shear lag only;
+    /// 1: equal lane tensions).
     pub levelling: f64,
 }
 
@@ -65,8 +70,10 @@ impl Default for Options {
 /// DEVELOPERS.md, "Numerical practice").
 pub const DEFAULT_NODES: usize = 401;
 
-/// Default CD levelling fraction: an assumption between the published bounds (independent lanes
-/// overstate differences; a fully levelled roll hides them).
+/// Default uniform CD levelling on top of the shear-lag levelling: an assumption between the
+/// published bounds (independent lanes overstate differences; a fully levelled roll hides them).
+/// The shear lag of a paper web is about a centimetre ([`super::coupling`]), so it decides how
+/// narrow lanes level against wide bands, and this fraction the levelling of both.
 pub const DEFAULT_LEVELLING: f64 = 0.5;
 
 /// The winding model failed.
@@ -134,6 +141,11 @@ pub struct LaneStress {
     pub tangential_stress_pa: Vec<f64>,
     /// Wound-in tension each node was wound with, N/m.
     pub wound_in_tension_n_per_m: Vec<f64>,
+    /// The lane's share of the nip line load at the end of the build, N/m (the width-weighted
+    /// mean over lanes is the nip load).
+    pub nip_load_n_per_m: f64,
+    /// The lane's outer radius at that last contact update, m.
+    pub nip_contact_radius_m: f64,
     pub summary: LaneSummary,
 }
 
@@ -155,8 +167,11 @@ pub struct Wound {
     /// Surface speed at which a layer wound at the roll's mean wound-in stress would stop
     /// pressing on the roll, m/s.
     pub lift_off_speed_m_s: f64,
-    /// CD levelling fraction used.
+    /// Uniform CD levelling fraction used on top of the shear lag.
     pub levelling: f64,
+    /// Shear-lag length of CD levelling at the end of the build, m (infinite: fully levelled;
+    /// written as null in JSON).
+    pub shear_lag_m: f64,
     /// Core stiffness used, Pa (`None`: rigid).
     pub core_stiffness_pa: Option<f64>,
 }
@@ -245,14 +260,39 @@ pub fn grid(rc: f64, big_r: f64, nodes: usize) -> Vec<f64> {
         .collect()
 }
 
-/// Accrete all lanes on a grid of `nodes` nodes; returns the lane states and layers per node.
+/// Lanes accreted together: their states, the layers per node, and each lane's nip load (N/m)
+/// and outer radius (m) at the last contact update.
+struct Accreted {
+    states: Vec<LaneState>,
+    per_node: f64,
+    nip_n_per_m: Vec<f64>,
+    radii_m: Vec<f64>,
+}
+
+/// How the lanes share the winder's loads at one update of their radii ([`super::coupling`]):
+/// each lane's levelled strain offset and its share of the nip line load, N/m.
+fn couple(input: &WindInput, lanes: &Lanes, radii: &[f64], levelling: f64) -> (Vec<f64>, Vec<f64>) {
+    let mat = input.material;
+    let nip = input.winding.nip_n_per_m;
+    let widths = lanes.widths();
+    let width: f64 = widths.iter().sum();
+    let rbar = radii.iter().zip(&widths).map(|(r, w)| r * w).sum::<f64>() / width;
+    let raw: Vec<f64> = radii.iter().map(|r| (r - rbar) / rbar).collect();
+    let t = input.winding.tension.at(2.0 * rbar);
+    let lag = coupling::shear_lag_length(mat, lanes.mean_caliper_m, t, rbar, nip);
+    let offs = coupling::levelled_offsets(&raw, &widths, lag, levelling);
+    let k_nip = coupling::nip_stiffness(mat, nip);
+    (offs, coupling::nip_shares(nip, radii, &widths, k_nip))
+}
+
+/// Accrete all lanes on a grid of `nodes` nodes.
 fn accrete(
     input: &WindInput,
     lanes: &Lanes,
     nodes: usize,
     levelling: f64,
     c_eff: f64,
-) -> Result<(Vec<LaneState>, f64), WindError> {
+) -> Result<Accreted, WindError> {
     let mat = &input.material;
     let model = lane_model(input);
     let rc = 0.5 * input.roll.core_diameter_m;
@@ -269,25 +309,32 @@ fn accrete(
         .collect();
     let v = input.winding.speed_m_s;
     let rho = mat.density_kg_m3;
-    let nip_part = mat.friction * input.winding.nip_n_per_m;
     let mut radii = vec![rc; n];
     // the web's own lane strains (a tension profile at winding) come in unlevelled: they are the
     // tensions the lanes carried in the free span
     let web: Vec<f64> = lanes.lanes.iter().map(|l| l.web_strain).collect();
     let mut offs = web.clone();
+    let mut nip_q = vec![input.winding.nip_n_per_m.max(0.0); n];
     let mut tens = vec![0.0; n];
     let mut last_wit = vec![0.0; n];
     // Lane radii are refreshed at least 400 times over the build (every node on coarser grids).
     let every = nodes.div_ceil(400).max(1);
+    let mut r_last = rc;
     for (k, &rk) in grid.iter().enumerate() {
         if k > 0 && (k % every == 0 || k + 1 == nodes) {
             for (i, st) in states.iter().enumerate() {
                 radii[i] = st.outer_radius(&model, 1.0 / c_eff, cal[i]);
             }
-            let rbar = radii.iter().zip(&widths).map(|(r, w)| r * w).sum::<f64>() / width;
-            for i in 0..n {
-                offs[i] = web[i] + (1.0 - levelling) * (radii[i] - rbar) / rbar;
+            let (o, q) = couple(input, lanes, &radii, levelling);
+            // the nip share follows the contact over a radial distance (see `coupling`)
+            let keep = (-(rk - r_last) / coupling::NIP_FOLLOW_M).exp();
+            for (old, new) in nip_q.iter_mut().zip(q) {
+                *old = keep * *old + (1.0 - keep) * new;
             }
+            for i in 0..n {
+                offs[i] = web[i] + o[i];
+            }
+            r_last = rk;
         }
         let rbar = radii.iter().zip(&widths).map(|(r, w)| r * w).sum::<f64>() / width;
         let t_web = input.winding.tension.at(2.0 * rbar.max(rk));
@@ -298,8 +345,9 @@ fn accrete(
             tens[i] = stiff[i] * (e0 + offs[i]).max(0.0);
         }
         for (i, st) in states.iter_mut().enumerate() {
-            // effective wound-in tension: web + nip part, less what a ring spinning at the
-            // surface speed needs to hold itself (thin ring, rho c v^2) and the air's loss
+            // effective wound-in tension: web + the lane's nip part, less what a ring spinning at
+            // the surface speed needs to hold itself (thin ring, rho c v^2) and the air's loss
+            let nip_part = coupling::nip_tension(mat.friction, nip_q[i], t_web);
             let wit = (tens[i] + nip_part - rho * cal[i] * v * v - stiff[i] * air).max(0.0);
             // hoop stress on the grid: force over the compressed layer thickness, so that each
             // step adds pressure p r = sigma_w h (radial equilibrium holds exactly)
@@ -315,7 +363,12 @@ fn accrete(
     for (i, st) in states.iter_mut().enumerate() {
         st.finish(last_wit[i] / c_eff);
     }
-    Ok((states, per_node))
+    Ok(Accreted {
+        states,
+        per_node,
+        nip_n_per_m: nip_q,
+        radii_m: radii,
+    })
 }
 
 /// The stated diameter is the as-wound one: the compressed mean caliper c_eff (m) for which the
@@ -333,7 +386,7 @@ fn compressed_caliper(input: &WindInput, lanes: &Lanes, opt: Options) -> Result<
     let coarse = COARSE_NODES.min(opt.nodes);
     let miss = |x: f64| -> Result<f64, WindError> {
         let c_eff = x.exp();
-        let (st, _) = accrete(input, lanes, coarse, opt.levelling, c_eff)?;
+        let st = accrete(input, lanes, coarse, opt.levelling, c_eff)?.states;
         let built = st
             .iter()
             .zip(&widths)
@@ -394,7 +447,12 @@ pub fn wind(input: &WindInput, lanes: &Lanes, opt: Options) -> Result<Wound, Win
     let c_eff = compressed_caliper(input, lanes, opt)?;
     let layers = (big_r - rc) / c_eff;
     let nodes = opt.nodes;
-    let (states, per_node) = accrete(input, lanes, nodes, opt.levelling, c_eff)?;
+    let Accreted {
+        states,
+        per_node,
+        nip_n_per_m,
+        radii_m,
+    } = accrete(input, lanes, nodes, opt.levelling, c_eff)?;
     let grid = states.first().map(|s| s.r.clone()).unwrap_or_default();
     let rho = mat.density_kg_m3;
     let v = input.winding.speed_m_s;
@@ -412,10 +470,13 @@ pub fn wind(input: &WindInput, lanes: &Lanes, opt: Options) -> Result<Wound, Win
                 radial_stress_pa: st.sr,
                 tangential_stress_pa: st.st,
                 wound_in_tension_n_per_m: st.wit,
+                nip_load_n_per_m: nip_n_per_m[i],
+                nip_contact_radius_m: radii_m[i],
                 summary: s,
             }
         })
         .collect();
+    let shear_lag_m = final_shear_lag(input, lanes, &out);
     Ok(Wound {
         radius_m: grid,
         lanes: out,
@@ -425,8 +486,25 @@ pub fn wind(input: &WindInput, lanes: &Lanes, opt: Options) -> Result<Wound, Win
         layer_thickness_m: c_eff,
         lift_off_speed_m_s: lift_off_speed(mean_sigma, rho),
         levelling: opt.levelling,
+        shear_lag_m,
         core_stiffness_pa: model.core_stiffness,
     })
+}
+
+/// Shear-lag length of CD levelling at the end of the build, m ([`coupling::shear_lag_length`]
+/// at the lanes' width-weighted mean outer radius).
+fn final_shear_lag(input: &WindInput, lanes: &Lanes, out: &[LaneStress]) -> f64 {
+    let widths = lanes.widths();
+    let width: f64 = widths.iter().sum();
+    let r = out
+        .iter()
+        .zip(&widths)
+        .map(|(l, w)| l.summary.outer_radius_m * w)
+        .sum::<f64>()
+        / width;
+    let t = input.winding.tension.at(2.0 * r);
+    let nip = input.winding.nip_n_per_m;
+    coupling::shear_lag_length(input.material, lanes.mean_caliper_m, t, r, nip)
 }
 
 /// Depth of the surface zone a hardness reading senses, m (common practice: readings respond to
