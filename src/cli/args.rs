@@ -80,7 +80,7 @@ pub enum Command {
         /// Radial nodes per lane.
         #[arg(long, default_value_t = crate::winding::DEFAULT_NODES)]
         nodes: usize,
-        /// CD levelling fraction 0..1 (0: independent lanes).
+        /// Uniform CD levelling 0..1 on top of the shear-lag levelling (0: shear lag only; 1: equal lane tensions).
         #[arg(long, default_value_t = crate::winding::DEFAULT_LEVELLING)]
         levelling: f64,
     },
