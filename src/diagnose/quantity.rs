@@ -3,6 +3,7 @@
 
 use super::actions::Outcome;
 use super::features::{self, Features};
+use super::local;
 use crate::lanes::Lanes;
 use crate::vocab::{Defect, Quantity};
 use crate::winding::Wound;
@@ -73,7 +74,7 @@ impl Site<'_> {
     }
 
     /// Evaluate `q` on an outcome, in the quantity's unit (0 when not finite). A local quantity
-    /// is judged against the web that is kept ([`features::baseline`] over the kept lanes).
+    /// is judged against the web that is kept ([`local::baseline`] over the kept lanes).
     pub fn measure(&self, q: Quantity, o: &Outcome) -> f64 {
         let kept = self.kept();
         let spans: Vec<(f64, f64)> = kept
@@ -95,7 +96,7 @@ impl Site<'_> {
             Quantity::LocalPeakMmPerM => max(self
                 .focus(&kept)
                 .into_iter()
-                .filter_map(|k| features::baseline(&spans, &s, k).map(|m| s[k] - m))),
+                .filter_map(|k| local::baseline(&spans, &s, k).map(|m| s[k] - m))),
             Quantity::CentreMinusEdgesMmPerM => self.centre_minus_ends(&kept, &s),
             Quantity::EdgesMinusCentreMmPerM => -self.centre_minus_ends(&kept, &s),
             Quantity::CoreMdCompressionMpa => {
@@ -119,7 +120,7 @@ impl Site<'_> {
                 let r = outer_radii(&o.wound, &kept);
                 let med = median(&r);
                 max(self.focus(&kept).into_iter().map(|k| {
-                    features::baseline(&spans, &r, k).map_or(0.0, |m| (r[k] - m) / med * 1e3)
+                    local::baseline(&spans, &r, k).map_or(0.0, |m| (r[k] - m) / med * 1e3)
                 }))
             }
             Quantity::SpreadMmPerM => max(s.iter().copied()) + max(s.iter().map(|x| -x)),
@@ -226,19 +227,19 @@ fn argmax(v: &[f64]) -> usize {
 }
 
 /// Index of the largest value among the lanes that may stand out locally
-/// ([`features::inner_lanes`]).
+/// ([`local::inner_lanes`]).
 fn argmax_inner(v: &[f64]) -> usize {
-    let inner = features::inner_lanes(v.len());
+    let inner = local::inner_lanes(v.len());
     inner
         .clone()
         .fold(inner.start, |a, i| if v[i] > v[a] { i } else { a })
 }
 
-/// A lane's excess over its [`features::baseline`] (the web 75-300 mm either side), per lane (0
+/// A lane's excess over its [`local::baseline`] (the web 75-300 mm either side), per lane (0
 /// for a lone lane).
 fn local_excess(v: &[f64], spans: &[(f64, f64)]) -> Vec<f64> {
     (0..v.len())
-        .map(|i| features::baseline(spans, v, i).map_or(0.0, |m| v[i] - m))
+        .map(|i| local::baseline(spans, v, i).map_or(0.0, |m| v[i] - m))
         .collect()
 }
 
@@ -253,6 +254,16 @@ fn local_band(v: &[f64], spans: &[(f64, f64)]) -> Vec<usize> {
     let loc = local_excess(v, spans);
     let p = argmax_inner(&loc);
     around(v, p, v[p] - 0.5 * loc[p])
+}
+
+/// The ridge: the lanes around the inner lane whose radius `r` stands out most from the web
+/// around it, down to half its excess.
+fn ridge_band(r: &[f64], spans: &[(f64, f64)]) -> Vec<usize> {
+    let loc = local_excess(r, spans);
+    let p = argmax_inner(&loc);
+    let mut band = around(&loc, p, 0.5 * loc[p]);
+    band.retain(|&i| loc[i] > 0.0);
+    band
 }
 
 /// Lanes whose value is within 10 % of the extreme; none (the whole roll) when every lane is.
@@ -281,7 +292,7 @@ pub fn locate(
     let n = x.len();
     let centre = features::centre_lanes(lanes, width_m);
     let ends = features::end_lanes(lanes);
-    let spans = features::spans(lanes);
+    let spans = local::spans(lanes);
     match defect {
         Defect::BaggyLane => local_band(x, &spans),
         Defect::Puckers | Defect::Corrugations => {
@@ -299,14 +310,7 @@ pub fn locate(
                 b
             }
         }
-        Defect::Ridges => {
-            let r = outer_radii(&o.wound, &(0..n).collect::<Vec<_>>());
-            let loc = local_excess(&r, &spans);
-            let p = argmax_inner(&loc);
-            let mut band = around(&loc, p, 0.5 * loc[p]);
-            band.retain(|&i| loc[i] > 0.0);
-            band
-        }
+        Defect::Ridges => ridge_band(&outer_radii(&o.wound, &(0..n).collect::<Vec<_>>()), &spans),
         Defect::GaugeBands => {
             let c: Vec<f64> = lanes.lanes.iter().map(|l| l.caliper_deviation).collect();
             let p = argmax(&c);
