@@ -99,7 +99,8 @@ pub enum Note {
         caliper_repeatability_m: f64,
         /// Smallest caliper band (lane range) that stands above the noise, m.
         band_m: f64,
-        /// Smallest lane excess over its neighbours that stands above the noise, mm per m of web.
+        /// Smallest lane excess over the web around it (`diagnose::local::baseline`) that
+        /// stands above the noise, mm per m of web.
         lane_excess_mm_per_m: f64,
         /// Smallest centre-minus-edges length difference that does, mm/m.
         centre_edges_mm_per_m: f64,

@@ -201,7 +201,7 @@ words! {
     pub enum Quantity {
         /// The finding's lane over the width-weighted mean lane at unwind.
         LaneExcessMmPerM = "lane_excess_mm_per_m",
-        /// The finding's lane over the mean of its neighbours (two each side) at unwind.
+        /// The finding's lane over the web 75-300 mm either side of it at unwind.
         LocalPeakMmPerM = "local_peak_mm_per_m",
         /// Centre half minus the outermost lanes at unwind.
         CentreMinusEdgesMmPerM = "centre_minus_edges_mm_per_m",
@@ -213,7 +213,7 @@ words! {
         SurfacePressureKpa = "surface_pressure_kpa",
         /// Largest MD stress in the outer wrap after storage.
         OuterMdStressMpa = "outer_md_stress_mpa",
-        /// The finding's lane diameter over its neighbours' (two each side), per mille.
+        /// The finding's lane diameter over the web's 75-300 mm either side of it, per mille.
         DiameterRidgePerMille = "diameter_ridge_per_mille",
         /// Largest minus smallest lane at unwind.
         SpreadMmPerM = "spread_mm_per_m",
@@ -339,7 +339,7 @@ impl Feature {
             F::LongestLaneRatio => spec("longest_lane_excess_mm_per_m over the running strain", 0.0, INF, false),
             F::SpreadMmPerM => spec("largest minus smallest lane length at unwind, mm per m of web", 0.0, INF, true),
             F::LongestLaneExcessMmPerM => spec("longest lane minus the width-weighted mean lane, mm/m", 0.0, INF, true),
-            F::LocalPeakMmPerM => spec("largest excess of an inner lane (not an outermost lane) over its neighbours (two each side), mm/m", -INF, INF, true),
+            F::LocalPeakMmPerM => spec("largest excess of an inner lane (not an outermost lane) over the web 75-300 mm from its centre (the mean of the two sides, each width-weighted; one side at a roll end), mm/m", -INF, INF, true),
             F::PeakWidthMm => spec("width of the long band around the longest lane, mm", 0.0, INF, false),
             F::CentreMinusEdgesMmPerM => spec("centre half minus the outermost lane each side, mm/m (positive: baggy centre)", -INF, INF, true),
             F::SideToSideRatio => spec("front-to-back difference of a straight-line fit over the web's running strain T/(E h)", 0.0, INF, false),
@@ -357,7 +357,7 @@ impl Feature {
             F::EdgeMoistureChangePct => spec("moisture change of the edge lanes minus the centre lanes, points", -INF, INF, false),
             F::MoistureChangePct => spec("largest change of a lane's mean moisture over storage, points (absolute)", 0.0, INF, false),
             F::WoundTensionRatio => spec("highest over lowest lane wound-in tension", 1.0, INF, false),
-            F::DiameterRidgePerMille => spec("largest lane diameter at winding over the mean of its neighbours (two each side), per mille of diameter", 0.0, INF, false),
+            F::DiameterRidgePerMille => spec("largest diameter of an inner lane (not an outermost lane) at winding over the web 75-300 mm from its centre (the mean of the two sides, each width-weighted; one side at a roll end), per mille of diameter", 0.0, INF, false),
             F::NipToTensionRatio => spec("friction x nip load over web tension", 0.0, INF, false),
             F::SlackLanes => spec("lanes longer than the mean lane by over 0.5 mm/m", 0.0, INF, false),
             F::CorePressureRatio => spec("highest interlayer pressure on the core over the core's collapse pressure (maker's rating or thin-ring buckling); 0 for a rigid core without a rating", 0.0, INF, false),

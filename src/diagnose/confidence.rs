@@ -189,13 +189,17 @@ fn noise_test<'a>(r: &Rule, feats: &Features, fl: &'a Floor) -> NoiseTest<'a> {
             level,
         };
     };
-    // a rule that rests on the caliper profile (thick lanes long, or a caliper range) may stand
-    // on the band test: its false alarms are already counted in the family's share
+    // a rule that rests on the caliper profile (thick lanes long, a caliper range, or a diameter
+    // ridge at winding, which the winding model builds from the lanes' calipers alone: they are
+    // its only input that varies across the width) may stand on the band test: its false alarms
+    // are already counted in the family's share
     let on_caliper = r.when.iter().any(|k| {
         k.above.is_some()
             && matches!(
                 k.feature,
-                Feature::CaliperRangePct | Feature::CaliperCorrelation
+                Feature::CaliperRangePct
+                    | Feature::CaliperCorrelation
+                    | Feature::DiameterRidgePerMille
             )
     });
     let d = (feats.get(c.feature) - x.uniform).abs();

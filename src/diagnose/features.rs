@@ -13,6 +13,7 @@
 //! computed an `edges_or_ends` set that always equalled the ends; it is replaced by these two
 //! named sets, with the features' values unchanged.)
 
+use super::local::{baseline, inner_lanes, spans};
 use crate::case::{Case, Grade};
 use crate::lanes::Lanes;
 use crate::storage::Aged;
@@ -92,16 +93,6 @@ fn min_from(init: f64, v: impl Iterator<Item = f64>) -> f64 {
     v.fold(init, f64::min)
 }
 
-/// Per lane, the mean of up to two neighbours each side (None for a lone lane).
-fn neighbour_mean(v: &[f64], i: usize) -> Option<f64> {
-    let n = v.len();
-    let nb: Vec<f64> = (i.saturating_sub(2)..(i + 3).min(n))
-        .filter(|&j| j != i)
-        .map(|j| v[j])
-        .collect();
-    (!nb.is_empty()).then(|| nb.iter().sum::<f64>() / nb.len() as f64)
-}
-
 /// Lanes whose centre lies in the centre half of the width.
 pub fn centre_lanes(lanes: &Lanes, width_m: f64) -> Vec<usize> {
     (0..lanes.lanes.len())
@@ -139,9 +130,10 @@ pub fn end_lanes(lanes: &Lanes) -> Vec<usize> {
 struct Unwind {
     /// Strain at unwind per lane, mm/m.
     s: Vec<f64>,
-    /// Lane centres, m; lane widths, m.
+    /// Lane centres, m; lane widths, m; lane edges, m.
     x: Vec<f64>,
     w: Vec<f64>,
+    spans: Vec<(f64, f64)>,
     /// Roll width, m.
     width: f64,
     /// Width-weighted mean lane, mm/m.
@@ -170,6 +162,7 @@ impl Unwind {
             s,
             x: lanes.positions(),
             w,
+            spans: spans(lanes),
             width: case.roll.width_m,
             mean_w,
             imax,
@@ -202,7 +195,7 @@ fn length_pattern(u: &Unwind, centre: &[usize], edges: &[usize]) -> LengthPatter
     LengthPattern {
         spread: u.smax - smin,
         longest_excess: u.smax - u.mean_w,
-        local_peak: local_peak(s),
+        local_peak: local_peak(s, &u.spans),
         peak_width_mm: peak_lanes.iter().map(|&i| u.w[i]).sum::<f64>() * 1e3,
         peak_lanes,
         centre_minus_edges: mean_of(centre, &|i| s[i]) - mean_of(edges, &|i| s[i]),
@@ -211,17 +204,16 @@ fn length_pattern(u: &Unwind, centre: &[usize], edges: &[usize]) -> LengthPatter
     }
 }
 
-/// Largest excess of an inner lane over the mean of up to two neighbours each side, mm/m (every
-/// lane counts as inner below five lanes; 0 for a single lane).
-fn local_peak(s: &[f64]) -> f64 {
+/// Largest excess of an inner lane over its [`baseline`](super::local::baseline) (the web 75-300 mm either side), mm/m
+/// (every lane counts as inner below five lanes; 0 for a single lane).
+fn local_peak(s: &[f64], spans: &[(f64, f64)]) -> f64 {
     let n = s.len();
     if n <= 1 {
         return 0.0;
     }
-    let inner = if n >= 5 { 1..n - 1 } else { 0..n };
     max_from(
         f64::NEG_INFINITY,
-        inner.filter_map(|i| neighbour_mean(s, i).map(|m| s[i] - m)),
+        inner_lanes(n).filter_map(|i| baseline(spans, s, i).map(|m| s[i] - m)),
     )
 }
 
@@ -391,9 +383,10 @@ fn moisture_change(aged: &Aged, last: usize, centre: &[usize], edges: &[usize]) 
     )
 }
 
-/// Winding states: highest over lowest lane wound-in tension, the largest diameter ridge (per
-/// mille of the median diameter), and friction x nip over web tension at mid diameter.
-fn winding_states(case: &Case, wound: &Wound) -> (f64, f64, f64) {
+/// Winding states: highest over lowest lane wound-in tension, the largest diameter ridge (a
+/// lane's diameter over its [`baseline`](super::local::baseline), per mille of the median diameter), and friction x nip
+/// over web tension at mid diameter.
+fn winding_states(case: &Case, lanes: &Lanes, wound: &Wound) -> (f64, f64, f64) {
     let wit: Vec<f64> = wound
         .lanes
         .iter()
@@ -408,11 +401,12 @@ fn winding_states(case: &Case, wound: &Wound) -> (f64, f64, f64) {
         .map(|l| l.summary.outer_radius_m)
         .collect();
     let rmed = median(&radii);
-    // a ridge is local: a lane's diameter over the mean of its neighbours (two each side)
+    // a ridge is local: an inner lane's diameter over the web 75-300 mm either side
+    let sp = spans(lanes);
     let ridge = max_from(
         0.0,
-        (0..radii.len())
-            .map(|i| neighbour_mean(&radii, i).map_or(0.0, |m| (radii[i] - m) / rmed * 1e3)),
+        inner_lanes(radii.len())
+            .map(|i| baseline(&sp, &radii, i).map_or(0.0, |m| (radii[i] - m) / rmed * 1e3)),
     );
     let t_mid = case
         .winding
@@ -498,7 +492,7 @@ pub fn compute(case: &Case, lanes: &Lanes, o: &super::actions::Outcome) -> Featu
     let web_length_share = web_share(aged, &u);
     let st = stress_states(wound, aged, last);
     let (edge_moisture, moisture_change) = moisture_change(aged, last, &centre, &ends);
-    let (tension_ratio, ridge, nip_ratio) = winding_states(case, wound);
+    let (tension_ratio, ridge, nip_ratio) = winding_states(case, lanes, wound);
     let lim = limit_ratios(case, wound, aged, last, &st);
     let excess: Vec<f64> = u.s.iter().map(|v| v - u.mean_w).collect();
     let slack: Vec<usize> = (0..u.n()).filter(|&i| excess[i] > SLACK_MM_PER_M).collect();

@@ -9,6 +9,7 @@ pub mod attribution;
 pub mod confidence;
 pub mod corrections;
 pub mod features;
+pub mod local;
 mod noise;
 pub mod quantity;
 pub mod unwind;

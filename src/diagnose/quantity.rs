@@ -3,6 +3,7 @@
 
 use super::actions::Outcome;
 use super::features::{self, Features};
+use super::local;
 use crate::lanes::Lanes;
 use crate::vocab::{Defect, Quantity};
 use crate::winding::Wound;
@@ -36,15 +37,6 @@ pub struct Site<'a> {
     pub at: &'a [usize],
     /// Lanes slit out.
     pub excluded: &'a [usize],
-}
-
-/// Mean of up to two neighbours each side of position `k` in `v` (None for a lone value).
-fn neighbour_mean(v: &[f64], k: usize) -> Option<f64> {
-    let nb: Vec<f64> = (k.saturating_sub(2)..(k + 3).min(v.len()))
-        .filter(|&j| j != k)
-        .map(|j| v[j])
-        .collect();
-    (!nb.is_empty()).then(|| nb.iter().sum::<f64>() / nb.len() as f64)
 }
 
 fn mean(v: impl Iterator<Item = f64>) -> f64 {
@@ -81,9 +73,14 @@ impl Site<'_> {
         }
     }
 
-    /// Evaluate `q` on an outcome, in the quantity's unit (0 when not finite).
+    /// Evaluate `q` on an outcome, in the quantity's unit (0 when not finite). A local quantity
+    /// is judged against the web that is kept ([`local::baseline`] over the kept lanes).
     pub fn measure(&self, q: Quantity, o: &Outcome) -> f64 {
         let kept = self.kept();
+        let spans: Vec<(f64, f64)> = kept
+            .iter()
+            .map(|&i| (self.lanes.lanes[i].left_m, self.lanes.lanes[i].right_m))
+            .collect();
         let last = o.aged.last();
         let s: Vec<f64> = kept
             .iter()
@@ -99,7 +96,7 @@ impl Site<'_> {
             Quantity::LocalPeakMmPerM => max(self
                 .focus(&kept)
                 .into_iter()
-                .filter_map(|k| neighbour_mean(&s, k).map(|m| s[k] - m))),
+                .filter_map(|k| local::baseline(&spans, &s, k).map(|m| s[k] - m))),
             Quantity::CentreMinusEdgesMmPerM => self.centre_minus_ends(&kept, &s),
             Quantity::EdgesMinusCentreMmPerM => -self.centre_minus_ends(&kept, &s),
             Quantity::CoreMdCompressionMpa => {
@@ -122,10 +119,9 @@ impl Site<'_> {
             Quantity::DiameterRidgePerMille => {
                 let r = outer_radii(&o.wound, &kept);
                 let med = median(&r);
-                max(self
-                    .focus(&kept)
-                    .into_iter()
-                    .map(|k| neighbour_mean(&r, k).map_or(0.0, |m| (r[k] - m) / med * 1e3)))
+                max(self.focus(&kept).into_iter().map(|k| {
+                    local::baseline(&spans, &r, k).map_or(0.0, |m| (r[k] - m) / med * 1e3)
+                }))
             }
             Quantity::SpreadMmPerM => max(s.iter().copied()) + max(s.iter().map(|x| -x)),
             Quantity::SideToSideMmPerM => {
@@ -230,33 +226,44 @@ fn argmax(v: &[f64]) -> usize {
     (0..v.len()).fold(0, |a, i| if v[i] > v[a] { i } else { a })
 }
 
-/// A lane's excess over the mean of its neighbours, per lane (0 for a lone lane).
-fn local_excess(v: &[f64]) -> Vec<f64> {
+/// Index of the largest value among the lanes that may stand out locally
+/// ([`local::inner_lanes`]).
+fn argmax_inner(v: &[f64]) -> usize {
+    let inner = local::inner_lanes(v.len());
+    inner
+        .clone()
+        .fold(inner.start, |a, i| if v[i] > v[a] { i } else { a })
+}
+
+/// A lane's excess over its [`local::baseline`] (the web 75-300 mm either side), per lane (0
+/// for a lone lane).
+fn local_excess(v: &[f64], spans: &[(f64, f64)]) -> Vec<f64> {
     (0..v.len())
-        .map(|i| neighbour_mean(v, i).map_or(0.0, |m| v[i] - m))
+        .map(|i| local::baseline(spans, v, i).map_or(0.0, |m| v[i] - m))
         .collect()
 }
 
-/// The band around the lane that stands out most from its neighbours: lanes above halfway
-/// between that lane and its neighbours' mean. Only inner lanes can peak from five lanes up, as
-/// in the local-peak feature.
-fn local_band(v: &[f64]) -> Vec<usize> {
+/// The band around the lane that stands out most from the web around it: lanes above halfway
+/// between that lane and its baseline. Only inner lanes can peak from five lanes up, as in the
+/// local-peak feature.
+fn local_band(v: &[f64], spans: &[(f64, f64)]) -> Vec<usize> {
     let n = v.len();
     if n == 0 {
         return Vec::new();
     }
-    let loc = local_excess(v);
-    let inner: Vec<f64> = (0..n)
-        .map(|i| {
-            if n >= 5 && (i == 0 || i == n - 1) {
-                f64::NEG_INFINITY
-            } else {
-                loc[i]
-            }
-        })
-        .collect();
-    let p = argmax(&inner);
+    let loc = local_excess(v, spans);
+    let p = argmax_inner(&loc);
     around(v, p, v[p] - 0.5 * loc[p])
+}
+
+/// The ridge: the lanes around the inner lane whose radius `r` stands out most from the web
+/// around it, down to half its excess.
+fn ridge_band(r: &[f64], spans: &[(f64, f64)]) -> Vec<usize> {
+    let loc = local_excess(r, spans);
+    let p = argmax_inner(&loc);
+    let mut band = around(&loc, p, 0.5 * loc[p]);
+    band.retain(|&i| loc[i] > 0.0);
+    band
 }
 
 /// Lanes whose value is within 10 % of the extreme; none (the whole roll) when every lane is.
@@ -285,8 +292,9 @@ pub fn locate(
     let n = x.len();
     let centre = features::centre_lanes(lanes, width_m);
     let ends = features::end_lanes(lanes);
+    let spans = local::spans(lanes);
     match defect {
-        Defect::BaggyLane => local_band(x),
+        Defect::BaggyLane => local_band(x, &spans),
         Defect::Puckers | Defect::Corrugations => {
             // the local maxima standing out from the mean lane (the feature's bands)
             let b: Vec<usize> = (0..n)
@@ -297,19 +305,12 @@ pub fn locate(
                 })
                 .collect();
             if b.is_empty() {
-                local_band(x)
+                local_band(x, &spans)
             } else {
                 b
             }
         }
-        Defect::Ridges => {
-            let r = outer_radii(&o.wound, &(0..n).collect::<Vec<_>>());
-            let loc = local_excess(&r);
-            let p = argmax(&loc);
-            let mut band = around(&loc, p, 0.5 * loc[p]);
-            band.retain(|&i| loc[i] > 0.0);
-            band
-        }
+        Defect::Ridges => ridge_band(&outer_radii(&o.wound, &(0..n).collect::<Vec<_>>()), &spans),
         Defect::GaugeBands => {
             let c: Vec<f64> = lanes.lanes.iter().map(|l| l.caliper_deviation).collect();
             let p = argmax(&c);

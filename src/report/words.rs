@@ -77,13 +77,13 @@ pub fn quantity(q: Quantity) -> &'static str {
         Quantity::LaneExcessMmPerM => {
             "largest excess length of the finding's lanes over the mean lane"
         }
-        Quantity::LocalPeakMmPerM => "excess length of the finding's lane over its neighbours",
+        Quantity::LocalPeakMmPerM => "excess length of the finding's lane over the web around it",
         Quantity::CentreMinusEdgesMmPerM => "centre-minus-edges length difference",
         Quantity::EdgesMinusCentreMmPerM => "edges-minus-centre length difference",
         Quantity::CoreMdCompressionMpa => "MD compressive stress near the core",
         Quantity::SurfacePressureKpa => "interlayer pressure at the surface after storage",
         Quantity::OuterMdStressMpa => "MD stress in the outer wrap after storage",
-        Quantity::DiameterRidgePerMille => "diameter ridge over the neighbouring lanes",
+        Quantity::DiameterRidgePerMille => "diameter ridge over the web around it",
         Quantity::SpreadMmPerM => "length spread across the width",
         Quantity::PeakPressureMpa => {
             "highest interlayer pressure in the finding's lanes at winding"
@@ -233,7 +233,7 @@ fn confidence_note(n: &Note) -> String {
             lane_excess_mm_per_m,
             centre_edges_mm_per_m,
         } => format!(
-            "resolution of these measurements (caliper read to {:.1} um, one sigma): a caliper band must exceed {:.1} um, a lane's excess length over its neighbours {:.3} % and centre against edges {:.3} % of the web length to stand above noise (a 5 % chance, shared over the features tested, that noise alone does it)",
+            "resolution of these measurements (caliper read to {:.1} um, one sigma): a caliper band must exceed {:.1} um, a lane's excess length over the web around it {:.3} % and centre against edges {:.3} % of the web length to stand above noise (a 5 % chance, shared over the features tested, that noise alone does it)",
             caliper_repeatability_m * 1e6,
             band_m * 1e6,
             lane_excess_mm_per_m / 10.0,
@@ -494,7 +494,7 @@ pub fn feature(f: Feature) -> &'static str {
         F::LongestLaneRatio => "longest lane / running strain",
         F::SpreadMmPerM => "length spread across the width",
         F::LongestLaneExcessMmPerM => "longest lane over the mean lane",
-        F::LocalPeakMmPerM => "local peak over neighbours",
+        F::LocalPeakMmPerM => "local peak over the web around it",
         F::PeakWidthMm => "width of the long band",
         F::CentreMinusEdgesMmPerM => "centre minus edges",
         F::SideToSideMmPerM => "front-to-back difference",
