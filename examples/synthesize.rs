@@ -8,7 +8,8 @@
 //! the output depends only on the rest of the case (its winding-time readings, caliper, storage)
 //! and running the command again on the case with the output pasted in reproduces the output.
 //! Values are printed at the positions of the case's earliest hardness (else diameter, else
-//! caliper) profile, interpolated from the lane centres, so pasting them in keeps the lanes.
+//! caliper) profile as the case gives it (before any is left out), interpolated from the lane
+//! centres, so pasting them in keeps the lanes.
 
 use rollsleuth::case::{load_file, Case, Measure, Profile};
 use rollsleuth::fit::{creep_from, synth};
@@ -77,6 +78,8 @@ fn main() {
     let seed = parse(&args[1]) as u64;
     let theta = [parse(&args[2]).ln(), parse(&args[3]).ln()];
     let ages: Vec<f64> = args[4..].iter().map(|a| parse(a) * DAY_S).collect();
+    // printed at the case's own reading positions, so pasting the output back keeps the lanes
+    let positions = reading_positions(&case, &lanes::build(&case).positions());
     case.profiles.retain(|p| {
         p.what == Measure::Caliper || !ages.iter().any(|a| (a - p.age_s).abs() < 0.5 * DAY_S)
     });
@@ -97,7 +100,6 @@ fn main() {
     };
     let profiles = synth::profiles(&case, &l, &w, &truth).unwrap_or_else(|e| fail(e, 2));
     let centres = l.positions();
-    let positions = reading_positions(&case, &centres);
     for p in &profiles {
         print(p, &positions, &centres);
     }
