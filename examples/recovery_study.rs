@@ -6,54 +6,23 @@
 //! `cargo run --release --example recovery_study -- SEEDS` (default 20 seeds per grade; the
 //! figures of a run go in the issue note).
 
-use rollsleuth::case::{self, Case, Measure};
+use rollsleuth::case::{self, Case};
 use rollsleuth::fit::{self, synth};
 use rollsleuth::lanes;
-use rollsleuth::storage::{AgeOptions, LaneCreep};
+use rollsleuth::storage::AgeOptions;
 use rollsleuth::units::DAY_S;
 use rollsleuth::winding::{wind, Options, WindInput};
 
 /// The field case `file` at `lanes_n` lanes with its surveys replaced by synthetic ones at
 /// `ages_d` (days), and the true (MD, radial) scales per lane.
 fn synthetic(file: &str, lanes_n: u32, seed: u64, ages_d: &[f64]) -> (Case, Vec<(f64, f64)>) {
-    let mut c = case::load_file(
+    let c = case::load_file(
         std::path::Path::new(file),
         &[format!("lanes.count={lanes_n}")],
     )
     .expect("field case loads");
-    c.profiles.retain(|p| p.what == Measure::Caliper);
-    let l = lanes::build(&c);
-    let w = wind(
-        &WindInput::new(&c.material, &c.roll, &c.winding),
-        &l,
-        Options::default(),
-    )
-    .expect("field case winds");
-    let mut rng = synth::Rng::new(seed);
-    let truth: Vec<(f64, f64)> = (0..l.lanes.len())
-        .map(|_| {
-            (
-                0.5 * 4f64.powf(rng.uniform()),
-                0.5 * 6f64.powf(rng.uniform()),
-            )
-        })
-        .collect();
-    let creep: Vec<LaneCreep> = truth
-        .iter()
-        .map(|&(a, b)| fit::creep_from(&c.material, &[a.ln(), b.ln()]))
-        .collect();
     let ages: Vec<f64> = ages_d.iter().map(|d| d * DAY_S).collect();
-    let t = synth::Truth {
-        creep: &creep,
-        ages_s: &ages,
-        hardness_sd: 0.5,
-        diameter_sd_m: 5e-5,
-        seed: seed + 1000,
-    };
-    let p = synth::profiles(&c, &l, &w, &t).expect("synthetic profiles");
-    c.profiles.extend(p);
-    c.hardness.repeatability = 0.5;
-    (c, truth)
+    synth::recovery_roll(c, seed, &ages, 0.5, 5e-5).expect("synthetic roll")
 }
 
 fn main() {
@@ -87,30 +56,11 @@ fn main() {
                     continue;
                 }
             };
-            for (lf, t) in f.lanes.iter().zip(&truth) {
-                for (v, sd, ident, tv) in [
-                    (
-                        lf.params.md_creep_scale,
-                        lf.uncertainty.md_creep_scale_factor,
-                        lf.md_identifiable,
-                        t.0,
-                    ),
-                    (
-                        lf.params.radial_creep_scale,
-                        lf.uncertainty.radial_creep_scale_factor,
-                        lf.radial_identifiable,
-                        t.1,
-                    ),
-                ] {
-                    if !ident {
-                        continue;
-                    }
-                    let z = (v.ln() - tv.ln()).abs() / sd.ln();
-                    total += 1;
-                    for (i, o) in outside.iter_mut().enumerate() {
-                        if z > (i + 1) as f64 {
-                            *o += 1;
-                        }
+            for z in synth::recovery_z(&f, &truth) {
+                total += 1;
+                for (i, o) in outside.iter_mut().enumerate() {
+                    if z > (i + 1) as f64 {
+                        *o += 1;
                     }
                 }
             }

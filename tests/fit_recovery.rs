@@ -5,7 +5,7 @@
 use rollsleuth::case::{self, Case, Measure};
 use rollsleuth::fit::{self, synth};
 use rollsleuth::lanes;
-use rollsleuth::storage::{AgeOptions, LaneCreep};
+use rollsleuth::storage::AgeOptions;
 use rollsleuth::units::DAY_S;
 use rollsleuth::winding::{wind, Options, WindInput};
 
@@ -18,44 +18,13 @@ fn synthetic(
     noise_h: f64,
     noise_d: f64,
 ) -> (Case, Vec<(f64, f64)>) {
-    let mut c = case::load_file(
+    let c = case::load_file(
         std::path::Path::new(file),
         &[format!("lanes.count={lanes_n}")],
     )
     .unwrap();
-    c.profiles.retain(|p| p.what == Measure::Caliper);
-    let l = lanes::build(&c);
-    let w = wind(
-        &WindInput::new(&c.material, &c.roll, &c.winding),
-        &l,
-        Options::default(),
-    )
-    .unwrap();
-    let mut rng = synth::Rng::new(seed);
-    let truth: Vec<(f64, f64)> = (0..l.lanes.len())
-        .map(|_| {
-            (
-                0.5 * 4f64.powf(rng.uniform()),
-                0.5 * 6f64.powf(rng.uniform()),
-            )
-        })
-        .collect();
-    let creep: Vec<LaneCreep> = truth
-        .iter()
-        .map(|&(a, b)| fit::creep_from(&c.material, &[a.ln(), b.ln()]))
-        .collect();
     let ages: Vec<f64> = ages_d.iter().map(|d| d * DAY_S).collect();
-    let truth_in = synth::Truth {
-        creep: &creep,
-        ages_s: &ages,
-        hardness_sd: noise_h,
-        diameter_sd_m: noise_d,
-        seed: seed + 1000,
-    };
-    let p = synth::profiles(&c, &l, &w, &truth_in).unwrap();
-    c.profiles.extend(p);
-    c.hardness.repeatability = noise_h.max(0.05);
-    (c, truth)
+    synth::recovery_roll(c, seed, &ages, noise_h, noise_d).unwrap()
 }
 
 fn run(c: &Case) -> fit::RollFit {
@@ -111,30 +80,11 @@ fn parameters_are_recovered_within_reported_uncertainty() {
                 5e-5,
             );
             let f = run(&c);
-            for (lf, t) in f.lanes.iter().zip(&truth) {
-                for (fitv, sd_factor, ident, tv) in [
-                    (
-                        lf.params.md_creep_scale,
-                        lf.uncertainty.md_creep_scale_factor,
-                        lf.md_identifiable,
-                        t.0,
-                    ),
-                    (
-                        lf.params.radial_creep_scale,
-                        lf.uncertainty.radial_creep_scale_factor,
-                        lf.radial_identifiable,
-                        t.1,
-                    ),
-                ] {
-                    if !ident {
-                        continue;
-                    }
-                    let z = (fitv.ln() - tv.ln()).abs() / sd_factor.ln();
-                    total += 1;
-                    for (i, o) in outside.iter_mut().enumerate() {
-                        if z > (i + 1) as f64 {
-                            *o += 1;
-                        }
+            for z in synth::recovery_z(&f, &truth) {
+                total += 1;
+                for (i, o) in outside.iter_mut().enumerate() {
+                    if z > (i + 1) as f64 {
+                        *o += 1;
                     }
                 }
             }

@@ -108,3 +108,84 @@ pub fn profiles(
     }
     Ok(out)
 }
+
+/// A roll for recovery checks: `case` with its hardness and diameter surveys replaced by
+/// synthetic ones at `ages_s` (s) from per-lane creep scales drawn log-uniform (MD 0.5-2,
+/// radial 0.5-3, from `seed`), read with noise of `hardness_sd` (scale units) and
+/// `diameter_sd_m` (m). Returns the roll and the true (MD, radial) scales per lane.
+pub fn recovery_roll(
+    mut case: Case,
+    seed: u64,
+    ages_s: &[f64],
+    hardness_sd: f64,
+    diameter_sd_m: f64,
+) -> Result<(Case, Vec<(f64, f64)>), SynthError> {
+    case.profiles.retain(|p| p.what == Measure::Caliper);
+    let l = crate::lanes::build(&case);
+    let w = crate::winding::wind(
+        &crate::winding::WindInput::new(&case.material, &case.roll, &case.winding),
+        &l,
+        crate::winding::Options::default(),
+    )?;
+    let mut rng = Rng::new(seed);
+    let truth: Vec<(f64, f64)> = (0..l.lanes.len())
+        .map(|_| {
+            (
+                0.5 * 4f64.powf(rng.uniform()),
+                0.5 * 6f64.powf(rng.uniform()),
+            )
+        })
+        .collect();
+    let creep: Vec<LaneCreep> = truth
+        .iter()
+        .map(|&(a, b)| super::creep_from(&case.material, &[a.ln(), b.ln()]))
+        .collect();
+    let t = Truth {
+        creep: &creep,
+        ages_s,
+        hardness_sd,
+        diameter_sd_m,
+        seed: seed + 1000,
+    };
+    let p = profiles(&case, &l, &w, &t)?;
+    case.profiles.extend(p);
+    case.hardness.repeatability = hardness_sd.max(0.05);
+    Ok((case, truth))
+}
+
+/// Distances of the fitted identifiable log-scales of `fit` from the `truth` (MD, radial per
+/// lane), in posterior standard deviations.
+pub fn recovery_z(fit: &super::RollFit, truth: &[(f64, f64)]) -> Vec<f64> {
+    let mut z = Vec::new();
+    for (lf, t) in fit.lanes.iter().zip(truth) {
+        let u = &lf.uncertainty;
+        for (v, sd, ident, tv) in [
+            (
+                lf.params.md_creep_scale,
+                u.md_creep_scale_factor,
+                lf.md_identifiable,
+                t.0,
+            ),
+            (
+                lf.params.radial_creep_scale,
+                u.radial_creep_scale_factor,
+                lf.radial_identifiable,
+                t.1,
+            ),
+        ] {
+            if ident {
+                z.push((v.ln() - tv.ln()).abs() / sd.ln());
+            }
+        }
+    }
+    z
+}
+
+/// A synthetic recovery roll could not be made.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+pub enum SynthError {
+    #[error(transparent)]
+    Wind(#[from] crate::winding::WindError),
+    #[error(transparent)]
+    Age(#[from] AgeError),
+}

@@ -200,6 +200,24 @@ pub fn nip_tension(friction: f64, lane_nip_n_per_m: f64, tension_n_per_m: f64) -
     (friction * lane_nip_n_per_m.max(0.0)).min(NIP_SATURATION * tension_n_per_m.max(0.0))
 }
 
+/// A lane's effective wound-in tension, N/m: its web tension `tension` + its nip part (friction x
+/// its nip share `nip_q`, capped against the web tension `t_web`; all N/m), less what a ring of
+/// caliper `caliper` (m) spinning at the surface speed `v` (m/s) needs to hold itself (thin ring,
+/// rho c v^2) and the hoop strain `air` lost to entrained air (times E c); never below zero.
+pub(super) fn effective_wit(
+    mat: &Material,
+    tension: f64,
+    nip_q: f64,
+    t_web: f64,
+    caliper: f64,
+    v: f64,
+    air: f64,
+) -> f64 {
+    let nip_part = nip_tension(mat.friction, nip_q, t_web);
+    let spin = mat.density_kg_m3 * caliper * v * v;
+    (tension + nip_part - spin - mat.md_modulus_pa * caliper * air).max(0.0)
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;

@@ -308,7 +308,6 @@ fn accrete(
         .map(|_| LaneState::new(grid.clone(), &model))
         .collect();
     let v = input.winding.speed_m_s;
-    let rho = mat.density_kg_m3;
     let mut radii = vec![rc; n];
     // the web's own lane strains (a tension profile at winding) come in unlevelled: they are the
     // tensions the lanes carried in the free span
@@ -345,10 +344,7 @@ fn accrete(
             tens[i] = stiff[i] * (e0 + offs[i]).max(0.0);
         }
         for (i, st) in states.iter_mut().enumerate() {
-            // effective wound-in tension: web + the lane's nip part, less what a ring spinning at
-            // the surface speed needs to hold itself (thin ring, rho c v^2) and the air's loss
-            let nip_part = coupling::nip_tension(mat.friction, nip_q[i], t_web);
-            let wit = (tens[i] + nip_part - rho * cal[i] * v * v - stiff[i] * air).max(0.0);
+            let wit = coupling::effective_wit(mat, tens[i], nip_q[i], t_web, cal[i], v, air);
             // hoop stress on the grid: force over the compressed layer thickness, so that each
             // step adds pressure p r = sigma_w h (radial equilibrium holds exactly)
             let sigma_w = wit / c_eff;
