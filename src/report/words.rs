@@ -388,7 +388,7 @@ fn condensation(c: &crate::note::Condensed) -> String {
         ends,
     } = *c;
     format!(
-            "storage stretch {}: the roll came in at {:.1} C, below the air's dew point {:.1} C: water condenses on the {} for about {:.0} min ({:.0} g/m2, up to {:+.1} points of moisture in the outer 2 mm of wraps); the model's moisture field does not include it, so the outer wraps and ends may be wetter than predicted. Let rolls warm up wrapped in film before unwrapping (common practice)",
+            "storage stretch {}: the roll came in at {:.1} C, below the air's dew point {:.1} C: water condenses on the {} for about {:.0} min ({:.0} g/m2, up to {:+.1} points of moisture in the outer 2 mm of wraps); the model puts it into the paper at the wet faces as the stretch begins (outer wraps and end cells), so the diagnosis includes it. Let rolls warm up wrapped in film before unwrapping (common practice)",
             stretch + 1,
             roll_k - crate::units::ZERO_C_K,
             dew_point_k - crate::units::ZERO_C_K,

@@ -193,7 +193,17 @@ pub fn moisture(
     };
     let surf: Vec<Surfaces> = tl.stretches.iter().map(|s| surfaces(input, s)).collect();
     let mut mc = vec![sample(&field)];
+    // condensation on a cold roll taken into warm humid air: the water goes into the faces it
+    // condensed on as the stretch begins (it condenses within minutes to hours of arrival)
+    let wet = super::condensation::check(&tl.stretches);
+    let mut entered = usize::MAX;
     for st in &tl.steps {
+        if st.stretch != entered {
+            entered = st.stretch;
+            for c in wet.iter().filter(|c| c.stretch == st.stretch) {
+                field.deposit(c.water_kg_m2, c.barrel, c.ends, m.density_kg_m3);
+            }
+        }
         field.step(st.dt, &surf[st.stretch]);
         mc.push(sample(&field));
     }
