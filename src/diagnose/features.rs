@@ -152,8 +152,7 @@ impl Unwind {
             .map(|l| l.strain_at_unwind[last] * 1e3)
             .collect();
         let w = lanes.widths();
-        let wsum: f64 = w.iter().sum();
-        let mean_w = s.iter().zip(&w).map(|(a, b)| a * b).sum::<f64>() / wsum;
+        let mean_w = weighted_mean(&s, &w);
         let (imax, smax) =
             s.iter().enumerate().fold(
                 (0, f64::NEG_INFINITY),
@@ -323,7 +322,7 @@ fn web_share(aged: &Aged, u: &Unwind) -> f64 {
     if excess.is_nan() || excess <= 0.0 || web.is_empty() {
         return 0.0;
     }
-    let wbar = web.iter().zip(&u.w).map(|(a, b)| a * b).sum::<f64>() / u.w.iter().sum::<f64>();
+    let wbar = weighted_mean(&web, &u.w);
     ((web[u.imax] - wbar) / excess).clamp(0.0, 1.0)
 }
 
