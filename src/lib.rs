@@ -28,6 +28,7 @@ pub mod note;
 pub mod numeric;
 pub mod report;
 pub mod rules;
+pub mod stats;
 pub mod storage;
 pub mod units;
 pub mod vocab;

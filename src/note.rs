@@ -130,6 +130,21 @@ pub enum Note {
     /// beyond the readings' repeatability: shown as a warning (the winding model, its lanes or
     /// its inputs do not describe this roll as wound).
     WindingDiameter(DiameterMismatch),
+    /// A later survey contradicts the model with pooled creep at `lanes` lanes (`fit::contradict`):
+    /// the lane's change since the first survey lies clearly on the other side of the roll's
+    /// change from the prediction. The worst lane is named.
+    SurveyContradicts {
+        what: crate::case::Measure,
+        /// Age of the survey, s.
+        age_s: f64,
+        lanes: usize,
+        /// Worst lane's centre, m; its predicted and measured change against the roll's, and
+        /// the change's one-sigma noise (hardness units, or m of diameter).
+        position_m: f64,
+        predicted: f64,
+        measured: f64,
+        sigma: f64,
+    },
 }
 
 /// Predicted against measured diameter profile at winding ([`Note::WindingDiameter`]); both as
@@ -289,6 +304,7 @@ impl Note {
                 | Note::LaneNotExplained { .. }
                 | Note::RollNotExplained { .. }
                 | Note::WindingDiameter(_)
+                | Note::SurveyContradicts { .. }
         ) || matches!(self, Note::FindingOnWeakLanes { unexplained, .. } if *unexplained > 0)
     }
 }

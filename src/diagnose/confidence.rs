@@ -14,11 +14,15 @@
 //!   identify, which the fit keeps at the pooled value). A finding stands above noise when the
 //!   noise-free uniform roll already fires its rule's deciding condition (the first; the pattern
 //!   comes from winding or storage, not from the lanes), or when the chance that noise alone moves
-//!   the deciding feature as far from the uniform roll is at most [`FAMILY_LEVEL`] shared over the
-//!   deciding features tested (Bonferroni), so noise alone puts up any finding at all in at most
-//!   5 % of rolls. The chance comes from a normal fitted to the noise rolls' deviations, and is
-//!   never below 1 / ([`NOISE_ROLLS`] + 1) while a noise roll deviates as far (a guard where the
-//!   tail is heavier than normal); for a
+//!   the deciding feature as far from the uniform roll, on the side the condition looks at, is at
+//!   most [`FAMILY_LEVEL`] shared over the one-sided tests of the deciding conditions
+//!   (Bonferroni), so noise alone puts up any finding at all in at most 1 % of rolls. The chance
+//!   is the tail of a new noise roll's signed deviation, predicted from the noise rolls with
+//!   Student's t (the sample spread of a few dozen rolls is itself uncertain; Hahn and Meeker
+//!   1991), and is never below 1 / ([`NOISE_ROLLS`] + 1) while a noise roll deviates as far on
+//!   that side (a guard where the tail is heavier than the model's). A rule that rests on the
+//!   web's own profile at winding (`web_length_share` above) may stand on that profile's test
+//!   ([`super::profile_test::web_test`]), one more test in the family; for a
 //!   caliper band (deciding feature `caliper_range_pct`) from the readings themselves
 //!   ([`BandTest`], Monte Carlo, no winding). A finding whose rule holds in fewer than half of
 //!   the plausible states is dropped too. Dropped findings get a note; a note states the
@@ -36,10 +40,9 @@
 //! **Invariant:** no prose; notes carry numbers (positions in m, lengths in mm per m of web).
 
 use super::features::{self, Features};
-use super::noise::{caliper_repeatability, noise_floor, Floor};
-pub use super::noise::{
-    FeatureFloor, BAND_DRAWS, FAMILY_LEVEL, FLOOR_QUANTILE, NOISE_NODES, NOISE_ROLLS,
-};
+use super::noise::{caliper_repeatability, noise_floor, rests_on_web, Floor, Side};
+pub use super::noise::{FeatureFloor, FAMILY_LEVEL, FLOOR_QUANTILE, NOISE_NODES, NOISE_ROLLS};
+pub use super::profile_test::BAND_DRAWS;
 use super::{DiagnoseError, Finding, Fitted};
 use crate::case::Case;
 use crate::fit::{posterior, prepared, with_lab_creep, FitError};
@@ -138,6 +141,8 @@ pub fn assess(
 struct NoiseTest<'a> {
     /// Floor of the deciding feature (`None`: the rule has no tested feature, so it stands).
     floor: Option<&'a FeatureFloor>,
+    /// Side of the deciding condition tested.
+    side: Side,
     /// The noise-free uniform roll already fires the deciding condition (the pattern comes from
     /// winding or storage, not from the lanes).
     own: bool,
@@ -159,22 +164,9 @@ impl NoiseTest<'_> {
     }
 }
 
-/// Chance that a noise deviation (mean `m`, standard deviation `sd`) reaches `d`: the upper tail
-/// of a normal fitted to the noise rolls' deviations (a parametric bootstrap, Efron and
-/// Tibshirani 1993, ch. 6).
-fn gaussian_chance(d: f64, m: f64, sd: f64) -> f64 {
-    if sd > 0.0 {
-        0.5 * crate::numeric::erfc((d - m) / sd / std::f64::consts::SQRT_2)
-    } else if d > m * (1.0 + 1e-9) + 1e-12 {
-        0.0
-    } else {
-        1.0
-    }
-}
-
 /// The noise test of rule `r` on the diagnosed roll's features.
 fn noise_test<'a>(r: &Rule, feats: &Features, fl: &'a Floor) -> NoiseTest<'a> {
-    let level = FAMILY_LEVEL / fl.floors.len().max(1) as f64;
+    let level = fl.level;
     let found = r.when.first().and_then(|c| {
         fl.floors
             .iter()
@@ -184,6 +176,7 @@ fn noise_test<'a>(r: &Rule, feats: &Features, fl: &'a Floor) -> NoiseTest<'a> {
     let Some((c, x)) = found else {
         return NoiseTest {
             floor: None,
+            side: Side::Both,
             own: true,
             chance: 0.0,
             level,
@@ -202,21 +195,24 @@ fn noise_test<'a>(r: &Rule, feats: &Features, fl: &'a Floor) -> NoiseTest<'a> {
                     | Feature::DiameterRidgePerMille
             )
     });
-    let d = (feats.get(c.feature) - x.uniform).abs();
-    let mut own_chance = gaussian_chance(d, x.noise_mean, x.noise_sd);
-    if d <= x.noise_max {
-        // within what the noise rolls themselves reached: never below the empirical share
-        own_chance = own_chance.max(1.0 / (NOISE_ROLLS + 1) as f64);
-    }
+    let side = Side::of(c);
+    let own_chance = x.chance(feats.get(c.feature) - x.uniform, side);
+    // a rule that rests on the web's own profile at winding may stand on that profile's test,
+    // counted in the family as one more test
+    let web_chance = match &fl.web {
+        Some(w) if r.when.iter().any(rests_on_web) => w.chance,
+        Some(_) | None => 1.0,
+    };
     let chance = if c.feature == Feature::CaliperRangePct {
         fl.band.chance
     } else if on_caliper {
         fl.band.chance.min(own_chance)
     } else {
-        own_chance
+        own_chance.min(web_chance)
     };
     NoiseTest {
         floor: Some(x),
+        side,
         own: c.holds(x.uniform),
         chance,
         level,
@@ -247,7 +243,11 @@ fn drop_below_floor(
                 feature: x.feature,
                 value: feats.get(x.feature),
                 uniform: x.uniform,
-                threshold: x.threshold,
+                threshold: match t.side {
+                    Side::Up => x.threshold_above,
+                    Side::Down => x.threshold_below,
+                    Side::Both => x.threshold_above.max(x.threshold_below),
+                },
                 noise_chance: t.chance,
                 level: t.level,
             });

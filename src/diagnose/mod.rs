@@ -11,6 +11,7 @@ pub mod corrections;
 pub mod features;
 pub mod local;
 mod noise;
+mod profile_test;
 pub mod quantity;
 pub mod unwind;
 mod whatif;

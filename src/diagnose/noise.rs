@@ -8,6 +8,7 @@
 //! id and a fixed offset, in a fixed order; the rolls run in parallel and are collected in order.
 
 use super::features::{self, Features};
+use super::profile_test::{band_test, web_test, BandTest};
 use super::{DiagnoseError, Fitted};
 use crate::case::{Case, Measure};
 use crate::fit::{creep_from, posterior, prepared, FitError};
@@ -21,7 +22,8 @@ use rand::{Rng, SeedableRng};
 use rand_chacha::ChaCha8Rng;
 use serde::Serialize;
 
-/// Uniform rolls made of measurement noise alone.
+/// Uniform rolls made of measurement noise alone (the spread they give is itself uncertain, by
+/// about 15 % at 24 rolls: the noise test's Student-t prediction bound carries that).
 pub const NOISE_ROLLS: usize = 24;
 
 /// Quantile of the noise-only deviations that sets the floor.
@@ -33,15 +35,14 @@ pub const NOISE_NODES: usize = 61;
 /// Family-wise level of the noise test: the chance that noise alone puts up any finding at all
 /// is held to 5 % by splitting it evenly over the deciding features tested (Bonferroni; Dunn
 /// 1961, "Multiple comparisons among means").
-pub const FAMILY_LEVEL: f64 = 0.05;
-
-/// Noise-only caliper profiles drawn for the band test (cheap: no winding).
-pub const BAND_DRAWS: usize = 4000;
+pub const FAMILY_LEVEL: f64 = 0.01;
 
 /// Seed offset of the noise rolls (distinct from any lane index of the sampler).
 const NOISE_SEED_LANE: usize = 1 << 20;
 
-/// What measurement noise alone makes of a feature.
+/// What measurement noise alone makes of a feature. Deviations are signed (noisy - uniform), so
+/// a skewed response (thick lanes concentrate load, thin ones cannot take it below zero) keeps
+/// its sides apart.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct FeatureFloor {
     pub feature: Feature,
@@ -49,14 +50,90 @@ pub struct FeatureFloor {
     pub uniform: f64,
     /// 95 % quantile of |noisy - uniform| over the noise rolls (feature's own unit).
     pub floor: f64,
-    /// Mean, standard deviation and largest of |noisy - uniform| over the noise rolls (feature's
-    /// own unit).
+    /// Mean and standard deviation of the signed deviation noisy - uniform over the noise rolls
+    /// (feature's own unit).
     pub noise_mean: f64,
     pub noise_sd: f64,
+    /// Smallest and largest signed deviation over the noise rolls (feature's own unit).
+    pub noise_min: f64,
     pub noise_max: f64,
-    /// The smallest |value - uniform| that stands above noise at the family-wise level (feature's
-    /// own unit).
-    pub threshold: f64,
+    /// The smallest rise above, and fall below, the uniform value that stands above noise at the
+    /// test's level (positive, feature's own unit): the Student-t prediction bound of the noise
+    /// rolls ([`crate::stats`]), never inside what the noise rolls themselves reached.
+    pub threshold_above: f64,
+    pub threshold_below: f64,
+}
+
+/// Side of a deciding condition the noise test looks at.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub(super) enum Side {
+    /// `above` only: noise must not raise the feature this far.
+    Up,
+    /// `below` only: noise must not lower it this far.
+    Down,
+    /// A range: either way (two one-sided tests).
+    Both,
+}
+
+impl Side {
+    pub(super) fn of(c: &crate::rules::Condition) -> Side {
+        match (c.above.is_some(), c.below.is_some()) {
+            (true, false) => Side::Up,
+            (false, true) => Side::Down,
+            (true, true) | (false, false) => Side::Both,
+        }
+    }
+
+    /// One-sided tests this side counts for in the family.
+    fn tests(self) -> usize {
+        match self {
+            Side::Up | Side::Down => 1,
+            Side::Both => 2,
+        }
+    }
+}
+
+impl FeatureFloor {
+    /// Chance that measurement noise alone moves the feature `d` (signed, value - uniform) or
+    /// further on `side`: the upper or lower tail of a new noise roll's deviation, predicted as
+    /// mean + sd sqrt(1 + 1/n) T with T Student's t on n - 1 degrees of freedom (Hahn and
+    /// Meeker 1991, section 4.4); both sides take twice the smaller tail. Within what the noise
+    /// rolls themselves reached on that side, never below the empirical share 1 / (n + 1).
+    pub(super) fn chance(&self, d: f64, side: Side) -> f64 {
+        let n = NOISE_ROLLS as f64;
+        let scale = self.noise_sd * (1.0 + 1.0 / n).sqrt();
+        let tail = |excess: f64| {
+            if scale > 0.0 {
+                crate::stats::student_t_sf(excess / scale, n - 1.0)
+            } else if excess > 1e-9 * self.noise_mean.abs() + 1e-12 {
+                0.0
+            } else {
+                1.0
+            }
+        };
+        let floor = 1.0 / (n + 1.0);
+        let up = || {
+            let c = tail(d - self.noise_mean);
+            if d <= self.noise_max {
+                c.max(floor)
+            } else {
+                c
+            }
+        };
+        let down = || {
+            let c = tail(self.noise_mean - d);
+            if d >= self.noise_min {
+                c.max(floor)
+            } else {
+                c
+            }
+        };
+        match side {
+            Side::Up => up(),
+            Side::Down => down(),
+            Side::Both => (2.0 * up().min(down())).min(1.0),
+        }
+    }
 }
 
 /// The caliper repeatability of a case, m, and its source.
@@ -72,7 +149,7 @@ pub(super) fn caliper_repeatability(case: &Case) -> (f64, String) {
 }
 
 /// A standard normal draw (Box-Muller).
-fn normal(rng: &mut ChaCha8Rng) -> f64 {
+pub(super) fn normal(rng: &mut ChaCha8Rng) -> f64 {
     let u1: f64 = rng.random::<f64>().max(1e-300);
     let u2: f64 = rng.random::<f64>();
     (-2.0 * u1.ln()).sqrt() * (std::f64::consts::TAU * u2).cos()
@@ -82,7 +159,12 @@ fn normal(rng: &mut ChaCha8Rng) -> f64 {
 /// resolution note.
 pub(super) struct Floor {
     pub(super) floors: Vec<FeatureFloor>,
+    /// Level each one-sided test must meet: [`FAMILY_LEVEL`] over the one-sided tests of the
+    /// table's deciding conditions (a range counts twice).
+    pub(super) level: f64,
     pub(super) band: BandTest,
+    /// The test of the web's tension or moisture profile at winding, when the case has one.
+    pub(super) web: Option<BandTest>,
     pub(super) resolution: Note,
 }
 
@@ -199,61 +281,47 @@ fn noisy_creep(lab: &Case, fit: &crate::fit::RollFit, rng: &mut ChaCha8Rng) -> V
         .collect()
 }
 
-/// The caliper band test on the readings themselves: the largest deviation of a reading from the
-/// readings' median in units of the caliper repeatability, against the same statistic of
-/// [`BAND_DRAWS`] noise-only profiles with as many readings. A single high reading counts at its
-/// own size, where a range over lanes would add the noise of the lowest lane and of lanes
-/// extrapolated to the edges.
-pub(super) struct BandTest {
-    /// Monte Carlo chance that noise alone reaches the observed statistic, (count + 1) /
-    /// (draws + 1) (Davison and Hinkley 1997, eq. 4.11).
-    pub(super) chance: f64,
-    /// Quantile of the noise statistic at the test's level, repeatability units.
-    threshold_sigmas: f64,
-}
-
-/// Largest |reading - median of the readings|, in the readings' unit.
-fn band_statistic(v: &[f64]) -> f64 {
-    let mut s = v.to_vec();
-    s.sort_by(f64::total_cmp);
-    let n = s.len();
-    if n == 0 {
-        return 0.0;
-    }
-    let med = if n % 2 == 1 {
-        s[n / 2]
-    } else {
-        0.5 * (s[n / 2 - 1] + s[n / 2])
-    };
-    v.iter().map(|x| (x - med).abs()).fold(0.0, f64::max)
-}
-
-/// The band test of the case's caliper readings (the caliper profile with the most readings; the
-/// lanes' calipers when the case has none) at `level`.
-fn band_test(lab: &Case, lanes: &Lanes, rep: f64, level: f64, rng: &mut ChaCha8Rng) -> BandTest {
-    let readings: Vec<f64> = lab
-        .profiles
-        .iter()
-        .filter(|p| p.what == Measure::Caliper)
-        .fold(None::<&crate::case::Profile>, |best, p| match best {
-            Some(b) if b.values.len() >= p.values.len() => Some(b),
-            _ => Some(p),
-        })
-        .map(|p| p.values.clone())
-        .unwrap_or_else(|| lanes.lanes.iter().map(|l| l.caliper_m).collect());
-    let observed = band_statistic(&readings) / rep.max(1e-12);
-    let mut noise: Vec<f64> = (0..BAND_DRAWS)
+/// Features of [`NOISE_ROLLS`] noise-only uniform rolls at `nodes` (drawn in a fixed order from
+/// `rng`, run in parallel, collected in order), with caliper noise `rep` (m).
+fn noise_rolls(
+    lab: &Case,
+    fitted: &Fitted,
+    rep: f64,
+    nodes: usize,
+    rng: &mut ChaCha8Rng,
+) -> Result<Vec<Features>, DiagnoseError> {
+    use rayon::prelude::*;
+    let inputs: Vec<(Lanes, Vec<LaneCreep>)> = (0..NOISE_ROLLS)
         .map(|_| {
-            let v: Vec<f64> = (0..readings.len()).map(|_| normal(rng)).collect();
-            band_statistic(&v)
+            let l = uniform_lanes(lab, &fitted.lanes, Some((&mut *rng, rep)));
+            (l, noisy_creep(lab, &fitted.fit, &mut *rng))
         })
         .collect();
-    noise.sort_by(f64::total_cmp);
-    let count = noise.iter().filter(|x| **x >= observed).count();
-    BandTest {
-        chance: (count + 1) as f64 / (BAND_DRAWS + 1) as f64,
-        threshold_sigmas: posterior::quantile(&noise, 1.0 - level),
+    inputs
+        .par_iter()
+        .map(|(l, c)| roll_features(lab, l, c, nodes))
+        .collect()
+}
+
+/// The one-sided tests of `table`'s deciding conditions (first condition of each rule; a range
+/// counts twice) and one for the web-profile test when a rule rests on the web: the deciding
+/// (feature, side) pairs and the number of tests.
+fn deciding_tests(table: &Table) -> (Vec<(Feature, Side)>, usize) {
+    let mut deciding: Vec<(Feature, Side)> = Vec::new();
+    for c in table.rules.iter().filter_map(|r| r.when.first()) {
+        let t = (c.feature, Side::of(c));
+        if !deciding.contains(&t) {
+            deciding.push(t);
+        }
     }
+    let web = table.rules.iter().any(|r| r.when.iter().any(rests_on_web));
+    let tests = deciding.iter().map(|(_, s)| s.tests()).sum::<usize>() + usize::from(web);
+    (deciding, tests)
+}
+
+/// A condition that makes a rule rest on the web's own profile at winding.
+pub(super) fn rests_on_web(c: &crate::rules::Condition) -> bool {
+    c.feature == Feature::WebLengthShare && c.above.is_some()
 }
 
 /// Floors of the deciding features of `table`'s rules from [`NOISE_ROLLS`] noise-only uniform
@@ -267,7 +335,6 @@ pub(super) fn noise_floor(
     table: &Table,
     nodes: usize,
 ) -> Result<Floor, DiagnoseError> {
-    use rayon::prelude::*;
     let fit = &fitted.fit;
     let (rep, _) = caliper_repeatability(lab);
     let l0 = uniform_lanes(lab, &fitted.lanes, None);
@@ -283,59 +350,59 @@ pub(super) fn noise_floor(
     let coarse = nodes.min(NOISE_NODES);
     let clean = roll_features(lab, &l0, &pooled, coarse)?;
     let mut rng = ChaCha8Rng::seed_from_u64(posterior::seed_for(&lab.id, NOISE_SEED_LANE));
-    let inputs: Vec<(Lanes, Vec<LaneCreep>)> = (0..NOISE_ROLLS)
-        .map(|_| {
-            let l = uniform_lanes(lab, &fitted.lanes, Some((&mut rng, rep)));
-            (l, noisy_creep(lab, fit, &mut rng))
-        })
-        .collect();
-    let rolls: Vec<Features> = inputs
-        .par_iter()
-        .map(|(l, c)| roll_features(lab, l, c, coarse))
-        .collect::<Result<_, _>>()?;
-    let mut deciding: Vec<Feature> = Vec::new();
-    for c in table.rules.iter().filter_map(|r| r.when.first()) {
-        if !deciding.contains(&c.feature) {
-            deciding.push(c.feature);
-        }
-    }
-    let level = FAMILY_LEVEL / deciding.len().max(1) as f64;
-    let z = crate::numeric::normal_upper_quantile(level);
+    let rolls = noise_rolls(lab, fitted, rep, coarse, &mut rng)?;
+    let (deciding, tests) = deciding_tests(table);
+    let level = FAMILY_LEVEL / tests.max(1) as f64;
+    let n = rolls.len().max(1) as f64;
+    let q = crate::stats::student_t_isf(level, (n - 1.0).max(1.0)) * (1.0 + 1.0 / n).sqrt();
     let band = band_test(lab, &fitted.lanes, rep, level, &mut rng);
+    let web = web_test(lab, level, &mut rng);
     let band_pct = band.threshold_sigmas * rep / fitted.lanes.mean_caliper_m.max(1e-12) * 100.0;
     let floor_of = |x: Feature| {
-        let mut v: Vec<f64> = rolls
-            .iter()
-            .map(|f| (f.get(x) - clean.get(x)).abs())
-            .collect();
+        let dev: Vec<f64> = rolls.iter().map(|f| f.get(x) - clean.get(x)).collect();
+        let mut v: Vec<f64> = dev.iter().map(|d| d.abs()).collect();
         v.sort_by(f64::total_cmp);
-        let n = v.len().max(1) as f64;
-        let m = v.iter().sum::<f64>() / n;
-        let sd = (v.iter().map(|d| (d - m).powi(2)).sum::<f64>() / (n - 1.0).max(1.0)).sqrt();
+        let m = dev.iter().sum::<f64>() / n;
+        let sd = (dev.iter().map(|d| (d - m).powi(2)).sum::<f64>() / (n - 1.0).max(1.0)).sqrt();
+        let lo = dev.iter().copied().fold(0.0, f64::min);
+        let hi = dev.iter().copied().fold(0.0, f64::max);
+        let (above, below) = if x == Feature::CaliperRangePct {
+            (band_pct, band_pct)
+        } else {
+            ((m + q * sd).max(hi), (q * sd - m).max(-lo))
+        };
         FeatureFloor {
             feature: x,
             uniform: uniform.get(x),
             floor: posterior::quantile(&v, FLOOR_QUANTILE),
             noise_mean: m,
             noise_sd: sd,
-            noise_max: v.last().copied().unwrap_or(0.0),
-            threshold: if x == Feature::CaliperRangePct {
-                band_pct
-            } else {
-                (m + z * sd).max(v.last().copied().unwrap_or(0.0))
-            },
+            noise_min: lo,
+            noise_max: hi,
+            threshold_above: above.max(0.0),
+            threshold_below: below.max(0.0),
         }
     };
-    let floors: Vec<FeatureFloor> = deciding.iter().map(|x| floor_of(*x)).collect();
+    let mut floors: Vec<FeatureFloor> = Vec::new();
+    for (x, _) in &deciding {
+        if !floors.iter().any(|f| f.feature == *x) {
+            floors.push(floor_of(*x));
+        }
+    }
     let resolution = Note::Resolution {
         caliper_repeatability_m: rep,
         band_m: band.threshold_sigmas * rep,
-        lane_excess_mm_per_m: floor_of(Feature::LocalPeakMmPerM).threshold,
-        centre_edges_mm_per_m: floor_of(Feature::CentreMinusEdgesMmPerM).threshold,
+        lane_excess_mm_per_m: floor_of(Feature::LocalPeakMmPerM).threshold_above,
+        centre_edges_mm_per_m: {
+            let f = floor_of(Feature::CentreMinusEdgesMmPerM);
+            f.threshold_above.max(f.threshold_below)
+        },
     };
     Ok(Floor {
         floors,
+        level,
         band,
+        web,
         resolution,
     })
 }

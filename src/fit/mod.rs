@@ -2,6 +2,7 @@
 //!
 //! **Invariant:** sees the physics only through [`crate::storage`]'s lane evaluation; no I/O.
 
+pub mod contradict;
 pub mod creep_curve;
 mod hardness;
 mod lane_fit;
@@ -128,6 +129,9 @@ pub struct RollFit {
     pub spread_mm_per_m: f64,
     pub prior_sd_ln: f64,
     pub noise: Noise,
+    /// Lanes whose later survey contradicts the model with pooled creep, before the per-lane
+    /// fit ([`contradict`]).
+    pub contradictions: Vec<contradict::Contradiction>,
     /// Total model evaluations (lane simulations).
     pub evaluations: u64,
     pub notes: Vec<Note>,
@@ -225,6 +229,9 @@ pub fn fit_roll(
         .collect();
     let (pooled, pooled_evaluations) = pooled_fit(&problems)?;
     let prior = [pooled.theta[0], pooled.theta[1]];
+    let contradictions =
+        contradict::contradictions(&problems, &prior, &lanes.positions(), &lanes.widths());
+    notes.extend(contradiction_notes(&contradictions));
     let (fits, lane_evaluations) = lane_fits(&problems, prior, &case.id)?;
     if problems.iter().all(|p| p.steps == 0) {
         notes.push(Note::OneAge);
@@ -244,10 +251,42 @@ pub fn fit_roll(
         spread_mm_per_m: spread_strain * 1e3,
         prior_sd_ln: PRIOR_SD_LN,
         noise: noise(case),
+        contradictions,
         evaluations: pooled_evaluations + lane_evaluations,
         notes,
         aged,
     })
+}
+
+/// One note per contradicted survey, naming its worst lane (largest gap between prediction and
+/// survey in noise units).
+fn contradiction_notes(found: &[contradict::Contradiction]) -> Vec<Note> {
+    let mut notes: Vec<Note> = Vec::new();
+    let gap = |c: &contradict::Contradiction| (c.measured - c.predicted).abs() / c.sigma;
+    for c in found {
+        let same = |n: &Note| matches!(n, Note::SurveyContradicts { what, age_s, .. } if *what == c.what && *age_s == c.age_s);
+        if notes.iter().any(same) {
+            continue;
+        }
+        let group: Vec<&contradict::Contradiction> = found
+            .iter()
+            .filter(|d| d.what == c.what && d.age_s == c.age_s)
+            .collect();
+        let worst = group
+            .iter()
+            .copied()
+            .fold(c, |a, d| if gap(d) > gap(a) { d } else { a });
+        notes.push(Note::SurveyContradicts {
+            what: c.what,
+            age_s: c.age_s,
+            lanes: group.len(),
+            position_m: worst.position_m,
+            predicted: worst.predicted,
+            measured: worst.measured,
+            sigma: worst.sigma,
+        });
+    }
+    notes
 }
 
 /// The pooled fit of one pair of scales on up to six evenly spread lanes, with a prior towards

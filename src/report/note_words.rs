@@ -25,11 +25,12 @@ pub(super) fn confidence_note(n: &Note) -> String {
             noise_chance,
             level,
         } => format!(
-            "{} not reported: measurement noise alone moves {} this far with a chance of {} % (a finding needs {} % or less: 5 % shared over the features tested); {} against a uniform roll's {}, while standing above noise takes a difference of {}",
+            "{} not reported: measurement noise alone moves {} this far with a chance of {} % (a finding needs {} % or less: {} % shared over the one-sided tests); {} against a uniform roll's {}, while standing above noise takes a difference of {}",
             defect_name(defect),
             feature_name(feature),
             crate::units::sig(noise_chance * 100.0, 2),
             crate::units::sig(level * 100.0, 2),
+            crate::units::sig(crate::diagnose::confidence::FAMILY_LEVEL * 100.0, 2),
             crate::units::sig(value, 3),
             crate::units::sig(uniform, 3),
             crate::units::sig(threshold, 2)
@@ -45,11 +46,12 @@ pub(super) fn confidence_note(n: &Note) -> String {
             lane_excess_mm_per_m,
             centre_edges_mm_per_m,
         } => format!(
-            "resolution of these measurements (caliper read to {:.1} um, one sigma): a caliper band must exceed {:.1} um, a lane's excess length over the web around it {:.3} % and centre against edges {:.3} % of the web length to stand above noise (a 5 % chance, shared over the features tested, that noise alone does it)",
+            "resolution of these measurements (caliper read to {:.1} um, one sigma): a caliper band must exceed {:.1} um, a lane's excess length over the web around it {:.3} % and centre against edges {:.3} % of the web length to stand above noise (a {} % chance, shared over the one-sided tests, that noise alone does it)",
             caliper_repeatability_m * 1e6,
             band_m * 1e6,
             lane_excess_mm_per_m / 10.0,
-            centre_edges_mm_per_m / 10.0
+            centre_edges_mm_per_m / 10.0,
+            crate::units::sig(crate::diagnose::confidence::FAMILY_LEVEL * 100.0, 2)
         ),
         Note::LaneNotExplained { position_m, misfit } => format!(
             "the lane at {:.0} mm is not explained by the model: its readings miss the fit by {misfit:.1} noise units (rms; over 3)",
@@ -81,5 +83,40 @@ pub(super) fn winding_diameter(m: &DiameterMismatch) -> String {
         m.measured_m * 1e3,
         m.tolerance_m * 1e3,
         m.lanes
+    )
+}
+
+/// A later survey against the model with pooled creep ([`Note::SurveyContradicts`]).
+pub(super) fn survey_contradicts(n: &Note) -> String {
+    let Note::SurveyContradicts {
+        what,
+        age_s,
+        lanes,
+        position_m,
+        predicted,
+        measured,
+        sigma,
+    } = *n
+    else {
+        return String::new();
+    };
+    let (scale, unit, more, less) = match what {
+        crate::case::Measure::Hardness => (1.0, " units", "harder", "softer"),
+        crate::case::Measure::Diameter
+        | crate::case::Measure::Caliper
+        | crate::case::Measure::Tension
+        | crate::case::Measure::Moisture => (1e3, " mm", "larger", "smaller"),
+    };
+    let side = |v: f64| if v > 0.0 { more } else { less };
+    format!(
+        "the {} survey at {:.0} d contradicts the model at {lanes} lane(s): at {:.0} mm the model (pooled creep) has the lane's change since the first survey {} than the roll's by {:.2}{unit}, the survey {} by {:.2}{unit} (noise {:.2}{unit}, one sigma); the per-lane fit absorbs it with that lane's own creep, so findings on those lanes rest on creep the model does not explain: check those readings, and whether something outside the model acted there (a wet or damaged zone, a reading taken elsewhere)",
+        super::words::measure(what),
+        age_s / DAY_S,
+        position_m * 1e3,
+        side(predicted),
+        predicted.abs() * scale,
+        side(measured),
+        measured.abs() * scale,
+        sigma * scale,
     )
 }

@@ -267,6 +267,7 @@ pub fn note(n: &Note) -> String {
         ),
         Note::Limit(l) => limit(&l),
         Note::WindingDiameter(m) => super::note_words::winding_diameter(&m),
+        Note::SurveyContradicts { .. } => super::note_words::survey_contradicts(n),
     }
 }
 
