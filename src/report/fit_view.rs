@@ -138,6 +138,22 @@ pub fn json(c: &Case, f: &RollFit) -> Value {
         "spread_mm_per_m": f.spread_mm_per_m,
         "prior_sd_ln": f.prior_sd_ln,
         "noise": f.noise,
+        "contradictions": f.contradictions.iter().map(|k| json!({
+            "what": super::words::measure(k.what),
+            "age_s": k.age_s,
+            "position_m": k.position_m,
+            // hardness in scale units, diameter in m
+            "unit": match k.what {
+                crate::case::Measure::Hardness => "hardness_units",
+                crate::case::Measure::Diameter
+                | crate::case::Measure::Caliper
+                | crate::case::Measure::Tension
+                | crate::case::Measure::Moisture => "m",
+            },
+            "predicted_change_vs_roll": k.predicted,
+            "measured_change_vs_roll": k.measured,
+            "noise_sd": k.sigma,
+        })).collect::<Vec<_>>(),
         "evaluations": f.evaluations,
         "notes": notes,
         "warnings": warnings,
