@@ -121,7 +121,8 @@ pub enum Note {
     /// identify (kept at the pooled value).
     FindingOnWeakLanes {
         defect: Defect,
-        /// Lanes the finding names, of which not explained, of which with a scale not identified.
+        /// Lanes the finding names, of which not explained (misfit over 3 noise units, or a
+        /// later survey contradicts the model there), of which with a scale not identified.
         lanes: usize,
         unexplained: usize,
         unidentified: usize,

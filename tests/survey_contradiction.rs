@@ -111,5 +111,19 @@ fn a_survey_the_model_explains_is_not_flagged_and_a_mirrored_lane_is() {
             .find(|n| matches!(n, Note::SurveyContradicts { .. }))
             .unwrap_or_else(|| panic!("{file}: {:?}", f.notes));
         assert!(note.is_warning());
+        // diagnose carries the warning too
+        let opt = rollsleuth::diagnose::DiagnoseOptions {
+            nodes: 61,
+            what_if: false,
+        };
+        let table = rollsleuth::rules::load_default().unwrap();
+        let d = rollsleuth::diagnose::diagnose(&c, &table, &opt).unwrap();
+        assert!(
+            d.notes
+                .iter()
+                .any(|n| matches!(n, Note::SurveyContradicts { .. }) && n.is_warning()),
+            "{file}: {:?}",
+            d.notes
+        );
     }
 }

@@ -411,8 +411,20 @@ fn consistency_notes(
             misfit: roll_misfit,
         });
     }
+    // a later survey that contradicts the model there leaves a lane unexplained too
+    let contradicted = |i: usize| {
+        fitted
+            .fit
+            .contradictions
+            .iter()
+            .any(|k| (k.position_m - lanes[i].position_m).abs() < 1e-9)
+    };
     for f in findings {
-        let unexplained = f.lanes.iter().filter(|r| !lanes[r.index].explained).count();
+        let unexplained = f
+            .lanes
+            .iter()
+            .filter(|r| !lanes[r.index].explained || contradicted(r.index))
+            .count();
         let unidentified = f
             .lanes
             .iter()
