@@ -343,17 +343,23 @@ fn accrete(
         for i in 0..n {
             tens[i] = stiff[i] * (e0 + offs[i]).max(0.0);
         }
+        // the sub-steps of this grid step are the same for every lane: planned once
+        let plan = states
+            .first()
+            .map(|st| st.plan(&model, k))
+            .unwrap_or_default();
         for (i, st) in states.iter_mut().enumerate() {
             let wit = coupling::effective_wit(mat, tens[i], nip_q[i], t_web, cal[i], v, air);
             // hoop stress on the grid: force over the compressed layer thickness, so that each
             // step adds pressure p r = sigma_w h (radial equilibrium holds exactly)
             let sigma_w = wit / c_eff;
             last_wit[i] = wit;
-            st.add(&model, sigma_w, wit).map_err(|f| WindError::Solve {
-                lane: i,
-                step: f.step,
-                nodes,
-            })?;
+            st.add_planned(&model, &plan, sigma_w, wit)
+                .map_err(|f| WindError::Solve {
+                    lane: i,
+                    step: f.step,
+                    nodes,
+                })?;
         }
     }
     for (i, st) in states.iter_mut().enumerate() {
@@ -372,7 +378,15 @@ fn accrete(
 /// ln((built - rc) / (R - rc)), on a coarse grid of [`COARSE_NODES`] nodes (the build is a
 /// smooth integral of the strain; its discretisation error there is far below the 1 % of the
 /// stresses), to [`CALIPER_TOL`].
-fn compressed_caliper(input: &WindInput, lanes: &Lanes, opt: Options) -> Result<f64, WindError> {
+///
+/// When the coarse grid is the wanted grid (`opt.nodes` at most [`COARSE_NODES`]), the
+/// accretion of the last iterate is the wound state itself and is handed back, so it is not
+/// wound a second time.
+fn compressed_caliper(
+    input: &WindInput,
+    lanes: &Lanes,
+    opt: Options,
+) -> Result<(f64, Option<Accreted>), WindError> {
     let model = lane_model(input);
     let rc = 0.5 * input.roll.core_diameter_m;
     let big_r = 0.5 * input.roll.diameter_m;
@@ -380,16 +394,22 @@ fn compressed_caliper(input: &WindInput, lanes: &Lanes, opt: Options) -> Result<
     let width: f64 = widths.iter().sum();
     let cal = lanes.calipers();
     let coarse = COARSE_NODES.min(opt.nodes);
-    let miss = |x: f64| -> Result<f64, WindError> {
+    // the last iterate's accretion, kept when it is on the wanted grid
+    let mut last: Option<(f64, Accreted)> = None;
+    let mut miss = |x: f64| -> Result<f64, WindError> {
         let c_eff = x.exp();
-        let st = accrete(input, lanes, coarse, opt.levelling, c_eff)?.states;
-        let built = st
+        let acc = accrete(input, lanes, coarse, opt.levelling, c_eff)?;
+        let built = acc
+            .states
             .iter()
             .zip(&widths)
             .zip(&cal)
             .map(|((s, w), c)| w * s.outer_radius(&model, 1.0 / c_eff, *c))
             .sum::<f64>()
             / width;
+        if coarse == opt.nodes {
+            last = Some((x, acc));
+        }
         Ok(((built - rc) / (big_r - rc)).ln())
     };
     let mut x0 = lanes.mean_caliper_m.ln();
@@ -407,7 +427,8 @@ fn compressed_caliper(input: &WindInput, lanes: &Lanes, opt: Options) -> Result<
         let x2 = x1 - h1 * (x1 - x0) / (h1 - h0);
         (x0, h0, x1) = (x1, h1, x2);
     }
-    Ok(x1.exp())
+    let kept = last.and_then(|(x, acc)| (x.to_bits() == x1.to_bits()).then_some(acc));
+    Ok((x1.exp(), kept))
 }
 
 /// Nodes of the grid on which the compressed caliper is found.
@@ -440,7 +461,7 @@ pub fn wind(input: &WindInput, lanes: &Lanes, opt: Options) -> Result<Wound, Win
     let widths = lanes.widths();
     let width: f64 = widths.iter().sum();
     let cal = lanes.calipers();
-    let c_eff = compressed_caliper(input, lanes, opt)?;
+    let (c_eff, kept) = compressed_caliper(input, lanes, opt)?;
     let layers = (big_r - rc) / c_eff;
     let nodes = opt.nodes;
     let Accreted {
@@ -448,7 +469,10 @@ pub fn wind(input: &WindInput, lanes: &Lanes, opt: Options) -> Result<Wound, Win
         per_node,
         nip_n_per_m,
         radii_m,
-    } = accrete(input, lanes, nodes, opt.levelling, c_eff)?;
+    } = match kept {
+        Some(acc) => acc,
+        None => accrete(input, lanes, nodes, opt.levelling, c_eff)?,
+    };
     let grid = states.first().map(|s| s.r.clone()).unwrap_or_default();
     let rho = mat.density_kg_m3;
     let v = input.winding.speed_m_s;
