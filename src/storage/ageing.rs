@@ -24,6 +24,7 @@ use crate::numeric::thomas;
 use crate::units::DAY_S;
 use crate::winding::{Wound, SURFACE_ZONE_M};
 use serde::Serialize;
+use std::sync::Arc;
 
 /// Discretisation options.
 #[derive(Debug, Clone, Copy, PartialEq)]
@@ -144,7 +145,8 @@ pub struct AgeError {
 #[derive(Debug, Clone)]
 pub struct Prepared {
     pub timeline: Timeline,
-    pub moisture: MoistureHistory,
+    /// The moisture field (shared with other runs on the same storage history).
+    pub moisture: Arc<MoistureHistory>,
     /// Reference moisture of the creep parameters: equilibrium at 50 % RH, %.
     pub mc_ref: f64,
     /// Each lane's own length excess as the web came to the winder (minus its
