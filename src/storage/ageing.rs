@@ -10,7 +10,7 @@
 //! memory), applied after winding. Finite volumes on cells clustered at the core and the barrel,
 //! backward Euler in time; lanes do not exchange load in storage, only moisture (through x).
 
-use super::creep::{step_coefficients, step_update, CreepState};
+use super::creep::{step_coefficients_at, step_rates, step_update_at, CreepState};
 use super::hardness::HardnessMap;
 use super::record::{FullRecord, Recorder, Snapshot};
 use super::shift::{arrhenius_shift, moisture_shift};
@@ -237,6 +237,21 @@ struct Cells<'a> {
     h_r: Vec<f64>,
     eh_t: Vec<f64>,
     h_t: Vec<f64>,
+    /// Elastic strains at the present stresses (MD sigma_t / E; radial, see [`radial_elastic`])
+    /// and the stack's tangent modulus, Pa: set after each step for the next.
+    g_t: Vec<f64>,
+    g_r: Vec<f64>,
+    etan_r: Vec<f64>,
+    /// The step's creep rates per cell ([`step_rates`]), MD and radial, shared by the
+    /// coefficients and the creep update.
+    rate_t: Vec<(f64, f64)>,
+    rate_r: Vec<(f64, f64)>,
+    /// Per face between cells j and j + 1 (index j): mean modulus, mean strain offset,
+    /// f ef / dr and f ef hf.
+    ef: Vec<f64>,
+    hf: Vec<f64>,
+    cf: Vec<f64>,
+    rf: Vec<f64>,
     /// Tridiagonal system in the displacement increments (solution in `d`).
     a: Vec<f64>,
     b: Vec<f64>,
@@ -253,7 +268,7 @@ impl<'a> Cells<'a> {
         let nr = r.len();
         let (sr, st) = initial_stress(run.wound, run.lane, r);
         let z = vec![0.0; nr];
-        Cells {
+        let mut cells = Cells {
             f,
             r,
             core_k: run.wound.core_stiffness_pa.map(|ec| ec / f[0]),
@@ -266,12 +281,32 @@ impl<'a> Cells<'a> {
             h_r: z.clone(),
             eh_t: z.clone(),
             h_t: z.clone(),
+            g_t: z.clone(),
+            g_r: z.clone(),
+            etan_r: z.clone(),
+            rate_t: vec![(0.0, 0.0); nr],
+            rate_r: vec![(0.0, 0.0); nr],
+            ef: z.clone(),
+            hf: z.clone(),
+            cf: z.clone(),
+            rf: z.clone(),
             a: z.clone(),
             b: z.clone(),
             c: z.clone(),
             d: z.clone(),
             s: z,
             dsr_face: vec![0.0; nr + 1],
+        };
+        cells.elastic(run.material);
+        cells
+    }
+
+    /// Elastic strains and the stack's tangent modulus at the present stresses.
+    fn elastic(&mut self, mat: &Material) {
+        let e_t = mat.md_modulus_pa;
+        for j in 0..self.r.len() {
+            self.g_t[j] = self.st[j] / e_t;
+            (self.g_r[j], self.etan_r[j]) = radial_elastic(&mat.stack, -self.sr[j]);
         }
     }
 
@@ -288,32 +323,38 @@ impl<'a> Cells<'a> {
         }
     }
 
-    /// Incremental moduli and strain offsets of step `k`.
+    /// Incremental moduli and strain offsets of step `k` (elastic strains from [`Self::elastic`]).
     fn coefficients(&mut self, run: &LaneRun, k: usize) {
         let mat = run.material;
         let (e_t, ms) = (mat.md_modulus_pa, mat.creep.mechanosorptive_per_pct);
+        let (md, radial) = (&run.creep.md, &run.creep.radial);
         let nr = self.r.len();
+        let dxi = &run.drive.dxi[k * nr..(k + 1) * nr];
+        let dmc = &run.drive.dmc[k * nr..(k + 1) * nr];
         for j in 0..nr {
-            let dxi = run.drive.dxi[k * nr + j];
-            let dmc = run.drive.dmc[k * nr + j];
             // MD: g = sigma_t / E
-            let (e1, h1) = step_coefficients(
-                &run.creep.md,
-                ms,
-                e_t,
-                self.st[j] / e_t,
-                &self.ct[j],
-                dxi,
-                dmc,
-            );
+            let (a, bb) = step_rates(md, ms, dxi[j], dmc[j]);
+            self.rate_t[j] = (a, bb);
+            let (e1, h1) = step_coefficients_at(md, e_t, self.g_t[j], &self.ct[j], a, bb);
             self.eh_t[j] = e1;
-            self.h_t[j] = h1 + mat.hygro_md_per_pct * dmc;
+            self.h_t[j] = h1 + mat.hygro_md_per_pct * dmc[j];
             // radial: g = -stack strain at the pressure; tangent modulus of the stack
-            let p = -self.sr[j];
-            let (g, etan) = radial_elastic(&mat.stack, p);
-            let (e2, h2) = step_coefficients(&run.creep.radial, ms, etan, g, &self.cr[j], dxi, dmc);
+            let (a, bb) = step_rates(radial, ms, dxi[j], dmc[j]);
+            self.rate_r[j] = (a, bb);
+            let (e2, h2) =
+                step_coefficients_at(radial, self.etan_r[j], self.g_r[j], &self.cr[j], a, bb);
             self.eh_r[j] = e2;
-            self.h_r[j] = h2 + mat.hygro_zd_per_pct * dmc;
+            self.h_r[j] = h2 + mat.hygro_zd_per_pct * dmc[j];
+        }
+        let (f, r) = (self.f, self.r);
+        for j in 0..nr.saturating_sub(1) {
+            let dd = r[j + 1] - r[j];
+            let ef = 0.5 * (self.eh_r[j] + self.eh_r[j + 1]);
+            let hf = 0.5 * (self.h_r[j] + self.h_r[j + 1]);
+            self.ef[j] = ef;
+            self.hf[j] = hf;
+            self.cf[j] = f[j + 1] * ef / dd;
+            self.rf[j] = f[j + 1] * ef * hf;
         }
     }
 
@@ -327,36 +368,28 @@ impl<'a> Cells<'a> {
         (sh, fac)
     }
 
-    /// Assemble cell j: f[j+1] dS(j+1/2) - f[j] dS(j-1/2) - w_j dSt_j = 0.
+    /// Assemble cell j: f[j+1] dS(j+1/2) - f[j] dS(j-1/2) - w_j dSt_j = 0 (face terms from
+    /// [`Self::coefficients`]).
     fn assemble(&mut self) {
         let (f, r) = (self.f, self.r);
         let nr = r.len();
-        let (eh_r, h_r) = (&self.eh_r, &self.h_r);
+        let (sh, fac) = self.core_face();
         for j in 0..nr {
             let w = f[j + 1] - f[j];
             let (mut aj, mut bj, mut cj, mut rhs) = (0.0, 0.0, 0.0, 0.0);
             if j + 1 < nr {
-                let dd = r[j + 1] - r[j];
-                let ef = 0.5 * (eh_r[j] + eh_r[j + 1]);
-                let hf = 0.5 * (h_r[j] + h_r[j + 1]);
-                let cf = f[j + 1] * ef / dd;
-                cj += cf;
-                bj -= cf;
-                rhs += f[j + 1] * ef * hf;
+                cj += self.cf[j];
+                bj -= self.cf[j];
+                rhs += self.rf[j];
             }
             if j > 0 {
-                let dd = r[j] - r[j - 1];
-                let ef = 0.5 * (eh_r[j] + eh_r[j - 1]);
-                let hf = 0.5 * (h_r[j] + h_r[j - 1]);
-                let cf = f[j] * ef / dd;
-                aj += cf;
-                bj -= cf;
-                rhs -= f[j] * ef * hf;
+                aj += self.cf[j - 1];
+                bj -= self.cf[j - 1];
+                rhs -= self.rf[j - 1];
             } else {
                 // core face: d sigma = (s du0 - E h)/(1 + s/k), s = E / (half cell)
-                let (sh, fac) = self.core_face();
                 bj -= f[0] * sh * fac;
-                rhs -= f[0] * eh_r[0] * h_r[0] * fac;
+                rhs -= f[0] * self.eh_r[0] * self.h_r[0] * fac;
             }
             bj -= w * self.eh_t[j] / r[j];
             rhs -= w * self.eh_t[j] * self.h_t[j];
@@ -379,9 +412,7 @@ impl<'a> Cells<'a> {
         let du = &self.d;
         for j in 0..nr.saturating_sub(1) {
             let dd = r[j + 1] - r[j];
-            let ef = 0.5 * (self.eh_r[j] + self.eh_r[j + 1]);
-            let hf = 0.5 * (self.h_r[j] + self.h_r[j + 1]);
-            self.dsr_face[j + 1] = ef * ((du[j + 1] - du[j]) / dd - hf);
+            self.dsr_face[j + 1] = self.ef[j] * ((du[j + 1] - du[j]) / dd - self.hf[j]);
         }
         let (sh, fac) = self.core_face();
         self.dsr_face[0] = (sh * du[0] - self.eh_r[0] * self.h_r[0]) * fac;
@@ -402,24 +433,20 @@ impl<'a> Cells<'a> {
         true
     }
 
-    /// Advance both creep states over step `k` at the new stresses.
-    fn update_creep(&mut self, run: &LaneRun, k: usize) {
+    /// Advance both creep states over the step at the new stresses (the rates of
+    /// [`Self::coefficients`]), and set the elastic strains for the next step.
+    fn update_creep(&mut self, run: &LaneRun) {
         let mat = run.material;
-        let (e_t, ms) = (mat.md_modulus_pa, mat.creep.mechanosorptive_per_pct);
-        let nr = self.r.len();
-        for j in 0..nr {
-            let dxi = run.drive.dxi[k * nr + j];
-            let dmc = run.drive.dmc[k * nr + j];
-            step_update(
-                &run.creep.md,
-                ms,
-                self.st[j] / e_t,
-                &mut self.ct[j],
-                dxi,
-                dmc,
-            );
-            let (g, _) = radial_elastic(&mat.stack, -self.sr[j]);
-            step_update(&run.creep.radial, ms, g, &mut self.cr[j], dxi, dmc);
+        let e_t = mat.md_modulus_pa;
+        for j in 0..self.r.len() {
+            let g = self.st[j] / e_t;
+            self.g_t[j] = g;
+            let (a, bb) = self.rate_t[j];
+            step_update_at(&run.creep.md, g, &mut self.ct[j], a, bb);
+            let (g, e) = radial_elastic(&mat.stack, -self.sr[j]);
+            (self.g_r[j], self.etan_r[j]) = (g, e);
+            let (a, bb) = self.rate_r[j];
+            step_update_at(&run.creep.radial, g, &mut self.cr[j], a, bb);
         }
     }
 }
@@ -441,7 +468,7 @@ pub fn age_lane_with(run: &LaneRun, rec: &mut impl Recorder) -> Result<FinalStre
                 time_s: prep.timeline.times[k + 1],
             });
         }
-        cells.update_creep(run, k);
+        cells.update_creep(run);
         rec.record(&cells.snapshot(&prep.moisture.mc[k + 1][run.lane], big_r0));
     }
     Ok(FinalStress {
