@@ -11,9 +11,9 @@
 //! backward Euler in time; lanes do not exchange load in storage, only moisture (through x).
 
 use super::creep::{step_coefficients_at, step_rates, step_update_at, CreepState};
+use super::drive::{drive, LaneDrive};
 use super::hardness::HardnessMap;
 use super::record::{FullRecord, Recorder, Snapshot};
-use super::shift::{arrhenius_shift, moisture_shift};
 use super::sorption::gab_moisture;
 use super::timeline::{moisture, timeline, MoistureHistory, StoreInput, Timeline};
 use crate::case::{Burgers, Material, Stack};
@@ -167,36 +167,6 @@ pub fn prepare(input: &StoreInput, lanes: &Lanes, opt: &AgeOptions) -> Prepared 
     }
 }
 
-/// What storage does to one lane independently of its creep parameters: the reduced-time step
-/// and the moisture change of each radial cell at each time step (index k * cells + j).
-#[derive(Debug, Clone, PartialEq)]
-pub struct LaneDrive {
-    pub dxi: Vec<f64>,
-    pub dmc: Vec<f64>,
-}
-
-/// Precompute a lane's drive (time shifts and moisture changes).
-pub fn drive(material: &Material, prep: &Prepared, lane: usize) -> LaneDrive {
-    let mat = material;
-    let nr = prep.moisture.r.len();
-    let ns = prep.timeline.steps.len();
-    let mut dxi = Vec::with_capacity(ns * nr);
-    let mut dmc = Vec::with_capacity(ns * nr);
-    for (k, stp) in prep.timeline.steps.iter().enumerate() {
-        let stretch = &prep.timeline.stretches[stp.stretch];
-        let a_t = arrhenius_shift(mat.creep.activation_energy_j_mol, stretch.temperature_k);
-        let mc_old = &prep.moisture.mc[k][lane];
-        let mc_new = &prep.moisture.mc[k + 1][lane];
-        for j in 0..nr {
-            let mc_mid = 0.5 * (mc_old[j] + mc_new[j]);
-            let a_m = moisture_shift(mat.creep.moisture_shift_dec_per_pct, mc_mid, prep.mc_ref);
-            dxi.push(stp.dt / (a_t * a_m));
-            dmc.push(mc_new[j] - mc_old[j]);
-        }
-    }
-    LaneDrive { dxi, dmc }
-}
-
 /// One lane's run through storage: what the mechanics needs.
 #[derive(Debug, Clone, Copy)]
 pub struct LaneRun<'a> {
@@ -329,22 +299,38 @@ impl<'a> Cells<'a> {
         let (e_t, ms) = (mat.md_modulus_pa, mat.creep.mechanosorptive_per_pct);
         let (md, radial) = (&run.creep.md, &run.creep.radial);
         let nr = self.r.len();
-        let dxi = &run.drive.dxi[k * nr..(k + 1) * nr];
-        let dmc = &run.drive.dmc[k * nr..(k + 1) * nr];
-        for j in 0..nr {
+        let span = k * nr..(k + 1) * nr;
+        let drv = run.drive;
+        let (dxi, dmc) = (&drv.dxi[span.clone()], &drv.dmc[span.clone()]);
+        if drv.fits(run.creep, ms) {
+            // the same rates as [`step_rates`], from the parts the drive holds
+            let (a_t, a_r, msd) = (
+                &drv.a[0][span.clone()],
+                &drv.a[1][span.clone()],
+                &drv.msd[span],
+            );
+            for j in 0..nr {
+                self.rate_t[j] = (a_t[j], dxi[j] / md.viscous_time_s + msd[j]);
+                self.rate_r[j] = (a_r[j], dxi[j] / radial.viscous_time_s + msd[j]);
+            }
+        } else {
+            for j in 0..nr {
+                self.rate_t[j] = step_rates(md, ms, dxi[j], dmc[j]);
+                self.rate_r[j] = step_rates(radial, ms, dxi[j], dmc[j]);
+            }
+        }
+        for (j, &dm) in dmc.iter().enumerate() {
             // MD: g = sigma_t / E
-            let (a, bb) = step_rates(md, ms, dxi[j], dmc[j]);
-            self.rate_t[j] = (a, bb);
+            let (a, bb) = self.rate_t[j];
             let (e1, h1) = step_coefficients_at(md, e_t, self.g_t[j], &self.ct[j], a, bb);
             self.eh_t[j] = e1;
-            self.h_t[j] = h1 + mat.hygro_md_per_pct * dmc[j];
+            self.h_t[j] = h1 + mat.hygro_md_per_pct * dm;
             // radial: g = -stack strain at the pressure; tangent modulus of the stack
-            let (a, bb) = step_rates(radial, ms, dxi[j], dmc[j]);
-            self.rate_r[j] = (a, bb);
+            let (a, bb) = self.rate_r[j];
             let (e2, h2) =
                 step_coefficients_at(radial, self.etan_r[j], self.g_r[j], &self.cr[j], a, bb);
             self.eh_r[j] = e2;
-            self.h_r[j] = h2 + mat.hygro_zd_per_pct * dmc[j];
+            self.h_r[j] = h2 + mat.hygro_zd_per_pct * dm;
         }
         let (f, r) = (self.f, self.r);
         for j in 0..nr.saturating_sub(1) {
