@@ -357,33 +357,54 @@ impl<'a> Cells<'a> {
     /// Assemble cell j: f[j+1] dS(j+1/2) - f[j] dS(j-1/2) - w_j dSt_j = 0 (face terms from
     /// [`Self::coefficients`]).
     fn assemble(&mut self) {
+        let nr = self.r.len();
+        if nr == 0 {
+            return;
+        }
+        let core = self.core_face();
+        self.assemble_row(0, core);
+        // interior rows: both faces, no branches (the same operations as `assemble_row`)
+        let (f, r) = (self.f, self.r);
+        let (cf, rf, eh_t, h_t) = (&self.cf, &self.rf, &self.eh_t, &self.h_t);
+        for j in 1..nr - 1 {
+            let w = f[j + 1] - f[j];
+            let (right, left) = (cf[j], cf[j - 1]);
+            self.a[j] = 0.0 + left;
+            self.b[j] = ((0.0 - right) - left) - w * eh_t[j] / r[j];
+            self.c[j] = 0.0 + right;
+            self.d[j] = ((0.0 + rf[j]) - rf[j - 1]) - w * eh_t[j] * h_t[j];
+        }
+        if nr > 1 {
+            self.assemble_row(nr - 1, core);
+        }
+    }
+
+    /// Assemble row j of [`Self::assemble`] with the core face's (stiffness, series factor).
+    fn assemble_row(&mut self, j: usize, (sh, fac): (f64, f64)) {
         let (f, r) = (self.f, self.r);
         let nr = r.len();
-        let (sh, fac) = self.core_face();
-        for j in 0..nr {
-            let w = f[j + 1] - f[j];
-            let (mut aj, mut bj, mut cj, mut rhs) = (0.0, 0.0, 0.0, 0.0);
-            if j + 1 < nr {
-                cj += self.cf[j];
-                bj -= self.cf[j];
-                rhs += self.rf[j];
-            }
-            if j > 0 {
-                aj += self.cf[j - 1];
-                bj -= self.cf[j - 1];
-                rhs -= self.rf[j - 1];
-            } else {
-                // core face: d sigma = (s du0 - E h)/(1 + s/k), s = E / (half cell)
-                bj -= f[0] * sh * fac;
-                rhs -= f[0] * self.eh_r[0] * self.h_r[0] * fac;
-            }
-            bj -= w * self.eh_t[j] / r[j];
-            rhs -= w * self.eh_t[j] * self.h_t[j];
-            self.a[j] = aj;
-            self.b[j] = bj;
-            self.c[j] = cj;
-            self.d[j] = rhs;
+        let w = f[j + 1] - f[j];
+        let (mut aj, mut bj, mut cj, mut rhs) = (0.0, 0.0, 0.0, 0.0);
+        if j + 1 < nr {
+            cj += self.cf[j];
+            bj -= self.cf[j];
+            rhs += self.rf[j];
         }
+        if j > 0 {
+            aj += self.cf[j - 1];
+            bj -= self.cf[j - 1];
+            rhs -= self.rf[j - 1];
+        } else {
+            // core face: d sigma = (s du0 - E h)/(1 + s/k), s = E / (half cell)
+            bj -= f[0] * sh * fac;
+            rhs -= f[0] * self.eh_r[0] * self.h_r[0] * fac;
+        }
+        bj -= w * self.eh_t[j] / r[j];
+        rhs -= w * self.eh_t[j] * self.h_t[j];
+        self.a[j] = aj;
+        self.b[j] = bj;
+        self.c[j] = cj;
+        self.d[j] = rhs;
     }
 
     /// Solve for the displacement increments (into `d`); false when a pivot vanishes.
@@ -402,14 +423,17 @@ impl<'a> Cells<'a> {
         }
         let (sh, fac) = self.core_face();
         self.dsr_face[0] = (sh * du[0] - self.eh_r[0] * self.h_r[0]) * fac;
+        // every cell first, then the check (no early exit, so the loop runs on vectors)
+        let mut finite = true;
         for j in 0..nr {
             let dst = self.eh_t[j] * (du[j] / r[j] - self.h_t[j]);
             let dsr = 0.5 * (self.dsr_face[j] + self.dsr_face[j + 1]);
             self.st[j] += dst;
             self.sr[j] = (self.sr[j] + dsr).min(0.0);
-            if !self.st[j].is_finite() || !self.sr[j].is_finite() {
-                return false;
-            }
+            finite &= self.st[j].is_finite() & self.sr[j].is_finite();
+        }
+        if !finite {
+            return false;
         }
         // surface displacement: outer cell plus its outer half cell's radial strain change
         let j = nr - 1;

@@ -36,6 +36,8 @@
 //! stack strain behind the compressed build is updated by its change per increment (a series
 //! for small changes, no logarithm per node per step).
 
+use super::substeps::new_layer_load;
+pub use super::substeps::SubSteps;
 use crate::case::Stack;
 
 /// Material and boundary data for one lane's accretion.
@@ -88,16 +90,6 @@ fn strain_change(stack: &Stack, p0: f64, p1: f64) -> f64 {
 /// Increments smaller than this fraction of the local radial stress are not carried inward.
 const NEGLIGIBLE: f64 = 1e-15;
 
-/// Six-point Gauss-Legendre nodes and weights on [-1, 1] (Abramowitz and Stegun, Table 25.4).
-const GAUSS6: [(f64, f64); 6] = [
-    (-0.932_469_514_203_152, 0.171_324_492_379_170),
-    (-0.661_209_386_466_265, 0.360_761_573_048_139),
-    (-0.238_619_186_083_197, 0.467_913_934_572_691),
-    (0.238_619_186_083_197, 0.467_913_934_572_691),
-    (0.661_209_386_466_265, 0.360_761_573_048_139),
-    (0.932_469_514_203_152, 0.171_324_492_379_170),
-];
-
 /// One exact element: from z at the inner end of an interval of log-length `tau` (`grow` =
 /// e^tau), return
 /// (phi_in / phi_out, z at the outer end).
@@ -108,67 +100,6 @@ fn element(g: f64, z0: f64, tau: f64, grow: f64) -> (f64, f64) {
     let d = a + (g - z0) * e1 * e1;
     let inv = 1.0 / d;
     (2.0 * g * e1 * grow * inv, 2.0 * g * a * inv - g)
-}
-
-/// Integral over an interval of log-length `tau` of phi(inner) / phi(t) dt: the pressure at the
-/// inner end, per unit wound-in stress, of the layers wound over the interval. With
-/// x = e^(-g t) the integrand is 2 x^(-1/g) / (a + b x^2), smooth on [e^(-g tau), 1].
-fn new_layer_load(g: f64, z0: f64, tau: f64) -> f64 {
-    LayerKernel::new(g, tau).load(g, z0)
-}
-
-/// The part of [`new_layer_load`] that depends only on g and the interval (the Gauss points x
-/// and their weighted x^(-1/g)), so that lanes with the same g share it.
-#[derive(Debug, Clone, Copy)]
-struct LayerKernel {
-    /// Twice the half-width of the interval in x.
-    twice_half: f64,
-    /// Gauss points x and w x^(-1/g).
-    points: [(f64, f64); 6],
-}
-
-impl LayerKernel {
-    #[inline]
-    fn new(g: f64, tau: f64) -> Self {
-        let x1 = (-g * tau).exp();
-        let (mid, half) = (0.5 * (1.0 + x1), 0.5 * (1.0 - x1));
-        let points = GAUSS6.map(|(xi, w)| {
-            let x = mid + half * xi;
-            (x, w * (-x.ln() / g).exp())
-        });
-        LayerKernel {
-            twice_half: 2.0 * half,
-            points,
-        }
-    }
-
-    /// The load for z0 at the interval's inner end (g as in [`Self::new`]).
-    #[inline]
-    fn load(&self, g: f64, z0: f64) -> f64 {
-        let (a, b) = (g + z0, g - z0);
-        let mut sum = 0.0;
-        for (x, wk) in self.points {
-            sum += wk / (a + b * x * x);
-        }
-        self.twice_half * sum
-    }
-}
-
-/// The sub-steps of one grid step, the same for every lane wound on the grid with the same
-/// model: each sub-step's new radius, its log-length over the surface node, and the new-layer
-/// kernel at the unloaded stack's g (the predictor's, whose surface node carries no pressure
-/// yet). Built once per grid step and shared by the lanes ([`LaneState::plan`]).
-#[derive(Debug, Clone, Default)]
-pub struct SubSteps {
-    /// Grid step the plan is for.
-    k: usize,
-    /// Per sub-step: new radius (m), log-length and ratio over the previous surface node.
-    r_new: Vec<f64>,
-    tau: Vec<f64>,
-    grow: Vec<f64>,
-    /// Predictor kernel per sub-step, at `g0`.
-    kernel: Vec<LayerKernel>,
-    g0: f64,
 }
 
 /// Refinement of the accretion near the surface for grid `r`: each grid interval is wound in
@@ -303,36 +234,7 @@ impl LaneState {
     /// The sub-steps of grid step `k` (at least 1) for this lane's grid and refinement; lanes on
     /// the same grid with the same model share it ([`Self::add_planned`]).
     pub fn plan(&self, m: &LaneModel, k: usize) -> SubSteps {
-        let sub = self.sub;
-        let g0 = m.g(0.0);
-        let mut plan = SubSteps {
-            k,
-            r_new: Vec::with_capacity(sub),
-            tau: Vec::with_capacity(sub),
-            grow: Vec::with_capacity(sub),
-            kernel: Vec::with_capacity(sub),
-            g0,
-        };
-        if k == 0 || k >= self.r.len() {
-            return plan;
-        }
-        let (r0, r1) = (self.r[k - 1], self.r[k]);
-        let tau_f = (r1 / r0).ln() / sub as f64;
-        let mut prev = r0;
-        for i in 1..=sub {
-            let r_new = if i == sub {
-                r1
-            } else {
-                r0 * (tau_f * i as f64).exp()
-            };
-            let tau_new = (r_new / prev).ln();
-            plan.r_new.push(r_new);
-            plan.tau.push(tau_new);
-            plan.grow.push(r_new / prev);
-            plan.kernel.push(LayerKernel::new(g0, tau_new));
-            prev = r_new;
-        }
-        plan
+        SubSteps::new(&self.r, k, self.sub, m.g(0.0))
     }
 
     /// Add the next grid node: the layers between the current surface and the next grid

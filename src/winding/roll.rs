@@ -285,7 +285,8 @@ fn couple(input: &WindInput, lanes: &Lanes, radii: &[f64], levelling: f64) -> (V
     (offs, coupling::nip_shares(nip, radii, &widths, k_nip))
 }
 
-/// Accrete all lanes on a grid of `nodes` nodes.
+/// Accrete all lanes on a grid of `nodes` nodes. A grid step's sub-steps are the same for every
+/// lane: they are planned once per step ([`LaneState::plan`]).
 fn accrete(
     input: &WindInput,
     lanes: &Lanes,
@@ -314,7 +315,6 @@ fn accrete(
     let web: Vec<f64> = lanes.lanes.iter().map(|l| l.web_strain).collect();
     let mut offs = web.clone();
     let mut nip_q = vec![input.winding.nip_n_per_m.max(0.0); n];
-    let mut tens = vec![0.0; n];
     let mut last_wit = vec![0.0; n];
     // Lane radii are refreshed at least 400 times over the build (every node on coarser grids).
     let every = nodes.div_ceil(400).max(1);
@@ -340,16 +340,11 @@ fn accrete(
         let e0 = shared_strain(&stiff, &offs, &widths, t_web * width)?;
         // hoop strain lost as entrained air bleeds out (see `air`)
         let air = super::air::strain_loss(mat, input.winding, rbar.max(rk), t_web);
-        for i in 0..n {
-            tens[i] = stiff[i] * (e0 + offs[i]).max(0.0);
-        }
-        // the sub-steps of this grid step are the same for every lane: planned once
-        let plan = states
-            .first()
-            .map(|st| st.plan(&model, k))
-            .unwrap_or_default();
+        let plan = states.first().map(|st| st.plan(&model, k));
+        let plan = plan.unwrap_or_default();
         for (i, st) in states.iter_mut().enumerate() {
-            let wit = coupling::effective_wit(mat, tens[i], nip_q[i], t_web, cal[i], v, air);
+            let tens = stiff[i] * (e0 + offs[i]).max(0.0);
+            let wit = coupling::effective_wit(mat, tens, nip_q[i], t_web, cal[i], v, air);
             // hoop stress on the grid: force over the compressed layer thickness, so that each
             // step adds pressure p r = sigma_w h (radial equilibrium holds exactly)
             let sigma_w = wit / c_eff;
@@ -379,9 +374,8 @@ fn accrete(
 /// smooth integral of the strain; its discretisation error there is far below the 1 % of the
 /// stresses), to [`CALIPER_TOL`].
 ///
-/// When the coarse grid is the wanted grid (`opt.nodes` at most [`COARSE_NODES`]), the
-/// accretion of the last iterate is the wound state itself and is handed back, so it is not
-/// wound a second time.
+/// On a wanted grid no finer than the coarse one, the last iterate's accretion is the wound
+/// state itself and is handed back, so it is not wound a second time.
 fn compressed_caliper(
     input: &WindInput,
     lanes: &Lanes,
@@ -394,7 +388,6 @@ fn compressed_caliper(
     let width: f64 = widths.iter().sum();
     let cal = lanes.calipers();
     let coarse = COARSE_NODES.min(opt.nodes);
-    // the last iterate's accretion, kept when it is on the wanted grid
     let mut last: Option<(f64, Accreted)> = None;
     let mut miss = |x: f64| -> Result<f64, WindError> {
         let c_eff = x.exp();
@@ -469,10 +462,7 @@ pub fn wind(input: &WindInput, lanes: &Lanes, opt: Options) -> Result<Wound, Win
         per_node,
         nip_n_per_m,
         radii_m,
-    } = match kept {
-        Some(acc) => acc,
-        None => accrete(input, lanes, nodes, opt.levelling, c_eff)?,
-    };
+    } = kept.map_or_else(|| accrete(input, lanes, nodes, opt.levelling, c_eff), Ok)?;
     let grid = states.first().map(|s| s.r.clone()).unwrap_or_default();
     let rho = mat.density_kg_m3;
     let v = input.winding.speed_m_s;
