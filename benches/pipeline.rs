@@ -34,12 +34,29 @@ fn bench(c: &mut Criterion) {
             .expect("winds")
         })
     });
+    // a noise roll of the confidence screen: the coarse grid of the layer-count secant is the
+    // wanted grid, so its last accretion is the wound state
+    c.bench_function("wind 40 lanes, 1 m roll, 61 nodes (a noise roll)", |b| {
+        b.iter(|| {
+            wind(
+                black_box(&WindInput::new(&case.material, &case.roll, &case.winding)),
+                &l,
+                Options {
+                    nodes: 61,
+                    ..Options::default()
+                },
+            )
+            .expect("winds")
+        })
+    });
     let w = wind(
         &WindInput::new(&case.material, &case.roll, &case.winding),
         &l,
         Options::default(),
     )
     .expect("winds");
+    // after the first iteration the moisture field is the one kept for these inputs (storage's
+    // moisture cache), so this measures the mechanics of 40 lanes
     c.bench_function("age 40 lanes through 200 d", |b| {
         b.iter(|| {
             fit::age_measured(black_box(&case), &l, &w, &AgeOptions::default()).expect("ages")

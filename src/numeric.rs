@@ -26,17 +26,23 @@ pub fn thomas(a: &[f64], b: &[f64], c: &[f64], d: &mut [f64], scratch: &mut [f64
     if beta.abs() < 1e-300 || !beta.is_finite() {
         return false;
     }
-    d[0] /= beta;
+    // the last value solved is carried in a register, not read back from memory: each row's
+    // dependence on the one before is then only the arithmetic
+    let mut prev = d[0] / beta;
+    d[0] = prev;
     for i in 1..n {
-        scratch[i] = c[i - 1] / beta;
-        beta = b[i] - a[i] * scratch[i];
+        let s = c[i - 1] / beta;
+        scratch[i] = s;
+        beta = b[i] - a[i] * s;
         if beta.abs() < 1e-300 || !beta.is_finite() {
             return false;
         }
-        d[i] = (d[i] - a[i] * d[i - 1]) / beta;
+        prev = (d[i] - a[i] * prev) / beta;
+        d[i] = prev;
     }
     for i in (0..n - 1).rev() {
-        d[i] -= scratch[i + 1] * d[i + 1];
+        prev = d[i] - scratch[i + 1] * prev;
+        d[i] = prev;
     }
     d.iter().all(|x| x.is_finite())
 }

@@ -10,10 +10,10 @@
 //! memory), applied after winding. Finite volumes on cells clustered at the core and the barrel,
 //! backward Euler in time; lanes do not exchange load in storage, only moisture (through x).
 
-use super::creep::{step_coefficients, step_update, CreepState};
+use super::creep::{step_coefficients_at, step_rates, step_update_at, CreepState};
+use super::drive::{drive, LaneDrive};
 use super::hardness::HardnessMap;
 use super::record::{FullRecord, Recorder, Snapshot};
-use super::shift::{arrhenius_shift, moisture_shift};
 use super::sorption::gab_moisture;
 use super::timeline::{moisture, timeline, MoistureHistory, StoreInput, Timeline};
 use crate::case::{Burgers, Material, Stack};
@@ -24,6 +24,7 @@ use crate::numeric::thomas;
 use crate::units::DAY_S;
 use crate::winding::{Wound, SURFACE_ZONE_M};
 use serde::Serialize;
+use std::sync::Arc;
 
 /// Discretisation options.
 #[derive(Debug, Clone, Copy, PartialEq)]
@@ -144,7 +145,8 @@ pub struct AgeError {
 #[derive(Debug, Clone)]
 pub struct Prepared {
     pub timeline: Timeline,
-    pub moisture: MoistureHistory,
+    /// The moisture field (shared with other runs on the same storage history).
+    pub moisture: Arc<MoistureHistory>,
     /// Reference moisture of the creep parameters: equilibrium at 50 % RH, %.
     pub mc_ref: f64,
     /// Each lane's own length excess as the web came to the winder (minus its
@@ -163,36 +165,6 @@ pub fn prepare(input: &StoreInput, lanes: &Lanes, opt: &AgeOptions) -> Prepared 
         moisture,
         web_length: lanes.lanes.iter().map(|l| 0.0 - l.web_strain).collect(),
     }
-}
-
-/// What storage does to one lane independently of its creep parameters: the reduced-time step
-/// and the moisture change of each radial cell at each time step (index k * cells + j).
-#[derive(Debug, Clone, PartialEq)]
-pub struct LaneDrive {
-    pub dxi: Vec<f64>,
-    pub dmc: Vec<f64>,
-}
-
-/// Precompute a lane's drive (time shifts and moisture changes).
-pub fn drive(material: &Material, prep: &Prepared, lane: usize) -> LaneDrive {
-    let mat = material;
-    let nr = prep.moisture.r.len();
-    let ns = prep.timeline.steps.len();
-    let mut dxi = Vec::with_capacity(ns * nr);
-    let mut dmc = Vec::with_capacity(ns * nr);
-    for (k, stp) in prep.timeline.steps.iter().enumerate() {
-        let stretch = &prep.timeline.stretches[stp.stretch];
-        let a_t = arrhenius_shift(mat.creep.activation_energy_j_mol, stretch.temperature_k);
-        let mc_old = &prep.moisture.mc[k][lane];
-        let mc_new = &prep.moisture.mc[k + 1][lane];
-        for j in 0..nr {
-            let mc_mid = 0.5 * (mc_old[j] + mc_new[j]);
-            let a_m = moisture_shift(mat.creep.moisture_shift_dec_per_pct, mc_mid, prep.mc_ref);
-            dxi.push(stp.dt / (a_t * a_m));
-            dmc.push(mc_new[j] - mc_old[j]);
-        }
-    }
-    LaneDrive { dxi, dmc }
 }
 
 /// One lane's run through storage: what the mechanics needs.
@@ -235,6 +207,21 @@ struct Cells<'a> {
     h_r: Vec<f64>,
     eh_t: Vec<f64>,
     h_t: Vec<f64>,
+    /// Elastic strains at the present stresses (MD sigma_t / E; radial, see [`radial_elastic`])
+    /// and the stack's tangent modulus, Pa: set after each step for the next.
+    g_t: Vec<f64>,
+    g_r: Vec<f64>,
+    etan_r: Vec<f64>,
+    /// The step's creep rates per cell ([`step_rates`]), MD and radial, shared by the
+    /// coefficients and the creep update.
+    rate_t: Vec<(f64, f64)>,
+    rate_r: Vec<(f64, f64)>,
+    /// Per face between cells j and j + 1 (index j): mean modulus, mean strain offset,
+    /// f ef / dr and f ef hf.
+    ef: Vec<f64>,
+    hf: Vec<f64>,
+    cf: Vec<f64>,
+    rf: Vec<f64>,
     /// Tridiagonal system in the displacement increments (solution in `d`).
     a: Vec<f64>,
     b: Vec<f64>,
@@ -251,7 +238,7 @@ impl<'a> Cells<'a> {
         let nr = r.len();
         let (sr, st) = initial_stress(run.wound, run.lane, r);
         let z = vec![0.0; nr];
-        Cells {
+        let mut cells = Cells {
             f,
             r,
             core_k: run.wound.core_stiffness_pa.map(|ec| ec / f[0]),
@@ -264,12 +251,32 @@ impl<'a> Cells<'a> {
             h_r: z.clone(),
             eh_t: z.clone(),
             h_t: z.clone(),
+            g_t: z.clone(),
+            g_r: z.clone(),
+            etan_r: z.clone(),
+            rate_t: vec![(0.0, 0.0); nr],
+            rate_r: vec![(0.0, 0.0); nr],
+            ef: z.clone(),
+            hf: z.clone(),
+            cf: z.clone(),
+            rf: z.clone(),
             a: z.clone(),
             b: z.clone(),
             c: z.clone(),
             d: z.clone(),
             s: z,
             dsr_face: vec![0.0; nr + 1],
+        };
+        cells.elastic(run.material);
+        cells
+    }
+
+    /// Elastic strains and the stack's tangent modulus at the present stresses.
+    fn elastic(&mut self, mat: &Material) {
+        let e_t = mat.md_modulus_pa;
+        for j in 0..self.r.len() {
+            self.g_t[j] = self.st[j] / e_t;
+            (self.g_r[j], self.etan_r[j]) = radial_elastic(&mat.stack, -self.sr[j]);
         }
     }
 
@@ -286,32 +293,54 @@ impl<'a> Cells<'a> {
         }
     }
 
-    /// Incremental moduli and strain offsets of step `k`.
+    /// Incremental moduli and strain offsets of step `k` (elastic strains from [`Self::elastic`]).
     fn coefficients(&mut self, run: &LaneRun, k: usize) {
         let mat = run.material;
         let (e_t, ms) = (mat.md_modulus_pa, mat.creep.mechanosorptive_per_pct);
+        let (md, radial) = (&run.creep.md, &run.creep.radial);
         let nr = self.r.len();
-        for j in 0..nr {
-            let dxi = run.drive.dxi[k * nr + j];
-            let dmc = run.drive.dmc[k * nr + j];
-            // MD: g = sigma_t / E
-            let (e1, h1) = step_coefficients(
-                &run.creep.md,
-                ms,
-                e_t,
-                self.st[j] / e_t,
-                &self.ct[j],
-                dxi,
-                dmc,
+        let span = k * nr..(k + 1) * nr;
+        let drv = run.drive;
+        let (dxi, dmc) = (&drv.dxi[span.clone()], &drv.dmc[span.clone()]);
+        if drv.fits(run.creep, ms) {
+            // the same rates as [`step_rates`], from the parts the drive holds
+            let (a_t, a_r, msd) = (
+                &drv.a[0][span.clone()],
+                &drv.a[1][span.clone()],
+                &drv.msd[span],
             );
+            for j in 0..nr {
+                self.rate_t[j] = (a_t[j], dxi[j] / md.viscous_time_s + msd[j]);
+                self.rate_r[j] = (a_r[j], dxi[j] / radial.viscous_time_s + msd[j]);
+            }
+        } else {
+            for j in 0..nr {
+                self.rate_t[j] = step_rates(md, ms, dxi[j], dmc[j]);
+                self.rate_r[j] = step_rates(radial, ms, dxi[j], dmc[j]);
+            }
+        }
+        for (j, &dm) in dmc.iter().enumerate() {
+            // MD: g = sigma_t / E
+            let (a, bb) = self.rate_t[j];
+            let (e1, h1) = step_coefficients_at(md, e_t, self.g_t[j], &self.ct[j], a, bb);
             self.eh_t[j] = e1;
-            self.h_t[j] = h1 + mat.hygro_md_per_pct * dmc;
+            self.h_t[j] = h1 + mat.hygro_md_per_pct * dm;
             // radial: g = -stack strain at the pressure; tangent modulus of the stack
-            let p = -self.sr[j];
-            let (g, etan) = radial_elastic(&mat.stack, p);
-            let (e2, h2) = step_coefficients(&run.creep.radial, ms, etan, g, &self.cr[j], dxi, dmc);
+            let (a, bb) = self.rate_r[j];
+            let (e2, h2) =
+                step_coefficients_at(radial, self.etan_r[j], self.g_r[j], &self.cr[j], a, bb);
             self.eh_r[j] = e2;
-            self.h_r[j] = h2 + mat.hygro_zd_per_pct * dmc;
+            self.h_r[j] = h2 + mat.hygro_zd_per_pct * dm;
+        }
+        let (f, r) = (self.f, self.r);
+        for j in 0..nr.saturating_sub(1) {
+            let dd = r[j + 1] - r[j];
+            let ef = 0.5 * (self.eh_r[j] + self.eh_r[j + 1]);
+            let hf = 0.5 * (self.h_r[j] + self.h_r[j + 1]);
+            self.ef[j] = ef;
+            self.hf[j] = hf;
+            self.cf[j] = f[j + 1] * ef / dd;
+            self.rf[j] = f[j + 1] * ef * hf;
         }
     }
 
@@ -325,44 +354,57 @@ impl<'a> Cells<'a> {
         (sh, fac)
     }
 
-    /// Assemble cell j: f[j+1] dS(j+1/2) - f[j] dS(j-1/2) - w_j dSt_j = 0.
+    /// Assemble cell j: f[j+1] dS(j+1/2) - f[j] dS(j-1/2) - w_j dSt_j = 0 (face terms from
+    /// [`Self::coefficients`]).
     fn assemble(&mut self) {
+        let nr = self.r.len();
+        if nr == 0 {
+            return;
+        }
+        let core = self.core_face();
+        self.assemble_row(0, core);
+        // interior rows: both faces, no branches (the same operations as `assemble_row`)
+        let (f, r) = (self.f, self.r);
+        let (cf, rf, eh_t, h_t) = (&self.cf, &self.rf, &self.eh_t, &self.h_t);
+        for j in 1..nr - 1 {
+            let w = f[j + 1] - f[j];
+            let (right, left) = (cf[j], cf[j - 1]);
+            self.a[j] = 0.0 + left;
+            self.b[j] = ((0.0 - right) - left) - w * eh_t[j] / r[j];
+            self.c[j] = 0.0 + right;
+            self.d[j] = ((0.0 + rf[j]) - rf[j - 1]) - w * eh_t[j] * h_t[j];
+        }
+        if nr > 1 {
+            self.assemble_row(nr - 1, core);
+        }
+    }
+
+    /// Assemble row j of [`Self::assemble`] with the core face's (stiffness, series factor).
+    fn assemble_row(&mut self, j: usize, (sh, fac): (f64, f64)) {
         let (f, r) = (self.f, self.r);
         let nr = r.len();
-        let (eh_r, h_r) = (&self.eh_r, &self.h_r);
-        for j in 0..nr {
-            let w = f[j + 1] - f[j];
-            let (mut aj, mut bj, mut cj, mut rhs) = (0.0, 0.0, 0.0, 0.0);
-            if j + 1 < nr {
-                let dd = r[j + 1] - r[j];
-                let ef = 0.5 * (eh_r[j] + eh_r[j + 1]);
-                let hf = 0.5 * (h_r[j] + h_r[j + 1]);
-                let cf = f[j + 1] * ef / dd;
-                cj += cf;
-                bj -= cf;
-                rhs += f[j + 1] * ef * hf;
-            }
-            if j > 0 {
-                let dd = r[j] - r[j - 1];
-                let ef = 0.5 * (eh_r[j] + eh_r[j - 1]);
-                let hf = 0.5 * (h_r[j] + h_r[j - 1]);
-                let cf = f[j] * ef / dd;
-                aj += cf;
-                bj -= cf;
-                rhs -= f[j] * ef * hf;
-            } else {
-                // core face: d sigma = (s du0 - E h)/(1 + s/k), s = E / (half cell)
-                let (sh, fac) = self.core_face();
-                bj -= f[0] * sh * fac;
-                rhs -= f[0] * eh_r[0] * h_r[0] * fac;
-            }
-            bj -= w * self.eh_t[j] / r[j];
-            rhs -= w * self.eh_t[j] * self.h_t[j];
-            self.a[j] = aj;
-            self.b[j] = bj;
-            self.c[j] = cj;
-            self.d[j] = rhs;
+        let w = f[j + 1] - f[j];
+        let (mut aj, mut bj, mut cj, mut rhs) = (0.0, 0.0, 0.0, 0.0);
+        if j + 1 < nr {
+            cj += self.cf[j];
+            bj -= self.cf[j];
+            rhs += self.rf[j];
         }
+        if j > 0 {
+            aj += self.cf[j - 1];
+            bj -= self.cf[j - 1];
+            rhs -= self.rf[j - 1];
+        } else {
+            // core face: d sigma = (s du0 - E h)/(1 + s/k), s = E / (half cell)
+            bj -= f[0] * sh * fac;
+            rhs -= f[0] * self.eh_r[0] * self.h_r[0] * fac;
+        }
+        bj -= w * self.eh_t[j] / r[j];
+        rhs -= w * self.eh_t[j] * self.h_t[j];
+        self.a[j] = aj;
+        self.b[j] = bj;
+        self.c[j] = cj;
+        self.d[j] = rhs;
     }
 
     /// Solve for the displacement increments (into `d`); false when a pivot vanishes.
@@ -377,20 +419,21 @@ impl<'a> Cells<'a> {
         let du = &self.d;
         for j in 0..nr.saturating_sub(1) {
             let dd = r[j + 1] - r[j];
-            let ef = 0.5 * (self.eh_r[j] + self.eh_r[j + 1]);
-            let hf = 0.5 * (self.h_r[j] + self.h_r[j + 1]);
-            self.dsr_face[j + 1] = ef * ((du[j + 1] - du[j]) / dd - hf);
+            self.dsr_face[j + 1] = self.ef[j] * ((du[j + 1] - du[j]) / dd - self.hf[j]);
         }
         let (sh, fac) = self.core_face();
         self.dsr_face[0] = (sh * du[0] - self.eh_r[0] * self.h_r[0]) * fac;
+        // every cell first, then the check (no early exit, so the loop runs on vectors)
+        let mut finite = true;
         for j in 0..nr {
             let dst = self.eh_t[j] * (du[j] / r[j] - self.h_t[j]);
             let dsr = 0.5 * (self.dsr_face[j] + self.dsr_face[j + 1]);
             self.st[j] += dst;
             self.sr[j] = (self.sr[j] + dsr).min(0.0);
-            if !self.st[j].is_finite() || !self.sr[j].is_finite() {
-                return false;
-            }
+            finite &= self.st[j].is_finite() & self.sr[j].is_finite();
+        }
+        if !finite {
+            return false;
         }
         // surface displacement: outer cell plus its outer half cell's radial strain change
         let j = nr - 1;
@@ -400,24 +443,20 @@ impl<'a> Cells<'a> {
         true
     }
 
-    /// Advance both creep states over step `k` at the new stresses.
-    fn update_creep(&mut self, run: &LaneRun, k: usize) {
+    /// Advance both creep states over the step at the new stresses (the rates of
+    /// [`Self::coefficients`]), and set the elastic strains for the next step.
+    fn update_creep(&mut self, run: &LaneRun) {
         let mat = run.material;
-        let (e_t, ms) = (mat.md_modulus_pa, mat.creep.mechanosorptive_per_pct);
-        let nr = self.r.len();
-        for j in 0..nr {
-            let dxi = run.drive.dxi[k * nr + j];
-            let dmc = run.drive.dmc[k * nr + j];
-            step_update(
-                &run.creep.md,
-                ms,
-                self.st[j] / e_t,
-                &mut self.ct[j],
-                dxi,
-                dmc,
-            );
-            let (g, _) = radial_elastic(&mat.stack, -self.sr[j]);
-            step_update(&run.creep.radial, ms, g, &mut self.cr[j], dxi, dmc);
+        let e_t = mat.md_modulus_pa;
+        for j in 0..self.r.len() {
+            let g = self.st[j] / e_t;
+            self.g_t[j] = g;
+            let (a, bb) = self.rate_t[j];
+            step_update_at(&run.creep.md, g, &mut self.ct[j], a, bb);
+            let (g, e) = radial_elastic(&mat.stack, -self.sr[j]);
+            (self.g_r[j], self.etan_r[j]) = (g, e);
+            let (a, bb) = self.rate_r[j];
+            step_update_at(&run.creep.radial, g, &mut self.cr[j], a, bb);
         }
     }
 }
@@ -439,7 +478,7 @@ pub fn age_lane_with(run: &LaneRun, rec: &mut impl Recorder) -> Result<FinalStre
                 time_s: prep.timeline.times[k + 1],
             });
         }
-        cells.update_creep(run, k);
+        cells.update_creep(run);
         rec.record(&cells.snapshot(&prep.moisture.mc[k + 1][run.lane], big_r0));
     }
     Ok(FinalStress {

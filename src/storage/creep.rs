@@ -91,8 +91,29 @@ pub fn step_coefficients(
     dxi: f64,
     dmc: f64,
 ) -> (f64, f64) {
+    let (a, bb) = step_rates(b, mech_sorptive, dxi, dmc);
+    step_coefficients_at(b, e_tan, g_n, st, a, bb)
+}
+
+/// The rates of a step of [`step_coefficients`] and [`step_update`]: a = dxi/tau_K and
+/// b = dxi/tau_v + m_s |dmc| (dimensionless), the same for the coefficients and the update.
+#[inline]
+pub fn step_rates(b: &Burgers, mech_sorptive: f64, dxi: f64, dmc: f64) -> (f64, f64) {
     let a = dxi / b.retardation_s;
     let bb = dxi / b.viscous_time_s + mech_sorptive * dmc.abs();
+    (a, bb)
+}
+
+/// [`step_coefficients`] with the step's rates (a, bb) from [`step_rates`].
+#[inline]
+pub fn step_coefficients_at(
+    b: &Burgers,
+    e_tan: f64,
+    g_n: f64,
+    st: &CreepState,
+    a: f64,
+    bb: f64,
+) -> (f64, f64) {
     let k = a * b.delayed / (1.0 + a);
     let e_hat = e_tan / (1.0 + bb + k);
     let h = g_n * (bb + k) - a * st.delayed / (1.0 + a);
@@ -108,8 +129,13 @@ pub fn step_update(
     dxi: f64,
     dmc: f64,
 ) {
-    let a = dxi / b.retardation_s;
-    let bb = dxi / b.viscous_time_s + mech_sorptive * dmc.abs();
+    let (a, bb) = step_rates(b, mech_sorptive, dxi, dmc);
+    step_update_at(b, g_next, st, a, bb);
+}
+
+/// [`step_update`] with the step's rates (a, bb) from [`step_rates`].
+#[inline]
+pub fn step_update_at(b: &Burgers, g_next: f64, st: &mut CreepState, a: f64, bb: f64) {
     st.delayed = (st.delayed + a * b.delayed * g_next) / (1.0 + a);
     st.permanent += bb * g_next;
 }

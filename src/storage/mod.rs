@@ -6,6 +6,7 @@
 mod ageing;
 pub mod condensation;
 mod creep;
+mod drive;
 mod hardness;
 pub mod moisture;
 pub mod out_of_round;
@@ -15,11 +16,12 @@ mod sorption;
 mod timeline;
 
 pub use ageing::{
-    age, age_lane_with, age_prepared, drive, prepare, AgeError, AgeOptions, Aged, FinalStress,
-    LaneAged, LaneCreep, LaneDrive, LaneRun, Prepared,
+    age, age_lane_with, age_prepared, prepare, AgeError, AgeOptions, Aged, FinalStress, LaneAged,
+    LaneCreep, LaneRun, Prepared,
 };
 pub use ageing::{initial_stress as initial_stress_of, zone_pressure};
 pub use creep::{creep_compliance, relaxation_modulus, step_coefficients, step_update, CreepState};
+pub use drive::{drive, LaneDrive};
 pub use hardness::{HardnessMap, DEFAULT_HARDNESS_SLOPE, DEFAULT_PRESSURE_REF_PA};
 pub use record::{FullRecord, Recorder, Snapshot, Track};
 pub use shift::{arrhenius_shift, moisture_shift, GAS_R, T_REF_K};

@@ -7,6 +7,7 @@ use super::AgeOptions;
 use crate::case::{Material, Roll, Stance, Stretch, Wrap, WrapPermeance};
 use crate::lanes::Lanes;
 use crate::note::Note;
+use std::sync::{Arc, Mutex};
 
 /// What storage uses of a case: the web, the roll, the wraps' permeances, the storage history and
 /// the times at which the state is wanted.
@@ -155,8 +156,97 @@ fn surfaces(input: &StoreInput, s: &Stretch) -> Surfaces {
     }
 }
 
-/// Run the moisture model over a time grid.
+/// The moisture field over a time grid: a pure function of the material, the roll, the wraps,
+/// the time grid and its stretches, the lanes' edges, centres and moisture at winding, and the
+/// grid sizes. Fields already computed are kept, keyed by exactly those inputs (every number
+/// to the bit), so scenarios and noise rolls with the same storage history share one field; at
+/// most [`KEPT_VALUES`] moisture values are kept (oldest dropped first). The result does not
+/// depend on what is kept or on the order threads ask, only the time taken does.
 pub fn moisture(
+    input: &StoreInput,
+    lanes: &Lanes,
+    tl: &Timeline,
+    opt: &AgeOptions,
+) -> Arc<MoistureHistory> {
+    let key = MoistureKey::of(input, lanes, tl, opt);
+    let kept = || KEPT.lock().unwrap_or_else(|e| e.into_inner());
+    if let Some(h) = kept().find(&key) {
+        return h;
+    }
+    let h = Arc::new(compute_moisture(input, lanes, tl, opt));
+    kept().insert(key, Arc::clone(&h));
+    h
+}
+
+/// Most moisture values (f64) the kept fields hold together: 32 MiB.
+pub const KEPT_VALUES: usize = 4 << 20;
+
+/// Everything [`compute_moisture`] reads, written out exactly (`{:?}` of an f64 is its
+/// shortest round-trip form, so equal keys mean bit-equal inputs; lanes by the fields read).
+#[derive(Debug, Clone, PartialEq, Eq)]
+struct MoistureKey(String);
+
+impl MoistureKey {
+    fn of(input: &StoreInput, lanes: &Lanes, tl: &Timeline, opt: &AgeOptions) -> Self {
+        use std::fmt::Write;
+        let r = input.roll;
+        let mut k = format!(
+            "{:?}|{:?}|{:?}|{:?}|{:?}|{:?}|{:?}|{:?}|{:?}|",
+            input.material,
+            r.width_m,
+            r.diameter_m,
+            r.core_diameter_m,
+            input.wraps,
+            tl.steps,
+            tl.stretches,
+            opt.cells_r,
+            opt.cells_x,
+        );
+        for l in &lanes.lanes {
+            let _ = write!(
+                k,
+                "{:?},{:?},{:?},{:?};",
+                l.position_m, l.left_m, l.right_m, l.winding_moisture_pct
+            );
+        }
+        MoistureKey(k)
+    }
+}
+
+/// Moisture fields kept for re-use, newest last, with their sizes in values.
+struct Kept {
+    fields: Vec<(MoistureKey, Arc<MoistureHistory>, usize)>,
+}
+
+static KEPT: Mutex<Kept> = Mutex::new(Kept { fields: Vec::new() });
+
+impl Kept {
+    fn find(&mut self, key: &MoistureKey) -> Option<Arc<MoistureHistory>> {
+        let i = self.fields.iter().position(|(k, _, _)| k == key)?;
+        let e = self.fields.remove(i);
+        let h = Arc::clone(&e.1);
+        self.fields.push(e);
+        Some(h)
+    }
+
+    fn insert(&mut self, key: MoistureKey, h: Arc<MoistureHistory>) {
+        if self.fields.iter().any(|(k, _, _)| *k == key) {
+            return;
+        }
+        let size: usize = h.mc.iter().flatten().map(|c| c.len()).sum();
+        if size > KEPT_VALUES {
+            return;
+        }
+        self.fields.push((key, h, size));
+        let mut total: usize = self.fields.iter().map(|e| e.2).sum();
+        while total > KEPT_VALUES {
+            total -= self.fields.remove(0).2;
+        }
+    }
+}
+
+/// Run the moisture model over a time grid (uncached; see [`moisture`]).
+fn compute_moisture(
     input: &StoreInput,
     lanes: &Lanes,
     tl: &Timeline,

@@ -36,6 +36,8 @@
 //! stack strain behind the compressed build is updated by its change per increment (a series
 //! for small changes, no logarithm per node per step).
 
+use super::substeps::new_layer_load;
+pub use super::substeps::SubSteps;
 use crate::case::Stack;
 
 /// Material and boundary data for one lane's accretion.
@@ -88,16 +90,6 @@ fn strain_change(stack: &Stack, p0: f64, p1: f64) -> f64 {
 /// Increments smaller than this fraction of the local radial stress are not carried inward.
 const NEGLIGIBLE: f64 = 1e-15;
 
-/// Six-point Gauss-Legendre nodes and weights on [-1, 1] (Abramowitz and Stegun, Table 25.4).
-const GAUSS6: [(f64, f64); 6] = [
-    (-0.932_469_514_203_152, 0.171_324_492_379_170),
-    (-0.661_209_386_466_265, 0.360_761_573_048_139),
-    (-0.238_619_186_083_197, 0.467_913_934_572_691),
-    (0.238_619_186_083_197, 0.467_913_934_572_691),
-    (0.661_209_386_466_265, 0.360_761_573_048_139),
-    (0.932_469_514_203_152, 0.171_324_492_379_170),
-];
-
 /// One exact element: from z at the inner end of an interval of log-length `tau` (`grow` =
 /// e^tau), return
 /// (phi_in / phi_out, z at the outer end).
@@ -108,21 +100,6 @@ fn element(g: f64, z0: f64, tau: f64, grow: f64) -> (f64, f64) {
     let d = a + (g - z0) * e1 * e1;
     let inv = 1.0 / d;
     (2.0 * g * e1 * grow * inv, 2.0 * g * a * inv - g)
-}
-
-/// Integral over an interval of log-length `tau` of phi(inner) / phi(t) dt: the pressure at the
-/// inner end, per unit wound-in stress, of the layers wound over the interval. With
-/// x = e^(-g t) the integrand is 2 x^(-1/g) / (a + b x^2), smooth on [e^(-g tau), 1].
-fn new_layer_load(g: f64, z0: f64, tau: f64) -> f64 {
-    let x1 = (-g * tau).exp();
-    let (a, b) = (g + z0, g - z0);
-    let (mid, half) = (0.5 * (1.0 + x1), 0.5 * (1.0 - x1));
-    let mut sum = 0.0;
-    for (xi, w) in GAUSS6 {
-        let x = mid + half * xi;
-        sum += w * (-x.ln() / g).exp() / (a + b * x * x);
-    }
-    2.0 * half * sum
 }
 
 /// Refinement of the accretion near the surface for grid `r`: each grid interval is wound in
@@ -254,9 +231,28 @@ impl LaneState {
         self.last.push(0.0);
     }
 
+    /// The sub-steps of grid step `k` (at least 1) for this lane's grid and refinement; lanes on
+    /// the same grid with the same model share it ([`Self::add_planned`]).
+    pub fn plan(&self, m: &LaneModel, k: usize) -> SubSteps {
+        SubSteps::new(&self.r, k, self.sub, m.g(0.0))
+    }
+
     /// Add the next grid node: the layers between the current surface and the next grid
     /// radius. `sigma_w` is their wound-in stress (Pa), `wit` their wound-in tension (N/m).
     pub fn add(&mut self, m: &LaneModel, sigma_w: f64, wit: f64) -> Result<(), StepFailure> {
+        let plan = self.plan(m, self.wound);
+        self.add_planned(m, &plan, sigma_w, wit)
+    }
+
+    /// [`Self::add`] with the grid step's sub-steps already planned (by [`Self::plan`] of any
+    /// lane on the same grid with the same model); the result is the same to the last bit.
+    pub fn add_planned(
+        &mut self,
+        m: &LaneModel,
+        plan: &SubSteps,
+        sigma_w: f64,
+        wit: f64,
+    ) -> Result<(), StepFailure> {
         let k = self.wound;
         if k >= self.r.len() {
             return Err(StepFailure { step: k });
@@ -269,6 +265,13 @@ impl LaneState {
             self.wound = 1;
             return Ok(());
         }
+        if plan.k != k
+            || plan.r_new.len() != self.sub
+            || plan.r_new[self.sub - 1].to_bits() != self.r[k].to_bits()
+        {
+            let own = self.plan(m, k);
+            return self.add_planned(m, &own, sigma_w, wit);
+        }
         let fail = StepFailure { step: k };
         // deep part: ratios at the mid-step pressure estimated from the last step's increment
         self.deep_sweep(m);
@@ -276,28 +279,31 @@ impl LaneState {
         for i in b..self.ar.len() {
             self.last[i] = 0.0;
         }
-        let (r0, r1) = (self.r[k - 1], self.r[k]);
-        let tau_f = (r1 / r0).ln() / self.sub as f64;
         let mut load_b = 0.0;
         for i in 1..=self.sub {
-            let r_new = if i == self.sub {
-                r1
-            } else {
-                r0 * (tau_f * i as f64).exp()
-            };
             let top = self.ar.len() - 1;
-            let tau_new = (r_new / self.ar[top]).ln();
+            let r_new = plan.r_new[i - 1];
+            let tau_new = plan.tau[i - 1];
+            debug_assert_eq!(tau_new, (r_new / self.ar[top]).ln());
             // predictor at the start-of-step pressures, corrector at mid-step
-            let q = self.zone_sweep(m, top, tau_new, 0.0);
+            let (zj, pj) = self.zone_sweep(m, top, 0.0);
+            // the new interval: zero pressure at its outer end; the surface node has none yet,
+            // so the predictor's kernel is the plan's (at g of the unloaded stack)
+            let q = if pj == 0.0 {
+                plan.kernel[i - 1].load(plan.g0, zj)
+            } else {
+                new_layer_load(m.g(0.5 * pj), zj, tau_new)
+            };
             self.zone_march(top, -sigma_w * q);
-            let q = self.zone_sweep(m, top, tau_new, 0.5);
+            let (zj, pj) = self.zone_sweep(m, top, 0.5);
+            let q = new_layer_load(m.g(0.5 * pj), zj, tau_new);
             self.zone_march(top, -sigma_w * q);
             if !q.is_finite() {
                 return Err(fail);
             }
             self.build += r_new - self.ar[top];
             self.tau.push(tau_new);
-            self.grow.push(r_new / self.ar[top]);
+            self.grow.push(plan.grow[i - 1]);
             self.rho.push(0.0);
             self.push_node(r_new, sigma_w, if i == self.sub { k } else { usize::MAX });
             for j in self.zcut..=top {
@@ -388,10 +394,10 @@ impl LaneState {
         self.fresh = j.saturating_sub(1);
     }
 
-    /// Zone ratios from the zone bottom to the surface node `top`; returns the load factor of
-    /// a new interval of log-length `tau_new` above `top`. With `mid`, pressures are taken half
-    /// way through the sub-step, using the increment in `self.s`.
-    fn zone_sweep(&mut self, m: &LaneModel, top: usize, tau_new: f64, frac: f64) -> f64 {
+    /// Zone ratios from the zone bottom to the surface node `top`; returns z and the pressure
+    /// (Pa) at `top`. With `frac` > 0, pressures are taken that far through the sub-step, using
+    /// the increment in `self.s`.
+    fn zone_sweep(&mut self, m: &LaneModel, top: usize, frac: f64) -> (f64, f64) {
         let (b, cut) = (self.b, self.zcut);
         let p = |st: &Self, i: usize| -> f64 {
             let half = if frac > 0.0 && i >= cut {
@@ -401,9 +407,7 @@ impl LaneState {
             };
             -(st.asr[i] + half)
         };
-        let (zj, pj) = self.sweep(m, b, top, p);
-        // the new interval: zero pressure at its outer end
-        new_layer_load(m.g(0.5 * pj), zj, tau_new)
+        self.sweep(m, b, top, p)
     }
 
     /// March the increment `s_top` at the surface node inward to the zone bottom or until it

@@ -11,6 +11,7 @@ mod core;
 pub mod coupling;
 pub mod hakiel;
 mod roll;
+mod substeps;
 
 pub use self::core::{collapse_pressure, core_stiffness, of as core_of, ring_collapse_pressure};
 pub use cache::Cache;

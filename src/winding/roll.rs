@@ -285,7 +285,8 @@ fn couple(input: &WindInput, lanes: &Lanes, radii: &[f64], levelling: f64) -> (V
     (offs, coupling::nip_shares(nip, radii, &widths, k_nip))
 }
 
-/// Accrete all lanes on a grid of `nodes` nodes.
+/// Accrete all lanes on a grid of `nodes` nodes. A grid step's sub-steps are the same for every
+/// lane: they are planned once per step ([`LaneState::plan`]).
 fn accrete(
     input: &WindInput,
     lanes: &Lanes,
@@ -314,7 +315,6 @@ fn accrete(
     let web: Vec<f64> = lanes.lanes.iter().map(|l| l.web_strain).collect();
     let mut offs = web.clone();
     let mut nip_q = vec![input.winding.nip_n_per_m.max(0.0); n];
-    let mut tens = vec![0.0; n];
     let mut last_wit = vec![0.0; n];
     // Lane radii are refreshed at least 400 times over the build (every node on coarser grids).
     let every = nodes.div_ceil(400).max(1);
@@ -340,20 +340,21 @@ fn accrete(
         let e0 = shared_strain(&stiff, &offs, &widths, t_web * width)?;
         // hoop strain lost as entrained air bleeds out (see `air`)
         let air = super::air::strain_loss(mat, input.winding, rbar.max(rk), t_web);
-        for i in 0..n {
-            tens[i] = stiff[i] * (e0 + offs[i]).max(0.0);
-        }
+        let plan = states.first().map(|st| st.plan(&model, k));
+        let plan = plan.unwrap_or_default();
         for (i, st) in states.iter_mut().enumerate() {
-            let wit = coupling::effective_wit(mat, tens[i], nip_q[i], t_web, cal[i], v, air);
+            let tens = stiff[i] * (e0 + offs[i]).max(0.0);
+            let wit = coupling::effective_wit(mat, tens, nip_q[i], t_web, cal[i], v, air);
             // hoop stress on the grid: force over the compressed layer thickness, so that each
             // step adds pressure p r = sigma_w h (radial equilibrium holds exactly)
             let sigma_w = wit / c_eff;
             last_wit[i] = wit;
-            st.add(&model, sigma_w, wit).map_err(|f| WindError::Solve {
-                lane: i,
-                step: f.step,
-                nodes,
-            })?;
+            st.add_planned(&model, &plan, sigma_w, wit)
+                .map_err(|f| WindError::Solve {
+                    lane: i,
+                    step: f.step,
+                    nodes,
+                })?;
         }
     }
     for (i, st) in states.iter_mut().enumerate() {
@@ -372,7 +373,14 @@ fn accrete(
 /// ln((built - rc) / (R - rc)), on a coarse grid of [`COARSE_NODES`] nodes (the build is a
 /// smooth integral of the strain; its discretisation error there is far below the 1 % of the
 /// stresses), to [`CALIPER_TOL`].
-fn compressed_caliper(input: &WindInput, lanes: &Lanes, opt: Options) -> Result<f64, WindError> {
+///
+/// On a wanted grid no finer than the coarse one, the last iterate's accretion is the wound
+/// state itself and is handed back, so it is not wound a second time.
+fn compressed_caliper(
+    input: &WindInput,
+    lanes: &Lanes,
+    opt: Options,
+) -> Result<(f64, Option<Accreted>), WindError> {
     let model = lane_model(input);
     let rc = 0.5 * input.roll.core_diameter_m;
     let big_r = 0.5 * input.roll.diameter_m;
@@ -380,16 +388,21 @@ fn compressed_caliper(input: &WindInput, lanes: &Lanes, opt: Options) -> Result<
     let width: f64 = widths.iter().sum();
     let cal = lanes.calipers();
     let coarse = COARSE_NODES.min(opt.nodes);
-    let miss = |x: f64| -> Result<f64, WindError> {
+    let mut last: Option<(f64, Accreted)> = None;
+    let mut miss = |x: f64| -> Result<f64, WindError> {
         let c_eff = x.exp();
-        let st = accrete(input, lanes, coarse, opt.levelling, c_eff)?.states;
-        let built = st
+        let acc = accrete(input, lanes, coarse, opt.levelling, c_eff)?;
+        let built = acc
+            .states
             .iter()
             .zip(&widths)
             .zip(&cal)
             .map(|((s, w), c)| w * s.outer_radius(&model, 1.0 / c_eff, *c))
             .sum::<f64>()
             / width;
+        if coarse == opt.nodes {
+            last = Some((x, acc));
+        }
         Ok(((built - rc) / (big_r - rc)).ln())
     };
     let mut x0 = lanes.mean_caliper_m.ln();
@@ -407,7 +420,8 @@ fn compressed_caliper(input: &WindInput, lanes: &Lanes, opt: Options) -> Result<
         let x2 = x1 - h1 * (x1 - x0) / (h1 - h0);
         (x0, h0, x1) = (x1, h1, x2);
     }
-    Ok(x1.exp())
+    let kept = last.and_then(|(x, acc)| (x.to_bits() == x1.to_bits()).then_some(acc));
+    Ok((x1.exp(), kept))
 }
 
 /// Nodes of the grid on which the compressed caliper is found.
@@ -440,7 +454,7 @@ pub fn wind(input: &WindInput, lanes: &Lanes, opt: Options) -> Result<Wound, Win
     let widths = lanes.widths();
     let width: f64 = widths.iter().sum();
     let cal = lanes.calipers();
-    let c_eff = compressed_caliper(input, lanes, opt)?;
+    let (c_eff, kept) = compressed_caliper(input, lanes, opt)?;
     let layers = (big_r - rc) / c_eff;
     let nodes = opt.nodes;
     let Accreted {
@@ -448,7 +462,7 @@ pub fn wind(input: &WindInput, lanes: &Lanes, opt: Options) -> Result<Wound, Win
         per_node,
         nip_n_per_m,
         radii_m,
-    } = accrete(input, lanes, nodes, opt.levelling, c_eff)?;
+    } = kept.map_or_else(|| accrete(input, lanes, nodes, opt.levelling, c_eff), Ok)?;
     let grid = states.first().map(|s| s.r.clone()).unwrap_or_default();
     let rho = mat.density_kg_m3;
     let v = input.winding.speed_m_s;

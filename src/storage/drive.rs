@@ -1,0 +1,63 @@
+//! What storage does to one lane independently of its creep parameters (the reduced-time steps
+//! and moisture changes of its cells), computed once per lane and re-used by every run of its
+//! mechanics (a fit runs a lane hundreds of times).
+
+use super::ageing::{LaneCreep, Prepared};
+use super::shift::{arrhenius_shift, moisture_shift};
+use crate::case::Material;
+
+/// What storage does to one lane independently of its creep parameters: the reduced-time step
+/// and the moisture change of each radial cell at each time step (index k * cells + j).
+#[derive(Debug, Clone, PartialEq)]
+pub struct LaneDrive {
+    pub dxi: Vec<f64>,
+    pub dmc: Vec<f64>,
+    /// The parts of each step's creep rates that a fit's scales leave alone (index as `dxi`):
+    /// dxi / tau_K, MD and radial, for the grade's retardation times `ret` (s), and m_s |dmc|
+    /// for the grade's mechano-sorptive coefficient `ms` (/%).
+    pub(super) a: [Vec<f64>; 2],
+    pub(super) msd: Vec<f64>,
+    ret: [f64; 2],
+    ms: f64,
+}
+
+impl LaneDrive {
+    /// Whether the precomputed rate parts hold for `creep` and coefficient `ms` (same to the
+    /// bit as the grade's).
+    pub(super) fn fits(&self, creep: &LaneCreep, ms: f64) -> bool {
+        self.ret[0].to_bits() == creep.md.retardation_s.to_bits()
+            && self.ret[1].to_bits() == creep.radial.retardation_s.to_bits()
+            && self.ms.to_bits() == ms.to_bits()
+    }
+}
+
+/// Precompute a lane's drive (time shifts and moisture changes).
+pub fn drive(material: &Material, prep: &Prepared, lane: usize) -> LaneDrive {
+    let mat = material;
+    let nr = prep.moisture.r.len();
+    let ns = prep.timeline.steps.len();
+    let mut dxi = Vec::with_capacity(ns * nr);
+    let mut dmc = Vec::with_capacity(ns * nr);
+    for (k, stp) in prep.timeline.steps.iter().enumerate() {
+        let stretch = &prep.timeline.stretches[stp.stretch];
+        let a_t = arrhenius_shift(mat.creep.activation_energy_j_mol, stretch.temperature_k);
+        let mc_old = &prep.moisture.mc[k][lane];
+        let mc_new = &prep.moisture.mc[k + 1][lane];
+        for j in 0..nr {
+            let mc_mid = 0.5 * (mc_old[j] + mc_new[j]);
+            let a_m = moisture_shift(mat.creep.moisture_shift_dec_per_pct, mc_mid, prep.mc_ref);
+            dxi.push(stp.dt / (a_t * a_m));
+            dmc.push(mc_new[j] - mc_old[j]);
+        }
+    }
+    let ret = [mat.creep.md.retardation_s, mat.creep.radial.retardation_s];
+    let ms = mat.creep.mechanosorptive_per_pct;
+    LaneDrive {
+        a: ret.map(|t| dxi.iter().map(|x| x / t).collect()),
+        msd: dmc.iter().map(|d| ms * d.abs()).collect(),
+        ret,
+        ms,
+        dxi,
+        dmc,
+    }
+}
