@@ -2,9 +2,10 @@
 //! bearing and Martin's (1916) nip film, evaluated by a Python script, and an invented fast, light
 //! roll wound without a nip against the same roll wound slowly or with a nip.
 
+mod common;
+
 use rollsleuth::case::{self, Case, Tension, Winding};
-use rollsleuth::diagnose::{diagnose, DiagnoseOptions, Diagnosis};
-use rollsleuth::rules;
+use rollsleuth::diagnose::Diagnosis;
 use rollsleuth::vocab::{Defect, Feature};
 use rollsleuth::winding::air::{film_m, foil_bearing_film_m, nip_film_m, AIR_VISCOSITY_PA_S};
 
@@ -75,11 +76,7 @@ fn invented(sets: &[&str]) -> Case {
 }
 
 fn run(c: &Case, what_if: bool) -> Diagnosis {
-    let opt = DiagnoseOptions {
-        nodes: 121,
-        what_if,
-    };
-    diagnose(c, &rules::load_default().unwrap(), &opt).unwrap()
+    common::diagnose_at(c, 121, what_if)
 }
 
 fn has_air(d: &Diagnosis) -> bool {

@@ -9,10 +9,11 @@
 //! - a wet band at winding in a film-wrapped roll keeps the roll's water (conservation of mass),
 //!   and the band shrinks as it dries into its neighbours (hygroexpansion eps = beta dMC).
 
+mod common;
+
 use rollsleuth::case::{self, Case, Measure, Profile};
-use rollsleuth::diagnose::{base_scenario, diagnose, DiagnoseOptions, Diagnosis};
+use rollsleuth::diagnose::{base_scenario, Diagnosis};
 use rollsleuth::lanes;
-use rollsleuth::rules;
 use rollsleuth::storage::LaneCreep;
 use rollsleuth::vocab::{Action, Cause, Defect};
 use rollsleuth::winding::{wind, Options, WindInput};
@@ -52,16 +53,10 @@ fn tension(slack: f64) -> Profile {
 
 fn run(c: &Case) -> Diagnosis {
     // with the re-runs: attribution and corrections
-    let opt = DiagnoseOptions {
-        nodes: 121,
-        what_if: true,
-    };
-    diagnose(c, &rules::load_default().unwrap(), &opt).unwrap()
+    common::diagnose_at(c, 121, true)
 }
 
-fn defects(d: &Diagnosis) -> Vec<Defect> {
-    d.findings.iter().map(|f| f.defect).collect()
-}
+use common::defects;
 
 #[test]
 fn lanes_wind_with_the_measured_tension_profile() {

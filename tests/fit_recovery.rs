@@ -2,12 +2,11 @@
 //! known size, fitted back. The ground truth is ours by construction (a self-consistency check of
 //! the estimator, not of the physics); the physics is checked against sources elsewhere.
 
+mod common;
+
 use rollsleuth::case::{self, Case, Measure};
 use rollsleuth::fit::{self, synth};
-use rollsleuth::lanes;
-use rollsleuth::storage::AgeOptions;
 use rollsleuth::units::DAY_S;
-use rollsleuth::winding::{wind, Options, WindInput};
 
 /// A roll of the given field case with its measurements replaced by synthetic ones.
 fn synthetic(
@@ -28,14 +27,7 @@ fn synthetic(
 }
 
 fn run(c: &Case) -> fit::RollFit {
-    let l = lanes::build(c);
-    let w = wind(
-        &WindInput::new(&c.material, &c.roll, &c.winding),
-        &l,
-        Options::default(),
-    )
-    .unwrap();
-    fit::fit_roll(c, &l, &w, &AgeOptions::default()).unwrap()
+    common::fit_case(c)
 }
 
 /// Smallest k with P(X <= k) >= q for X ~ Binomial(n, p) (exact sum).

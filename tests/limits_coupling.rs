@@ -3,28 +3,20 @@
 //! grade. Comparison values come from closed forms written out here (a rigid line on an elastic
 //! foundation) or from the trade's expectations (common practice).
 
-use rollsleuth::case::{self, Case, Measure, Profile, Stack};
-use rollsleuth::diagnose::{diagnose, DiagnoseOptions, Diagnosis};
-use rollsleuth::lanes::{self, Lanes};
-use rollsleuth::rules;
+mod common;
+
+use rollsleuth::case::{Case, Measure, Profile, Stack};
+use rollsleuth::diagnose::Diagnosis;
+use rollsleuth::lanes::{self};
 use rollsleuth::vocab::{Defect, Feature};
-use rollsleuth::winding::{wind, Options, WindInput, Wound};
+use rollsleuth::winding::Wound;
 
 fn demo(sets: &[&str]) -> Case {
-    let mut s: Vec<String> = vec!["profiles=[]".into()];
-    s.extend(sets.iter().map(|s| s.to_string()));
-    let mut c = case::load_demo(&s).unwrap();
-    c.profiles.clear();
-    c.complaint = None;
-    c
+    common::demo_without_profiles(sets)
 }
 
 fn run(c: &Case) -> Diagnosis {
-    let opt = DiagnoseOptions {
-        nodes: 121,
-        what_if: false,
-    };
-    diagnose(c, &rules::load_default().unwrap(), &opt).unwrap()
+    common::diagnose_at(c, 121, false)
 }
 
 fn caliper(c: &mut Case, positions_m: Vec<f64>, values_m: Vec<f64>) {
@@ -38,14 +30,7 @@ fn caliper(c: &mut Case, positions_m: Vec<f64>, values_m: Vec<f64>) {
     c.lane_count = None;
 }
 
-fn wound(c: &Case, l: &Lanes, nodes: usize) -> Wound {
-    let input = WindInput::new(&c.material, &c.roll, &c.winding);
-    let opt = Options {
-        nodes,
-        ..Options::default()
-    };
-    wind(&input, l, opt).unwrap()
-}
+use common::wound;
 
 const SHORT_STORE: &str = "storage=[{duration: \"10 d\", temperature: \"23 C\", rh: \"50 %\", barrel_wrap: paper, end_wrap: paper}]";
 

@@ -3,9 +3,10 @@
 //! over one side; common practice). The rule fires on a wedge, names the long side, and stays
 //! silent on a control roll with the same mean caliper and no wedge.
 
+mod common;
+
 use rollsleuth::case::{self, Case, Measure, Profile};
-use rollsleuth::diagnose::{diagnose, DiagnoseOptions, Diagnosis};
-use rollsleuth::rules;
+use rollsleuth::diagnose::Diagnosis;
 use rollsleuth::vocab::Defect;
 
 /// The demo roll with its measurements replaced by one caliper profile at winding.
@@ -30,11 +31,7 @@ fn roll(caliper_um: impl Fn(f64) -> f64) -> Case {
 }
 
 fn run(c: &Case) -> Diagnosis {
-    let opt = DiagnoseOptions {
-        nodes: 121,
-        what_if: false,
-    };
-    diagnose(c, &rules::load_default().unwrap(), &opt).unwrap()
+    common::diagnose_at(c, 121, false)
 }
 
 #[test]

@@ -3,10 +3,11 @@
 //! against a time integration of the base-excited oscillator (Den Hartog 1956), and an invented
 //! roll that lay on its side against the same roll stored on end.
 
+mod common;
+
 use rollsleuth::case::{self, Burgers, Case, Stack, Stance, Stretch, Wrap};
 use rollsleuth::diagnose::unwind::relative_response;
-use rollsleuth::diagnose::{diagnose, DiagnoseOptions, Diagnosis};
-use rollsleuth::rules;
+use rollsleuth::diagnose::Diagnosis;
 use rollsleuth::storage::out_of_round::flat;
 use rollsleuth::vocab::{Action, Defect, Feature};
 
@@ -132,11 +133,7 @@ fn invented(stance: &str) -> Case {
 }
 
 fn run(c: &Case, what_if: bool) -> Diagnosis {
-    let opt = DiagnoseOptions {
-        nodes: 121,
-        what_if,
-    };
-    diagnose(c, &rules::load_default().unwrap(), &opt).unwrap()
+    common::diagnose_at(c, 121, what_if)
 }
 
 #[test]

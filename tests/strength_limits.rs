@@ -2,31 +2,22 @@
 //! come from a closed form written out here (thin-ring buckling) or from the trade's
 //! expectations (common practice).
 
-use rollsleuth::case::{self, Case};
-use rollsleuth::diagnose::{diagnose, DiagnoseOptions, Diagnosis};
+mod common;
+
+use rollsleuth::case::Case;
+use rollsleuth::diagnose::Diagnosis;
 use rollsleuth::rules;
 use rollsleuth::vocab::{Defect, Feature, FeatureValues};
 
 fn demo(sets: &[&str]) -> Case {
-    let mut s: Vec<String> = vec!["profiles=[]".into()];
-    s.extend(sets.iter().map(|s| s.to_string()));
-    let mut c = case::load_demo(&s).unwrap();
-    c.profiles.clear();
-    c.complaint = None;
-    c
+    common::demo_without_profiles(sets)
 }
 
 fn run(c: &Case) -> Diagnosis {
-    let opt = DiagnoseOptions {
-        nodes: 121,
-        what_if: false,
-    };
-    diagnose(c, &rules::load_default().unwrap(), &opt).unwrap()
+    common::diagnose_at(c, 121, false)
 }
 
-fn defects(d: &Diagnosis) -> Vec<Defect> {
-    d.findings.iter().map(|f| f.defect).collect()
-}
+use common::defects;
 
 const SHORT_STORE: &str = "storage=[{duration: \"10 d\", temperature: \"23 C\", rh: \"50 %\", barrel_wrap: paper, end_wrap: paper}]";
 

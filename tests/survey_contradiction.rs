@@ -5,13 +5,15 @@
 //! 26.2.17). Mirroring one lane's change about the roll's change (harder where the model
 //! predicts softer) is flagged at that lane, with a warning note.
 
+mod common;
+
 use rollsleuth::case::{self, Case, Measure};
 use rollsleuth::fit::{self, synth};
 use rollsleuth::lanes;
 use rollsleuth::note::Note;
-use rollsleuth::storage::{AgeOptions, LaneCreep};
+use rollsleuth::storage::LaneCreep;
 use rollsleuth::units::DAY_S;
-use rollsleuth::winding::{wind, Options, WindInput};
+use rollsleuth::winding::Options;
 
 /// Stated hardness repeatability of the synthetic readings, scale units (noise-free readings,
 /// so any stated value is honest; small, so that the model's lane-to-lane pattern is resolved).
@@ -24,12 +26,7 @@ fn consistent(file: &str) -> Case {
     c.profiles
         .retain(|p| !matches!(p.what, Measure::Hardness | Measure::Diameter));
     let l = lanes::build(&c);
-    let w = wind(
-        &WindInput::new(&c.material, &c.roll, &c.winding),
-        &l,
-        Options::default(),
-    )
-    .unwrap();
+    let w = common::wound(&c, &l, Options::default().nodes);
     let creep: Vec<LaneCreep> = vec![fit::creep_from(&c.material, &[0.0, 0.0]); l.lanes.len()];
     let end = c.storage.iter().map(|s| s.duration_s).sum::<f64>();
     let t = synth::Truth {
@@ -46,14 +43,7 @@ fn consistent(file: &str) -> Case {
 }
 
 fn run(c: &Case) -> fit::RollFit {
-    let l = lanes::build(c);
-    let w = wind(
-        &WindInput::new(&c.material, &c.roll, &c.winding),
-        &l,
-        Options::default(),
-    )
-    .unwrap();
-    fit::fit_roll(c, &l, &w, &AgeOptions::default()).unwrap()
+    common::fit_case(c)
 }
 
 /// Mirror the hardness change of the lane whose change differs most from the roll's: returns its
