@@ -243,11 +243,7 @@ fn drop_below_floor(
                 feature: x.feature,
                 value: feats.get(x.feature),
                 uniform: x.uniform,
-                threshold: match t.side {
-                    Side::Up => x.threshold_above,
-                    Side::Down => x.threshold_below,
-                    Side::Both => x.threshold_above.max(x.threshold_below),
-                },
+                threshold: x.threshold(t.side),
                 noise_chance: t.chance,
                 level: t.level,
             });
