@@ -408,13 +408,7 @@ fn consistency_notes(
         });
     }
     // a later survey that contradicts the model there leaves a lane unexplained too
-    let contradicted = |i: usize| {
-        fitted
-            .fit
-            .contradictions
-            .iter()
-            .any(|k| (k.position_m - lanes[i].position_m).abs() < 1e-9)
-    };
+    let contradicted = |i: usize| fitted.fit.contradictions.iter().any(|k| k.lane == i);
     for f in findings {
         let unexplained = f
             .lanes

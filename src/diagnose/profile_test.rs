@@ -88,13 +88,17 @@ pub(super) fn band_test(
 /// The test of the web's own profile at winding: the tension profile's readings over their
 /// mean with [`TENSION_REPEATABILITY`], the moisture profile's with
 /// [`MOISTURE_REPEATABILITY_PCT`]; with both, twice the smaller chance (Bonferroni). `None`
-/// without either profile.
+/// without either profile; a tension profile whose mean is not positive is not tested.
 pub(super) fn web_test(lab: &Case, level: f64, rng: &mut ChaCha8Rng) -> Option<BandTest> {
     let mut tests = Vec::new();
+    // a tension profile is read by its shape over its mean: none without a positive mean (as
+    // the lanes read it, `lanes::web_strains`)
     if let Some(p) = densest(lab, Measure::Tension) {
         let m = p.values.iter().sum::<f64>() / p.values.len().max(1) as f64;
-        let v: Vec<f64> = p.values.iter().map(|x| x / m).collect();
-        tests.push(outlier_test(&v, TENSION_REPEATABILITY, level, rng));
+        if m > 0.0 && m.is_finite() {
+            let v: Vec<f64> = p.values.iter().map(|x| x / m).collect();
+            tests.push(outlier_test(&v, TENSION_REPEATABILITY, level, rng));
+        }
     }
     if let Some(p) = densest(lab, Measure::Moisture) {
         tests.push(outlier_test(

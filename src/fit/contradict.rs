@@ -26,7 +26,8 @@ pub struct Contradiction {
     pub what: Measure,
     /// Age of the later survey, s.
     pub age_s: f64,
-    /// Lane centre, m.
+    /// Lane index and centre (m).
+    pub lane: usize,
     pub position_m: f64,
     /// The lane's change since the first survey minus the roll's width-weighted change:
     /// predicted with the pooled creep and measured (hardness units, or m of diameter).
@@ -103,6 +104,7 @@ pub fn contradictions(
                 found.push(Contradiction {
                     what,
                     age_s: age,
+                    lane: i,
                     position_m: positions_m[i],
                     predicted: dp,
                     measured: dm,
