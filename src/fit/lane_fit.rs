@@ -358,13 +358,7 @@ pub fn fit_lane(p: &LaneProblem, prior: [f64; 2], seed: u64) -> Result<LaneFit, 
     let m = minimise(&obj, prior)?;
     let f = |t: &[f64]| obj.value(t);
     let h = hessian2(&f, &m.theta, 0.05);
-    let width = |i: usize| {
-        inverse_pd(h)
-            .map(|c| c[i][i].max(0.0).sqrt())
-            .unwrap_or(PRIOR_SD_LN)
-            .clamp(0.02, PRIOR_SD_LN)
-    };
-    let post = super::posterior::sample(&obj, &m.theta, [width(0), width(1)], seed);
+    let post = super::posterior::sample(&obj, &m.theta, [PRIOR_SD_LN; 2], seed);
     // the data alone: the curvature without the prior's part
     let ip = 1.0 / (PRIOR_SD_LN * PRIOR_SD_LN);
     let cov_data = inverse_pd([[h[0][0] - ip, h[0][1]], [h[1][0], h[1][1] - ip]]);
