@@ -94,19 +94,29 @@ pub const DEFAULT_LANES: usize = 12;
 /// a wide edge lane would average away.
 pub const EDGE_STRIP_M: f64 = 0.025;
 
-/// Split off an edge strip at each side when the edge lane is more than three strips wide.
+/// Make each edge lane one edge strip wide, so that what happens at the roll's ends is averaged
+/// over the same width at every lane count (the edge lane's length at unwind depends on its
+/// width: moisture enters through the end faces over the outer centimetres). An edge lane more
+/// than two strips wide has a strip split off (one lane more); one between one and two strips
+/// wide gives its excess width to its neighbour (the lane count stays); a narrower one is kept.
 fn with_edge_strips(mut e: Vec<f64>) -> Vec<f64> {
     let n = e.len();
-    if n < 2 {
+    if n < 3 {
         return e;
     }
     let (first, last) = (e[0], e[n - 1]);
-    if e[1] - first > 3.0 * EDGE_STRIP_M {
+    let w0 = e[1] - first;
+    if w0 > 2.0 * EDGE_STRIP_M {
         e.insert(1, first + EDGE_STRIP_M);
+    } else if w0 > EDGE_STRIP_M {
+        e[1] = first + EDGE_STRIP_M;
     }
     let n = e.len();
-    if last - e[n - 2] > 3.0 * EDGE_STRIP_M {
+    let w1 = last - e[n - 2];
+    if w1 > 2.0 * EDGE_STRIP_M {
         e.insert(n - 1, last - EDGE_STRIP_M);
+    } else if w1 > EDGE_STRIP_M {
+        e[n - 2] = last - EDGE_STRIP_M;
     }
     e
 }

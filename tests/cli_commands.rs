@@ -161,3 +161,36 @@ fn triage_ranks_rolls_and_reports_bad_files() {
         "a bad file is listed with its whole message, not fatal: {out}"
     );
 }
+
+/// The same roll gives the same answer whatever the command: `fit`, `diagnose` and `triage` wind
+/// at one resolution (the winding model's default nodes) and report the same length spread at
+/// unwind, to the last digit (common practice: a result must not depend on how it is asked for).
+#[test]
+fn fit_diagnose_and_triage_report_the_same_spread() {
+    let f = "field_cases/kestrel_coated_cold_to_humid.yaml";
+    let spread = |args: &[&str]| -> f64 {
+        let (_, out, err) = run(args);
+        let v: serde_json::Value =
+            serde_json::from_str(&out).unwrap_or_else(|e| panic!("{e}: {err}"));
+        let s = if v["rolls"].is_array() {
+            &v["rolls"][0]["spread_mm_per_m"]
+        } else {
+            &v["spread_mm_per_m"]
+        };
+        s.as_f64().unwrap_or_else(|| panic!("{args:?}: {s}"))
+    };
+    let fit = spread(&["--json", "fit", f]);
+    let diagnose = spread(&["--json", "diagnose", f]);
+    let triage = spread(&["--json", "triage", f]);
+    assert!(fit > 0.5, "the coated roll's edges are long: {fit}");
+    assert_eq!(
+        fit.to_bits(),
+        diagnose.to_bits(),
+        "fit {fit}, diagnose {diagnose}"
+    );
+    assert_eq!(
+        fit.to_bits(),
+        triage.to_bits(),
+        "fit {fit}, triage {triage}"
+    );
+}

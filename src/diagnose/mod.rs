@@ -38,7 +38,9 @@ use serde::Serialize;
 /// Diagnosis options.
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct DiagnoseOptions {
-    /// Radial nodes of the winding model in the re-runs.
+    /// Radial nodes of the winding model, for the wound state and the re-runs (default: the
+    /// winding model's [`crate::winding::DEFAULT_NODES`], as `fit` and `triage` use, so every
+    /// command reports the same numbers for the same roll).
     pub nodes: usize,
     /// Whether to attribute causes and check corrections (the re-runs).
     pub what_if: bool,
@@ -47,7 +49,7 @@ pub struct DiagnoseOptions {
 impl Default for DiagnoseOptions {
     fn default() -> Self {
         DiagnoseOptions {
-            nodes: 201,
+            nodes: crate::winding::DEFAULT_NODES,
             what_if: true,
         }
     }
