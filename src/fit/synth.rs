@@ -189,3 +189,67 @@ pub enum SynthError {
     #[error(transparent)]
     Age(#[from] AgeError),
 }
+
+/// The positions field readings are given at: the case's earliest hardness (else diameter, else
+/// caliper) profile's, as the case gives it; else `centres` (m).
+fn reading_positions(case: &Case, centres: &[f64]) -> Vec<f64> {
+    [Measure::Hardness, Measure::Diameter, Measure::Caliper]
+        .iter()
+        .find_map(|m| {
+            case.profiles
+                .iter()
+                .filter(|p| p.what == *m)
+                .min_by(|a, b| a.age_s.total_cmp(&b.age_s))
+        })
+        .map(|p| p.positions_m.clone())
+        .unwrap_or_else(|| centres.to_vec())
+}
+
+/// Hardness and diameter readings of an invented field case at `ages_s` (s), predicted with the
+/// creep `scales` (MD, radial) in every lane plus seeded noise (the case's hardness
+/// repeatability; 0.08 mm of diameter), at the positions of the case's own readings
+/// (interpolated from the lane centres, so putting them in the case keeps its lanes). The case's
+/// own hardness and diameter profiles at those ages are left out first, so the result depends
+/// only on the rest of the case: a case holding its readings reproduces them.
+pub fn field_readings(
+    case: &Case,
+    seed: u64,
+    scales: [f64; 2],
+    ages_s: &[f64],
+) -> Result<Vec<Profile>, SynthError> {
+    let positions = reading_positions(case, &crate::lanes::build(case).positions());
+    let mut case = case.clone();
+    case.profiles.retain(|p| {
+        p.what == Measure::Caliper
+            || !ages_s
+                .iter()
+                .any(|a| (a - p.age_s).abs() < 0.5 * crate::units::DAY_S)
+    });
+    let l = crate::lanes::build(&case);
+    let w = crate::winding::wind(
+        &crate::winding::WindInput::new(&case.material, &case.roll, &case.winding),
+        &l,
+        crate::winding::Options::default(),
+    )?;
+    let creep =
+        vec![super::creep_from(&case.material, &[scales[0].ln(), scales[1].ln()]); l.lanes.len()];
+    let truth = Truth {
+        creep: &creep,
+        ages_s,
+        hardness_sd: case.hardness.repeatability,
+        diameter_sd_m: 8e-5,
+        seed,
+    };
+    let centres = l.positions();
+    Ok(profiles(&case, &l, &w, &truth)?
+        .into_iter()
+        .map(|p| Profile {
+            values: positions
+                .iter()
+                .map(|&x| crate::interp::linear_extrap(&centres, &p.values, x).0)
+                .collect(),
+            positions_m: positions.clone(),
+            ..p
+        })
+        .collect())
+}
