@@ -19,6 +19,5 @@ pub use cache::Cache;
 pub use centrifugal::{disk_stress, lift_off_speed};
 pub use roll::{
     lane_model, wind, wind_from, LaneStress, LaneSummary, Options, Secant, WindError, WindInput,
-    Wound,
-    DEFAULT_LEVELLING, DEFAULT_NODES, SURFACE_ZONE_M,
+    Wound, DEFAULT_LEVELLING, DEFAULT_NODES, SURFACE_ZONE_M,
 };

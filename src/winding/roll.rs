@@ -21,9 +21,9 @@
 
 use super::centrifugal::lift_off_speed;
 use super::coupling;
+use super::hakiel::{LaneModel, LaneState};
 use super::summary::summarise;
 pub use super::summary::SURFACE_ZONE_M;
-use super::hakiel::{LaneModel, LaneState};
 use crate::case::{Material, Roll, Winding};
 use crate::lanes::Lanes;
 use serde::Serialize;
