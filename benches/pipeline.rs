@@ -8,7 +8,7 @@ use rollsleuth::fit::{self, synth};
 use rollsleuth::lanes;
 use rollsleuth::storage::{AgeOptions, LaneCreep};
 use rollsleuth::units::DAY_S;
-use rollsleuth::winding::{wind, Options, WindInput};
+use rollsleuth::winding::{wind, wind_from, Options, WindInput};
 use std::hint::black_box;
 
 fn roll(storage_days: u32) -> Case {
@@ -49,6 +49,18 @@ fn bench(c: &mut Criterion) {
             .expect("winds")
         })
     });
+    // the same noise roll started from the secant of a like roll (as the noise rolls start from
+    // the noise-free roll's)
+    let coarse = Options {
+        nodes: 61,
+        ..Options::default()
+    };
+    let input = WindInput::new(&case.material, &case.roll, &case.winding);
+    let (_, start) = wind_from(&input, &l, coarse, None).expect("winds");
+    c.bench_function(
+        "wind 40 lanes, 61 nodes, secant started from a like roll",
+        |b| b.iter(|| wind_from(black_box(&input), &l, coarse, Some(start)).expect("winds")),
+    );
     let w = wind(
         &WindInput::new(&case.material, &case.roll, &case.winding),
         &l,

@@ -4,7 +4,7 @@ use approx::assert_relative_eq;
 use rollsleuth::case::{self, Case, Stack};
 use rollsleuth::lanes;
 use rollsleuth::winding::hakiel::{LaneModel, LaneState};
-use rollsleuth::winding::{core_stiffness, disk_stress, wind, Options, WindInput};
+use rollsleuth::winding::{core_stiffness, disk_stress, wind, wind_from, Options, WindInput};
 
 fn demo(sets: &[&str]) -> Case {
     let s: Vec<String> = sets.iter().map(|s| s.to_string()).collect();
@@ -435,6 +435,49 @@ fn wound_state_satisfies_radial_equilibrium_identity() {
                 r[i],
                 -integral
             );
+        }
+    }
+}
+
+/// A secant started from another roll's end (as the noise rolls start from the noise-free
+/// roll's) finds the same compressed caliper: the lanes' compressed builds fill the diameter the
+/// case states, and the stresses agree with the roll wound from the mean caliper to within the
+/// secant's tolerance.
+#[test]
+fn a_started_secant_fills_the_stated_diameter() {
+    let c = demo(&["lanes.count=12"]);
+    let input = WindInput::new(&c.material, &c.roll, &c.winding);
+    let opt = Options {
+        nodes: 61,
+        ..Options::default()
+    };
+    let clean = lanes::build(&uniform(&["lanes.count=12"]));
+    let (_, start) = wind_from(&input, &clean, opt, None).unwrap();
+    let l = lanes::build(&c);
+    let cold = wind(&input, &l, opt).unwrap();
+    let (warm, _) = wind_from(&input, &l, opt, Some(start)).unwrap();
+    assert_relative_eq!(
+        warm.layer_thickness_m,
+        cold.layer_thickness_m,
+        max_relative = 1e-6
+    );
+    let widths = l.widths();
+    let width: f64 = widths.iter().sum();
+    let built = warm
+        .lanes
+        .iter()
+        .zip(&widths)
+        .map(|(x, w)| x.summary.outer_radius_m * w)
+        .sum::<f64>()
+        / width;
+    assert_relative_eq!(2.0 * built, c.roll.diameter_m, max_relative = 1e-6);
+    for (a, b) in warm.lanes.iter().zip(&cold.lanes) {
+        let scale = b
+            .radial_stress_pa
+            .iter()
+            .fold(0.0_f64, |m, x| m.max(x.abs()));
+        for (x, y) in a.radial_stress_pa.iter().zip(&b.radial_stress_pa) {
+            assert!((x - y).abs() <= 1e-5 * scale, "{x} vs {y}");
         }
     }
 }

@@ -17,7 +17,7 @@ use crate::note::Note;
 use crate::rules::Table;
 use crate::storage::{age_prepared, AgeOptions, LaneCreep};
 use crate::vocab::Feature;
-use crate::winding::{wind, Options, WindInput};
+use crate::winding::{wind_from, Options, Secant, WindInput};
 use rand::{Rng, SeedableRng};
 use rand_chacha::ChaCha8Rng;
 use serde::Serialize;
@@ -245,20 +245,23 @@ fn draw_lane_calipers(
     l
 }
 
-/// A roll on `lanes` wound at `nodes` and run through storage with `creep` per lane: its features.
+/// A roll on `lanes` wound at `nodes` and run through storage with `creep` per lane: its features
+/// and where its winding's secant ended. The secant starts at `start` when given ([`wind_from`]).
 fn roll_features(
     lab: &Case,
     lanes: &Lanes,
     creep: &[LaneCreep],
     nodes: usize,
-) -> Result<Features, DiagnoseError> {
-    let wound = wind(
+    start: Option<Secant>,
+) -> Result<(Features, Secant), DiagnoseError> {
+    let (wound, found) = wind_from(
         &WindInput::new(&lab.material, &lab.roll, &lab.winding),
         lanes,
         Options {
             nodes,
             ..Options::default()
         },
+        start,
     )?;
     let (prep, map) = prepared(lab, lanes, &wound, &AgeOptions::default())?;
     let aged =
@@ -268,7 +271,7 @@ fn roll_features(
         wound,
         aged,
     };
-    Ok(features::compute(lab, lanes, &o))
+    Ok((features::compute(lab, lanes, &o), found))
 }
 
 /// Creep per lane of a noise-only roll: the pooled log-scales moved by one of the lane's own
@@ -295,12 +298,15 @@ fn noisy_creep(lab: &Case, fit: &crate::fit::RollFit, rng: &mut ChaCha8Rng) -> V
 }
 
 /// Features of [`NOISE_ROLLS`] noise-only uniform rolls at `nodes` (drawn in a fixed order from
-/// `rng`, run in parallel, collected in order), with caliper noise `rep` (m).
+/// `rng`, run in parallel, collected in order), with caliper noise `rep` (m). `clean`: the
+/// noise-free roll's mean caliper (m) and where its secant ended; each noise roll's secant
+/// starts there, the compressed caliper scaled by the roll's own mean caliper (two windings of
+/// the coarse grid instead of about four; the floors move within the secant's tolerance).
 fn noise_rolls(
     lab: &Case,
     fitted: &Fitted,
     rep: f64,
-    nodes: usize,
+    (nodes, clean): (usize, (f64, Secant)),
     rng: &mut ChaCha8Rng,
 ) -> Result<Vec<Features>, DiagnoseError> {
     use rayon::prelude::*;
@@ -312,7 +318,13 @@ fn noise_rolls(
         .collect();
     inputs
         .par_iter()
-        .map(|(l, c)| roll_features(lab, l, c, nodes))
+        .map(|(l, c)| {
+            let start = Secant {
+                caliper_m: clean.1.caliper_m * l.mean_caliper_m / clean.0.max(1e-12),
+                slope: clean.1.slope,
+            };
+            roll_features(lab, l, c, nodes, Some(start)).map(|(f, _)| f)
+        })
         .collect()
 }
 
@@ -359,11 +371,12 @@ pub(super) fn noise_floor(
         ],
     );
     let pooled = vec![pooled; fit.lanes.len()];
-    let uniform = roll_features(lab, &l0, &pooled, nodes)?;
+    let (uniform, _) = roll_features(lab, &l0, &pooled, nodes, None)?;
     let coarse = nodes.min(NOISE_NODES);
-    let clean = roll_features(lab, &l0, &pooled, coarse)?;
+    let (clean, found) = roll_features(lab, &l0, &pooled, coarse, None)?;
     let mut rng = ChaCha8Rng::seed_from_u64(posterior::seed_for(&lab.id, NOISE_SEED_LANE));
-    let rolls = noise_rolls(lab, fitted, rep, coarse, &mut rng)?;
+    let at = (coarse, (l0.mean_caliper_m, found));
+    let rolls = noise_rolls(lab, fitted, rep, at, &mut rng)?;
     let (deciding, tests) = deciding_tests(table);
     let level = FAMILY_LEVEL / tests.max(1) as f64;
     let n = rolls.len().max(1) as f64;

@@ -5,6 +5,7 @@
 use super::ageing::{LaneCreep, Prepared};
 use super::shift::{arrhenius_shift, moisture_shift};
 use crate::case::Material;
+use std::sync::OnceLock;
 
 /// What storage does to one lane independently of its creep parameters: the reduced-time step
 /// and the moisture change of each radial cell at each time step (index k * cells + j).
@@ -31,8 +32,61 @@ impl LaneDrive {
     }
 }
 
-/// Precompute a lane's drive (time shifts and moisture changes).
+/// Lanes' drives kept with the moisture history they come from, each with the bits of the
+/// material values it read ([`DriveKey`]). Equal to any other (it holds nothing a run's result
+/// depends on); a clone starts empty.
+#[derive(Debug, Default)]
+pub struct Drives(Vec<OnceLock<(DriveKey, LaneDrive)>>);
+
+/// The material's creep values and reference moisture a drive reads, as bits.
+type DriveKey = [u64; 6];
+
+impl Drives {
+    pub(super) fn new(lanes: usize) -> Self {
+        Drives((0..lanes).map(|_| OnceLock::new()).collect())
+    }
+}
+
+impl Clone for Drives {
+    fn clone(&self) -> Self {
+        Drives::new(self.0.len())
+    }
+}
+
+impl PartialEq for Drives {
+    fn eq(&self, _: &Self) -> bool {
+        true
+    }
+}
+
+/// A lane's drive (time shifts and moisture changes): computed once per lane of a moisture
+/// history and material, then copied.
 pub fn drive(material: &Material, prep: &Prepared, lane: usize) -> LaneDrive {
+    let c = &material.creep;
+    let key = [
+        c.activation_energy_j_mol,
+        c.moisture_shift_dec_per_pct,
+        c.md.retardation_s,
+        c.radial.retardation_s,
+        c.mechanosorptive_per_pct,
+        prep.mc_ref,
+    ]
+    .map(f64::to_bits);
+    match prep.moisture.drives.0.get(lane) {
+        Some(cell) => {
+            let (k, d) = cell.get_or_init(|| (key, compute(material, prep, lane)));
+            if *k == key {
+                d.clone()
+            } else {
+                compute(material, prep, lane)
+            }
+        }
+        None => compute(material, prep, lane),
+    }
+}
+
+/// [`drive`] computed.
+fn compute(material: &Material, prep: &Prepared, lane: usize) -> LaneDrive {
     let mat = material;
     let nr = prep.moisture.r.len();
     let ns = prep.timeline.steps.len();

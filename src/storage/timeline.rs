@@ -136,6 +136,9 @@ pub struct MoistureHistory {
     pub mc: Vec<Vec<Vec<f64>>>,
     /// Equilibrium moisture of each stretch, %.
     pub m_eq: Vec<f64>,
+    /// Each lane's drive once computed ([`super::drive::drive`]): the history is shared by every
+    /// run on the same storage, so its lanes' drives are too.
+    pub(super) drives: super::drive::Drives,
 }
 
 fn surfaces(input: &StoreInput, s: &Stretch) -> Surfaces {
@@ -302,5 +305,6 @@ fn compute_moisture(
         faces,
         mc,
         m_eq: surf.iter().map(|s| s.m_eq).collect(),
+        drives: super::drive::Drives::new(centres.len()),
     }
 }

@@ -1,28 +1,51 @@
-//! Wound states already computed, keyed by everything winding reads: the web, the roll, the
-//! winder, the lanes and the options. A diagnosis re-runs scenarios whose change touches only
-//! storage, creep or the lanes counted in the spread; those reuse the wound state.
+//! Wound states already computed, keyed by exactly what winding reads: the web's mechanical
+//! values, the roll, the winder, each lane's centre, width, caliper and own strain, the mean
+//! caliper and the options. A diagnosis re-runs scenarios whose change touches only storage,
+//! creep, the lanes counted in the spread, the web's moisture or the lanes' moisture at winding;
+//! those reuse the wound state.
+//!
+//! **Invariant:** [`Key`] holds every value `winding` reads; a new read must be added to it.
 
 use super::roll::{wind, Options, WindError, WindInput, Wound};
-use crate::case::{Material, Roll, Winding};
+use crate::case::{Roll, Stack, Winding};
 use crate::lanes::Lanes;
 
-/// What a wound state depends on.
+/// What a wound state depends on (numbers as bits, so equal keys mean bit-equal inputs).
 #[derive(Debug, Clone, PartialEq)]
 struct Key {
-    material: Material,
+    /// Density, MD and CD modulus, Poisson ratio, friction, roughness of the web.
+    web: [u64; 6],
+    stack: Stack,
     roll: Roll,
     winding: Winding,
-    lanes: Lanes,
+    /// Per lane: centre, width, caliper, own strain at winding.
+    lanes: Vec<[u64; 4]>,
+    mean_caliper: u64,
     opt: Options,
 }
 
 impl Key {
     fn of(input: &WindInput, lanes: &Lanes, opt: Options) -> Self {
+        let m = input.material;
         Key {
-            material: input.material.clone(),
+            web: [
+                m.density_kg_m3,
+                m.md_modulus_pa,
+                m.cd_modulus_pa,
+                m.poisson,
+                m.friction,
+                m.roughness_m,
+            ]
+            .map(f64::to_bits),
+            stack: m.stack,
             roll: input.roll.clone(),
             winding: input.winding.clone(),
-            lanes: lanes.clone(),
+            lanes: lanes
+                .lanes
+                .iter()
+                .map(|l| [l.position_m, l.width_m, l.caliper_m, l.web_strain].map(f64::to_bits))
+                .collect(),
+            mean_caliper: lanes.mean_caliper_m.to_bits(),
             opt,
         }
     }

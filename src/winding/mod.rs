@@ -12,11 +12,12 @@ pub mod coupling;
 pub mod hakiel;
 mod roll;
 mod substeps;
+mod summary;
 
 pub use self::core::{collapse_pressure, core_stiffness, of as core_of, ring_collapse_pressure};
 pub use cache::Cache;
 pub use centrifugal::{disk_stress, lift_off_speed};
 pub use roll::{
-    lane_model, wind, LaneStress, LaneSummary, Options, WindError, WindInput, Wound,
-    DEFAULT_LEVELLING, DEFAULT_NODES, SURFACE_ZONE_M,
+    lane_model, wind, wind_from, LaneStress, LaneSummary, Options, Secant, WindError, WindInput,
+    Wound, DEFAULT_LEVELLING, DEFAULT_NODES, SURFACE_ZONE_M,
 };

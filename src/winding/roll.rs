@@ -19,9 +19,11 @@
 //! ([`crate::lanes::Lane::web_strain`]) to its offset, unlevelled: with equal radii the lanes carry
 //! the measured profile's shape, and a lane measured slack winds slack.
 
-use super::centrifugal::{disk_stress, lift_off_speed};
+use super::centrifugal::lift_off_speed;
 use super::coupling;
 use super::hakiel::{LaneModel, LaneState};
+use super::summary::summarise;
+pub use super::summary::SURFACE_ZONE_M;
 use crate::case::{Material, Roll, Winding};
 use crate::lanes::Lanes;
 use serde::Serialize;
@@ -375,12 +377,14 @@ fn accrete(
 /// stresses), to [`CALIPER_TOL`].
 ///
 /// On a wanted grid no finer than the coarse one, the last iterate's accretion is the wound
-/// state itself and is handed back, so it is not wound a second time.
+/// state itself and is handed back, so it is not wound a second time. The iteration starts from
+/// `start` (its caliper and slope), else from the mean caliper with slope -1.
 fn compressed_caliper(
     input: &WindInput,
     lanes: &Lanes,
     opt: Options,
-) -> Result<(f64, Option<Accreted>), WindError> {
+    start: Option<Secant>,
+) -> Result<(Secant, Option<Accreted>), WindError> {
     let model = lane_model(input);
     let rc = 0.5 * input.roll.core_diameter_m;
     let big_r = 0.5 * input.roll.diameter_m;
@@ -405,9 +409,14 @@ fn compressed_caliper(
         }
         Ok(((built - rc) / (big_r - rc)).ln())
     };
-    let mut x0 = lanes.mean_caliper_m.ln();
+    // a miss's slope against ln c_eff is about -1 (the build scales with caliper / c_eff)
+    let (mut x0, mut slope) = match start {
+        Some(s) if s.slope.is_finite() && s.slope < -0.1 => (s.caliper_m.ln(), s.slope),
+        Some(s) => (s.caliper_m.ln(), -1.0),
+        None => (lanes.mean_caliper_m.ln(), -1.0),
+    };
     let mut h0 = miss(x0)?;
-    let mut x1 = x0 + h0;
+    let mut x1 = x0 - h0 / slope;
     for _ in 0..12 {
         if h0.abs() < CALIPER_TOL {
             x1 = x0;
@@ -418,10 +427,23 @@ fn compressed_caliper(
             break;
         }
         let x2 = x1 - h1 * (x1 - x0) / (h1 - h0);
+        slope = (h1 - h0) / (x1 - x0);
         (x0, h0, x1) = (x1, h1, x2);
     }
     let kept = last.and_then(|(x, acc)| (x.to_bits() == x1.to_bits()).then_some(acc));
-    Ok((x1.exp(), kept))
+    let found = Secant {
+        caliper_m: x1.exp(),
+        slope,
+    };
+    Ok((found, kept))
+}
+
+/// Where the secant for the compressed caliper ended (or is to start): the compressed caliper
+/// (m) and the slope of its miss, d ln((built - rc) / (R - rc)) / d ln c_eff (about -1).
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Secant {
+    pub caliper_m: f64,
+    pub slope: f64,
 }
 
 /// Nodes of the grid on which the compressed caliper is found.
@@ -441,6 +463,18 @@ const CALIPER_TOL: f64 = 1e-7;
 /// integrated over their own interval (see [`super::hakiel`]), so the result converges at second
 /// order in the node spacing without the layer's inward decay having to be resolved.
 pub fn wind(input: &WindInput, lanes: &Lanes, opt: Options) -> Result<Wound, WindError> {
+    wind_from(input, lanes, opt, None).map(|(w, _)| w)
+}
+
+/// [`wind`] with the secant for the compressed caliper started at `start` (`None`: the mean
+/// caliper, slope -1), e.g. from a like roll already wound; also returns where the secant
+/// ended. The start changes the result only within the secant's tolerance, and the time taken.
+pub fn wind_from(
+    input: &WindInput,
+    lanes: &Lanes,
+    opt: Options,
+    start: Option<Secant>,
+) -> Result<(Wound, Secant), WindError> {
     if opt.nodes < 5 {
         return Err(WindError::Options("nodes must be at least 5".into()));
     }
@@ -454,7 +488,8 @@ pub fn wind(input: &WindInput, lanes: &Lanes, opt: Options) -> Result<Wound, Win
     let widths = lanes.widths();
     let width: f64 = widths.iter().sum();
     let cal = lanes.calipers();
-    let (c_eff, kept) = compressed_caliper(input, lanes, opt)?;
+    let (found, kept) = compressed_caliper(input, lanes, opt, start)?;
+    let c_eff = found.caliper_m;
     let layers = (big_r - rc) / c_eff;
     let nodes = opt.nodes;
     let Accreted {
@@ -487,7 +522,7 @@ pub fn wind(input: &WindInput, lanes: &Lanes, opt: Options) -> Result<Wound, Win
         })
         .collect();
     let shear_lag_m = final_shear_lag(input, lanes, &out);
-    Ok(Wound {
+    let wound = Wound {
         radius_m: grid,
         lanes: out,
         layers,
@@ -498,7 +533,8 @@ pub fn wind(input: &WindInput, lanes: &Lanes, opt: Options) -> Result<Wound, Win
         levelling: opt.levelling,
         shear_lag_m,
         core_stiffness_pa: model.core_stiffness,
-    })
+    };
+    Ok((wound, found))
 }
 
 /// Shear-lag length of CD levelling at the end of the build, m ([`coupling::shear_lag_length`]
@@ -515,84 +551,4 @@ fn final_shear_lag(input: &WindInput, lanes: &Lanes, out: &[LaneStress]) -> f64 
     let t = input.winding.tension.at(2.0 * r);
     let nip = input.winding.nip_n_per_m;
     coupling::shear_lag_length(input.material, lanes.mean_caliper_m, t, r, nip)
-}
-
-/// Depth of the surface zone a hardness reading senses, m (common practice: readings respond to
-/// the outer few centimetres).
-pub const SURFACE_ZONE_M: f64 = 0.025;
-
-/// Mean interlayer pressure (Pa) between radius `from` (m) and the surface: the trapezoid
-/// integral of -sigma_r over radius, the stress interpolated linearly at `from`.
-fn zone_mean(r: &[f64], sr: &[f64], from: f64) -> f64 {
-    let n = r.len();
-    if n < 2 || r[n - 1] <= from {
-        return sr.first().map_or(0.0, |s| -s);
-    }
-    let (mut sum, mut len) = (0.0, 0.0);
-    for i in 0..n - 1 {
-        let (a, b) = (r[i].max(from), r[i + 1]);
-        if b <= a {
-            continue;
-        }
-        let at = |x: f64| sr[i] + (sr[i + 1] - sr[i]) * (x - r[i]) / (r[i + 1] - r[i]);
-        sum -= 0.5 * (at(a) + at(b)) * (b - a);
-        len += b - a;
-    }
-    sum / len
-}
-
-fn summarise(
-    st: &LaneState,
-    m: &LaneModel,
-    c_eff: f64,
-    caliper: f64,
-    rho: f64,
-    omega: f64,
-    nu: f64,
-) -> LaneSummary {
-    let r = &st.r;
-    let n = st.wound;
-    let big_r = r[n - 1];
-    let mut peak = (0.0, r[0]);
-    let (mut tmin, mut tmax) = (f64::INFINITY, f64::NEG_INFINITY);
-    let (mut cfrom, mut cto) = (None, None);
-    let mut run_min = f64::INFINITY;
-    for i in 0..n {
-        let p = -st.sr[i];
-        if p > peak.0 {
-            peak = (p, r[i]);
-        }
-        tmin = tmin.min(st.st[i]);
-        tmax = tmax.max(st.st[i]);
-        if st.st[i] < 0.0 {
-            cfrom.get_or_insert(r[i]);
-            cto = Some(r[i]);
-        }
-        if r[i] >= big_r - SURFACE_ZONE_M && i + 1 < n {
-            let (sr_c, _) = disk_stress(rho, omega, nu, r[0], big_r, r[i]);
-            run_min = f64::min(run_min, p - sr_c);
-        }
-    }
-    // mean over the layers: trapezoid over radius (the grid is not uniform)
-    let wit_mean = if n > 1 {
-        (0..n - 1)
-            .map(|i| 0.5 * (st.wit[i] + st.wit[i + 1]) * (r[i + 1] - r[i]))
-            .sum::<f64>()
-            / (r[n - 1] - r[0])
-    } else {
-        st.wit[0]
-    };
-    LaneSummary {
-        peak_pressure_pa: peak.0,
-        peak_pressure_radius_m: peak.1,
-        core_pressure_pa: -st.sr[0],
-        surface_zone_pressure_pa: zone_mean(&r[..n], &st.sr[..n], big_r - SURFACE_ZONE_M),
-        tangential_min_pa: tmin,
-        tangential_max_pa: tmax,
-        compressive_from_m: cfrom,
-        compressive_to_m: cto,
-        wound_in_tension_mean_n_per_m: wit_mean,
-        outer_radius_m: st.outer_radius(m, 1.0 / c_eff, caliper),
-        running_min_surface_pressure_pa: if run_min.is_finite() { run_min } else { 0.0 },
-    }
 }
