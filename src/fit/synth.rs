@@ -109,6 +109,17 @@ pub fn profiles(
     Ok(out)
 }
 
+/// The case's lanes and wound state at the default resolution.
+fn wound_default(case: &Case) -> Result<(Lanes, Wound), SynthError> {
+    let l = crate::lanes::build(case);
+    let w = crate::winding::wind(
+        &crate::winding::WindInput::new(&case.material, &case.roll, &case.winding),
+        &l,
+        crate::winding::Options::default(),
+    )?;
+    Ok((l, w))
+}
+
 /// A roll for recovery checks: `case` with its hardness and diameter surveys replaced by
 /// synthetic ones at `ages_s` (s) from per-lane creep scales drawn log-uniform (MD 0.5-2,
 /// radial 0.5-3, from `seed`), read with noise of `hardness_sd` (scale units) and
@@ -121,12 +132,7 @@ pub fn recovery_roll(
     diameter_sd_m: f64,
 ) -> Result<(Case, Vec<(f64, f64)>), SynthError> {
     case.profiles.retain(|p| p.what == Measure::Caliper);
-    let l = crate::lanes::build(&case);
-    let w = crate::winding::wind(
-        &crate::winding::WindInput::new(&case.material, &case.roll, &case.winding),
-        &l,
-        crate::winding::Options::default(),
-    )?;
+    let (l, w) = wound_default(&case)?;
     let mut rng = Rng::new(seed);
     let truth: Vec<(f64, f64)> = (0..l.lanes.len())
         .map(|_| {
@@ -225,12 +231,7 @@ pub fn field_readings(
                 .iter()
                 .any(|a| (a - p.age_s).abs() < 0.5 * crate::units::DAY_S)
     });
-    let l = crate::lanes::build(&case);
-    let w = crate::winding::wind(
-        &crate::winding::WindInput::new(&case.material, &case.roll, &case.winding),
-        &l,
-        crate::winding::Options::default(),
-    )?;
+    let (l, w) = wound_default(&case)?;
     let creep =
         vec![super::creep_from(&case.material, &[scales[0].ln(), scales[1].ln()]); l.lanes.len()];
     let truth = Truth {
