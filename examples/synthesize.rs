@@ -1,11 +1,13 @@
-//! Print the later hardness and diameter profiles (YAML) predicted for a case with chosen creep
-//! scales plus seeded noise. Used to make the invented field cases' later measurements
-//! physically coherent with their winding-time readings.
+//! Print the hardness and diameter profiles (YAML) predicted for a case at chosen ages with
+//! chosen creep scales plus seeded noise (`fit::synth::field_readings`). Used to make the
+//! invented field cases' readings (at winding, age 0, and later) physically coherent with the
+//! rest of each case.
 //!
 //! cargo run --release --example synthesize -- CASE SEED MD_SCALE RADIAL_SCALE AGE_DAYS...
 //!
 //! The case's own hardness and diameter profiles at the requested ages are left out first, so
-//! the output depends only on the rest of the case (its winding-time readings, caliper, storage)
+//! the output depends only on the rest of the case (caliper, winding, storage, and any readings
+//! at other ages)
 //! and running the command again on the case with the output pasted in reproduces the output.
 //! Values are printed at the positions of the case's earliest hardness (else diameter, else
 //! caliper) profile as the case gives it (before any is left out), interpolated from the lane

@@ -89,36 +89,41 @@ pub struct Lanes {
 /// Default lane count when the case gives neither profiles nor lanes.
 pub const DEFAULT_LANES: usize = 12;
 
-/// Width of the edge strip split off a wide edge lane, m: moisture exchange through the roll's
-/// ends and the tension of the web's edges act in the outer centimetres (common practice), which
-/// a wide edge lane would average away.
+/// Width of each edge lane, m: moisture exchange through the roll's ends and the tension of the
+/// web's edges act in the outer centimetres (common practice), which a wide edge lane would
+/// average away, so the edge lane has this width at every lane count.
 pub const EDGE_STRIP_M: f64 = 0.025;
 
 /// Make each edge lane one edge strip wide, so that what happens at the roll's ends is averaged
 /// over the same width at every lane count (the edge lane's length at unwind depends on its
 /// width: moisture enters through the end faces over the outer centimetres). An edge lane more
-/// than two strips wide has a strip split off (one lane more); one between one and two strips
-/// wide gives its excess width to its neighbour (the lane count stays); a narrower one is kept.
-fn with_edge_strips(mut e: Vec<f64>) -> Vec<f64> {
+/// than two strips wide has a strip split off (one lane more); with three lanes or more, one
+/// between one and two strips wide gives its excess width to its neighbour (the lane count
+/// stays); a narrower one is kept. Both ends are judged on the widths as given and treated
+/// alike (a width within 1 nm of a threshold counts as on it, so rounding cannot split one end
+/// and trim the other).
+fn with_edge_strips(e: Vec<f64>) -> Vec<f64> {
+    const TOL_M: f64 = 1e-9;
     let n = e.len();
-    if n < 3 {
+    if n < 2 {
         return e;
     }
     let (first, last) = (e[0], e[n - 1]);
-    let w0 = e[1] - first;
-    if w0 > 2.0 * EDGE_STRIP_M {
-        e.insert(1, first + EDGE_STRIP_M);
-    } else if w0 > EDGE_STRIP_M {
-        e[1] = first + EDGE_STRIP_M;
+    let (w0, w1) = (e[1] - first, last - e[n - 2]);
+    // trimming moves an inner edge: only when the two edge lanes do not share it
+    let trim = n >= 4;
+    let mut out = e;
+    if w1 > 2.0 * EDGE_STRIP_M + TOL_M {
+        out.insert(n - 1, last - EDGE_STRIP_M);
+    } else if trim && w1 > EDGE_STRIP_M + TOL_M {
+        out[n - 2] = last - EDGE_STRIP_M;
     }
-    let n = e.len();
-    let w1 = last - e[n - 2];
-    if w1 > 2.0 * EDGE_STRIP_M {
-        e.insert(n - 1, last - EDGE_STRIP_M);
-    } else if w1 > EDGE_STRIP_M {
-        e[n - 2] = last - EDGE_STRIP_M;
+    if w0 > 2.0 * EDGE_STRIP_M + TOL_M {
+        out.insert(1, first + EDGE_STRIP_M);
+    } else if trim && w0 > EDGE_STRIP_M + TOL_M {
+        out[1] = first + EDGE_STRIP_M;
     }
-    e
+    out
 }
 
 /// Most lanes made from a profile's positions when the case states no lanes; a denser scan is
@@ -139,7 +144,7 @@ fn densest(case: &Case) -> Option<&Profile> {
 }
 
 /// Lane edges (m) for a case: explicit edges as given; otherwise a lane count or the densest
-/// profile's positions, with an edge strip split off each wide edge lane.
+/// profile's positions, each edge lane made one edge strip wide ([`with_edge_strips`]).
 pub fn edges(case: &Case) -> Vec<f64> {
     let w = case.roll.width_m;
     if let Some(e) = &case.lane_edges_m {
@@ -170,15 +175,26 @@ pub fn edges(case: &Case) -> Vec<f64> {
     }
 }
 
+/// How far a lane centre may lie beyond the outermost reading and still count as at it, m:
+/// reading positions are given to the millimetre.
+const POSITION_TOL_M: f64 = 1e-3;
+
+/// Whether `x` (m) lies beyond the readings at `positions` (m) by more than [`POSITION_TOL_M`].
+fn beyond(positions: &[f64], x: f64) -> bool {
+    match (positions.first(), positions.last()) {
+        (Some(a), Some(b)) => x < a - POSITION_TOL_M || x > b + POSITION_TOL_M,
+        _ => true,
+    }
+}
+
 /// Interpolate a profile onto lane centres; returns values and whether any was extrapolated.
 fn onto(p: &Profile, centres: &[f64]) -> (Vec<f64>, bool) {
     let mut any = false;
     let v = centres
         .iter()
         .map(|&x| {
-            let (y, out) = linear_extrap(&p.positions_m, &p.values, x);
-            any |= out;
-            y
+            any |= beyond(&p.positions_m, x);
+            linear_extrap(&p.positions_m, &p.values, x).0
         })
         .collect();
     (v, any)
@@ -234,7 +250,7 @@ pub fn build(case: &Case) -> Lanes {
         let (p, s) = (&case.profiles[i], &series[i]);
         if s.extrapolated {
             for (i, &x) in centres.iter().enumerate() {
-                if x < p.positions_m[0] || x > p.positions_m[p.positions_m.len() - 1] {
+                if beyond(&p.positions_m, x) {
                     extrap[i] = true;
                 }
             }
@@ -374,5 +390,58 @@ impl Lanes {
     /// Ages of all measurements, s, in the case's order.
     pub fn measurement_ages(&self) -> Vec<f64> {
         self.series.iter().map(|s| s.age_s).collect()
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn widths(e: &[f64]) -> Vec<f64> {
+        e.windows(2)
+            .map(|w| ((w[1] - w[0]) * 1e4).round() / 1e4)
+            .collect()
+    }
+
+    fn even(w: f64, n: usize) -> Vec<f64> {
+        (0..=n).map(|i| w * i as f64 / n as f64).collect()
+    }
+
+    /// Each edge lane is one 25 mm strip at every count, both ends alike (the edge strip is a
+    /// resolution choice of ours: common practice that end effects act in the outer centimetres).
+    #[test]
+    fn edge_lanes_are_one_strip_wide_at_both_ends() {
+        // 1.6 m at 32 lanes: 50 mm lanes, on the threshold at both ends despite rounding
+        let e = with_edge_strips(even(1.6, 32));
+        let w = widths(&e);
+        assert_eq!(e.len(), 33, "{w:?}");
+        assert_eq!((w[0], w[1]), (0.025, 0.075));
+        assert_eq!((w[31], w[30]), (0.025, 0.075));
+        // 1.2 m at 12 lanes: a strip split off each 100 mm edge lane
+        let w = widths(&with_edge_strips(even(1.2, 12)));
+        assert_eq!(w.len(), 14);
+        assert_eq!((w[0], w[1], w[12], w[13]), (0.025, 0.075, 0.075, 0.025));
+        // 1.2 m at 30 lanes: 40 mm edge lanes give 15 mm to their neighbours
+        let w = widths(&with_edge_strips(even(1.2, 30)));
+        assert_eq!(w.len(), 30);
+        assert_eq!((w[0], w[1], w[28], w[29]), (0.025, 0.055, 0.055, 0.025));
+        // lanes narrower than a strip are kept
+        assert_eq!(with_edge_strips(even(0.2, 10)), even(0.2, 10));
+    }
+
+    /// One or two lanes: only splits (the two edge lanes share their one inner edge), never a
+    /// trim; one lane wider than two strips becomes strip, middle, strip.
+    #[test]
+    fn one_or_two_lanes_are_split_and_never_trimmed() {
+        assert_eq!(widths(&with_edge_strips(even(0.06, 2))), vec![0.03, 0.03]);
+        assert_eq!(
+            widths(&with_edge_strips(even(0.12, 2))),
+            vec![0.025, 0.035, 0.035, 0.025]
+        );
+        assert_eq!(
+            widths(&with_edge_strips(even(0.5, 1))),
+            vec![0.025, 0.45, 0.025]
+        );
+        assert_eq!(with_edge_strips(vec![0.0]), vec![0.0]);
     }
 }

@@ -28,8 +28,8 @@ pub enum Note {
         /// Lanes made.
         lanes: usize,
     },
-    /// `lanes.count` asked for fewer lanes than were made: an edge strip was split off each
-    /// wide edge lane.
+    /// `lanes.count` asked for fewer lanes than were made: an edge strip was split off an edge
+    /// lane wider than two strips.
     LanesCount {
         /// Lanes asked for.
         asked: usize,

@@ -3,7 +3,9 @@
 //! readings from the model, and running it again on the file gives the file's readings to the
 //! digits printed (hardness to 0.1 unit, diameter to 0.01 mm). A model change that moves the
 //! readings shows here, so the field cases are regenerated with it and never go stale against
-//! the model that diagnoses them.
+//! the model that diagnoses them. A consistency check of the invented demo data against the
+//! current model, not a validation of the model (that is the other tests' job, against published
+//! sources).
 
 use rollsleuth::case::{self, Measure};
 use rollsleuth::fit::synth;

@@ -6,7 +6,8 @@
 //! The field cases are diagnosed through the same code path as the command line (`diagnose` with
 //! the default 401 winding nodes) without the what-if re-runs, which do not change which findings
 //! stand or the lanes' intervals, to run in seconds. Lane counts are `lanes.count` overrides; the
-//! lanes module adds a 25 mm edge strip each side. The demo's caliper band is one reading
+//! lanes module makes each edge lane 25 mm wide (one lane more each side where the edge lane
+//! was over 50 mm). The demo's caliper band is one reading
 //! (100 mm spacing) at 650 mm; a lane count resolves a band when its lanes are no wider than the
 //! band (sampling; common practice), so the demo is compared from 16 lanes (100 mm) up. Coarser
 //! lanes average the band with its neighbours and see a lower ridge (12 lanes of 133 mm: about

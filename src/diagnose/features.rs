@@ -5,7 +5,7 @@
 //!
 //! Edges and ends: the edge features (`centre_minus_edges_*`, `edge_moisture_change_pct`) compare
 //! the centre half with the roll's ends, the outermost lane at each side ([`end_lanes`]). `lanes`
-//! splits a 25 mm strip off each wide edge lane because moisture exchange through the ends and the
+//! makes each edge lane one 25 mm strip wide at every lane count because moisture exchange through the ends and the
 //! web's edge tension act in the outer centimetres, so the end lanes carry the edge effect that a
 //! wider average would dilute; this is what the features' meanings say. Where a finding about
 //! edges is reported, the lanes named are the edge zones, the outer 15 % of the width at each side

@@ -13,8 +13,9 @@
 //! Goodman and Weare 2010, section 3); where the misfit has a kink at the optimum (a lane's
 //! pressure reaching zero) the curvature is far narrower than the posterior, and an ensemble
 //! started there reported intervals 3-6x too narrow on about 1 % of the scales of synthetic rolls.
-//! The posterior is no wider than the prior here (a Gaussian prior times a likelihood), so the
-//! prior's width starts the ensemble outside it.
+//! The posterior is in practice no wider than the prior here (a Gaussian prior times a
+//! likelihood that constrains the scales at least a little), so the prior's width starts the
+//! ensemble at or outside it.
 //!
 //! Determinism: the generator is ChaCha8 seeded from a fixed hash (FNV-1a, 64 bit) of the case id
 //! and the lane index, never from the operating system; the walkers are updated in a fixed order.
@@ -32,7 +33,8 @@ pub const WALKERS: usize = 16;
 pub const SWEEPS: usize = 32;
 /// Stretch scale of the move (Goodman and Weare 2010 recommend 2).
 const STRETCH: f64 = 2.0;
-/// Posterior draws kept per lane for propagation (evenly thinned from the kept samples).
+/// Posterior draws kept per lane for propagation (taken diagonally through walkers and sweeps,
+/// [`draws`]).
 pub const DRAWS: usize = 16;
 
 /// FNV-1a 64-bit hash of a case id and a lane index: the sampler's seed.

@@ -218,7 +218,7 @@ pub fn note(n: &Note) -> String {
             measure(what)
         ),
         Note::LanesCount { asked, lanes } => format!(
-            "lanes.count = {asked} gives {lanes} lanes: a 25 mm edge strip is split off each edge lane wider than two strips, because moisture exchange through the ends and the edge tension act in the outer centimetres"
+            "lanes.count = {asked} gives {lanes} lanes: each edge lane is made 25 mm wide (a strip split off one wider than two strips, else the excess given to its neighbour), because moisture exchange through the ends and the edge tension act in the outer centimetres"
         ),
         Note::BelowNoiseFloor { .. }
         | Note::Unlikely { .. }
