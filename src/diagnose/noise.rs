@@ -17,7 +17,7 @@ use crate::note::Note;
 use crate::rules::Table;
 use crate::storage::{age_prepared, AgeOptions, LaneCreep};
 use crate::vocab::Feature;
-use crate::winding::{wind_from, Options, Secant, WindInput};
+use crate::winding::{coupling, wind_from, Options, Secant, WindInput};
 use rand::{Rng, SeedableRng};
 use rand_chacha::ChaCha8Rng;
 use serde::Serialize;
@@ -29,8 +29,24 @@ pub const NOISE_ROLLS: usize = 24;
 /// Quantile of the noise-only deviations that sets the floor.
 pub const FLOOR_QUANTILE: f64 = 0.95;
 
-/// Most winding nodes of a noise roll (floors are differences between rolls at the same nodes).
+/// Winding nodes of a noise roll (floors are differences between rolls at the same nodes), unless
+/// the nip needs more ([`noise_nodes`]).
 pub const NOISE_NODES: usize = 61;
+
+/// Winding nodes of `lab`'s noise rolls: [`NOISE_NODES`], or under a nip enough for the outermost
+/// grid step to be no longer than twice the length over which the lanes' nip shares follow their
+/// contact ([`coupling::NIP_FOLLOW_M`]): on longer steps the shares chatter between the lanes
+/// (the folding boxboard case, 1500 mm on a 152 mm core under 2 kN/m, put 5.5 kN/m on one lane
+/// and 0.12 kN/m on another at 61 nodes, 1.6-2.1 kN/m each from 81 nodes up).
+pub fn noise_nodes(lab: &Case) -> usize {
+    let (rc, big_r) = (0.5 * lab.roll.core_diameter_m, 0.5 * lab.roll.diameter_m);
+    if lab.winding.nip_n_per_m <= 0.0 || !(big_r > rc && rc > 0.0) {
+        return NOISE_NODES;
+    }
+    // the geometric grid's outermost step is about R ln(R / rc) / (nodes - 1)
+    let steps = big_r * (big_r / rc).ln() / (2.0 * coupling::NIP_FOLLOW_M);
+    NOISE_NODES.max(1 + steps.ceil().min(4096.0) as usize)
+}
 
 /// Family-wise level of the noise test: the chance that noise alone puts up any finding at all
 /// is held to 1 % by splitting it evenly over the one-sided tests of the deciding conditions
@@ -350,7 +366,7 @@ pub(super) fn rests_on_web(c: &crate::rules::Condition) -> bool {
 }
 
 /// Floors of the deciding features of `table`'s rules from [`NOISE_ROLLS`] noise-only uniform
-/// rolls (wound at no more than [`NOISE_NODES`] nodes, run in parallel, drawn in a fixed order),
+/// rolls (wound at no more than [`noise_nodes`] nodes, run in parallel, drawn in a fixed order),
 /// the caliper band test, and the resolution note. The uniform value a finding is measured from
 /// is the noise-free roll at the diagnosis's own `nodes`; the noise deviations are measured from
 /// the noise-free roll at the noise rolls' nodes.
@@ -371,9 +387,16 @@ pub(super) fn noise_floor(
         ],
     );
     let pooled = vec![pooled; fit.lanes.len()];
-    let (uniform, _) = roll_features(lab, &l0, &pooled, nodes, None)?;
-    let coarse = nodes.min(NOISE_NODES);
-    let (clean, found) = roll_features(lab, &l0, &pooled, coarse, None)?;
+    // the noise-free roll's secant starts from the measured roll's (as a like roll's)
+    let base = &fitted.wound;
+    let start = (base.secant.caliper_m > 0.0).then(|| Secant {
+        caliper_m: base.secant.caliper_m * l0.mean_caliper_m
+            / fitted.lanes.mean_caliper_m.max(1e-12),
+        slope: base.secant.slope,
+    });
+    let (uniform, _) = roll_features(lab, &l0, &pooled, nodes, start)?;
+    let coarse = nodes.min(noise_nodes(lab));
+    let (clean, found) = roll_features(lab, &l0, &pooled, coarse, start)?;
     let mut rng = ChaCha8Rng::seed_from_u64(posterior::seed_for(&lab.id, NOISE_SEED_LANE));
     let at = (coarse, (l0.mean_caliper_m, found));
     let rolls = noise_rolls(lab, fitted, rep, at, &mut rng)?;

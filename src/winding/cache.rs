@@ -6,7 +6,7 @@
 //!
 //! **Invariant:** [`Key`] holds every value `winding` reads; a new read must be added to it.
 
-use super::roll::{wind, Options, WindError, WindInput, Wound};
+use super::roll::{wind_from, Options, Secant, WindError, WindInput, Wound};
 use crate::case::{Roll, Stack, Winding};
 use crate::lanes::Lanes;
 
@@ -76,7 +76,10 @@ impl Cache {
         }
     }
 
-    /// [`wind`], or the wound state already computed for the same inputs.
+    /// [`super::wind`], or the wound state already computed for the same inputs. A new roll's
+    /// secant for the compressed caliper starts where the first roll held ended, scaled by the
+    /// ratio of the mean calipers ([`wind_from`]: the start moves the result only within the
+    /// secant's tolerance, and saves about one winding of the coarse grid in four).
     pub fn wind(
         &mut self,
         input: &WindInput,
@@ -87,7 +90,13 @@ impl Cache {
         if let Some((_, w)) = self.entries.iter().find(|(k, _)| *k == key) {
             return Ok(w.clone());
         }
-        let w = wind(input, lanes, opt)?;
+        let first = self.entries.first().filter(|(_, w)| w.secant.caliper_m > 0.0);
+        let start = first.map(|(k, w)| Secant {
+            caliper_m: w.secant.caliper_m * lanes.mean_caliper_m
+                / f64::from_bits(k.mean_caliper).max(1e-12),
+            slope: w.secant.slope,
+        });
+        let (w, _) = wind_from(input, lanes, opt, start)?;
         self.entries.push((key, w.clone()));
         Ok(w)
     }

@@ -176,6 +176,10 @@ pub struct Wound {
     pub shear_lag_m: f64,
     /// Core stiffness used, Pa (`None`: rigid).
     pub core_stiffness_pa: Option<f64>,
+    /// Where the secant for the compressed caliper ended: a start for a like roll
+    /// ([`wind_from`]). Not an output.
+    #[serde(skip)]
+    pub secant: Secant,
 }
 
 impl Wound {
@@ -327,10 +331,19 @@ fn accrete(
                 radii[i] = st.outer_radius(&model, 1.0 / c_eff, cal[i]);
             }
             let (o, q) = couple(input, lanes, &radii, levelling);
-            // the nip share follows the contact over a radial distance (see `coupling`)
-            let keep = (-(rk - r_last) / coupling::NIP_FOLLOW_M).exp();
+            // the nip share follows the contact over a radial distance (see `coupling`); a step
+            // longer than that distance moves it (1 - e^-x) / x of the way (x = step / distance)
+            // instead of 1 - e^-x, which keeps the explicit update stable on coarse grids
+            let (dr, follow) = (rk - r_last, coupling::NIP_FOLLOW_M);
+            let keep = (-dr / follow).exp();
+            let (keep, take) = if dr > follow {
+                let take = (1.0 - keep) * follow / dr;
+                (1.0 - take, take)
+            } else {
+                (keep, 1.0 - keep)
+            };
             for (old, new) in nip_q.iter_mut().zip(q) {
-                *old = keep * *old + (1.0 - keep) * new;
+                *old = keep * *old + take * new;
             }
             for i in 0..n {
                 offs[i] = web[i] + o[i];
@@ -392,8 +405,8 @@ fn compressed_caliper(
     let width: f64 = widths.iter().sum();
     let cal = lanes.calipers();
     let coarse = COARSE_NODES.min(opt.nodes);
-    let mut last: Option<(f64, Accreted)> = None;
-    let mut miss = |x: f64| -> Result<f64, WindError> {
+    // the miss at ln c_eff = x, and the accretion when it is the wound state itself
+    let miss = |x: f64| -> Result<(f64, Option<Accreted>), WindError> {
         let c_eff = x.exp();
         let acc = accrete(input, lanes, coarse, opt.levelling, c_eff)?;
         let built = acc
@@ -404,10 +417,8 @@ fn compressed_caliper(
             .map(|((s, w), c)| w * s.outer_radius(&model, 1.0 / c_eff, *c))
             .sum::<f64>()
             / width;
-        if coarse == opt.nodes {
-            last = Some((x, acc));
-        }
-        Ok(((built - rc) / (big_r - rc)).ln())
+        let h = ((built - rc) / (big_r - rc)).ln();
+        Ok((h, (coarse == opt.nodes).then_some(acc)))
     };
     // a miss's slope against ln c_eff is about -1 (the build scales with caliper / c_eff)
     let (mut x0, mut slope) = match start {
@@ -415,22 +426,36 @@ fn compressed_caliper(
         Some(s) => (s.caliper_m.ln(), -1.0),
         None => (lanes.mean_caliper_m.ln(), -1.0),
     };
-    let mut h0 = miss(x0)?;
+    let (mut h0, acc) = miss(x0)?;
+    // the iterate with the smallest miss so far: (|miss|, x, its accretion)
+    let mut best = (h0.abs(), x0, acc);
     let mut x1 = x0 - h0 / slope;
-    for _ in 0..12 {
+    for evals in 1..=12 {
         if h0.abs() < CALIPER_TOL {
             x1 = x0;
             break;
         }
-        let h1 = miss(x1)?;
+        let (h1, acc) = miss(x1)?;
+        let stalled = evals >= 2 && h1.abs() > STALL * best.0;
+        if h1.abs() < best.0 {
+            best = (h1.abs(), x1, acc);
+        }
         if h1.abs() < CALIPER_TOL || h1 == h0 {
+            break;
+        }
+        if stalled {
+            // the miss is rough below this level (the nip's contact share chatters between
+            // the steps of a coarse grid): the best iterate is as good as any further one
+            x1 = best.1;
             break;
         }
         let x2 = x1 - h1 * (x1 - x0) / (h1 - h0);
         slope = (h1 - h0) / (x1 - x0);
         (x0, h0, x1) = (x1, h1, x2);
     }
-    let kept = last.and_then(|(x, acc)| (x.to_bits() == x1.to_bits()).then_some(acc));
+    let kept = best
+        .2
+        .filter(|_| best.1.to_bits() == x1.to_bits());
     let found = Secant {
         caliper_m: x1.exp(),
         slope,
@@ -440,7 +465,7 @@ fn compressed_caliper(
 
 /// Where the secant for the compressed caliper ended (or is to start): the compressed caliper
 /// (m) and the slope of its miss, d ln((built - rc) / (R - rc)) / d ln c_eff (about -1).
-#[derive(Debug, Clone, Copy, PartialEq)]
+#[derive(Debug, Clone, Copy, PartialEq, Default)]
 pub struct Secant {
     pub caliper_m: f64,
     pub slope: f64,
@@ -450,6 +475,9 @@ pub struct Secant {
 const COARSE_NODES: usize = 121;
 /// Tolerance on ln((built - rc) / (R - rc)) for the compressed caliper.
 const CALIPER_TOL: f64 = 1e-7;
+/// A secant step that does not at least halve the smallest miss so far (after the first two)
+/// ends the iteration at the best iterate: the miss is rough at that level.
+const STALL: f64 = 0.5;
 
 /// Wind every lane of the roll.
 ///
@@ -533,6 +561,7 @@ pub fn wind_from(
         levelling: opt.levelling,
         shear_lag_m,
         core_stiffness_pa: model.core_stiffness,
+        secant: found,
     };
     Ok((wound, found))
 }
