@@ -509,6 +509,10 @@ pub fn wind_from(
     if !(0.0..=1.0).contains(&opt.levelling) {
         return Err(WindError::Options("levelling must be within 0..1".into()));
     }
+    if let Some(one) = one_lane(lanes) {
+        let (w, found) = wind_from(input, &one, opt, start)?;
+        return Ok((spread(w, input, lanes), found));
+    }
     let mat = &input.material;
     let model = lane_model(input);
     let rc = 0.5 * input.roll.core_diameter_m;
@@ -564,6 +568,53 @@ pub fn wind_from(
         secant: found,
     };
     Ok((wound, found))
+}
+
+/// A uniform roll as one lane across its width: when every lane has the same caliper and the
+/// same own strain at winding (bit for bit), every lane winds alike (equal radii, so no offsets
+/// from levelling and equal nip shares), so one lane is wound instead of all of them.
+fn one_lane(lanes: &Lanes) -> Option<Lanes> {
+    let (first, last) = (lanes.lanes.first()?, lanes.lanes.last()?);
+    let alike = |l: &crate::lanes::Lane| {
+        l.caliper_m.to_bits() == first.caliper_m.to_bits()
+            && l.web_strain.to_bits() == first.web_strain.to_bits()
+    };
+    if lanes.lanes.len() < 2 || !lanes.lanes.iter().all(alike) {
+        return None;
+    }
+    let lane = crate::lanes::Lane {
+        right_m: last.right_m,
+        width_m: lanes.widths().iter().sum(),
+        position_m: 0.5 * (first.left_m + last.right_m),
+        ..first.clone()
+    };
+    Some(Lanes {
+        lanes: vec![lane],
+        mean_caliper_m: lanes.mean_caliper_m,
+        caliper_source: lanes.caliper_source,
+        notes: Vec::new(),
+        series: Vec::new(),
+    })
+}
+
+/// The wound state of [`one_lane`]'s roll put on every lane of `lanes`.
+fn spread(one: Wound, input: &WindInput, lanes: &Lanes) -> Wound {
+    let Some(lane) = one.lanes.first() else {
+        return one;
+    };
+    let out: Vec<LaneStress> = lanes
+        .lanes
+        .iter()
+        .map(|l| LaneStress {
+            position_m: l.position_m,
+            ..lane.clone()
+        })
+        .collect();
+    Wound {
+        shear_lag_m: final_shear_lag(input, lanes, &out),
+        lanes: out,
+        ..one
+    }
 }
 
 /// Shear-lag length of CD levelling at the end of the build, m ([`coupling::shear_lag_length`]
