@@ -335,11 +335,8 @@ fn noise_rolls(
     inputs
         .par_iter()
         .map(|(l, c)| {
-            let start = Secant {
-                caliper_m: clean.1.caliper_m * l.mean_caliper_m / clean.0.max(1e-12),
-                slope: clean.1.slope,
-            };
-            roll_features(lab, l, c, nodes, Some(start)).map(|(f, _)| f)
+            let start = clean.1.scaled(clean.0, l.mean_caliper_m);
+            roll_features(lab, l, c, nodes, start).map(|(f, _)| f)
         })
         .collect()
 }
@@ -388,12 +385,7 @@ pub(super) fn noise_floor(
     );
     let pooled = vec![pooled; fit.lanes.len()];
     // the noise-free roll's secant starts from the measured roll's (as a like roll's)
-    let base = &fitted.wound;
-    let start = (base.secant.caliper_m > 0.0).then(|| Secant {
-        caliper_m: base.secant.caliper_m * l0.mean_caliper_m
-            / fitted.lanes.mean_caliper_m.max(1e-12),
-        slope: base.secant.slope,
-    });
+    let start = (fitted.wound.secant).scaled(fitted.lanes.mean_caliper_m, l0.mean_caliper_m);
     let (uniform, _) = roll_features(lab, &l0, &pooled, nodes, start)?;
     let coarse = nodes.min(noise_nodes(lab));
     let (clean, found) = roll_features(lab, &l0, &pooled, coarse, start)?;

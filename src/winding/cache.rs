@@ -6,7 +6,7 @@
 //!
 //! **Invariant:** [`Key`] holds every value `winding` reads; a new read must be added to it.
 
-use super::roll::{wind_from, Options, Secant, WindError, WindInput, Wound};
+use super::roll::{wind_from, Options, WindError, WindInput, Wound};
 use crate::case::{Roll, Stack, Winding};
 use crate::lanes::Lanes;
 
@@ -90,11 +90,9 @@ impl Cache {
         if let Some((_, w)) = self.entries.iter().find(|(k, _)| *k == key) {
             return Ok(w.clone());
         }
-        let first = self.entries.first().filter(|(_, w)| w.secant.caliper_m > 0.0);
-        let start = first.map(|(k, w)| Secant {
-            caliper_m: w.secant.caliper_m * lanes.mean_caliper_m
-                / f64::from_bits(k.mean_caliper).max(1e-12),
-            slope: w.secant.slope,
+        let start = self.entries.first().and_then(|(k, w)| {
+            w.secant
+                .scaled(f64::from_bits(k.mean_caliper), lanes.mean_caliper_m)
         });
         let (w, _) = wind_from(input, lanes, opt, start)?;
         self.entries.push((key, w.clone()));

@@ -60,6 +60,25 @@ pub const NIP_CONTACT_M: f64 = 0.010;
 /// contact width (assumption; see the module documentation).
 pub const NIP_FOLLOW_M: f64 = 0.010;
 
+/// Move each lane's nip share `shares` (N/m) towards the contact solution `contact` (N/m) over a
+/// radial step `dr_m` (m): the first-order lag over [`NIP_FOLLOW_M`], 1 - e^-x of the way with
+/// x = dr / follow length. A step longer than the follow length moves it (1 - e^-x) / x of the
+/// way instead, which keeps this explicit update stable on coarse grids (the lanes' radii answer
+/// the shares within the step, and a full move chatters between lanes).
+pub fn follow_nip(shares: &mut [f64], contact: &[f64], dr_m: f64) {
+    let follow = NIP_FOLLOW_M;
+    let keep = (-dr_m / follow).exp();
+    let (keep, take) = if dr_m > follow {
+        let take = (1.0 - keep) * follow / dr_m;
+        (1.0 - take, take)
+    } else {
+        (keep, 1.0 - keep)
+    };
+    for (old, new) in shares.iter_mut().zip(contact) {
+        *old = keep * *old + take * new;
+    }
+}
+
 /// In-plane shear modulus of paper from its MD and CD moduli, Pa: G = 0.387 sqrt(E_MD E_CD)
 /// (Baum, Brennan and Habeger 1981, from memory).
 ///

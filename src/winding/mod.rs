@@ -13,6 +13,7 @@ pub mod hakiel;
 mod roll;
 mod substeps;
 mod summary;
+mod uniform;
 
 pub use self::core::{collapse_pressure, core_stiffness, of as core_of, ring_collapse_pressure};
 pub use cache::Cache;

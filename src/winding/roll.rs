@@ -331,20 +331,7 @@ fn accrete(
                 radii[i] = st.outer_radius(&model, 1.0 / c_eff, cal[i]);
             }
             let (o, q) = couple(input, lanes, &radii, levelling);
-            // the nip share follows the contact over a radial distance (see `coupling`); a step
-            // longer than that distance moves it (1 - e^-x) / x of the way (x = step / distance)
-            // instead of 1 - e^-x, which keeps the explicit update stable on coarse grids
-            let (dr, follow) = (rk - r_last, coupling::NIP_FOLLOW_M);
-            let keep = (-dr / follow).exp();
-            let (keep, take) = if dr > follow {
-                let take = (1.0 - keep) * follow / dr;
-                (1.0 - take, take)
-            } else {
-                (keep, 1.0 - keep)
-            };
-            for (old, new) in nip_q.iter_mut().zip(q) {
-                *old = keep * *old + take * new;
-            }
+            coupling::follow_nip(&mut nip_q, &q, rk - r_last);
             for i in 0..n {
                 offs[i] = web[i] + o[i];
             }
@@ -389,9 +376,11 @@ fn accrete(
 /// smooth integral of the strain; its discretisation error there is far below the 1 % of the
 /// stresses), to [`CALIPER_TOL`].
 ///
-/// On a wanted grid no finer than the coarse one, the last iterate's accretion is the wound
-/// state itself and is handed back, so it is not wound a second time. The iteration starts from
-/// `start` (its caliper and slope), else from the mean caliper with slope -1.
+/// On a wanted grid no finer than the coarse one, the answer's accretion is the wound state
+/// itself and is handed back, so it is not wound a second time. The iteration starts from
+/// `start` (its caliper and slope), else from the mean caliper with slope -1. Where the miss is
+/// rough (a step no longer halves the smallest miss so far, [`STALL`]), the answer is the best
+/// iterate.
 fn compressed_caliper(
     input: &WindInput,
     lanes: &Lanes,
@@ -453,9 +442,7 @@ fn compressed_caliper(
         slope = (h1 - h0) / (x1 - x0);
         (x0, h0, x1) = (x1, h1, x2);
     }
-    let kept = best
-        .2
-        .filter(|_| best.1.to_bits() == x1.to_bits());
+    let kept = best.2.filter(|_| best.1.to_bits() == x1.to_bits());
     let found = Secant {
         caliper_m: x1.exp(),
         slope,
@@ -469,6 +456,18 @@ fn compressed_caliper(
 pub struct Secant {
     pub caliper_m: f64,
     pub slope: f64,
+}
+
+impl Secant {
+    /// A start for a like roll of mean caliper `to_m` (m): this secant's end, the compressed
+    /// caliper scaled from the mean caliper `from_m` (m) it was found for; `None` where there is
+    /// no end to start from (a secant never run).
+    pub fn scaled(&self, from_m: f64, to_m: f64) -> Option<Secant> {
+        (self.caliper_m > 0.0).then(|| Secant {
+            caliper_m: self.caliper_m * to_m / from_m.max(1e-12),
+            slope: self.slope,
+        })
+    }
 }
 
 /// Nodes of the grid on which the compressed caliper is found.
@@ -509,9 +508,10 @@ pub fn wind_from(
     if !(0.0..=1.0).contains(&opt.levelling) {
         return Err(WindError::Options("levelling must be within 0..1".into()));
     }
-    if let Some(one) = one_lane(lanes) {
+    if let Some(one) = super::uniform::one_lane(lanes) {
         let (w, found) = wind_from(input, &one, opt, start)?;
-        return Ok((spread(w, input, lanes), found));
+        let shear_lag_m = |out: &[LaneStress]| final_shear_lag(input, lanes, out);
+        return Ok((super::uniform::spread(w, lanes, shear_lag_m), found));
     }
     let mat = &input.material;
     let model = lane_model(input);
@@ -568,53 +568,6 @@ pub fn wind_from(
         secant: found,
     };
     Ok((wound, found))
-}
-
-/// A uniform roll as one lane across its width: when every lane has the same caliper and the
-/// same own strain at winding (bit for bit), every lane winds alike (equal radii, so no offsets
-/// from levelling and equal nip shares), so one lane is wound instead of all of them.
-fn one_lane(lanes: &Lanes) -> Option<Lanes> {
-    let (first, last) = (lanes.lanes.first()?, lanes.lanes.last()?);
-    let alike = |l: &crate::lanes::Lane| {
-        l.caliper_m.to_bits() == first.caliper_m.to_bits()
-            && l.web_strain.to_bits() == first.web_strain.to_bits()
-    };
-    if lanes.lanes.len() < 2 || !lanes.lanes.iter().all(alike) {
-        return None;
-    }
-    let lane = crate::lanes::Lane {
-        right_m: last.right_m,
-        width_m: lanes.widths().iter().sum(),
-        position_m: 0.5 * (first.left_m + last.right_m),
-        ..first.clone()
-    };
-    Some(Lanes {
-        lanes: vec![lane],
-        mean_caliper_m: lanes.mean_caliper_m,
-        caliper_source: lanes.caliper_source,
-        notes: Vec::new(),
-        series: Vec::new(),
-    })
-}
-
-/// The wound state of [`one_lane`]'s roll put on every lane of `lanes`.
-fn spread(one: Wound, input: &WindInput, lanes: &Lanes) -> Wound {
-    let Some(lane) = one.lanes.first() else {
-        return one;
-    };
-    let out: Vec<LaneStress> = lanes
-        .lanes
-        .iter()
-        .map(|l| LaneStress {
-            position_m: l.position_m,
-            ..lane.clone()
-        })
-        .collect();
-    Wound {
-        shear_lag_m: final_shear_lag(input, lanes, &out),
-        lanes: out,
-        ..one
-    }
 }
 
 /// Shear-lag length of CD levelling at the end of the build, m ([`coupling::shear_lag_length`]
