@@ -141,6 +141,8 @@ def main():
     )
     p = rs.params()
     print(f"numpy {np.__version__}, scipy {scipy.__version__}, python {sys.version.split()[0]}")
+    print(f"run {time.strftime('%Y-%m-%d %H:%M UTC', time.gmtime())}, {os.cpu_count()} cores, "
+          f"load average {os.getloadavg()[0]:.2f}")
     print(f"case {os.path.relpath(CASE, ROOT)}: {p}")
 
     # (a) rollsleuth's reference, checked against the next coarser grid (the grids nest)
@@ -213,11 +215,11 @@ def main():
     rows = [
         ("NumPy FD, 1 %", np_nodes, np_err, np_1),
         ("rollsleuth, 1 %", rs_nodes, rs_err, rs_1),
+        (f"NumPy FD + Richardson, 1 % ({ri_nodes} and {2 * ri_nodes - 1} nodes)",
+         ri_nodes, ri_err, ri_1),
         (f"NumPy FD, {eq} nodes", eq, np_eq_err, np_eq),
         (f"rollsleuth, {eq} nodes", eq, rs_eq_err, rs_eq),
     ]
-    rows.insert(2, (f"NumPy FD + Richardson, 1 % ({ri_nodes} and {2 * ri_nodes - 1} nodes)",
-                    ri_nodes, ri_err, ri_1))
     for name, n, e, (med, mn) in rows:
         print(f"| {name} | {n} | {100 * e:.3f} % | {med:.4g} | {mn:.4g} |")
     print()
@@ -227,6 +229,7 @@ def main():
           f"{ri_1[1] / rs_1[1]:.0f}x (min)")
     print(f"ratio NumPy / rollsleuth at {eq} nodes: {np_eq[0] / rs_eq[0]:.1f}x (median), "
           f"{np_eq[1] / rs_eq[1]:.1f}x (min)")
+    print(f"load average at the end {os.getloadavg()[0]:.2f}")
 
 
 if __name__ == "__main__":

@@ -18,10 +18,13 @@ Discretisation (written from the equation above, not from rollsleuth's code):
   equation is equidimensional in r (invariant under scaling of r), so in t it reads
   s_tt + 2 s_t + (1 - g^2) s = 0 with g^2 = E_t / E_r, and a uniform t grid spreads the error
   evenly; a uniform r grid would be coarsest, relative to the decay length r / g, at the core;
-- accretion one grid node at a time, as Hakiel winds one node per layer (here a node stands for
-  a group of layers): at step k node k joins with the Dirichlet condition s_k = -sigma_w dr / r_k,
-  dr = r_k - r_(k-1);
-- central second-order differences on nodes 0..k-1, the core condition by a ghost node, so each
+- accretion one grid interval at a time, as Hakiel winds one node per layer (here an interval
+  stands for a group of layers): at step k the layers between r_(k-1) and r_k press on the outer
+  node of the roll wound so far, the Dirichlet condition s_(k-1) = -sigma_w dr / r_(k-1) with
+  dr = r_k - r_(k-1), and node k joins with zero radial stress (the free surface). The group's
+  load is lumped at that node, so the scheme is first order in g dr / r (the layers' own inward
+  decay across the interval is not resolved);
+- central second-order differences on nodes 0..k-2, the core condition by a ghost node, so each
   step is one tridiagonal system (scipy.linalg.solve_banded);
 - E_r per node by a predictor-corrector: predictor at the pressure before the step, corrector at
   the mid-step pressure P - s/2;
