@@ -119,6 +119,23 @@ fn bench_triage(c: &mut Criterion) {
             rollsleuth::diagnose::diagnose(black_box(&case), &table, &opt).expect("diagnoses")
         })
     });
+    // the field-case mix as triage runs it, one roll of each (a 10,000-roll triage is about
+    // 3,333 times this, over the cores)
+    let mix: Vec<Case> = [
+        "field_cases/harrowgate_board_dry_store.yaml",
+        "field_cases/kestrel_coated_cold_to_humid.yaml",
+        "field_cases/nordvik_pm3_caliper_band.yaml",
+    ]
+    .iter()
+    .map(|p| case::load_file(std::path::Path::new(p), &[]).expect("field case loads"))
+    .collect();
+    c.bench_function("triage the field-case mix (3 rolls)", |b| {
+        b.iter(|| {
+            for roll in &mix {
+                black_box(rollsleuth::diagnose::diagnose(roll, &table, &opt).expect("diagnoses"));
+            }
+        })
+    });
     let full = rollsleuth::diagnose::DiagnoseOptions::default();
     // the cost of the re-runs: model runs per diagnosis (Shapley subsets of the sources, the
     // amplifiers' alternatives and the corrections, each distinct scenario once)

@@ -241,6 +241,8 @@ pub fn fit_roll(
     let aged = with_limits(case, lanes, wound, aged);
     let strain = aged.final_strain_at_unwind();
     let spread_strain = spread(&strain);
+    // in mm/m before the difference, as `diagnose` and `triage` take it (the same bits)
+    let spread_mm_per_m = spread(&strain.iter().map(|x| x * 1e3).collect::<Vec<f64>>());
     Ok(RollFit {
         lanes: fits,
         pooled_md_creep_scale: prior[0].exp(),
@@ -248,7 +250,7 @@ pub fn fit_roll(
         pooled_converged: pooled.converged,
         strain_at_unwind: strain,
         spread_strain,
-        spread_mm_per_m: spread_strain * 1e3,
+        spread_mm_per_m,
         prior_sd_ln: PRIOR_SD_LN,
         noise: noise(case),
         contradictions,
