@@ -256,10 +256,12 @@ mod tests {
                     .max_by(|&x, &y| m[x][k].abs().total_cmp(&m[y][k].abs()))
                     .unwrap();
                 m.swap(k, p);
-                for r in k + 1..n {
-                    let f = m[r][k] / m[k][k];
-                    for col in k..=n {
-                        m[r][col] -= f * m[k][col];
+                let (head, tail) = m.split_at_mut(k + 1);
+                let pivot_row = &head[k];
+                for row in tail.iter_mut() {
+                    let f = row[k] / pivot_row[k];
+                    for (x, p) in row[k..].iter_mut().zip(&pivot_row[k..]) {
+                        *x -= f * p;
                     }
                 }
             }
