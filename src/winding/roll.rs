@@ -510,8 +510,7 @@ pub fn wind_from(
     }
     if let Some(one) = super::uniform::one_lane(lanes) {
         let (w, found) = wind_from(input, &one, opt, start)?;
-        let shear_lag_m = |out: &[LaneStress]| final_shear_lag(input, lanes, out);
-        return Ok((super::uniform::spread(w, lanes, shear_lag_m), found));
+        return Ok((super::uniform::on_every_lane(w, input, lanes), found));
     }
     let mat = &input.material;
     let model = lane_model(input);
@@ -572,7 +571,7 @@ pub fn wind_from(
 
 /// Shear-lag length of CD levelling at the end of the build, m ([`coupling::shear_lag_length`]
 /// at the lanes' width-weighted mean outer radius).
-fn final_shear_lag(input: &WindInput, lanes: &Lanes, out: &[LaneStress]) -> f64 {
+pub(super) fn final_shear_lag(input: &WindInput, lanes: &Lanes, out: &[LaneStress]) -> f64 {
     let widths = lanes.widths();
     let width: f64 = widths.iter().sum();
     let r = out

@@ -2,7 +2,7 @@
 //! winding, every lane winds alike, so one lane across the width is wound and its state put on
 //! each lane ([`super::roll::wind_from`]).
 
-use super::roll::{LaneStress, Wound};
+use super::roll::{final_shear_lag, LaneStress, WindInput, Wound};
 use crate::lanes::{Lane, Lanes};
 
 /// A uniform roll as one lane across its width: when every lane has the same caliper and the
@@ -33,12 +33,8 @@ pub(super) fn one_lane(lanes: &Lanes) -> Option<Lanes> {
 }
 
 /// The wound state of [`one_lane`]'s roll put on every lane of `lanes`, with the shear lag of
-/// all of them (`shear_lag_m`, m, of the lanes' stresses).
-pub(super) fn spread(
-    one: Wound,
-    lanes: &Lanes,
-    shear_lag_m: impl Fn(&[LaneStress]) -> f64,
-) -> Wound {
+/// all of them.
+pub(super) fn on_every_lane(one: Wound, input: &WindInput, lanes: &Lanes) -> Wound {
     let Some(lane) = one.lanes.first() else {
         return one;
     };
@@ -51,7 +47,7 @@ pub(super) fn spread(
         })
         .collect();
     Wound {
-        shear_lag_m: shear_lag_m(&out),
+        shear_lag_m: final_shear_lag(input, lanes, &out),
         lanes: out,
         ..one
     }
