@@ -27,9 +27,8 @@ pub fn thomas(a: &[f64], b: &[f64], c: &[f64], d: &mut [f64], scratch: &mut [f64
     // by side, instead of one chain twice as long. Rows above m end as x_i = y_i - u_i x_(i+1),
     // rows below as x_i = z_i - v_i x_(i-1); u, v go in `scratch`, y, z in `d`.
     let m = n / 2;
-    let bad = |p: f64| p.abs() < 1e-300 || !p.is_finite();
     let (mut beta, mut gamma) = (b[0], b[n - 1]);
-    if bad(beta) || bad(gamma) {
+    if vanishes(beta) || vanishes(gamma) {
         return false;
     }
     let (mut y, mut z) = (d[0] / beta, d[n - 1] / gamma);
@@ -42,7 +41,7 @@ pub fn thomas(a: &[f64], b: &[f64], c: &[f64], d: &mut [f64], scratch: &mut [f64
     for k in 1..m {
         let i = k;
         beta = b[i] - a[i] * u;
-        if bad(beta) {
+        if vanishes(beta) {
             return false;
         }
         y = (d[i] - a[i] * y) / beta;
@@ -52,7 +51,7 @@ pub fn thomas(a: &[f64], b: &[f64], c: &[f64], d: &mut [f64], scratch: &mut [f64
         let j = n - 1 - k;
         if j > m {
             gamma = b[j] - c[j] * v;
-            if bad(gamma) {
+            if vanishes(gamma) {
                 return false;
             }
             z = (d[j] - c[j] * z) / gamma;
@@ -63,7 +62,7 @@ pub fn thomas(a: &[f64], b: &[f64], c: &[f64], d: &mut [f64], scratch: &mut [f64
     }
     // rows 0..m-1 from the top and m+1..n-1 from the bottom are eliminated (n >= 8)
     let pivot = b[m] - a[m] * scratch[m - 1] - c[m] * scratch[m + 1];
-    if bad(pivot) {
+    if vanishes(pivot) {
         return false;
     }
     let xm = (d[m] - a[m] * d[m - 1] - c[m] * d[m + 1]) / pivot;
@@ -88,6 +87,12 @@ pub fn thomas(a: &[f64], b: &[f64], c: &[f64], d: &mut [f64], scratch: &mut [f64
     d.iter().all(|x| x.is_finite())
 }
 
+/// A pivot too small or not finite to divide by (the solvers report a failure).
+#[inline]
+fn vanishes(p: f64) -> bool {
+    p.abs() < 1e-300 || !p.is_finite()
+}
+
 /// The Thomas algorithm eliminating from the top only ([`thomas`] for small systems).
 fn thomas_one_way(a: &[f64], b: &[f64], c: &[f64], d: &mut [f64], scratch: &mut [f64]) -> bool {
     let n = d.len();
@@ -95,7 +100,7 @@ fn thomas_one_way(a: &[f64], b: &[f64], c: &[f64], d: &mut [f64], scratch: &mut 
         return true;
     }
     let mut beta = b[0];
-    if beta.abs() < 1e-300 || !beta.is_finite() {
+    if vanishes(beta) {
         return false;
     }
     // the last value solved is carried in a register, not read back from memory: each row's
@@ -106,7 +111,7 @@ fn thomas_one_way(a: &[f64], b: &[f64], c: &[f64], d: &mut [f64], scratch: &mut 
         let s = c[i - 1] / beta;
         scratch[i] = s;
         beta = b[i] - a[i] * s;
-        if beta.abs() < 1e-300 || !beta.is_finite() {
+        if vanishes(beta) {
             return false;
         }
         prev = (d[i] - a[i] * prev) / beta;
