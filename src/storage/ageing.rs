@@ -10,7 +10,7 @@
 //! memory), applied after winding. Finite volumes on cells clustered at the core and the barrel,
 //! backward Euler in time; lanes do not exchange load in storage, only moisture (through x).
 
-use super::creep::{step_coefficients_at, step_rates, step_update_at, CreepState};
+use super::creep::{step_coefficients_at, step_rates, step_update_at, CreepState, Rates};
 use super::drive::{drive, LaneDrive};
 use super::hardness::HardnessMap;
 use super::record::{FullRecord, Recorder, Snapshot};
@@ -193,6 +193,12 @@ struct Cells<'a> {
     /// Cell faces and centres, m.
     f: &'a [f64],
     r: &'a [f64],
+    /// Per cell: width f[j+1] - f[j] (m), 1 / r (1/m) and width / r; per face between cells j
+    /// and j + 1: 1 / (r[j+1] - r[j]) (1/m).
+    width: Vec<f64>,
+    inv_r: Vec<f64>,
+    width_r: Vec<f64>,
+    inv_dr: Vec<f64>,
     /// Core spring per unit radius, Pa/m (None: rigid core).
     core_k: Option<f64>,
     /// Radial and tangential stress, Pa.
@@ -214,8 +220,8 @@ struct Cells<'a> {
     etan_r: Vec<f64>,
     /// The step's creep rates per cell ([`step_rates`]), MD and radial, shared by the
     /// coefficients and the creep update.
-    rate_t: Vec<(f64, f64)>,
-    rate_r: Vec<(f64, f64)>,
+    rate_t: Vec<Rates>,
+    rate_r: Vec<Rates>,
     /// Per face between cells j and j + 1 (index j): mean modulus, mean strain offset,
     /// f ef / dr and f ef hf.
     ef: Vec<f64>,
@@ -238,9 +244,15 @@ impl<'a> Cells<'a> {
         let nr = r.len();
         let (sr, st) = initial_stress(run.wound, run.lane, r);
         let z = vec![0.0; nr];
+        let width: Vec<f64> = f.windows(2).map(|w| w[1] - w[0]).collect();
+        let inv_r: Vec<f64> = r.iter().map(|x| 1.0 / x).collect();
         let mut cells = Cells {
             f,
             r,
+            width_r: width.iter().zip(&inv_r).map(|(w, i)| w * i).collect(),
+            width,
+            inv_r,
+            inv_dr: r.windows(2).map(|w| 1.0 / (w[1] - w[0])).collect(),
             core_k: run.wound.core_stiffness_pa.map(|ec| ec / f[0]),
             sr,
             st,
@@ -254,8 +266,8 @@ impl<'a> Cells<'a> {
             g_t: z.clone(),
             g_r: z.clone(),
             etan_r: z.clone(),
-            rate_t: vec![(0.0, 0.0); nr],
-            rate_r: vec![(0.0, 0.0); nr],
+            rate_t: vec![Rates::default(); nr],
+            rate_r: vec![Rates::default(); nr],
             ef: z.clone(),
             hf: z.clone(),
             cf: z.clone(),
@@ -303,15 +315,22 @@ impl<'a> Cells<'a> {
         let drv = run.drive;
         let (dxi, dmc) = (&drv.dxi[span.clone()], &drv.dmc[span.clone()]);
         if drv.fits(run.creep, ms) {
-            // the same rates as [`step_rates`], from the parts the drive holds
-            let (a_t, a_r, msd) = (
-                &drv.a[0][span.clone()],
-                &drv.a[1][span.clone()],
-                &drv.msd[span],
-            );
+            // the rates of [`step_rates`], from the parts the drive holds
+            let (kel_t, keep_t) = (&drv.kelvin[0][span.clone()], &drv.keep[0][span.clone()]);
+            let (kel_r, keep_r) = (&drv.kelvin[1][span.clone()], &drv.keep[1][span.clone()]);
+            let msd = &drv.msd[span.clone()];
+            let (fluid_t, fluid_r) = (1.0 / md.viscous_time_s, 1.0 / radial.viscous_time_s);
             for j in 0..nr {
-                self.rate_t[j] = (a_t[j], dxi[j] / md.viscous_time_s + msd[j]);
-                self.rate_r[j] = (a_r[j], dxi[j] / radial.viscous_time_s + msd[j]);
+                self.rate_t[j] = Rates {
+                    kelvin: kel_t[j],
+                    keep: keep_t[j],
+                    viscous: dxi[j] * fluid_t + msd[j],
+                };
+                self.rate_r[j] = Rates {
+                    kelvin: kel_r[j],
+                    keep: keep_r[j],
+                    viscous: dxi[j] * fluid_r + msd[j],
+                };
             }
         } else {
             for j in 0..nr {
@@ -321,25 +340,27 @@ impl<'a> Cells<'a> {
         }
         for (j, &dm) in dmc.iter().enumerate() {
             // MD: g = sigma_t / E
-            let (a, bb) = self.rate_t[j];
-            let (e1, h1) = step_coefficients_at(md, e_t, self.g_t[j], &self.ct[j], a, bb);
+            let (e1, h1) = step_coefficients_at(md, e_t, self.g_t[j], &self.ct[j], self.rate_t[j]);
             self.eh_t[j] = e1;
             self.h_t[j] = h1 + mat.hygro_md_per_pct * dm;
             // radial: g = -stack strain at the pressure; tangent modulus of the stack
-            let (a, bb) = self.rate_r[j];
-            let (e2, h2) =
-                step_coefficients_at(radial, self.etan_r[j], self.g_r[j], &self.cr[j], a, bb);
+            let (e2, h2) = step_coefficients_at(
+                radial,
+                self.etan_r[j],
+                self.g_r[j],
+                &self.cr[j],
+                self.rate_r[j],
+            );
             self.eh_r[j] = e2;
             self.h_r[j] = h2 + mat.hygro_zd_per_pct * dm;
         }
-        let (f, r) = (self.f, self.r);
+        let f = self.f;
         for j in 0..nr.saturating_sub(1) {
-            let dd = r[j + 1] - r[j];
             let ef = 0.5 * (self.eh_r[j] + self.eh_r[j + 1]);
             let hf = 0.5 * (self.h_r[j] + self.h_r[j + 1]);
             self.ef[j] = ef;
             self.hf[j] = hf;
-            self.cf[j] = f[j + 1] * ef / dd;
+            self.cf[j] = f[j + 1] * ef * self.inv_dr[j];
             self.rf[j] = f[j + 1] * ef * hf;
         }
     }
@@ -364,15 +385,13 @@ impl<'a> Cells<'a> {
         let core = self.core_face();
         self.assemble_row(0, core);
         // interior rows: both faces, no branches (the same operations as `assemble_row`)
-        let (f, r) = (self.f, self.r);
         let (cf, rf, eh_t, h_t) = (&self.cf, &self.rf, &self.eh_t, &self.h_t);
         for j in 1..nr - 1 {
-            let w = f[j + 1] - f[j];
             let (right, left) = (cf[j], cf[j - 1]);
             self.a[j] = 0.0 + left;
-            self.b[j] = ((0.0 - right) - left) - w * eh_t[j] / r[j];
+            self.b[j] = ((0.0 - right) - left) - self.width_r[j] * eh_t[j];
             self.c[j] = 0.0 + right;
-            self.d[j] = ((0.0 + rf[j]) - rf[j - 1]) - w * eh_t[j] * h_t[j];
+            self.d[j] = ((0.0 + rf[j]) - rf[j - 1]) - self.width[j] * eh_t[j] * h_t[j];
         }
         if nr > 1 {
             self.assemble_row(nr - 1, core);
@@ -381,9 +400,8 @@ impl<'a> Cells<'a> {
 
     /// Assemble row j of [`Self::assemble`] with the core face's (stiffness, series factor).
     fn assemble_row(&mut self, j: usize, (sh, fac): (f64, f64)) {
-        let (f, r) = (self.f, self.r);
-        let nr = r.len();
-        let w = f[j + 1] - f[j];
+        let f = self.f;
+        let nr = self.r.len();
         let (mut aj, mut bj, mut cj, mut rhs) = (0.0, 0.0, 0.0, 0.0);
         if j + 1 < nr {
             cj += self.cf[j];
@@ -399,8 +417,8 @@ impl<'a> Cells<'a> {
             bj -= f[0] * sh * fac;
             rhs -= f[0] * self.eh_r[0] * self.h_r[0] * fac;
         }
-        bj -= w * self.eh_t[j] / r[j];
-        rhs -= w * self.eh_t[j] * self.h_t[j];
+        bj -= self.width_r[j] * self.eh_t[j];
+        rhs -= self.width[j] * self.eh_t[j] * self.h_t[j];
         self.a[j] = aj;
         self.b[j] = bj;
         self.c[j] = cj;
@@ -418,15 +436,15 @@ impl<'a> Cells<'a> {
         let nr = r.len();
         let du = &self.d;
         for j in 0..nr.saturating_sub(1) {
-            let dd = r[j + 1] - r[j];
-            self.dsr_face[j + 1] = self.ef[j] * ((du[j + 1] - du[j]) / dd - self.hf[j]);
+            let strain = (du[j + 1] - du[j]) * self.inv_dr[j];
+            self.dsr_face[j + 1] = self.ef[j] * (strain - self.hf[j]);
         }
         let (sh, fac) = self.core_face();
         self.dsr_face[0] = (sh * du[0] - self.eh_r[0] * self.h_r[0]) * fac;
         // every cell first, then the check (no early exit, so the loop runs on vectors)
         let mut finite = true;
         for j in 0..nr {
-            let dst = self.eh_t[j] * (du[j] / r[j] - self.h_t[j]);
+            let dst = self.eh_t[j] * (du[j] * self.inv_r[j] - self.h_t[j]);
             let dsr = 0.5 * (self.dsr_face[j] + self.dsr_face[j + 1]);
             self.st[j] += dst;
             self.sr[j] = (self.sr[j] + dsr).min(0.0);
@@ -447,16 +465,14 @@ impl<'a> Cells<'a> {
     /// [`Self::coefficients`]), and set the elastic strains for the next step.
     fn update_creep(&mut self, run: &LaneRun) {
         let mat = run.material;
-        let e_t = mat.md_modulus_pa;
+        let compliance = 1.0 / mat.md_modulus_pa;
         for j in 0..self.r.len() {
-            let g = self.st[j] / e_t;
+            let g = self.st[j] * compliance;
             self.g_t[j] = g;
-            let (a, bb) = self.rate_t[j];
-            step_update_at(&run.creep.md, g, &mut self.ct[j], a, bb);
+            step_update_at(&run.creep.md, g, &mut self.ct[j], self.rate_t[j]);
             let (g, e) = radial_elastic(&mat.stack, -self.sr[j]);
             (self.g_r[j], self.etan_r[j]) = (g, e);
-            let (a, bb) = self.rate_r[j];
-            step_update_at(&run.creep.radial, g, &mut self.cr[j], a, bb);
+            step_update_at(&run.creep.radial, g, &mut self.cr[j], self.rate_r[j]);
         }
     }
 }

@@ -91,32 +91,54 @@ pub fn step_coefficients(
     dxi: f64,
     dmc: f64,
 ) -> (f64, f64) {
-    let (a, bb) = step_rates(b, mech_sorptive, dxi, dmc);
-    step_coefficients_at(b, e_tan, g_n, st, a, bb)
+    step_coefficients_at(b, e_tan, g_n, st, step_rates(b, mech_sorptive, dxi, dmc))
 }
 
-/// The rates of a step of [`step_coefficients`] and [`step_update`]: a = dxi/tau_K and
-/// b = dxi/tau_v + m_s |dmc| (dimensionless), the same for the coefficients and the update.
+/// The rates of a step of [`step_coefficients`] and [`step_update`], the same for the
+/// coefficients and the update (all dimensionless).
+#[derive(Debug, Clone, Copy, Default, PartialEq)]
+pub struct Rates {
+    /// a / (1 + a), with a = dxi / tau_K: the Kelvin element's share of the step.
+    pub kelvin: f64,
+    /// 1 / (1 + a).
+    pub keep: f64,
+    /// b = dxi / tau_v + m_s |dmc|: the viscous and mechano-sorptive part.
+    pub viscous: f64,
+}
+
+impl Rates {
+    /// The rates from a = dxi / tau_K and b.
+    #[inline]
+    pub fn new(a: f64, viscous: f64) -> Rates {
+        let keep = 1.0 / (1.0 + a);
+        Rates {
+            kelvin: a * keep,
+            keep,
+            viscous,
+        }
+    }
+}
+
+/// The rates of a step over reduced time `dxi` (s) with moisture change `dmc` (percentage
+/// points): a = dxi/tau_K and b = dxi/tau_v + m_s |dmc|.
 #[inline]
-pub fn step_rates(b: &Burgers, mech_sorptive: f64, dxi: f64, dmc: f64) -> (f64, f64) {
+pub fn step_rates(b: &Burgers, mech_sorptive: f64, dxi: f64, dmc: f64) -> Rates {
     let a = dxi / b.retardation_s;
-    let bb = dxi / b.viscous_time_s + mech_sorptive * dmc.abs();
-    (a, bb)
+    Rates::new(a, dxi / b.viscous_time_s + mech_sorptive * dmc.abs())
 }
 
-/// [`step_coefficients`] with the step's rates (a, bb) from [`step_rates`].
+/// [`step_coefficients`] with the step's rates from [`step_rates`].
 #[inline]
 pub fn step_coefficients_at(
     b: &Burgers,
     e_tan: f64,
     g_n: f64,
     st: &CreepState,
-    a: f64,
-    bb: f64,
+    rates: Rates,
 ) -> (f64, f64) {
-    let k = a * b.delayed / (1.0 + a);
-    let e_hat = e_tan / (1.0 + bb + k);
-    let h = g_n * (bb + k) - a * st.delayed / (1.0 + a);
+    let k = rates.kelvin * b.delayed;
+    let e_hat = e_tan / (1.0 + rates.viscous + k);
+    let h = g_n * (rates.viscous + k) - rates.kelvin * st.delayed;
     (e_hat, h)
 }
 
@@ -129,13 +151,13 @@ pub fn step_update(
     dxi: f64,
     dmc: f64,
 ) {
-    let (a, bb) = step_rates(b, mech_sorptive, dxi, dmc);
-    step_update_at(b, g_next, st, a, bb);
+    step_update_at(b, g_next, st, step_rates(b, mech_sorptive, dxi, dmc));
 }
 
-/// [`step_update`] with the step's rates (a, bb) from [`step_rates`].
+/// [`step_update`] with the step's rates from [`step_rates`]: the delayed strain moves to
+/// (eps_K + a delayed g) / (1 + a).
 #[inline]
-pub fn step_update_at(b: &Burgers, g_next: f64, st: &mut CreepState, a: f64, bb: f64) {
-    st.delayed = (st.delayed + a * b.delayed * g_next) / (1.0 + a);
-    st.permanent += bb * g_next;
+pub fn step_update_at(b: &Burgers, g_next: f64, st: &mut CreepState, rates: Rates) {
+    st.delayed = st.delayed * rates.keep + rates.kelvin * b.delayed * g_next;
+    st.permanent += rates.viscous * g_next;
 }
