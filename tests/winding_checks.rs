@@ -442,7 +442,8 @@ fn wound_state_satisfies_radial_equilibrium_identity() {
 /// A secant started from another roll's end (as the noise rolls start from the noise-free
 /// roll's) finds the same compressed caliper: the lanes' compressed builds fill the diameter the
 /// case states, and the stresses agree with the roll wound from the mean caliper to within the
-/// secant's tolerance.
+/// secant's tolerance (1e-5 in ln of the build ratio, slope about -1: each answer within 1e-5
+/// of the root, so the two within 2e-5; the stresses scale with 1 / c_eff).
 #[test]
 fn a_started_secant_fills_the_stated_diameter() {
     let c = demo(&["lanes.count=12"]);
@@ -459,7 +460,7 @@ fn a_started_secant_fills_the_stated_diameter() {
     assert_relative_eq!(
         warm.layer_thickness_m,
         cold.layer_thickness_m,
-        max_relative = 1e-6
+        max_relative = 2e-5
     );
     let widths = l.widths();
     let width: f64 = widths.iter().sum();
@@ -470,14 +471,14 @@ fn a_started_secant_fills_the_stated_diameter() {
         .map(|(x, w)| x.summary.outer_radius_m * w)
         .sum::<f64>()
         / width;
-    assert_relative_eq!(2.0 * built, c.roll.diameter_m, max_relative = 1e-6);
+    assert_relative_eq!(2.0 * built, c.roll.diameter_m, max_relative = 1e-5);
     for (a, b) in warm.lanes.iter().zip(&cold.lanes) {
         let scale = b
             .radial_stress_pa
             .iter()
             .fold(0.0_f64, |m, x| m.max(x.abs()));
         for (x, y) in a.radial_stress_pa.iter().zip(&b.radial_stress_pa) {
-            assert!((x - y).abs() <= 1e-5 * scale, "{x} vs {y}");
+            assert!((x - y).abs() <= 4e-5 * scale, "{x} vs {y}");
         }
     }
 }

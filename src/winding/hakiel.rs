@@ -155,6 +155,8 @@ pub struct LaneState {
     ast: Vec<f64>,
     az: Vec<f64>,
     aeps: Vec<f64>,
+    /// Pressure (Pa) at which `aeps` was last brought up to date.
+    ap: Vec<f64>,
     agrid: Vec<usize>,
     /// Increment of the current sub-step (zone), and of the last grid step (all nodes).
     s: Vec<f64>,
@@ -206,6 +208,7 @@ impl LaneState {
             ast: Vec::with_capacity(cap),
             az: Vec::with_capacity(cap),
             aeps: Vec::with_capacity(cap),
+            ap: Vec::with_capacity(cap),
             agrid: Vec::with_capacity(cap),
             s: Vec::with_capacity(cap),
             last: Vec::with_capacity(cap),
@@ -226,6 +229,7 @@ impl LaneState {
         self.ast.push(sigma_w);
         self.az.push(0.0);
         self.aeps.push(0.0);
+        self.ap.push(0.0);
         self.agrid.push(grid);
         self.s.push(0.0);
         self.last.push(0.0);
@@ -306,9 +310,10 @@ impl LaneState {
             self.grow.push(plan.grow[i - 1]);
             self.rho.push(0.0);
             self.push_node(r_new, sigma_w, if i == self.sub { k } else { usize::MAX });
+            // the zone's strains are brought up to date once per grid step ([`Self::strains`])
             for j in self.zcut..=top {
                 let sj = self.s[j];
-                self.apply(m, j, sj);
+                self.load(j, sj);
                 self.last[j] += sj;
             }
             if self.zcut == b {
@@ -320,6 +325,7 @@ impl LaneState {
         if !self.asr.iter().all(|x| x.is_finite()) {
             return Err(fail);
         }
+        self.strains(m, b);
         self.coarsen();
         self.wound = k + 1;
         Ok(())
@@ -328,17 +334,42 @@ impl LaneState {
     /// Add increment `s` to active node `j`, keeping the build sum.
     #[inline]
     fn apply(&mut self, m: &LaneModel, j: usize, s: f64) {
-        let p0 = -self.asr[j];
+        self.load(j, s);
+        self.strain(m, j);
+    }
+
+    /// Add increment `s` to the stress of active node `j` (its strain is left to [`Self::strain`]).
+    #[inline]
+    fn load(&mut self, j: usize, s: f64) {
         self.asr[j] += s;
         if j == 0 {
             // exact at the core (z = 1 + kappa); elsewhere sigma_t comes from equilibrium
             self.ast[0] += s * self.az[0];
         }
-        let de = strain_change(&m.stack, p0, -self.asr[j]);
+    }
+
+    /// Bring active node `j`'s stack strain up to its present pressure, keeping the build sum
+    /// (the trapezoid weight of a node is half the span of its neighbours).
+    #[inline]
+    fn strain(&mut self, m: &LaneModel, j: usize) {
+        let p = -self.asr[j];
+        let de = strain_change(&m.stack, self.ap[j], p);
+        self.ap[j] = p;
         self.aeps[j] += de;
         let hi = self.ar[(j + 1).min(self.ar.len() - 1)];
         let lo = self.ar[j.saturating_sub(1)];
         self.build -= 0.5 * de * (hi - lo);
+    }
+
+    /// Bring the strains of the zone's nodes (from active node `b` up) to their pressures at
+    /// the end of a grid step: once per grid step instead of once per sub-step (the build is
+    /// read between grid steps only; the strain is a function of the pressure alone). A node's
+    /// neighbours, and so its trapezoid weight, are fixed from the sub-step after it is laid
+    /// until [`Self::coarsen`], which is after this.
+    fn strains(&mut self, m: &LaneModel, b: usize) {
+        for j in b..self.ar.len() {
+            self.strain(m, j);
+        }
     }
 
     /// Element ratios of the intervals from node `from` up to node `to`, with the pressure at node
@@ -453,6 +484,7 @@ impl LaneState {
                     &mut self.ast,
                     &mut self.az,
                     &mut self.aeps,
+                    &mut self.ap,
                     &mut self.s,
                     &mut self.last,
                 ] {
