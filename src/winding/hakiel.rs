@@ -310,7 +310,6 @@ impl LaneState {
             self.grow.push(plan.grow[i - 1]);
             self.rho.push(0.0);
             self.push_node(r_new, sigma_w, if i == self.sub { k } else { usize::MAX });
-            // the zone's strains are brought up to date once per grid step ([`Self::strains`])
             for j in self.zcut..=top {
                 let sj = self.s[j];
                 self.load(j, sj);
@@ -338,7 +337,8 @@ impl LaneState {
         self.strain(m, j);
     }
 
-    /// Add increment `s` to the stress of active node `j` (its strain is left to [`Self::strain`]).
+    /// Add increment `s` to the stress of active node `j` (its strain is left to [`Self::strain`];
+    /// in the zone, [`Self::strains`] once per grid step).
     #[inline]
     fn load(&mut self, j: usize, s: f64) {
         self.asr[j] += s;
