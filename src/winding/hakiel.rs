@@ -34,7 +34,8 @@
 //! resolving. Increments that have decayed below 1e-15 of the local pressure are not carried
 //! further in, and the per-interval ratios are only recomputed where the pressure changed. The
 //! stack strain behind the compressed build is updated by its change per increment (a series
-//! for small changes, no logarithm per node per step).
+//! for small changes, no logarithm per node per step), in the surface zone once per grid step
+//! (the build is read only between grid steps).
 
 use super::substeps::new_layer_load;
 pub use super::substeps::SubSteps;
