@@ -443,8 +443,8 @@ impl<'a> Cells<'a> {
         self.dsr_face[0] = (sh * du[0] - self.eh_r[0] * self.h_r[0]) * fac;
         // every cell first, then the check (no early exit, so the loop runs on vectors)
         let mut finite = true;
-        for j in 0..nr {
-            let dst = self.eh_t[j] * (du[j] * self.inv_r[j] - self.h_t[j]);
+        for (j, &du_j) in du.iter().enumerate() {
+            let dst = self.eh_t[j] * (du_j * self.inv_r[j] - self.h_t[j]);
             let dsr = 0.5 * (self.dsr_face[j] + self.dsr_face[j + 1]);
             self.st[j] += dst;
             self.sr[j] = (self.sr[j] + dsr).min(0.0);
