@@ -9,7 +9,8 @@
 //! Measured with this test's comparison (max over radii of |sigma_r - sigma_r,ref| / |sigma_r,ref|,
 //! reference 4 times finer): 0.95 % at 201 nodes, 0.24 % at 401, an observed order of 2.0
 //! (second order in the node spacing). Field cases at 401 nodes against 1601: Harrowgate
-//! 0.59 %, Kestrel 0.16 %, Nordvik 0.22 %.
+//! 0.50 %, Kestrel 0.16 %, Nordvik 0.14 % (the lane coupling is first order: DEVELOPERS.md,
+//! "Numerical practice").
 
 use rollsleuth::case;
 use rollsleuth::lanes;

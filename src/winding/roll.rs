@@ -68,7 +68,7 @@ impl Default for Options {
 
 /// Radial nodes per lane for every command (`stress`, `fit`, `diagnose`, `triage`): within 1 %
 /// of the converged radial stress at every radius on the soft Pfeiffer study roll and on each
-/// field case (measured 0.24 % on the soft roll, at most 0.59 % on the field cases; see
+/// field case (measured 0.24 % on the soft roll, at most 0.50 % on the field cases; see
 /// DEVELOPERS.md, "Numerical practice").
 pub const DEFAULT_NODES: usize = 401;
 
@@ -322,26 +322,27 @@ fn accrete(
     let mut offs = web.clone();
     let mut nip_q = vec![input.winding.nip_n_per_m.max(0.0); n];
     let mut last_wit = vec![0.0; n];
-    // Lane radii are refreshed at least 400 times over the build (every node on coarser grids).
-    let every = nodes.div_ceil(400).max(1);
-    let mut r_last = rc;
+    // The lanes' radii and shares are updated at every grid step, however fine the grid (a
+    // fixed number of updates would leave a lag that refining the grid does not remove).
     for (k, &rk) in grid.iter().enumerate() {
-        if k > 0 && (k % every == 0 || k + 1 == nodes) {
+        // the grid radius half way through the step, where its layers are wound (the end of
+        // the step lagged the winder's taper and the air film by half a step: first order)
+        let r_step = if k > 0 { 0.5 * (grid[k - 1] + rk) } else { rk };
+        if k > 0 {
             for (i, st) in states.iter().enumerate() {
                 radii[i] = st.outer_radius(&model, 1.0 / c_eff, cal[i]);
             }
             let (o, q) = couple(input, lanes, &radii, levelling);
-            coupling::follow_nip(&mut nip_q, &q, rk - r_last);
+            coupling::follow_nip(&mut nip_q, &q, rk - grid[k - 1]);
             for i in 0..n {
                 offs[i] = web[i] + o[i];
             }
-            r_last = rk;
         }
         let rbar = radii.iter().zip(&widths).map(|(r, w)| r * w).sum::<f64>() / width;
-        let t_web = input.winding.tension.at(2.0 * rbar.max(rk));
+        let t_web = input.winding.tension.at(2.0 * rbar.max(r_step));
         let e0 = shared_strain(&stiff, &offs, &widths, t_web * width)?;
         // hoop strain lost as entrained air bleeds out (see `air`)
-        let air = super::air::strain_loss(mat, input.winding, rbar.max(rk), t_web);
+        let air = super::air::strain_loss(mat, input.winding, rbar.max(r_step), t_web);
         let plan = states.first().map(|st| st.plan(&model, k));
         let plan = plan.unwrap_or_default();
         for (i, st) in states.iter_mut().enumerate() {
