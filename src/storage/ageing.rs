@@ -316,20 +316,17 @@ impl<'a> Cells<'a> {
         let (dxi, dmc) = (&drv.dxi[span.clone()], &drv.dmc[span.clone()]);
         if drv.fits(run.creep, ms) {
             // the rates of [`step_rates`], from the parts the drive holds
-            let (kel_t, keep_t) = (&drv.kelvin[0][span.clone()], &drv.keep[0][span.clone()]);
-            let (kel_r, keep_r) = (&drv.kelvin[1][span.clone()], &drv.keep[1][span.clone()]);
+            let (kel_t, kel_r) = (&drv.kelvin[0][span.clone()], &drv.kelvin[1][span.clone()]);
             let msd = &drv.msd[span.clone()];
             let (fluid_t, fluid_r) = (1.0 / md.viscous_time_s, 1.0 / radial.viscous_time_s);
             for j in 0..nr {
                 self.rate_t[j] = Rates {
-                    kelvin: kel_t[j],
-                    keep: keep_t[j],
                     viscous: dxi[j] * fluid_t + msd[j],
+                    ..kel_t[j]
                 };
                 self.rate_r[j] = Rates {
-                    kelvin: kel_r[j],
-                    keep: keep_r[j],
                     viscous: dxi[j] * fluid_r + msd[j],
+                    ..kel_r[j]
                 };
             }
         } else {

@@ -15,11 +15,10 @@ pub struct LaneDrive {
     pub dxi: Vec<f64>,
     pub dmc: Vec<f64>,
     /// The parts of each step's creep rates that a fit's scales leave alone (index as `dxi`):
-    /// with a = dxi / tau_K for the grade's retardation times `ret` (s), MD and radial,
-    /// a / (1 + a) (`kelvin`) and 1 / (1 + a) (`keep`) ([`super::creep::Rates`]); and m_s |dmc|
+    /// the Kelvin parts of [`Rates`] with a = dxi / tau_K for the grade's retardation times `ret`
+    /// (s), MD and radial (their viscous part is left 0: a fit's scales set it); and m_s |dmc|
     /// for the grade's mechano-sorptive coefficient `ms` (/%).
-    pub(super) kelvin: [Vec<f64>; 2],
-    pub(super) keep: [Vec<f64>; 2],
+    pub(super) kelvin: [Vec<Rates>; 2],
     pub(super) msd: Vec<f64>,
     ret: [f64; 2],
     ms: f64,
@@ -109,11 +108,8 @@ fn compute(material: &Material, prep: &Prepared, lane: usize) -> LaneDrive {
     }
     let ret = [mat.creep.md.retardation_s, mat.creep.radial.retardation_s];
     let ms = mat.creep.mechanosorptive_per_pct;
-    let rates = |t: f64| -> Vec<Rates> { dxi.iter().map(|x| Rates::new(x / t, 0.0)).collect() };
-    let [md, radial] = ret.map(rates);
     LaneDrive {
-        kelvin: [&md, &radial].map(|r| r.iter().map(|q| q.kelvin).collect()),
-        keep: [&md, &radial].map(|r| r.iter().map(|q| q.keep).collect()),
+        kelvin: ret.map(|t| dxi.iter().map(|x| Rates::new(x / t, 0.0)).collect()),
         msd: dmc.iter().map(|d| ms * d.abs()).collect(),
         ret,
         ms,
