@@ -27,37 +27,27 @@ pub fn thomas(a: &[f64], b: &[f64], c: &[f64], d: &mut [f64], scratch: &mut [f64
     // by side, instead of one chain twice as long. Rows above m end as x_i = y_i - u_i x_(i+1),
     // rows below as x_i = z_i - v_i x_(i-1); u, v go in `scratch`, y, z in `d`.
     let m = n / 2;
-    let (mut beta, mut gamma) = (b[0], b[n - 1]);
-    if vanishes(beta) || vanishes(gamma) {
+    let Some((mut y, mut u)) = eliminate(b[0], 0.0, c[0], d[0], (0.0, 0.0)) else {
         return false;
-    }
-    let (mut y, mut z) = (d[0] / beta, d[n - 1] / gamma);
-    d[0] = y;
-    d[n - 1] = z;
-    let (mut u, mut v) = (c[0] / beta, a[n - 1] / gamma);
-    scratch[0] = u;
-    scratch[n - 1] = v;
+    };
+    let Some((mut z, mut v)) = eliminate(b[n - 1], 0.0, a[n - 1], d[n - 1], (0.0, 0.0)) else {
+        return false;
+    };
+    (d[0], scratch[0], d[n - 1], scratch[n - 1]) = (y, u, z, v);
     // the top takes rows 1..m-1, the bottom rows n-2 down to m+1 (one row fewer when n is even)
-    for k in 1..m {
-        let i = k;
-        beta = b[i] - a[i] * u;
-        if vanishes(beta) {
+    for i in 1..m {
+        let Some(top) = eliminate(b[i], a[i], c[i], d[i], (y, u)) else {
             return false;
-        }
-        y = (d[i] - a[i] * y) / beta;
-        d[i] = y;
-        u = c[i] / beta;
-        scratch[i] = u;
-        let j = n - 1 - k;
+        };
+        (y, u) = top;
+        (d[i], scratch[i]) = top;
+        let j = n - 1 - i;
         if j > m {
-            gamma = b[j] - c[j] * v;
-            if vanishes(gamma) {
+            let Some(bottom) = eliminate(b[j], c[j], a[j], d[j], (z, v)) else {
                 return false;
-            }
-            z = (d[j] - c[j] * z) / gamma;
-            d[j] = z;
-            v = a[j] / gamma;
-            scratch[j] = v;
+            };
+            (z, v) = bottom;
+            (d[j], scratch[j]) = bottom;
         }
     }
     // rows 0..m-1 from the top and m+1..n-1 from the bottom are eliminated (n >= 8)
@@ -85,6 +75,19 @@ pub fn thomas(a: &[f64], b: &[f64], c: &[f64], d: &mut [f64], scratch: &mut [f64
         }
     }
     d.iter().all(|x| x.is_finite())
+}
+
+/// One row of an elimination that carries (solution part, factor) = (y, u) from its neighbour:
+/// pivot beta = `diag` - `near` u, then ((`rhs` - `near` y) / beta, `far` / beta); `None` where
+/// the pivot [`vanishes`]. From the top, near is the sub-diagonal and far the super-diagonal;
+/// from the bottom the other way round.
+#[inline(always)]
+fn eliminate(diag: f64, near: f64, far: f64, rhs: f64, (y, u): (f64, f64)) -> Option<(f64, f64)> {
+    let beta = diag - near * u;
+    if vanishes(beta) {
+        return None;
+    }
+    Some(((rhs - near * y) / beta, far / beta))
 }
 
 /// A pivot too small or not finite to divide by (the solvers report a failure).
