@@ -102,26 +102,21 @@ fn thomas_one_way(a: &[f64], b: &[f64], c: &[f64], d: &mut [f64], scratch: &mut 
     if n == 0 {
         return true;
     }
-    let mut beta = b[0];
-    if vanishes(beta) {
-        return false;
-    }
-    // the last value solved is carried in a register, not read back from memory: each row's
+    // the last row solved is carried in registers, not read back from memory: each row's
     // dependence on the one before is then only the arithmetic
-    let mut prev = d[0] / beta;
-    d[0] = prev;
-    for i in 1..n {
-        let s = c[i - 1] / beta;
-        scratch[i] = s;
-        beta = b[i] - a[i] * s;
-        if vanishes(beta) {
+    let mut row = (0.0, 0.0);
+    for i in 0..n {
+        let near = if i == 0 { 0.0 } else { a[i] };
+        let Some(next) = eliminate(b[i], near, c[i], d[i], row) else {
             return false;
-        }
-        prev = (d[i] - a[i] * prev) / beta;
-        d[i] = prev;
+        };
+        row = next;
+        (d[i], scratch[i]) = next;
     }
+    // x_i = y_i - u_i x_(i+1)
+    let mut prev = row.0;
     for i in (0..n - 1).rev() {
-        prev = d[i] - scratch[i + 1] * prev;
+        prev = d[i] - scratch[i] * prev;
         d[i] = prev;
     }
     d.iter().all(|x| x.is_finite())
