@@ -14,7 +14,8 @@
 //! - [`report`]: tables, JSON, the root-cause report (HTML with SVG plots, Markdown);
 //! - [`cli`]: arguments and exit codes;
 //! - [`vocab`]: features, corrections, defects, likelihoods and causes as enums;
-//! - [`interp`], [`numeric`]: small shared kernels.
+//! - [`interp`], [`numeric`], [`pack`]: small shared kernels (and the numbers the storage
+//!   kernel runs on, one run or several side by side).
 
 pub mod case;
 pub mod cli;
@@ -26,6 +27,7 @@ pub mod lanes;
 pub mod limits;
 pub mod note;
 pub mod numeric;
+pub mod pack;
 pub mod report;
 pub mod rules;
 pub mod stats;

@@ -3,6 +3,8 @@
 //! smallest), the time step closest to a given time, the complementary error function and the
 //! standard normal upper quantile.
 
+use crate::pack::{Finite, Real};
+
 /// Solve a tridiagonal system in place by the Thomas algorithm.
 ///
 /// `a` is the sub-diagonal (`a[0]` unused), `b` the diagonal, `c` the super-diagonal (`c[n-1]`
@@ -18,6 +20,13 @@
 /// assert!((d[1] - 2.0).abs() < 1e-12);
 /// ```
 pub fn thomas(a: &[f64], b: &[f64], c: &[f64], d: &mut [f64], scratch: &mut [f64]) -> bool {
+    thomas_of(a, b, c, d, scratch) == 0
+}
+
+/// [`thomas`] on numbers of the storage kernel ([`Real`]: one system, or a pack of systems
+/// solved side by side): returns the members whose solve failed, as bits (0: all solved). Each
+/// member's solution has the bits of its own solve.
+pub fn thomas_of<T: Real>(a: &[T], b: &[T], c: &[T], d: &mut [T], scratch: &mut [T]) -> u32 {
     let n = d.len();
     if n < 8 {
         return thomas_one_way(a, b, c, d, scratch);
@@ -25,36 +34,34 @@ pub fn thomas(a: &[f64], b: &[f64], c: &[f64], d: &mut [f64], scratch: &mut [f64
     // Eliminate from both ends towards row m at once (a twisted factorisation; Meurant 1992,
     // from memory): two independent chains of dependent divisions, which the processor runs side
     // by side, instead of one chain twice as long. Rows above m end as x_i = y_i - u_i x_(i+1),
-    // rows below as x_i = z_i - v_i x_(i-1); u, v go in `scratch`, y, z in `d`.
+    // rows below as x_i = z_i - v_i x_(i-1); u, v go in `scratch`, y, z in `d`. A vanishing
+    // pivot marks its member failed; the others go on (no member reads another).
     let m = n / 2;
-    let Some((mut y, mut u)) = eliminate(b[0], 0.0, c[0], d[0], (0.0, 0.0)) else {
-        return false;
-    };
-    let Some((mut z, mut v)) = eliminate(b[n - 1], 0.0, a[n - 1], d[n - 1], (0.0, 0.0)) else {
-        return false;
-    };
+    let zero = T::splat(0.0);
+    let mut failed = Pivots::new();
+    let (mut y, mut u) = eliminate(b[0], zero, c[0], d[0], (zero, zero), &mut failed);
+    let (mut z, mut v) = eliminate(
+        b[n - 1],
+        zero,
+        a[n - 1],
+        d[n - 1],
+        (zero, zero),
+        &mut failed,
+    );
     (d[0], scratch[0], d[n - 1], scratch[n - 1]) = (y, u, z, v);
     // the top takes rows 1..m-1, the bottom rows n-2 down to m+1 (one row fewer when n is even)
     for i in 1..m {
-        let Some(top) = eliminate(b[i], a[i], c[i], d[i], (y, u)) else {
-            return false;
-        };
-        (y, u) = top;
-        (d[i], scratch[i]) = top;
+        (y, u) = eliminate(b[i], a[i], c[i], d[i], (y, u), &mut failed);
+        (d[i], scratch[i]) = (y, u);
         let j = n - 1 - i;
         if j > m {
-            let Some(bottom) = eliminate(b[j], c[j], a[j], d[j], (z, v)) else {
-                return false;
-            };
-            (z, v) = bottom;
-            (d[j], scratch[j]) = bottom;
+            (z, v) = eliminate(b[j], c[j], a[j], d[j], (z, v), &mut failed);
+            (d[j], scratch[j]) = (z, v);
         }
     }
     // rows 0..m-1 from the top and m+1..n-1 from the bottom are eliminated (n >= 8)
     let pivot = b[m] - a[m] * scratch[m - 1] - c[m] * scratch[m + 1];
-    if vanishes(pivot) {
-        return false;
-    }
+    failed.see(pivot);
     let xm = (d[m] - a[m] * d[m - 1] - c[m] * d[m + 1]) / pivot;
     d[m] = xm;
     let (mut up, mut down) = (xm, xm);
@@ -74,44 +81,78 @@ pub fn thomas(a: &[f64], b: &[f64], c: &[f64], d: &mut [f64], scratch: &mut [f64
             d[j] = down;
         }
     }
-    d.iter().all(|x| x.is_finite())
+    failed.failed() | not_finite(d)
+}
+
+/// The members not finite in some entry of `d`, as bits.
+fn not_finite<T: Real>(d: &[T]) -> u32 {
+    let mut f = Finite::new();
+    for &x in d {
+        f.see(x);
+    }
+    f.failed()
+}
+
+/// The pivots of an elimination, watched for one that vanishes (per member): below 1e-300 in
+/// size, or not finite.
+struct Pivots<T> {
+    smallest: T,
+    finite: Finite<T>,
+}
+
+impl<T: Real> Pivots<T> {
+    #[inline(always)]
+    fn new() -> Self {
+        Pivots {
+            smallest: T::splat(f64::INFINITY),
+            finite: Finite::new(),
+        }
+    }
+    #[inline(always)]
+    fn see(&mut self, p: T) {
+        self.smallest = self.smallest.min_t(p.abs());
+        self.finite.see(p);
+    }
+    /// The members with a pivot that vanishes, as bits.
+    #[inline(always)]
+    fn failed(self) -> u32 {
+        self.smallest.which(|v| v < 1e-300) | self.finite.failed()
+    }
 }
 
 /// One row of an elimination that carries (solution part, factor) = (y, u) from its neighbour:
-/// pivot beta = `diag` - `near` u, then ((`rhs` - `near` y) / beta, `far` / beta); `None` where
-/// the pivot [`vanishes`]. From the top, near is the sub-diagonal and far the super-diagonal;
-/// from the bottom the other way round.
+/// pivot beta = `diag` - `near` u, then ((`rhs` - `near` y) / beta, `far` / beta); a member
+/// whose pivot vanishes (below 1e-300 or not finite) is marked in `failed`. From the top, near is the sub-diagonal and
+/// far the super-diagonal; from the bottom the other way round.
 #[inline(always)]
-fn eliminate(diag: f64, near: f64, far: f64, rhs: f64, (y, u): (f64, f64)) -> Option<(f64, f64)> {
+fn eliminate<T: Real>(
+    diag: T,
+    near: T,
+    far: T,
+    rhs: T,
+    (y, u): (T, T),
+    failed: &mut Pivots<T>,
+) -> (T, T) {
     let beta = diag - near * u;
-    if vanishes(beta) {
-        return None;
-    }
-    Some(((rhs - near * y) / beta, far / beta))
+    failed.see(beta);
+    ((rhs - near * y) / beta, far / beta)
 }
 
-/// A pivot too small or not finite to divide by (the solvers report a failure).
-#[inline]
-fn vanishes(p: f64) -> bool {
-    p.abs() < 1e-300 || !p.is_finite()
-}
-
-/// The Thomas algorithm eliminating from the top only ([`thomas`] for small systems).
-fn thomas_one_way(a: &[f64], b: &[f64], c: &[f64], d: &mut [f64], scratch: &mut [f64]) -> bool {
+/// The Thomas algorithm eliminating from the top only ([`thomas_of`] for small systems).
+fn thomas_one_way<T: Real>(a: &[T], b: &[T], c: &[T], d: &mut [T], scratch: &mut [T]) -> u32 {
     let n = d.len();
     if n == 0 {
-        return true;
+        return 0;
     }
     // the last row solved is carried in registers, not read back from memory: each row's
     // dependence on the one before is then only the arithmetic
-    let mut row = (0.0, 0.0);
+    let zero = T::splat(0.0);
+    let mut failed = Pivots::new();
+    let mut row = (zero, zero);
     for i in 0..n {
-        let near = if i == 0 { 0.0 } else { a[i] };
-        let Some(next) = eliminate(b[i], near, c[i], d[i], row) else {
-            return false;
-        };
-        row = next;
-        (d[i], scratch[i]) = next;
+        let near = if i == 0 { zero } else { a[i] };
+        row = eliminate(b[i], near, c[i], d[i], row, &mut failed);
+        (d[i], scratch[i]) = row;
     }
     // x_i = y_i - u_i x_(i+1)
     let mut prev = row.0;
@@ -119,7 +160,7 @@ fn thomas_one_way(a: &[f64], b: &[f64], c: &[f64], d: &mut [f64], scratch: &mut 
         prev = d[i] - scratch[i] * prev;
         d[i] = prev;
     }
-    d.iter().all(|x| x.is_finite())
+    failed.failed() | not_finite(d)
 }
 
 /// Weighted mean of `v` with weights `w` (for lanes: their widths, which makes it the mean lane).

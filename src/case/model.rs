@@ -39,10 +39,17 @@ pub enum Stack {
 
 impl Stack {
     /// Tangent radial modulus at interlayer pressure `p_pa` (Pa, compression positive), Pa.
+    #[inline]
     pub fn modulus(&self, p_pa: f64) -> f64 {
+        self.modulus_of(p_pa)
+    }
+
+    /// [`Stack::modulus`] of each run of a pack side by side ([`crate::pack::Real`]).
+    #[inline]
+    pub fn modulus_of<T: crate::pack::Real>(&self, p_pa: T) -> T {
         match *self {
-            Stack::Pfeiffer { k1_pa, k2 } => k2 * (p_pa.max(0.0) + k1_pa),
-            Stack::Constant { radial_modulus_pa } => radial_modulus_pa,
+            Stack::Pfeiffer { k1_pa, k2 } => (p_pa.max_f(0.0) + k1_pa) * k2,
+            Stack::Constant { radial_modulus_pa } => T::splat(radial_modulus_pa),
         }
     }
 

@@ -10,17 +10,17 @@
 //! memory), applied after winding. Finite volumes on cells clustered at the core and the barrel,
 //! backward Euler in time; lanes do not exchange load in storage, only moisture (through x).
 
-use super::creep::{step_coefficients_at, step_rates, step_update_at, CreepState, Rates};
+use super::cells::{run_lane, Params};
 use super::drive::{drive, LaneDrive};
 use super::hardness::HardnessMap;
-use super::record::{FullRecord, Recorder, Snapshot};
+use super::record::{FullRecord, Recorder, Track, Tracks};
 use super::sorption::gab_moisture;
 use super::timeline::{moisture, timeline, MoistureHistory, StoreInput, Timeline};
-use crate::case::{Burgers, Material, Stack};
+use crate::case::{Burgers, Material};
 use crate::interp::linear_extrap;
 use crate::lanes::Lanes;
 use crate::note::Note;
-use crate::numeric::thomas;
+use crate::pack::Real;
 use crate::units::DAY_S;
 use crate::winding::{Wound, SURFACE_ZONE_M};
 use serde::Serialize;
@@ -188,341 +188,53 @@ pub struct FinalStress {
     pub tangential_pa: Vec<f64>,
 }
 
-/// The mechanical state of one lane's radial cells and the scratch of one time step.
-struct Cells<'a> {
-    /// Cell faces and centres, m.
-    f: &'a [f64],
-    r: &'a [f64],
-    /// Per cell: width f[j+1] - f[j] (m), 1 / r (1/m) and width / r; per face between cells j
-    /// and j + 1: 1 / (r[j+1] - r[j]) (1/m).
-    width: Vec<f64>,
-    inv_r: Vec<f64>,
-    width_r: Vec<f64>,
-    inv_dr: Vec<f64>,
-    /// Core spring per unit radius, Pa/m (None: rigid core).
-    core_k: Option<f64>,
-    /// Radial and tangential stress, Pa.
-    sr: Vec<f64>,
-    st: Vec<f64>,
-    cr: Vec<CreepState>,
-    ct: Vec<CreepState>,
-    /// Radial displacement of the lane's surface since winding, m.
-    u_surface: f64,
-    /// Step coefficients: incremental moduli (eh) and strain offsets (h), radial and MD.
-    eh_r: Vec<f64>,
-    h_r: Vec<f64>,
-    eh_t: Vec<f64>,
-    h_t: Vec<f64>,
-    /// Elastic strains at the present stresses (MD sigma_t / E; radial, see [`radial_elastic`])
-    /// and the stack's tangent modulus, Pa: set after each step for the next.
-    g_t: Vec<f64>,
-    g_r: Vec<f64>,
-    etan_r: Vec<f64>,
-    /// The step's creep rates per cell ([`step_rates`]), MD and radial, shared by the
-    /// coefficients and the creep update.
-    rate_t: Vec<Rates>,
-    rate_r: Vec<Rates>,
-    /// Per face between cells j and j + 1 (index j): mean modulus, mean strain offset,
-    /// f ef / dr and f ef hf.
-    ef: Vec<f64>,
-    hf: Vec<f64>,
-    cf: Vec<f64>,
-    rf: Vec<f64>,
-    /// Tridiagonal system in the displacement increments (solution in `d`).
-    a: Vec<f64>,
-    b: Vec<f64>,
-    c: Vec<f64>,
-    d: Vec<f64>,
-    s: Vec<f64>,
-    dsr_face: Vec<f64>,
-}
-
-impl<'a> Cells<'a> {
-    fn new(run: &LaneRun<'a>) -> Self {
-        let f = &run.prep.moisture.faces;
-        let r = &run.prep.moisture.r;
-        let nr = r.len();
-        let (sr, st) = initial_stress(run.wound, run.lane, r);
-        let z = vec![0.0; nr];
-        let width: Vec<f64> = f.windows(2).map(|w| w[1] - w[0]).collect();
-        let inv_r: Vec<f64> = r.iter().map(|x| 1.0 / x).collect();
-        let mut cells = Cells {
-            f,
-            r,
-            width_r: width.iter().zip(&inv_r).map(|(w, i)| w * i).collect(),
-            width,
-            inv_r,
-            inv_dr: r.windows(2).map(|w| 1.0 / (w[1] - w[0])).collect(),
-            core_k: run.wound.core_stiffness_pa.map(|ec| ec / f[0]),
-            sr,
-            st,
-            cr: vec![CreepState::default(); nr],
-            ct: vec![CreepState::default(); nr],
-            u_surface: 0.0,
-            eh_r: z.clone(),
-            h_r: z.clone(),
-            eh_t: z.clone(),
-            h_t: z.clone(),
-            g_t: z.clone(),
-            g_r: z.clone(),
-            etan_r: z.clone(),
-            rate_t: vec![Rates::default(); nr],
-            rate_r: vec![Rates::default(); nr],
-            ef: z.clone(),
-            hf: z.clone(),
-            cf: z.clone(),
-            rf: z.clone(),
-            a: z.clone(),
-            b: z.clone(),
-            c: z.clone(),
-            d: z.clone(),
-            s: z,
-            dsr_face: vec![0.0; nr + 1],
-        };
-        cells.elastic(run.material);
-        cells
-    }
-
-    /// Elastic strains and the stack's tangent modulus at the present stresses.
-    fn elastic(&mut self, mat: &Material) {
-        let e_t = mat.md_modulus_pa;
-        for j in 0..self.r.len() {
-            self.g_t[j] = self.st[j] / e_t;
-            (self.g_r[j], self.etan_r[j]) = radial_elastic(&mat.stack, -self.sr[j]);
-        }
-    }
-
-    /// The state handed to a recorder, with moisture `mc` at the cells.
-    fn snapshot<'s>(&'s self, mc: &'s [f64], big_r0: f64) -> Snapshot<'s> {
-        let nr = self.r.len();
-        Snapshot {
-            mc,
-            radial_stress_pa: &self.sr,
-            tangential_stress_pa: &self.st,
-            md_creep: &self.ct,
-            surface_pressure_pa: zone_pressure(&self.sr, self.r, self.f[nr]),
-            diameter_m: 2.0 * (big_r0 + self.u_surface),
-        }
-    }
-
-    /// Incremental moduli and strain offsets of step `k` (elastic strains from [`Self::elastic`]).
-    fn coefficients(&mut self, run: &LaneRun, k: usize) {
-        let mat = run.material;
-        let (e_t, ms) = (mat.md_modulus_pa, mat.creep.mechanosorptive_per_pct);
-        let (md, radial) = (&run.creep.md, &run.creep.radial);
-        let nr = self.r.len();
-        let span = k * nr..(k + 1) * nr;
-        let drv = run.drive;
-        let (dxi, dmc) = (&drv.dxi[span.clone()], &drv.dmc[span.clone()]);
-        if drv.fits(run.creep, ms) {
-            // the rates of [`step_rates`], from the parts the drive holds
-            let (kel_t, kel_r) = (&drv.kelvin[0][span.clone()], &drv.kelvin[1][span.clone()]);
-            let msd = &drv.msd[span.clone()];
-            let (fluid_t, fluid_r) = (1.0 / md.viscous_time_s, 1.0 / radial.viscous_time_s);
-            for j in 0..nr {
-                self.rate_t[j] = Rates {
-                    viscous: dxi[j] * fluid_t + msd[j],
-                    ..kel_t[j]
-                };
-                self.rate_r[j] = Rates {
-                    viscous: dxi[j] * fluid_r + msd[j],
-                    ..kel_r[j]
-                };
-            }
-        } else {
-            for j in 0..nr {
-                self.rate_t[j] = step_rates(md, ms, dxi[j], dmc[j]);
-                self.rate_r[j] = step_rates(radial, ms, dxi[j], dmc[j]);
-            }
-        }
-        for (j, &dm) in dmc.iter().enumerate() {
-            // MD: g = sigma_t / E
-            let (e1, h1) = step_coefficients_at(md, e_t, self.g_t[j], &self.ct[j], self.rate_t[j]);
-            self.eh_t[j] = e1;
-            self.h_t[j] = h1 + mat.hygro_md_per_pct * dm;
-            // radial: g = -stack strain at the pressure; tangent modulus of the stack
-            let (e2, h2) = step_coefficients_at(
-                radial,
-                self.etan_r[j],
-                self.g_r[j],
-                &self.cr[j],
-                self.rate_r[j],
-            );
-            self.eh_r[j] = e2;
-            self.h_r[j] = h2 + mat.hygro_zd_per_pct * dm;
-        }
-        let f = self.f;
-        for j in 0..nr.saturating_sub(1) {
-            let ef = 0.5 * (self.eh_r[j] + self.eh_r[j + 1]);
-            let hf = 0.5 * (self.h_r[j] + self.h_r[j + 1]);
-            self.ef[j] = ef;
-            self.hf[j] = hf;
-            self.cf[j] = f[j + 1] * ef * self.inv_dr[j];
-            self.rf[j] = f[j + 1] * ef * hf;
-        }
-    }
-
-    /// Stiffness of the inner half cell (s = E / half cell) and the core's series factor.
-    fn core_face(&self) -> (f64, f64) {
-        let sh = self.eh_r[0] / (self.r[0] - self.f[0]);
-        let fac = match self.core_k {
-            Some(kc) => 1.0 / (1.0 + sh / kc),
-            None => 1.0,
-        };
-        (sh, fac)
-    }
-
-    /// Assemble cell j: f[j+1] dS(j+1/2) - f[j] dS(j-1/2) - w_j dSt_j = 0 (face terms from
-    /// [`Self::coefficients`]).
-    fn assemble(&mut self) {
-        let nr = self.r.len();
-        if nr == 0 {
-            return;
-        }
-        let core = self.core_face();
-        self.assemble_row(0, core);
-        // interior rows: both faces, no branches (the same operations as `assemble_row`)
-        let (cf, rf, eh_t, h_t) = (&self.cf, &self.rf, &self.eh_t, &self.h_t);
-        for j in 1..nr - 1 {
-            let (right, left) = (cf[j], cf[j - 1]);
-            self.a[j] = 0.0 + left;
-            self.b[j] = ((0.0 - right) - left) - self.width_r[j] * eh_t[j];
-            self.c[j] = 0.0 + right;
-            self.d[j] = ((0.0 + rf[j]) - rf[j - 1]) - self.width[j] * eh_t[j] * h_t[j];
-        }
-        if nr > 1 {
-            self.assemble_row(nr - 1, core);
-        }
-    }
-
-    /// Assemble row j of [`Self::assemble`] with the core face's (stiffness, series factor).
-    fn assemble_row(&mut self, j: usize, (sh, fac): (f64, f64)) {
-        let f = self.f;
-        let nr = self.r.len();
-        let (mut aj, mut bj, mut cj, mut rhs) = (0.0, 0.0, 0.0, 0.0);
-        if j + 1 < nr {
-            cj += self.cf[j];
-            bj -= self.cf[j];
-            rhs += self.rf[j];
-        }
-        if j > 0 {
-            aj += self.cf[j - 1];
-            bj -= self.cf[j - 1];
-            rhs -= self.rf[j - 1];
-        } else {
-            // core face: d sigma = (s du0 - E h)/(1 + s/k), s = E / (half cell)
-            bj -= f[0] * sh * fac;
-            rhs -= f[0] * self.eh_r[0] * self.h_r[0] * fac;
-        }
-        bj -= self.width_r[j] * self.eh_t[j];
-        rhs -= self.width[j] * self.eh_t[j] * self.h_t[j];
-        self.a[j] = aj;
-        self.b[j] = bj;
-        self.c[j] = cj;
-        self.d[j] = rhs;
-    }
-
-    /// Solve for the displacement increments (into `d`); false when a pivot vanishes.
-    fn solve(&mut self) -> bool {
-        thomas(&self.a, &self.b, &self.c, &mut self.d, &mut self.s)
-    }
-
-    /// Apply the stress increments of the solved step; false when a stress is not finite.
-    fn apply(&mut self) -> bool {
-        let (f, r) = (self.f, self.r);
-        let nr = r.len();
-        let du = &self.d;
-        for j in 0..nr.saturating_sub(1) {
-            let strain = (du[j + 1] - du[j]) * self.inv_dr[j];
-            self.dsr_face[j + 1] = self.ef[j] * (strain - self.hf[j]);
-        }
-        let (sh, fac) = self.core_face();
-        self.dsr_face[0] = (sh * du[0] - self.eh_r[0] * self.h_r[0]) * fac;
-        // every cell first, then the check (no early exit, so the loop runs on vectors)
-        let mut finite = true;
-        for (j, &du_j) in du.iter().enumerate() {
-            let dst = self.eh_t[j] * (du_j * self.inv_r[j] - self.h_t[j]);
-            let dsr = 0.5 * (self.dsr_face[j] + self.dsr_face[j + 1]);
-            self.st[j] += dst;
-            self.sr[j] = (self.sr[j] + dsr).min(0.0);
-            finite &= self.st[j].is_finite() & self.sr[j].is_finite();
-        }
-        if !finite {
-            return false;
-        }
-        // surface displacement: outer cell plus its outer half cell's radial strain change
-        let j = nr - 1;
-        let dsr_out = 0.5 * self.dsr_face[j];
-        let half = f[nr] - r[j];
-        self.u_surface += du[j] + half * (dsr_out / self.eh_r[j] + self.h_r[j]);
-        true
-    }
-
-    /// Advance both creep states over the step at the new stresses (the rates of
-    /// [`Self::coefficients`]), and set the elastic strains for the next step.
-    fn update_creep(&mut self, run: &LaneRun) {
-        let mat = run.material;
-        let compliance = 1.0 / mat.md_modulus_pa;
-        for j in 0..self.r.len() {
-            let g = self.st[j] * compliance;
-            self.g_t[j] = g;
-            step_update_at(&run.creep.md, g, &mut self.ct[j], self.rate_t[j]);
-            let (g, e) = radial_elastic(&mat.stack, -self.sr[j]);
-            (self.g_r[j], self.etan_r[j]) = (g, e);
-            step_update_at(&run.creep.radial, g, &mut self.cr[j], self.rate_r[j]);
-        }
-    }
-}
-
 /// Run one lane through storage for `run.steps` time steps, handing the state at the start and
 /// after every step to `rec`; returns the final stresses.
 pub fn age_lane_with(run: &LaneRun, rec: &mut impl Recorder) -> Result<FinalStress, AgeError> {
-    let prep = run.prep;
-    let big_r0 = run.wound.lanes[run.lane].summary.outer_radius_m;
-    let mut cells = Cells::new(run);
-    rec.record(&cells.snapshot(&prep.moisture.mc[0][run.lane], big_r0));
-    for k in 0..run.steps.min(prep.timeline.steps.len()) {
-        cells.coefficients(run, k);
-        cells.assemble();
-        if !cells.solve() || !cells.apply() {
-            return Err(AgeError {
-                lane: run.lane,
-                step: k,
-                time_s: prep.timeline.times[k + 1],
-            });
-        }
-        cells.update_creep(run);
-        rec.record(&cells.snapshot(&prep.moisture.mc[k + 1][run.lane], big_r0));
+    let end = run_lane(run, &Params::one(run.creep), 1, rec);
+    if end.failed != 0 {
+        return Err(AgeError {
+            lane: run.lane,
+            step: end.failed_step,
+            time_s: run.prep.timeline.times[end.failed_step + 1],
+        });
     }
     Ok(FinalStress {
-        radial_pa: cells.sr,
-        tangential_pa: cells.st,
+        radial_pa: end.radial_pa,
+        tangential_pa: end.tangential_pa,
     })
 }
 
-/// Creep-driving radial strain (negative in compression) and tangent modulus at pressure `p`
-/// (Pa). The stack's total strain at low pressure is mostly closure of the gaps between layers,
-/// which does not creep; creep is scaled on the tangent compliance, g = -P / E_r(P), which for a
-/// constant radial modulus is the elastic strain and for Pfeiffer's law tends to 1/K2.
-fn radial_elastic(stack: &Stack, p: f64) -> (f64, f64) {
-    let p = p.max(0.0);
-    let e = stack.modulus(p);
-    (-p / e, e)
+/// [`age_lane_with`] for a pack of `B` creep parameter sets on the same lane (the creep of `run`
+/// is not read), side by side: each set's track, or `None` where its run failed (as
+/// [`age_lane_with`] fails). `None` as a whole when the sets do not share their retardation
+/// times (run them one by one).
+pub fn track_lane_pack<const B: usize>(
+    run: &LaneRun,
+    creep: &[LaneCreep; B],
+) -> Option<[Option<Track>; B]> {
+    let params = Params::pack(creep)?;
+    let mut rec = Tracks::<B>::default();
+    let all = if B >= 32 { u32::MAX } else { (1u32 << B) - 1 };
+    let end = run_lane(run, &params, all, &mut rec);
+    Some(std::array::from_fn(|m| {
+        (end.failed & (1 << m) == 0).then(|| rec.member(m))
+    }))
 }
 
 /// Mean interlayer pressure (Pa) in the outer [`SURFACE_ZONE_M`] of a lane, on the storage grid.
-pub fn zone_pressure(sr: &[f64], r: &[f64], outer: f64) -> f64 {
+pub fn zone_pressure<T: Real>(sr: &[T], r: &[f64], outer: f64) -> T {
     let (sum, n) = r
         .iter()
         .zip(sr)
         .filter(|(x, _)| **x >= outer - SURFACE_ZONE_M)
-        .fold((0.0, 0usize), |(a, k), (_, s)| (a - s, k + 1));
+        .fold((T::splat(0.0), 0usize), |(a, k), (_, &s)| (a - s, k + 1));
     let p = if n == 0 {
         -sr[sr.len() - 1]
     } else {
         sum / n as f64
     };
-    p.max(0.0)
+    p.max_f(0.0)
 }
 
 /// A lane's initial radial and tangential stress on the storage grid `r` (m).

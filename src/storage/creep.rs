@@ -11,6 +11,7 @@
 //! eta_K/E_K, viscous time tau_v = eta_M/E.
 
 use crate::case::Burgers;
+use crate::pack::Real;
 
 /// Creep compliance J(t) (1/Pa) at reduced time `t` (s) for elastic modulus `e` (Pa):
 /// J(t) = (1/E) [1 + delayed (1 - exp(-t/tau_K)) + t/tau_v].
@@ -65,13 +66,14 @@ pub fn relaxation_modulus(b: &Burgers, e: f64, t: f64) -> f64 {
     ((q1 - q2 * r1) * (-r1 * t).exp() - (q1 - q2 * r2) * (-r2 * t).exp()) / a
 }
 
-/// Internal state of one Burgers element (strains, dimensionless).
+/// Internal state of one Burgers element (strains, dimensionless), of one run or of a pack of
+/// runs side by side ([`Real`]).
 #[derive(Debug, Clone, Copy, Default, PartialEq)]
-pub struct CreepState {
+pub struct CreepState<T = f64> {
     /// Kelvin (delayed, recoverable) strain.
-    pub delayed: f64,
+    pub delayed: T,
     /// Viscous (permanent) strain, including mechano-sorptive creep.
-    pub permanent: f64,
+    pub permanent: T,
 }
 
 /// One backward-Euler step of the Burgers law, linearised about the current stress.
@@ -91,25 +93,32 @@ pub fn step_coefficients(
     dxi: f64,
     dmc: f64,
 ) -> (f64, f64) {
-    step_coefficients_at(b, e_tan, g_n, st, step_rates(b, mech_sorptive, dxi, dmc))
+    step_coefficients_at(
+        b.delayed,
+        e_tan,
+        g_n,
+        st,
+        step_rates(b, mech_sorptive, dxi, dmc),
+    )
 }
 
 /// The rates of a step of [`step_coefficients`] and [`step_update`], the same for the
-/// coefficients and the update (all dimensionless).
+/// coefficients and the update (all dimensionless). The Kelvin parts depend on the retardation
+/// time only, which runs side by side share; the viscous part is per run.
 #[derive(Debug, Clone, Copy, Default, PartialEq)]
-pub struct Rates {
+pub struct Rates<T = f64> {
     /// a / (1 + a), with a = dxi / tau_K: the Kelvin element's share of the step.
     pub kelvin: f64,
     /// 1 / (1 + a).
     pub keep: f64,
     /// b = dxi / tau_v + m_s |dmc|: the viscous and mechano-sorptive part.
-    pub viscous: f64,
+    pub viscous: T,
 }
 
-impl Rates {
+impl<T> Rates<T> {
     /// The rates from a = dxi / tau_K and b.
     #[inline]
-    pub fn new(a: f64, viscous: f64) -> Rates {
+    pub fn new(a: f64, viscous: T) -> Rates<T> {
         let keep = 1.0 / (1.0 + a);
         Rates {
             kelvin: a * keep,
@@ -123,22 +132,38 @@ impl Rates {
 /// points): a = dxi/tau_K and b = dxi/tau_v + m_s |dmc|.
 #[inline]
 pub fn step_rates(b: &Burgers, mech_sorptive: f64, dxi: f64, dmc: f64) -> Rates {
-    let a = dxi / b.retardation_s;
-    Rates::new(a, dxi / b.viscous_time_s + mech_sorptive * dmc.abs())
+    step_rates_of(b.retardation_s, b.viscous_time_s, mech_sorptive, dxi, dmc)
 }
 
-/// [`step_coefficients`] with the step's rates from [`step_rates`].
+/// [`step_rates`] from the retardation time (s) and the viscous time (s) of each run.
 #[inline]
-pub fn step_coefficients_at(
-    b: &Burgers,
-    e_tan: f64,
-    g_n: f64,
-    st: &CreepState,
-    rates: Rates,
-) -> (f64, f64) {
-    let k = rates.kelvin * b.delayed;
-    let e_hat = e_tan / (1.0 + rates.viscous + k);
-    let h = g_n * (rates.viscous + k) - rates.kelvin * st.delayed;
+pub fn step_rates_of<T: Real>(
+    retardation_s: f64,
+    viscous_time_s: T,
+    mech_sorptive: f64,
+    dxi: f64,
+    dmc: f64,
+) -> Rates<T> {
+    let a = dxi / retardation_s;
+    Rates::new(
+        a,
+        T::splat(dxi) / viscous_time_s + mech_sorptive * dmc.abs(),
+    )
+}
+
+/// [`step_coefficients`] with the element's `delayed` (E / E_K) and the step's rates from
+/// [`step_rates`].
+#[inline]
+pub fn step_coefficients_at<T: Real>(
+    delayed: T,
+    e_tan: T,
+    g_n: T,
+    st: &CreepState<T>,
+    rates: Rates<T>,
+) -> (T, T) {
+    let k = delayed * rates.kelvin;
+    let e_hat = e_tan / (rates.viscous + 1.0 + k);
+    let h = g_n * (rates.viscous + k) - st.delayed * rates.kelvin;
     (e_hat, h)
 }
 
@@ -151,13 +176,18 @@ pub fn step_update(
     dxi: f64,
     dmc: f64,
 ) {
-    step_update_at(b, g_next, st, step_rates(b, mech_sorptive, dxi, dmc));
+    step_update_at(
+        b.delayed,
+        g_next,
+        st,
+        step_rates(b, mech_sorptive, dxi, dmc),
+    );
 }
 
-/// [`step_update`] with the step's rates from [`step_rates`]: the delayed strain moves to
-/// (eps_K + a delayed g) / (1 + a).
+/// [`step_update`] with the element's `delayed` and the step's rates from [`step_rates`]: the
+/// delayed strain moves to (eps_K + a delayed g) / (1 + a).
 #[inline]
-pub fn step_update_at(b: &Burgers, g_next: f64, st: &mut CreepState, rates: Rates) {
-    st.delayed = st.delayed * rates.keep + rates.kelvin * b.delayed * g_next;
+pub fn step_update_at<T: Real>(delayed: T, g_next: T, st: &mut CreepState<T>, rates: Rates<T>) {
+    st.delayed = st.delayed * rates.keep + delayed * rates.kelvin * g_next;
     st.permanent += rates.viscous * g_next;
 }

@@ -2,7 +2,7 @@
 //! and moisture changes of its cells), computed once per lane and re-used by every run of its
 //! mechanics (a fit runs a lane hundreds of times).
 
-use super::ageing::{LaneCreep, Prepared};
+use super::ageing::Prepared;
 use super::creep::Rates;
 use super::shift::{arrhenius_shift, moisture_shift};
 use crate::case::Material;
@@ -25,11 +25,11 @@ pub struct LaneDrive {
 }
 
 impl LaneDrive {
-    /// Whether the precomputed rate parts hold for `creep` and coefficient `ms` (same to the
-    /// bit as the grade's).
-    pub(super) fn fits(&self, creep: &LaneCreep, ms: f64) -> bool {
-        self.ret[0].to_bits() == creep.md.retardation_s.to_bits()
-            && self.ret[1].to_bits() == creep.radial.retardation_s.to_bits()
+    /// Whether the precomputed rate parts hold for retardation times `ret` (s; MD, radial) and
+    /// coefficient `ms` (same to the bit as the grade's).
+    pub(super) fn fits(&self, ret: [f64; 2], ms: f64) -> bool {
+        self.ret[0].to_bits() == ret[0].to_bits()
+            && self.ret[1].to_bits() == ret[1].to_bits()
             && self.ms.to_bits() == ms.to_bits()
     }
 }

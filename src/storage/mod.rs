@@ -4,6 +4,7 @@
 //! state; no I/O, no printing, nothing of rules. Storage never reads measurements.
 
 mod ageing;
+mod cells;
 pub mod condensation;
 mod creep;
 mod drive;
@@ -16,8 +17,8 @@ mod sorption;
 mod timeline;
 
 pub use ageing::{
-    age, age_lane_with, age_prepared, prepare, AgeError, AgeOptions, Aged, FinalStress, LaneAged,
-    LaneCreep, LaneRun, Prepared,
+    age, age_lane_with, age_prepared, prepare, track_lane_pack, AgeError, AgeOptions, Aged,
+    FinalStress, LaneAged, LaneCreep, LaneRun, Prepared,
 };
 pub use ageing::{initial_stress as initial_stress_of, zone_pressure};
 pub use creep::{creep_compliance, relaxation_modulus, step_coefficients, step_update, CreepState};

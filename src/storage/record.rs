@@ -5,28 +5,30 @@ use super::ageing::{FinalStress, LaneAged, Prepared};
 use super::creep::CreepState;
 use super::hardness::HardnessMap;
 use crate::case::Material;
+use crate::pack::Pack;
 use crate::winding::Wound;
 
-/// A lane's state at a step end, handed to a [`Recorder`].
+/// A lane's state at a step end, handed to a [`Recorder`]: of one run, or of a pack of runs
+/// side by side (`T`, see [`crate::pack`]).
 #[derive(Debug, Clone, Copy)]
-pub struct Snapshot<'a> {
+pub struct Snapshot<'a, T = f64> {
     /// Moisture at the radial cells, %.
     pub mc: &'a [f64],
     /// Radial and tangential stress at the radial cells, Pa.
-    pub radial_stress_pa: &'a [f64],
-    pub tangential_stress_pa: &'a [f64],
+    pub radial_stress_pa: &'a [T],
+    pub tangential_stress_pa: &'a [T],
     /// MD creep state at the radial cells.
-    pub md_creep: &'a [CreepState],
+    pub md_creep: &'a [CreepState<T>],
     /// Mean interlayer pressure in the surface zone, Pa.
-    pub surface_pressure_pa: f64,
+    pub surface_pressure_pa: T,
     /// Lane diameter, m.
-    pub diameter_m: f64,
+    pub diameter_m: T,
 }
 
 /// What a lane run keeps of each step end.
-pub trait Recorder {
+pub trait Recorder<T = f64> {
     /// Keep what is wanted of the state at a step end (called for the start and every step).
-    fn record(&mut self, s: &Snapshot);
+    fn record(&mut self, s: &Snapshot<T>);
 }
 
 /// Keeps only what a fit compares with measurements: surface pressure and diameter.
@@ -42,6 +44,30 @@ impl Recorder for Track {
     fn record(&mut self, s: &Snapshot) {
         self.surface_pressure_pa.push(s.surface_pressure_pa);
         self.diameter_m.push(s.diameter_m);
+    }
+}
+
+/// [`Track`]s of a pack of runs side by side, step by step.
+#[derive(Debug, Clone, Default)]
+pub struct Tracks<const B: usize> {
+    surface_pressure_pa: Vec<Pack<B>>,
+    diameter_m: Vec<Pack<B>>,
+}
+
+impl<const B: usize> Recorder<Pack<B>> for Tracks<B> {
+    fn record(&mut self, s: &Snapshot<Pack<B>>) {
+        self.surface_pressure_pa.push(s.surface_pressure_pa);
+        self.diameter_m.push(s.diameter_m);
+    }
+}
+
+impl<const B: usize> Tracks<B> {
+    /// Member `m`'s track.
+    pub fn member(&self, m: usize) -> Track {
+        Track {
+            surface_pressure_pa: self.surface_pressure_pa.iter().map(|p| p.0[m]).collect(),
+            diameter_m: self.diameter_m.iter().map(|p| p.0[m]).collect(),
+        }
     }
 }
 

@@ -1,0 +1,77 @@
+//! The storage kernel run on a pack of creep parameter sets side by side (what a fit's sampler
+//! does) against each set run on its own: an invariant of the implementation, to the bit.
+
+use rollsleuth::case::{self, Case};
+use rollsleuth::storage::{
+    age_lane_with, drive, prepare, track_lane_pack, AgeOptions, LaneCreep, LaneDrive, LaneRun,
+    Prepared, Track,
+};
+use rollsleuth::winding::{wind, Options, WindInput, Wound};
+
+/// Each member of a pack has the bits of its own run, and a member that cannot run fails
+/// alone (the others are not touched by it).
+#[test]
+fn a_pack_of_runs_gives_each_run_its_own_bits() {
+    let case = case::load_demo(&[]).expect("demo loads");
+    let lanes = rollsleuth::lanes::build(&case);
+    let wound = wind(
+        &WindInput::new(&case.material, &case.roll, &case.winding),
+        &lanes,
+        Options {
+            nodes: 41,
+            ..Default::default()
+        },
+    )
+    .expect("winds");
+    let prep = prepare(
+        &rollsleuth::fit::store_input(&case, &[]),
+        &lanes,
+        &AgeOptions::default(),
+    );
+    let lane = lanes.lanes.len() / 2;
+    let drv = drive(&case.material, &prep, lane);
+    let grade = LaneCreep::grade(&case.material);
+    let scaled = |s: [f64; 2]| rollsleuth::fit::creep_from(&case.material, &s.map(f64::ln));
+    let mut creep = [[1.0, 1.0], [0.2, 3.0], [5.0, 0.5], [1.0, 1.0]].map(scaled);
+    // a run that cannot be computed: its delayed part is not a number
+    creep[3].radial.delayed = f64::NAN;
+    fn run<'a>(
+        case: &'a Case,
+        wound: &'a Wound,
+        prep: &'a Prepared,
+        drv: &'a LaneDrive,
+        lane: usize,
+        creep: &'a LaneCreep,
+    ) -> LaneRun<'a> {
+        LaneRun {
+            material: &case.material,
+            wound,
+            prep,
+            lane,
+            creep,
+            drive: drv,
+            steps: prep.timeline.steps.len(),
+        }
+    }
+    let packed = track_lane_pack(&run(&case, &wound, &prep, &drv, lane, &grade), &creep)
+        .expect("shared retardation times");
+    for (c, got) in creep.iter().zip(&packed) {
+        let mut own = Track::default();
+        let alone = age_lane_with(&run(&case, &wound, &prep, &drv, lane, c), &mut own)
+            .ok()
+            .map(|_| own);
+        assert_eq!(got.is_some(), alone.is_some());
+        if let (Some(g), Some(a)) = (got, alone) {
+            let bits = |v: &[f64]| v.iter().map(|x| x.to_bits()).collect::<Vec<u64>>();
+            assert_eq!(bits(&g.diameter_m), bits(&a.diameter_m));
+            assert_eq!(bits(&g.surface_pressure_pa), bits(&a.surface_pressure_pa));
+            assert!(g.diameter_m.len() > 10);
+        }
+    }
+    assert!(packed[..3].iter().all(Option::is_some) && packed[3].is_none());
+    // different retardation times cannot share a pack
+    let mut other = creep;
+    other[1].md.retardation_s *= 2.0;
+    let base = run(&case, &wound, &prep, &drv, lane, &grade);
+    assert!(track_lane_pack(&base, &other).is_none());
+}
