@@ -23,7 +23,8 @@ use super::observe::{Obs, ObsKind};
 use super::SolverError;
 use crate::case::{Burgers, Material, Measure};
 use crate::storage::{
-    age_lane_with, drive, HardnessMap, LaneCreep, LaneDrive, LaneRun, Prepared, Track,
+    age_lane_with, drive, track_lane_pack, HardnessMap, LaneCreep, LaneDrive, LaneRun, Prepared,
+    Track,
 };
 use crate::winding::Wound;
 use argmin::core::{CostFunction, Error as ArgminError, Executor, State, TerminationReason};
@@ -36,6 +37,8 @@ pub const PRIOR_SD_LN: f64 = 1.098_612_288_668_11;
 pub const POOLED_PRIOR_SD_LN: f64 = std::f64::consts::LN_10;
 /// Bounds of the scales.
 pub const SCALE_BOUNDS: (f64, f64) = (0.01, 100.0);
+/// Simulations of a lane run side by side ([`LaneProblem::simulate_many`]).
+pub const PACK: usize = 4;
 /// Iteration limit of each Nelder-Mead run.
 pub const MAX_ITERS: u64 = 200;
 
@@ -96,18 +99,38 @@ impl<'a> LaneProblem<'a> {
     /// Simulate the lane up to its last observation.
     pub fn simulate(&self, theta: &[f64]) -> Option<Track> {
         let creep = creep_from(self.material, theta);
-        let run = LaneRun {
+        let mut track = Track::default();
+        age_lane_with(&self.run(&creep), &mut track).ok()?;
+        Some(track)
+    }
+
+    /// The lane's storage run with `creep`.
+    fn run<'r>(&'r self, creep: &'r LaneCreep) -> LaneRun<'r> {
+        LaneRun {
             material: self.material,
             wound: self.wound,
             prep: self.prep,
             lane: self.lane,
-            creep: &creep,
+            creep,
             drive: &self.drive,
             steps: self.steps,
-        };
-        let mut track = Track::default();
-        age_lane_with(&run, &mut track).ok()?;
-        Some(track)
+        }
+    }
+
+    /// [`Self::simulate`] at each of `thetas`, [`PACK`] at a time side by side (a short last
+    /// pack is filled up with its last entry); the same tracks, to the bit.
+    pub fn simulate_many(&self, thetas: &[[f64; 2]]) -> Vec<Option<Track>> {
+        let mut out = Vec::with_capacity(thetas.len());
+        for chunk in thetas.chunks(PACK) {
+            let creep: [LaneCreep; PACK] =
+                std::array::from_fn(|m| creep_from(self.material, &chunk[m.min(chunk.len() - 1)]));
+            let grade = LaneCreep::grade(self.material);
+            match track_lane_pack(&self.run(&grade), &creep) {
+                Some(tracks) => out.extend(tracks.into_iter().take(chunk.len())),
+                None => out.extend(chunk.iter().map(|t| self.simulate(t))),
+            }
+        }
+        out
     }
 
     /// Predicted value of an observation from a simulated lane.
@@ -121,7 +144,12 @@ impl<'a> LaneProblem<'a> {
 
     /// Half the sum of squared normalised residuals (data part of the objective).
     pub fn chi2_half(&self, theta: &[f64]) -> f64 {
-        match self.simulate(theta) {
+        self.chi2_half_of(self.simulate(theta))
+    }
+
+    /// [`Self::chi2_half`] of a simulated lane (`None`: the model could not run).
+    fn chi2_half_of(&self, track: Option<Track>) -> f64 {
+        match track {
             Some(a) => {
                 0.5 * self
                     .obs
@@ -152,8 +180,11 @@ fn bound_penalty(theta: &[f64]) -> f64 {
 }
 
 fn clamp_theta(theta: &[f64]) -> Vec<f64> {
-    let (lo, hi) = (SCALE_BOUNDS.0.ln(), SCALE_BOUNDS.1.ln());
-    theta.iter().map(|t| t.clamp(lo, hi)).collect()
+    theta.iter().map(|&t| clamp_one(t)).collect()
+}
+
+fn clamp_one(t: f64) -> f64 {
+    t.clamp(SCALE_BOUNDS.0.ln(), SCALE_BOUNDS.1.ln())
 }
 
 /// Objective: data misfit of one or more lanes plus a Gaussian prior on the log-scales.
@@ -168,6 +199,34 @@ impl Objective<'_, '_> {
     pub fn value(&self, theta: &[f64]) -> f64 {
         let t = clamp_theta(theta);
         let data: f64 = self.lanes.iter().map(|l| l.chi2_half(&t)).sum();
+        self.with_prior(theta, &t, data)
+    }
+
+    /// [`Self::value`] at each of `thetas`, the simulations run side by side
+    /// ([`LaneProblem::simulate_many`]); the same values, to the bit.
+    pub fn values(&self, thetas: &[[f64; 2]]) -> Vec<f64> {
+        let t: Vec<[f64; 2]> = thetas
+            .iter()
+            .map(|x| [0, 1].map(|i| clamp_one(x[i])))
+            .collect();
+        let chi: Vec<Vec<f64>> = self
+            .lanes
+            .iter()
+            .map(|l| {
+                let tracks = l.simulate_many(&t);
+                tracks.into_iter().map(|a| l.chi2_half_of(a)).collect()
+            })
+            .collect();
+        (0..thetas.len())
+            .map(|m| {
+                let data: f64 = chi.iter().map(|c| c[m]).sum();
+                self.with_prior(&thetas[m], &t[m], data)
+            })
+            .collect()
+    }
+
+    /// The objective from the data part at `theta` (clamped: `t`).
+    fn with_prior(&self, theta: &[f64], t: &[f64], data: f64) -> f64 {
         let prior: f64 = t
             .iter()
             .zip(self.prior)
@@ -440,9 +499,10 @@ fn pinned_draws(
 /// Each residual's 5 % and 95 % prediction over the posterior draws (a draw the model cannot run
 /// is left out).
 fn prediction_bands(p: &LaneProblem, draws: &[[f64; 2]], residuals: &mut [Residual]) {
-    let preds: Vec<Vec<f64>> = draws
-        .iter()
-        .filter_map(|t| p.simulate(t))
+    let preds: Vec<Vec<f64>> = p
+        .simulate_many(draws)
+        .into_iter()
+        .flatten()
         .map(|a| p.obs.iter().map(|o| p.predict(o, &a)).collect())
         .collect();
     for (j, r) in residuals.iter_mut().enumerate() {
