@@ -122,8 +122,8 @@ impl<T: Real> Pivots<T> {
 
 /// One row of an elimination that carries (solution part, factor) = (y, u) from its neighbour:
 /// pivot beta = `diag` - `near` u, then ((`rhs` - `near` y) / beta, `far` / beta); a member
-/// whose pivot vanishes (below 1e-300 or not finite) is marked in `failed`. From the top, near is the sub-diagonal and
-/// far the super-diagonal; from the bottom the other way round.
+/// whose pivot vanishes (below 1e-300 or not finite) is marked in `failed`. From the top, near
+/// is the sub-diagonal and far the super-diagonal; from the bottom the other way round.
 #[inline(always)]
 fn eliminate<T: Real>(
     diag: T,

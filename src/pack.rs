@@ -49,6 +49,8 @@ pub trait Real:
     + Mul<f64, Output = Self>
     + Div<f64, Output = Self>
 {
+    /// The members, as bits (member m is bit m): 1 for `f64`.
+    const ALL: u32;
     /// Every member `x`.
     fn splat(x: f64) -> Self;
     /// [`f64::min`] of each member with `x`.
@@ -64,6 +66,7 @@ pub trait Real:
 }
 
 impl Real for f64 {
+    const ALL: u32 = 1;
     #[inline(always)]
     fn splat(x: f64) -> Self {
         x
@@ -90,7 +93,7 @@ impl Real for f64 {
     }
 }
 
-/// `B` independent values side by side (B at most 32).
+/// `B` independent values side by side (1 to 32 of them: [`Real::ALL`] holds them as bits).
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct Pack<const B: usize>(pub [f64; B]);
 
@@ -154,6 +157,14 @@ impl<const B: usize> AddAssign for Pack<B> {
 }
 
 impl<const B: usize> Real for Pack<B> {
+    const ALL: u32 = {
+        assert!(B >= 1 && B <= 32, "a pack has 1 to 32 members");
+        if B == 32 {
+            u32::MAX
+        } else {
+            (1 << B) - 1
+        }
+    };
     #[inline(always)]
     fn splat(x: f64) -> Self {
         Pack([x; B])

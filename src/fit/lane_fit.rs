@@ -124,8 +124,8 @@ impl<'a> LaneProblem<'a> {
         for chunk in thetas.chunks(PACK) {
             let creep: [LaneCreep; PACK] =
                 std::array::from_fn(|m| creep_from(self.material, &chunk[m.min(chunk.len() - 1)]));
-            let grade = LaneCreep::grade(self.material);
-            match track_lane_pack(&self.run(&grade), &creep) {
+            // the run's own creep is not read: each member's is
+            match track_lane_pack(&self.run(&creep[0]), &creep) {
                 Some(tracks) => out.extend(tracks.into_iter().take(chunk.len())),
                 None => out.extend(chunk.iter().map(|t| self.simulate(t))),
             }

@@ -191,7 +191,7 @@ pub struct FinalStress {
 /// Run one lane through storage for `run.steps` time steps, handing the state at the start and
 /// after every step to `rec`; returns the final stresses.
 pub fn age_lane_with(run: &LaneRun, rec: &mut impl Recorder) -> Result<FinalStress, AgeError> {
-    let end = run_lane(run, &Params::one(run.creep), 1, rec);
+    let end = run_lane(run, &Params::one(run.creep), rec);
     if end.failed != 0 {
         return Err(AgeError {
             lane: run.lane,
@@ -215,8 +215,7 @@ pub fn track_lane_pack<const B: usize>(
 ) -> Option<[Option<Track>; B]> {
     let params = Params::pack(creep)?;
     let mut rec = Tracks::<B>::default();
-    let all = if B >= 32 { u32::MAX } else { (1u32 << B) - 1 };
-    let end = run_lane(run, &params, all, &mut rec);
+    let end = run_lane(run, &params, &mut rec);
     Some(std::array::from_fn(|m| {
         (end.failed & (1 << m) == 0).then(|| rec.member(m))
     }))

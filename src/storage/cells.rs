@@ -69,7 +69,6 @@ pub struct Ended<T> {
 pub fn run_lane<T: Real>(
     run: &LaneRun,
     params: &Params<T>,
-    all: u32,
     rec: &mut impl Recorder<T>,
 ) -> Ended<T> {
     let prep = run.prep;
@@ -81,11 +80,11 @@ pub fn run_lane<T: Real>(
         cells.coefficients(run, params, k);
         cells.assemble();
         let now = cells.solve() | cells.apply();
-        if now & !failed != 0 && failed == 0 {
+        if failed == 0 && now != 0 {
             failed_step = k;
         }
         failed |= now;
-        if failed == all {
+        if failed == T::ALL {
             break;
         }
         cells.update_creep(run.material, params);
