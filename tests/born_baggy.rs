@@ -16,7 +16,6 @@ use rollsleuth::diagnose::{base_scenario, Diagnosis};
 use rollsleuth::lanes;
 use rollsleuth::storage::LaneCreep;
 use rollsleuth::vocab::{Action, Cause, Defect};
-use rollsleuth::winding::{wind, Options, WindInput};
 
 const POSITIONS_MM: [f64; 16] = [
     50.0, 150.0, 250.0, 350.0, 450.0, 550.0, 650.0, 750.0, 850.0, 950.0, 1050.0, 1150.0, 1250.0,
@@ -62,15 +61,7 @@ use common::defects;
 fn lanes_wind_with_the_measured_tension_profile() {
     let c = roll(vec![tension(0.6)]);
     let l = lanes::build(&c);
-    let w = wind(
-        &WindInput::new(&c.material, &c.roll, &c.winding),
-        &l,
-        Options {
-            nodes: 121,
-            ..Options::default()
-        },
-    )
-    .unwrap();
+    let w = common::wound(&c, &l, 121);
     // first layer: equal radii, so each lane's share is its own measured tension (Hooke's law,
     // one shared strain plus each lane's own); the nip, speed and air parts are equal per lane
     let t_w = c.winding.tension.at(c.roll.core_diameter_m);

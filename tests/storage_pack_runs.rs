@@ -6,7 +6,9 @@ use rollsleuth::storage::{
     age_lane_with, drive, prepare, track_lane_pack, AgeOptions, LaneCreep, LaneDrive, LaneRun,
     Prepared, Track,
 };
-use rollsleuth::winding::{wind, Options, WindInput, Wound};
+use rollsleuth::winding::Wound;
+
+mod common;
 
 /// Each member of a pack has the bits of its own run, and a member that cannot run fails
 /// alone (the others are not touched by it).
@@ -14,15 +16,7 @@ use rollsleuth::winding::{wind, Options, WindInput, Wound};
 fn a_pack_of_runs_gives_each_run_its_own_bits() {
     let case = case::load_demo(&[]).expect("demo loads");
     let lanes = rollsleuth::lanes::build(&case);
-    let wound = wind(
-        &WindInput::new(&case.material, &case.roll, &case.winding),
-        &lanes,
-        Options {
-            nodes: 41,
-            ..Default::default()
-        },
-    )
-    .expect("winds");
+    let wound = common::wound(&case, &lanes, 41);
     let prep = prepare(
         &rollsleuth::fit::store_input(&case, &[]),
         &lanes,
