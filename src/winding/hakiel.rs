@@ -26,18 +26,21 @@
 //! edge only scales phi, a unit pressure at radius s gives the increment phi(r) / phi(s) at r:
 //! each step's increment is a product of the per-interval ratios, marched inward from the new
 //! layer, and the new layers' pressure is integrated over their own interval in closed form of
-//! the kernel (Gauss-Legendre in x = e^(-g t)) rather than lumped at one node. The tangential
+//! the kernel (Gauss-Legendre in t) rather than lumped at one node. The tangential
 //! increment is z s (equilibrium, s_t = s + r s'). The only approximations left are E_r constant
 //! on an interval and over a step (taken at the mid-step pressure: predictor-corrector in the
-//! surface zone, extrapolated from the previous step's increment in the deep part, where a step
-//! changes the pressure little and smoothly): both second order in the node spacing, and the layer's own inward decay over about r / g needs no
-//! resolving. Increments that have decayed below 1e-15 of the local pressure are not carried
-//! further in, and the per-interval ratios are only recomputed where the pressure changed. The
-//! stack strain behind the compressed build is updated by its change per increment (a series
-//! for small changes, no logarithm per node per step), in the surface zone once per grid step
-//! (the build is read only between grid steps).
+//! surface zone, whose predictor re-uses the ratios the last sub-step's corrector left, and
+//! extrapolated from the previous step's increment in the deep part, where a step changes the
+//! pressure little and smoothly): both second order in the node spacing, and the layer's own
+//! inward decay over about r / g needs no resolving. Increments that have decayed below 1e-15
+//! of the local pressure are not carried further in, and the per-interval ratios are only
+//! recomputed where the pressure changed, each decay factor as a short series from the last one
+//! computed in full while g has moved little ([`super::element`]). The stack strain behind the
+//! compressed build is updated by its change per increment (series for small and moderate
+//! changes, no library logarithm for most nodes and steps), in the surface zone once per grid
+//! step (the build is read only between grid steps).
 
-use super::substeps::new_layer_load;
+use super::element::{merge, Interval};
 pub use super::substeps::SubSteps;
 use crate::case::Stack;
 
@@ -71,7 +74,7 @@ impl LaneModel {
 /// law it is ln(1 + x) / K2 with x = (p1 - p0) / (K1 + p0); small steps (|x| < 1e-3, most of
 /// them deep in the roll) take the series to x^5 (remainder below 2e-16 relative) instead of a
 /// logarithm.
-#[inline]
+#[inline(always)]
 fn strain_change(stack: &Stack, p0: f64, p1: f64) -> f64 {
     let (p0, p1) = (p0.max(0.0), p1.max(0.0));
     match *stack {
@@ -79,6 +82,8 @@ fn strain_change(stack: &Stack, p0: f64, p1: f64) -> f64 {
             let x = (p1 - p0) / (k1_pa + p0);
             let l = if x.abs() < 1e-3 {
                 x * (1.0 - x * (0.5 - x * (1.0 / 3.0 - x * (0.25 - 0.2 * x))))
+            } else if x.abs() < 0.1 {
+                ln_1p_near(x)
             } else {
                 x.ln_1p()
             };
@@ -88,20 +93,19 @@ fn strain_change(stack: &Stack, p0: f64, p1: f64) -> f64 {
     }
 }
 
+/// ln(1 + x) for |x| < 0.1 as 2 atanh(u), u = x / (2 + x) (|u| < 0.053), by its series to
+/// u^13 (remainder below 1e-19 relative): no library call for the pressure changes of the deep
+/// roll, whose relative size per step is about one over the number of steps wound since.
+#[inline]
+fn ln_1p_near(x: f64) -> f64 {
+    let u = x / (2.0 + x);
+    let u2 = u * u;
+    let tail = 1.0 / 9.0 + u2 * (1.0 / 11.0 + u2 * (1.0 / 13.0));
+    2.0 * u * (1.0 + u2 * (1.0 / 3.0 + u2 * (1.0 / 5.0 + u2 * (1.0 / 7.0 + u2 * tail))))
+}
+
 /// Increments smaller than this fraction of the local radial stress are not carried inward.
 const NEGLIGIBLE: f64 = 1e-15;
-
-/// One exact element: from z at the inner end of an interval of log-length `tau` (`grow` =
-/// e^tau), return
-/// (phi_in / phi_out, z at the outer end).
-#[inline]
-fn element(g: f64, z0: f64, tau: f64, grow: f64) -> (f64, f64) {
-    let e1 = (-g * tau).exp();
-    let a = g + z0;
-    let d = a + (g - z0) * e1 * e1;
-    let inv = 1.0 / d;
-    (2.0 * g * e1 * grow * inv, 2.0 * g * a * inv - g)
-}
 
 /// Refinement of the accretion near the surface for grid `r`: each grid interval is wound in
 /// `sub` steps, and the sub-nodes are kept while they lie within `depth` grid intervals of the
@@ -135,7 +139,8 @@ pub const ZONE_DECAYS: f64 = 4.0;
 /// Internally the nodes in use ("active") are the output nodes below the refined zone and every
 /// sub-node inside it. The deep part (output nodes only) is updated once per grid step, with
 /// its radial modulus at the mid-step pressure estimated from the previous step's increment;
-/// the zone is updated at every sub-step with a predictor-corrector.
+/// the zone is updated at every sub-step with a predictor-corrector (the predictor on the
+/// ratios the last corrector left, and the new interval's).
 #[derive(Debug, Clone)]
 pub struct LaneState {
     /// Grid radii, m (increasing; need not be uniform).
@@ -162,10 +167,8 @@ pub struct LaneState {
     /// Increment of the current sub-step (zone), and of the last grid step (all nodes).
     s: Vec<f64>,
     last: Vec<f64>,
-    // active intervals
-    tau: Vec<f64>,
-    grow: Vec<f64>,
-    rho: Vec<f64>,
+    /// Active intervals.
+    iv: Vec<Interval>,
     /// Active index of the zone's bottom node (a grid node).
     b: usize,
     /// Deep intervals below this one have ratios valid for the current pressures.
@@ -213,9 +216,7 @@ impl LaneState {
             agrid: Vec::with_capacity(cap),
             s: Vec::with_capacity(cap),
             last: Vec::with_capacity(cap),
-            tau: Vec::with_capacity(cap),
-            grow: Vec::with_capacity(cap),
-            rho: Vec::with_capacity(cap),
+            iv: Vec::with_capacity(cap),
             b: 0,
             fresh: 0,
             dcut: 0,
@@ -290,26 +291,25 @@ impl LaneState {
             let r_new = plan.r_new[i - 1];
             let tau_new = plan.tau[i - 1];
             debug_assert_eq!(tau_new, (r_new / self.ar[top]).ln());
-            // predictor at the start-of-step pressures, corrector at mid-step
-            let (zj, pj) = self.zone_sweep(m, top, 0.0);
+            // predictor: the ratios the last corrector left (see [`Self::new_interval`]),
+            // corrector at mid-step
+            let (zj, pj) = self.new_interval(m, top);
             // the new interval: zero pressure at its outer end; the surface node has none yet,
             // so the predictor's kernel is the plan's (at g of the unloaded stack)
             let q = if pj == 0.0 {
-                plan.kernel[i - 1].load(plan.g0, zj)
+                plan.kernel[i - 1].load(zj)
             } else {
-                new_layer_load(m.g(0.5 * pj), zj, tau_new)
+                plan.points[i - 1].at(m.g(0.5 * pj)).load(zj)
             };
             self.zone_march(top, -sigma_w * q);
-            let (zj, pj) = self.zone_sweep(m, top, 0.5);
-            let q = new_layer_load(m.g(0.5 * pj), zj, tau_new);
+            let (zj, pj) = self.zone_sweep(m, top);
+            let q = plan.points[i - 1].at(m.g(0.5 * pj)).load(zj);
             self.zone_march(top, -sigma_w * q);
             if !q.is_finite() {
                 return Err(fail);
             }
             self.build += r_new - self.ar[top];
-            self.tau.push(tau_new);
-            self.grow.push(plan.grow[i - 1]);
-            self.rho.push(0.0);
+            self.iv.push(Interval::new(tau_new, plan.grow[i - 1]));
             self.push_node(r_new, sigma_w, if i == self.sub { k } else { usize::MAX });
             for j in self.zcut..=top {
                 let sj = self.s[j];
@@ -351,7 +351,7 @@ impl LaneState {
 
     /// Bring active node `j`'s stack strain up to its present pressure, keeping the build sum
     /// (the trapezoid weight of a node is half the span of its neighbours).
-    #[inline]
+    #[inline(always)]
     fn strain(&mut self, m: &LaneModel, j: usize) {
         let p = -self.asr[j];
         let de = strain_change(&m.stack, self.ap[j], p);
@@ -388,8 +388,7 @@ impl LaneState {
         for j in from..to {
             let pn = p(self, j + 1);
             let g = m.g(0.5 * (pj + pn));
-            let (rho, z1) = element(g, zj, self.tau[j], self.grow[j]);
-            self.rho[j] = rho;
+            let z1 = self.iv[j].ratio(g, zj);
             self.az[j + 1] = z1;
             zj = z1;
             pj = pn;
@@ -414,7 +413,7 @@ impl LaneState {
         let mut s = load_b;
         let mut j = self.b;
         while j > 0 {
-            s *= self.rho[j - 1];
+            s *= self.iv[j - 1].rho;
             if s.abs() <= NEGLIGIBLE * self.asr[j - 1].abs() {
                 break;
             }
@@ -426,20 +425,34 @@ impl LaneState {
         self.fresh = j.saturating_sub(1);
     }
 
-    /// Zone ratios from the zone bottom to the surface node `top`; returns z and the pressure
-    /// (Pa) at `top`. With `frac` > 0, pressures are taken that far through the sub-step, using
-    /// the increment in `self.s`.
-    fn zone_sweep(&mut self, m: &LaneModel, top: usize, frac: f64) -> (f64, f64) {
+    /// Zone ratios from the zone bottom to the surface node `top` at the pressures half way
+    /// through the sub-step (using the predicted increment in `self.s`); returns z and the
+    /// pressure (Pa) at `top`.
+    fn zone_sweep(&mut self, m: &LaneModel, top: usize) -> (f64, f64) {
         let (b, cut) = (self.b, self.zcut);
         let p = |st: &Self, i: usize| -> f64 {
-            let half = if frac > 0.0 && i >= cut {
-                frac * st.s[i]
-            } else {
-                0.0
-            };
+            let half = if i >= cut { 0.5 * st.s[i] } else { 0.0 };
             -(st.asr[i] + half)
         };
         self.sweep(m, b, top, p)
+    }
+
+    /// The predictor's ratios: those below the surface node `top` as the last sub-step's
+    /// corrector (or the grid step's deep sweep and [`Self::coarsen`]) left them, and the new
+    /// interval just below `top` (not swept yet) at the start-of-step pressures; returns z and
+    /// the pressure (Pa) at `top`. The ratios left are at pressures half a sub-step's increment
+    /// before the start of this one, where a full predictor sweep would take them at its start:
+    /// either way the predicted increment is off by the modulus change over about one
+    /// increment, which moves the corrector's mid-step pressure only at second order.
+    fn new_interval(&mut self, m: &LaneModel, top: usize) -> (f64, f64) {
+        if top <= self.b {
+            return (self.az[top], -self.asr[top]);
+        }
+        let j = top - 1;
+        let (p0, p1) = (-self.asr[j], -self.asr[top]);
+        let z1 = self.iv[j].ratio(m.g(0.5 * (p0 + p1)), self.az[j]);
+        self.az[top] = z1;
+        (z1, p1)
     }
 
     /// March the increment `s_top` at the surface node inward to the zone bottom or until it
@@ -448,7 +461,7 @@ impl LaneState {
         self.s[top] = s_top;
         let mut i = top;
         while i > self.b {
-            let next = self.s[i] * self.rho[i - 1];
+            let next = self.s[i] * self.iv[i - 1].rho;
             if next.abs() <= NEGLIGIBLE * self.asr[i - 1].abs() {
                 break;
             }
@@ -466,19 +479,14 @@ impl LaneState {
                 let mut rho = 1.0;
                 let mut old = 0.0;
                 for j in b..e {
-                    rho *= self.rho[j];
+                    rho *= self.iv[j].rho;
                     old += (self.ar[j + 1] - self.ar[j])
                         * (1.0 - 0.5 * (self.aeps[j] + self.aeps[j + 1]));
                 }
                 let new = (self.ar[e] - self.ar[b]) * (1.0 - 0.5 * (self.aeps[b] + self.aeps[e]));
                 self.build += new - old;
-                self.rho[b] = rho;
-                self.tau[b] = (self.ar[e] / self.ar[b]).ln();
-                self.grow[b] = self.ar[e] / self.ar[b];
+                merge(&mut self.iv, b, e, self.ar[b], self.ar[e], rho);
                 let gone = b + 1..e;
-                self.tau.drain(b + 1..e);
-                self.grow.drain(b + 1..e);
-                self.rho.drain(b + 1..e);
                 for v in [
                     &mut self.ar,
                     &mut self.asr,
@@ -540,5 +548,22 @@ impl LaneState {
             _ => 0.0,
         };
         r0 + core_u + self.build * layers_per_m * caliper
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    /// The series agrees with the library's ln_1p to within 2 units in the last place over its
+    /// span.
+    #[test]
+    fn near_logarithm_matches_the_library() {
+        for i in -1000..=1000 {
+            let x = 0.0999 * f64::from(i) / 1000.0;
+            let (a, b) = (super::ln_1p_near(x), x.ln_1p());
+            assert!(
+                (a - b).abs() <= 2.0 * f64::EPSILON * b.abs(),
+                "{x}: {a} vs {b}"
+            );
+        }
     }
 }

@@ -9,6 +9,7 @@ mod cache;
 mod centrifugal;
 mod core;
 pub mod coupling;
+mod element;
 pub mod hakiel;
 mod roll;
 mod substeps;

@@ -12,47 +12,73 @@ const GAUSS6: [(f64, f64); 6] = [
     (0.932_469_514_203_152, 0.171_324_492_379_170),
 ];
 
-/// Integral over an interval of log-length `tau` of phi(inner) / phi(t) dt: the pressure at the
-/// inner end, per unit wound-in stress, of the layers wound over the interval. With
-/// x = e^(-g t) the integrand is 2 x^(-1/g) / (a + b x^2), smooth on [e^(-g tau), 1].
-pub(super) fn new_layer_load(g: f64, z0: f64, tau: f64) -> f64 {
-    LayerKernel::new(g, tau).load(g, z0)
-}
-
-/// The part of [`new_layer_load`] that depends only on g and the interval (the Gauss points x
-/// and their weighted x^(-1/g)), so that lanes with the same g share it.
+/// The Gauss points of a new interval of log-length `tau` (its layers' load on the roll), in
+/// t = ln(r / r_inner): the pressure at the inner end, per unit wound-in stress, of the layers
+/// wound over the interval is the integral over the interval of phi(inner) / phi(t) dt, which
+/// for an element of g and z0 is
+///
+/// g integral_0^tau 2 e^t x / (a + b x^2) dt,  x = e^(-g t),  a = g + z0,  b = g - z0,
+///
+/// smooth on the interval (g tau is at most about one; the six-point rule is then within about
+/// 1e-10 of the integral). Kept here: the points t_k of the inner
+/// half (the outer half's x are e^(-g tau) / x of these, the points being symmetric) and the
+/// g-free weights c_k = tau w_k e^(t_k), so that a lane's g costs four exponentials.
 #[derive(Debug, Clone, Copy)]
-pub(super) struct LayerKernel {
-    /// Twice the half-width of the interval in x.
-    twice_half: f64,
-    /// Gauss points x and w x^(-1/g).
-    points: [(f64, f64); 6],
+pub(super) struct LayerPoints {
+    tau: f64,
+    t: [f64; 3],
+    c: [f64; 6],
 }
 
-impl LayerKernel {
-    #[inline]
-    fn new(g: f64, tau: f64) -> Self {
-        let x1 = (-g * tau).exp();
-        let (mid, half) = (0.5 * (1.0 + x1), 0.5 * (1.0 - x1));
-        let points = GAUSS6.map(|(xi, w)| {
-            let x = mid + half * xi;
-            (x, w * (-x.ln() / g).exp())
-        });
-        LayerKernel {
-            twice_half: 2.0 * half,
-            points,
+impl LayerPoints {
+    fn new(tau: f64) -> Self {
+        let t = GAUSS6.map(|(xi, _)| 0.5 * tau * (1.0 + xi));
+        let mut c = [0.0; 6];
+        for (k, (_, w)) in GAUSS6.iter().enumerate() {
+            c[k] = tau * w * t[k].exp();
+        }
+        LayerPoints {
+            tau,
+            t: [t[0], t[1], t[2]],
+            c,
         }
     }
 
-    /// The load for z0 at the interval's inner end (g as in [`Self::new`]).
+    /// The kernel for a lane of g.
     #[inline]
-    pub(super) fn load(&self, g: f64, z0: f64) -> f64 {
-        let (a, b) = (g + z0, g - z0);
-        let mut sum = 0.0;
-        for (x, wk) in self.points {
-            sum += wk / (a + b * x * x);
+    pub(super) fn at(&self, g: f64) -> LayerKernel {
+        let e = (-g * self.tau).exp();
+        let mut x = [0.0; 6];
+        for k in 0..3 {
+            x[k] = (-g * self.t[k]).exp();
+            x[5 - k] = e / x[k];
         }
-        self.twice_half * sum
+        let mut cx = [0.0; 6];
+        for k in 0..6 {
+            cx[k] = self.c[k] * x[k];
+        }
+        LayerKernel { g, x, cx }
+    }
+}
+
+/// [`LayerPoints`] at one g: the points x_k and c_k x_k.
+#[derive(Debug, Clone, Copy)]
+pub(super) struct LayerKernel {
+    g: f64,
+    x: [f64; 6],
+    cx: [f64; 6],
+}
+
+impl LayerKernel {
+    /// The load for z0 at the interval's inner end.
+    #[inline]
+    pub(super) fn load(&self, z0: f64) -> f64 {
+        let (a, b) = (self.g + z0, self.g - z0);
+        let mut sum = 0.0;
+        for k in 0..6 {
+            sum += self.cx[k] / (a + b * self.x[k] * self.x[k]);
+        }
+        self.g * sum
     }
 }
 
@@ -68,9 +94,9 @@ pub struct SubSteps {
     pub(super) r_new: Vec<f64>,
     pub(super) tau: Vec<f64>,
     pub(super) grow: Vec<f64>,
-    /// Predictor kernel per sub-step, at `g0`.
+    /// Gauss points of each sub-step's new interval, and their kernel at `g0` (the predictor's).
+    pub(super) points: Vec<LayerPoints>,
     pub(super) kernel: Vec<LayerKernel>,
-    pub(super) g0: f64,
 }
 
 impl SubSteps {
@@ -82,8 +108,8 @@ impl SubSteps {
             r_new: Vec::with_capacity(sub),
             tau: Vec::with_capacity(sub),
             grow: Vec::with_capacity(sub),
+            points: Vec::with_capacity(sub),
             kernel: Vec::with_capacity(sub),
-            g0,
         };
         if k == 0 || k >= r.len() {
             return plan;
@@ -101,9 +127,46 @@ impl SubSteps {
             plan.r_new.push(r_new);
             plan.tau.push(tau_new);
             plan.grow.push(r_new / prev);
-            plan.kernel.push(LayerKernel::new(g0, tau_new));
+            let points = LayerPoints::new(tau_new);
+            plan.points.push(points);
+            plan.kernel.push(points.at(g0));
             prev = r_new;
         }
         plan
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// The six-point rule against composite Simpson (Abramowitz and Stegun 25.4.6, 20,000
+    /// panels) of the same integral, over the spans a sub-step takes (g tau up to 1: 0.25 on
+    /// the reference grid, about 0.8 on the layer-count grid) and z0 from 0.2 to 2. SciPy's
+    /// quad gives the same differences: about 1e-10 at g tau = 1, 1e-7 at 2 (the x-form of an
+    /// earlier version was no closer).
+    #[test]
+    fn layer_load_matches_a_fine_quadrature() {
+        for (g, tau) in [(300.0, 0.000_8), (300.0, 0.003), (40.0, 0.025), (5.0, 0.2)] {
+            for z0 in [0.2, 1.0, 2.0] {
+                let (a, b) = (g + z0, g - z0);
+                let f = |t: f64| {
+                    let x = (-g * t).exp();
+                    2.0 * g * t.exp() * x / (a + b * x * x)
+                };
+                let n = 20_000;
+                let h = tau / f64::from(n);
+                let mut simpson = f(0.0) + f(tau);
+                for i in 1..n {
+                    simpson += if i % 2 == 1 { 4.0 } else { 2.0 } * f(h * f64::from(i));
+                }
+                simpson *= h / 3.0;
+                let q = LayerPoints::new(tau).at(g).load(z0);
+                assert!(
+                    (q / simpson - 1.0).abs() < 1e-9,
+                    "g {g} tau {tau} z0 {z0}: {q} vs {simpson}"
+                );
+            }
+        }
     }
 }
