@@ -55,22 +55,52 @@ impl Runner {
 
     /// The outcome of a scenario (its `excluded` lanes do not change the run).
     pub fn run(&mut self, s: &Scenario) -> Result<Rc<Outcome>, RunError> {
-        let mut key = s.clone();
-        key.excluded.clear();
-        if let Some((_, o)) = self.done.iter().find(|(k, _)| *k == key) {
-            return Ok(Rc::clone(o));
+        let mut all = self.run_all(std::slice::from_ref(s))?;
+        Ok(all.remove(0))
+    }
+
+    /// The outcomes of `scenarios`, in order. The distinct ones not run before are wound and
+    /// then run through storage side by side (rayon); outcomes and counts are those of running
+    /// them one by one with [`Self::run`]. An error fails the batch (a winding error before any
+    /// storage error).
+    pub fn run_all(&mut self, scenarios: &[Scenario]) -> Result<Vec<Rc<Outcome>>, RunError> {
+        use rayon::prelude::*;
+        let keys: Vec<Scenario> = scenarios
+            .iter()
+            .map(|s| {
+                let mut k = s.clone();
+                k.excluded.clear();
+                k
+            })
+            .collect();
+        let mut fresh: Vec<&Scenario> = Vec::new();
+        for k in &keys {
+            if !self.done.iter().any(|(d, _)| d == k) && !fresh.contains(&k) {
+                fresh.push(k);
+            }
         }
+        let jobs: Vec<_> = fresh
+            .iter()
+            .map(|s| (s.wind_input(), &s.lanes, s.wind_options(self.nodes)))
+            .collect();
         let held = self.winds.len();
-        let wound = self
-            .winds
-            .wind(&s.wind_input(), &s.lanes, s.wind_options(self.nodes))?;
-        if self.winds.len() > held {
-            self.count.winding_runs += 1;
+        // a winding error comes before any storage run, as one by one it would stop there
+        let wound = self.winds.wind_all(&jobs);
+        self.count.winding_runs += self.winds.len() - held;
+        let aged: Vec<Result<Outcome, RunError>> = fresh
+            .par_iter()
+            .zip(wound?)
+            .map(|(s, w)| s.age_on(w))
+            .collect();
+        for (s, o) in fresh.iter().zip(aged) {
+            self.count.storage_runs += 1;
+            self.done.push(((*s).clone(), Rc::new(o?)));
         }
-        let o = Rc::new(key.age_on(wound)?);
-        self.count.storage_runs += 1;
-        self.done.push((key, Rc::clone(&o)));
-        Ok(o)
+        Ok(keys
+            .iter()
+            .filter_map(|k| self.done.iter().find(|(d, _)| d == k))
+            .map(|(_, o)| Rc::clone(o))
+            .collect())
     }
 }
 
@@ -176,7 +206,7 @@ pub fn prepare(
         .filter(|&c| c != Cause::LaneToLaneCreep || creep_identified)
         .filter(|&c| apply(base, removal(c), None, &[]) != *base)
         .collect();
-    let mut subsets = Vec::new();
+    let mut scenarios = Vec::new();
     for mask in 0..1usize << sources.len() {
         let mut s = base.clone();
         for (i, &c) in sources.iter().enumerate() {
@@ -184,19 +214,27 @@ pub fn prepare(
                 s = apply(&s, removal(c), None, &[]);
             }
         }
-        subsets.push(runner.run(&s)?);
+        scenarios.push(s);
     }
-    let mut amplifiers = Vec::new();
+    let subsets = scenarios.len();
+    let mut present = Vec::new();
     for (a, change, f) in AMPLIFIERS {
         let s = apply(base, change, Some(f), &[]);
         if s != *base {
-            amplifiers.push((a, f, runner.run(&s)?));
+            present.push((a, f));
+            scenarios.push(s);
         }
     }
+    let mut outcomes = runner.run_all(&scenarios)?;
+    let amplified = outcomes.split_off(subsets);
     Ok(Runs {
         sources,
-        subsets,
-        amplifiers,
+        subsets: outcomes,
+        amplifiers: present
+            .into_iter()
+            .zip(amplified)
+            .map(|((a, f), o)| (a, f, o))
+            .collect(),
     })
 }
 

@@ -54,23 +54,26 @@ pub fn check(
     site: &Site,
     base: &Scenario,
     base_outcome: &Outcome,
-    mut runner: Option<&mut Runner>,
+    runner: Option<&mut Runner>,
 ) -> Result<Vec<CheckedCorrection>, RunError> {
     let before = site.measure(q, base_outcome);
+    let scenarios: Vec<Scenario> = corrections
+        .iter()
+        .map(|c| apply(base, Change::Correct(c.action), c.factor, site.at))
+        .collect();
+    let outcomes = match runner {
+        Some(r) => Some(r.run_all(&scenarios)?),
+        None => None,
+    };
     let mut out = Vec::new();
-    for c in corrections {
-        let after = match runner.as_deref_mut() {
-            Some(r) => {
-                let s = apply(base, Change::Correct(c.action), c.factor, site.at);
-                let o = r.run(&s)?;
-                let at = Site {
-                    excluded: &s.excluded,
-                    ..*site
-                };
-                Some(at.measure(q, &o))
-            }
-            None => None,
-        };
+    for (i, c) in corrections.iter().enumerate() {
+        let after = outcomes.as_ref().map(|o| {
+            let at = Site {
+                excluded: &scenarios[i].excluded,
+                ..*site
+            };
+            at.measure(q, &o[i])
+        });
         out.push(CheckedCorrection {
             action: c.action,
             factor: c.factor,

@@ -76,6 +76,56 @@ impl Cache {
         }
     }
 
+    /// [`Self::wind`] for each job (inputs, lanes, options), in order. The distinct rolls not
+    /// held are wound side by side (rayon), each from the first roll held as [`Self::wind`]
+    /// starts it, and held in the order of the jobs: the wound states and the cache are the
+    /// same as winding the jobs one by one, and an error is the first job's that fails.
+    pub fn wind_all(
+        &mut self,
+        jobs: &[(WindInput, &Lanes, Options)],
+    ) -> Result<Vec<Wound>, WindError> {
+        use rayon::prelude::*;
+        let keys: Vec<Key> = jobs.iter().map(|(i, l, o)| Key::of(i, l, *o)).collect();
+        let mut todo: Vec<usize> = Vec::new();
+        for (j, k) in keys.iter().enumerate() {
+            let held = self.entries.iter().any(|(h, _)| h == k);
+            if !held && !todo.iter().any(|&t| keys[t] == *k) {
+                todo.push(j);
+            }
+        }
+        if self.entries.is_empty() {
+            // the first roll wound is every later roll's start
+            if let Some(&first) = todo.first() {
+                let (i, l, o) = &jobs[first];
+                self.wind(i, l, *o)?;
+                todo.remove(0);
+            }
+        }
+        let made: Vec<Result<Wound, WindError>> = todo
+            .par_iter()
+            .map(|&j| {
+                let (i, l, o) = &jobs[j];
+                wind_from(i, l, *o, self.start_for(l)).map(|(w, _)| w)
+            })
+            .collect();
+        for (&j, w) in todo.iter().zip(made) {
+            self.entries.push((keys[j].clone(), w?));
+        }
+        Ok(keys
+            .iter()
+            .filter_map(|k| self.entries.iter().find(|(h, _)| h == k))
+            .map(|(_, w)| w.clone())
+            .collect())
+    }
+
+    /// Where a new roll on `lanes` starts its secant: where the first roll held ended.
+    fn start_for(&self, lanes: &Lanes) -> Option<super::roll::Secant> {
+        self.entries.first().and_then(|(k, w)| {
+            w.secant
+                .scaled(f64::from_bits(k.mean_caliper), lanes.mean_caliper_m)
+        })
+    }
+
     /// [`super::wind`], or the wound state already computed for the same inputs. A new roll's
     /// secant for the compressed caliper starts where the first roll held ended, scaled by the
     /// ratio of the mean calipers ([`wind_from`]: the start moves the result only within the
@@ -90,11 +140,7 @@ impl Cache {
         if let Some((_, w)) = self.entries.iter().find(|(k, _)| *k == key) {
             return Ok(w.clone());
         }
-        let start = self.entries.first().and_then(|(k, w)| {
-            w.secant
-                .scaled(f64::from_bits(k.mean_caliper), lanes.mean_caliper_m)
-        });
-        let (w, _) = wind_from(input, lanes, opt, start)?;
+        let (w, _) = wind_from(input, lanes, opt, self.start_for(lanes))?;
         self.entries.push((key, w.clone()));
         Ok(w)
     }
