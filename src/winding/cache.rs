@@ -77,9 +77,10 @@ impl Cache {
     }
 
     /// [`Self::wind`] for each job (inputs, lanes, options), in order. The distinct rolls not
-    /// held are wound side by side (rayon), each from the first roll held as [`Self::wind`]
-    /// starts it, and held in the order of the jobs: the wound states and the cache are the
-    /// same as winding the jobs one by one, and an error is the first job's that fails.
+    /// held are wound side by side (rayon), each started where the first roll held ended
+    /// ([`Self::start_for`]; into an empty cache the first new roll is wound alone, as it starts
+    /// the rest), and held in the order of the jobs: the wound states and the cache are the same
+    /// as winding the jobs one by one, and an error is the first failing job's in that order.
     pub fn wind_all(
         &mut self,
         jobs: &[(WindInput, &Lanes, Options)],
@@ -93,13 +94,12 @@ impl Cache {
                 todo.push(j);
             }
         }
-        if self.entries.is_empty() {
-            // the first roll wound is every later roll's start
-            if let Some(&first) = todo.first() {
-                let (i, l, o) = &jobs[first];
-                self.wind(i, l, *o)?;
-                todo.remove(0);
-            }
+        if self.entries.is_empty() && !todo.is_empty() {
+            // the first roll wound is every later roll's start, so it is wound alone
+            let j = todo.remove(0);
+            let (i, l, o) = &jobs[j];
+            let (w, _) = wind_from(i, l, *o, None)?;
+            self.entries.push((keys[j].clone(), w));
         }
         let made: Vec<Result<Wound, WindError>> = todo
             .par_iter()
@@ -129,19 +129,15 @@ impl Cache {
     /// [`super::wind`], or the wound state already computed for the same inputs. A new roll's
     /// secant for the compressed caliper starts where the first roll held ended, scaled by the
     /// ratio of the mean calipers ([`wind_from`]: the start moves the result only within the
-    /// secant's tolerance, and saves about one winding of the coarse grid in four).
+    /// secant's tolerance, and saves about one winding of the coarse grid in four). A batch of
+    /// one ([`Self::wind_all`]).
     pub fn wind(
         &mut self,
         input: &WindInput,
         lanes: &Lanes,
         opt: Options,
     ) -> Result<Wound, WindError> {
-        let key = Key::of(input, lanes, opt);
-        if let Some((_, w)) = self.entries.iter().find(|(k, _)| *k == key) {
-            return Ok(w.clone());
-        }
-        let (w, _) = wind_from(input, lanes, opt, self.start_for(lanes))?;
-        self.entries.push((key, w.clone()));
-        Ok(w)
+        let mut one = self.wind_all(&[(*input, lanes, opt)])?;
+        Ok(one.remove(0))
     }
 }

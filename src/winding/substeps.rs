@@ -20,9 +20,9 @@ const GAUSS6: [(f64, f64); 6] = [
 /// g integral_0^tau 2 e^t x / (a + b x^2) dt,  x = e^(-g t),  a = g + z0,  b = g - z0,
 ///
 /// smooth on the interval (g tau is at most about one; the six-point rule is then within about
-/// 1e-10 of the integral). Kept here: the points t_k of the inner
-/// half (the outer half's x are e^(-g tau) / x of these, the points being symmetric) and the
-/// g-free weights c_k = tau w_k e^(t_k), so that a lane's g costs four exponentials.
+/// 1e-10 of the integral). Kept here: the points t_k of the inner half (the outer half's x are
+/// e^(-g tau) / x of these, the points being symmetric) and the g-free weights
+/// c_k = tau w_k e^(t_k), so that a lane's g costs four exponentials.
 #[derive(Debug, Clone, Copy)]
 pub(super) struct LayerPoints {
     tau: f64,
