@@ -113,6 +113,42 @@ pub fn radial_faces(r0: f64, r1: f64, cells: usize) -> Vec<f64> {
         .collect()
 }
 
+/// Water condensed on a roll's faces: kg per m2 of face, on the barrel and/or the two ends.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Deposit {
+    pub kg_m2: f64,
+    pub barrel: bool,
+    pub ends: bool,
+}
+
+/// Put `kg_m2` of water (per m2 of face) into `cells` of `m` in order, each up to `cap_pct`;
+/// cell k holds `per_point(depth[k])` kg/m2 per point. What is left stays in the first cell.
+fn fill(
+    m: &mut [f64],
+    cells: &[usize],
+    depth: &[f64],
+    kg_m2: f64,
+    cap_pct: f64,
+    per_point: impl Fn(f64) -> f64,
+) {
+    let mut left = kg_m2;
+    for (k, &c) in cells.iter().enumerate() {
+        let unit = per_point(depth[k]);
+        if left <= 0.0 || unit <= 0.0 {
+            break;
+        }
+        let room = (cap_pct - m[c]).max(0.0) * unit;
+        let take = left.min(room);
+        m[c] += take / unit;
+        left -= take;
+    }
+    if left > 0.0 {
+        if let (Some(&c), Some(&d)) = (cells.first(), depth.first()) {
+            m[c] += left / per_point(d);
+        }
+    }
+}
+
 impl Field {
     /// A uniform field of moisture `m0` (%).
     pub fn new(width: f64, nx: usize, faces: Vec<f64>, m0: f64, d_x: f64, d_r: f64) -> Self {
@@ -142,30 +178,42 @@ impl Field {
         }
     }
 
-    /// Put `water_kg_m2` (kg per m2 of face) into the cells next to the barrel (`barrel`) and the
-    /// two end faces (`ends`), as moisture of a stack of dry density `density_kg_m3`: a cell
-    /// gains 100 x water x face area / (density x volume) points (dry basis). Water condensed on a
-    /// face goes into the paper next to it; diffusion then carries it on.
-    pub fn deposit(&mut self, water_kg_m2: f64, barrel: bool, ends: bool, density_kg_m3: f64) {
+    /// Put `water_kg_m2` (kg per m2 of face) into the paper under the barrel (`barrel`) and the
+    /// two end faces (`ends`), as moisture of a stack of dry density `density_kg_m3`: 100 x water
+    /// x face area / (density x volume) points (dry basis) in all. Paper takes up liquid water to
+    /// about its moisture in saturated air, `cap_pct` (the isotherm at RH 1): each column of cells
+    /// is filled from the face inwards up to that cap, so the wetted depth is water / (density x
+    /// room) whatever the cells (putting all of it into the face cell made its moisture grow as
+    /// the cell shrank: 67 % on a 64-cell grid). Water beyond the whole column's room (a face
+    /// more than saturated through) stays in the face cell. Diffusion then carries it on.
+    pub fn deposit(&mut self, water: Deposit, density_kg_m3: f64, cap_pct: f64) {
         let (nx, nr) = (self.x.len(), self.nr());
-        if nx == 0 || nr == 0 || !(water_kg_m2 > 0.0 && density_kg_m3 > 0.0) {
+        if nx == 0 || nr == 0 || !(water.kg_m2 > 0.0 && density_kg_m3 > 0.0) {
             return;
         }
-        let per = 100.0 * water_kg_m2 / density_kg_m3;
-        if barrel {
-            // face area f_nr dx over volume r dr dx (per radian)
-            let j = nr - 1;
-            let gain = per * self.faces[nr] / (self.r[j] * (self.faces[nr] - self.faces[j]));
+        // kg of water per m2 of face that raises a cell of volume/area `depth` (m) by one point
+        let per_point = |depth: f64| density_kg_m3 * depth / 100.0;
+        if water.barrel {
+            let big_r = self.faces[nr];
             for ix in 0..nx {
-                self.m[ix * nr + j] += gain;
+                // from the barrel in: a cell's volume over the barrel's area (per radian and
+                // dx), r dr / R
+                let depth: Vec<f64> = (0..nr)
+                    .rev()
+                    .map(|j| self.r[j] * (self.faces[j + 1] - self.faces[j]) / big_r)
+                    .collect();
+                let cells: Vec<usize> = (0..nr).rev().map(|j| ix * nr + j).collect();
+                fill(&mut self.m, &cells, &depth, water.kg_m2, cap_pct, per_point);
             }
         }
-        if ends {
-            // face area r dr over volume r dr dx
-            let gain = per / self.dx;
+        if water.ends {
+            // a cell's volume over the end face's area: dx
+            let depth = vec![self.dx; nx];
             for j in 0..nr {
-                self.m[j] += gain;
-                self.m[(nx - 1) * nr + j] += gain;
+                let front: Vec<usize> = (0..nx).map(|ix| ix * nr + j).collect();
+                let back: Vec<usize> = (0..nx).rev().map(|ix| ix * nr + j).collect();
+                fill(&mut self.m, &front, &depth, water.kg_m2, cap_pct, per_point);
+                fill(&mut self.m, &back, &depth, water.kg_m2, cap_pct, per_point);
             }
         }
     }
@@ -282,7 +330,12 @@ mod tests {
         };
         let mut f = Field::new(width, nx, faces.clone(), 8.0, 1e-9, 1e-12);
         let before = water_of(&f);
-        f.deposit(0.01, true, true, rho);
+        let water = Deposit {
+            kg_m2: 0.01,
+            barrel: true,
+            ends: true,
+        };
+        f.deposit(water, rho, 20.0);
         let (r0, r1) = (faces[0], faces[faces.len() - 1]);
         let want = 0.01 * (r1 * width + (r1 * r1 - r0 * r0));
         let got = water_of(&f) - before;
@@ -293,6 +346,45 @@ mod tests {
         // the barrel cells gain, a cell inside does not
         assert!(f.m[(nx / 2) * f.nr() + f.nr() - 1] > 8.0);
         assert_eq!(f.m[(nx / 2) * f.nr() + 3], 8.0);
+    }
+
+    /// Condensed water wets the outer wraps to a depth set by mass balance alone, d = 100 w /
+    /// (rho (cap - m0)) (the water per area over what a metre of stack takes up to the cap),
+    /// whatever the radial cells: no cell goes past the cap, and the water's mean depth is d / 2
+    /// to within the outer cell's thickness on 32 to 512 cells. (Before, all of it went into the
+    /// outer cell, whose moisture grew as the cell shrank.)
+    #[test]
+    fn condensed_water_wets_a_depth_independent_of_the_cells() {
+        let (rho, m0, cap, w) = (700.0, 8.0, 20.0, 0.05);
+        let d = 100.0 * w / (rho * (cap - m0));
+        for n in [32, 128, 512] {
+            let faces = radial_faces(0.05, 0.5, n);
+            let mut f = Field::new(1.0, 4, faces.clone(), m0, 1e-9, 1e-12);
+            let water = Deposit {
+                kg_m2: w,
+                barrel: true,
+                ends: false,
+            };
+            f.deposit(water, rho, cap);
+            let nr = f.nr();
+            let col = &f.m[nr..2 * nr];
+            assert!(col.iter().all(|&m| m <= cap + 1e-12), "{n} cells");
+            // water per cell (per radian and dx) and its mean depth under the barrel
+            let big_r = faces[n];
+            let (mut sum, mut moment) = (0.0, 0.0);
+            for j in 0..nr {
+                let wj = (col[j] - m0) * f.r[j] * (faces[j + 1] - faces[j]);
+                sum += wj;
+                moment += wj * (big_r - f.r[j]);
+            }
+            let outer = faces[n] - faces[n - 1];
+            let mean = moment / sum;
+            assert!(
+                (mean - 0.5 * d).abs() <= outer,
+                "{n} cells: mean depth {mean} vs {} (outer cell {outer})",
+                0.5 * d
+            );
+        }
     }
 
     /// A moisture step across the width at winding (a wet band in a sealed roll) spreads as

@@ -289,12 +289,19 @@ fn compute_moisture(
     // condensation on a cold roll taken into warm humid air: the water goes into the faces it
     // condensed on as the stretch begins (it condenses within minutes to hours of arrival)
     let wet = super::condensation::check(&tl.stretches);
+    // the most the paper takes up: its moisture in saturated air
+    let saturated = super::gab_moisture(&m.sorption, 1.0);
     let mut entered = usize::MAX;
     for st in &tl.steps {
         if st.stretch != entered {
             entered = st.stretch;
             for c in wet.iter().filter(|c| c.stretch == st.stretch) {
-                field.deposit(c.water_kg_m2, c.barrel, c.ends, m.density_kg_m3);
+                let water = super::moisture::Deposit {
+                    kg_m2: c.water_kg_m2,
+                    barrel: c.barrel,
+                    ends: c.ends,
+                };
+                field.deposit(water, m.density_kg_m3, saturated);
             }
         }
         field.step(st.dt, &surf[st.stretch]);

@@ -1,0 +1,71 @@
+//! Storage resolution study: each lane's predicted readings (hardness, diameter) at the grade's
+//! creep on several storage grids, and their distance from the finest grid in noise units.
+//!
+//! `cargo run --release --example storage_convergence -- CASE CELLSxSTEPS ...` (the last grid is
+//! the reference; `64x20` is the default: 64 radial cells, 20 time steps per segment).
+use rollsleuth::fit::{observe, prepared, LaneProblem};
+use rollsleuth::storage::AgeOptions;
+use rollsleuth::winding::{wind, Options, WindInput};
+
+/// Per lane, each reading's predicted value and its noise (one standard deviation).
+type Readings = Vec<Vec<(f64, f64)>>;
+
+fn main() {
+    let args: Vec<String> = std::env::args().collect();
+    if args.len() < 4 {
+        eprintln!("usage: storage_convergence CASE CELLSxSTEPS CELLSxSTEPS ...");
+        std::process::exit(2);
+    }
+    let case = rollsleuth::case::load_file(std::path::Path::new(&args[1]), &[])
+        .unwrap_or_else(|e| panic!("{}: {e}", args[1]));
+    let lanes = rollsleuth::lanes::build(&case);
+    let input = WindInput::new(&case.material, &case.roll, &case.winding);
+    let wound = wind(&input, &lanes, Options::default()).expect("winding");
+    // per grid: per lane, the predicted readings and their noise
+    let mut all: Vec<(String, Readings)> = Vec::new();
+    for spec in &args[2..] {
+        let v: Vec<usize> = spec
+            .split('x')
+            .map(|x| x.parse().expect("CELLSxSTEPS"))
+            .collect();
+        let opt = AgeOptions {
+            cells_r: v[0],
+            steps: v[1],
+            ..AgeOptions::default()
+        };
+        let (prep, map) = prepared(&case, &lanes, &wound, &opt).expect("storage");
+        let (obs, _) = observe::observations(&lanes, &prep.timeline, case.hardness.repeatability);
+        let per_lane = obs
+            .into_iter()
+            .enumerate()
+            .map(|(i, o)| {
+                let p = LaneProblem::new(&case.material, &wound, &prep, &map, i, o);
+                match p.simulate(&[0.0, 0.0]) {
+                    Some(t) => p.obs.iter().map(|o| (p.predict(o, &t), o.sigma)).collect(),
+                    None => p.obs.iter().map(|o| (f64::NAN, o.sigma)).collect(),
+                }
+            })
+            .collect();
+        all.push((spec.clone(), per_lane));
+    }
+    let reference = &all[all.len() - 1].1;
+    for (spec, lanes_obs) in &all {
+        let mut worst = (0.0f64, 0, 0);
+        for (i, lane) in lanes_obs.iter().enumerate() {
+            for (k, &(v, s)) in lane.iter().enumerate() {
+                let d = (v - reference[i][k].0).abs() / s;
+                // a reading the model could not give (NaN) counts as the worst
+                if d.is_nan() || d > worst.0 {
+                    worst = (d, i, k);
+                }
+            }
+        }
+        println!(
+            "{spec:>9}: largest distance from {} {:.3} noise units (lane {}, reading {})",
+            all[all.len() - 1].0,
+            worst.0,
+            worst.1,
+            worst.2
+        );
+    }
+}
