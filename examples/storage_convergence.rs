@@ -3,6 +3,9 @@
 //!
 //! `cargo run --release --example storage_convergence -- CASE CELLSxSTEPS ...` (the last grid is
 //! the reference; `64x20` is the default: 64 radial cells, 20 time steps per segment).
+//! Environment: `SET="field=value;..."` edits the case as `--set` does, `THETA=md,radial` sets the
+//! log creep scales (default 0,0: the grade's creep), `SHOW_LANE=i` also prints lane i's readings
+//! and its final moisture on each grid.
 use rollsleuth::fit::{observe, prepared, LaneProblem};
 use rollsleuth::storage::AgeOptions;
 use rollsleuth::winding::{wind, Options, WindInput};
@@ -16,7 +19,10 @@ fn main() {
         eprintln!("usage: storage_convergence CASE CELLSxSTEPS CELLSxSTEPS ...");
         std::process::exit(2);
     }
-    let case = rollsleuth::case::load_file(std::path::Path::new(&args[1]), &[])
+    let sets: Vec<String> = std::env::var("SET")
+        .map(|v| v.split(';').map(str::to_string).collect())
+        .unwrap_or_default();
+    let case = rollsleuth::case::load_file(std::path::Path::new(&args[1]), &sets)
         .unwrap_or_else(|e| panic!("{}: {e}", args[1]));
     let lanes = rollsleuth::lanes::build(&case);
     let input = WindInput::new(&case.material, &case.roll, &case.winding);
@@ -35,18 +41,49 @@ fn main() {
         };
         let (prep, map) = prepared(&case, &lanes, &wound, &opt).expect("storage");
         let (obs, _) = observe::observations(&lanes, &prep.timeline, case.hardness.repeatability);
+        eprintln!("{spec}: {} time steps", prep.timeline.steps.len());
+        if let Some(i) = std::env::var("SHOW_LANE")
+            .ok()
+            .and_then(|v| v.parse::<usize>().ok())
+        {
+            let m = &prep.moisture.mc[prep.moisture.mc.len() - 1][i];
+            let mean = m.iter().sum::<f64>() / m.len() as f64;
+            eprintln!(
+                "{spec}: lane {i} final moisture mean {mean:.5} outer {:.5}",
+                m[m.len() - 1]
+            );
+        }
         let per_lane = obs
             .into_iter()
             .enumerate()
             .map(|(i, o)| {
                 let p = LaneProblem::new(&case.material, &wound, &prep, &map, i, o);
-                match p.simulate(&[0.0, 0.0]) {
+                let th: Vec<f64> = std::env::var("THETA")
+                    .map(|v| {
+                        v.split(',')
+                            .map(|x| x.parse().expect("THETA=a,b"))
+                            .collect()
+                    })
+                    .unwrap_or_else(|_| vec![0.0, 0.0]);
+                match p.simulate(&th) {
                     Some(t) => p.obs.iter().map(|o| (p.predict(o, &t), o.sigma)).collect(),
                     None => p.obs.iter().map(|o| (f64::NAN, o.sigma)).collect(),
                 }
             })
             .collect();
         all.push((spec.clone(), per_lane));
+    }
+    if let Some(i) = std::env::var("SHOW_LANE")
+        .ok()
+        .and_then(|v| v.parse::<usize>().ok())
+    {
+        for (spec, lanes_obs) in &all {
+            let v: Vec<String> = lanes_obs[i]
+                .iter()
+                .map(|(x, _)| format!("{x:.5}"))
+                .collect();
+            println!("{spec:>12} lane {i}: {}", v.join(" "));
+        }
     }
     let reference = &all[all.len() - 1].1;
     for (spec, lanes_obs) in &all {
