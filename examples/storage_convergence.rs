@@ -10,8 +10,9 @@ use rollsleuth::fit::{observe, prepared, LaneProblem};
 use rollsleuth::storage::AgeOptions;
 use rollsleuth::winding::{wind, Options, WindInput};
 
-/// Per lane, each reading's predicted value and its noise (one standard deviation).
-type Readings = Vec<Vec<(f64, f64)>>;
+/// Per lane, each reading's predicted value, its noise (one standard deviation) and whether it
+/// is a hardness reading (else a diameter).
+type Readings = Vec<Vec<(f64, f64, bool)>>;
 
 fn main() {
     let args: Vec<String> = std::env::args().collect();
@@ -66,8 +67,12 @@ fn main() {
                     })
                     .unwrap_or_else(|_| vec![0.0, 0.0]);
                 match p.simulate(&th) {
-                    Some(t) => p.obs.iter().map(|o| (p.predict(o, &t), o.sigma)).collect(),
-                    None => p.obs.iter().map(|o| (f64::NAN, o.sigma)).collect(),
+                    Some(t) => p
+                        .obs
+                        .iter()
+                        .map(|o| (p.predict(o, &t), o.sigma, hard(o)))
+                        .collect(),
+                    None => p.obs.iter().map(|o| (f64::NAN, o.sigma, hard(o))).collect(),
                 }
             })
             .collect();
@@ -80,29 +85,40 @@ fn main() {
         for (spec, lanes_obs) in &all {
             let v: Vec<String> = lanes_obs[i]
                 .iter()
-                .map(|(x, _)| format!("{x:.5}"))
+                .map(|(x, _, _)| format!("{x:.5}"))
                 .collect();
             println!("{spec:>12} lane {i}: {}", v.join(" "));
         }
     }
     let reference = &all[all.len() - 1].1;
     for (spec, lanes_obs) in &all {
-        let mut worst = (0.0f64, 0, 0);
+        // the largest distance of a hardness and of a diameter reading: (distance, lane, reading)
+        let mut worst = [(0.0f64, 0, 0); 2];
         for (i, lane) in lanes_obs.iter().enumerate() {
-            for (k, &(v, s)) in lane.iter().enumerate() {
+            for (k, &(v, s, h)) in lane.iter().enumerate() {
                 let d = (v - reference[i][k].0).abs() / s;
+                let w = &mut worst[usize::from(!h)];
                 // a reading the model could not give (NaN) counts as the worst
-                if d.is_nan() || d > worst.0 {
-                    worst = (d, i, k);
+                if d.is_nan() || d > w.0 {
+                    *w = (d, i, k);
                 }
             }
         }
+        let [h, d] = worst;
         println!(
-            "{spec:>9}: largest distance from {} {:.3} noise units (lane {}, reading {})",
+            "{spec:>9}: largest distance from {} in noise units: hardness {:.3} (lane {}, reading {}), diameter {:.3} (lane {}, reading {})",
             all[all.len() - 1].0,
-            worst.0,
-            worst.1,
-            worst.2
+            h.0,
+            h.1,
+            h.2,
+            d.0,
+            d.1,
+            d.2
         );
     }
+}
+
+/// Whether an observation is a hardness reading.
+fn hard(o: &rollsleuth::fit::observe::Obs) -> bool {
+    o.what == rollsleuth::case::Measure::Hardness
 }
