@@ -259,7 +259,8 @@ pub fn air_floats(case: &crate::case::Case) -> Vec<Note> {
 }
 
 /// Checks on the roll after storage: lane diameters outside the core, moisture at or below
-/// saturation, finite predicted hardness; one note per kind naming the worst lane.
+/// saturation, predicted hardness finite and not below zero (the bottom of any hardness scale);
+/// one note per kind naming the worst lane.
 pub fn after_storage(a: &Aged, material: &Material, roll: &Roll) -> Vec<Note> {
     let mut out = Vec::new();
     let core = roll.core_diameter_m;
@@ -292,6 +293,23 @@ pub fn after_storage(a: &Aged, material: &Material, roll: &Roll) -> Vec<Note> {
             position_m,
             moisture_pct,
             saturation_pct: saturation,
+        }));
+    }
+    // below zero: under the bottom of any hardness scale (a NaN is the next check's)
+    let low = a.lanes.iter().map(|l| {
+        let h = l
+            .hardness
+            .iter()
+            .copied()
+            .filter(|h| !h.is_nan())
+            .fold(f64::INFINITY, f64::min);
+        (l.position_m, (h < 0.0).then_some(-h))
+    });
+    if let Some((lanes, position_m, depth)) = worst(low) {
+        out.push(Note::Limit(Limit::HardnessBelowScale {
+            lanes,
+            position_m,
+            hardness: -depth,
         }));
     }
     let bad = a.lanes.iter().map(|l| {

@@ -243,6 +243,17 @@ pub enum Limit {
         film_m: f64,
         roughness_m: f64,
     },
+    /// A lane's predicted hardness falls below zero, the bottom of any hardness scale: the
+    /// surface zone has almost no interlayer pressure, where the log map from pressure to
+    /// hardness no longer holds.
+    HardnessBelowScale {
+        /// Lanes past the limit (the worst is described).
+        lanes: u32,
+        /// Centre of the worst lane, m.
+        position_m: f64,
+        /// The lowest predicted hardness, scale units.
+        hardness: f64,
+    },
     /// A lane's predicted hardness is not a finite number.
     HardnessNotFinite {
         /// Lanes past the limit (the worst is described).

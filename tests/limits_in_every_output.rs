@@ -99,3 +99,33 @@ fn the_report_and_triage_carry_the_warning() {
     assert!(csv.lines().next().unwrap().ends_with(",warnings"), "{csv}");
     assert!(csv.contains("lift-off"), "{csv}");
 }
+
+/// A hardness scale has no negative readings (rebound and durometer scales run from 0; common
+/// practice). A stiff stack on an edge lane that dries at an open end loses all its surface-zone
+/// pressure, and the log map H = a + b ln P then predicts about -94 units: `age` and `fit` say
+/// so in their text and JSON, and `age` names the two edge lanes.
+#[test]
+fn a_hardness_below_the_scale_is_a_warning() {
+    let case = "field_cases/harrowgate_board_dry_store.yaml";
+    let stiff = "material.radial_modulus=20 MPa";
+    for cmd in ["age", "fit"] {
+        let (code, _, err) = run(&[cmd, case, "--set", stiff]);
+        assert!(code <= 1, "{cmd}: {err}");
+        // the text is wrapped to the terminal's width
+        let err = err.split_whitespace().collect::<Vec<_>>().join(" ");
+        assert!(
+            err.contains("warning:") && err.contains("below the bottom of any hardness scale"),
+            "{cmd} text: {err}"
+        );
+        let (_, out, _) = run(&[cmd, "--json", case, "--set", stiff]);
+        let v: serde_json::Value = serde_json::from_str(&out).expect(cmd);
+        let w = v["warnings"].as_array().expect("warnings array");
+        assert!(
+            w.iter()
+                .any(|x| x.as_str().unwrap().contains("hardness scale")),
+            "{cmd} JSON: {w:?}"
+        );
+    }
+    let (_, _, err) = run(&["age", case, "--set", stiff]);
+    assert!(err.contains("2 lanes (worst at 12 mm)"), "{err}");
+}

@@ -341,6 +341,14 @@ pub fn limit(l: &crate::note::Limit) -> String {
             "{}: moisture reaches {moisture_pct:.2} %, above the isotherm's saturation {saturation_pct:.2} %; {SO} (material.sorption, storage)",
             at(lanes, position_m)
         ),
+        Limit::HardnessBelowScale {
+            lanes,
+            position_m,
+            hardness,
+        } => format!(
+            "{}: the predicted hardness falls to {hardness:.1}, below the bottom of any hardness scale: the surface zone has almost no interlayer pressure, where the map H = a + b ln P no longer holds, so hardness readings there cannot test the model (hardness.calibration)",
+            at(lanes, position_m)
+        ),
         Limit::HardnessNotFinite { lanes, position_m } => format!(
             "{}: the predicted hardness is not a finite number; {SO} (hardness.calibration)",
             at(lanes, position_m)
