@@ -271,14 +271,12 @@ pub fn note(n: &Note) -> String {
     }
 }
 
+/// What a passed limit means for the results, in the limits' sentences.
+const SO: &str = "results that depend on it are not physical; check the inputs";
+
 /// A physical limit passed, as a sentence that says what it means for the findings.
 pub fn limit(l: &crate::note::Limit) -> String {
     use crate::note::{Limit, Strength};
-    const SO: &str = "results that depend on it are not physical; check the inputs";
-    let at = |lanes: u32, position_m: f64| match lanes {
-        1 => format!("lane at {:.0} mm", position_m * 1e3),
-        n => format!("{n} lanes (worst at {:.0} mm)", position_m * 1e3),
-    };
     match *l {
         Limit::AboveLiftOff {
             speed_m_s,
@@ -341,6 +339,22 @@ pub fn limit(l: &crate::note::Limit) -> String {
             "{}: moisture reaches {moisture_pct:.2} %, above the isotherm's saturation {saturation_pct:.2} %; {SO} (material.sorption, storage)",
             at(lanes, position_m)
         ),
+        Limit::HardnessBelowScale { .. } | Limit::HardnessNotFinite { .. } => hardness_limit(l),
+    }
+}
+
+/// Which lanes passed a limit: the one, or how many and the worst.
+fn at(lanes: u32, position_m: f64) -> String {
+    match lanes {
+        1 => format!("lane at {:.0} mm", position_m * 1e3),
+        n => format!("{n} lanes (worst at {:.0} mm)", position_m * 1e3),
+    }
+}
+
+/// The predicted-hardness limits as sentences (the other limits: [`limit`]).
+fn hardness_limit(l: &crate::note::Limit) -> String {
+    use crate::note::Limit;
+    match *l {
         Limit::HardnessBelowScale {
             lanes,
             position_m,
@@ -353,6 +367,7 @@ pub fn limit(l: &crate::note::Limit) -> String {
             "{}: the predicted hardness is not a finite number; {SO} (hardness.calibration)",
             at(lanes, position_m)
         ),
+        _ => limit(l),
     }
 }
 
