@@ -303,7 +303,7 @@ pub fn after_storage(a: &Aged, material: &Material, roll: &Roll) -> Vec<Note> {
             .copied()
             .filter(|h| !h.is_nan())
             .fold(f64::INFINITY, f64::min);
-        (l.position_m, (h < 0.0).then_some(-h))
+        (l.position_m, past(-h, 0.0))
     });
     if let Some((lanes, position_m, depth)) = worst(low) {
         out.push(Note::Limit(Limit::HardnessBelowScale {

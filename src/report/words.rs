@@ -391,7 +391,7 @@ fn unwind_limit(l: &crate::note::Limit) -> String {
             film_m,
             roughness_m,
         } => format!(
-            "the air film entrained at full diameter ({:.1} um) exceeds the faces' combined roughness ({:.1} um) by enough to take away all the wound-in tension: the outer wraps float on air and the model holds their wound-in tension at zero; results that depend on it are not physical; check the inputs",
+            "the air film entrained at full diameter ({:.1} um) exceeds the faces' combined roughness ({:.1} um) by enough to take away all the wound-in tension: the outer wraps float on air and the model holds their wound-in tension at zero; {SO}",
             film_m * 1e6,
             roughness_m * 1e6
         ),

@@ -113,38 +113,21 @@ pub fn radial_faces(r0: f64, r1: f64, cells: usize) -> Vec<f64> {
         .collect()
 }
 
-/// Water condensed on a roll's faces: kg per m2 of face, on the barrel and/or the two ends.
-#[derive(Debug, Clone, Copy, PartialEq)]
-pub struct Deposit {
-    pub kg_m2: f64,
-    pub barrel: bool,
-    pub ends: bool,
-}
-
 /// Put `kg_m2` of water (per m2 of face) into `cells` of `m` in order, each up to `cap_pct`;
-/// cell k holds `per_point(depth[k])` kg/m2 per point. What is left stays in the first cell.
-fn fill(
-    m: &mut [f64],
-    cells: &[usize],
-    depth: &[f64],
-    kg_m2: f64,
-    cap_pct: f64,
-    per_point: impl Fn(f64) -> f64,
-) {
+/// cell k takes `unit[k]` kg/m2 per point. What is left stays in the first cell.
+fn fill(m: &mut [f64], cells: &[usize], unit: &[f64], kg_m2: f64, cap_pct: f64) {
     let mut left = kg_m2;
-    for (k, &c) in cells.iter().enumerate() {
-        let unit = per_point(depth[k]);
-        if left <= 0.0 || unit <= 0.0 {
+    for (&c, &u) in cells.iter().zip(unit) {
+        if left <= 0.0 || u <= 0.0 {
             break;
         }
-        let room = (cap_pct - m[c]).max(0.0) * unit;
-        let take = left.min(room);
-        m[c] += take / unit;
+        let take = left.min((cap_pct - m[c]).max(0.0) * u);
+        m[c] += take / u;
         left -= take;
     }
     if left > 0.0 {
-        if let (Some(&c), Some(&d)) = (cells.first(), depth.first()) {
-            m[c] += left / per_point(d);
+        if let (Some(&c), Some(&u)) = (cells.first(), unit.first()) {
+            m[c] += left / u;
         }
     }
 }
@@ -186,34 +169,43 @@ impl Field {
     /// room) whatever the cells (putting all of it into the face cell made its moisture grow as
     /// the cell shrank: 67 % on a 64-cell grid). Water beyond the whole column's room (a face
     /// more than saturated through) stays in the face cell. Diffusion then carries it on.
-    pub fn deposit(&mut self, water: Deposit, density_kg_m3: f64, cap_pct: f64) {
+    pub fn deposit(
+        &mut self,
+        water_kg_m2: f64,
+        barrel: bool,
+        ends: bool,
+        density_kg_m3: f64,
+        cap_pct: f64,
+    ) {
         let (nx, nr) = (self.x.len(), self.nr());
-        if nx == 0 || nr == 0 || !(water.kg_m2 > 0.0 && density_kg_m3 > 0.0) {
+        if nx == 0 || nr == 0 || !(water_kg_m2 > 0.0 && density_kg_m3 > 0.0) {
             return;
         }
-        // kg of water per m2 of face that raises a cell of volume/area `depth` (m) by one point
-        let per_point = |depth: f64| density_kg_m3 * depth / 100.0;
-        if water.barrel {
+        // kg of water per m2 of face that raises a cell by one point: density x the cell's
+        // volume over the face's area / 100
+        if barrel {
+            // from the barrel in, the same for every column: r dr / R (per radian and dx)
             let big_r = self.faces[nr];
+            let unit: Vec<f64> = (0..nr)
+                .rev()
+                .map(|j| {
+                    density_kg_m3 * (self.r[j] * (self.faces[j + 1] - self.faces[j]) / big_r)
+                        / 100.0
+                })
+                .collect();
             for ix in 0..nx {
-                // from the barrel in: a cell's volume over the barrel's area (per radian and
-                // dx), r dr / R
-                let depth: Vec<f64> = (0..nr)
-                    .rev()
-                    .map(|j| self.r[j] * (self.faces[j + 1] - self.faces[j]) / big_r)
-                    .collect();
                 let cells: Vec<usize> = (0..nr).rev().map(|j| ix * nr + j).collect();
-                fill(&mut self.m, &cells, &depth, water.kg_m2, cap_pct, per_point);
+                fill(&mut self.m, &cells, &unit, water_kg_m2, cap_pct);
             }
         }
-        if water.ends {
-            // a cell's volume over the end face's area: dx
-            let depth = vec![self.dx; nx];
+        if ends {
+            // from each end face in: dx
+            let unit = vec![density_kg_m3 * self.dx / 100.0; nx];
             for j in 0..nr {
                 let front: Vec<usize> = (0..nx).map(|ix| ix * nr + j).collect();
                 let back: Vec<usize> = (0..nx).rev().map(|ix| ix * nr + j).collect();
-                fill(&mut self.m, &front, &depth, water.kg_m2, cap_pct, per_point);
-                fill(&mut self.m, &back, &depth, water.kg_m2, cap_pct, per_point);
+                fill(&mut self.m, &front, &unit, water_kg_m2, cap_pct);
+                fill(&mut self.m, &back, &unit, water_kg_m2, cap_pct);
             }
         }
     }
@@ -330,12 +322,7 @@ mod tests {
         };
         let mut f = Field::new(width, nx, faces.clone(), 8.0, 1e-9, 1e-12);
         let before = water_of(&f);
-        let water = Deposit {
-            kg_m2: 0.01,
-            barrel: true,
-            ends: true,
-        };
-        f.deposit(water, rho, 20.0);
+        f.deposit(0.01, true, true, rho, 20.0);
         let (r0, r1) = (faces[0], faces[faces.len() - 1]);
         let want = 0.01 * (r1 * width + (r1 * r1 - r0 * r0));
         let got = water_of(&f) - before;
@@ -360,12 +347,7 @@ mod tests {
         for n in [32, 128, 512] {
             let faces = radial_faces(0.05, 0.5, n);
             let mut f = Field::new(1.0, 4, faces.clone(), m0, 1e-9, 1e-12);
-            let water = Deposit {
-                kg_m2: w,
-                barrel: true,
-                ends: false,
-            };
-            f.deposit(water, rho, cap);
+            f.deposit(w, true, false, rho, cap);
             let nr = f.nr();
             let col = &f.m[nr..2 * nr];
             assert!(col.iter().all(|&m| m <= cap + 1e-12), "{n} cells");

@@ -105,7 +105,7 @@ pub fn timeline(storage: &[Stretch], output_times_s: &[f64], opt: &AgeOptions) -
     let q = if n > 1 {
         LAST_OVER_FIRST.powf(1.0 / (n - 1) as f64)
     } else {
-        2.0
+        2.0 // unused: one step spans the segment
     };
     let mut steps = Vec::new();
     let mut times = vec![0.0];
@@ -307,12 +307,7 @@ fn compute_moisture(
         if st.stretch != entered {
             entered = st.stretch;
             for c in wet.iter().filter(|c| c.stretch == st.stretch) {
-                let water = super::moisture::Deposit {
-                    kg_m2: c.water_kg_m2,
-                    barrel: c.barrel,
-                    ends: c.ends,
-                };
-                field.deposit(water, m.density_kg_m3, saturated);
+                field.deposit(c.water_kg_m2, c.barrel, c.ends, m.density_kg_m3, saturated);
             }
         }
         field.step(st.dt, &surf[st.stretch]);
