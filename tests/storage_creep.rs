@@ -50,7 +50,7 @@ fn step_response_under_constant_stress_matches_creep_compliance() {
     let t_end = 60.0 * 86400.0;
     let dt = t_end / n as f64;
     for k in 1..=n {
-        step_update(&b, 0.0, sigma / e, &mut st, dt, 0.0);
+        step_update(&b, 0.0, sigma / e, sigma / e, &mut st, dt, 0.0);
         let t = k as f64 * dt;
         if k % 5000 == 0 {
             let eps = sigma / e + st.delayed + st.permanent;
@@ -78,8 +78,9 @@ fn relaxation_under_fixed_strain_matches_closed_form() {
     let dt = t_end / n as f64;
     for k in 1..=n {
         let (e_hat, h) = step_coefficients(&b, 0.0, e, sigma / e, &st, dt, 0.0);
+        let before = sigma;
         sigma += e_hat * (0.0 - h);
-        step_update(&b, 0.0, sigma / e, &mut st, dt, 0.0);
+        step_update(&b, 0.0, before / e, sigma / e, &mut st, dt, 0.0);
         if k % 8000 == 0 {
             let t = k as f64 * dt;
             let want = eps0 * relaxation_modulus(&b, e, t);
@@ -107,9 +108,9 @@ fn moisture_cycling_accelerates_creep() {
     let g = 2e-3;
     let (mut steady, mut cycled) = (CreepState::default(), CreepState::default());
     for k in 0..100 {
-        step_update(&b, 0.5, g, &mut steady, 3600.0, 0.0);
+        step_update(&b, 0.5, g, g, &mut steady, 3600.0, 0.0);
         let dmc = if (k / 10) % 2 == 0 { 0.2 } else { -0.2 };
-        step_update(&b, 0.5, g, &mut cycled, 3600.0, dmc);
+        step_update(&b, 0.5, g, g, &mut cycled, 3600.0, dmc);
     }
     let _ = e;
     assert!(
@@ -118,4 +119,36 @@ fn moisture_cycling_accelerates_creep() {
         cycled.permanent,
         steady.permanent
     );
+}
+
+/// Mechano-sorptive relaxation at a fixed strain, d g / d s = -g with s = m_s |MC change|, keeps
+/// e^-s of the stress, exactly, in one step of any size: the exponential algorithm of Taylor,
+/// Pister and Goudreau (1970), Int. J. Numer. Meth. Eng. 2:45-59 (from memory), is exact for a
+/// strain rate constant over the step. Backward Euler would keep 1/(1 + s): 0.25 instead of
+/// e^-3 = 0.0498 for s = 3. Under a constant stress the same step adds s g of creep, the
+/// Haslach (2000) form d eps = m_s g |dMC| integrated exactly.
+#[test]
+fn mechano_sorptive_step_is_exact_at_fixed_strain_and_at_fixed_stress() {
+    let b = Burgers {
+        delayed: 0.0,
+        retardation_s: 86400.0,
+        viscous_time_s: f64::INFINITY,
+    };
+    let (e, m_s) = (5e9, 0.5);
+    for &dmc in &[0.01, 0.4, 6.0] {
+        let s = m_s * dmc;
+        // fixed strain, one step
+        let sigma0 = 10e6;
+        let mut st = CreepState::default();
+        let (e_hat, h) = step_coefficients(&b, m_s, e, sigma0 / e, &st, 3600.0, dmc);
+        let sigma1 = sigma0 + e_hat * (0.0 - h);
+        assert_relative_eq!(sigma1 / sigma0, (-s).exp(), max_relative = 1e-12);
+        step_update(&b, m_s, sigma0 / e, sigma1 / e, &mut st, 3600.0, dmc);
+        // the strain is unchanged: elastic + permanent = the initial elastic strain
+        assert_relative_eq!(sigma1 / e + st.permanent, sigma0 / e, max_relative = 1e-12);
+        // fixed stress, one step
+        let mut held = CreepState::default();
+        step_update(&b, m_s, sigma0 / e, sigma0 / e, &mut held, 3600.0, dmc);
+        assert_relative_eq!(held.permanent, s * sigma0 / e, max_relative = 1e-12);
+    }
 }

@@ -226,13 +226,17 @@ impl<'a, T: Real> Cells<'a, T> {
         if drv.fits(p.retardation_s, ms) {
             // the rates of [`step_rates_of`], from the parts the drive holds
             let (kel_t, kel_r) = (&drv.kelvin[0][span.clone()], &drv.kelvin[1][span.clone()]);
-            let msd = &drv.msd[span.clone()];
+            let (msd, msd_c) = (&drv.msd[span.clone()], &drv.msd_c[span.clone()]);
             let fluid = p.viscous_time_s.map(|t| T::splat(1.0) / t);
             for j in 0..nr {
-                let part = |kel: &Rates, fluid: T| Rates {
-                    kelvin: kel.kelvin,
-                    keep: kel.keep,
-                    viscous: fluid * dxi[j] + msd[j],
+                let part = |kel: &Rates, fluid: T| {
+                    let flow = fluid * dxi[j];
+                    Rates {
+                        kelvin: kel.kelvin,
+                        keep: kel.keep,
+                        viscous: flow + msd[j],
+                        relaxed: flow + msd_c[j],
+                    }
                 };
                 self.rate_t[j] = part(&kel_t[j], fluid[0]);
                 self.rate_r[j] = part(&kel_r[j], fluid[1]);
@@ -380,11 +384,23 @@ impl<'a, T: Real> Cells<'a, T> {
         let compliance = 1.0 / mat.md_modulus_pa;
         for j in 0..self.r.len() {
             let g = self.st[j] * compliance;
+            step_update_at(
+                p.delayed[0],
+                self.g_t[j],
+                g,
+                &mut self.ct[j],
+                self.rate_t[j],
+            );
             self.g_t[j] = g;
-            step_update_at(p.delayed[0], g, &mut self.ct[j], self.rate_t[j]);
             let (g, e) = radial_elastic(&mat.stack, -self.sr[j]);
+            step_update_at(
+                p.delayed[1],
+                self.g_r[j],
+                g,
+                &mut self.cr[j],
+                self.rate_r[j],
+            );
             (self.g_r[j], self.etan_r[j]) = (g, e);
-            step_update_at(p.delayed[1], g, &mut self.cr[j], self.rate_r[j]);
         }
     }
 }

@@ -76,14 +76,19 @@ pub struct CreepState<T = f64> {
     pub permanent: T,
 }
 
-/// One backward-Euler step of the Burgers law, linearised about the current stress.
+/// One step of the Burgers law, linearised about the current stress.
 ///
 /// The elastic strain is g(sigma) (sigma/E for MD; the stack law for the radial direction), with
 /// tangent modulus `e_tan` = d sigma / d g. Over a reduced-time step `dxi` (s) with moisture change
 /// `dmc` (percentage points) the stress increment is d sigma = E_hat (d eps - h), where
-/// 1/E_hat = (1 + b + a phi/(1+a)) / e_tan, h = g_n (b + a phi/(1+a)) - a eps_K/(1+a),
+/// 1/E_hat = (c + a phi/(1+a)) / e_tan, h = g_n (b + a phi/(1+a)) - a eps_K/(1+a),
 /// a = dxi/tau_K, b = dxi/tau_v + m_s |dmc| (mechano-sorptive creep, Haslach 2000 form
-/// d eps_ms = m_s g |dMC|, from memory). Returns (E_hat, h).
+/// d eps_ms = m_s g |dMC|, from memory) and c = b / (1 - e^-b). The Kelvin element steps by
+/// backward Euler. The viscous and mechano-sorptive part is integrated exactly for a strain
+/// rate that is constant over the step, the exponential algorithm of Taylor, Pister and
+/// Goudreau (1970), Int. J. Numer. Meth. Eng. 2:45-59 (from memory): at a fixed strain the
+/// elastic strain keeps e^-b of itself, where backward Euler (c = 1 + b) keeps 1/(1 + b), and
+/// under a constant stress the viscous strain grows by b g. Returns (E_hat, h).
 pub fn step_coefficients(
     b: &Burgers,
     mech_sorptive: f64,
@@ -113,18 +118,33 @@ pub struct Rates<T = f64> {
     pub keep: f64,
     /// b = dxi / tau_v + m_s |dmc|: the viscous and mechano-sorptive part.
     pub viscous: T,
+    /// c = x + c(m) ([`Rates::new`], [`exponential_ratio`]): 1 + b for backward Euler.
+    pub relaxed: T,
 }
 
-impl<T> Rates<T> {
-    /// The rates from a = dxi / tau_K and b.
+impl<T: Real> Rates<T> {
+    /// The rates from a = dxi / tau_K, the viscous flow x = dxi / tau_v of each run, and the
+    /// mechano-sorptive part m = m_s |dmc| with its [`exponential_ratio`] `c_m`: b = x + m and
+    /// c = x + c_m.
     #[inline]
-    pub fn new(a: f64, viscous: T) -> Rates<T> {
+    pub fn new(a: f64, flow: T, sorptive: f64, c_m: f64) -> Rates<T> {
         let keep = 1.0 / (1.0 + a);
         Rates {
             kelvin: a * keep,
             keep,
-            viscous,
+            viscous: flow + sorptive,
+            relaxed: flow + c_m,
         }
+    }
+}
+
+/// c(m) = m / (1 - e^-m) for m >= 0 (dimensionless): 1 + m/2 + m^2/12 + ... for small m, m for
+/// large m; 1 at m = 0.
+pub fn exponential_ratio(m: f64) -> f64 {
+    if m > 1e-9 {
+        m / -(-m).exp_m1()
+    } else {
+        1.0 + 0.5 * m
     }
 }
 
@@ -144,10 +164,12 @@ pub fn step_rates_of<T: Real>(
     dxi: f64,
     dmc: f64,
 ) -> Rates<T> {
-    let a = dxi / retardation_s;
+    let m = mech_sorptive * dmc.abs();
     Rates::new(
-        a,
-        T::splat(dxi) / viscous_time_s + mech_sorptive * dmc.abs(),
+        dxi / retardation_s,
+        T::splat(dxi) / viscous_time_s,
+        m,
+        exponential_ratio(m),
     )
 }
 
@@ -162,15 +184,17 @@ pub fn step_coefficients_at<T: Real>(
     rates: Rates<T>,
 ) -> (T, T) {
     let k = delayed * rates.kelvin;
-    let e_hat = e_tan / (rates.viscous + 1.0 + k);
+    let e_hat = e_tan / (rates.relaxed + k);
     let h = g_n * (rates.viscous + k) - st.delayed * rates.kelvin;
     (e_hat, h)
 }
 
-/// Update the internal strains after a step, given the elastic strain g at the end of the step.
+/// Update the internal strains after a step, given the elastic strain at its start `g_prev` and
+/// at its end `g_next`.
 pub fn step_update(
     b: &Burgers,
     mech_sorptive: f64,
+    g_prev: f64,
     g_next: f64,
     st: &mut CreepState,
     dxi: f64,
@@ -178,6 +202,7 @@ pub fn step_update(
 ) {
     step_update_at(
         b.delayed,
+        g_prev,
         g_next,
         st,
         step_rates(b, mech_sorptive, dxi, dmc),
@@ -185,9 +210,35 @@ pub fn step_update(
 }
 
 /// [`step_update`] with the element's `delayed` and the step's rates from [`step_rates`]: the
-/// delayed strain moves to (eps_K + a delayed g) / (1 + a).
+/// delayed strain moves to (eps_K + a delayed g) / (1 + a); the viscous strain grows by
+/// (c - 1) g_next + (b + 1 - c) g_prev, which is b g_next for backward Euler (c = 1 + b).
 #[inline]
-pub fn step_update_at<T: Real>(delayed: T, g_next: T, st: &mut CreepState<T>, rates: Rates<T>) {
+pub fn step_update_at<T: Real>(
+    delayed: T,
+    g_prev: T,
+    g_next: T,
+    st: &mut CreepState<T>,
+    rates: Rates<T>,
+) {
     st.delayed = st.delayed * rates.keep + delayed * rates.kelvin * g_next;
-    st.permanent += rates.viscous * g_next;
+    let c = rates.relaxed;
+    st.permanent += (c - 1.0) * g_next + (rates.viscous - c + 1.0) * g_prev;
+}
+
+#[cfg(test)]
+mod tests {
+    use super::exponential_ratio;
+
+    /// c(m) = m / (1 - e^-m) has the series 1 + m/2 + m^2/12 - m^4/720 (the Bernoulli-number
+    /// generating function, Abramowitz and Stegun 1964, 23.1.1): the two branches meet at the
+    /// switch, and the large-m limit is m.
+    #[test]
+    fn exponential_ratio_follows_its_series_and_limit() {
+        for &m in &[1e-12_f64, 1e-9, 1.0000001e-9, 1e-6, 1e-3, 0.01] {
+            let series = 1.0 + m / 2.0 + m * m / 12.0 - m.powi(4) / 720.0;
+            assert!((exponential_ratio(m) - series).abs() < 1e-15, "m = {m}");
+        }
+        assert_eq!(exponential_ratio(0.0), 1.0);
+        assert!((exponential_ratio(40.0) / 40.0 - 1.0).abs() < 1e-15);
+    }
 }

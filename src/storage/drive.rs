@@ -3,7 +3,7 @@
 //! mechanics (a fit runs a lane hundreds of times).
 
 use super::ageing::Prepared;
-use super::creep::Rates;
+use super::creep::{exponential_ratio, Rates};
 use super::shift::{arrhenius_shift, moisture_shift};
 use crate::case::Material;
 use std::sync::OnceLock;
@@ -20,6 +20,8 @@ pub struct LaneDrive {
     /// for the grade's mechano-sorptive coefficient `ms` (/%).
     pub(super) kelvin: [Vec<Rates>; 2],
     pub(super) msd: Vec<f64>,
+    /// c(msd) = msd / (1 - e^-msd) ([`exponential_ratio`]; index as `dxi`).
+    pub(super) msd_c: Vec<f64>,
     ret: [f64; 2],
     ms: f64,
 }
@@ -108,9 +110,15 @@ fn compute(material: &Material, prep: &Prepared, lane: usize) -> LaneDrive {
     }
     let ret = [mat.creep.md.retardation_s, mat.creep.radial.retardation_s];
     let ms = mat.creep.mechanosorptive_per_pct;
+    let msd: Vec<f64> = dmc.iter().map(|d| ms * d.abs()).collect();
     LaneDrive {
-        kelvin: ret.map(|t| dxi.iter().map(|x| Rates::new(x / t, 0.0)).collect()),
-        msd: dmc.iter().map(|d| ms * d.abs()).collect(),
+        kelvin: ret.map(|t| {
+            dxi.iter()
+                .map(|x| Rates::new(x / t, 0.0, 0.0, 1.0))
+                .collect()
+        }),
+        msd_c: msd.iter().map(|&m| exponential_ratio(m)).collect(),
+        msd,
         ret,
         ms,
         dxi,
