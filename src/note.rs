@@ -87,6 +87,21 @@ pub enum Note {
         noise_chance: f64,
         level: f64,
     },
+    /// A finding that comes from the lanes' caliper (and web) profiles alone, while those
+    /// profiles do not stand above what measurement noise alone makes: no finding
+    /// ([`crate::diagnose::confidence`]).
+    OnProfileNoise {
+        defect: Defect,
+        feature: Feature,
+        /// The deciding feature's value, and its value with the lanes' calipers and web profiles
+        /// made uniform (each lane's fitted creep kept), in the feature's own unit.
+        value: f64,
+        flattened: f64,
+        /// Chance that noise alone makes profiles as uneven as the measured ones (the smaller of
+        /// the caliper band and web-profile tests), and the level a finding needs.
+        profile_chance: f64,
+        level: f64,
+    },
     /// A rule that fired on the fitted roll holds in fewer than half of the plausible states.
     Unlikely {
         defect: Defect,

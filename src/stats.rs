@@ -1,5 +1,6 @@
 //! Distributions the noise test needs: Student's t upper tail and quantile, from the regularised
-//! incomplete beta function. Pure functions, no state.
+//! incomplete beta function, and the chi-square upper tail (the profile test), from the
+//! regularised incomplete gamma function. Pure functions, no state.
 //!
 //! A new noise deviation, predicted from `n` noise-only rolls with sample mean `m` and standard
 //! deviation `s`, is distributed as `m + s sqrt(1 + 1/n) T` with `T` Student's t on `n - 1`
@@ -128,6 +129,63 @@ pub fn student_t_isf(p: f64, nu: f64) -> f64 {
         }
     }
     0.5 * (lo + hi)
+}
+
+/// Regularised upper incomplete gamma function Q(a, x) = Gamma(a, x) / Gamma(a) for a > 0,
+/// x >= 0: the series of P = 1 - Q below x = a + 1, the continued fraction of Q above (modified
+/// Lentz; Press et al. 2007, "Numerical Recipes", 3rd ed., section 6.2, eqs. 6.2.5 and 6.2.7).
+pub fn gamma_q(a: f64, x: f64) -> f64 {
+    if x.is_nan() || a.is_nan() {
+        return f64::NAN;
+    }
+    if x <= 0.0 {
+        return 1.0;
+    }
+    let front = (a * x.ln() - x - ln_gamma(a)).exp();
+    if x < a + 1.0 {
+        // P(a, x) = e^-x x^a / Gamma(a + 1) sum_n x^n / ((a + 1) ... (a + n))
+        let (mut term, mut sum, mut ap) = (1.0 / a, 1.0 / a, a);
+        for _ in 0..1000 {
+            ap += 1.0;
+            term *= x / ap;
+            sum += term;
+            if term.abs() < sum.abs() * 1e-16 {
+                break;
+            }
+        }
+        (1.0 - front * sum).max(0.0)
+    } else {
+        let tiny = 1e-300;
+        let mut b = x + 1.0 - a;
+        let mut c = 1.0 / tiny;
+        let mut d = 1.0 / b;
+        let mut h = d;
+        for i in 1..1000 {
+            let an = -(i as f64) * (i as f64 - a);
+            b += 2.0;
+            d = an * d + b;
+            if d.abs() < tiny {
+                d = tiny;
+            }
+            c = b + an / c;
+            if c.abs() < tiny {
+                c = tiny;
+            }
+            d = 1.0 / d;
+            let del = d * c;
+            h *= del;
+            if (del - 1.0).abs() < 1e-16 {
+                break;
+            }
+        }
+        front * h
+    }
+}
+
+/// Upper tail P(X >= x) of the chi-square law with `k` degrees of freedom (k > 0):
+/// Q(k/2, x/2) (Abramowitz and Stegun 1964, 26.4.19).
+pub fn chi2_sf(x: f64, k: f64) -> f64 {
+    gamma_q(0.5 * k, 0.5 * x)
 }
 
 #[cfg(test)]

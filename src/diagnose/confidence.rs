@@ -25,8 +25,13 @@
 //!   ([`super::profile_test::web_test`]), one more test in the family; for a
 //!   caliper band (deciding feature `caliper_range_pct`) from the readings themselves
 //!   ([`BandTest`], Monte Carlo, no winding). A finding whose rule holds in fewer than half of
-//!   the plausible states is dropped too. Dropped findings get a note; a note states the
-//!   resolution (the smallest caliper band, lane excess and centre-to-edges difference that pass).
+//!   the plausible states is dropped too.
+//! - **Profiles within noise.** A feature that jumps (a lane going slack) has a heavier tail than
+//!   the noise rolls predict. When neither the caliper band nor the web profile stands above
+//!   noise, a finding that goes away with the lanes made uniform (fitted creep kept) rests on
+//!   differences noise alone can make and is dropped ([`Note::OnProfileNoise`]).
+//! - Dropped findings get a note; a note states the resolution (the smallest caliper band, lane
+//!   excess and centre-to-edges difference that pass).
 //! - **Grading.** Likelihood from the probability (high at 0.9 or more, medium at 0.6, else low),
 //!   never above the rule's own label, and high only with a clear margin over noise
 //!   ([`NoiseTest::clear`]).
@@ -40,8 +45,11 @@
 //! **Invariant:** no prose; notes carry numbers (positions in m, lengths in mm per m of web).
 
 use super::features::{self, Features};
-use super::noise::{caliper_repeatability, noise_floor, rests_on_web, Floor, Side};
+use super::noise::{
+    caliper_repeatability, flattened_features, noise_floor, rests_on_web, Floor, Side,
+};
 pub use super::noise::{FeatureFloor, FAMILY_LEVEL, FLOOR_QUANTILE, NOISE_NODES, NOISE_ROLLS};
+use super::profile_test::caliper_unevenness;
 pub use super::profile_test::BAND_DRAWS;
 use super::{DiagnoseError, Finding, Fitted};
 use crate::case::Case;
@@ -107,6 +115,10 @@ pub fn assess(
     let states = posterior_states(&lab, fitted)?;
     let fl = noise_floor(&lab, fitted, table, nodes)?;
     let mut below_floor = drop_below_floor(table, feats, &fl, findings, notes);
+    let on_noise = (case, fitted, nodes);
+    below_floor.extend(drop_on_profile_noise(
+        on_noise, table, feats, &fl, findings, notes,
+    )?);
     grade_findings(table, feats, &fl, &states, findings);
     findings.retain(|f| {
         let keep = f.probability >= 0.5;
@@ -251,6 +263,56 @@ fn drop_below_floor(
         false
     });
     below
+}
+
+/// Drop the findings that come from the lanes' profiles alone while the profiles do not stand
+/// above noise, with a note each; their rules.
+///
+/// The noise rolls predict a feature's tail from a few dozen rolls as if it were smooth; a
+/// feature that jumps (a lane going slack makes the strength ratios leap) has a heavier tail
+/// than that. So when neither the caliper readings' unevenness test
+/// ([`super::profile_test::unevenness_chance`]: an outlying reading, the spread, a wedge or a
+/// crown) nor the web-profile test stands at the family's level, the roll is run once more with uniform lanes and each lane's fitted creep
+/// ([`flattened_features`]); a finding whose deciding condition no longer holds there rests on
+/// profile differences that noise alone can make, and is dropped. Findings the noise-free
+/// uniform roll already gives are left.
+fn drop_on_profile_noise(
+    (case, fitted, nodes): (&Case, &Fitted, usize),
+    table: &Table,
+    feats: &Features,
+    fl: &Floor,
+    findings: &mut Vec<Finding>,
+    notes: &mut Vec<Note>,
+) -> Result<Vec<String>, DiagnoseError> {
+    let (rep, _) = caliper_repeatability(case);
+    let calipers = caliper_unevenness(case, &fitted.lanes, rep, fl.band.chance);
+    let profile_chance = fl.web.as_ref().map_or(calipers, |w| w.chance.min(calipers));
+    let rule_of = |f: &Finding| table.rules.iter().find(|r| r.id == f.rule);
+    let asks = |f: &Finding| rule_of(f).is_some_and(|r| !noise_test(r, feats, fl).own);
+    if profile_chance <= fl.level || !findings.iter().any(asks) {
+        return Ok(Vec::new());
+    }
+    let flat = flattened_features(case, fitted, nodes)?;
+    let mut dropped = Vec::new();
+    findings.retain(|f| {
+        let Some(c) = rule_of(f).filter(|_| asks(f)).and_then(|r| r.when.first()) else {
+            return true;
+        };
+        if c.holds(flat.get(c.feature)) {
+            return true;
+        }
+        dropped.push(f.rule.clone());
+        notes.push(Note::OnProfileNoise {
+            defect: f.defect,
+            feature: c.feature,
+            value: feats.get(c.feature),
+            flattened: flat.get(c.feature),
+            profile_chance,
+            level: fl.level,
+        });
+        false
+    });
+    Ok(dropped)
 }
 
 /// Each finding's probability over the states and its likelihood graded from it.

@@ -290,6 +290,19 @@ fn roll_features(
     Ok((features::compute(lab, lanes, &o), found))
 }
 
+/// Features of the diagnosed roll with its lanes' calipers and web profiles made uniform (the
+/// noise-free uniform lanes) and each lane's fitted creep kept, wound at the diagnosis's
+/// `nodes`: what the roll shows without its measured profiles.
+pub(super) fn flattened_features(
+    case: &Case,
+    fitted: &Fitted,
+    nodes: usize,
+) -> Result<Features, DiagnoseError> {
+    let l0 = uniform_lanes(case, &fitted.lanes, None);
+    let start = (fitted.wound.secant).scaled(fitted.lanes.mean_caliper_m, l0.mean_caliper_m);
+    roll_features(case, &l0, &fitted.creep, nodes, start).map(|(f, _)| f)
+}
+
 /// Creep per lane of a noise-only roll: the pooled log-scales moved by one of the lane's own
 /// posterior draws' deviations from its fitted log-scales (a random draw per lane), so the
 /// correlation of the two scales is kept; a scale the data do not identify does not move.

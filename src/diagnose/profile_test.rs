@@ -85,6 +85,78 @@ pub(super) fn band_test(
     outlier_test(&readings, rep, level, rng)
 }
 
+/// The unevenness test of the case's caliper readings (as [`band_test`] takes them, at their
+/// positions) with repeatability `rep` (m) and the band test's chance `outlier_chance`: the
+/// chance that noise alone makes them as uneven in some way ([`unevenness_chance`]).
+pub(super) fn caliper_unevenness(lab: &Case, lanes: &Lanes, rep: f64, outlier_chance: f64) -> f64 {
+    let (readings, positions) = densest(lab, Measure::Caliper).map_or_else(
+        || {
+            let c = lanes.lanes.iter().map(|l| l.caliper_m).collect();
+            (c, lanes.positions())
+        },
+        |p| (p.values.clone(), p.positions_m.clone()),
+    );
+    unevenness_chance(&readings, &positions, rep, outlier_chance)
+}
+
+/// The chance that noise alone makes `readings` (at `positions`, m) as uneven as they are in
+/// any of four ways, with one-sigma repeatability `rep` (the readings' unit):
+/// - the most outlying reading, `outlier_chance` (the band test);
+/// - the spread, sum (x - mean)^2 / rep^2: chi-square on n - 1 degrees of freedom;
+/// - a linear and a quadratic component across the width, (e_k . x)^2 / rep^2 with e_k the
+///   polynomials of position made orthonormal over the readings (Gram-Schmidt): chi-square on
+///   one degree of freedom each, the low-order components of Neyman's smooth test (Neyman 1937,
+///   Skandinavisk Aktuarietidskrift 20:149-199, from memory). A wedge or a crowned profile
+///   spreads over many readings and shows in these long before any one reading stands out.
+///
+/// The smallest chance times the number of tests made (Bonferroni), at most 1.
+pub(super) fn unevenness_chance(
+    readings: &[f64],
+    positions: &[f64],
+    rep: f64,
+    outlier_chance: f64,
+) -> f64 {
+    let n = readings.len().min(positions.len());
+    let var = rep.max(1e-300).powi(2);
+    let mut chances = vec![outlier_chance];
+    if n >= 2 {
+        let mean = readings[..n].iter().sum::<f64>() / n as f64;
+        let ss: f64 = readings[..n].iter().map(|x| (x - mean).powi(2)).sum();
+        chances.push(crate::stats::chi2_sf(ss / var, (n - 1) as f64));
+    }
+    // orthonormal polynomials of position over the readings: 1, then degree 1 and 2
+    let (lo, hi) = positions[..n]
+        .iter()
+        .fold((f64::INFINITY, f64::NEG_INFINITY), |(a, b), &x| {
+            (a.min(x), b.max(x))
+        });
+    let u: Vec<f64> = positions[..n]
+        .iter()
+        .map(|x| 2.0 * (x - lo) / (hi - lo).max(1e-12) - 1.0)
+        .collect();
+    let mut basis: Vec<Vec<f64>> = vec![vec![1.0 / (n.max(1) as f64).sqrt(); n]];
+    for degree in 1..=2i32 {
+        if n < degree as usize + 2 {
+            break;
+        }
+        let mut e: Vec<f64> = u.iter().map(|x| x.powi(degree)).collect();
+        for b in &basis {
+            let dot: f64 = e.iter().zip(b).map(|(x, y)| x * y).sum();
+            e.iter_mut().zip(b).for_each(|(x, y)| *x -= dot * y);
+        }
+        let norm = e.iter().map(|x| x * x).sum::<f64>().sqrt();
+        if norm < 1e-9 {
+            break;
+        }
+        e.iter_mut().for_each(|x| *x /= norm);
+        let c: f64 = e.iter().zip(readings).map(|(x, y)| x * y).sum();
+        chances.push(crate::stats::chi2_sf(c * c / var, 1.0));
+        basis.push(e);
+    }
+    let least = chances.iter().copied().fold(1.0, f64::min);
+    (least * chances.len() as f64).min(1.0)
+}
+
 /// The test of the web's own profile at winding: the tension profile's readings over their
 /// mean with [`TENSION_REPEATABILITY`], the moisture profile's with
 /// [`MOISTURE_REPEATABILITY_PCT`]; with both, twice the smaller chance (Bonferroni). `None`
@@ -116,4 +188,37 @@ pub(super) fn web_test(lab: &Case, level: f64, rng: &mut ChaCha8Rng) -> Option<B
             chance: (n * t.chance).min(1.0),
             threshold_sigmas: t.threshold_sigmas,
         })
+}
+
+#[cfg(test)]
+mod tests {
+    use super::unevenness_chance;
+
+    /// With the readings exactly on a line, the linear component carries the whole sum of
+    /// squares: for 20 evenly spaced readings of a +/-1.5 sigma wedge it is 16.579 sigma^2, whose
+    /// chi-square tail on 1 d.f. is 4.667e-5 (SciPy 1.17.1, `chi2.sf(16.579, 1)`); four tests
+    /// make 1.867e-4. The outlier chance is left at 1 (no reading stands out).
+    #[test]
+    fn a_wedge_is_uneven_by_its_linear_component() {
+        let n = 20;
+        let pos: Vec<f64> = (0..n).map(|i| i as f64 / (n - 1) as f64).collect();
+        let wedge: Vec<f64> = pos.iter().map(|u| 1.5 * (2.0 * u - 1.0)).collect();
+        let c = unevenness_chance(&wedge, &pos, 1.0, 1.0);
+        assert!((c / 1.867e-4 - 1.0).abs() < 1e-3, "{c}");
+        // a level profile is not uneven at all
+        assert_eq!(unevenness_chance(&[3.0; 20], &pos, 1.0, 1.0), 1.0);
+    }
+
+    /// Readings alternating +/-0.9 sigma around the mean: no reading outlies and no trend; the
+    /// spread is 20 (0.9)^2 = 16.2 sigma^2 on 19 d.f., chi-square tail 0.644 (SciPy 1.17.1,
+    /// `chi2.sf(16.2, 19)`), so not uneven. At +/-1.8 sigma it is 64.8, tail 6.6e-7 (same
+    /// source): four tests make 2.6e-6, uneven.
+    #[test]
+    fn an_alternating_pattern_is_uneven_by_its_spread() {
+        let pos: Vec<f64> = (0..20).map(|i| i as f64 * 0.03).collect();
+        let alt =
+            |a: f64| -> Vec<f64> { (0..20).map(|i| if i % 2 == 0 { a } else { -a }).collect() };
+        assert!(unevenness_chance(&alt(0.9), &pos, 1.0, 1.0) > 0.5);
+        assert!(unevenness_chance(&alt(1.8), &pos, 1.0, 1.0) < 1e-5);
+    }
 }

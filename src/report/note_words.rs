@@ -35,6 +35,22 @@ pub(super) fn confidence_note(n: &Note) -> String {
             crate::units::sig(uniform, 3),
             crate::units::sig(threshold, 2)
         ),
+        Note::OnProfileNoise {
+            defect,
+            feature,
+            value,
+            flattened,
+            profile_chance,
+            level,
+        } => format!(
+            "{} not reported: it comes from the lanes' caliper differences alone ({} is {} as measured, {} with the calipers made uniform and each lane's creep kept), and those differences are within what measurement noise alone makes (a chance of {} %; a profile must reach {} % or less to stand)",
+            defect_name(defect),
+            feature_name(feature),
+            crate::units::sig(value, 3),
+            crate::units::sig(flattened, 3),
+            crate::units::sig(profile_chance * 100.0, 2),
+            crate::units::sig(level * 100.0, 2)
+        ),
         Note::Unlikely { defect, probability } => format!(
             "{} not reported: its rule holds in only {:.0} % of the plausible states (posterior draws)",
             defect_name(defect),
