@@ -58,11 +58,10 @@ pub fn hardness_map(
 fn wound_in_ln_pressure(lanes: &Lanes, wound: &Wound, prep: &Prepared) -> Vec<f64> {
     let faces = &prep.moisture.faces;
     let r: Vec<f64> = faces.windows(2).map(|w| 0.5 * (w[0] + w[1])).collect();
-    let outer = faces[faces.len() - 1];
     (0..lanes.lanes.len().min(wound.lanes.len()))
         .map(|i| {
             let (sr, _) = initial_stress_of(wound, i, &r);
-            zone_pressure(&sr, &r, outer).max(1.0).ln()
+            zone_pressure(&sr, faces).max(1.0).ln()
         })
         .collect()
 }

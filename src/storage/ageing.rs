@@ -221,19 +221,26 @@ pub fn track_lane_pack<const B: usize>(
     }))
 }
 
-/// Mean interlayer pressure (Pa) in the outer [`SURFACE_ZONE_M`] of a lane, on the storage grid.
-pub fn zone_pressure<T: Real>(sr: &[T], r: &[f64], outer: f64) -> T {
-    let (sum, n) = r
-        .iter()
-        .zip(sr)
-        .filter(|(x, _)| **x >= outer - SURFACE_ZONE_M)
-        .fold((T::splat(0.0), 0usize), |(a, k), (_, &s)| (a - s, k + 1));
-    let p = if n == 0 {
-        -sr[sr.len() - 1]
-    } else {
-        sum / n as f64
-    };
-    p.max_f(0.0)
+/// Mean interlayer pressure (Pa) in the outer [`SURFACE_ZONE_M`] of a lane, on the storage grid
+/// with cell faces `faces` (m; one more than the cells of `sr`): each cell weighted by its
+/// thickness inside the zone, the integral over radius of the cells' piecewise-constant
+/// pressure (as the winding's summary integrates), so the mean does not depend on how the cells
+/// cluster at the surface.
+pub fn zone_pressure<T: Real>(sr: &[T], faces: &[f64]) -> T {
+    let n = sr.len().min(faces.len().saturating_sub(1));
+    if n == 0 {
+        return T::splat(0.0);
+    }
+    let from = faces[n] - SURFACE_ZONE_M;
+    let (mut sum, mut len) = (T::splat(0.0), 0.0);
+    for j in 0..n {
+        let w = faces[j + 1] - faces[j].max(from);
+        if w > 0.0 {
+            sum = sum - sr[j] * w;
+            len += w;
+        }
+    }
+    (sum / len.max(1e-300)).max_f(0.0)
 }
 
 /// A lane's initial radial and tangential stress on the storage grid `r` (m).

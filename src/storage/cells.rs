@@ -204,13 +204,12 @@ impl<'a, T: Real> Cells<'a, T> {
 
     /// The state handed to a recorder, with moisture `mc` at the cells.
     fn snapshot<'s>(&'s self, mc: &'s [f64], big_r0: f64) -> Snapshot<'s, T> {
-        let nr = self.r.len();
         Snapshot {
             mc,
             radial_stress_pa: &self.sr,
             tangential_stress_pa: &self.st,
             md_creep: &self.ct,
-            surface_pressure_pa: zone_pressure(&self.sr, self.r, self.f[nr]),
+            surface_pressure_pa: zone_pressure(&self.sr, self.f),
             diameter_m: (self.u_surface + big_r0) * 2.0,
         }
     }
