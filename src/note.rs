@@ -87,8 +87,8 @@ pub enum Note {
         noise_chance: f64,
         level: f64,
     },
-    /// A finding that comes from the lanes' caliper (and web) profiles alone, while those
-    /// profiles do not stand above what measurement noise alone makes: no finding
+    /// A finding that comes from the lanes' caliper (and tension or moisture) profiles alone,
+    /// while those profiles do not stand above what measurement noise alone makes: no finding
     /// ([`crate::diagnose::confidence`]).
     OnProfileNoise {
         defect: Defect,
@@ -98,7 +98,8 @@ pub enum Note {
         value: f64,
         flattened: f64,
         /// Chance that noise alone makes profiles as uneven as the measured ones (the smaller of
-        /// the caliper band and web-profile tests), and the level a finding needs.
+        /// the caliper readings' unevenness test and the web-profile test), and the level a
+        /// profile needs to stand.
         profile_chance: f64,
         level: f64,
     },

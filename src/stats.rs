@@ -141,6 +141,9 @@ pub fn gamma_q(a: f64, x: f64) -> f64 {
     if x <= 0.0 {
         return 1.0;
     }
+    if x == f64::INFINITY {
+        return 0.0;
+    }
     let front = (a * x.ln() - x - ln_gamma(a)).exp();
     if x < a + 1.0 {
         // P(a, x) = e^-x x^a / Gamma(a + 1) sum_n x^n / ((a + 1) ... (a + n))
@@ -183,7 +186,7 @@ pub fn gamma_q(a: f64, x: f64) -> f64 {
 }
 
 /// Upper tail P(X >= x) of the chi-square law with `k` degrees of freedom (k > 0):
-/// Q(k/2, x/2) (Abramowitz and Stegun 1964, 26.4.19).
+/// Q(k/2, x/2) (Abramowitz and Stegun 1964, 26.4.19, from memory).
 pub fn chi2_sf(x: f64, k: f64) -> f64 {
     gamma_q(0.5 * k, 0.5 * x)
 }

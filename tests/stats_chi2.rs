@@ -20,3 +20,12 @@ fn chi_square_tail_matches_scipy() {
     }
     assert_eq!(checked, 140);
 }
+
+/// The tail beyond an infinite statistic is 0 (a limit of the law's definition), and at 0 it is 1.
+#[test]
+fn chi_square_tail_ends_at_zero_and_one() {
+    for k in [1.0, 19.0, 4999.0] {
+        assert_eq!(chi2_sf(f64::INFINITY, k), 0.0);
+        assert_eq!(chi2_sf(0.0, k), 1.0);
+    }
+}

@@ -126,7 +126,7 @@ fn moisture_cycling_accelerates_creep() {
 /// Pister and Goudreau (1970), Int. J. Numer. Meth. Eng. 2:45-59 (from memory), is exact for a
 /// strain rate constant over the step. Backward Euler would keep 1/(1 + s): 0.25 instead of
 /// e^-3 = 0.0498 for s = 3. Under a constant stress the same step adds s g of creep, the
-/// Haslach (2000) form d eps = m_s g |dMC| integrated exactly.
+/// Haslach (2000) form d eps = m_s g |dMC| (from memory) integrated exactly.
 #[test]
 fn mechano_sorptive_step_is_exact_at_fixed_strain_and_at_fixed_stress() {
     let b = Burgers {

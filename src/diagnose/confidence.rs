@@ -27,9 +27,10 @@
 //!   ([`BandTest`], Monte Carlo, no winding). A finding whose rule holds in fewer than half of
 //!   the plausible states is dropped too.
 //! - **Profiles within noise.** A feature that jumps (a lane going slack) has a heavier tail than
-//!   the noise rolls predict. When neither the caliper band nor the web profile stands above
-//!   noise, a finding that goes away with the lanes made uniform (fitted creep kept) rests on
-//!   differences noise alone can make and is dropped ([`Note::OnProfileNoise`]).
+//!   the noise rolls predict. When neither the caliper readings' unevenness test (outlier,
+//!   spread, wedge, crown) nor the web-profile test stands, a finding that goes away with the
+//!   lanes made uniform (fitted creep kept) rests on differences noise alone can make and is
+//!   dropped ([`Note::OnProfileNoise`]).
 //! - Dropped findings get a note; a note states the resolution (the smallest caliper band, lane
 //!   excess and centre-to-edges difference that pass).
 //! - **Grading.** Likelihood from the probability (high at 0.9 or more, medium at 0.6, else low),
@@ -52,7 +53,7 @@ pub use super::noise::{FeatureFloor, FAMILY_LEVEL, FLOOR_QUANTILE, NOISE_NODES, 
 use super::profile_test::caliper_unevenness;
 pub use super::profile_test::BAND_DRAWS;
 use super::{DiagnoseError, Finding, Fitted};
-use crate::case::Case;
+use crate::case::{Case, Measure};
 use crate::fit::{posterior, prepared, with_lab_creep, FitError};
 use crate::note::Note;
 use crate::rules::{Rule, Table};
@@ -96,7 +97,8 @@ pub struct Confidence {
     pub lanes: Vec<LaneSpread>,
     /// Root-mean-square residual of every reading of the roll, noise units.
     pub roll_misfit: f64,
-    /// Rules whose finding was dropped below the noise floor.
+    /// Rules whose finding was dropped: below the noise floor, resting on profiles within noise,
+    /// or holding in fewer than half of the states.
     pub below_floor: Vec<String>,
 }
 
@@ -270,12 +272,15 @@ fn drop_below_floor(
 ///
 /// The noise rolls predict a feature's tail from a few dozen rolls as if it were smooth; a
 /// feature that jumps (a lane going slack makes the strength ratios leap) has a heavier tail
-/// than that. So when neither the caliper readings' unevenness test
+/// than that. So when the lanes differ at all, and neither the caliper readings' unevenness test
 /// ([`super::profile_test::unevenness_chance`]: an outlying reading, the spread, a wedge or a
-/// crown) nor the web-profile test stands at the family's level, the roll is run once more with uniform lanes and each lane's fitted creep
+/// crown) nor the web-profile test stands at the family's level, the roll is run once more
+/// with uniform lanes (calipers, tension and moisture profiles) and each lane's fitted creep
 /// ([`flattened_features`]); a finding whose deciding condition no longer holds there rests on
 /// profile differences that noise alone can make, and is dropped. Findings the noise-free
-/// uniform roll already gives are left.
+/// uniform roll already gives are left. This overrides a finding's own noise test however
+/// clear: a pattern the readings cannot resolve above their noise is not a finding, even where
+/// the model amplifies it.
 fn drop_on_profile_noise(
     (case, fitted, nodes): (&Case, &Fitted, usize),
     table: &Table,
@@ -289,7 +294,18 @@ fn drop_on_profile_noise(
     let profile_chance = fl.web.as_ref().map_or(calipers, |w| w.chance.min(calipers));
     let rule_of = |f: &Finding| table.rules.iter().find(|r| r.id == f.rule);
     let asks = |f: &Finding| rule_of(f).is_some_and(|r| !noise_test(r, feats, fl).own);
-    if profile_chance <= fl.level || !findings.iter().any(asks) {
+    // lanes that do not differ at all: nothing to flatten
+    let web = case
+        .profiles
+        .iter()
+        .any(|p| matches!(p.what, Measure::Tension | Measure::Moisture));
+    let differ = web
+        || fitted
+            .lanes
+            .lanes
+            .iter()
+            .any(|l| l.caliper_deviation != 0.0);
+    if !differ || profile_chance <= fl.level || !findings.iter().any(asks) {
         return Ok(Vec::new());
     }
     let flat = flattened_features(case, fitted, nodes)?;

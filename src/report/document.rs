@@ -231,8 +231,10 @@ fn findings(r: &ReportData, v: &mut Vec<Block>) {
         })]));
     }
     v.push(Block::Para(vec![t(format!(
-        "Probability: the share of {} plausible states of the fitted creep (posterior draws) in which the rule holds. A finding is kept only where measurement noise alone would make it with a chance of 5 % or less, shared over the features tested (compared with {} uniform rolls that differ only by noise).",
-        d.confidence.states, d.confidence.noise_rolls
+        "Probability: the share of {} plausible states of the fitted creep (posterior draws) in which the rule holds. A finding is kept only where measurement noise alone would make it with a chance of {} % or less, shared over the features tested (compared with {} uniform rolls that differ only by noise).",
+        d.confidence.states,
+        crate::units::sig(crate::diagnose::confidence::FAMILY_LEVEL * 100.0, 2),
+        d.confidence.noise_rolls
     ))]));
     for (i, f) in d.findings.iter().enumerate() {
         v.push(Block::Heading(

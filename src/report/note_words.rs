@@ -43,7 +43,7 @@ pub(super) fn confidence_note(n: &Note) -> String {
             profile_chance,
             level,
         } => format!(
-            "{} not reported: it comes from the lanes' caliper differences alone ({} is {} as measured, {} with the calipers made uniform and each lane's creep kept), and those differences are within what measurement noise alone makes (a chance of {} %; a profile must reach {} % or less to stand)",
+            "{} not reported: it comes from the differences between the lanes' calipers (and web profiles) alone ({} is {} as measured, {} with those made uniform and each lane's creep kept), and those differences are within what measurement noise alone makes (a chance of {} %; a profile must reach {} % or less to stand)",
             defect_name(defect),
             feature_name(feature),
             crate::units::sig(value, 3),

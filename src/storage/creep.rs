@@ -83,12 +83,13 @@ pub struct CreepState<T = f64> {
 /// `dmc` (percentage points) the stress increment is d sigma = E_hat (d eps - h), where
 /// 1/E_hat = (c + a phi/(1+a)) / e_tan, h = g_n (b + a phi/(1+a)) - a eps_K/(1+a),
 /// a = dxi/tau_K, b = dxi/tau_v + m_s |dmc| (mechano-sorptive creep, Haslach 2000 form
-/// d eps_ms = m_s g |dMC|, from memory) and c = b / (1 - e^-b). The Kelvin element steps by
-/// backward Euler. The viscous and mechano-sorptive part is integrated exactly for a strain
-/// rate that is constant over the step, the exponential algorithm of Taylor, Pister and
-/// Goudreau (1970), Int. J. Numer. Meth. Eng. 2:45-59 (from memory): at a fixed strain the
-/// elastic strain keeps e^-b of itself, where backward Euler (c = 1 + b) keeps 1/(1 + b), and
-/// under a constant stress the viscous strain grows by b g. Returns (E_hat, h).
+/// d eps_ms = m_s g |dMC|, from memory) and c = x + c(m) with x = dxi/tau_v, m = m_s |dmc| and
+/// c(m) = m / (1 - e^-m) ([`Rates::new`]). The Kelvin element and the viscous flow step by
+/// backward Euler (c = 1 + b when m = 0). The mechano-sorptive part is integrated exactly for a
+/// strain rate that is constant over the step, the exponential algorithm of Taylor, Pister and
+/// Goudreau (1970), Int. J. Numer. Meth. Eng. 2:45-59 (from memory): with no flow and no Kelvin
+/// part, at a fixed strain the elastic strain keeps e^-m of itself, where backward Euler keeps
+/// 1/(1 + m); under a constant stress the viscous strain grows by b g. Returns (E_hat, h).
 pub fn step_coefficients(
     b: &Burgers,
     mech_sorptive: f64,
@@ -230,7 +231,7 @@ mod tests {
     use super::exponential_ratio;
 
     /// c(m) = m / (1 - e^-m) has the series 1 + m/2 + m^2/12 - m^4/720 (the Bernoulli-number
-    /// generating function, Abramowitz and Stegun 1964, 23.1.1): the two branches meet at the
+    /// generating function, Abramowitz and Stegun 1964, 23.1.1, from memory): the two branches meet at the
     /// switch, and the large-m limit is m.
     #[test]
     fn exponential_ratio_follows_its_series_and_limit() {
