@@ -84,7 +84,7 @@ pub struct CreepState<T = f64> {
 /// 1/E_hat = (c + a phi/(1+a)) / e_tan, h = g_n (b + a phi/(1+a)) - a eps_K/(1+a),
 /// a = dxi/tau_K, b = dxi/tau_v + m_s |dmc| (mechano-sorptive creep, Haslach 2000 form
 /// d eps_ms = m_s g |dMC|, from memory) and c = x + c(m) with x = dxi/tau_v, m = m_s |dmc| and
-/// c(m) = m / (1 - e^-m) ([`Rates::new`]). The Kelvin element and the viscous flow step by
+/// c(m) = m / (1 - e^-m) (`Rates::new`). The Kelvin element and the viscous flow step by
 /// backward Euler (c = 1 + b when m = 0). The mechano-sorptive part is integrated exactly for a
 /// strain rate that is constant over the step, the exponential algorithm of Taylor, Pister and
 /// Goudreau (1970), Int. J. Numer. Meth. Eng. 2:45-59 (from memory): with no flow and no Kelvin
