@@ -27,10 +27,10 @@
 //!   ([`BandTest`], Monte Carlo, no winding). A finding whose rule holds in fewer than half of
 //!   the plausible states is dropped too.
 //! - **Profiles within noise.** A feature that jumps (a lane going slack) has a heavier tail than
-//!   the noise rolls predict. When neither the caliper readings' unevenness test (outlier,
-//!   spread, wedge, crown) nor the web-profile test stands, a finding that goes away with the
-//!   lanes made uniform (fitted creep kept) rests on differences noise alone can make and is
-//!   dropped ([`Note::OnProfileNoise`]).
+//!   the noise rolls predict. A finding that goes away when the profiles that do not stand above
+//!   noise (calipers by their unevenness test: outlier, spread, wedge, crown; tension and
+//!   moisture by the web-profile test) are made uniform, fitted creep kept, rests on differences
+//!   noise alone can make and is dropped ([`Note::OnProfileNoise`]).
 //! - Dropped findings get a note; a note states the resolution (the smallest caliper band, lane
 //!   excess and centre-to-edges difference that pass).
 //! - **Grading.** Likelihood from the probability (high at 0.9 or more, medium at 0.6, else low),
@@ -272,10 +272,11 @@ fn drop_below_floor(
 ///
 /// The noise rolls predict a feature's tail from a few dozen rolls as if it were smooth; a
 /// feature that jumps (a lane going slack makes the strength ratios leap) has a heavier tail
-/// than that. So when the lanes differ at all, and neither the caliper readings' unevenness test
-/// ([`super::profile_test::unevenness_chance`]: an outlying reading, the spread, a wedge or a
-/// crown) nor the web-profile test stands at the family's level, the roll is run once more
-/// with uniform lanes (calipers, tension and moisture profiles) and each lane's fitted creep
+/// than that. So the profiles that do not stand above noise at the family's level (the lanes'
+/// calipers by the caliper readings' unevenness test,
+/// [`super::profile_test::unevenness_chance`]: an outlying reading, the spread, a wedge or a
+/// crown; the tension and moisture profiles at winding by the web-profile test) are made
+/// uniform, the others kept, and the roll is run once more with each lane's fitted creep
 /// ([`flattened_features`]); a finding whose deciding condition no longer holds there rests on
 /// profile differences that noise alone can make, and is dropped. Findings the noise-free
 /// uniform roll already gives are left. This overrides a finding's own noise test however
@@ -290,25 +291,40 @@ fn drop_on_profile_noise(
     notes: &mut Vec<Note>,
 ) -> Result<Vec<String>, DiagnoseError> {
     let (rep, _) = caliper_repeatability(case);
-    let calipers = caliper_unevenness(case, &fitted.lanes, rep, fl.band.chance);
-    let profile_chance = fl.web.as_ref().map_or(calipers, |w| w.chance.min(calipers));
-    let rule_of = |f: &Finding| table.rules.iter().find(|r| r.id == f.rule);
-    let asks = |f: &Finding| rule_of(f).is_some_and(|r| !noise_test(r, feats, fl).own);
-    // lanes that do not differ at all: nothing to flatten
-    let web = case
+    // each kind of profile is made uniform when the lanes differ by it and it does not stand
+    // above noise; one that stands is kept
+    let differ = fitted
+        .lanes
+        .lanes
+        .iter()
+        .any(|l| l.caliper_deviation != 0.0);
+    let calipers = if differ {
+        caliper_unevenness(case, &fitted.lanes, rep, fl.band.chance)
+    } else {
+        0.0
+    };
+    let has_web = case
         .profiles
         .iter()
         .any(|p| matches!(p.what, Measure::Tension | Measure::Moisture));
-    let differ = web
-        || fitted
-            .lanes
-            .lanes
-            .iter()
-            .any(|l| l.caliper_deviation != 0.0);
-    if !differ || profile_chance <= fl.level || !findings.iter().any(asks) {
+    let web = if has_web {
+        fl.web.as_ref().map_or(1.0, |w| w.chance)
+    } else {
+        0.0
+    };
+    let flatten = (calipers > fl.level, web > fl.level);
+    let rule_of = |f: &Finding| table.rules.iter().find(|r| r.id == f.rule);
+    let asks = |f: &Finding| rule_of(f).is_some_and(|r| !noise_test(r, feats, fl).own);
+    if flatten == (false, false) || !findings.iter().any(asks) {
         return Ok(Vec::new());
     }
-    let flat = flattened_features(case, fitted, nodes)?;
+    // the most uneven of the profiles made uniform
+    let profile_chance = match flatten {
+        (true, true) => calipers.min(web),
+        (true, false) => calipers,
+        _ => web,
+    };
+    let flat = flattened_features(case, fitted, nodes, flatten)?;
     let mut dropped = Vec::new();
     findings.retain(|f| {
         let Some(c) = rule_of(f).filter(|_| asks(f)).and_then(|r| r.when.first()) else {

@@ -290,15 +290,29 @@ fn roll_features(
     Ok((features::compute(lab, lanes, &o), found))
 }
 
-/// Features of the diagnosed roll with its lanes' calipers and web profiles made uniform (the
-/// noise-free uniform lanes) and each lane's fitted creep kept, wound at the diagnosis's
-/// `nodes`: what the roll shows without its measured profiles.
+/// Features of the diagnosed roll with its lanes' calipers (`calipers`) and web profiles
+/// (`web`, tension and moisture) made uniform where asked, each lane's fitted creep kept, wound
+/// at the diagnosis's `nodes`: what the roll shows without those measured profiles.
 pub(super) fn flattened_features(
     case: &Case,
     fitted: &Fitted,
     nodes: usize,
+    (calipers, web): (bool, bool),
 ) -> Result<Features, DiagnoseError> {
-    let l0 = uniform_lanes(case, &fitted.lanes, None);
+    let mut l0 = uniform_lanes(case, &fitted.lanes, None);
+    // what is not to be made uniform is put back from the diagnosed lanes (the same lanes)
+    for (lane, own) in l0.lanes.iter_mut().zip(&fitted.lanes.lanes) {
+        if !calipers {
+            (lane.caliper_m, lane.caliper_deviation) = (own.caliper_m, own.caliper_deviation);
+        }
+        if !web {
+            (lane.web_strain, lane.winding_moisture_pct) =
+                (own.web_strain, own.winding_moisture_pct);
+        }
+    }
+    if !calipers {
+        l0.mean_caliper_m = fitted.lanes.mean_caliper_m;
+    }
     let start = (fitted.wound.secant).scaled(fitted.lanes.mean_caliper_m, l0.mean_caliper_m);
     roll_features(case, &l0, &fitted.creep, nodes, start).map(|(f, _)| f)
 }
