@@ -82,23 +82,28 @@ pub(super) fn band_test(
     level: f64,
     rng: &mut ChaCha8Rng,
 ) -> BandTest {
-    let readings: Vec<f64> = densest(lab, Measure::Caliper)
-        .map(|p| p.values.clone())
-        .unwrap_or_else(|| lanes.lanes.iter().map(|l| l.caliper_m).collect());
+    let (readings, _) = caliper_readings(lab, lanes);
     outlier_test(&readings, rep, level, rng)
 }
 
-/// The unevenness test of the case's caliper readings (as [`band_test`] takes them, at their
-/// positions) with repeatability `rep` (m) and the band test's chance `outlier_chance`: the
-/// chance that noise alone makes them as uneven in some way ([`unevenness_chance`]).
-pub(super) fn caliper_unevenness(lab: &Case, lanes: &Lanes, rep: f64, outlier_chance: f64) -> f64 {
-    let (readings, positions) = densest(lab, Measure::Caliper).map_or_else(
+/// The caliper readings the profile tests judge (m) and their positions (m): the caliper
+/// profile with the most readings, or the lanes' calipers at their centres when the case has
+/// none.
+fn caliper_readings(lab: &Case, lanes: &Lanes) -> (Vec<f64>, Vec<f64>) {
+    densest(lab, Measure::Caliper).map_or_else(
         || {
             let c = lanes.lanes.iter().map(|l| l.caliper_m).collect();
             (c, lanes.positions())
         },
         |p| (p.values.clone(), p.positions_m.clone()),
-    );
+    )
+}
+
+/// The unevenness test of the case's caliper readings (the band test's, [`caliper_readings`])
+/// with repeatability `rep` (m) and the band test's chance `outlier_chance`: the chance that
+/// noise alone makes them as uneven in some way ([`unevenness_chance`]).
+pub(super) fn caliper_unevenness(lab: &Case, lanes: &Lanes, rep: f64, outlier_chance: f64) -> f64 {
+    let (readings, positions) = caliper_readings(lab, lanes);
     unevenness_chance(&readings, &positions, rep, outlier_chance)
 }
 
