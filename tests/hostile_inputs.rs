@@ -116,6 +116,34 @@ fn a_unit_slip_in_tension_is_refused_not_a_hang() {
     refused(&run(&["stress", s(&case)]), &["winding.tension", "t.yaml:"]);
 }
 
+/// A stack law so soft that the wound layers would be squeezed past their own thickness
+/// (Pfeiffer's strain ln(1 + P/K1)/K2 passes 1 at the roll's MPa pressures when K2 is a few;
+/// paper's K2 is 20 to 100, Pfeiffer 1981, from memory) is refused naming the stack, not blamed
+/// on the tension.
+#[test]
+fn a_stack_squeezed_to_nothing_is_refused_naming_the_stack() {
+    let d = tempfile::tempdir().unwrap();
+    for k2 in ["3", "5"] {
+        let case = write(
+            d.path(),
+            "t.yaml",
+            &DEMO.replacen("k2: 50 }", &format!("k2: {k2} }}"), 1),
+        );
+        let r = run(&["stress", s(&case)]);
+        refused(&r, &["t.yaml: ", "material.stack", "100 %"]);
+        assert!(!r.stderr.contains("no web strain"), "{}", r.stderr);
+    }
+    // triage names the file a model error came from
+    let r = run(&["triage", "--width", "200", s(&d.path().join("t.yaml"))]);
+    assert_eq!(r.code, 2, "{}{}", r.stdout, r.stderr);
+    let line = r.stdout.lines().find(|l| l.contains("t.yaml: "));
+    assert!(
+        line.is_some_and(|l| l.contains("stack law")),
+        "{}",
+        r.stdout
+    );
+}
+
 #[test]
 fn a_nip_far_above_the_tension_is_refused() {
     let d = tempfile::tempdir().unwrap();

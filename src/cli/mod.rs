@@ -233,8 +233,29 @@ pub fn main(args: impl IntoIterator<Item = OsString>) -> ExitCode {
             ExitCode::from(2)
         }
         Err(e) => {
-            print_error(cli.json, e.kind(), e.exit_code(), &e.to_string());
+            // a model's error does not name the case file it came from; a case's error does
+            let text = match model_case_file(&cli.command, &e) {
+                Some(f) => format!("{}: {e}", f.display()),
+                None => e.to_string(),
+            };
+            print_error(cli.json, e.kind(), e.exit_code(), &text);
             ExitCode::from(e.exit_code())
         }
     }
+}
+
+/// The case file a command read, when its error came from the model (winding, storage, fit or
+/// diagnosis) rather than from reading the case: the file the message should name.
+fn model_case_file<'a>(cmd: &'a Command, e: &CliError) -> Option<&'a std::path::Path> {
+    if e.kind() != "model" {
+        return None;
+    }
+    let arg = match cmd {
+        Command::Lanes(c) | Command::Age(c) | Command::Fit(c) => c,
+        Command::Stress { case, .. }
+        | Command::Diagnose { case, .. }
+        | Command::Whatif { case, .. } => case,
+        _ => return None,
+    };
+    arg.case.as_deref().filter(|p| p.as_os_str() != "-")
 }

@@ -134,7 +134,13 @@ pub fn triage_text(rows: &[TriageRow], sys: System) -> String {
             warned.push_str(&format!("warning: {}: {w}\n", r.case));
         }
         if let Some(e) = &r.error {
-            failed.push_str(&format!("  {}\n", e.trim_end()));
+            // a model's error does not name the file; a case's error does
+            let e = e.trim_end();
+            if e.contains(&r.file) {
+                failed.push_str(&format!("  {e}\n"));
+            } else {
+                failed.push_str(&format!("  {}: {e}\n", r.file));
+            }
             continue;
         }
         let name = std::path::Path::new(&r.file)

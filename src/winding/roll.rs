@@ -99,6 +99,12 @@ pub enum WindError {
         /// Largest strain tried (dimensionless).
         limit: f64,
     },
+    /// The stack law squeezes the wound layers to nothing: no compressed caliper fills the roll.
+    #[error("the stack law compresses the wound layers by 100 % or more at the pressures this winding builds (the roll's build has no thickness left at a compressed caliper of {caliper_m:.3e} m); the stack is far too soft for the tension: check material.stack (paper's Pfeiffer K2 is typically 20 to 100; Pfeiffer 1981, from memory) or material.radial_modulus, and winding.tension")]
+    Stack {
+        /// Compressed caliper at which the build failed, m.
+        caliper_m: f64,
+    },
 }
 
 /// Largest shared web strain the bracket search tries before it gives up (dimensionless).
@@ -408,6 +414,10 @@ fn compressed_caliper(
             .sum::<f64>()
             / width;
         let h = ((built - rc) / (big_r - rc)).ln();
+        if !h.is_finite() {
+            // the build is not above the core: the layers are compressed to nothing
+            return Err(WindError::Stack { caliper_m: c_eff });
+        }
         Ok((h, (coarse == opt.nodes).then_some(acc)))
     };
     // a miss's slope against ln c_eff is about -1 (the build scales with caliper / c_eff)
