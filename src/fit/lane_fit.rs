@@ -67,7 +67,8 @@ pub struct LaneProblem<'a> {
     /// How surface pressure reads as hardness.
     pub hardness: &'a HardnessMap,
     pub lane: usize,
-    pub drive: LaneDrive,
+    /// The lane's drive, lent by `prep` (owned only when computed afresh).
+    pub drive: std::borrow::Cow<'a, LaneDrive>,
     pub obs: Vec<Obs>,
     /// Steps to simulate (up to the last observation).
     pub steps: usize,

@@ -6,6 +6,7 @@ use super::ageing::Prepared;
 use super::creep::{exponential_ratio, Rates};
 use super::shift::{arrhenius_shift, moisture_shift};
 use crate::case::Material;
+use std::borrow::Cow;
 use std::sync::OnceLock;
 
 /// What storage does to one lane independently of its creep parameters: the reduced-time step
@@ -64,8 +65,8 @@ impl PartialEq for Drives {
 }
 
 /// A lane's drive (time shifts and moisture changes): computed once per lane of a moisture
-/// history and material, then copied.
-pub fn drive(material: &Material, prep: &Prepared, lane: usize) -> LaneDrive {
+/// history and material, then lent out (computed afresh, and owned, for other creep values).
+pub fn drive<'p>(material: &Material, prep: &'p Prepared, lane: usize) -> Cow<'p, LaneDrive> {
     let c = &material.creep;
     let key = [
         c.activation_energy_j_mol,
@@ -80,12 +81,12 @@ pub fn drive(material: &Material, prep: &Prepared, lane: usize) -> LaneDrive {
         Some(cell) => {
             let (k, d) = cell.get_or_init(|| (key, compute(material, prep, lane)));
             if *k == key {
-                d.clone()
+                Cow::Borrowed(d)
             } else {
-                compute(material, prep, lane)
+                Cow::Owned(compute(material, prep, lane))
             }
         }
-        None => compute(material, prep, lane),
+        None => Cow::Owned(compute(material, prep, lane)),
     }
 }
 
