@@ -277,6 +277,24 @@ pub fn after_storage(a: &Aged, material: &Material, roll: &Roll) -> Vec<Note> {
             core_diameter_m: core,
         }));
     }
+    // loose outer wraps: any cell of the outer half at zero interlayer pressure
+    let loose = a.lanes.iter().map(|l| {
+        let d = l.loose_outer_depth_m;
+        (l.position_m, (d > 0.0).then_some(d))
+    });
+    if let Some((lanes, position_m, depth_m)) = worst(loose) {
+        let time_s = a
+            .lanes
+            .iter()
+            .find(|l| l.position_m == position_m)
+            .map_or(0.0, |l| l.loose_outer_time_s);
+        out.push(Note::Limit(Limit::LooseOuterWraps {
+            lanes,
+            position_m,
+            depth_m,
+            time_s,
+        }));
+    }
     let saturation = saturation_moisture_pct(&material.sorption);
     // 0.01 percentage point: the diffusion solver's rounding, far below any gauge
     let wet = a.lanes.iter().map(|l| {

@@ -242,6 +242,18 @@ pub enum Limit {
         /// Saturation moisture (GAB at unit activity), %.
         saturation_pct: f64,
     },
+    /// The outer wraps of a lane lose all interlayer pressure in storage: they are loose, and
+    /// where they would lift off the model holds them on at zero pressure.
+    LooseOuterWraps {
+        /// Lanes with loose outer wraps (the worst is described).
+        lanes: u32,
+        /// Centre of the worst lane, m.
+        position_m: f64,
+        /// Depth below the barrel of the loose wraps, m (to the model's radial cells).
+        depth_m: f64,
+        /// When the loose zone was deepest, s since winding.
+        time_s: f64,
+    },
     /// The floor contact of a roll stored on its side is outside Hertz's small-contact theory
     /// (half-width over a quarter of the radius) or presses the stack past its crush limit.
     FlatContact {

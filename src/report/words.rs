@@ -341,6 +341,17 @@ pub fn limit(l: &crate::note::Limit) -> String {
             at(lanes, position_m)
         ),
         Limit::HardnessBelowScale { .. } | Limit::HardnessNotFinite { .. } => hardness_limit(l),
+        Limit::LooseOuterWraps {
+            lanes,
+            position_m,
+            depth_m,
+            time_s,
+        } => format!(
+            "{}: in storage the outer wraps lose all interlayer pressure, at most to {:.1} mm below the barrel (on day {:.1}; depth to the model's radial cells): they are loose. Wound layers cannot pull on one another, so where these wraps would lift off (they swell, or their pressure relaxes away) the model holds them on at zero pressure; there the diameter can grow more, and the surface read softer, than predicted",
+            at(lanes, position_m),
+            depth_m * 1e3,
+            time_s / crate::units::DAY_S
+        ),
     }
 }
 

@@ -99,6 +99,13 @@ pub struct LaneAged {
     /// Final radial and tangential stress at the radial cells, Pa.
     pub final_radial_stress_pa: Vec<f64>,
     pub final_tangential_stress_pa: Vec<f64>,
+    /// Loose outer wraps: the largest depth below the barrel (m) down to which cells of the
+    /// outer half of the radius had no interlayer pressure left at a step end (0: none), and
+    /// when (s since winding). Wound layers cannot pull on one another, so where a cell's
+    /// pressure would turn to tension the model holds it at zero ([`super::cells`]): those wraps
+    /// are loose, and would lift off.
+    pub loose_outer_depth_m: f64,
+    pub loose_outer_time_s: f64,
 }
 
 /// The roll through storage.

@@ -87,6 +87,9 @@ pub struct FullRecord<'a> {
     born: f64,
     hygro_md_per_pct: f64,
     md_modulus_pa: f64,
+    /// Cell faces (m) and step-end times (s) of the run.
+    faces: &'a [f64],
+    times: &'a [f64],
 }
 
 impl<'a> FullRecord<'a> {
@@ -129,6 +132,8 @@ impl<'a> FullRecord<'a> {
                 strain_at_unwind_by_third: [0.0; 3],
                 final_radial_stress_pa: Vec::new(),
                 final_tangential_stress_pa: Vec::new(),
+                loose_outer_depth_m: 0.0,
+                loose_outer_time_s: 0.0,
             },
             hardness,
             vol,
@@ -139,6 +144,27 @@ impl<'a> FullRecord<'a> {
             born: prep.web_length.get(lane).copied().unwrap_or(0.0),
             hygro_md_per_pct: material.hygro_md_per_pct,
             md_modulus_pa: material.md_modulus_pa,
+            faces: f,
+            times: &prep.timeline.times,
+        }
+    }
+
+    /// Keep the depth below the barrel (m) of the deepest cell of the outer half of the radius
+    /// with no interlayer pressure (radial stress `sr`, Pa), when it is the deepest yet.
+    fn loose(&mut self, sr: &[f64]) {
+        let f = self.faces;
+        let (Some(&top), Some(&bottom)) = (f.last(), f.first()) else {
+            return;
+        };
+        let mid = 0.5 * (top + bottom);
+        let deepest = (0..sr.len())
+            .filter(|&j| f[j] >= mid && sr[j] >= 0.0)
+            .map(|j| top - f[j])
+            .fold(0.0, f64::max);
+        if deepest > self.out.loose_outer_depth_m {
+            let step = self.out.diameter_m.len();
+            self.out.loose_outer_depth_m = deepest;
+            self.out.loose_outer_time_s = self.times.get(step).copied().unwrap_or(0.0);
         }
     }
 
@@ -165,6 +191,7 @@ impl Recorder for FullRecord<'_> {
             self.born,
         );
         let nr = self.vol.len();
+        self.loose(s.radial_stress_pa);
         self.out.surface_pressure_pa.push(s.surface_pressure_pa);
         self.out
             .hardness
