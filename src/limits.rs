@@ -258,9 +258,37 @@ pub fn air_floats(case: &crate::case::Case) -> Vec<Note> {
     }
 }
 
-/// Checks on the roll after storage: lane diameters outside the core, moisture at or below
-/// saturation, predicted hardness finite and not below zero (the bottom of any hardness scale);
-/// one note per kind naming the worst lane.
+/// Loose outer wraps: cells of a lane's outer half that a storage step held at zero interlayer
+/// pressure ([`crate::storage::LaneAged`]`::loose_outer_depth_m`); a note naming the deepest.
+fn loose_outer_wraps(a: &Aged) -> Option<Note> {
+    let loose = a.lanes.iter().map(|l| {
+        let d = l.loose_outer_depth_m;
+        (l.position_m, (d > 0.0).then_some(d))
+    });
+    let (lanes, position_m, depth_m) = worst(loose)?;
+    let time_s = a
+        .lanes
+        .iter()
+        .find(|l| l.position_m == position_m)
+        .map_or(0.0, |l| l.loose_outer_time_s);
+    let end_depth_m = a
+        .lanes
+        .iter()
+        .map(|l| l.loose_outer_end_depth_m)
+        .fold(0.0, f64::max);
+    Some(Note::Limit(Limit::LooseOuterWraps {
+        lanes,
+        position_m,
+        depth_m,
+        time_s,
+        end_depth_m,
+    }))
+}
+
+/// Checks on the roll after storage: lane diameters outside the core, outer wraps that kept
+/// some interlayer pressure (none held at zero by the storage kernel's no-tension cut-off),
+/// moisture at or below saturation, predicted hardness finite and not below zero (the bottom of
+/// any hardness scale); one note per kind naming the worst lane.
 pub fn after_storage(a: &Aged, material: &Material, roll: &Roll) -> Vec<Note> {
     let mut out = Vec::new();
     let core = roll.core_diameter_m;
@@ -277,24 +305,7 @@ pub fn after_storage(a: &Aged, material: &Material, roll: &Roll) -> Vec<Note> {
             core_diameter_m: core,
         }));
     }
-    // loose outer wraps: any cell of the outer half at zero interlayer pressure
-    let loose = a.lanes.iter().map(|l| {
-        let d = l.loose_outer_depth_m;
-        (l.position_m, (d > 0.0).then_some(d))
-    });
-    if let Some((lanes, position_m, depth_m)) = worst(loose) {
-        let time_s = a
-            .lanes
-            .iter()
-            .find(|l| l.position_m == position_m)
-            .map_or(0.0, |l| l.loose_outer_time_s);
-        out.push(Note::Limit(Limit::LooseOuterWraps {
-            lanes,
-            position_m,
-            depth_m,
-            time_s,
-        }));
-    }
+    out.extend(loose_outer_wraps(a));
     let saturation = saturation_moisture_pct(&material.sorption);
     // 0.01 percentage point: the diffusion solver's rounding, far below any gauge
     let wet = a.lanes.iter().map(|l| {

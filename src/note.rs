@@ -253,6 +253,8 @@ pub enum Limit {
         depth_m: f64,
         /// When the loose zone was deepest, s since winding.
         time_s: f64,
+        /// Deepest loose zone of any lane at the end of storage, m (0: all pressed on again).
+        end_depth_m: f64,
     },
     /// The floor contact of a roll stored on its side is outside Hertz's small-contact theory
     /// (half-width over a quarter of the radius) or presses the stack past its crush limit.

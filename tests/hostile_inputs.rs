@@ -123,7 +123,7 @@ fn a_unit_slip_in_tension_is_refused_not_a_hang() {
 #[test]
 fn a_stack_squeezed_to_nothing_is_refused_naming_the_stack() {
     let d = tempfile::tempdir().unwrap();
-    for k2 in ["3", "5"] {
+    for k2 in ["3", "8"] {
         let case = write(
             d.path(),
             "t.yaml",

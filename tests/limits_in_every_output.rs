@@ -7,6 +7,8 @@
 
 use std::process::Command;
 
+mod common;
+
 const FAST: &str = "winding.speed=150 m/s";
 
 fn run(args: &[&str]) -> (i32, String, String) {
@@ -23,7 +25,7 @@ fn run(args: &[&str]) -> (i32, String, String) {
 
 #[test]
 fn every_command_warns_when_the_roll_is_wound_above_lift_off() {
-    for cmd in ["stress", "age", "fit", "diagnose"] {
+    for cmd in ["stress", "age", "fit", "diagnose", "whatif"] {
         let (code, _, err) = run(&[cmd, "--set", FAST]);
         assert!(code <= 1, "{cmd}: {err}");
         assert!(
@@ -134,4 +136,21 @@ fn a_hardness_below_the_scale_is_a_warning() {
     }
     let (_, _, err) = run(&["age", case, "--set", stiff]);
     assert!(err.contains("2 lanes (worst at 12 mm)"), "{err}");
+}
+
+/// A roll inside every limit gets a diagnosis with no warning at all: the demo roll without its
+/// measurements (the grade's creep), kept in film through storage and stored on end.
+#[test]
+fn a_roll_inside_every_limit_is_diagnosed_without_a_warning() {
+    let mut sets = Vec::new();
+    for i in 0..3 {
+        sets.push(format!("storage[{i}].barrel_wrap=film"));
+        sets.push(format!("storage[{i}].end_wrap=film"));
+        sets.push(format!("storage[{i}].stance=on_end"));
+    }
+    let sets: Vec<&str> = sets.iter().map(String::as_str).collect();
+    let c = common::demo_without_profiles(&sets);
+    let d = common::diagnose_at(&c, rollsleuth::winding::DEFAULT_NODES, false);
+    let w = rollsleuth::report::words::warnings(&d);
+    assert!(w.is_empty(), "{w:?}");
 }

@@ -235,7 +235,7 @@ pub fn main(args: impl IntoIterator<Item = OsString>) -> ExitCode {
         Err(e) => {
             // a model's error does not name the case file it came from; a case's error does
             let text = match model_case_file(&cli.command, &e) {
-                Some(f) => format!("{}: {e}", f.display()),
+                Some(f) => format!("{f}: {e}"),
                 None => e.to_string(),
             };
             print_error(cli.json, e.kind(), e.exit_code(), &text);
@@ -244,9 +244,10 @@ pub fn main(args: impl IntoIterator<Item = OsString>) -> ExitCode {
     }
 }
 
-/// The case file a command read, when its error came from the model (winding, storage, fit or
-/// diagnosis) rather than from reading the case: the file the message should name.
-fn model_case_file<'a>(cmd: &'a Command, e: &CliError) -> Option<&'a std::path::Path> {
+/// The case file a command read (`<standard input>` for `-`), when its error came from the
+/// model (winding, storage, fit or diagnosis) rather than from reading the case: the source the
+/// message should name.
+fn model_case_file(cmd: &Command, e: &CliError) -> Option<String> {
     if e.kind() != "model" {
         return None;
     }
@@ -257,5 +258,11 @@ fn model_case_file<'a>(cmd: &'a Command, e: &CliError) -> Option<&'a std::path::
         | Command::Whatif { case, .. } => case,
         _ => return None,
     };
-    arg.case.as_deref().filter(|p| p.as_os_str() != "-")
+    arg.case.as_deref().map(|p| {
+        if p.as_os_str() == "-" {
+            "<standard input>".to_string()
+        } else {
+            p.display().to_string()
+        }
+    })
 }

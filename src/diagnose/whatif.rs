@@ -28,6 +28,12 @@ pub struct WhatIf {
     /// Defects the rules predict before and after.
     pub defects_before: Vec<Defect>,
     pub defects_after: Vec<Defect>,
+    /// The changed roll's own case warnings, and the physical limits its winding or storage
+    /// passed (in words in the views' `warnings`).
+    #[serde(skip)]
+    pub case_warnings: Vec<String>,
+    #[serde(skip)]
+    pub notes: Vec<crate::note::Note>,
 }
 
 /// Compare a case with a variant of it. The variant's lanes are rebuilt from its own profiles
@@ -80,6 +86,8 @@ pub fn what_if(
         excess_after_mm_per_m: fa.excess_mm_per_m.clone(),
         defects_before: defects(&fb),
         defects_after: defects(&fa),
+        case_warnings: variant.warnings.clone(),
+        notes: crate::fit::limit_notes(variant, &la, &oa.wound, &oa.aged),
     })
 }
 

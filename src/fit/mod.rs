@@ -89,10 +89,23 @@ pub fn age_measured(
 /// The aged roll with a note for every physical limit the winding or storage result passed
 /// ([`crate::limits`]), and for a wound state that disagrees with the winding-time diameters.
 fn with_limits(case: &Case, lanes: &Lanes, wound: &Wound, mut aged: Aged) -> Aged {
+    let found = limit_notes(case, lanes, wound, &aged);
+    crate::note::push_new(&mut aged.notes, found);
+    aged
+}
+
+/// A note for every physical limit a roll's winding or storage result passed
+/// ([`crate::limits`]), and for a wound state that disagrees with the winding-time diameters.
+pub(crate) fn limit_notes(
+    case: &Case,
+    lanes: &Lanes,
+    wound: &Wound,
+    aged: &Aged,
+) -> Vec<crate::note::Note> {
     let mut found =
         crate::limits::after_winding(wound, &case.material, &case.roll, case.winding.speed_m_s);
     found.extend(crate::limits::after_storage(
-        &aged,
+        aged,
         &case.material,
         &case.roll,
     ));
@@ -101,8 +114,7 @@ fn with_limits(case: &Case, lanes: &Lanes, wound: &Wound, mut aged: Aged) -> Age
     found.extend(crate::limits::air_floats(case));
     let rep = observe::DIAMETER_REPEATABILITY_M;
     found.extend(crate::limits::against_winding_diameter(lanes, wound, rep));
-    crate::note::push_new(&mut aged.notes, found);
-    aged
+    found
 }
 
 /// Measurement noise used in the fit.

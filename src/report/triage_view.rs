@@ -191,9 +191,14 @@ pub fn triage_json(rows: &[TriageRow]) -> serde_json::Value {
     serde_json::json!({ "rolls": rows, "safety": SAFETY })
 }
 
-/// A what-if comparison as JSON (the result's own fields).
+/// A what-if comparison as JSON (the result's own fields, and the changed roll's warnings).
 pub fn whatif_json(w: &crate::diagnose::WhatIf) -> Result<serde_json::Value, serde_json::Error> {
-    serde_json::to_value(w)
+    let mut v = serde_json::to_value(w)?;
+    if let Some(o) = v.as_object_mut() {
+        let warnings = words::note_json(&w.case_warnings, &w.notes).1;
+        o.insert("warnings".into(), serde_json::json!(warnings));
+    }
+    Ok(v)
 }
 
 /// Defects in plain words, comma-separated.
@@ -240,8 +245,12 @@ pub fn whatif_text(w: &crate::diagnose::WhatIf, sys: System) -> Result<String, W
             defect_list(d)
         }
     };
+    let notes: String = words::note_lines(&w.case_warnings, &w.notes)
+        .iter()
+        .map(|l| format!("{l}\n"))
+        .collect();
     Ok(format!(
-        "What if, case {}: {}\nPredicted length spread at unwind: {:.2} -> {:.2} mm per m of web.\nLikely defects: {} -> {}.\n{t}\nLane length at unwind over the width-weighted mean lane; creep as fitted on the measured roll.\n{SAFETY}\n",
+        "What if, case {}: {}\nPredicted length spread at unwind: {:.2} -> {:.2} mm per m of web.\nLikely defects: {} -> {}.\n{t}\nLane length at unwind over the width-weighted mean lane; creep as fitted on the measured roll.\n{notes}{SAFETY}\n",
         w.case,
         w.changes.join(", "),
         w.spread_before_mm_per_m,
@@ -267,6 +276,8 @@ mod tests {
             excess_after_mm_per_m: vec![-0.25, 0.25],
             defects_before: vec![Defect::BaggyCenter],
             defects_after: Vec::new(),
+            case_warnings: Vec::new(),
+            notes: Vec::new(),
         }
     }
 

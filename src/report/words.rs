@@ -341,18 +341,38 @@ pub fn limit(l: &crate::note::Limit) -> String {
             at(lanes, position_m)
         ),
         Limit::HardnessBelowScale { .. } | Limit::HardnessNotFinite { .. } => hardness_limit(l),
-        Limit::LooseOuterWraps {
-            lanes,
-            position_m,
-            depth_m,
-            time_s,
-        } => format!(
-            "{}: in storage the outer wraps lose all interlayer pressure, at most to {:.1} mm below the barrel (on day {:.1}; depth to the model's radial cells): they are loose. Wound layers cannot pull on one another, so where these wraps would lift off (they swell, or their pressure relaxes away) the model holds them on at zero pressure; there the diameter can grow more, and the surface read softer, than predicted",
-            at(lanes, position_m),
-            depth_m * 1e3,
-            time_s / crate::units::DAY_S
-        ),
+        Limit::LooseOuterWraps { .. } => loose_wraps(l),
     }
+}
+
+/// The loose-outer-wraps limit as a sentence (the other limits: [`limit`]).
+fn loose_wraps(l: &crate::note::Limit) -> String {
+    use crate::note::Limit;
+    let Limit::LooseOuterWraps {
+        lanes,
+        position_m,
+        depth_m,
+        time_s,
+        end_depth_m,
+    } = *l
+    else {
+        return limit(l);
+    };
+    let end = if end_depth_m > 0.0 {
+        format!(
+            ", and still to {:.1} mm at the end of storage: they are loose",
+            end_depth_m * 1e3
+        )
+    } else {
+        ": they were loose for a time (by the end of storage the model has them pressed on again)"
+            .to_string()
+    };
+    format!(
+        "{}: in storage the outer wraps lose all interlayer pressure, at most to {:.1} mm below the barrel (on day {:.1}; depth to the model's radial cells){end}. Wound layers cannot pull on one another: where these wraps would lift off (they swell, the stack beneath them shrinks as it dries, or creep relaxes their hoop tension) the model holds them on at zero pressure, so there the diameter can be larger, and the surface read softer, than predicted",
+        at(lanes, position_m),
+        depth_m * 1e3,
+        time_s / crate::units::DAY_S
+    )
 }
 
 /// Which lanes passed a limit: the one, or how many and the worst.

@@ -99,13 +99,14 @@ pub struct LaneAged {
     /// Final radial and tangential stress at the radial cells, Pa.
     pub final_radial_stress_pa: Vec<f64>,
     pub final_tangential_stress_pa: Vec<f64>,
-    /// Loose outer wraps: the largest depth below the barrel (m) down to which cells of the
-    /// outer half of the radius had no interlayer pressure left at a step end (0: none), and
-    /// when (s since winding). Wound layers cannot pull on one another, so where a cell's
-    /// pressure would turn to tension the model holds it at zero ([`super::cells`]): those wraps
-    /// are loose, and would lift off.
+    /// Loose outer wraps: the largest depth below the barrel (m) down to which the kernel held
+    /// cells of the outer half of the radius at zero interlayer pressure at a step end (0:
+    /// none), when (s since winding), and the depth at the end of storage. Wound layers cannot
+    /// pull on one another, so where a step would turn a cell's pressure to tension the model
+    /// holds it at zero ([`super::cells`]): those wraps are loose, and would lift off.
     pub loose_outer_depth_m: f64,
     pub loose_outer_time_s: f64,
+    pub loose_outer_end_depth_m: f64,
 }
 
 /// The roll through storage.

@@ -66,20 +66,20 @@ pub struct Ended<T> {
 /// `run` is not read), handing the state at the start and after every step to `rec`. A run that
 /// fails is marked and left (its values are not meaningful after); the kernel stops when every
 /// run has failed.
-pub fn run_lane<T: Real>(
+pub fn run_lane<T: Real, R: Recorder<T>>(
     run: &LaneRun,
     params: &Params<T>,
-    rec: &mut impl Recorder<T>,
+    rec: &mut R,
 ) -> Ended<T> {
     let prep = run.prep;
     let big_r0 = run.wound.lanes[run.lane].summary.outer_radius_m;
     let mut cells = Cells::new(run);
     let (mut failed, mut failed_step) = (0, 0);
-    rec.record(&cells.snapshot(&prep.moisture.mc[0][run.lane], big_r0));
+    rec.record(&cells.snapshot(&prep.moisture.mc[0][run.lane], big_r0, &[]));
     for k in 0..run.steps.min(prep.timeline.steps.len()) {
         cells.coefficients(run, params, k);
         cells.assemble();
-        let now = cells.solve() | cells.apply();
+        let now = cells.solve() | cells.apply(R::HELD);
         if failed == 0 && now != 0 {
             failed_step = k;
         }
@@ -88,7 +88,8 @@ pub fn run_lane<T: Real>(
             break;
         }
         cells.update_creep(run.material, params);
-        rec.record(&cells.snapshot(&prep.moisture.mc[k + 1][run.lane], big_r0));
+        let held = if R::HELD { &cells.held[..] } else { &[] };
+        rec.record(&cells.snapshot(&prep.moisture.mc[k + 1][run.lane], big_r0, held));
     }
     Ended {
         failed,
@@ -145,6 +146,9 @@ struct Cells<'a, T> {
     d: Vec<T>,
     s: Vec<T>,
     dsr_face: Vec<T>,
+    /// Per cell, the runs (bits) whose radial stress the last step held at zero (kept only
+    /// when the recorder asks, [`Recorder::HELD`]).
+    held: Vec<u32>,
 }
 
 impl<'a, T: Real> Cells<'a, T> {
@@ -188,6 +192,7 @@ impl<'a, T: Real> Cells<'a, T> {
             d: z.clone(),
             s: z,
             dsr_face: vec![T::default(); nr + 1],
+            held: vec![0; nr],
         };
         cells.elastic(run.material);
         cells
@@ -203,7 +208,7 @@ impl<'a, T: Real> Cells<'a, T> {
     }
 
     /// The state handed to a recorder, with moisture `mc` at the cells.
-    fn snapshot<'s>(&'s self, mc: &'s [f64], big_r0: f64) -> Snapshot<'s, T> {
+    fn snapshot<'s>(&'s self, mc: &'s [f64], big_r0: f64, held: &'s [u32]) -> Snapshot<'s, T> {
         Snapshot {
             mc,
             radial_stress_pa: &self.sr,
@@ -211,6 +216,7 @@ impl<'a, T: Real> Cells<'a, T> {
             md_creep: &self.ct,
             surface_pressure_pa: zone_pressure(&self.sr, self.f),
             diameter_m: (self.u_surface + big_r0) * 2.0,
+            held,
         }
     }
 
@@ -347,9 +353,9 @@ impl<'a, T: Real> Cells<'a, T> {
         thomas_of(&self.a, &self.b, &self.c, &mut self.d, &mut self.s)
     }
 
-    /// Apply the stress increments of the solved step; returns the runs with a stress not
-    /// finite.
-    fn apply(&mut self) -> u32 {
+    /// Apply the stress increments of the solved step, marking the cells held at zero pressure
+    /// when `mark_held`; returns the runs with a stress not finite.
+    fn apply(&mut self, mark_held: bool) -> u32 {
         let (f, r) = (self.f, self.r);
         let nr = r.len();
         let du = &self.d;
@@ -365,7 +371,11 @@ impl<'a, T: Real> Cells<'a, T> {
             let dst = self.eh_t[j] * (du_j * self.inv_r[j] - self.h_t[j]);
             let dsr = (self.dsr_face[j] + self.dsr_face[j + 1]) * 0.5;
             self.st[j] += dst;
-            self.sr[j] = (self.sr[j] + dsr).min_f(0.0);
+            let sr = self.sr[j] + dsr;
+            if mark_held {
+                self.held[j] = sr.which(|x| x > 0.0);
+            }
+            self.sr[j] = sr.min_f(0.0);
             finite.see(self.st[j]);
             finite.see(self.sr[j]);
         }

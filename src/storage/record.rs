@@ -23,10 +23,16 @@ pub struct Snapshot<'a, T = f64> {
     pub surface_pressure_pa: T,
     /// Lane diameter, m.
     pub diameter_m: T,
+    /// Per cell, the runs (bits) whose radial stress the step just ended would have turned to
+    /// tension and the kernel held at zero instead; empty at the start, and unless the recorder
+    /// asks for it ([`Recorder::HELD`]).
+    pub held: &'a [u32],
 }
 
 /// What a lane run keeps of each step end.
 pub trait Recorder<T = f64> {
+    /// Whether the kernel should mark the cells it held at zero pressure ([`Snapshot::held`]).
+    const HELD: bool = false;
     /// Keep what is wanted of the state at a step end (called for the start and every step).
     fn record(&mut self, s: &Snapshot<T>);
 }
@@ -90,6 +96,9 @@ pub struct FullRecord<'a> {
     /// Cell faces (m) and step-end times (s) of the run.
     faces: &'a [f64],
     times: &'a [f64],
+    /// Cells that had interlayer pressure at the start of storage (a cell wound slack was never
+    /// pressed on, so it is not loosened in storage).
+    pressed: Vec<bool>,
 }
 
 impl<'a> FullRecord<'a> {
@@ -134,6 +143,7 @@ impl<'a> FullRecord<'a> {
                 final_tangential_stress_pa: Vec::new(),
                 loose_outer_depth_m: 0.0,
                 loose_outer_time_s: 0.0,
+                loose_outer_end_depth_m: 0.0,
             },
             hardness,
             vol,
@@ -146,21 +156,29 @@ impl<'a> FullRecord<'a> {
             md_modulus_pa: material.md_modulus_pa,
             faces: f,
             times: &prep.timeline.times,
+            pressed: Vec::new(),
         }
     }
 
-    /// Keep the depth below the barrel (m) of the deepest cell of the outer half of the radius
-    /// with no interlayer pressure (radial stress `sr`, Pa), when it is the deepest yet.
-    fn loose(&mut self, sr: &[f64]) {
+    /// Keep the loose outer wraps of a step end: the depth below the barrel (m) of the deepest
+    /// cell of the outer half, pressed on at the start of storage, that the kernel held at zero
+    /// pressure (`held`, bit 0), the deepest so far with its time, and the depth at the latest
+    /// step end.
+    fn loose(&mut self, held: &[u32]) {
         let f = self.faces;
         let (Some(&top), Some(&bottom)) = (f.last(), f.first()) else {
             return;
         };
+        if held.is_empty() {
+            return;
+        }
         let mid = 0.5 * (top + bottom);
-        let deepest = (0..sr.len())
-            .filter(|&j| f[j] >= mid && sr[j] >= 0.0)
+        let pressed = |j: usize| self.pressed.get(j).copied().unwrap_or(false);
+        let deepest = (0..held.len())
+            .filter(|&j| f[j] >= mid && held[j] & 1 != 0 && pressed(j))
             .map(|j| top - f[j])
             .fold(0.0, f64::max);
+        self.out.loose_outer_end_depth_m = deepest;
         if deepest > self.out.loose_outer_depth_m {
             let step = self.out.diameter_m.len();
             self.out.loose_outer_depth_m = deepest;
@@ -182,6 +200,7 @@ impl<'a> FullRecord<'a> {
 }
 
 impl Recorder for FullRecord<'_> {
+    const HELD: bool = true;
     fn record(&mut self, s: &Snapshot) {
         let (mc, st, ct) = (s.mc, s.tangential_stress_pa, s.md_creep);
         let (mc0, beta, e_t, born) = (
@@ -191,7 +210,10 @@ impl Recorder for FullRecord<'_> {
             self.born,
         );
         let nr = self.vol.len();
-        self.loose(s.radial_stress_pa);
+        if self.out.diameter_m.is_empty() {
+            self.pressed = s.radial_stress_pa.iter().map(|&x| x < 0.0).collect();
+        }
+        self.loose(s.held);
         self.out.surface_pressure_pa.push(s.surface_pressure_pa);
         self.out
             .hardness

@@ -12,6 +12,7 @@ pub mod coupling;
 mod element;
 pub mod hakiel;
 mod roll;
+mod secant;
 mod substeps;
 mod summary;
 mod uniform;

@@ -22,6 +22,8 @@
 use super::centrifugal::lift_off_speed;
 use super::coupling;
 use super::hakiel::{LaneModel, LaneState};
+use super::secant::compressed_caliper;
+pub use super::secant::Secant;
 use super::summary::summarise;
 pub use super::summary::SURFACE_ZONE_M;
 use crate::case::{Material, Roll, Winding};
@@ -274,11 +276,11 @@ pub fn grid(rc: f64, big_r: f64, nodes: usize) -> Vec<f64> {
 
 /// Lanes accreted together: their states, the layers per node, and each lane's nip load (N/m)
 /// and outer radius (m) at the last contact update.
-struct Accreted {
-    states: Vec<LaneState>,
-    per_node: f64,
-    nip_n_per_m: Vec<f64>,
-    radii_m: Vec<f64>,
+pub(super) struct Accreted {
+    pub states: Vec<LaneState>,
+    pub per_node: f64,
+    pub nip_n_per_m: Vec<f64>,
+    pub radii_m: Vec<f64>,
 }
 
 /// How the lanes share the winder's loads at one update of their radii ([`super::coupling`]):
@@ -299,7 +301,7 @@ fn couple(input: &WindInput, lanes: &Lanes, radii: &[f64], levelling: f64) -> (V
 
 /// Accrete all lanes on a grid of `nodes` nodes. A grid step's sub-steps are the same for every
 /// lane: they are planned once per step ([`LaneState::plan`]).
-fn accrete(
+pub(super) fn accrete(
     input: &WindInput,
     lanes: &Lanes,
     nodes: usize,
@@ -377,121 +379,6 @@ fn accrete(
     })
 }
 
-/// The stated diameter is the as-wound one: the compressed mean caliper c_eff (m) for which the
-/// compressed build of the mean lane fills the roll. Secant iteration on ln c_eff for the zero of
-/// ln((built - rc) / (R - rc)), on a coarse grid of [`COARSE_NODES`] nodes (the build is a
-/// smooth integral of the strain; its discretisation error there is far below the 1 % of the
-/// stresses), to [`CALIPER_TOL`].
-///
-/// On a wanted grid no finer than the coarse one, the answer's accretion is the wound state
-/// itself and is handed back, so it is not wound a second time. The iteration starts from
-/// `start` (its caliper and slope), else from the mean caliper with slope -1. Where the miss is
-/// rough (a step no longer halves the smallest miss so far, [`STALL`]), the answer is the best
-/// iterate.
-fn compressed_caliper(
-    input: &WindInput,
-    lanes: &Lanes,
-    opt: Options,
-    start: Option<Secant>,
-) -> Result<(Secant, Option<Accreted>), WindError> {
-    let model = lane_model(input);
-    let rc = 0.5 * input.roll.core_diameter_m;
-    let big_r = 0.5 * input.roll.diameter_m;
-    let widths = lanes.widths();
-    let width: f64 = widths.iter().sum();
-    let cal = lanes.calipers();
-    let coarse = COARSE_NODES.min(opt.nodes);
-    // the miss at ln c_eff = x, and the accretion when it is the wound state itself
-    let miss = |x: f64| -> Result<(f64, Option<Accreted>), WindError> {
-        let c_eff = x.exp();
-        let acc = accrete(input, lanes, coarse, opt.levelling, c_eff)?;
-        let built = acc
-            .states
-            .iter()
-            .zip(&widths)
-            .zip(&cal)
-            .map(|((s, w), c)| w * s.outer_radius(&model, 1.0 / c_eff, *c))
-            .sum::<f64>()
-            / width;
-        let h = ((built - rc) / (big_r - rc)).ln();
-        if !h.is_finite() {
-            // the build is not above the core: the layers are compressed to nothing
-            return Err(WindError::Stack { caliper_m: c_eff });
-        }
-        Ok((h, (coarse == opt.nodes).then_some(acc)))
-    };
-    // a miss's slope against ln c_eff is about -1 (the build scales with caliper / c_eff)
-    let (mut x0, mut slope) = match start {
-        Some(s) if s.slope.is_finite() && s.slope < -0.1 => (s.caliper_m.ln(), s.slope),
-        Some(s) => (s.caliper_m.ln(), -1.0),
-        None => (lanes.mean_caliper_m.ln(), -1.0),
-    };
-    let (mut h0, acc) = miss(x0)?;
-    // the iterate with the smallest miss so far: (|miss|, x, its accretion)
-    let mut best = (h0.abs(), x0, acc);
-    let mut x1 = x0 - h0 / slope;
-    for evals in 1..=12 {
-        if h0.abs() < CALIPER_TOL {
-            x1 = x0;
-            break;
-        }
-        let (h1, acc) = miss(x1)?;
-        let stalled = evals >= 2 && h1.abs() > STALL * best.0;
-        if h1.abs() < best.0 {
-            best = (h1.abs(), x1, acc);
-        }
-        if h1.abs() < CALIPER_TOL || h1 == h0 {
-            break;
-        }
-        if stalled {
-            // the miss is rough below this level (the nip's contact share chatters between
-            // the steps of a coarse grid): the best iterate is as good as any further one
-            x1 = best.1;
-            break;
-        }
-        let x2 = x1 - h1 * (x1 - x0) / (h1 - h0);
-        slope = (h1 - h0) / (x1 - x0);
-        (x0, h0, x1) = (x1, h1, x2);
-    }
-    let kept = best.2.filter(|_| best.1.to_bits() == x1.to_bits());
-    let found = Secant {
-        caliper_m: x1.exp(),
-        slope,
-    };
-    Ok((found, kept))
-}
-
-/// Where the secant for the compressed caliper ended (or is to start): the compressed caliper
-/// (m) and the slope of its miss, d ln((built - rc) / (R - rc)) / d ln c_eff (about -1).
-#[derive(Debug, Clone, Copy, PartialEq, Default)]
-pub struct Secant {
-    pub caliper_m: f64,
-    pub slope: f64,
-}
-
-impl Secant {
-    /// A start for a like roll of mean caliper `to_m` (m): this secant's end, the compressed
-    /// caliper scaled from the mean caliper `from_m` (m) it was found for; `None` where there is
-    /// no end to start from (a secant never run).
-    pub fn scaled(&self, from_m: f64, to_m: f64) -> Option<Secant> {
-        (self.caliper_m > 0.0).then(|| Secant {
-            caliper_m: self.caliper_m * to_m / from_m.max(1e-12),
-            slope: self.slope,
-        })
-    }
-}
-
-/// Nodes of the grid on which the compressed caliper is found.
-const COARSE_NODES: usize = 121;
-/// Tolerance on ln((built - rc) / (R - rc)) for the compressed caliper: 4 um of radius on a
-/// 0.4 m build, some 25 times below a diameter tape's resolution and 15 times below the coarse
-/// grid's own error in the build (about 1.5e-4, the difference of 61- and 121-node grids over
-/// three). It ends most secants of a like roll after its second miss.
-const CALIPER_TOL: f64 = 1e-5;
-/// A secant step that does not at least halve the smallest miss so far (after the first two)
-/// ends the iteration at the best iterate: the miss is rough at that level.
-const STALL: f64 = 0.5;
-
 /// Wind every lane of the roll.
 ///
 /// Each lane's wound-in tension is its share of the web tension plus the nip-induced part
@@ -566,6 +453,11 @@ pub fn wind_from(
             }
         })
         .collect();
+    // a stack strain of 100 % or more at a lane's peak pressure leaves layers of no thickness
+    let crushed = |l: &LaneStress| mat.stack.strain(l.summary.peak_pressure_pa) >= 1.0;
+    if out.iter().any(crushed) {
+        return Err(WindError::Stack { caliper_m: c_eff });
+    }
     let shear_lag_m = final_shear_lag(input, lanes, &out);
     let wound = Wound {
         radius_m: grid,
