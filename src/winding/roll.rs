@@ -274,6 +274,31 @@ pub fn grid(rc: f64, big_r: f64, nodes: usize) -> Vec<f64> {
         .collect()
 }
 
+/// What a roll's build is measured against: the lane model, core and roll radii (m), the lanes'
+/// widths (m) and their sum, and the lanes' calipers (m).
+pub(super) struct Build {
+    pub model: LaneModel,
+    pub rc: f64,
+    pub big_r: f64,
+    pub widths: Vec<f64>,
+    pub width: f64,
+    pub cal: Vec<f64>,
+}
+
+impl Build {
+    pub(super) fn of(input: &WindInput, lanes: &Lanes) -> Self {
+        let widths = lanes.widths();
+        Build {
+            model: lane_model(input),
+            rc: 0.5 * input.roll.core_diameter_m,
+            big_r: 0.5 * input.roll.diameter_m,
+            width: widths.iter().sum(),
+            widths,
+            cal: lanes.calipers(),
+        }
+    }
+}
+
 /// Lanes accreted together: their states, the layers per node, and each lane's nip load (N/m)
 /// and outer radius (m) at the last contact update.
 pub(super) struct Accreted {
@@ -414,12 +439,14 @@ pub fn wind_from(
         return Ok((super::uniform::on_every_lane(w, input, lanes), found));
     }
     let mat = &input.material;
-    let model = lane_model(input);
-    let rc = 0.5 * input.roll.core_diameter_m;
-    let big_r = 0.5 * input.roll.diameter_m;
-    let widths = lanes.widths();
-    let width: f64 = widths.iter().sum();
-    let cal = lanes.calipers();
+    let Build {
+        model,
+        rc,
+        big_r,
+        widths,
+        width,
+        cal,
+    } = Build::of(input, lanes);
     let (found, kept) = compressed_caliper(input, lanes, opt, start)?;
     let c_eff = found.caliper_m;
     let layers = (big_r - rc) / c_eff;

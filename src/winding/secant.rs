@@ -2,7 +2,7 @@
 //! pressure, at which the lanes' compressed build fills the stated diameter. A secant on its
 //! logarithm, each miss one accretion of every lane on a coarse grid ([`super::roll`]).
 
-use super::roll::{accrete, lane_model, Accreted, Options, WindError, WindInput};
+use super::roll::{accrete, Accreted, Build, Options, WindError, WindInput};
 use crate::lanes::Lanes;
 
 /// The stated diameter is the as-wound one: the compressed mean caliper c_eff (m) for which the
@@ -90,36 +90,31 @@ fn build_miss(
     coarse: usize,
     x: f64,
 ) -> Result<(f64, Option<Accreted>), WindError> {
-    let model = lane_model(input);
-    let rc = 0.5 * input.roll.core_diameter_m;
-    let big_r = 0.5 * input.roll.diameter_m;
-    let widths = lanes.widths();
-    let width: f64 = widths.iter().sum();
-    let cal = lanes.calipers();
+    let b = Build::of(input, lanes);
     let c_eff = x.exp();
     let acc = accrete(input, lanes, coarse, opt.levelling, c_eff)?;
     let radius =
-        |(s, c): (&super::hakiel::LaneState, &f64)| s.outer_radius(&model, 1.0 / c_eff, *c);
-    let built = (acc.states.iter().zip(&cal))
+        |(s, c): (&super::hakiel::LaneState, &f64)| s.outer_radius(&b.model, 1.0 / c_eff, *c);
+    let built = (acc.states.iter().zip(&b.cal))
         .map(radius)
-        .zip(&widths)
+        .zip(&b.widths)
         .map(|(r, w)| w * r)
         .sum::<f64>()
-        / width;
+        / b.width;
     if !built.is_finite() {
         return Err(WindError::Solve {
-            lane: (acc.states.iter().zip(&cal))
+            lane: (acc.states.iter().zip(&b.cal))
                 .position(|sc| !radius(sc).is_finite())
                 .unwrap_or(0),
             step: coarse - 1,
             nodes: coarse,
         });
     }
-    if built <= rc {
+    if built <= b.rc {
         // the build is not above the core: the layers are compressed to nothing
         return Err(WindError::Stack { caliper_m: c_eff });
     }
-    let h = ((built - rc) / (big_r - rc)).ln();
+    let h = ((built - b.rc) / (b.big_r - b.rc)).ln();
     Ok((h, (coarse == opt.nodes).then_some(acc)))
 }
 
