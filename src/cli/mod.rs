@@ -260,7 +260,7 @@ fn model_case_file(cmd: &Command, e: &CliError) -> Option<String> {
     };
     arg.case.as_deref().map(|p| {
         if p.as_os_str() == "-" {
-            "<standard input>".to_string()
+            commands::STDIN_NAME.to_string()
         } else {
             p.display().to_string()
         }
