@@ -50,7 +50,7 @@ fn binomial_quantile(n: usize, p: f64, q: f64) -> usize {
 /// 0.27 %, two-sided normal tails) or fewer: no count lies above the 99.5 % quantile of its
 /// binomial distribution, so the intervals are not narrower than the data allow. They may be
 /// conservative, but not by more than 1.5x: the 1-sigma count is at least the 0.5 % quantile for
-/// the 13.4 % two-sided tail beyond 1.5 sigma. (Measured: 12, 2 and 1 of 92 outside 1, 2 and
+/// the 13.4 % two-sided tail beyond 1.5 sigma. (Measured: 10, 1 and 0 of 103 outside 1, 2 and
 /// 3 sigma; the prior towards the pooled scales widens the core of the posterior.) Sigma is the
 /// posterior standard deviation of the log-scale.
 #[test]

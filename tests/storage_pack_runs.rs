@@ -1,5 +1,5 @@
-//! The storage kernel run on a pack of creep parameter sets side by side (what a fit's sampler
-//! does) against each set run on its own: an invariant of the implementation, to the bit.
+//! The storage kernel run on a pack of creep parameter sets side by side (what a fit's posterior
+//! grid does) against each set run on its own: an invariant of the implementation, to the bit.
 
 use rollsleuth::case::{self, Case};
 use rollsleuth::storage::{

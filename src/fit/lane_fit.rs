@@ -15,7 +15,7 @@
 //! the pooled values, standard deviation ln 3 (a factor of three: wide enough that two good
 //! measurements of a lane overrule it, narrow enough that a lane with little data stays near the
 //! roll). The pooled stage uses up to six evenly spread lanes. Uncertainty: the lane's posterior,
-//! sampled by a seeded ensemble ([`super::posterior`]); a scale is flagged not identifiable when
+//! integrated on a grid ([`super::posterior`]); a scale is flagged not identifiable when
 //! its posterior is not narrower than the prior by sqrt 2 (the data alone constrain it less than
 //! the prior does), and then stays at the pooled value (hierarchical shrinkage).
 
@@ -367,8 +367,8 @@ pub struct Uncertainty {
     pub md_creep_scale_high: f64,
     pub radial_creep_scale_low: f64,
     pub radial_creep_scale_high: f64,
-    /// Share of the sampler's proposals accepted.
-    pub acceptance: f64,
+    /// Nodes of the grid the posterior was integrated on ([`super::posterior::quadrature`]).
+    pub posterior_nodes: usize,
 }
 
 /// A lane's fit.
@@ -405,7 +405,7 @@ pub struct LaneFit {
 }
 
 /// Fit one lane with a prior centred on `prior` (the pooled log-scales): the optimum by
-/// Nelder-Mead, then the posterior by a seeded ensemble sampler ([`super::posterior::sample`]).
+/// Nelder-Mead, then the posterior by quadrature on a grid ([`super::posterior::quadrature`]).
 /// A scale the data do not identify is set to the pooled value when the pooled value lies inside
 /// its one-sigma posterior interval.
 pub fn fit_lane(p: &LaneProblem, prior: [f64; 2], seed: u64) -> Result<LaneFit, SolverError> {
@@ -418,7 +418,7 @@ pub fn fit_lane(p: &LaneProblem, prior: [f64; 2], seed: u64) -> Result<LaneFit, 
     let m = minimise(&obj, prior)?;
     let f = |t: &[f64]| obj.value(t);
     let h = hessian2(&f, &m.theta, 0.05);
-    let post = super::posterior::sample(&obj, &m.theta, [PRIOR_SD_LN; 2], seed);
+    let post = super::posterior::quadrature(&obj, &m.theta, h, PRIOR_SD_LN, seed);
     // the data alone: the curvature without the prior's part
     let ip = 1.0 / (PRIOR_SD_LN * PRIOR_SD_LN);
     let cov_data = inverse_pd([[h[0][0] - ip, h[0][1]], [h[1][0], h[1][1] - ip]]);
@@ -464,7 +464,7 @@ pub fn fit_lane(p: &LaneProblem, prior: [f64; 2], seed: u64) -> Result<LaneFit, 
             md_creep_scale_high: post.high[0].exp(),
             radial_creep_scale_low: post.low[1].exp(),
             radial_creep_scale_high: post.high[1].exp(),
-            acceptance: post.acceptance,
+            posterior_nodes: post.nodes,
         },
         md_identifiable: ident(0),
         radial_identifiable: ident(1),

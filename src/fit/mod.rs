@@ -329,7 +329,7 @@ fn pooled_fit(problems: &[LaneProblem]) -> Result<(Minimum, u64), FitError> {
     Ok((m, evaluations))
 }
 
-/// Each lane's fit with a prior towards the pooled log-scales, its sampler seeded from the case id
+/// Each lane's fit with a prior towards the pooled log-scales, its pseudo-draws seeded from the case id
 /// and the lane; returns the fits and their simulations.
 ///
 /// Lanes are fitted in parallel (each fit is a pure function of its lane and seed); results are
