@@ -142,6 +142,11 @@ fn a_stack_squeezed_to_nothing_is_refused_naming_the_stack() {
         "{}",
         r.stdout
     );
+    // and so does its JSON row's error, as a case's own error does
+    let r = run(&["triage", "--json", s(&d.path().join("t.yaml"))]);
+    let v: serde_json::Value = serde_json::from_str(&r.stdout).unwrap();
+    let e = v["rolls"][0]["error"].as_str().unwrap_or_default();
+    assert!(e.contains("t.yaml: ") && e.contains("stack law"), "{e}");
 }
 
 #[test]

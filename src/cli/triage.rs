@@ -102,7 +102,9 @@ fn one_roll(f: &Path, table: &crate::rules::Table, opt: &DiagnoseOptions) -> Tri
     match case::load_file(f, &[]) {
         Ok(c) => match diagnose::diagnose(&c, table, opt) {
             Ok(d) => TriageRow::from_diagnosis(f, &d),
-            Err(e) => TriageRow::failed(f, &e.to_string()),
+            // a model's error does not name the file (a case's error does): every failed row's
+            // message names it, in the table, the CSV and the JSON alike
+            Err(e) => TriageRow::failed(f, &format!("{}: {e}", f.display())),
         },
         Err(e) => TriageRow::failed(f, &e.to_string()),
     }

@@ -36,7 +36,7 @@ impl TriageRow {
             warnings: words::warnings(d),
         }
     }
-    /// A roll that could not be diagnosed.
+    /// A roll that could not be diagnosed; `e` names the file (the table prints it as it is).
     pub fn failed(file: &std::path::Path, e: &str) -> Self {
         TriageRow {
             file: file.display().to_string(),
@@ -134,13 +134,8 @@ pub fn triage_text(rows: &[TriageRow], sys: System) -> String {
             warned.push_str(&format!("warning: {}: {w}\n", r.case));
         }
         if let Some(e) = &r.error {
-            // a model's error does not name the file; a case's error does
-            let e = e.trim_end();
-            if e.contains(&r.file) {
-                failed.push_str(&format!("  {e}\n"));
-            } else {
-                failed.push_str(&format!("  {}: {e}\n", r.file));
-            }
+            // every failed row's message names its file ([`TriageRow::failed`]'s callers)
+            failed.push_str(&format!("  {}\n", e.trim_end()));
             continue;
         }
         let name = std::path::Path::new(&r.file)
