@@ -490,7 +490,8 @@ fn pinned_draws(
     theta: &[f64],
     prior: [f64; 2],
 ) -> (Vec<LaneCreep>, Vec<[f64; 2]>) {
-    let t: Vec<[f64; 2]> = super::posterior::draws(post, super::posterior::DRAWS)
+    let t: Vec<[f64; 2]> = post
+        .draws
         .iter()
         .map(|t| [0, 1].map(|i| if theta[i] == prior[i] { prior[i] } else { t[i] }))
         .collect();
