@@ -522,3 +522,40 @@ fn a_uniform_roll_wound_as_one_lane_matches_its_lanes_wound_together() {
     }
     assert_relative_eq!(one.shear_lag_m, all.shear_lag_m, max_relative = 1e-9);
 }
+
+/// A roll wound with a given compressed caliper (`Caliper::Given`) has that caliper's layer count:
+/// given the caliper a diameter-filling winding found, it is that winding, to the bit; given the
+/// same caliper with every lane 2 % thicker, the same layers carry the same tension at the same
+/// pressures, so the build over the core grows by the caliper ratio (layers times thickness;
+/// the centrifugal relief, rho c v^2, moves it by far less than the 0.2 % allowed).
+#[test]
+fn a_given_caliper_winds_the_like_rolls_layer_count() {
+    use rollsleuth::winding::{wind_caliper, Caliper};
+    let c = uniform(&[]);
+    let l = lanes::build(&c);
+    let input = WindInput::new(&c.material, &c.roll, &c.winding);
+    let opt = Options {
+        nodes: 101,
+        ..Options::default()
+    };
+    let (w, found) = wind_from(&input, &l, opt, None).unwrap();
+    let (g, used) = wind_caliper(&input, &l, opt, Caliper::Given(found)).unwrap();
+    assert_eq!(used, found);
+    for (a, b) in w.lanes.iter().zip(&g.lanes) {
+        assert_eq!(a.radial_stress_pa, b.radial_stress_pa);
+    }
+    let mut thick = l.clone();
+    for lane in thick.lanes.iter_mut() {
+        lane.caliper_m *= 1.02;
+    }
+    thick.mean_caliper_m *= 1.02;
+    let (t, _) = wind_caliper(&input, &thick, opt, Caliper::Given(found)).unwrap();
+    let rc = 0.5 * c.roll.core_diameter_m;
+    let grown = |w: &rollsleuth::winding::Wound| w.lanes[0].summary.outer_radius_m - rc;
+    assert_relative_eq!(grown(&t) / grown(&w), 1.02, max_relative = 0.002);
+    let bad = Caliper::Given(rollsleuth::winding::Secant {
+        caliper_m: -1.0,
+        slope: -1.0,
+    });
+    assert!(wind_caliper(&input, &l, opt, bad).is_err());
+}

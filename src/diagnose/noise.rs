@@ -17,7 +17,7 @@ use crate::note::Note;
 use crate::rules::Table;
 use crate::storage::{age_prepared, AgeOptions, LaneCreep};
 use crate::vocab::Feature;
-use crate::winding::{coupling, wind_from, Options, Secant, WindInput};
+use crate::winding::{coupling, wind_caliper, Caliper, Options, Secant, WindInput};
 use rand::{Rng, SeedableRng};
 use rand_chacha::ChaCha8Rng;
 use serde::Serialize;
@@ -261,23 +261,24 @@ fn draw_lane_calipers(
     l
 }
 
-/// A roll on `lanes` wound at `nodes` and run through storage with `creep` per lane: its features
-/// and where its winding's secant ended. The secant starts at `start` when given ([`wind_from`]).
+/// A roll on `lanes` wound at `nodes` with its compressed caliper set as `caliper` says
+/// ([`wind_caliper`]) and run through storage with `creep` per lane: its features and the
+/// caliper its winding used.
 fn roll_features(
     lab: &Case,
     lanes: &Lanes,
     creep: &[LaneCreep],
     nodes: usize,
-    start: Option<Secant>,
+    caliper: Caliper,
 ) -> Result<(Features, Secant), DiagnoseError> {
-    let (wound, found) = wind_from(
+    let (wound, found) = wind_caliper(
         &WindInput::new(&lab.material, &lab.roll, &lab.winding),
         lanes,
         Options {
             nodes,
             ..Options::default()
         },
-        start,
+        caliper,
     )?;
     let (prep, map) = prepared(lab, lanes, &wound, &AgeOptions::default())?;
     let aged =
@@ -314,7 +315,7 @@ pub(super) fn flattened_features(
         l0.mean_caliper_m = fitted.lanes.mean_caliper_m;
     }
     let start = (fitted.wound.secant).scaled(fitted.lanes.mean_caliper_m, l0.mean_caliper_m);
-    roll_features(case, &l0, &fitted.creep, nodes, start).map(|(f, _)| f)
+    roll_features(case, &l0, &fitted.creep, nodes, Caliper::Fill(start)).map(|(f, _)| f)
 }
 
 /// Creep per lane of a noise-only roll: the pooled log-scales moved by one of the lane's own
@@ -342,9 +343,12 @@ fn noisy_creep(lab: &Case, fit: &crate::fit::RollFit, rng: &mut ChaCha8Rng) -> V
 
 /// Features of [`NOISE_ROLLS`] noise-only uniform rolls at `nodes` (drawn in a fixed order from
 /// `rng`, run in parallel, collected in order), with caliper noise `rep` (m). `clean`: the
-/// noise-free roll's mean caliper (m) and where its secant ended; each noise roll's secant
-/// starts there, the compressed caliper scaled by the roll's own mean caliper (two windings of
-/// the coarse grid instead of about four; the floors move within the secant's tolerance).
+/// noise-free roll's mean caliper (m) and where its secant ended. Each noise roll has the clean
+/// roll's layer count: its compressed caliper is the clean roll's scaled by its own mean caliper
+/// ([`Caliper::Given`]), so it is the clean roll wound to the same length with noisy calipers,
+/// and its build ends where they put it (within about 0.1 % of the stated diameter; a shift
+/// common to every lane, which no lane-to-lane feature reads). One winding each, where filling
+/// the stated diameter took two.
 fn noise_rolls(
     lab: &Case,
     fitted: &Fitted,
@@ -362,8 +366,11 @@ fn noise_rolls(
     inputs
         .par_iter()
         .map(|(l, c)| {
-            let start = clean.1.scaled(clean.0, l.mean_caliper_m);
-            roll_features(lab, l, c, nodes, start).map(|(f, _)| f)
+            let given = Secant {
+                caliper_m: clean.1.caliper_m * l.mean_caliper_m / clean.0.max(1e-12),
+                slope: clean.1.slope,
+            };
+            roll_features(lab, l, c, nodes, Caliper::Given(given)).map(|(f, _)| f)
         })
         .collect()
 }
@@ -413,9 +420,9 @@ pub(super) fn noise_floor(
     let pooled = vec![pooled; fit.lanes.len()];
     // the noise-free roll's secant starts from the measured roll's (as a like roll's)
     let start = (fitted.wound.secant).scaled(fitted.lanes.mean_caliper_m, l0.mean_caliper_m);
-    let (uniform, _) = roll_features(lab, &l0, &pooled, nodes, start)?;
+    let (uniform, _) = roll_features(lab, &l0, &pooled, nodes, Caliper::Fill(start))?;
     let coarse = nodes.min(noise_nodes(lab));
-    let (clean, found) = roll_features(lab, &l0, &pooled, coarse, start)?;
+    let (clean, found) = roll_features(lab, &l0, &pooled, coarse, Caliper::Fill(start))?;
     let mut rng = ChaCha8Rng::seed_from_u64(posterior::seed_for(&lab.id, NOISE_SEED_LANE));
     let at = (coarse, (l0.mean_caliper_m, found));
     let rolls = noise_rolls(lab, fitted, rep, at, &mut rng)?;

@@ -21,6 +21,6 @@ pub use self::core::{collapse_pressure, core_stiffness, of as core_of, ring_coll
 pub use cache::Cache;
 pub use centrifugal::{disk_stress, lift_off_speed};
 pub use roll::{
-    lane_model, wind, wind_from, LaneStress, LaneSummary, Options, Secant, WindError, WindInput,
-    Wound, DEFAULT_LEVELLING, DEFAULT_NODES, SURFACE_ZONE_M,
+    lane_model, wind, wind_caliper, wind_from, Caliper, LaneStress, LaneSummary, Options, Secant,
+    WindError, WindInput, Wound, DEFAULT_LEVELLING, DEFAULT_NODES, SURFACE_ZONE_M,
 };

@@ -428,6 +428,29 @@ pub fn wind_from(
     opt: Options,
     start: Option<Secant>,
 ) -> Result<(Wound, Secant), WindError> {
+    wind_caliper(input, lanes, opt, Caliper::Fill(start))
+}
+
+/// How a winding sets its compressed caliper (the mean compressed layer thickness).
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub enum Caliper {
+    /// Found by the secant so that the build fills the stated diameter, started where given
+    /// ([`wind_from`]).
+    Fill(Option<Secant>),
+    /// Given: the roll has the layer count (R - rc) / caliper of a like roll, and its build
+    /// ends where its own lanes put it (a roll wound to a length rather than to a diameter).
+    /// One accretion instead of the secant's two or more.
+    Given(Secant),
+}
+
+/// [`wind_from`] with the compressed caliper set as `caliper` says; returns the wound state and
+/// the caliper used (with the secant's slope).
+pub fn wind_caliper(
+    input: &WindInput,
+    lanes: &Lanes,
+    opt: Options,
+    caliper: Caliper,
+) -> Result<(Wound, Secant), WindError> {
     if opt.nodes < 5 {
         return Err(WindError::Options("nodes must be at least 5".into()));
     }
@@ -435,9 +458,32 @@ pub fn wind_from(
         return Err(WindError::Options("levelling must be within 0..1".into()));
     }
     if let Some(one) = super::uniform::one_lane(lanes) {
-        let (w, found) = wind_from(input, &one, opt, start)?;
+        let (w, found) = wind_caliper(input, &one, opt, caliper)?;
         return Ok((super::uniform::on_every_lane(w, input, lanes), found));
     }
+    let (found, kept) = match caliper {
+        Caliper::Fill(start) => compressed_caliper(input, lanes, opt, start)?,
+        Caliper::Given(s) if s.caliper_m > 0.0 && s.caliper_m.is_finite() => (s, None),
+        Caliper::Given(s) => {
+            return Err(WindError::Options(format!(
+                "a given compressed caliper must be positive and finite, not {} m",
+                s.caliper_m
+            )))
+        }
+    };
+    let wound = wound_at(input, lanes, opt, found, kept)?;
+    Ok((wound, found))
+}
+
+/// The wound state of every lane at compressed caliper `found` (its accretion on the wanted grid
+/// when already done, `kept`), with the lanes' summaries and the roll's.
+fn wound_at(
+    input: &WindInput,
+    lanes: &Lanes,
+    opt: Options,
+    found: Secant,
+    kept: Option<Accreted>,
+) -> Result<Wound, WindError> {
     let mat = &input.material;
     let Build {
         model,
@@ -447,7 +493,6 @@ pub fn wind_from(
         width,
         cal,
     } = Build::of(input, lanes);
-    let (found, kept) = compressed_caliper(input, lanes, opt, start)?;
     let c_eff = found.caliper_m;
     let layers = (big_r - rc) / c_eff;
     let nodes = opt.nodes;
@@ -499,7 +544,7 @@ pub fn wind_from(
         core_stiffness_pa: model.core_stiffness,
         secant: found,
     };
-    Ok((wound, found))
+    Ok(wound)
 }
 
 /// Shear-lag length of CD levelling at the end of the build, m ([`coupling::shear_lag_length`]
