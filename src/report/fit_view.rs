@@ -13,7 +13,7 @@ pub fn text(c: &Case, lanes: &Lanes, f: &RollFit, sys: System) -> String {
     let mut out = String::new();
     let _ = writeln!(
         out,
-        "Case {}: creep fitted per lane to {} hardness and diameter readings (Nelder-Mead, {} model evaluations)",
+        "Case {}: creep fitted per lane to {} hardness and diameter readings (Nelder-Mead, then the posterior on a grid; {} model evaluations)",
         c.id,
         f.lanes.iter().map(|l| l.residuals.len()).sum::<usize>(),
         f.evaluations
