@@ -524,26 +524,30 @@ fn a_uniform_roll_wound_as_one_lane_matches_its_lanes_wound_together() {
 }
 
 /// A roll wound with a given compressed caliper (`Caliper::Given`) has that caliper's layer count:
-/// given the caliper a diameter-filling winding found, it is that winding, to the bit; given the
-/// same caliper with every lane 2 % thicker, the same layers carry the same tension at the same
-/// pressures, so the build over the core grows by the caliper ratio (layers times thickness;
-/// the centrifugal relief, rho c v^2, moves it by far less than the 0.2 % allowed).
+/// given the caliper a diameter-filling winding found, it is that winding, to the bit (one lane
+/// across the width, and 8 lanes of a caliper profile); given the same caliper with every lane 2 %
+/// thicker, the same layers carry the same tension at the same pressures, so the build over the
+/// core grows by the caliper ratio (layers times thickness; the centrifugal relief, rho c v^2,
+/// moves it by far less than the 0.2 % allowed). A caliper far from a like roll's is refused.
 #[test]
 fn a_given_caliper_winds_the_like_rolls_layer_count() {
-    use rollsleuth::winding::{wind_caliper, Caliper};
-    let c = uniform(&[]);
-    let l = lanes::build(&c);
-    let input = WindInput::new(&c.material, &c.roll, &c.winding);
+    use rollsleuth::winding::{wind_caliper, Caliper, Secant};
     let opt = Options {
         nodes: 101,
         ..Options::default()
     };
-    let (w, found) = wind_from(&input, &l, opt, None).unwrap();
-    let (g, used) = wind_caliper(&input, &l, opt, Caliper::Given(found)).unwrap();
-    assert_eq!(used, found);
-    for (a, b) in w.lanes.iter().zip(&g.lanes) {
-        assert_eq!(a.radial_stress_pa, b.radial_stress_pa);
+    for c in [uniform(&[]), demo(&["lanes.count=8"])] {
+        let l = lanes::build(&c);
+        let input = WindInput::new(&c.material, &c.roll, &c.winding);
+        let (w, found) = wind_from(&input, &l, opt, None).unwrap();
+        let (g, used) = wind_caliper(&input, &l, opt, Caliper::Given(found)).unwrap();
+        assert_eq!(used, found);
+        assert_eq!(w, g);
     }
+    let c = uniform(&[]);
+    let l = lanes::build(&c);
+    let input = WindInput::new(&c.material, &c.roll, &c.winding);
+    let (w, found) = wind_from(&input, &l, opt, None).unwrap();
     let mut thick = l.clone();
     for lane in thick.lanes.iter_mut() {
         lane.caliper_m *= 1.02;
@@ -553,9 +557,11 @@ fn a_given_caliper_winds_the_like_rolls_layer_count() {
     let rc = 0.5 * c.roll.core_diameter_m;
     let grown = |w: &rollsleuth::winding::Wound| w.lanes[0].summary.outer_radius_m - rc;
     assert_relative_eq!(grown(&t) / grown(&w), 1.02, max_relative = 0.002);
-    let bad = Caliper::Given(rollsleuth::winding::Secant {
-        caliper_m: -1.0,
-        slope: -1.0,
-    });
-    assert!(wind_caliper(&input, &l, opt, bad).is_err());
+    for caliper_m in [-1.0, f64::NAN, 0.5 * found.caliper_m] {
+        let bad = Caliper::Given(Secant {
+            caliper_m,
+            slope: -1.0,
+        });
+        assert!(wind_caliper(&input, &l, opt, bad).is_err(), "{caliper_m}");
+    }
 }

@@ -15,7 +15,7 @@ pub const HALF_NODES: usize = 4;
 /// its variance).
 pub const EDGE_RISE: f64 = 0.5 * 3.5 * 3.5;
 /// Rows a grid edge may grow by (after the first two each doubles the spacing: 32 of the grid's
-/// spacings in all; none of the 300 lane fits of a 30-roll recovery study used them all).
+/// spacings in all; none of the 900 lane fits of a 90-roll recovery study used them all).
 const MAX_GROW: usize = 6;
 /// Secant rounds of the half-axis search, and its tolerance on sqrt(2 rise) / Z.
 const SEARCH_ROUNDS: usize = 8;

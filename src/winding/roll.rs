@@ -184,8 +184,8 @@ pub struct Wound {
     pub shear_lag_m: f64,
     /// Core stiffness used, Pa (`None`: rigid).
     pub core_stiffness_pa: Option<f64>,
-    /// Where the secant for the compressed caliper ended: a start for a like roll
-    /// ([`wind_from`]). Not an output.
+    /// Where the secant for the compressed caliper ended (or the caliper given,
+    /// [`Caliper::Given`]): a start for a like roll ([`wind_from`]). Not an output.
     #[serde(skip)]
     pub secant: Secant,
 }
@@ -437,9 +437,10 @@ pub enum Caliper {
     /// Found by the secant so that the build fills the stated diameter, started where given
     /// ([`wind_from`]).
     Fill(Option<Secant>),
-    /// Given: the roll has the layer count (R - rc) / caliper of a like roll, and its build
-    /// ends where its own lanes put it (a roll wound to a length rather than to a diameter).
-    /// One accretion instead of the secant's two or more.
+    /// Given: a like roll's caliper (e.g. scaled by the mean calipers, which fills the stated
+    /// diameter to first order); the layer count is (R - rc) / caliper and the build ends
+    /// where the lanes put it. One accretion instead of the secant's two or more. A build more
+    /// than 5 % of the wound depth from the stated diameter is refused.
     Given(Secant),
 }
 
@@ -472,8 +473,41 @@ pub fn wind_caliper(
         }
     };
     let wound = wound_at(input, lanes, opt, found, kept)?;
+    if let Caliper::Given(_) = caliper {
+        given_build_check(input, lanes, &wound)?;
+    }
     Ok((wound, found))
 }
+
+/// A given caliper is a like roll's: a build that ends more than [`GIVEN_BUILD_MISS`] of the
+/// wound depth from the stated diameter is not a like roll, and is refused.
+fn given_build_check(input: &WindInput, lanes: &Lanes, wound: &Wound) -> Result<(), WindError> {
+    let (rc, big_r) = (
+        0.5 * input.roll.core_diameter_m,
+        0.5 * input.roll.diameter_m,
+    );
+    let widths = lanes.widths();
+    let width: f64 = widths.iter().sum();
+    let built = (wound.lanes.iter().zip(&widths))
+        .map(|(l, w)| l.summary.outer_radius_m * w)
+        .sum::<f64>()
+        / width;
+    let miss = (built - big_r) / (big_r - rc);
+    if miss.abs() <= GIVEN_BUILD_MISS {
+        return Ok(());
+    }
+    Err(WindError::Options(format!(
+        "a given compressed caliper of {:.4e} m builds to a radius of {built:.4} m where the \
+         stated diameter gives {big_r:.4} m ({:+.1} % of the wound depth): it is not a like \
+         roll's; find the caliper by filling the diameter instead",
+        wound.layer_thickness_m,
+        100.0 * miss
+    )))
+}
+
+/// Largest miss of a given caliper's build from the stated diameter, as a share of the wound
+/// depth (R - rc): a noise roll misses by well under 1 %.
+const GIVEN_BUILD_MISS: f64 = 0.05;
 
 /// The wound state of every lane at compressed caliper `found` (its accretion on the wanted grid
 /// when already done, `kept`), with the lanes' summaries and the roll's.
