@@ -378,11 +378,10 @@ fn noise_rolls(
     inputs
         .par_iter()
         .map(|(l, c)| {
-            let given = Secant {
-                caliper_m: clean.1.caliper_m * l.mean_caliper_m / clean.0.max(1e-12),
-                slope: clean.1.slope,
-            };
-            roll_features(lab, l, c, nodes, Caliper::Given(given)).map(|(f, _)| f)
+            // no clean secant to scale (never the case after a winding): fill the diameter
+            let caliper = (clean.1.scaled(clean.0, l.mean_caliper_m))
+                .map_or(Caliper::Fill(None), Caliper::Given);
+            roll_features(lab, l, c, nodes, caliper).map(|(f, _)| f)
         })
         .collect()
 }

@@ -172,19 +172,17 @@ fn half_extents(
     (t, evaluations)
 }
 
-/// The grid about `mode` (the optimum, where the Hessian is `hessian`) with the prior's standard
-/// deviation `prior_sd` as the floor of its width: the grid, its axes and the objective's
-/// evaluations.
+/// The grid about `mode` (the optimum, where the objective is `f0` and the Hessian is `hessian`)
+/// with the prior's standard deviation `prior_sd` as the floor of its width: the grid, its axes
+/// and the objective's evaluations.
 pub(super) fn explore(
     obj: &impl Density,
-    mode: &[f64],
+    (mode, f0): (&[f64], f64),
     hessian: [[f64; 2]; 2],
     prior_sd: f64,
 ) -> (Grid, [[f64; 2]; 2], u64) {
     let ax = axes(hessian, prior_sd);
-    let f0 = obj.value(mode);
     let (ext, mut evaluations) = half_extents(obj, mode, (&ax, prior_sd), f0);
-    evaluations += 1;
     let line = |a: usize| -> Vec<f64> {
         let h = HALF_NODES as f64;
         let lo = (1..=HALF_NODES).rev().map(|k| -ext[a][0] * k as f64 / h);

@@ -418,7 +418,7 @@ pub fn fit_lane(p: &LaneProblem, prior: [f64; 2], seed: u64) -> Result<LaneFit, 
     let m = minimise(&obj, prior)?;
     let f = |t: &[f64]| obj.value(t);
     let h = hessian2(&f, &m.theta, 0.05);
-    let post = super::posterior::quadrature(&obj, &m.theta, h, PRIOR_SD_LN, seed);
+    let post = super::posterior::quadrature(&obj, (&m.theta, m.cost), h, PRIOR_SD_LN, seed);
     // the data alone: the curvature without the prior's part
     let ip = 1.0 / (PRIOR_SD_LN * PRIOR_SD_LN);
     let cov_data = inverse_pd([[h[0][0] - ip, h[0][1]], [h[1][0], h[1][1] - ip]]);

@@ -81,16 +81,17 @@ pub fn quantile(sorted: &[f64], q: f64) -> f64 {
 }
 
 /// Sample the posterior exp(-objective) by quadrature on a grid about `mode` (the optimum, where
-/// the Hessian is `hessian`), with the prior's standard deviation `prior_sd` as the floor of its
-/// width (see the module note); `seed` seeds the pseudo-draws.
+/// the objective is `mode_cost`, as the optimiser found it, and the Hessian is `hessian`), with
+/// the prior's standard deviation `prior_sd` as the floor of its width (see the module note);
+/// `seed` seeds the pseudo-draws.
 pub fn quadrature(
     obj: &impl Density,
-    mode: &[f64],
+    (mode, mode_cost): (&[f64], f64),
     hessian: [[f64; 2]; 2],
     prior_sd: f64,
     seed: u64,
 ) -> Posterior {
-    let (grid, ax, evaluations) = super::grid::explore(obj, mode, hessian, prior_sd);
+    let (grid, ax, evaluations) = super::grid::explore(obj, (mode, mode_cost), hessian, prior_sd);
     let mut rng = ChaCha8Rng::seed_from_u64(seed);
     let samples = pseudo_draws(&grid, mode, &ax, prior_sd, &mut rng);
     let draws = kept_draws(&samples, DRAWS, &mut rng);
@@ -276,7 +277,7 @@ mod tests {
 
     fn post(d: &Of, mode: [f64; 2]) -> Posterior {
         let h = hessian2(&|t: &[f64]| d.value(t), &mode, 0.05);
-        quadrature(d, &mode, h, 1.0, 7)
+        quadrature(d, (&mode, d.value(&mode)), h, 1.0, 7)
     }
 
     /// A correlated normal (sd 1 and 0.5, correlation 0.9): sd and the one-sigma quantiles
@@ -350,8 +351,8 @@ mod tests {
         let h = hessian2(&|t: &[f64]| d.value(t), &[0.0, 0.0], 0.05);
         let (mut a, mut b, mut first) = (vec![], vec![], vec![]);
         for s in 0..50u64 {
-            let p = quadrature(&d, &[0.0, 0.0], h, 1.0, 100 + s);
-            let q = quadrature(&d, &[0.0, 0.0], h, 1.0, 1000 + s);
+            let p = quadrature(&d, (&[0.0, 0.0], d.value(&[0.0, 0.0])), h, 1.0, 100 + s);
+            let q = quadrature(&d, (&[0.0, 0.0], d.value(&[0.0, 0.0])), h, 1.0, 1000 + s);
             assert_eq!(p.draws.len(), DRAWS);
             first.push(p.draws[0][0]);
             a.extend(p.draws.iter().map(|t| t[0]));
@@ -378,7 +379,7 @@ mod tests {
             [[0.0; 2]; 2],
             [[-1.0, 0.0], [0.0, -3.0]],
         ] {
-            let p = quadrature(&d, &[0.0, 0.0], h, 1.0, 3);
+            let p = quadrature(&d, (&[0.0, 0.0], d.value(&[0.0, 0.0])), h, 1.0, 3);
             assert!((p.sd[0] / 0.2 - 1.0).abs() < 0.05, "{h:?}: {:?}", p.sd);
             assert!((p.sd[1] / 2.0 - 1.0).abs() < 0.05, "{h:?}: {:?}", p.sd);
         }
@@ -391,7 +392,7 @@ mod tests {
         let d = Of(|x, y| 0.5 * x * x + 2.0 * (y - 0.3 * x * x).powi(2));
         assert_eq!(post(&d, [0.0, 0.0]), post(&d, [0.0, 0.0]));
         let h = hessian2(&|t: &[f64]| d.value(t), &[0.0, 0.0], 0.05);
-        let other = quadrature(&d, &[0.0, 0.0], h, 1.0, 8);
+        let other = quadrature(&d, (&[0.0, 0.0], d.value(&[0.0, 0.0])), h, 1.0, 8);
         assert_eq!(other.nodes, post(&d, [0.0, 0.0]).nodes);
         assert!((other.sd[0] - 1.0).abs() < 0.06);
     }

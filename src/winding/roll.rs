@@ -486,12 +486,7 @@ fn given_build_check(input: &WindInput, lanes: &Lanes, wound: &Wound) -> Result<
         0.5 * input.roll.core_diameter_m,
         0.5 * input.roll.diameter_m,
     );
-    let widths = lanes.widths();
-    let width: f64 = widths.iter().sum();
-    let built = (wound.lanes.iter().zip(&widths))
-        .map(|(l, w)| l.summary.outer_radius_m * w)
-        .sum::<f64>()
-        / width;
+    let built = mean_outer_radius(lanes, &wound.lanes);
     let miss = (built - big_r) / (big_r - rc);
     if miss.abs() <= GIVEN_BUILD_MISS {
         return Ok(());
@@ -581,17 +576,21 @@ fn wound_at(
     Ok(wound)
 }
 
-/// Shear-lag length of CD levelling at the end of the build, m ([`coupling::shear_lag_length`]
-/// at the lanes' width-weighted mean outer radius).
-pub(super) fn final_shear_lag(input: &WindInput, lanes: &Lanes, out: &[LaneStress]) -> f64 {
+/// The lanes' width-weighted mean outer radius at the end of the build, m.
+fn mean_outer_radius(lanes: &Lanes, out: &[LaneStress]) -> f64 {
     let widths = lanes.widths();
     let width: f64 = widths.iter().sum();
-    let r = out
-        .iter()
+    out.iter()
         .zip(&widths)
         .map(|(l, w)| l.summary.outer_radius_m * w)
         .sum::<f64>()
-        / width;
+        / width
+}
+
+/// Shear-lag length of CD levelling at the end of the build, m ([`coupling::shear_lag_length`]
+/// at the lanes' width-weighted mean outer radius).
+pub(super) fn final_shear_lag(input: &WindInput, lanes: &Lanes, out: &[LaneStress]) -> f64 {
+    let r = mean_outer_radius(lanes, out);
     let t = input.winding.tension.at(2.0 * r);
     let nip = input.winding.nip_n_per_m;
     coupling::shear_lag_length(input.material, lanes.mean_caliper_m, t, r, nip)
