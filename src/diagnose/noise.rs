@@ -441,8 +441,8 @@ pub(super) fn noise_floor(
     let level = FAMILY_LEVEL / tests.max(1) as f64;
     let n = rolls.len().max(1) as f64;
     let q = crate::stats::student_t_isf(level, (n - 1.0).max(1.0)) * (1.0 + 1.0 / n).sqrt();
-    let band = band_test(lab, &fitted.lanes, rep, level, &mut rng);
-    let web = web_test(lab, level, &mut rng);
+    let band = band_test(lab, &fitted.lanes, rep, level);
+    let web = web_test(lab, level);
     let band_pct = band.threshold_sigmas * rep / fitted.lanes.mean_caliper_m.max(1e-12) * 100.0;
     let floor_of = |x: Feature| {
         let dev: Vec<f64> = rolls.iter().map(|f| f.get(x) - clean.get(x)).collect();
