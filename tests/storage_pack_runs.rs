@@ -3,12 +3,32 @@
 
 use rollsleuth::case::{self, Case};
 use rollsleuth::storage::{
-    age_lane_with, drive, prepare, track_lane_pack, AgeOptions, LaneCreep, LaneDrive, LaneRun,
-    Prepared, Track,
+    age_lane_pack, age_lane_with, drive, prepare, track_lane_pack, AgeOptions, FullRecord,
+    HardnessMap, LaneCreep, LaneDrive, LaneRun, Prepared, Track,
 };
 use rollsleuth::winding::Wound;
 
 mod common;
+
+/// A run of lane `lane` through the whole of storage.
+fn run<'a>(
+    case: &'a Case,
+    wound: &'a Wound,
+    prep: &'a Prepared,
+    drv: &'a LaneDrive,
+    lane: usize,
+    creep: &'a LaneCreep,
+) -> LaneRun<'a> {
+    LaneRun {
+        material: &case.material,
+        wound,
+        prep,
+        lane,
+        creep,
+        drive: drv,
+        steps: prep.timeline.steps.len(),
+    }
+}
 
 /// Each member of a pack has the bits of its own run, and a member that cannot run fails
 /// alone (the others are not touched by it).
@@ -29,24 +49,6 @@ fn a_pack_of_runs_gives_each_run_its_own_bits() {
     let mut creep = [[1.0, 1.0], [0.2, 3.0], [5.0, 0.5], [1.0, 1.0]].map(scaled);
     // a run that cannot be computed: its delayed part is not a number
     creep[3].radial.delayed = f64::NAN;
-    fn run<'a>(
-        case: &'a Case,
-        wound: &'a Wound,
-        prep: &'a Prepared,
-        drv: &'a LaneDrive,
-        lane: usize,
-        creep: &'a LaneCreep,
-    ) -> LaneRun<'a> {
-        LaneRun {
-            material: &case.material,
-            wound,
-            prep,
-            lane,
-            creep,
-            drive: drv,
-            steps: prep.timeline.steps.len(),
-        }
-    }
     let packed = track_lane_pack(&run(&case, &wound, &prep, &drv, lane, &grade), &creep)
         .expect("shared retardation times");
     for (c, got) in creep.iter().zip(&packed) {
@@ -68,4 +70,47 @@ fn a_pack_of_runs_gives_each_run_its_own_bits() {
     other[1].md.retardation_s *= 2.0;
     let base = run(&case, &wound, &prep, &drv, lane, &grade);
     assert!(track_lane_pack(&base, &other).is_none());
+}
+
+/// Everything a pack's members keep (the whole record of each, as a diagnosis's posterior states
+/// read it) is what each keeps on a run of its own, to the bit; a pack with a member that cannot
+/// run gives nothing (its members are then run one by one, which names the failure).
+#[test]
+fn a_pack_keeps_each_run_its_whole_record() {
+    let case = case::load_demo(&[]).expect("demo loads");
+    let lanes = rollsleuth::lanes::build(&case);
+    let wound = common::wound(&case, &lanes, 41);
+    let prep = prepare(
+        &rollsleuth::fit::store_input(&case, &[]),
+        &lanes,
+        &AgeOptions::default(),
+    );
+    let map = HardnessMap::default_map();
+    let scaled = |s: [f64; 2]| rollsleuth::fit::creep_from(&case.material, &s.map(f64::ln));
+    let creep = [[1.0, 1.0], [0.2, 4.0], [5.0, 0.5], [2.0, 8.0]].map(scaled);
+    let mut loose = 0;
+    for lane in [0, lanes.lanes.len() / 2] {
+        let drv = drive(&case.material, &prep, lane);
+        let packed = age_lane_pack(
+            &run(&case, &wound, &prep, &drv, lane, &creep[0]),
+            &creep,
+            &map,
+        )
+        .expect("every member runs");
+        for (c, got) in creep.iter().zip(&packed) {
+            let mut own = FullRecord::new(&case.material, &prep, &wound, lane, &map);
+            let end = age_lane_with(&run(&case, &wound, &prep, &drv, lane, c), &mut own)
+                .expect("runs on its own");
+            let alone = own.finish(end);
+            assert!(alone.diameter_m.len() > 10);
+            assert_eq!(format!("{got:?}"), format!("{alone:?}"), "lane {lane}");
+            loose += usize::from(alone.loose_outer_depth_m > 0.0);
+        }
+    }
+    // the held cells are compared too: the runs loosen outer wraps (8 of the 8 measured)
+    assert!(loose > 0);
+    let mut bad = creep;
+    bad[2].radial.delayed = f64::NAN;
+    let drv = drive(&case.material, &prep, 0);
+    assert!(age_lane_pack(&run(&case, &wound, &prep, &drv, 0, &creep[0]), &bad, &map).is_none());
 }

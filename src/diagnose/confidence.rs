@@ -57,7 +57,7 @@ use crate::case::{Case, Measure};
 use crate::fit::{posterior, prepared, with_lab_creep, FitError};
 use crate::note::Note;
 use crate::rules::{Rule, Table};
-use crate::storage::{age_prepared, AgeOptions, LaneCreep};
+use crate::storage::{age_prepared, AgeOptions, Aged, LaneAged, LaneCreep};
 use crate::vocab::{Feature, FeatureValues, Likelihood};
 use serde::Serialize;
 
@@ -400,7 +400,16 @@ struct State {
     excess_mm_per_m: Vec<f64>,
 }
 
-/// The roll run to unwind with draw k of every lane's posterior, for every k.
+/// Where the posterior states' storage runs come from.
+enum StateSource<'a> {
+    /// The fit's runs of each lane's draws.
+    Fit(Vec<&'a [LaneAged]>),
+    /// Runs here, on this storage grid and hardness map.
+    Here(crate::storage::Prepared, crate::storage::HardnessMap),
+}
+
+/// The roll run to unwind with draw k of every lane's posterior, for every k: from the fit's runs
+/// of the draws when every lane has them ([`crate::fit::LaneFit::draw_runs`]), else run here.
 fn posterior_states(lab: &Case, fitted: &Fitted) -> Result<Vec<State>, DiagnoseError> {
     let count = fitted
         .fit
@@ -409,15 +418,35 @@ fn posterior_states(lab: &Case, fitted: &Fitted) -> Result<Vec<State>, DiagnoseE
         .map(|l| l.draws.len())
         .min()
         .unwrap_or(0);
-    let (prep, map) = prepared(lab, &fitted.lanes, &fitted.wound, &AgeOptions::default())?;
+    let runs: Option<Vec<&[LaneAged]>> = (fitted.fit.lanes.iter())
+        .map(|l| l.draw_runs.as_deref().filter(|r| r.len() >= count))
+        .collect();
+    let source = match runs {
+        Some(r) => StateSource::Fit(r),
+        None => {
+            let (prep, map) = prepared(lab, &fitted.lanes, &fitted.wound, &AgeOptions::default())?;
+            StateSource::Here(prep, map)
+        }
+    };
+    let aged_at = |k: usize, creep: &[LaneCreep]| -> Result<Aged, DiagnoseError> {
+        match &source {
+            // the fit's record of the roll with each lane's run replaced by its draw k
+            StateSource::Fit(r) => Ok(fitted.fit.aged.with_lanes(r.iter().map(|l| l[k].clone()))),
+            StateSource::Here(prep, map) => {
+                Ok(
+                    age_prepared(&lab.material, prep, &fitted.wound, Some(creep), map)
+                        .map_err(FitError::from)?,
+                )
+            }
+        }
+    };
     let mut out = Vec::with_capacity(count);
     // one outcome on the fitted wound state (cloned once); each state replaces its storage and
     // unwind parts
     let mut slot: Option<super::actions::Outcome> = None;
     for k in 0..count {
         let creep: Vec<LaneCreep> = fitted.fit.lanes.iter().map(|l| l.draws[k]).collect();
-        let aged = age_prepared(&lab.material, &prep, &fitted.wound, Some(&creep), &map)
-            .map_err(FitError::from)?;
+        let aged = aged_at(k, &creep)?;
         let unwind = super::unwind::at_unwind(lab, &fitted.wound, &creep);
         let o = match slot.take() {
             Some(mut o) => {

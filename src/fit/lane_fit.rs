@@ -23,8 +23,8 @@ use super::observe::{Obs, ObsKind};
 use super::SolverError;
 use crate::case::{Burgers, Material, Measure};
 use crate::storage::{
-    age_lane_with, drive, track_lane_pack, HardnessMap, LaneCreep, LaneDrive, LaneRun, Prepared,
-    Track,
+    age_lane_pack, age_lane_with, drive, track_lane_pack, HardnessMap, LaneAged, LaneCreep,
+    LaneDrive, LaneRun, Prepared, Track,
 };
 use crate::winding::Wound;
 use argmin::core::{CostFunction, Error as ArgminError, Executor, State, TerminationReason};
@@ -302,13 +302,29 @@ pub fn minimise(obj: &Objective, start: [f64; 2]) -> Result<Minimum, SolverError
     })
 }
 
-/// 2x2 Hessian of `f` at `x` by central differences with step `h`.
-pub fn hessian2(f: &dyn Fn(&[f64]) -> f64, x: &[f64], h: f64) -> [[f64; 2]; 2] {
-    let at = |dx: f64, dy: f64| f(&[x[0] + dx, x[1] + dy]);
-    let f0 = at(0.0, 0.0);
-    let hxx = (at(h, 0.0) - 2.0 * f0 + at(-h, 0.0)) / (h * h);
-    let hyy = (at(0.0, h) - 2.0 * f0 + at(0.0, -h)) / (h * h);
-    let hxy = (at(h, h) - at(h, -h) - at(-h, h) + at(-h, -h)) / (4.0 * h * h);
+/// 2x2 Hessian at `x`, where the objective is `f0`, by central differences with step `h`; the
+/// eight points around `x` are evaluated together by `values` (the objective at each point).
+pub fn hessian2(
+    values: &dyn Fn(&[[f64; 2]]) -> Vec<f64>,
+    x: &[f64],
+    f0: f64,
+    h: f64,
+) -> [[f64; 2]; 2] {
+    let steps = [
+        [h, 0.0],
+        [-h, 0.0],
+        [0.0, h],
+        [0.0, -h],
+        [h, h],
+        [h, -h],
+        [-h, h],
+        [-h, -h],
+    ];
+    let v = values(&steps.map(|[dx, dy]| [x[0] + dx, x[1] + dy]));
+    let at = |k: usize| v.get(k).copied().unwrap_or(f64::NAN);
+    let hxx = (at(0) - 2.0 * f0 + at(1)) / (h * h);
+    let hyy = (at(2) - 2.0 * f0 + at(3)) / (h * h);
+    let hxy = (at(4) - at(5) - at(6) + at(7)) / (4.0 * h * h);
     [[hxx, hxy], [hxy, hyy]]
 }
 
@@ -402,6 +418,11 @@ pub struct LaneFit {
     /// Log-scales (MD, radial) of the same draws.
     #[serde(skip)]
     pub draws_theta: Vec<[f64; 2]>,
+    /// The lane run through the whole of storage with each of the draws, everything kept (as
+    /// [`crate::storage::age_prepared`] keeps it); `None` when a draw's run failed (a run of
+    /// its own then names the failure).
+    #[serde(skip)]
+    pub draw_runs: Option<Vec<LaneAged>>,
 }
 
 /// Fit one lane with a prior centred on `prior` (the pooled log-scales): the optimum by
@@ -416,8 +437,7 @@ pub fn fit_lane(p: &LaneProblem, prior: [f64; 2], seed: u64) -> Result<LaneFit, 
         prior_sd: PRIOR_SD_LN,
     };
     let m = minimise(&obj, prior)?;
-    let f = |t: &[f64]| obj.value(t);
-    let h = hessian2(&f, &m.theta, 0.05);
+    let h = hessian2(&|t| obj.values(t), &m.theta, m.cost, 0.05);
     let post = super::posterior::quadrature(&obj, (&m.theta, m.cost), h, PRIOR_SD_LN, seed);
     // the data alone: the curvature without the prior's part
     let ip = 1.0 / (PRIOR_SD_LN * PRIOR_SD_LN);
@@ -444,7 +464,8 @@ pub fn fit_lane(p: &LaneProblem, prior: [f64; 2], seed: u64) -> Result<LaneFit, 
     let (smd, sr) = (theta[0].exp(), theta[1].exp());
     let c = creep_from(p.material, &theta);
     let (draws, draws_theta) = pinned_draws(p.material, &post, &theta, prior);
-    prediction_bands(p, &draws_theta, &mut residuals);
+    let draw_runs = draw_runs(p, &draws);
+    prediction_bands(p, &draws_theta, draw_runs.as_deref(), &mut residuals);
     Ok(LaneFit {
         position_m: p.wound.lanes[p.lane].position_m,
         params: FittedParams {
@@ -472,13 +493,14 @@ pub fn fit_lane(p: &LaneProblem, prior: [f64; 2], seed: u64) -> Result<LaneFit, 
         rmse,
         converged: m.converged,
         iterations: m.iterations,
-        evaluations: m.evaluations + 9 + post.evaluations,
+        evaluations: m.evaluations + 8 + post.evaluations,
         start_cost: m.start_cost,
         final_cost: obj.value(&theta),
         theta,
         creep: c,
         draws,
         draws_theta,
+        draw_runs,
     })
 }
 
@@ -498,14 +520,44 @@ fn pinned_draws(
     (t.iter().map(|x| creep_from(material, x)).collect(), t)
 }
 
-/// Each residual's 5 % and 95 % prediction over the posterior draws (a draw the model cannot run
-/// is left out).
-fn prediction_bands(p: &LaneProblem, draws: &[[f64; 2]], residuals: &mut [Residual]) {
-    let preds: Vec<Vec<f64>> = p
-        .simulate_many(draws)
-        .into_iter()
-        .flatten()
-        .map(|a| p.obs.iter().map(|o| p.predict(o, &a)).collect())
+/// The lane run through the whole of storage with each of `draws`, everything kept, [`PACK`]
+/// at a time side by side ([`age_lane_pack`]); `None` when a run fails or the draws do not
+/// share their retardation times.
+fn draw_runs(p: &LaneProblem, draws: &[LaneCreep]) -> Option<Vec<LaneAged>> {
+    let mut out = Vec::with_capacity(draws.len());
+    for chunk in draws.chunks(PACK) {
+        let creep: [LaneCreep; PACK] = std::array::from_fn(|m| chunk[m.min(chunk.len() - 1)]);
+        let run = LaneRun {
+            steps: p.prep.timeline.steps.len(),
+            ..p.run(&creep[0])
+        };
+        let aged = age_lane_pack(&run, &creep, p.hardness)?;
+        out.extend(aged.into_iter().take(chunk.len()));
+    }
+    Some(out)
+}
+
+/// Each residual's 5 % and 95 % prediction over the posterior draws: from their `runs` when
+/// they all ran, else simulated here (a draw the model cannot run is left out).
+fn prediction_bands(
+    p: &LaneProblem,
+    draws: &[[f64; 2]],
+    runs: Option<&[LaneAged]>,
+    residuals: &mut [Residual],
+) {
+    let tracks: Vec<Track> = match runs {
+        Some(r) => r
+            .iter()
+            .map(|a| Track {
+                surface_pressure_pa: a.surface_pressure_pa.clone(),
+                diameter_m: a.diameter_m.clone(),
+            })
+            .collect(),
+        None => p.simulate_many(draws).into_iter().flatten().collect(),
+    };
+    let preds: Vec<Vec<f64>> = tracks
+        .iter()
+        .map(|a| p.obs.iter().map(|o| p.predict(o, a)).collect())
         .collect();
     for (j, r) in residuals.iter_mut().enumerate() {
         let mut v: Vec<f64> = preds.iter().map(|x| x[j]).collect();

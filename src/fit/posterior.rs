@@ -276,7 +276,7 @@ mod tests {
     }
 
     fn post(d: &Of, mode: [f64; 2]) -> Posterior {
-        let h = hessian2(&|t: &[f64]| d.value(t), &mode, 0.05);
+        let h = hessian2(&|t| d.values(t), &mode, d.value(&mode), 0.05);
         quadrature(d, (&mode, d.value(&mode)), h, 1.0, 7)
     }
 
@@ -348,7 +348,7 @@ mod tests {
     #[test]
     fn kept_draws_of_two_lanes_are_independent_draws_of_the_posterior() {
         let d = Of(|x, y| 0.5 * (x * x + y * y));
-        let h = hessian2(&|t: &[f64]| d.value(t), &[0.0, 0.0], 0.05);
+        let h = hessian2(&|t| d.values(t), &[0.0, 0.0], d.value(&[0.0, 0.0]), 0.05);
         let (mut a, mut b, mut first) = (vec![], vec![], vec![]);
         for s in 0..50u64 {
             let p = quadrature(&d, (&[0.0, 0.0], d.value(&[0.0, 0.0])), h, 1.0, 100 + s);
@@ -391,7 +391,7 @@ mod tests {
     fn the_posterior_is_a_pure_function_of_its_inputs() {
         let d = Of(|x, y| 0.5 * x * x + 2.0 * (y - 0.3 * x * x).powi(2));
         assert_eq!(post(&d, [0.0, 0.0]), post(&d, [0.0, 0.0]));
-        let h = hessian2(&|t: &[f64]| d.value(t), &[0.0, 0.0], 0.05);
+        let h = hessian2(&|t| d.values(t), &[0.0, 0.0], d.value(&[0.0, 0.0]), 0.05);
         let other = quadrature(&d, (&[0.0, 0.0], d.value(&[0.0, 0.0])), h, 1.0, 8);
         assert_eq!(other.nodes, post(&d, [0.0, 0.0]).nodes);
         assert!((other.sd[0] - 1.0).abs() < 0.06);

@@ -13,7 +13,7 @@
 use super::cells::{run_lane, Params};
 use super::drive::{drive, LaneDrive};
 use super::hardness::HardnessMap;
-use super::record::{FullRecord, Recorder, Track, Tracks};
+use super::record::{FullRecord, FullRecords, Recorder, Track, Tracks};
 use super::sorption::gab_moisture;
 use super::timeline::{moisture, timeline, MoistureHistory, StoreInput, Timeline};
 use crate::case::{Burgers, Material};
@@ -124,6 +124,18 @@ pub struct Aged {
 }
 
 impl Aged {
+    /// This record of the roll with `lanes` in place of its lanes' runs.
+    pub fn with_lanes(&self, lanes: impl IntoIterator<Item = LaneAged>) -> Aged {
+        Aged {
+            times_s: self.times_s.clone(),
+            radius_m: self.radius_m.clone(),
+            lanes: lanes.into_iter().collect(),
+            equilibrium_moisture_pct: self.equilibrium_moisture_pct.clone(),
+            hardness_map: self.hardness_map,
+            notes: self.notes.clone(),
+        }
+    }
+
     /// Index of the last time step.
     pub fn last(&self) -> usize {
         self.times_s.len().saturating_sub(1)
@@ -227,6 +239,33 @@ pub fn track_lane_pack<const B: usize>(
     Some(std::array::from_fn(|m| {
         (end.failed & (1 << m) == 0).then(|| rec.member(m))
     }))
+}
+
+/// [`age_lane_with`] with a [`FullRecord`] for a pack of `B` creep parameter sets on the same
+/// lane (the creep of `run` is not read), side by side, reading hardness with `hardness`: each
+/// set's record, the same to the bit as a run of its own. `None` when the sets do not share their
+/// retardation times or when any set's run fails (run them one by one: a run of its own names
+/// its failure).
+pub fn age_lane_pack<const B: usize>(
+    run: &LaneRun,
+    creep: &[LaneCreep; B],
+    hardness: &HardnessMap,
+) -> Option<[LaneAged; B]> {
+    let params = Params::pack(creep)?;
+    let member = || FullRecord::new(run.material, run.prep, run.wound, run.lane, hardness);
+    let mut rec = FullRecords::<B>::new(std::array::from_fn(|_| member()));
+    let end = run_lane(run, &params, &mut rec);
+    if end.failed != 0 {
+        return None;
+    }
+    let stress = |m: usize| FinalStress {
+        radial_pa: end.radial_pa.iter().map(|p| p.0[m]).collect(),
+        tangential_pa: end.tangential_pa.iter().map(|p| p.0[m]).collect(),
+    };
+    let out: Vec<LaneAged> = (rec.into_members().into_iter().enumerate())
+        .map(|(m, r)| r.finish(stress(m)))
+        .collect();
+    out.try_into().ok()
 }
 
 /// Mean interlayer pressure (Pa) in the outer [`SURFACE_ZONE_M`] of a lane, on the storage grid

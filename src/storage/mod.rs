@@ -17,14 +17,14 @@ mod sorption;
 mod timeline;
 
 pub use ageing::{
-    age, age_lane_with, age_prepared, prepare, track_lane_pack, AgeError, AgeOptions, Aged,
-    FinalStress, LaneAged, LaneCreep, LaneRun, Prepared,
+    age, age_lane_pack, age_lane_with, age_prepared, prepare, track_lane_pack, AgeError,
+    AgeOptions, Aged, FinalStress, LaneAged, LaneCreep, LaneRun, Prepared,
 };
 pub use ageing::{initial_stress as initial_stress_of, zone_pressure};
 pub use creep::{creep_compliance, relaxation_modulus, step_coefficients, step_update, CreepState};
 pub use drive::{drive, LaneDrive};
 pub use hardness::{HardnessMap, DEFAULT_HARDNESS_SLOPE, DEFAULT_PRESSURE_REF_PA};
-pub use record::{FullRecord, Recorder, Snapshot, Track};
+pub use record::{FullRecord, FullRecords, Recorder, Snapshot, Track};
 pub use shift::{arrhenius_shift, moisture_shift, GAS_R, T_REF_K};
 pub use sorption::gab_moisture;
 pub use timeline::{

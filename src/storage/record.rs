@@ -254,3 +254,68 @@ impl Recorder for FullRecord<'_> {
         }
     }
 }
+
+/// [`FullRecord`]s of a pack of runs side by side: each member's record kept from its own view
+/// of the pack's snapshot (the same values, to the bit, as a run of its own hands its record).
+#[derive(Debug, Clone)]
+pub struct FullRecords<'a, const B: usize> {
+    members: [FullRecord<'a>; B],
+    radial: Vec<f64>,
+    tangential: Vec<f64>,
+    md_creep: Vec<CreepState>,
+    held: Vec<u32>,
+}
+
+impl<'a, const B: usize> FullRecords<'a, B> {
+    /// Recorders for the members, each as [`FullRecord::new`] makes it.
+    pub fn new(members: [FullRecord<'a>; B]) -> Self {
+        FullRecords {
+            members,
+            radial: Vec::new(),
+            tangential: Vec::new(),
+            md_creep: Vec::new(),
+            held: Vec::new(),
+        }
+    }
+
+    /// The members' recorders.
+    pub fn into_members(self) -> [FullRecord<'a>; B] {
+        self.members
+    }
+}
+
+impl<const B: usize> Recorder<Pack<B>> for FullRecords<'_, B> {
+    const HELD: bool = true;
+    fn record(&mut self, s: &Snapshot<Pack<B>>) {
+        let FullRecords {
+            members,
+            radial,
+            tangential,
+            md_creep,
+            held,
+        } = self;
+        for (m, rec) in members.iter_mut().enumerate() {
+            radial.clear();
+            radial.extend(s.radial_stress_pa.iter().map(|p| p.0[m]));
+            tangential.clear();
+            tangential.extend(s.tangential_stress_pa.iter().map(|p| p.0[m]));
+            md_creep.clear();
+            md_creep.extend(s.md_creep.iter().map(|c| CreepState {
+                delayed: c.delayed.0[m],
+                permanent: c.permanent.0[m],
+            }));
+            // member m's held cells as a run of its own marks them (bit 0)
+            held.clear();
+            held.extend(s.held.iter().map(|h| (h >> m) & 1));
+            rec.record(&Snapshot {
+                mc: s.mc,
+                radial_stress_pa: radial,
+                tangential_stress_pa: tangential,
+                md_creep,
+                surface_pressure_pa: s.surface_pressure_pa.0[m],
+                diameter_m: s.diameter_m.0[m],
+                held,
+            });
+        }
+    }
+}
