@@ -192,11 +192,6 @@ impl<'a> FullRecord<'a> {
         self.out.final_tangential_stress_pa = end.tangential_pa;
         self.out
     }
-
-    /// Volume-weighted mean over the cells.
-    fn avg(&self, g: &dyn Fn(usize) -> f64) -> f64 {
-        (0..self.vol.len()).map(|j| self.vol[j] * g(j)).sum::<f64>() / self.vsum
-    }
 }
 
 impl Recorder for FullRecord<'_> {
@@ -219,22 +214,37 @@ impl Recorder for FullRecord<'_> {
             .hardness
             .push(self.hardness.hardness(s.surface_pressure_pa));
         self.out.diameter_m.push(s.diameter_m);
-        let perm = self.avg(&|j| ct[j].permanent);
-        let del = self.avg(&|j| ct[j].delayed);
-        let hyg = self.avg(&|j| beta * (mc[j] - mc0[j]));
-        let unwind = |j: usize| ct[j].permanent + ct[j].delayed + beta * (mc[j] - mc0[j]) + born;
-        let outer = (0..nr)
-            .filter(|&j| self.thirds[j] == 0)
-            .map(|j| self.vol[j] * unwind(j))
-            .sum::<f64>()
-            / self.outer_w;
-        let moist = self.avg(&|j| mc[j]);
-        let outer_mc = (0..nr)
-            .filter(|&j| self.thirds[j] == 0)
-            .map(|j| self.vol[j] * mc[j])
-            .sum::<f64>()
-            / self.outer_w;
-        let elastic = self.avg(&|j| st[j] / e_t);
+        // every cell sum in one pass, each added in cell order from -0.0 as `Iterator::sum`
+        // adds (the same bits as a pass per sum)
+        let (mut perm, mut del, mut hyg, mut moist, mut elastic) = (-0.0, -0.0, -0.0, -0.0, -0.0);
+        let (mut outer, mut outer_mc) = (-0.0, -0.0);
+        let mut by = [0.0; 3];
+        let mut wsum = [0.0; 3];
+        for j in 0..nr {
+            let v = self.vol[j];
+            let hygro = beta * (mc[j] - mc0[j]);
+            let unwind = ct[j].permanent + ct[j].delayed + hygro + born;
+            perm += v * ct[j].permanent;
+            del += v * ct[j].delayed;
+            hyg += v * hygro;
+            moist += v * mc[j];
+            elastic += v * (st[j] / e_t);
+            let third = self.thirds[j];
+            if third == 0 {
+                outer += v * unwind;
+                outer_mc += v * mc[j];
+            }
+            by[third] += v * unwind;
+            wsum[third] += v;
+        }
+        let (perm, del, hyg, moist, elastic) = (
+            perm / self.vsum,
+            del / self.vsum,
+            hyg / self.vsum,
+            moist / self.vsum,
+            elastic / self.vsum,
+        );
+        let (outer, outer_mc) = (outer / self.outer_w, outer_mc / self.outer_w);
         let out = &mut self.out;
         out.moisture_pct.push(moist);
         out.outer_moisture_pct.push(outer_mc);
@@ -243,12 +253,6 @@ impl Recorder for FullRecord<'_> {
         out.elastic_strain.push(elastic);
         out.hygro_strain.push(hyg);
         out.strain_at_unwind.push(outer);
-        let mut by = [0.0; 3];
-        let mut wsum = [0.0; 3];
-        for j in 0..nr {
-            by[self.thirds[j]] += self.vol[j] * unwind(j);
-            wsum[self.thirds[j]] += self.vol[j];
-        }
         for z in 0..3 {
             out.strain_at_unwind_by_third[z] = by[z] / wsum[z].max(1e-300);
         }
