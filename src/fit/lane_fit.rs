@@ -237,14 +237,19 @@ impl Objective<'_, '_> {
     }
 }
 
-/// Borrowing adapter so argmin can run on an objective it does not own.
-struct Borrowed<'o, 'a, 'b>(&'o Objective<'a, 'b>);
+/// Borrowing adapter so argmin can run on an objective it does not own, with the values of
+/// points already evaluated (the start simplex, run side by side) kept by their bits.
+struct Borrowed<'o, 'a, 'b>(&'o Objective<'a, 'b>, Vec<([u64; 2], f64)>);
 
 impl CostFunction for Borrowed<'_, '_, '_> {
     type Param = Vec<f64>;
     type Output = f64;
     fn cost(&self, p: &Self::Param) -> Result<f64, ArgminError> {
-        Ok(self.0.value(p))
+        let key = |x: &[f64]| [x.first(), x.get(1)].map(|v| v.map_or(u64::MAX, |v| v.to_bits()));
+        match (p.len() == 2).then(|| self.1.iter().find(|(k, _)| *k == key(p))) {
+            Some(Some((_, v))) => Ok(*v),
+            _ => Ok(self.0.value(p)),
+        }
     }
 }
 
@@ -261,16 +266,21 @@ pub struct Minimum {
 
 /// Minimise an objective from `start` with Nelder-Mead.
 pub fn minimise(obj: &Objective, start: [f64; 2]) -> Result<Minimum, SolverError> {
-    let start_cost = obj.value(&start);
-    let simplex = vec![
-        start.to_vec(),
-        vec![start[0] + 0.7, start[1]],
-        vec![start[0], start[1] + 0.7],
+    let vertices = [
+        start,
+        [start[0] + 0.7, start[1]],
+        [start[0], start[1] + 0.7],
     ];
+    // the start simplex run side by side (the same values, to the bit)
+    let known: Vec<([u64; 2], f64)> = (vertices.iter().map(|v| v.map(f64::to_bits)))
+        .zip(obj.values(&vertices))
+        .collect();
+    let start_cost = known[0].1;
+    let simplex = vertices.iter().map(|v| v.to_vec()).collect();
     let solver = NelderMead::new(simplex)
         .with_sd_tolerance(1e-3)
         .map_err(SolverError::optimiser)?;
-    let res = Executor::new(Borrowed(obj), solver)
+    let res = Executor::new(Borrowed(obj, known), solver)
         .configure(|s| s.max_iters(MAX_ITERS).counting(true))
         .timer(false)
         .run()
@@ -285,8 +295,14 @@ pub fn minimise(obj: &Objective, start: [f64; 2]) -> Result<Minimum, SolverError
         Some(TerminationReason::SolverConverged)
     );
     let evaluations = st.get_func_counts().values().sum::<u64>();
-    let mut theta = clamp_theta(&theta);
-    let mut cost = obj.value(&theta);
+    let clamped = clamp_theta(&theta);
+    // the best point's value is the objective's there unless clamping moved it
+    let mut cost = if clamped == theta && st.get_best_cost().is_finite() {
+        st.get_best_cost()
+    } else {
+        obj.value(&clamped)
+    };
+    let mut theta = clamped;
     if cost > start_cost {
         // never report something worse than where we started
         theta = start.to_vec();
