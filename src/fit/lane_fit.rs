@@ -23,8 +23,8 @@ use super::observe::{Obs, ObsKind};
 use super::SolverError;
 use crate::case::{Burgers, Material, Measure};
 use crate::storage::{
-    age_lane_pack, age_lane_with, drive, track_lane_pack, HardnessMap, LaneAged, LaneCreep,
-    LaneDrive, LaneRun, Prepared, Track,
+    age_lane_with, drive, track_lane_pack, HardnessMap, LaneAged, LaneCreep, LaneDrive, LaneRun,
+    Prepared, Track,
 };
 use crate::winding::Wound;
 use argmin::core::{CostFunction, Error as ArgminError, Executor, State, TerminationReason};
@@ -106,7 +106,7 @@ impl<'a> LaneProblem<'a> {
     }
 
     /// The lane's storage run with `creep`.
-    fn run<'r>(&'r self, creep: &'r LaneCreep) -> LaneRun<'r> {
+    pub(super) fn run<'r>(&'r self, creep: &'r LaneCreep) -> LaneRun<'r> {
         LaneRun {
             material: self.material,
             wound: self.wound,
@@ -479,9 +479,9 @@ pub fn fit_lane(p: &LaneProblem, prior: [f64; 2], seed: u64) -> Result<LaneFit, 
     };
     let (smd, sr) = (theta[0].exp(), theta[1].exp());
     let c = creep_from(p.material, &theta);
-    let (draws, draws_theta) = pinned_draws(p.material, &post, &theta, prior);
-    let draw_runs = draw_runs(p, &draws);
-    prediction_bands(p, &draws_theta, draw_runs.as_deref(), &mut residuals);
+    let (draws, draws_theta) = super::draws::pinned_draws(p.material, &post, &theta, prior);
+    let draw_runs = super::draws::draw_runs(p, &draws);
+    super::draws::prediction_bands(p, &draws_theta, draw_runs.as_deref(), &mut residuals);
     Ok(LaneFit {
         position_m: p.wound.lanes[p.lane].position_m,
         params: FittedParams {
@@ -518,72 +518,6 @@ pub fn fit_lane(p: &LaneProblem, prior: [f64; 2], seed: u64) -> Result<LaneFit, 
         draws_theta,
         draw_runs,
     })
-}
-
-/// Posterior draws for propagation; a scale shrunk to the pooled value stays there, as the
-/// optimum does.
-fn pinned_draws(
-    material: &Material,
-    post: &super::posterior::Posterior,
-    theta: &[f64],
-    prior: [f64; 2],
-) -> (Vec<LaneCreep>, Vec<[f64; 2]>) {
-    let t: Vec<[f64; 2]> = post
-        .draws
-        .iter()
-        .map(|t| [0, 1].map(|i| if theta[i] == prior[i] { prior[i] } else { t[i] }))
-        .collect();
-    (t.iter().map(|x| creep_from(material, x)).collect(), t)
-}
-
-/// The lane run through the whole of storage with each of `draws`, everything kept, [`PACK`]
-/// at a time side by side ([`age_lane_pack`]); `None` when a run fails or the draws do not
-/// share their retardation times.
-fn draw_runs(p: &LaneProblem, draws: &[LaneCreep]) -> Option<Vec<LaneAged>> {
-    let mut out = Vec::with_capacity(draws.len());
-    for chunk in draws.chunks(PACK) {
-        let creep: [LaneCreep; PACK] = std::array::from_fn(|m| chunk[m.min(chunk.len() - 1)]);
-        let run = LaneRun {
-            steps: p.prep.timeline.steps.len(),
-            ..p.run(&creep[0])
-        };
-        let aged = age_lane_pack(&run, &creep, p.hardness)?;
-        out.extend(aged.into_iter().take(chunk.len()));
-    }
-    Some(out)
-}
-
-/// Each residual's 5 % and 95 % prediction over the posterior draws: from their `runs` when
-/// they all ran, else simulated here (a draw the model cannot run is left out).
-fn prediction_bands(
-    p: &LaneProblem,
-    draws: &[[f64; 2]],
-    runs: Option<&[LaneAged]>,
-    residuals: &mut [Residual],
-) {
-    let tracks: Vec<Track> = match runs {
-        Some(r) => r
-            .iter()
-            .map(|a| Track {
-                surface_pressure_pa: a.surface_pressure_pa.clone(),
-                diameter_m: a.diameter_m.clone(),
-            })
-            .collect(),
-        None => p.simulate_many(draws).into_iter().flatten().collect(),
-    };
-    let preds: Vec<Vec<f64>> = tracks
-        .iter()
-        .map(|a| p.obs.iter().map(|o| p.predict(o, a)).collect())
-        .collect();
-    for (j, r) in residuals.iter_mut().enumerate() {
-        let mut v: Vec<f64> = preds.iter().map(|x| x[j]).collect();
-        if v.is_empty() {
-            continue;
-        }
-        v.sort_by(f64::total_cmp);
-        r.predicted_p05 = super::posterior::quantile(&v, 0.05);
-        r.predicted_p95 = super::posterior::quantile(&v, 0.95);
-    }
 }
 
 /// Residuals of a lane's observations against a simulated lane.

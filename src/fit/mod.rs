@@ -4,6 +4,7 @@
 
 pub mod contradict;
 pub mod creep_curve;
+mod draws;
 mod grid;
 mod hardness;
 mod lane_fit;

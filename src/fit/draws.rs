@@ -1,0 +1,73 @@
+//! A lane's posterior draws carried forward: the draws (a scale pinned to the pooled value stays
+//! there), their runs through the whole of storage, and the prediction bands they give each
+//! observation.
+
+use super::lane_fit::{creep_from, LaneProblem, Residual, PACK};
+use crate::case::Material;
+use crate::storage::{age_lane_pack, LaneAged, LaneCreep, LaneRun, Track};
+
+/// Posterior draws for propagation; a scale shrunk to the pooled value stays there, as the
+/// optimum does.
+pub(super) fn pinned_draws(
+    material: &Material,
+    post: &crate::fit::posterior::Posterior,
+    theta: &[f64],
+    prior: [f64; 2],
+) -> (Vec<LaneCreep>, Vec<[f64; 2]>) {
+    let t: Vec<[f64; 2]> = post
+        .draws
+        .iter()
+        .map(|t| [0, 1].map(|i| if theta[i] == prior[i] { prior[i] } else { t[i] }))
+        .collect();
+    (t.iter().map(|x| creep_from(material, x)).collect(), t)
+}
+
+/// The lane run through the whole of storage with each of `draws`, everything kept, [`PACK`]
+/// at a time side by side ([`age_lane_pack`]); `None` when a run fails or the draws do not
+/// share their retardation times.
+pub(super) fn draw_runs(p: &LaneProblem, draws: &[LaneCreep]) -> Option<Vec<LaneAged>> {
+    let mut out = Vec::with_capacity(draws.len());
+    for chunk in draws.chunks(PACK) {
+        let creep: [LaneCreep; PACK] = std::array::from_fn(|m| chunk[m.min(chunk.len() - 1)]);
+        let run = LaneRun {
+            steps: p.prep.timeline.steps.len(),
+            ..p.run(&creep[0])
+        };
+        let aged = age_lane_pack(&run, &creep, p.hardness)?;
+        out.extend(aged.into_iter().take(chunk.len()));
+    }
+    Some(out)
+}
+
+/// Each residual's 5 % and 95 % prediction over the posterior draws: from their `runs` when
+/// they all ran, else simulated here (a draw the model cannot run is left out).
+pub(super) fn prediction_bands(
+    p: &LaneProblem,
+    draws: &[[f64; 2]],
+    runs: Option<&[LaneAged]>,
+    residuals: &mut [Residual],
+) {
+    let tracks: Vec<Track> = match runs {
+        Some(r) => r
+            .iter()
+            .map(|a| Track {
+                surface_pressure_pa: a.surface_pressure_pa.clone(),
+                diameter_m: a.diameter_m.clone(),
+            })
+            .collect(),
+        None => p.simulate_many(draws).into_iter().flatten().collect(),
+    };
+    let preds: Vec<Vec<f64>> = tracks
+        .iter()
+        .map(|a| p.obs.iter().map(|o| p.predict(o, a)).collect())
+        .collect();
+    for (j, r) in residuals.iter_mut().enumerate() {
+        let mut v: Vec<f64> = preds.iter().map(|x| x[j]).collect();
+        if v.is_empty() {
+            continue;
+        }
+        v.sort_by(f64::total_cmp);
+        r.predicted_p05 = crate::fit::posterior::quantile(&v, 0.05);
+        r.predicted_p95 = crate::fit::posterior::quantile(&v, 0.95);
+    }
+}
