@@ -2,6 +2,7 @@
 //! grid does) against each set run on its own: an invariant of the implementation, to the bit.
 
 use rollsleuth::case::{self, Case};
+use rollsleuth::lanes::Lanes;
 use rollsleuth::storage::{
     age_lane_pack, age_lane_with, drive, prepare, track_lane_pack, AgeOptions, FullRecord,
     HardnessMap, LaneCreep, LaneDrive, LaneRun, Prepared, Track,
@@ -30,10 +31,8 @@ fn run<'a>(
     }
 }
 
-/// Each member of a pack has the bits of its own run, and a member that cannot run fails
-/// alone (the others are not touched by it).
-#[test]
-fn a_pack_of_runs_gives_each_run_its_own_bits() {
+/// The demo roll wound on 41 nodes and its storage prepared on the default grid.
+fn demo() -> (Case, Lanes, Wound, Prepared) {
     let case = case::load_demo(&[]).expect("demo loads");
     let lanes = rollsleuth::lanes::build(&case);
     let wound = common::wound(&case, &lanes, 41);
@@ -42,6 +41,14 @@ fn a_pack_of_runs_gives_each_run_its_own_bits() {
         &lanes,
         &AgeOptions::default(),
     );
+    (case, lanes, wound, prep)
+}
+
+/// Each member of a pack has the bits of its own run, and a member that cannot run fails
+/// alone (the others are not touched by it).
+#[test]
+fn a_pack_of_runs_gives_each_run_its_own_bits() {
+    let (case, lanes, wound, prep) = demo();
     let lane = lanes.lanes.len() / 2;
     let drv = drive(&case.material, &prep, lane);
     let grade = LaneCreep::grade(&case.material);
@@ -77,14 +84,7 @@ fn a_pack_of_runs_gives_each_run_its_own_bits() {
 /// run gives nothing (its members are then run one by one, which names the failure).
 #[test]
 fn a_pack_keeps_each_run_its_whole_record() {
-    let case = case::load_demo(&[]).expect("demo loads");
-    let lanes = rollsleuth::lanes::build(&case);
-    let wound = common::wound(&case, &lanes, 41);
-    let prep = prepare(
-        &rollsleuth::fit::store_input(&case, &[]),
-        &lanes,
-        &AgeOptions::default(),
-    );
+    let (case, lanes, wound, prep) = demo();
     let map = HardnessMap::default_map();
     let scaled = |s: [f64; 2]| rollsleuth::fit::creep_from(&case.material, &s.map(f64::ln));
     let creep = [[1.0, 1.0], [0.2, 4.0], [5.0, 0.5], [2.0, 8.0]].map(scaled);
