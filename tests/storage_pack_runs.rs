@@ -4,8 +4,9 @@
 use rollsleuth::case::{self, Case};
 use rollsleuth::lanes::Lanes;
 use rollsleuth::storage::{
-    age_lane_pack, age_lane_with, drive, prepare, track_lane_pack, AgeOptions, FullRecord,
-    HardnessMap, LaneCreep, LaneDrive, LaneRun, Prepared, Track,
+    age_lane_pack, age_lane_with, age_prepared, age_prepared_across, drive, prepare,
+    track_lane_pack, AgeOptions, FullRecord, HardnessMap, LaneCreep, LaneDrive, LaneRun, Prepared,
+    RollStore, Track,
 };
 use rollsleuth::winding::Wound;
 
@@ -113,4 +114,80 @@ fn a_pack_keeps_each_run_its_whole_record() {
     bad[2].radial.delayed = f64::NAN;
     let drv = drive(&case.material, &prep, 0);
     assert!(age_lane_pack(&run(&case, &wound, &prep, &drv, 0, &creep[0]), &bad, &map).is_none());
+}
+
+/// Rolls that share their storage and differ in wound state, creep and hardness map (as a
+/// diagnosis's noise rolls do) run side by side give each roll what it gets on its own, to the
+/// bit; so do rolls that cannot share a pack (run one by one), and a roll whose run fails names
+/// its own first failing lane while the others run.
+#[test]
+fn rolls_side_by_side_give_each_roll_its_own_record() {
+    let (case, lanes, _, prep) = demo();
+    let winds: Vec<Wound> = [1.0, 1.01, 0.99, 1.02]
+        .iter()
+        .map(|f| {
+            let mut l = lanes.clone();
+            for (i, lane) in l.lanes.iter_mut().enumerate() {
+                lane.caliper_m *= f + 0.002 * (i % 3) as f64;
+            }
+            common::wound(&case, &l, 41)
+        })
+        .collect();
+    let n = lanes.lanes.len();
+    let scaled = |s: [f64; 2]| rollsleuth::fit::creep_from(&case.material, &s.map(f64::ln));
+    let creep: Vec<Vec<LaneCreep>> = (0..4)
+        .map(|m| {
+            (0..n)
+                .map(|i| scaled([0.5 + 0.3 * m as f64, 2.0 - 0.1 * (i % 5) as f64]))
+                .collect()
+        })
+        .collect();
+    let maps = [
+        HardnessMap::default_map(),
+        HardnessMap::default_map(),
+        HardnessMap::calibrated(&rollsleuth::case::Calibration {
+            a: 40.0,
+            b: 10.0,
+            pressure_ref_pa: 2e3,
+        }),
+        HardnessMap::default_map(),
+    ];
+    let own = |m: usize, creep: &[LaneCreep]| {
+        format!(
+            "{:?}",
+            age_prepared(&case.material, &prep, &winds[m], Some(creep), &maps[m])
+        )
+    };
+    let across = age_prepared_across(
+        &case.material,
+        std::array::from_fn::<RollStore, 4, _>(|m| (&prep, &winds[m], &creep[m][..], &maps[m])),
+    );
+    for (m, a) in across.iter().enumerate() {
+        assert!(a.is_ok());
+        assert_eq!(format!("{a:?}"), own(m, &creep[m]), "roll {m}");
+    }
+    // a lane of roll 2 that cannot run: it fails alone, naming that lane
+    let mut bad = creep.clone();
+    bad[2][1].radial.delayed = f64::NAN;
+    let across = age_prepared_across(
+        &case.material,
+        std::array::from_fn::<RollStore, 4, _>(|m| (&prep, &winds[m], &bad[m][..], &maps[m])),
+    );
+    for (m, a) in across.iter().enumerate() {
+        assert_eq!(format!("{a:?}"), own(m, &bad[m]), "roll {m}");
+    }
+    assert!(matches!(&across[2], Err(e) if e.lane == 1));
+    // a roll on another storage history cannot share the pack: each runs on its own
+    let other = prepare(
+        &rollsleuth::fit::store_input(&case, &[86_400.0 * 90.0]),
+        &lanes,
+        &AgeOptions::default(),
+    );
+    let mut rolls =
+        std::array::from_fn::<RollStore, 4, _>(|m| (&prep, &winds[m], &creep[m][..], &maps[m]));
+    rolls[3].0 = &other;
+    let across = age_prepared_across(&case.material, rolls);
+    let alone = age_prepared(&case.material, &other, &winds[3], Some(&creep[3]), &maps[3]);
+    assert_eq!(format!("{:?}", across[3]), format!("{alone:?}"));
+    assert_eq!(format!("{:?}", across[0]), own(0, &creep[0]));
 }

@@ -15,9 +15,12 @@ use crate::fit::{creep_from, posterior, prepared, FitError};
 use crate::lanes::Lanes;
 use crate::note::Note;
 use crate::rules::Table;
-use crate::storage::{age_prepared, AgeOptions, LaneCreep};
+use crate::storage::{
+    age_prepared, age_prepared_across, AgeError, AgeOptions, Aged, HardnessMap, LaneCreep,
+    Prepared, RollStore,
+};
 use crate::vocab::Feature;
-use crate::winding::{coupling, wind_caliper, Caliper, Options, Secant, WindInput};
+use crate::winding::{coupling, wind_caliper, Caliper, Options, Secant, WindInput, Wound};
 use rand::{Rng, SeedableRng};
 use rand_chacha::ChaCha8Rng;
 use serde::Serialize;
@@ -273,16 +276,21 @@ fn draw_lane_calipers(
     l
 }
 
+/// A roll wound and its storage prepared: wound state, storage grid and moisture, hardness map.
+struct Stored {
+    wound: Wound,
+    prep: Prepared,
+    map: HardnessMap,
+}
+
 /// A roll on `lanes` wound at `nodes` with its compressed caliper set as `caliper` says
-/// ([`wind_caliper`]) and run through storage with `creep` per lane: its features and the
-/// caliper its winding used.
-fn roll_features(
+/// ([`wind_caliper`]) and its storage prepared; with the caliper its winding used.
+fn stored(
     lab: &Case,
     lanes: &Lanes,
-    creep: &[LaneCreep],
     nodes: usize,
     caliper: Caliper,
-) -> Result<(Features, Secant), DiagnoseError> {
+) -> Result<(Stored, Secant), DiagnoseError> {
     let (wound, found) = wind_caliper(
         &WindInput::new(&lab.material, &lab.roll, &lab.winding),
         lanes,
@@ -293,14 +301,56 @@ fn roll_features(
         caliper,
     )?;
     let (prep, map) = prepared(lab, lanes, &wound, &AgeOptions::default())?;
-    let aged =
-        age_prepared(&lab.material, &prep, &wound, Some(creep), &map).map_err(FitError::from)?;
+    Ok((Stored { wound, prep, map }, found))
+}
+
+/// The features of a stored roll on `lanes` aged (`aged`) with `creep` per lane.
+fn features_of(lab: &Case, lanes: &Lanes, creep: &[LaneCreep], s: Stored, aged: Aged) -> Features {
     let o = super::actions::Outcome {
-        unwind: super::unwind::at_unwind(lab, &wound, creep),
-        wound,
+        unwind: super::unwind::at_unwind(lab, &s.wound, creep),
+        wound: s.wound,
         aged,
     };
-    Ok((features::compute(lab, lanes, &o), found))
+    features::compute(lab, lanes, &o)
+}
+
+/// A roll on `lanes` wound at `nodes` with its compressed caliper set as `caliper` says
+/// ([`wind_caliper`]) and run through storage with `creep` per lane: its features and the
+/// caliper its winding used.
+fn roll_features(
+    lab: &Case,
+    lanes: &Lanes,
+    creep: &[LaneCreep],
+    nodes: usize,
+    caliper: Caliper,
+) -> Result<(Features, Secant), DiagnoseError> {
+    let (s, found) = stored(lab, lanes, nodes, caliper)?;
+    let aged = age_prepared(&lab.material, &s.prep, &s.wound, Some(creep), &s.map)
+        .map_err(FitError::from)?;
+    Ok((features_of(lab, lanes, creep, s, aged), found))
+}
+
+/// Noise rolls run through storage side by side ([`age_prepared_across`]).
+const SIDE_BY_SIDE: usize = 4;
+
+/// Stored rolls `s` aged with the creep of `inputs` (as many), [`SIDE_BY_SIDE`] at a time
+/// where there are that many (each roll's record as it would have on its own).
+fn age_group(
+    lab: &Case,
+    s: &[Stored],
+    inputs: &[(Lanes, Vec<LaneCreep>)],
+) -> Vec<Result<Aged, AgeError>> {
+    let roll = |m: usize| -> RollStore { (&s[m].prep, &s[m].wound, &inputs[m].1, &s[m].map) };
+    if s.len() == SIDE_BY_SIDE && inputs.len() == SIDE_BY_SIDE {
+        let rolls: [RollStore; SIDE_BY_SIDE] = std::array::from_fn(roll);
+        return age_prepared_across(&lab.material, rolls).into();
+    }
+    (0..s.len().min(inputs.len()))
+        .map(|m| {
+            let (prep, wound, creep, map) = roll(m);
+            age_prepared(&lab.material, prep, wound, Some(creep), map)
+        })
+        .collect()
 }
 
 /// Features of the diagnosed roll with its lanes' calipers (`calipers`) and web profiles
@@ -375,14 +425,21 @@ fn noise_rolls(
             (l, noisy_creep(lab, &fitted.fit, &mut *rng))
         })
         .collect();
-    inputs
+    let rolls: Vec<Stored> = inputs
         .par_iter()
-        .map(|(l, c)| {
+        .map(|(l, _)| {
             // no clean secant to scale (never the case after a winding): fill the diameter
             let caliper = (clean.1.scaled(clean.0, l.mean_caliper_m))
                 .map_or(Caliper::Fill(None), Caliper::Given);
-            roll_features(lab, l, c, nodes, caliper).map(|(f, _)| f)
+            stored(lab, l, nodes, caliper).map(|(s, _)| s)
         })
+        .collect::<Result<_, _>>()?;
+    let aged: Vec<Result<Aged, AgeError>> = (rolls.par_chunks(SIDE_BY_SIDE))
+        .zip(inputs.par_chunks(SIDE_BY_SIDE))
+        .flat_map_iter(|(s, i)| age_group(lab, s, i))
+        .collect();
+    (rolls.into_iter().zip(aged).zip(&inputs))
+        .map(|((s, a), (l, c))| Ok(features_of(lab, l, c, s, a.map_err(FitError::from)?)))
         .collect()
 }
 

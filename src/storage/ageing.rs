@@ -10,7 +10,7 @@
 //! memory), applied after winding. Finite volumes on cells clustered at the core and the barrel,
 //! backward Euler in time; lanes do not exchange load in storage, only moisture (through x).
 
-use super::cells::{run_lane, Params};
+use super::cells::{run_lane, Params, Start};
 use super::drive::{drive, LaneDrive};
 use super::hardness::HardnessMap;
 use super::record::{FullRecord, FullRecords, Recorder, Track, Tracks};
@@ -124,6 +124,19 @@ pub struct Aged {
 }
 
 impl Aged {
+    /// The roll's record on prepared storage `prep`: its lanes' runs `lanes`, hardness read with
+    /// `hardness`.
+    pub(super) fn of(prep: &Prepared, lanes: Vec<LaneAged>, hardness: &HardnessMap) -> Aged {
+        Aged {
+            times_s: prep.timeline.times.clone(),
+            radius_m: prep.moisture.r.clone(),
+            lanes,
+            equilibrium_moisture_pct: prep.moisture.m_eq.clone(),
+            hardness_map: *hardness,
+            notes: prep.timeline.notes.clone(),
+        }
+    }
+
     /// This record of the roll with `lanes` in place of its lanes' runs.
     pub fn with_lanes(&self, lanes: impl IntoIterator<Item = LaneAged>) -> Aged {
         Aged {
@@ -211,7 +224,7 @@ pub struct FinalStress {
 /// Run one lane through storage for `run.steps` time steps, handing the state at the start and
 /// after every step to `rec`; returns the final stresses.
 pub fn age_lane_with(run: &LaneRun, rec: &mut impl Recorder) -> Result<FinalStress, AgeError> {
-    let end = run_lane(run, &Params::one(run.creep), rec);
+    let end = run_lane(run, &Params::one(run.creep), Start::of(run), rec);
     if end.failed != 0 {
         return Err(AgeError {
             lane: run.lane,
@@ -235,7 +248,7 @@ pub fn track_lane_pack<const B: usize>(
 ) -> Option<[Option<Track>; B]> {
     let params = Params::pack(creep)?;
     let mut rec = Tracks::<B>::default();
-    let end = run_lane(run, &params, &mut rec);
+    let end = run_lane(run, &params, Start::of(run), &mut rec);
     Some(std::array::from_fn(|m| {
         (end.failed & (1 << m) == 0).then(|| rec.member(m))
     }))
@@ -254,18 +267,8 @@ pub fn age_lane_pack<const B: usize>(
     let params = Params::pack(creep)?;
     let member = || FullRecord::new(run.material, run.prep, run.wound, run.lane, hardness);
     let mut rec = FullRecords::<B>::new(std::array::from_fn(|_| member()));
-    let end = run_lane(run, &params, &mut rec);
-    if end.failed != 0 {
-        return None;
-    }
-    let stress = |m: usize| FinalStress {
-        radial_pa: end.radial_pa.iter().map(|p| p.0[m]).collect(),
-        tangential_pa: end.tangential_pa.iter().map(|p| p.0[m]).collect(),
-    };
-    let out: Vec<LaneAged> = (rec.into_members().into_iter().enumerate())
-        .map(|(m, r)| r.finish(stress(m)))
-        .collect();
-    out.try_into().ok()
+    let end = run_lane(run, &params, Start::of(run), &mut rec);
+    (end.failed == 0).then(|| rec.finish_all(&end))
 }
 
 /// Mean interlayer pressure (Pa) in the outer [`SURFACE_ZONE_M`] of a lane, on the storage grid
@@ -339,16 +342,15 @@ pub fn age_prepared(
             drive: &drv,
             steps: prep.timeline.steps.len(),
         };
-        let mut rec = FullRecord::new(material, prep, wound, lane, hardness);
-        let end = age_lane_with(&run, &mut rec)?;
-        out.push(rec.finish(end));
+        out.push(age_lane_full(&run, hardness)?);
     }
-    Ok(Aged {
-        times_s: prep.timeline.times.clone(),
-        radius_m: prep.moisture.r.clone(),
-        lanes: out,
-        equilibrium_moisture_pct: prep.moisture.m_eq.clone(),
-        hardness_map: *hardness,
-        notes: prep.timeline.notes.clone(),
-    })
+    Ok(Aged::of(prep, out, hardness))
+}
+
+/// [`age_lane_with`] keeping everything of the lane ([`FullRecord`]), hardness read with
+/// `hardness`.
+pub(super) fn age_lane_full(run: &LaneRun, hardness: &HardnessMap) -> Result<LaneAged, AgeError> {
+    let mut rec = FullRecord::new(run.material, run.prep, run.wound, run.lane, hardness);
+    let end = age_lane_with(run, &mut rec)?;
+    Ok(rec.finish(end))
 }

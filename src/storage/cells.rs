@@ -62,18 +62,62 @@ pub struct Ended<T> {
     pub tangential_pa: Vec<T>,
 }
 
+/// A lane's state at the start of storage, of one run or of each member of a pack: radial and
+/// tangential stress at the storage cells (Pa) and the lane's outer radius (m).
+pub struct Start<T> {
+    sr: Vec<T>,
+    st: Vec<T>,
+    big_r0: T,
+}
+
+impl<T: Real> Start<T> {
+    /// The wound state of `run`, the same for every member.
+    pub fn of(run: &LaneRun) -> Self {
+        let (sr, st) = initial_stress(run.wound, run.lane, &run.prep.moisture.r);
+        Start {
+            sr: sr.into_iter().map(T::splat).collect(),
+            st: st.into_iter().map(T::splat).collect(),
+            big_r0: T::splat(run.wound.lanes[run.lane].summary.outer_radius_m),
+        }
+    }
+}
+
+impl<const B: usize> Start<Pack<B>> {
+    /// Each member's own wound state: member m that of `runs[m]` (on the storage cells of
+    /// `runs[0]`, which the members share).
+    pub fn across(runs: &[LaneRun; B]) -> Self {
+        let r = &runs[0].prep.moisture.r;
+        let each = runs.map(|x| initial_stress(x.wound, x.lane, r));
+        let at = |j: usize, radial: bool| {
+            Pack(std::array::from_fn(|m| {
+                if radial {
+                    each[m].0[j]
+                } else {
+                    each[m].1[j]
+                }
+            }))
+        };
+        Start {
+            sr: (0..r.len()).map(|j| at(j, true)).collect(),
+            st: (0..r.len()).map(|j| at(j, false)).collect(),
+            big_r0: Pack(runs.map(|x| x.wound.lanes[x.lane].summary.outer_radius_m)),
+        }
+    }
+}
+
 /// Run one lane through storage for `run.steps` time steps with creep `params` (the creep of
-/// `run` is not read), handing the state at the start and after every step to `rec`. A run that
-/// fails is marked and left (its values are not meaningful after); the kernel stops when every
-/// run has failed.
+/// `run` is not read) from `start`, handing the state at the start and after every step to
+/// `rec`. A run that fails is marked and left (its values are not meaningful after); the kernel
+/// stops when every run has failed.
 pub fn run_lane<T: Real, R: Recorder<T>>(
     run: &LaneRun,
     params: &Params<T>,
+    start: Start<T>,
     rec: &mut R,
 ) -> Ended<T> {
     let prep = run.prep;
-    let big_r0 = run.wound.lanes[run.lane].summary.outer_radius_m;
-    let mut cells = Cells::new(run);
+    let big_r0 = start.big_r0;
+    let mut cells = Cells::new(run, start);
     let (mut failed, mut failed_step) = (0, 0);
     rec.record(&cells.snapshot(&prep.moisture.mc[0][run.lane], big_r0, &[]));
     for k in 0..run.steps.min(prep.timeline.steps.len()) {
@@ -152,11 +196,11 @@ struct Cells<'a, T> {
 }
 
 impl<'a, T: Real> Cells<'a, T> {
-    fn new(run: &LaneRun<'a>) -> Self {
+    fn new(run: &LaneRun<'a>, start: Start<T>) -> Self {
         let f = &run.prep.moisture.faces;
         let r = &run.prep.moisture.r;
         let nr = r.len();
-        let (sr, st) = initial_stress(run.wound, run.lane, r);
+        let Start { sr, st, .. } = start;
         let z = vec![T::default(); nr];
         let width: Vec<f64> = f.windows(2).map(|w| w[1] - w[0]).collect();
         let inv_r: Vec<f64> = r.iter().map(|x| 1.0 / x).collect();
@@ -168,8 +212,8 @@ impl<'a, T: Real> Cells<'a, T> {
             inv_r,
             inv_dr: r.windows(2).map(|w| 1.0 / (w[1] - w[0])).collect(),
             core_k: run.wound.core_stiffness_pa.map(|ec| ec / f[0]),
-            sr: sr.into_iter().map(T::splat).collect(),
-            st: st.into_iter().map(T::splat).collect(),
+            sr,
+            st,
             cr: vec![CreepState::default(); nr],
             ct: vec![CreepState::default(); nr],
             u_surface: T::default(),
@@ -208,7 +252,7 @@ impl<'a, T: Real> Cells<'a, T> {
     }
 
     /// The state handed to a recorder, with moisture `mc` at the cells.
-    fn snapshot<'s>(&'s self, mc: &'s [f64], big_r0: f64, held: &'s [u32]) -> Snapshot<'s, T> {
+    fn snapshot<'s>(&'s self, mc: &'s [f64], big_r0: T, held: &'s [u32]) -> Snapshot<'s, T> {
         Snapshot {
             mc,
             radial_stress_pa: &self.sr,

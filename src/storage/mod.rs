@@ -3,6 +3,7 @@
 //! **Invariant:** pure functions of the material, roll, storage history, lanes and wound-in
 //! state; no I/O, no printing, nothing of rules. Storage never reads measurements.
 
+mod across;
 mod ageing;
 mod cells;
 pub mod condensation;
@@ -16,6 +17,7 @@ mod shift;
 mod sorption;
 mod timeline;
 
+pub use across::{age_prepared_across, RollStore};
 pub use ageing::{
     age, age_lane_pack, age_lane_with, age_prepared, prepare, track_lane_pack, AgeError,
     AgeOptions, Aged, FinalStress, LaneAged, LaneCreep, LaneRun, Prepared,

@@ -2,6 +2,7 @@
 //! compares with measurements) and [`FullRecord`] (everything, as [`LaneAged`]).
 
 use super::ageing::{FinalStress, LaneAged, Prepared};
+use super::cells::Ended;
 use super::creep::CreepState;
 use super::hardness::HardnessMap;
 use crate::case::Material;
@@ -282,9 +283,18 @@ impl<'a, const B: usize> FullRecords<'a, B> {
         }
     }
 
-    /// The members' recorders.
-    pub fn into_members(self) -> [FullRecord<'a>; B] {
-        self.members
+    /// Each member's record, with its final stresses from the pack's run `end`.
+    pub fn finish_all(self, end: &Ended<Pack<B>>) -> [LaneAged; B] {
+        let part = |v: &[Pack<B>], m: usize| v.iter().map(|p| p.0[m]).collect();
+        let mut m = 0;
+        self.members.map(|r| {
+            let stress = FinalStress {
+                radial_pa: part(&end.radial_pa, m),
+                tangential_pa: part(&end.tangential_pa, m),
+            };
+            m += 1;
+            r.finish(stress)
+        })
     }
 }
 

@@ -1,0 +1,121 @@
+//! Like rolls run through storage side by side: lane i of several rolls that share their storage
+//! grid, moisture field, time steps, material and core (the noise rolls of a diagnosis, which
+//! differ only in their wound states, creep and hardness maps) as the members of one pack
+//! ([`Pack`]), each member from its own wound state. Each roll's record has the bits a run of
+//! its own gives it.
+
+use super::ageing::{age_lane_full, AgeError, Aged, LaneAged, LaneCreep, LaneRun, Prepared};
+use super::cells::{run_lane, Params, Start};
+use super::drive::drive;
+use super::hardness::HardnessMap;
+use super::record::{FullRecord, FullRecords};
+use crate::case::Material;
+use crate::winding::Wound;
+use std::sync::Arc;
+
+/// One roll of [`age_prepared_across`]: its prepared storage, wound state, creep per lane and
+/// hardness map.
+pub type RollStore<'a> = (&'a Prepared, &'a Wound, &'a [LaneCreep], &'a HardnessMap);
+
+/// [`super::age_prepared`] of `B` rolls, each with its own creep per lane, lane by lane side by
+/// side where the rolls share everything but their wound states, creep and hardness maps (and a
+/// lane's creep shares its retardation times); otherwise, and for a lane where any member's run
+/// fails, each roll's lane on its own. Each roll's result is what [`super::age_prepared`] gives
+/// it, to the bit (a failure names the roll's first failing lane).
+pub fn age_prepared_across<const B: usize>(
+    material: &Material,
+    rolls: [RollStore; B],
+) -> [Result<Aged, AgeError>; B] {
+    let lanes = rolls[0].1.lanes.len();
+    let shared = rolls.iter().all(|r| alike(r, &rolls[0], lanes));
+    let mut out: [Result<Vec<LaneAged>, AgeError>; B] =
+        std::array::from_fn(|_| Ok(Vec::with_capacity(lanes)));
+    for lane in 0..lanes {
+        let packed = if shared {
+            lane_across(material, &rolls, lane)
+        } else {
+            None
+        };
+        match packed {
+            Some(aged) => {
+                for (o, a) in out.iter_mut().zip(aged) {
+                    if let Ok(v) = o {
+                        v.push(a);
+                    }
+                }
+            }
+            None => {
+                for (o, r) in out.iter_mut().zip(&rolls) {
+                    if let Ok(v) = o {
+                        match own_lane(material, r, lane) {
+                            Ok(a) => v.push(a),
+                            Err(e) => *o = Err(e),
+                        }
+                    }
+                }
+            }
+        }
+    }
+    let mut m = 0;
+    out.map(|o| {
+        let (prep, _, _, map) = rolls[m];
+        m += 1;
+        o.map(|l| Aged::of(prep, l, map))
+    })
+}
+
+/// Whether roll `r` shares with `first` what the kernel reads besides the wound state, creep
+/// and hardness: the moisture field (the same one), time steps, core and lane count.
+fn alike(r: &RollStore, first: &RollStore, lanes: usize) -> bool {
+    let bits = |x: Option<f64>| x.map(f64::to_bits);
+    Arc::ptr_eq(&r.0.moisture, &first.0.moisture)
+        && r.0.timeline == first.0.timeline
+        && r.0.mc_ref.to_bits() == first.0.mc_ref.to_bits()
+        && bits(r.1.core_stiffness_pa) == bits(first.1.core_stiffness_pa)
+        && r.1.lanes.len() == lanes
+        && r.2.len() >= lanes
+}
+
+/// Lane `lane` of roll `r` on its own.
+fn own_lane(material: &Material, r: &RollStore, lane: usize) -> Result<LaneAged, AgeError> {
+    let (prep, wound, creep, map) = *r;
+    let drv = drive(material, prep, lane);
+    let run = LaneRun {
+        material,
+        wound,
+        prep,
+        lane,
+        creep: &creep[lane],
+        drive: &drv,
+        steps: prep.timeline.steps.len(),
+    };
+    age_lane_full(&run, map)
+}
+
+/// Lane `lane` of every roll side by side; `None` when their creep does not share its
+/// retardation times or any member's run fails.
+fn lane_across<const B: usize>(
+    material: &Material,
+    rolls: &[RollStore; B],
+    lane: usize,
+) -> Option<[LaneAged; B]> {
+    let creep: [LaneCreep; B] = rolls.map(|r| r.2[lane]);
+    let params = Params::pack(&creep)?;
+    let drv = drive(material, rolls[0].0, lane);
+    let runs: [LaneRun; B] = std::array::from_fn(|m| LaneRun {
+        material,
+        wound: rolls[m].1,
+        prep: rolls[m].0,
+        lane,
+        creep: &creep[m],
+        drive: &drv,
+        steps: rolls[m].0.timeline.steps.len(),
+    });
+    let member = |m: usize| FullRecord::new(material, rolls[m].0, rolls[m].1, lane, rolls[m].3);
+    let mut rec = FullRecords::<B>::new(std::array::from_fn(member));
+    let end = run_lane(&runs[0], &params, Start::across(&runs), &mut rec);
+    if end.failed != 0 {
+        return None;
+    }
+    Some(rec.finish_all(&end))
+}
