@@ -54,6 +54,10 @@ pub enum Note {
     },
     /// Every measurement is at one age: creep cannot be identified and stays at the prior.
     OneAge,
+    /// The posterior of `lanes` lanes still held mass at an edge of its grid when the grid had
+    /// grown as far as it may: the tails beyond are left out, so their spread is understated.
+    /// `position_m`: the first such lane's centre, m from the front edge.
+    PosteriorCut { lanes: usize, position_m: f64 },
     /// A diameter profile has no winding-time diameter to compare with and is not fitted.
     DiameterWithoutReference {
         /// Age of the profile, s.

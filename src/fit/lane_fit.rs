@@ -401,6 +401,9 @@ pub struct Uncertainty {
     pub radial_creep_scale_high: f64,
     /// Nodes of the grid the posterior was integrated on ([`super::posterior::quadrature`]).
     pub posterior_nodes: usize,
+    /// The grid still held mass at an edge when it had grown as far as it may: the posterior's
+    /// tails are left out and the sds and intervals above are understated.
+    pub posterior_cut: bool,
 }
 
 /// A lane's fit.
@@ -502,6 +505,7 @@ pub fn fit_lane(p: &LaneProblem, prior: [f64; 2], seed: u64) -> Result<LaneFit, 
             radial_creep_scale_low: post.low[1].exp(),
             radial_creep_scale_high: post.high[1].exp(),
             posterior_nodes: post.nodes,
+            posterior_cut: post.cut,
         },
         md_identifiable: ident(0),
         radial_identifiable: ident(1),

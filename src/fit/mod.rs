@@ -250,6 +250,7 @@ pub fn fit_roll(
     if problems.iter().all(|p| p.steps == 0) {
         notes.push(Note::OneAge);
     }
+    notes.extend(cut_note(&fits));
     let creep: Vec<LaneCreep> = fits.iter().map(|f| f.creep).collect();
     let aged = age_prepared(&case.material, &prep, wound, Some(&creep), &map)?;
     let aged = with_limits(case, lanes, wound, aged);
@@ -271,6 +272,17 @@ pub fn fit_roll(
         evaluations: pooled_evaluations + lane_evaluations,
         notes,
         aged,
+    })
+}
+
+/// A note when any lane's posterior was cut at the edge of its widest grid.
+fn cut_note(fits: &[LaneFit]) -> Option<Note> {
+    let cut: Vec<&LaneFit> = (fits.iter())
+        .filter(|f| f.uncertainty.posterior_cut)
+        .collect();
+    cut.first().map(|first| Note::PosteriorCut {
+        lanes: cut.len(),
+        position_m: first.position_m,
     })
 }
 

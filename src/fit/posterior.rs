@@ -65,6 +65,9 @@ pub struct Posterior {
     pub draws: Vec<[f64; 2]>,
     /// Nodes of the quadrature grid.
     pub nodes: usize,
+    /// The grid still held mass at an edge when it had grown as far as it may: the tails
+    /// beyond are left out and the spread is understated.
+    pub cut: bool,
     /// Objective evaluations (lane simulations).
     pub evaluations: u64,
 }
@@ -95,7 +98,9 @@ pub fn quadrature(
     let mut rng = ChaCha8Rng::seed_from_u64(seed);
     let samples = pseudo_draws(&grid, mode, &ax, prior_sd, &mut rng);
     let draws = kept_draws(&samples, DRAWS, &mut rng);
-    summarise(samples, draws, grid.f.len(), evaluations)
+    let mut p = summarise(samples, draws, grid.f.len(), evaluations);
+    p.cut = grid.cut();
+    p
 }
 
 /// Gauss-Legendre nodes and weights on [0, 1], 3 points.
@@ -254,6 +259,7 @@ fn summarise(
         high,
         draws,
         nodes,
+        cut: false,
         evaluations,
     }
 }
@@ -383,6 +389,17 @@ mod tests {
             assert!((p.sd[0] / 0.2 - 1.0).abs() < 0.05, "{h:?}: {:?}", p.sd);
             assert!((p.sd[1] / 2.0 - 1.0).abs() < 0.05, "{h:?}: {:?}", p.sd);
         }
+    }
+
+    /// A posterior flat over a range a thousand times its width at the mode (no prior to bound
+    /// it) still holds mass at the edge of the widest grid: it is marked cut, so the spread it
+    /// reports is known to be short. A normal one is not.
+    #[test]
+    fn a_posterior_past_the_widest_grid_is_marked_cut() {
+        let flat = Of(|x, y| 0.5 * x * x + 0.5 * (y.abs() - 1e3).max(0.0).powi(2));
+        assert!(post(&flat, [0.0, 0.0]).cut);
+        let normal = Of(|x, y| 0.5 * (x * x + y * y));
+        assert!(!post(&normal, [0.0, 0.0]).cut);
     }
 
     /// The same inputs give the same posterior to the bit; another seed moves only the

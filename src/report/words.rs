@@ -193,6 +193,14 @@ pub fn note_json(case_warnings: &[String], notes: &[Note]) -> (Vec<String>, Vec<
     (n, w)
 }
 
+/// The sentence of a [`Note::PosteriorCut`].
+fn posterior_cut(lanes: usize, position_m: f64) -> String {
+    format!(
+        "the creep posterior of {lanes} lane(s) (the first at {:.0} mm) reaches past the widest grid it is integrated on: its tails are left out, so the spread of those lanes' creep scales, and of what rests on them, is understated",
+        position_m * 1e3
+    )
+}
+
 /// A stage's note as a sentence (times in days, positions in mm, moduli in GPa).
 pub fn note(n: &Note) -> String {
     use crate::units::DAY_S;
@@ -245,6 +253,7 @@ pub fn note(n: &Note) -> String {
             modulus_pa / 1e9,
             if converged { "" } else { " (lab-curve fit hit its iteration limit)" }
         ),
+        Note::PosteriorCut { lanes, position_m } => posterior_cut(lanes, position_m),
         Note::OneAge => "all measurements are at one age: creep parameters cannot be identified and stay at the roll's prior (grade values)".into(),
         Note::DiameterWithoutReference { age_s } => format!(
             "diameter profile at {:.0} d has no winding-time diameter to compare with; not used in the fit",
