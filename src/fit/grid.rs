@@ -115,18 +115,22 @@ impl Grid {
     }
 }
 
+/// Points already evaluated (by their bits) with their objective values.
+type Seen = Vec<([u64; 2], f64)>;
+
 /// Distance (in axis units) along each of the four half-axes (axis, side) at which the objective
-/// rises by Z^2/2 over `f0`, the four searched side by side.
+/// rises by Z^2/2 over `f0`, the four searched side by side; with the points evaluated.
 fn half_extents(
     obj: &impl Density,
     mode: &[f64],
     (ax, prior_sd): (&[[f64; 2]; 2], f64),
     f0: f64,
-) -> ([[f64; 2]; 2], u64) {
+) -> ([[f64; 2]; 2], u64, Seen) {
     let reach = |a: usize| REACH_PRIORS * prior_sd / ax[a][0].hypot(ax[a][1]);
     let mut t = [[Z_EDGE; 2]; 2];
     let mut done = [[false; 2]; 2];
     let mut evaluations = 0;
+    let mut seen = Seen::new();
     for _ in 0..SEARCH_ROUNDS {
         let open: Vec<(usize, usize)> = (0..4)
             .map(|k| (k / 2, k % 2))
@@ -146,6 +150,11 @@ fn half_extents(
             .collect();
         let v = obj.values(&pts);
         evaluations += pts.len() as u64;
+        seen.extend(
+            pts.iter()
+                .map(|p| p.map(f64::to_bits))
+                .zip(v.iter().copied()),
+        );
         for (&(a, s), &fv) in open.iter().zip(&v) {
             let rise = fv - f0;
             let next = if !rise.is_finite() {
@@ -174,7 +183,7 @@ fn half_extents(
             }
         }
     }
-    (t, evaluations)
+    (t, evaluations, seen)
 }
 
 /// The grid about `mode` (the optimum, where the objective is `f0` and the Hessian is `hessian`)
@@ -187,7 +196,7 @@ pub(super) fn explore(
     prior_sd: f64,
 ) -> (Grid, [[f64; 2]; 2], u64) {
     let ax = axes(hessian, prior_sd);
-    let (ext, mut evaluations) = half_extents(obj, mode, (&ax, prior_sd), f0);
+    let (ext, mut evaluations, seen) = half_extents(obj, mode, (&ax, prior_sd), f0);
     let line = |a: usize| -> Vec<f64> {
         let h = HALF_NODES as f64;
         let lo = (1..=HALF_NODES).rev().map(|k| -ext[a][0] * k as f64 / h);
@@ -199,10 +208,16 @@ pub(super) fn explore(
         .iter()
         .flat_map(|&a| u[1].iter().map(move |&b| [a, b]))
         .collect();
+    // every node but the optimum, and but those the search already evaluated (the axis ends)
+    let known = |x: &[f64; 2]| {
+        let key = x.map(f64::to_bits);
+        seen.iter().find(|(k, _)| *k == key).map(|(_, v)| *v)
+    };
     let far: Vec<[f64; 2]> = pts
         .iter()
         .filter(|p| p[0] != 0.0 || p[1] != 0.0)
         .map(|p| at(mode, &ax, *p))
+        .filter(|x| known(x).is_none())
         .collect();
     let mut v = obj.values(&far).into_iter();
     evaluations += far.len() as u64;
@@ -210,7 +225,8 @@ pub(super) fn explore(
         .iter()
         .map(|p| {
             if p[0] != 0.0 || p[1] != 0.0 {
-                v.next().unwrap_or(f64::NAN)
+                let x = at(mode, &ax, *p);
+                known(&x).or_else(|| v.next()).unwrap_or(f64::NAN)
             } else {
                 f0
             }
