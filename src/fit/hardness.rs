@@ -78,13 +78,8 @@ fn grade_ln_pressure(
         .map(|lane| {
             let drv = drive(material, prep, lane);
             let run = LaneRun {
-                material,
-                wound,
-                prep,
-                lane,
-                creep: &grade,
-                drive: &drv,
                 steps: step,
+                ..LaneRun::whole(material, (prep, wound, lane), &grade, &drv)
             };
             let mut track = Track::default();
             age_lane_with(&run, &mut track)?;

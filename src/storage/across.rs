@@ -47,7 +47,7 @@ pub fn age_prepared_across<const B: usize>(
             None => {
                 for (o, r) in out.iter_mut().zip(&rolls) {
                     if let Ok(v) = o {
-                        match own_lane(material, r, lane) {
+                        match age_lane_full(material, (r.0, r.1, lane), &r.2[lane], r.3) {
                             Ok(a) => v.push(a),
                             Err(e) => *o = Err(e),
                         }
@@ -76,22 +76,6 @@ fn alike(r: &RollStore, first: &RollStore, lanes: usize) -> bool {
         && r.2.len() >= lanes
 }
 
-/// Lane `lane` of roll `r` on its own.
-fn own_lane(material: &Material, r: &RollStore, lane: usize) -> Result<LaneAged, AgeError> {
-    let (prep, wound, creep, map) = *r;
-    let drv = drive(material, prep, lane);
-    let run = LaneRun {
-        material,
-        wound,
-        prep,
-        lane,
-        creep: &creep[lane],
-        drive: &drv,
-        steps: prep.timeline.steps.len(),
-    };
-    age_lane_full(&run, map)
-}
-
 /// Lane `lane` of every roll side by side; `None` when their creep does not share its
 /// retardation times or any member's run fails.
 fn lane_across<const B: usize>(
@@ -102,14 +86,8 @@ fn lane_across<const B: usize>(
     let creep: [LaneCreep; B] = rolls.map(|r| r.2[lane]);
     let params = Params::pack(&creep)?;
     let drv = drive(material, rolls[0].0, lane);
-    let runs: [LaneRun; B] = std::array::from_fn(|m| LaneRun {
-        material,
-        wound: rolls[m].1,
-        prep: rolls[m].0,
-        lane,
-        creep: &creep[m],
-        drive: &drv,
-        steps: rolls[m].0.timeline.steps.len(),
+    let runs: [LaneRun; B] = std::array::from_fn(|m| {
+        LaneRun::whole(material, (rolls[m].0, rolls[m].1, lane), &creep[m], &drv)
     });
     let member = |m: usize| FullRecord::new(material, rolls[m].0, rolls[m].1, lane, rolls[m].3);
     let mut rec = FullRecords::<B>::new(std::array::from_fn(member));

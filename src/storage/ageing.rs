@@ -214,6 +214,27 @@ pub struct LaneRun<'a> {
     pub steps: usize,
 }
 
+impl<'a> LaneRun<'a> {
+    /// Lane `lane` of a roll (`prep`, `wound`) with `creep` and its drive `drive`, through every
+    /// time step.
+    pub fn whole(
+        material: &'a Material,
+        (prep, wound, lane): (&'a Prepared, &'a Wound, usize),
+        creep: &'a LaneCreep,
+        drive: &'a LaneDrive,
+    ) -> Self {
+        LaneRun {
+            material,
+            wound,
+            prep,
+            lane,
+            creep,
+            drive,
+            steps: prep.timeline.steps.len(),
+        }
+    }
+}
+
 /// A lane's stresses at the end of a run, on the storage grid, Pa.
 #[derive(Debug, Clone, PartialEq)]
 pub struct FinalStress {
@@ -332,25 +353,23 @@ pub fn age_prepared(
     let grade = LaneCreep::grade(material);
     let mut out = Vec::with_capacity(wound.lanes.len());
     for lane in 0..wound.lanes.len() {
-        let drv = drive(material, prep, lane);
-        let run = LaneRun {
-            material,
-            wound,
-            prep,
-            lane,
-            creep: creep.and_then(|c| c.get(lane)).unwrap_or(&grade),
-            drive: &drv,
-            steps: prep.timeline.steps.len(),
-        };
-        out.push(age_lane_full(&run, hardness)?);
+        let c = creep.and_then(|c| c.get(lane)).unwrap_or(&grade);
+        out.push(age_lane_full(material, (prep, wound, lane), c, hardness)?);
     }
     Ok(Aged::of(prep, out, hardness))
 }
 
-/// [`age_lane_with`] keeping everything of the lane ([`FullRecord`]), hardness read with
-/// `hardness`.
-pub(super) fn age_lane_full(run: &LaneRun, hardness: &HardnessMap) -> Result<LaneAged, AgeError> {
-    let mut rec = FullRecord::new(run.material, run.prep, run.wound, run.lane, hardness);
-    let end = age_lane_with(run, &mut rec)?;
+/// Lane `lane` of a roll (`prep`, `wound`) through the whole of storage with `creep`, keeping
+/// everything of it ([`FullRecord`]), hardness read with `hardness`.
+pub(super) fn age_lane_full(
+    material: &Material,
+    (prep, wound, lane): (&Prepared, &Wound, usize),
+    creep: &LaneCreep,
+    hardness: &HardnessMap,
+) -> Result<LaneAged, AgeError> {
+    let drv = drive(material, prep, lane);
+    let run = LaneRun::whole(material, (prep, wound, lane), creep, &drv);
+    let mut rec = FullRecord::new(material, prep, wound, lane, hardness);
+    let end = age_lane_with(&run, &mut rec)?;
     Ok(rec.finish(end))
 }
