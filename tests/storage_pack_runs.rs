@@ -190,4 +190,12 @@ fn rolls_side_by_side_give_each_roll_its_own_record() {
     let alone = age_prepared(&case.material, &other, &winds[3], Some(&creep[3]), &maps[3]);
     assert_eq!(format!("{:?}", across[3]), format!("{alone:?}"));
     assert_eq!(format!("{:?}", across[0]), own(0, &creep[0]));
+    // a creep list shorter than the lanes: the lanes past its end take the grade's creep, as
+    // `age_prepared` gives them
+    let short = &creep[1][..n / 2];
+    let mut rolls =
+        std::array::from_fn::<RollStore, 4, _>(|m| (&prep, &winds[m], &creep[m][..], &maps[m]));
+    rolls[1].2 = short;
+    let across = age_prepared_across(&case.material, rolls);
+    assert_eq!(format!("{:?}", across[1]), own(1, short));
 }

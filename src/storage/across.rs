@@ -17,26 +17,31 @@ use std::sync::Arc;
 /// hardness map.
 pub type RollStore<'a> = (&'a Prepared, &'a Wound, &'a [LaneCreep], &'a HardnessMap);
 
-/// [`super::age_prepared`] of `B` rolls, each with its own creep per lane, lane by lane side by
-/// side where the rolls share everything but their wound states, creep and hardness maps (and a
-/// lane's creep shares its retardation times); otherwise, and for a lane where any member's run
-/// fails, each roll's lane on its own. Each roll's result is what [`super::age_prepared`] gives
-/// it, to the bit (a failure names the roll's first failing lane).
+/// [`super::age_prepared`] of `B` rolls, each with its own creep per lane (the grade's past the
+/// end of a roll's list), lane by lane side by side where the rolls share everything but their
+/// wound states, creep and hardness maps; rolls that do not are each run as
+/// [`super::age_prepared`] runs them, and a lane whose creep does not share its retardation
+/// times or where any member's run fails is run roll by roll. Each roll's result is what
+/// [`super::age_prepared`] gives it, to the bit (a failure names the roll's first failing
+/// lane).
 pub fn age_prepared_across<const B: usize>(
     material: &Material,
     rolls: [RollStore; B],
 ) -> [Result<Aged, AgeError>; B] {
-    let lanes = rolls[0].1.lanes.len();
-    let shared = rolls.iter().all(|r| alike(r, &rolls[0], lanes));
+    // (no roll: nothing is indexed, and no result)
+    let lanes = rolls.first().map_or(0, |r| r.1.lanes.len());
+    if !rolls.iter().all(|r| alike(r, &rolls[0], lanes)) {
+        return rolls.map(|(prep, wound, creep, map)| {
+            super::ageing::age_prepared(material, prep, wound, Some(creep), map)
+        });
+    }
+    let grade = LaneCreep::grade(material);
+    // each lane's creep as `age_prepared` reads it (the grade's past the end of a roll's list)
+    let creep_of = |r: &RollStore, lane: usize| r.2.get(lane).copied().unwrap_or(grade);
     let mut out: [Result<Vec<LaneAged>, AgeError>; B] =
         std::array::from_fn(|_| Ok(Vec::with_capacity(lanes)));
     for lane in 0..lanes {
-        let packed = if shared {
-            lane_across(material, &rolls, lane)
-        } else {
-            None
-        };
-        match packed {
+        match lane_across(material, &rolls, rolls.map(|r| creep_of(&r, lane)), lane) {
             Some(aged) => {
                 for (o, a) in out.iter_mut().zip(aged) {
                     if let Ok(v) = o {
@@ -47,7 +52,7 @@ pub fn age_prepared_across<const B: usize>(
             None => {
                 for (o, r) in out.iter_mut().zip(&rolls) {
                     if let Ok(v) = o {
-                        match age_lane_full(material, (r.0, r.1, lane), &r.2[lane], r.3) {
+                        match age_lane_full(material, (r.0, r.1, lane), &creep_of(r, lane), r.3) {
                             Ok(a) => v.push(a),
                             Err(e) => *o = Err(e),
                         }
@@ -73,17 +78,16 @@ fn alike(r: &RollStore, first: &RollStore, lanes: usize) -> bool {
         && r.0.mc_ref.to_bits() == first.0.mc_ref.to_bits()
         && bits(r.1.core_stiffness_pa) == bits(first.1.core_stiffness_pa)
         && r.1.lanes.len() == lanes
-        && r.2.len() >= lanes
 }
 
-/// Lane `lane` of every roll side by side; `None` when their creep does not share its
-/// retardation times or any member's run fails.
+/// Lane `lane` of every roll side by side, member m with `creep[m]`; `None` when their creep
+/// does not share its retardation times or any member's run fails.
 fn lane_across<const B: usize>(
     material: &Material,
     rolls: &[RollStore; B],
+    creep: [LaneCreep; B],
     lane: usize,
 ) -> Option<[LaneAged; B]> {
-    let creep: [LaneCreep; B] = rolls.map(|r| r.2[lane]);
     let params = Params::pack(&creep)?;
     let drv = drive(material, rolls[0].0, lane);
     let runs: [LaneRun; B] = std::array::from_fn(|m| {
