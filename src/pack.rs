@@ -118,6 +118,11 @@ impl<const B: usize> Pack<B> {
     }
 }
 
+/// Member `m` of each pack of `v`, in order.
+pub fn member<const B: usize>(v: &[Pack<B>], m: usize) -> impl Iterator<Item = f64> + '_ {
+    v.iter().map(move |p| p.0[m])
+}
+
 macro_rules! pack_op {
     ($tr:ident, $f:ident, $op:tt) => {
         impl<const B: usize> $tr for Pack<B> {

@@ -59,10 +59,12 @@ const KEPT_COUNTS: usize = 64;
 /// reading count and process and shared by every profile, test and roll with that many readings.
 fn null_statistics(n: usize) -> Arc<[f64]> {
     static KEPT: Mutex<BTreeMap<usize, Arc<[f64]>>> = Mutex::new(BTreeMap::new());
-    let kept = |m: &Mutex<BTreeMap<usize, Arc<[f64]>>>| {
-        m.lock().unwrap_or_else(|e| e.into_inner()).get(&n).cloned()
-    };
-    if let Some(v) = kept(&KEPT) {
+    let kept = KEPT
+        .lock()
+        .unwrap_or_else(|e| e.into_inner())
+        .get(&n)
+        .cloned();
+    if let Some(v) = kept {
         return v;
     }
     let mut rng = ChaCha8Rng::seed_from_u64(posterior::seed_for("band statistic", n));

@@ -29,10 +29,7 @@ pub(super) fn draw_runs(p: &LaneProblem, draws: &[LaneCreep]) -> Option<Vec<Lane
     let mut out = Vec::with_capacity(draws.len());
     for chunk in draws.chunks(PACK) {
         let creep: [LaneCreep; PACK] = std::array::from_fn(|m| chunk[m.min(chunk.len() - 1)]);
-        let run = LaneRun {
-            steps: p.prep.timeline.steps.len(),
-            ..p.run(&creep[0])
-        };
+        let run = LaneRun::whole(p.material, (p.prep, p.wound, p.lane), &creep[0], &p.drive);
         let aged = age_lane_pack(&run, &creep, p.hardness)?;
         out.extend(aged.into_iter().take(chunk.len()));
     }

@@ -106,7 +106,7 @@ impl<'a> LaneProblem<'a> {
     }
 
     /// The lane's storage run with `creep`.
-    pub(super) fn run<'r>(&'r self, creep: &'r LaneCreep) -> LaneRun<'r> {
+    fn run<'r>(&'r self, creep: &'r LaneCreep) -> LaneRun<'r> {
         LaneRun {
             material: self.material,
             wound: self.wound,
@@ -226,6 +226,17 @@ impl Objective<'_, '_> {
             .collect()
     }
 
+    /// [`Self::value`] at `theta` of a one-lane objective from that lane's run `track` at
+    /// `theta`, as the value would run it (run afresh when clamping moves `theta` or there is
+    /// not one lane).
+    fn value_from_run(&self, theta: &[f64], track: Track) -> f64 {
+        let t = clamp_theta(theta);
+        match self.lanes {
+            [l] if t == theta => self.with_prior(theta, &t, l.chi2_half_of(Some(track))),
+            _ => self.value(theta),
+        }
+    }
+
     /// The objective from the data part at `theta` (clamped: `t`).
     fn with_prior(&self, theta: &[f64], t: &[f64], data: f64) -> f64 {
         let prior: f64 = t
@@ -245,11 +256,14 @@ impl CostFunction for Borrowed<'_, '_, '_> {
     type Param = Vec<f64>;
     type Output = f64;
     fn cost(&self, p: &Self::Param) -> Result<f64, ArgminError> {
-        let key = |x: &[f64]| [x.first(), x.get(1)].map(|v| v.map_or(u64::MAX, |v| v.to_bits()));
-        match (p.len() == 2).then(|| self.1.iter().find(|(k, _)| *k == key(p))) {
-            Some(Some((_, v))) => Ok(*v),
-            _ => Ok(self.0.value(p)),
-        }
+        let known = match p[..] {
+            [a, b] => self
+                .1
+                .iter()
+                .find(|(k, _)| *k == [a.to_bits(), b.to_bits()]),
+            _ => None,
+        };
+        Ok(known.map_or_else(|| self.0.value(p), |(_, v)| *v))
     }
 }
 
@@ -474,6 +488,7 @@ pub fn fit_lane(p: &LaneProblem, prior: [f64; 2], seed: u64) -> Result<LaneFit, 
     }
     let a = p.simulate(&theta).ok_or(SolverError::ModelFailed)?;
     let mut residuals = residuals(p, &a);
+    let final_cost = obj.value_from_run(&theta, a);
     let rmse = if residuals.is_empty() {
         0.0
     } else {
@@ -515,7 +530,7 @@ pub fn fit_lane(p: &LaneProblem, prior: [f64; 2], seed: u64) -> Result<LaneFit, 
         iterations: m.iterations,
         evaluations: m.evaluations + 8 + post.evaluations,
         start_cost: m.start_cost,
-        final_cost: obj.value(&theta),
+        final_cost,
         theta,
         creep: c,
         draws,

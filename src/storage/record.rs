@@ -6,7 +6,7 @@ use super::cells::Ended;
 use super::creep::CreepState;
 use super::hardness::HardnessMap;
 use crate::case::Material;
-use crate::pack::Pack;
+use crate::pack::{member, Pack};
 use crate::winding::Wound;
 
 /// A lane's state at a step end, handed to a [`Recorder`]: of one run, or of a pack of runs
@@ -72,8 +72,8 @@ impl<const B: usize> Tracks<B> {
     /// Member `m`'s track.
     pub fn member(&self, m: usize) -> Track {
         Track {
-            surface_pressure_pa: self.surface_pressure_pa.iter().map(|p| p.0[m]).collect(),
-            diameter_m: self.diameter_m.iter().map(|p| p.0[m]).collect(),
+            surface_pressure_pa: member(&self.surface_pressure_pa, m).collect(),
+            diameter_m: member(&self.diameter_m, m).collect(),
         }
     }
 }
@@ -285,12 +285,11 @@ impl<'a, const B: usize> FullRecords<'a, B> {
 
     /// Each member's record, with its final stresses from the pack's run `end`.
     pub fn finish_all(self, end: &Ended<Pack<B>>) -> [LaneAged; B] {
-        let part = |v: &[Pack<B>], m: usize| v.iter().map(|p| p.0[m]).collect();
         let mut m = 0;
         self.members.map(|r| {
             let stress = FinalStress {
-                radial_pa: part(&end.radial_pa, m),
-                tangential_pa: part(&end.tangential_pa, m),
+                radial_pa: member(&end.radial_pa, m).collect(),
+                tangential_pa: member(&end.tangential_pa, m).collect(),
             };
             m += 1;
             r.finish(stress)
@@ -310,9 +309,9 @@ impl<const B: usize> Recorder<Pack<B>> for FullRecords<'_, B> {
         } = self;
         for (m, rec) in members.iter_mut().enumerate() {
             radial.clear();
-            radial.extend(s.radial_stress_pa.iter().map(|p| p.0[m]));
+            radial.extend(member(s.radial_stress_pa, m));
             tangential.clear();
-            tangential.extend(s.tangential_stress_pa.iter().map(|p| p.0[m]));
+            tangential.extend(member(s.tangential_stress_pa, m));
             md_creep.clear();
             md_creep.extend(s.md_creep.iter().map(|c| CreepState {
                 delayed: c.delayed.0[m],
