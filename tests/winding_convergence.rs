@@ -37,16 +37,24 @@ fn wound(path: &str, nodes: usize) -> Wound {
     .expect("winds")
 }
 
-/// Largest relative difference of the radial stress of any lane at the coarse grid's radii
-/// (the grids nest), the free surface excepted.
-fn worst(coarse: &Wound, fine: &Wound) -> f64 {
+/// Largest relative difference of the radial stress of any lane at the coarse roll's output
+/// radii that are also the fine roll's, the free surface excepted. The grids nest, so every one
+/// of the coarse roll's `nodes` grid nodes is compared; the sub-nodes of its refined zone at the
+/// surface need not be nodes of the fine roll.
+fn worst((coarse, nodes): (&Wound, usize), fine: &Wound) -> f64 {
     let n = coarse.radius_m.len();
-    let step = (fine.radius_m.len() - 1) / (n - 1);
+    let at = |r: f64| {
+        let j = fine.radius_m.partition_point(|&x| x < r * (1.0 - 1e-12));
+        (j < fine.radius_m.len() && (fine.radius_m[j] / r - 1.0).abs() < 1e-12).then_some(j)
+    };
+    let shared: Vec<(usize, usize)> = (0..n - 1)
+        .filter_map(|i| at(coarse.radius_m[i]).map(|j| (i, j)))
+        .collect();
+    assert!(shared.len() >= nodes - 1, "{} of {nodes}", shared.len());
     let mut worst = 0.0f64;
     for (a, b) in coarse.lanes.iter().zip(&fine.lanes) {
-        for i in 0..n - 1 {
-            assert!((coarse.radius_m[i] / fine.radius_m[i * step] - 1.0).abs() < 1e-12);
-            let want = b.radial_stress_pa[i * step];
+        for &(i, j) in &shared {
+            let want = b.radial_stress_pa[j];
             worst = worst.max((a.radial_stress_pa[i] - want).abs() / want.abs());
         }
     }
@@ -63,7 +71,7 @@ fn default_resolution_is_within_one_percent_on_the_field_cases() {
         "field_cases/nordvik_pm3_caliper_band.yaml",
     ] {
         let fine = wound(path, 4 * (DEFAULT_NODES - 1) + 1);
-        let e = worst(&wound(path, DEFAULT_NODES), &fine);
+        let e = worst((&wound(path, DEFAULT_NODES), DEFAULT_NODES), &fine);
         assert!(e < 0.01, "{path}: {:.3} %", 100.0 * e);
     }
 }
@@ -75,8 +83,12 @@ fn default_resolution_is_within_one_percent_on_the_field_cases() {
 fn default_resolution_is_within_one_percent_on_the_soft_roll() {
     let fine = soft_roll(4 * (DEFAULT_NODES - 1) + 1);
     let def = soft_roll(DEFAULT_NODES);
-    let half = soft_roll((DEFAULT_NODES - 1) / 2 + 1);
-    let (e_def, e_half) = (worst(&def, &fine), worst(&half, &fine));
+    let half_nodes = (DEFAULT_NODES - 1) / 2 + 1;
+    let half = soft_roll(half_nodes);
+    let (e_def, e_half) = (
+        worst((&def, DEFAULT_NODES), &fine),
+        worst((&half, half_nodes), &fine),
+    );
     within_one_percent_at_order(e_def, (e_half, e_def), 2.5);
     // the core itself
     let (a, b) = (&def.lanes[0], &fine.lanes[0]);
@@ -93,8 +105,14 @@ fn a_tapered_roll_converges_at_second_order() {
     let path = "tests/data/winding_taper/tapered_soft_roll.yaml";
     let fine = wound(path, 8 * (DEFAULT_NODES - 1) + 1);
     let (e_def, e_fine) = (
-        worst(&wound(path, DEFAULT_NODES), &fine),
-        worst(&wound(path, 2 * (DEFAULT_NODES - 1) + 1), &fine),
+        worst((&wound(path, DEFAULT_NODES), DEFAULT_NODES), &fine),
+        worst(
+            (
+                &wound(path, 2 * (DEFAULT_NODES - 1) + 1),
+                2 * (DEFAULT_NODES - 1) + 1,
+            ),
+            &fine,
+        ),
     );
     within_one_percent_at_order(e_def, (e_def, e_fine), 3.2);
 }
@@ -109,4 +127,24 @@ fn within_one_percent_at_order(e_def: f64, (coarse, fine): (f64, f64), ratio: f6
         100.0 * coarse,
         100.0 * fine
     );
+}
+
+/// The outer wraps are resolved on a coarse grid: the mean interlayer pressure over the outer
+/// 25 mm (what hardness and the end-of-storage pressure rest on) at 121 nodes is within 4 % of
+/// the roll wound on 1601 nodes, on the soft roll and each field case (first lane). Measured
+/// with the refined zone's sub-nodes given out: 2.6 % soft roll, 3.3 % Harrowgate, 1.8 %
+/// Kestrel, 1.3 % Nordvik; from the grid nodes alone it was 5.9 %, 12.8 %, 2.9 % and 2.3 %.
+#[test]
+fn the_surface_zone_is_resolved_on_a_coarse_grid() {
+    for path in [
+        "benches/numpy_hakiel/soft_roll.yaml",
+        "field_cases/harrowgate_board_dry_store.yaml",
+        "field_cases/kestrel_coated_cold_to_humid.yaml",
+        "field_cases/nordvik_pm3_caliper_band.yaml",
+    ] {
+        let zone = |n: usize| wound(path, n).lanes[0].summary.surface_zone_pressure_pa;
+        let (coarse, fine) = (zone(121), zone(1601));
+        let e = (coarse / fine - 1.0).abs();
+        assert!(e < 0.04, "{path}: {:.2} %", 100.0 * e);
+    }
 }

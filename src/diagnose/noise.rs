@@ -33,21 +33,33 @@ pub const NOISE_ROLLS: usize = 24;
 pub const FLOOR_QUANTILE: f64 = 0.95;
 
 /// Winding nodes of a noise roll (floors are differences between rolls at the same nodes), unless
-/// the nip needs more ([`noise_nodes`]).
-pub const NOISE_NODES: usize = 61;
+/// the nip needs more ([`noise_nodes`]). Chosen by the floors' convergence against noise rolls
+/// wound on 401 nodes (the same draws; the field cases and a 40-lane roll): at 81 nodes every
+/// deciding floor is within 4.5 % of it; at 61 the end-of-storage surface pressure's floor came
+/// out 15-29 % short (DEVELOPERS.md, "Numerical practice").
+pub const NOISE_NODES: usize = 81;
+
+/// Longest outermost grid step of a noise roll wound under a nip, in lengths over which the
+/// lanes' nip shares follow their contact ([`coupling::NIP_FOLLOW_M`]): within one the shares'
+/// lag is updated exactly, never damped ([`coupling::follow_nip`]). The lag is explicit, first
+/// order, so how much the shares move with the lanes' noise, and the floors with them, converge
+/// with the step. On the folding boxboard case (1500 mm on a 152 mm core under 2 kN/m) the
+/// core-pressure and crush floors came out 32 % short at 2 follow lengths per step, 12 % at 1
+/// and 6 % at 0.72, and every other deciding floor within 5.4 % from 1 down (against 401 nodes);
+/// on the nip-wound coated and newsprint cases every floor was within 4.5 % at 81 nodes (1.4
+/// follow lengths). At 61 nodes the boxboard's shares chattered between the lanes (5.5 kN/m on
+/// one lane and 0.12 kN/m on another, against 1.6-2.1 kN/m each from 81 nodes up).
+pub const NIP_STEP_FOLLOWS: f64 = 1.0;
 
 /// Winding nodes of `lab`'s noise rolls: [`NOISE_NODES`], or under a nip enough for the outermost
-/// grid step to be no longer than twice the length over which the lanes' nip shares follow their
-/// contact ([`coupling::NIP_FOLLOW_M`]): on longer steps the shares chatter between the lanes
-/// (the folding boxboard case, 1500 mm on a 152 mm core under 2 kN/m, put 5.5 kN/m on one lane
-/// and 0.12 kN/m on another at 61 nodes, 1.6-2.1 kN/m each from 81 nodes up).
+/// grid step to be no longer than [`NIP_STEP_FOLLOWS`] follow lengths.
 pub fn noise_nodes(lab: &Case) -> usize {
     let (rc, big_r) = (0.5 * lab.roll.core_diameter_m, 0.5 * lab.roll.diameter_m);
     if lab.winding.nip_n_per_m <= 0.0 || !(big_r > rc && rc > 0.0) {
         return NOISE_NODES;
     }
     // the geometric grid's outermost step is about R ln(R / rc) / (nodes - 1)
-    let steps = big_r * (big_r / rc).ln() / (2.0 * coupling::NIP_FOLLOW_M);
+    let steps = big_r * (big_r / rc).ln() / (NIP_STEP_FOLLOWS * coupling::NIP_FOLLOW_M);
     NOISE_NODES.max(1 + steps.ceil().min(4096.0) as usize)
 }
 

@@ -143,15 +143,18 @@ pub const ZONE_DECAYS: f64 = 4.0;
 /// ratios the last corrector left, and the new interval's).
 #[derive(Debug, Clone)]
 pub struct LaneState {
-    /// Grid radii, m (increasing; need not be uniform).
+    /// Grid radii, m (increasing; need not be uniform); after [`Self::finish`], the output
+    /// nodes' radii (the grid nodes and the refined zone's sub-nodes).
     pub r: Vec<f64>,
-    /// Radial stress at the grid nodes, Pa (compression negative); valid after [`Self::finish`].
+    /// Radial stress at the output nodes, Pa (compression negative); valid after
+    /// [`Self::finish`].
     pub sr: Vec<f64>,
-    /// Tangential (MD) stress, Pa; valid after [`Self::finish`].
+    /// Tangential (MD) stress at the output nodes, Pa; valid after [`Self::finish`].
     pub st: Vec<f64>,
-    /// Wound-in tension each node was wound with, N/m.
+    /// Wound-in tension each grid node (after [`Self::finish`], each output node) was wound
+    /// with, N/m.
     pub wit: Vec<f64>,
-    /// Number of grid nodes wound so far.
+    /// Number of grid nodes wound so far; after [`Self::finish`], the number of output nodes.
     pub wound: usize,
     sub: usize,
     depth: usize,
@@ -505,8 +508,18 @@ impl LaneState {
         }
     }
 
-    /// End of winding: copy the grid nodes' stresses out. The outermost node is the free
-    /// surface with exactly its wound-in stress.
+    /// End of winding: the output nodes and their stresses, in [`Self::r`], [`Self::sr`],
+    /// [`Self::st`] and [`Self::wit`] (whose lengths become [`Self::wound`]). The outermost node
+    /// is the free surface with exactly its wound-in stress.
+    ///
+    /// The output nodes are the nodes in use: the grid nodes below the refined zone and every
+    /// sub-node inside it, so the steep pressure profile under the surface is given at the
+    /// sub-steps' spacing, not only at the grid's. On a coarse grid the grid nodes alone sample
+    /// it once per grid step, and what is read from it in the outer wraps (the mean pressure
+    /// over the outer 25 mm that hardness and end-of-storage pressure rest on, the outer wrap's
+    /// MD stress after storage) came out up to 86 % and 37 % off at 61-87 nodes, against 3-7 %
+    /// and 0.1-8 % with the sub-nodes (the field cases, against 401 nodes). A sub-node's
+    /// wound-in tension is that of the grid step that wound it.
     ///
     /// Inside the roll the tangential stress is taken from equilibrium, sigma_t = d(r sigma_r)/dr
     /// (three-point differences on the nodes in use, which include the refined zone at the
@@ -523,17 +536,25 @@ impl LaneState {
                 + ((h1 - h0) / (h0 * h1)) * f1
                 + (h0 / (h1 * (h0 + h1))) * f2;
         }
-        for (i, &g) in self.agrid.iter().enumerate() {
-            if g != usize::MAX {
-                self.sr[g] = self.asr[i];
-                self.st[g] = self.ast[i];
+        if self.wound == 0 || n == 0 {
+            return;
+        }
+        // a sub-node's layers were wound in the grid step ending at the next grid node above it
+        let mut wit = vec![0.0; n];
+        let mut step = self.wound - 1;
+        for i in (0..n).rev() {
+            if self.agrid[i] != usize::MAX {
+                step = self.agrid[i];
             }
+            wit[i] = self.wit[step];
         }
-        if self.wound > 0 {
-            let k = self.wound - 1;
-            self.sr[k] = 0.0;
-            self.st[k] = sigma_w_last;
-        }
+        self.r.clone_from(&self.ar);
+        self.sr.clone_from(&self.asr);
+        self.st.clone_from(&self.ast);
+        self.wit = wit;
+        self.wound = n;
+        self.sr[n - 1] = 0.0;
+        self.st[n - 1] = sigma_w_last;
     }
 
     /// Compressed radius of the wound build (m): the core radius, less the core's inward

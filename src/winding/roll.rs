@@ -145,7 +145,7 @@ pub struct LaneStress {
     pub position_m: f64,
     /// Lane caliper, m.
     pub caliper_m: f64,
-    /// Radial stress at each grid radius, Pa (compression negative).
+    /// Radial stress at each output radius ([`Wound::radius_m`]), Pa (compression negative).
     pub radial_stress_pa: Vec<f64>,
     /// Tangential stress, Pa (compression negative).
     pub tangential_stress_pa: Vec<f64>,
@@ -162,12 +162,14 @@ pub struct LaneStress {
 /// Wound-in state of the roll.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct Wound {
-    /// Shared nominal grid radii, m.
+    /// Shared nominal radii of the output nodes, m: the grid's nodes (`Options::nodes`), and
+    /// in the outer grid steps, the sub-nodes of the accretion's refined zone
+    /// ([`super::hakiel::LaneState::finish`]), so the outer wraps are resolved on any grid.
     pub radius_m: Vec<f64>,
     pub lanes: Vec<LaneStress>,
     /// Number of layers wound (mean lane).
     pub layers: f64,
-    /// Layers per grid node.
+    /// Layers per grid step (the output nodes are denser in the outer grid steps).
     pub layers_per_node: f64,
     /// Compressed mean layer thickness, m: tangential stresses are wound-in tension over this.
     pub layer_thickness_m: f64,
