@@ -59,11 +59,8 @@ pub fn text(c: &Case, l: &Lanes, w: &Wound, sys: System) -> String {
         .iter()
         .enumerate()
         .filter(|(_, l)| {
-            l.wound_in_tension_n_per_m
-                .iter()
-                .filter(|&&t| t <= c.material.friction * c.winding.nip_n_per_m + 1e-9)
-                .count()
-                > l.wound_in_tension_n_per_m.len() / 10
+            let slack = |t: f64| t <= c.material.friction * c.winding.nip_n_per_m + 1e-9;
+            slack_share(&w.radius_m, &l.wound_in_tension_n_per_m, slack) > 0.1
         })
         .map(|(i, l)| format!("{i} @ {}", pos(l.position_m, sys)))
         .collect();
@@ -80,6 +77,19 @@ pub fn text(c: &Case, l: &Lanes, w: &Wound, sys: System) -> String {
     out
 }
 
+/// Share of the build (by radius, each node standing for half of each interval beside it; the
+/// nodes are not evenly spaced) over which `slack` holds for the wound-in tension `wit` (N/m)
+/// at radii `r` (m).
+fn slack_share(r: &[f64], wit: &[f64], slack: impl Fn(f64) -> bool) -> f64 {
+    let n = r.len().min(wit.len());
+    if n < 2 {
+        return if n == 1 && slack(wit[0]) { 1.0 } else { 0.0 };
+    }
+    let span = |i: usize| 0.5 * (r[(i + 1).min(n - 1)] - r[i.saturating_sub(1)]);
+    let held: f64 = (0..n).filter(|&i| slack(wit[i])).map(span).sum();
+    held / (r[n - 1] - r[0]).max(1e-300)
+}
+
 /// The first line: the case, the grid and the CD levelling.
 fn heading(c: &Case, w: &Wound, sys: System) -> String {
     let lag = if w.shear_lag_m.is_finite() {
@@ -88,10 +98,11 @@ fn heading(c: &Case, w: &Wound, sys: System) -> String {
         "the whole width".into()
     };
     format!(
-        "Case {}: wound-in state, {} lanes, {:.0} layers on {} nodes per lane, CD levelling over a shear lag of {lag} (uniform levelling {:.2} on top)\n",
+        "Case {}: wound-in state, {} lanes, {:.0} layers on a grid of {} nodes per lane ({} radii with the refined zone under the surface), CD levelling over a shear lag of {lag} (uniform levelling {:.2} on top)\n",
         c.id,
         w.lanes.len(),
         w.layers,
+        w.grid_nodes,
         w.radius_m.len(),
         w.levelling
     )
@@ -114,6 +125,7 @@ pub fn json(c: &Case, l: &Lanes, w: &Wound) -> Value {
         "radius_m": w.radius_m,
         "layers": w.layers,
         "layers_per_node": w.layers_per_node,
+        "grid_nodes": w.grid_nodes,
         "stack_compression": w.stack_compression,
         "layer_thickness_m": w.layer_thickness_m,
         "levelling": w.levelling,
@@ -133,4 +145,29 @@ pub fn json(c: &Case, l: &Lanes, w: &Wound) -> Value {
         "notes": notes,
         "warnings": warnings,
     })
+}
+
+#[cfg(test)]
+mod tests {
+    use super::slack_share;
+
+    /// The share is by radius, not by node count: nodes crowded at the surface (the refined
+    /// zone) count for the radius they stand for.
+    #[test]
+    fn slack_share_weighs_nodes_by_the_radius_they_stand_for() {
+        let even: Vec<f64> = (0..=10).map(f64::from).collect();
+        let wit = [0.0, 0.0, 0.0, 0.0, 0.0, 1.0, 1.0, 1.0, 1.0, 1.0, 1.0];
+        assert!((slack_share(&even, &wit, |t| t <= 0.0) - 0.45).abs() < 1e-12);
+        // eleven nodes in the last tenth of a unit, the outer five slack: a quarter of the
+        // nodes, but 0.45 % of the radius
+        let mut r: Vec<f64> = (0..=9).map(f64::from).collect();
+        r.extend((0..=10).map(|i| 9.9 + 0.01 * f64::from(i)));
+        let wit: Vec<f64> = r
+            .iter()
+            .map(|&x| if x > 9.955 { 0.0 } else { 1.0 })
+            .collect();
+        let share = slack_share(&r, &wit, |t| t <= 0.0);
+        assert!((share - 0.0045).abs() < 1e-12, "{share}");
+        assert_eq!(slack_share(&[1.0], &[0.0], |t| t <= 0.0), 1.0);
+    }
 }

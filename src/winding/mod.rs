@@ -16,6 +16,7 @@ mod secant;
 mod substeps;
 mod summary;
 mod uniform;
+mod wound;
 
 pub use self::core::{collapse_pressure, core_stiffness, of as core_of, ring_collapse_pressure};
 pub use cache::Cache;

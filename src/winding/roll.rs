@@ -26,9 +26,9 @@ use super::secant::compressed_caliper;
 pub use super::secant::Secant;
 use super::summary::summarise;
 pub use super::summary::SURFACE_ZONE_M;
+pub use super::wound::{LaneStress, LaneSummary, Wound};
 use crate::case::{Material, Roll, Winding};
 use crate::lanes::Lanes;
-use serde::Serialize;
 
 /// What winding uses of a case: the web, the roll being built and the winder's settings.
 #[derive(Debug, Clone, Copy)]
@@ -111,98 +111,6 @@ pub enum WindError {
 
 /// Largest shared web strain the bracket search tries before it gives up (dimensionless).
 const MAX_SHARED_STRAIN: f64 = 1.0e3;
-
-/// Summary of one lane's wound-in state.
-#[derive(Debug, Clone, PartialEq, Serialize)]
-pub struct LaneSummary {
-    /// Peak interlayer pressure, Pa.
-    pub peak_pressure_pa: f64,
-    /// Radius of the peak, m.
-    pub peak_pressure_radius_m: f64,
-    /// Interlayer pressure on the core, Pa.
-    pub core_pressure_pa: f64,
-    /// Mean interlayer pressure over the outer 25 mm (the zone a hardness reading senses), Pa.
-    pub surface_zone_pressure_pa: f64,
-    /// Smallest and largest tangential stress, Pa.
-    pub tangential_min_pa: f64,
-    pub tangential_max_pa: f64,
-    /// Radii between which the tangential stress is compressive (starring / crepe risk), m.
-    pub compressive_from_m: Option<f64>,
-    pub compressive_to_m: Option<f64>,
-    /// Mean wound-in tension over the build, N/m.
-    pub wound_in_tension_mean_n_per_m: f64,
-    /// Compressed outer radius at the end of winding, m.
-    pub outer_radius_m: f64,
-    /// Lowest interlayer pressure within the outer 25 mm while still spinning at the final
-    /// speed (wound-in minus rotating-disk radial stress), Pa.
-    pub running_min_surface_pressure_pa: f64,
-}
-
-/// One lane's wound-in stresses.
-#[derive(Debug, Clone, PartialEq, Serialize)]
-pub struct LaneStress {
-    /// Lane centre, m from the front edge.
-    pub position_m: f64,
-    /// Lane caliper, m.
-    pub caliper_m: f64,
-    /// Radial stress at each output radius ([`Wound::radius_m`]), Pa (compression negative).
-    pub radial_stress_pa: Vec<f64>,
-    /// Tangential stress, Pa (compression negative).
-    pub tangential_stress_pa: Vec<f64>,
-    /// Wound-in tension each node was wound with, N/m.
-    pub wound_in_tension_n_per_m: Vec<f64>,
-    /// The lane's share of the nip line load at the end of the build, N/m (the width-weighted
-    /// mean over lanes is the nip load).
-    pub nip_load_n_per_m: f64,
-    /// The lane's outer radius at that last contact update, m.
-    pub nip_contact_radius_m: f64,
-    pub summary: LaneSummary,
-}
-
-/// Wound-in state of the roll.
-#[derive(Debug, Clone, PartialEq, Serialize)]
-pub struct Wound {
-    /// Shared nominal radii of the output nodes, m: the grid's nodes (`Options::nodes`), and
-    /// in the outer grid steps, the sub-nodes of the accretion's refined zone
-    /// ([`super::hakiel::LaneState::finish`]), so the outer wraps are resolved on any grid.
-    pub radius_m: Vec<f64>,
-    pub lanes: Vec<LaneStress>,
-    /// Number of layers wound (mean lane).
-    pub layers: f64,
-    /// Layers per grid step (the output nodes are denser in the outer grid steps).
-    pub layers_per_node: f64,
-    /// Compressed mean layer thickness, m: tangential stresses are wound-in tension over this.
-    pub layer_thickness_m: f64,
-    /// Mean compressive strain of the wound stack: the stated diameter holds this many more
-    /// layers than the uncompressed caliper would suggest.
-    pub stack_compression: f64,
-    /// Surface speed at which a layer wound at the roll's mean wound-in stress would stop
-    /// pressing on the roll, m/s.
-    pub lift_off_speed_m_s: f64,
-    /// Uniform CD levelling fraction used on top of the shear lag.
-    pub levelling: f64,
-    /// Shear-lag length of CD levelling at the end of the build, m (infinite: fully levelled;
-    /// written as null in JSON).
-    pub shear_lag_m: f64,
-    /// Core stiffness used, Pa (`None`: rigid).
-    pub core_stiffness_pa: Option<f64>,
-    /// Where the secant for the compressed caliper ended (or the caliper given,
-    /// [`Caliper::Given`]): a start for a like roll ([`wind_from`]). Not an output.
-    #[serde(skip)]
-    pub secant: Secant,
-}
-
-impl Wound {
-    /// Interlayer pressure in the outer wraps' zone, mean over the lanes, Pa.
-    pub fn mean_surface_pressure_pa(&self) -> f64 {
-        let k = self.lanes.len().max(1) as f64;
-        self.lanes
-            .iter()
-            .map(|l| l.summary.surface_zone_pressure_pa)
-            .sum::<f64>()
-            / k
-    }
-}
 
 /// Find eps_0 so that sum w_i max(0, k_i (eps_0 + s_i)) = total (bisection; monotone).
 /// The bracket grows from the slackest possible strain by doubling steps, at most up to
@@ -567,6 +475,7 @@ fn wound_at(
         lanes: out,
         layers,
         layers_per_node: per_node,
+        grid_nodes: nodes,
         stack_compression: 1.0 - c_eff / lanes.mean_caliper_m,
         layer_thickness_m: c_eff,
         lift_off_speed_m_s: lift_off_speed(mean_sigma, rho),
