@@ -8,7 +8,7 @@ use rollsleuth::fit::{self, synth};
 use rollsleuth::lanes;
 use rollsleuth::storage::{AgeOptions, LaneCreep};
 use rollsleuth::units::DAY_S;
-use rollsleuth::winding::{wind, wind_from, Options, WindInput};
+use rollsleuth::winding::{wind, wind_caliper, wind_from, Caliper, Options, WindInput};
 use std::hint::black_box;
 
 fn roll(storage_days: u32) -> Case {
@@ -34,32 +34,37 @@ fn bench(c: &mut Criterion) {
             .expect("winds")
         })
     });
-    // a noise roll of the confidence screen: the coarse grid of the layer-count secant is the
-    // wanted grid, so its last accretion is the wound state
-    c.bench_function("wind 40 lanes, 1 m roll, 61 nodes (a noise roll)", |b| {
-        b.iter(|| {
-            wind(
-                black_box(&WindInput::new(&case.material, &case.roll, &case.winding)),
-                &l,
-                Options {
-                    nodes: 61,
-                    ..Options::default()
-                },
-            )
-            .expect("winds")
-        })
-    });
-    // the same noise roll started from the secant of a like roll (as the noise rolls start from
-    // the noise-free roll's)
+    // a noise roll of the confidence screen, on the nodes a diagnosis winds it on: the coarse
+    // grid of the layer-count secant is the wanted grid, so its last accretion is the wound state
+    let nodes = rollsleuth::diagnose::confidence::noise_nodes(&case);
     let coarse = Options {
-        nodes: 61,
+        nodes,
         ..Options::default()
     };
+    c.bench_function(
+        &format!("wind 40 lanes, 1 m roll, {nodes} nodes (a noise roll)"),
+        |b| {
+            b.iter(|| {
+                wind(
+                    black_box(&WindInput::new(&case.material, &case.roll, &case.winding)),
+                    &l,
+                    coarse,
+                )
+                .expect("winds")
+            })
+        },
+    );
+    // the same roll wound as a noise roll is: once, with the compressed caliper of a like roll
+    // (the noise-free roll's), no secant
     let input = WindInput::new(&case.material, &case.roll, &case.winding);
     let (_, start) = wind_from(&input, &l, coarse, None).expect("winds");
     c.bench_function(
-        "wind 40 lanes, 61 nodes, secant started from a like roll",
-        |b| b.iter(|| wind_from(black_box(&input), &l, coarse, Some(start)).expect("winds")),
+        &format!("wind 40 lanes, {nodes} nodes, caliper of a like roll (as a noise roll is)"),
+        |b| {
+            b.iter(|| {
+                wind_caliper(black_box(&input), &l, coarse, Caliper::Given(start)).expect("winds")
+            })
+        },
     );
     let w = wind(
         &WindInput::new(&case.material, &case.roll, &case.winding),

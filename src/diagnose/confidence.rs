@@ -49,7 +49,9 @@ use super::features::{self, Features};
 use super::noise::{
     caliper_repeatability, flattened_features, noise_floor, rests_on_web, Floor, Side,
 };
-pub use super::noise::{FeatureFloor, FAMILY_LEVEL, FLOOR_QUANTILE, NOISE_NODES, NOISE_ROLLS};
+pub use super::noise::{
+    noise_nodes, FeatureFloor, FAMILY_LEVEL, FLOOR_QUANTILE, NOISE_NODES, NOISE_ROLLS,
+};
 use super::profile_test::caliper_unevenness;
 pub use super::profile_test::BAND_DRAWS;
 use super::{DiagnoseError, Finding, Fitted};
