@@ -71,9 +71,15 @@ fn wind(model: &LaneModel, rc: f64, big_r: f64, tw: f64, nodes: usize) -> LaneSt
     st
 }
 
+/// The stresses at the output node nearest radius `r` (m) (the output nodes are the grid's
+/// and, under the surface, the refined zone's: not evenly spaced).
 fn at(st: &LaneState, r: f64) -> (f64, f64) {
-    let h = st.r[1] - st.r[0];
-    let i = ((r - st.r[0]) / h).round() as usize;
+    let i = st.r.partition_point(|&x| x < r).min(st.r.len() - 1);
+    let i = if i > 0 && (r - st.r[i - 1]) <= (st.r[i] - r) {
+        i - 1
+    } else {
+        i
+    };
     (st.sr[i], st.st[i])
 }
 

@@ -77,7 +77,7 @@ pub enum Command {
     Stress {
         #[command(flatten)]
         case: CaseArg,
-        /// Radial nodes per lane.
+        /// Radial grid nodes per lane (the output adds the refined zone's sub-nodes under the surface).
         #[arg(long, default_value_t = crate::winding::DEFAULT_NODES)]
         nodes: usize,
         /// Uniform CD levelling 0..1 on top of the shear-lag levelling (0: shear lag only; 1: equal lane tensions).

@@ -134,10 +134,10 @@ pub const SUB_SPAN: f64 = 0.25;
 /// Depth of the refined zone, in decay lengths of the unloaded stack.
 pub const ZONE_DECAYS: f64 = 4.0;
 
-/// A lane being wound on a grid of output nodes.
+/// A lane being wound on a grid of nodes.
 ///
-/// Internally the nodes in use ("active") are the output nodes below the refined zone and every
-/// sub-node inside it. The deep part (output nodes only) is updated once per grid step, with
+/// Internally the nodes in use ("active") are the grid nodes below the refined zone and every
+/// sub-node inside it. The deep part (grid nodes only) is updated once per grid step, with
 /// its radial modulus at the mid-step pressure estimated from the previous step's increment;
 /// the zone is updated at every sub-step with a predictor-corrector (the predictor on the
 /// ratios the last corrector left, and the new interval's).
@@ -181,6 +181,8 @@ pub struct LaneState {
     zcut: usize,
     /// Sum over active intervals of dr (1 - mean strain), m.
     build: f64,
+    /// [`Self::finish`] has given out the output nodes (a second call changes nothing).
+    finished: bool,
 }
 
 /// The accretion step could not be computed.
@@ -225,6 +227,7 @@ impl LaneState {
             dcut: 0,
             zcut: 0,
             build: 0.0,
+            finished: false,
         }
     }
 
@@ -263,7 +266,7 @@ impl LaneState {
         wit: f64,
     ) -> Result<(), StepFailure> {
         let k = self.wound;
-        if k >= self.r.len() {
+        if self.finished || k >= self.r.len() {
             return Err(StepFailure { step: k });
         }
         self.wit[k] = wit;
@@ -509,8 +512,9 @@ impl LaneState {
     }
 
     /// End of winding: the output nodes and their stresses, in [`Self::r`], [`Self::sr`],
-    /// [`Self::st`] and [`Self::wit`] (whose lengths become [`Self::wound`]). The outermost node
-    /// is the free surface with exactly its wound-in stress.
+    /// [`Self::st`] and [`Self::wit`] (whose lengths become [`Self::wound`]; none if nothing was
+    /// wound). The outermost node is the free surface with exactly its wound-in stress. Once
+    /// only: a second call changes nothing, and [`Self::add`] refuses to go on.
     ///
     /// The output nodes are the nodes in use: the grid nodes below the refined zone and every
     /// sub-node inside it, so the steep pressure profile under the surface is given at the
@@ -536,7 +540,14 @@ impl LaneState {
                 + ((h1 - h0) / (h0 * h1)) * f1
                 + (h0 / (h1 * (h0 + h1))) * f2;
         }
+        if std::mem::replace(&mut self.finished, true) {
+            return;
+        }
         if self.wound == 0 || n == 0 {
+            for v in [&mut self.r, &mut self.sr, &mut self.st, &mut self.wit] {
+                v.clear();
+            }
+            self.wound = 0;
             return;
         }
         // a sub-node's layers were wound in the grid step ending at the next grid node above it

@@ -52,7 +52,8 @@ impl<'a> WindInput<'a> {
 /// Discretisation and coupling options.
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct Options {
-    /// Number of radial nodes (layer groups) per lane.
+    /// Number of grid nodes (layer groups) per lane; the wound state adds the refined zone's
+    /// sub-nodes under the surface ([`Wound::radius_m`]).
     pub nodes: usize,
     /// Uniform CD levelling fraction on top of the shear-lag levelling, 0..1 (0: shear lag only;
     /// 1: equal lane tensions).
@@ -441,7 +442,10 @@ fn wound_at(
         nip_n_per_m,
         radii_m,
     } = kept.map_or_else(|| accrete(input, lanes, nodes, opt.levelling, c_eff), Ok)?;
+    // every lane has the same output radii: the refinement, the sub-steps' plan and the
+    // coarsening depend on the shared model and grid only
     let grid = states.first().map(|s| s.r.clone()).unwrap_or_default();
+    debug_assert!(states.iter().all(|s| s.r == grid));
     let rho = mat.density_kg_m3;
     let v = input.winding.speed_m_s;
     let omega = if big_r > 0.0 { v / big_r } else { 0.0 };

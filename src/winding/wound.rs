@@ -25,9 +25,9 @@ pub struct LaneSummary {
     pub wound_in_tension_mean_n_per_m: f64,
     /// Compressed outer radius at the end of winding, m.
     pub outer_radius_m: f64,
-    /// Lowest interlayer pressure within the outer 25 mm while still spinning at the final
-    /// speed (wound-in minus rotating-disk radial stress), Pa.
-    pub running_min_surface_pressure_pa: f64,
+    /// Mean interlayer pressure over the outer 25 mm while still spinning at the final speed
+    /// (wound-in minus rotating-disk radial stress), Pa; negative: the outer wraps lift off.
+    pub running_surface_zone_pressure_pa: f64,
 }
 
 /// One lane's wound-in stresses.
