@@ -35,8 +35,9 @@ pub const FLOOR_QUANTILE: f64 = 0.95;
 /// Winding nodes of a noise roll (floors are differences between rolls at the same nodes), unless
 /// the nip needs more ([`noise_nodes`]). Chosen by the floors' convergence against noise rolls
 /// wound on 401 nodes (the same draws; the field cases and a 40-lane roll): at 81 nodes every
-/// deciding floor is within 4.5 % of it; at 61 the end-of-storage surface pressure's floor came
-/// out 15-29 % short (DEVELOPERS.md, "Numerical practice").
+/// deciding floor is within 4.5 % of it but on the nip-wound board (below); at 61 the
+/// end-of-storage surface pressure's floor came out 15-29 % short (DEVELOPERS.md, "Numerical
+/// practice").
 pub const NOISE_NODES: usize = 81;
 
 /// Longest outermost grid step of a noise roll wound under a nip, in lengths over which the
