@@ -517,13 +517,11 @@ impl LaneState {
     /// only: a second call changes nothing, and [`Self::add`] refuses to go on.
     ///
     /// The output nodes are the nodes in use: the grid nodes below the refined zone and every
-    /// sub-node inside it, so the steep pressure profile under the surface is given at the
-    /// sub-steps' spacing, not only at the grid's. On a coarse grid the grid nodes alone sample
-    /// it once per grid step, and what is read from it in the outer wraps (the mean pressure
-    /// over the outer 25 mm that hardness and end-of-storage pressure rest on, the outer wrap's
-    /// MD stress after storage) came out up to 86 % and 37 % off at 61-87 nodes, against 3-7 %
-    /// and 0.1-8 % with the sub-nodes (the field cases, against 401 nodes). A sub-node's
-    /// wound-in tension is that of the grid step that wound it.
+    /// sub-node in it, so the steep profile under the surface is given at the sub-steps'
+    /// spacing. From the grid nodes alone, the outer 25 mm's mean pressure and the outer wrap's
+    /// MD stress after storage came out up to 86 % and 37 % off at 61-87 nodes, against 3-7 %
+    /// and 0.1-8 % with them (field cases, against 401 nodes). A sub-node's wound-in tension is
+    /// that of the grid step that wound it.
     ///
     /// Inside the roll the tangential stress is taken from equilibrium, sigma_t = d(r sigma_r)/dr
     /// (three-point differences on the nodes in use, which include the refined zone at the
