@@ -42,14 +42,15 @@ pub const NOISE_NODES: usize = 81;
 
 /// Longest outermost grid step of a noise roll wound under a nip, in lengths over which the
 /// lanes' nip shares follow their contact ([`coupling::NIP_FOLLOW_M`]): within one the shares'
-/// lag is updated exactly, never damped ([`coupling::follow_nip`]). The lag is explicit, first
-/// order, so how much the shares move with the lanes' noise, and the floors with them, converge
-/// with the step. On the folding boxboard case (1500 mm on a 152 mm core under 2 kN/m) the
-/// core-pressure and crush floors came out 32 % short at 2 follow lengths per step, 12 % at 1
-/// and 6 % at 0.72, and every other deciding floor within 5.4 % from 1 down (against 401 nodes);
-/// on the nip-wound coated and newsprint cases every floor was within 4.5 % at 81 nodes (1.4
-/// follow lengths). At 61 nodes the boxboard's shares chattered between the lanes (5.5 kN/m on
-/// one lane and 0.12 kN/m on another, against 1.6-2.1 kN/m each from 81 nodes up).
+/// lag is updated exactly, never damped ([`coupling::follow_nip`]); at 61 nodes the folding
+/// boxboard case's shares (1500 mm on a 152 mm core under 2 kN/m) chattered between the lanes
+/// (5.5 kN/m on one lane and 0.12 kN/m on another, against 1.6-2.1 kN/m each from 81 nodes up).
+/// It also gives that case the nodes its core-pressure and crush floors need, though not for
+/// the nip's sake: they converge slowly with the grid with or without a nip (against 401 nodes,
+/// 32 % short at 2 follow lengths per outermost step, 12 % at 1 (173 nodes), 6 % at 0.72; with
+/// the nip taken off, 51 % at 81 nodes, 20 % at 173, 10 % at 241), while every other deciding
+/// floor is within 5.4 % from 1 down. The nip-wound coated and newsprint cases need none of it
+/// (every floor within 4.5 % at 81 nodes); a rule aimed at what makes the board slow is open.
 pub const NIP_STEP_FOLLOWS: f64 = 1.0;
 
 /// Winding nodes of `lab`'s noise rolls: [`NOISE_NODES`], or under a nip enough for the outermost
