@@ -93,13 +93,13 @@ impl Grid {
             .fold(f64::INFINITY, f64::min)
     }
 
-    /// Whether the edge (`axis`, `side`: 0 low, 1 high) has a node within [`EDGE_RISE`] of the
-    /// lowest.
     /// Whether any edge still holds mass (after [`grow`], an edge it could not grow further).
     pub(super) fn cut(&self) -> bool {
         (0..4).any(|k| self.edge_holds_mass(k / 2, k % 2))
     }
 
+    /// Whether the edge (`axis`, `side`: 0 low, 1 high) has a node within [`EDGE_RISE`] of the
+    /// lowest.
     fn edge_holds_mass(&self, axis: usize, side: usize) -> bool {
         let lo = self.lowest();
         let n = [self.u[0].len(), self.u[1].len()];

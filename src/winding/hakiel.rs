@@ -529,6 +529,9 @@ impl LaneState {
     /// wound-in stress and so loses the relative accuracy the radial stress has. At the core
     /// the sum is exact (z = 1 + kappa there) and is kept.
     pub fn finish(&mut self, sigma_w_last: f64) {
+        if std::mem::replace(&mut self.finished, true) {
+            return;
+        }
         let n = self.ar.len();
         for i in 1..n.saturating_sub(1) {
             let (r0, r1, r2) = (self.ar[i - 1], self.ar[i], self.ar[i + 1]);
@@ -537,9 +540,6 @@ impl LaneState {
             self.ast[i] = (-h1 / (h0 * (h0 + h1))) * f0
                 + ((h1 - h0) / (h0 * h1)) * f1
                 + (h0 / (h1 * (h0 + h1))) * f2;
-        }
-        if std::mem::replace(&mut self.finished, true) {
-            return;
         }
         if self.wound == 0 || n == 0 {
             for v in [&mut self.r, &mut self.sr, &mut self.st, &mut self.wit] {
