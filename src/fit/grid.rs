@@ -2,7 +2,7 @@
 //! half-axes searched out to where the objective has risen by [`Z_EDGE`]^2/2, [`HALF_NODES`]
 //! nodes on each, and edges grown while they hold mass.
 
-use super::lane_fit::Objective;
+use super::lane_fit::{Known, Objective};
 
 /// Each half-axis of the grid reaches where the objective has risen by Z^2/2 over the optimum:
 /// 4 equivalent standard deviations (beyond it lies 0.003 % of a normal's mass per side; a
@@ -115,9 +115,6 @@ impl Grid {
     }
 }
 
-/// Points already evaluated (by their bits) with their objective values.
-type Seen = Vec<([u64; 2], f64)>;
-
 /// Distance (in axis units) along each of the four half-axes (axis, side) at which the objective
 /// rises by Z^2/2 over `f0`, the four searched side by side; with the points evaluated.
 fn half_extents(
@@ -125,12 +122,12 @@ fn half_extents(
     mode: &[f64],
     (ax, prior_sd): (&[[f64; 2]; 2], f64),
     f0: f64,
-) -> ([[f64; 2]; 2], u64, Seen) {
+) -> ([[f64; 2]; 2], u64, Known) {
     let reach = |a: usize| REACH_PRIORS * prior_sd / ax[a][0].hypot(ax[a][1]);
     let mut t = [[Z_EDGE; 2]; 2];
     let mut done = [[false; 2]; 2];
     let mut evaluations = 0;
-    let mut seen = Seen::new();
+    let mut seen = Known::default();
     for _ in 0..SEARCH_ROUNDS {
         let open: Vec<(usize, usize)> = (0..4)
             .map(|k| (k / 2, k % 2))
@@ -150,11 +147,7 @@ fn half_extents(
             .collect();
         let v = obj.values(&pts);
         evaluations += pts.len() as u64;
-        seen.extend(
-            pts.iter()
-                .map(|p| p.map(f64::to_bits))
-                .zip(v.iter().copied()),
-        );
+        seen.add(&pts, &v);
         for (&(a, s), &fv) in open.iter().zip(&v) {
             let rise = fv - f0;
             let next = if !rise.is_finite() {
@@ -209,15 +202,11 @@ pub(super) fn explore(
         .flat_map(|&a| u[1].iter().map(move |&b| [a, b]))
         .collect();
     // every node but the optimum, and but those the search already evaluated (the axis ends)
-    let known = |x: &[f64; 2]| {
-        let key = x.map(f64::to_bits);
-        seen.iter().find(|(k, _)| *k == key).map(|(_, v)| *v)
-    };
     let far: Vec<[f64; 2]> = pts
         .iter()
         .filter(|p| p[0] != 0.0 || p[1] != 0.0)
         .map(|p| at(mode, &ax, *p))
-        .filter(|x| known(x).is_none())
+        .filter(|x| seen.get(x).is_none())
         .collect();
     let mut v = obj.values(&far).into_iter();
     evaluations += far.len() as u64;
@@ -226,7 +215,7 @@ pub(super) fn explore(
         .map(|p| {
             if p[0] != 0.0 || p[1] != 0.0 {
                 let x = at(mode, &ax, *p);
-                known(&x).or_else(|| v.next()).unwrap_or(f64::NAN)
+                seen.get(&x).or_else(|| v.next()).unwrap_or(f64::NAN)
             } else {
                 f0
             }

@@ -248,22 +248,36 @@ impl Objective<'_, '_> {
     }
 }
 
+/// Objective values of points already evaluated (run side by side), found by the points' bits.
+#[derive(Default)]
+pub(super) struct Known(Vec<([u64; 2], f64)>);
+
+impl Known {
+    /// Keep `values` as those of `pts` (as many).
+    pub(super) fn add(&mut self, pts: &[[f64; 2]], values: &[f64]) {
+        let bits = pts.iter().map(|p| p.map(f64::to_bits));
+        self.0.extend(bits.zip(values.iter().copied()));
+    }
+
+    /// The value kept for `x` (two log-scales), if any.
+    pub(super) fn get(&self, x: &[f64]) -> Option<f64> {
+        let [a, b] = x else {
+            return None;
+        };
+        let key = [a.to_bits(), b.to_bits()];
+        self.0.iter().find(|(k, _)| *k == key).map(|(_, v)| *v)
+    }
+}
+
 /// Borrowing adapter so argmin can run on an objective it does not own, with the values of
-/// points already evaluated (the start simplex, run side by side) kept by their bits.
-struct Borrowed<'o, 'a, 'b>(&'o Objective<'a, 'b>, Vec<([u64; 2], f64)>);
+/// points already evaluated (the start simplex).
+struct Borrowed<'o, 'a, 'b>(&'o Objective<'a, 'b>, Known);
 
 impl CostFunction for Borrowed<'_, '_, '_> {
     type Param = Vec<f64>;
     type Output = f64;
     fn cost(&self, p: &Self::Param) -> Result<f64, ArgminError> {
-        let known = match p[..] {
-            [a, b] => self
-                .1
-                .iter()
-                .find(|(k, _)| *k == [a.to_bits(), b.to_bits()]),
-            _ => None,
-        };
-        Ok(known.map_or_else(|| self.0.value(p), |(_, v)| *v))
+        Ok(self.1.get(p).unwrap_or_else(|| self.0.value(p)))
     }
 }
 
@@ -286,10 +300,10 @@ pub fn minimise(obj: &Objective, start: [f64; 2]) -> Result<Minimum, SolverError
         [start[0], start[1] + 0.7],
     ];
     // the start simplex run side by side (the same values, to the bit)
-    let known: Vec<([u64; 2], f64)> = (vertices.iter().map(|v| v.map(f64::to_bits)))
-        .zip(obj.values(&vertices))
-        .collect();
-    let start_cost = known[0].1;
+    let values = obj.values(&vertices);
+    let start_cost = values[0];
+    let mut known = Known::default();
+    known.add(&vertices, &values);
     let simplex = vertices.iter().map(|v| v.to_vec()).collect();
     let solver = NelderMead::new(simplex)
         .with_sd_tolerance(1e-3)
