@@ -88,18 +88,15 @@ impl<const B: usize> Start<Pack<B>> {
     pub fn across(runs: &[LaneRun; B]) -> Self {
         let r = &runs[0].prep.moisture.r;
         let each = runs.map(|x| initial_stress(x.wound, x.lane, r));
-        let at = |j: usize, radial: bool| {
-            Pack(std::array::from_fn(|m| {
-                if radial {
-                    each[m].0[j]
-                } else {
-                    each[m].1[j]
-                }
-            }))
+        // cell j's pack: member m's value at cell j
+        let packed = |v: [&Vec<f64>; B]| -> Vec<Pack<B>> {
+            (0..r.len())
+                .map(|j| Pack(std::array::from_fn(|m| v[m][j])))
+                .collect()
         };
         Start {
-            sr: (0..r.len()).map(|j| at(j, true)).collect(),
-            st: (0..r.len()).map(|j| at(j, false)).collect(),
+            sr: packed(each.each_ref().map(|e| &e.0)),
+            st: packed(each.each_ref().map(|e| &e.1)),
             big_r0: Pack(runs.map(|x| x.wound.lanes[x.lane].summary.outer_radius_m)),
         }
     }
