@@ -8,7 +8,9 @@ use rollsleuth::fit::{self, synth};
 use rollsleuth::lanes;
 use rollsleuth::storage::{AgeOptions, LaneCreep};
 use rollsleuth::units::DAY_S;
-use rollsleuth::winding::{wind, wind_caliper, wind_from, Caliper, Options, WindInput};
+use rollsleuth::winding::{
+    wind, wind_caliper, wind_from, Caliper, Options, WindInput, DEFAULT_NODES,
+};
 use std::hint::black_box;
 
 fn roll(storage_days: u32) -> Case {
@@ -34,13 +36,12 @@ fn bench(c: &mut Criterion) {
             .expect("winds")
         })
     });
-    // a noise roll of the confidence screen, on the nodes a diagnosis winds it on: the coarse
+    // a noise roll of the confidence screen, on the grid a diagnosis winds it on: the coarse
     // grid of the layer-count secant is the wanted grid, so its last accretion is the wound state
-    let nodes = rollsleuth::diagnose::confidence::noise_nodes(&case);
-    let coarse = Options {
-        nodes,
-        ..Options::default()
-    };
+    let coarse = rollsleuth::diagnose::confidence::noise_options(&case, DEFAULT_NODES);
+    let nodes = coarse
+        .grid(0.5 * case.roll.core_diameter_m, 0.5 * case.roll.diameter_m)
+        .len();
     c.bench_function(
         &format!("wind 40 lanes, 1 m roll, {nodes} nodes (a noise roll)"),
         |b| {

@@ -69,6 +69,7 @@ fn mutated_cases_never_panic() {
                     Options {
                         nodes: 41,
                         levelling: 0.5,
+                        spacing: Default::default(),
                     },
                 ) {
                     let _ = fit::age_measured(

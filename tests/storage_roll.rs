@@ -26,6 +26,7 @@ fn wound(c: &Case) -> (lanes::Lanes, rollsleuth::winding::Wound) {
         Options {
             nodes: 201,
             levelling: 0.5,
+            spacing: Default::default(),
         },
     )
     .unwrap();
@@ -185,6 +186,7 @@ fn tighter_lane_takes_more_set_and_no_storage_means_no_change() {
         Options {
             nodes: 201,
             levelling: 0.5,
+            spacing: Default::default(),
         },
     )
     .unwrap();

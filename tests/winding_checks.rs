@@ -164,6 +164,7 @@ fn nip_induced_wound_in_tension_follows_good_wu_fikes() {
         Options {
             nodes: 200,
             levelling: 0.5,
+            spacing: Default::default(),
         },
     )
     .unwrap();
@@ -189,6 +190,7 @@ fn constant_tension_profile_has_the_shape_the_trade_knows() {
         Options {
             nodes: 400,
             levelling: 0.5,
+            spacing: Default::default(),
         },
     )
     .unwrap();
@@ -230,6 +232,7 @@ fn higher_speed_lowers_interlayer_pressure() {
         Options {
             nodes: 200,
             levelling: 0.5,
+            spacing: Default::default(),
         },
     )
     .unwrap();
@@ -239,6 +242,7 @@ fn higher_speed_lowers_interlayer_pressure() {
         Options {
             nodes: 200,
             levelling: 0.5,
+            spacing: Default::default(),
         },
     )
     .unwrap();
@@ -270,6 +274,7 @@ fn equal_stress_means_tension_scales_with_caliper() {
         Options {
             nodes: 200,
             levelling: 0.5,
+            spacing: Default::default(),
         },
     )
     .unwrap();
@@ -279,6 +284,7 @@ fn equal_stress_means_tension_scales_with_caliper() {
         Options {
             nodes: 200,
             levelling: 0.5,
+            spacing: Default::default(),
         },
     )
     .unwrap();
@@ -307,6 +313,7 @@ fn wound_state_converges_with_grid_refinement() {
             Options {
                 nodes: n,
                 levelling: 0.5,
+                spacing: Default::default(),
             },
         )
         .unwrap()
@@ -359,6 +366,7 @@ fn equal_lanes_are_identical_and_a_thicker_lane_is_tighter() {
         Options {
             nodes: 300,
             levelling: 0.5,
+            spacing: Default::default(),
         },
     )
     .unwrap();
@@ -373,6 +381,7 @@ fn equal_lanes_are_identical_and_a_thicker_lane_is_tighter() {
         Options {
             nodes: 300,
             levelling: 0.5,
+            spacing: Default::default(),
         },
     )
     .unwrap();
@@ -387,6 +396,7 @@ fn equal_lanes_are_identical_and_a_thicker_lane_is_tighter() {
         Options {
             nodes: 300,
             levelling: 0.0,
+            spacing: Default::default(),
         },
     )
     .unwrap();
@@ -417,6 +427,7 @@ fn wound_state_satisfies_radial_equilibrium_identity() {
         Options {
             nodes: 801,
             levelling: 0.5,
+            spacing: Default::default(),
         },
     )
     .unwrap();

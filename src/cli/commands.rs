@@ -170,7 +170,14 @@ pub fn stress(
     levelling: f64,
     out: Output,
 ) -> Result<Outcome, CliError> {
-    let (c, l, w) = wound_case(arg, winding::Options { nodes, levelling })?;
+    let (c, l, w) = wound_case(
+        arg,
+        winding::Options {
+            nodes,
+            levelling,
+            spacing: winding::Spacing::Geometric,
+        },
+    )?;
     let s = out.pick(
         || report::stress_view::json(&c, &l, &w),
         || report::stress_view::text(&c, &l, &w, out.sys),

@@ -50,7 +50,8 @@ use super::noise::{
     caliper_repeatability, flattened_features, noise_floor, rests_on_web, Floor, Side,
 };
 pub use super::noise::{
-    noise_nodes, FeatureFloor, FAMILY_LEVEL, FLOOR_QUANTILE, NOISE_NODES, NOISE_ROLLS,
+    noise_nodes, noise_options, FeatureFloor, FAMILY_LEVEL, FLOOR_QUANTILE, NOISE_CORE_GROWTH,
+    NOISE_NODES, NOISE_ROLLS, STEP_FOLLOWS,
 };
 use super::profile_test::caliper_unevenness;
 pub use super::profile_test::BAND_DRAWS;

@@ -192,10 +192,7 @@ pub fn fitted(case: &Case, opt: &DiagnoseOptions) -> Result<Fitted, DiagnoseErro
     let wound = wind(
         &WindInput::new(&case.material, &case.roll, &case.winding),
         &lanes,
-        Options {
-            nodes: opt.nodes,
-            ..Options::default()
-        },
+        Options::with_nodes(opt.nodes),
     )?;
     let fit = fit_roll(case, &lanes, &wound, &AgeOptions::default())?;
     let creep = fit.lanes.iter().map(|l| l.creep).collect();

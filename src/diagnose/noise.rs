@@ -20,7 +20,7 @@ use crate::storage::{
     Prepared, RollStore,
 };
 use crate::vocab::Feature;
-use crate::winding::{coupling, wind_caliper, Caliper, Options, Secant, WindInput, Wound};
+use crate::winding::{coupling, wind_caliper, Caliper, Options, Secant, Spacing, WindInput, Wound};
 use rand::{Rng, SeedableRng};
 use rand_chacha::ChaCha8Rng;
 use serde::Serialize;
@@ -32,36 +32,61 @@ pub const NOISE_ROLLS: usize = 24;
 /// Quantile of the noise-only deviations that sets the floor.
 pub const FLOOR_QUANTILE: f64 = 0.95;
 
-/// Winding nodes of a noise roll (floors are differences between rolls at the same nodes), unless
-/// the nip needs more ([`noise_nodes`]). Chosen by the floors' convergence against noise rolls
-/// wound on 401 nodes (the same draws; the field cases and a 40-lane roll): at 81 nodes every
-/// deciding floor is within 4.5 % of it but on the nip-wound board (below); at 61 the
-/// end-of-storage surface pressure's floor came out 15-29 % short (DEVELOPERS.md, "Numerical
-/// practice").
+/// Grid nodes of a noise roll (floors are differences between rolls at the same nodes) at the
+/// least: the spacing its grid grows to from the core ([`noise_options`]), unless the roll is
+/// large enough for [`STEP_FOLLOWS`] to ask for more ([`noise_nodes`]). Chosen by the floors'
+/// convergence against noise rolls wound on 401 nodes (the same draws; the field cases and a
+/// 40-lane roll): at 61 the end-of-storage surface pressure's floor came out 15-29 % short
+/// (DEVELOPERS.md, "Numerical practice").
 pub const NOISE_NODES: usize = 81;
 
-/// Longest outermost grid step of a noise roll wound under a nip, in lengths over which the
-/// lanes' nip shares follow their contact ([`coupling::NIP_FOLLOW_M`]): within one the shares'
-/// lag is updated exactly, never damped ([`coupling::follow_nip`]); at 61 nodes the folding
-/// boxboard case's shares (1500 mm on a 152 mm core under 2 kN/m) chattered between the lanes
-/// (5.5 kN/m on one lane and 0.12 kN/m on another, against 1.6-2.1 kN/m each from 81 nodes up).
-/// It also gives that case the nodes its core-pressure and crush floors need, though not for
-/// the nip's sake: they converge slowly with the grid with or without a nip (against 401 nodes,
-/// 32 % short at 2 follow lengths per outermost step, 12 % at 1 (173 nodes), 6 % at 0.72; with
-/// the nip taken off, 51 % at 81 nodes, 20 % at 173, 10 % at 241), while every other deciding
-/// floor is within 5.4 % from 1 down. The nip-wound coated and newsprint cases need none of it
-/// (every floor within 4.5 % at 81 nodes); a rule aimed at what makes the board slow is open.
-pub const NIP_STEP_FOLLOWS: f64 = 1.0;
+/// Longest outermost grid step of a noise roll, in lengths over which the lanes' nip shares
+/// follow their contact ([`coupling::NIP_FOLLOW_M`]). The lanes' strain offsets and nip shares
+/// are updated once per grid step from the lanes' radii at its start, so a step that is long
+/// against that length lags them: the lane-pattern, surface-pressure and MD floors of the
+/// 1500 mm board (on a 152 mm core) converge with it, nip or none. Against noise rolls wound on
+/// 401 nodes, every deciding floor of the field cases, the 40-lane roll and the board without
+/// its nip is within 4.9 % at 1.25 (but the board's MD compression floor, 0.001 of the strength against a rule threshold
+/// of 1, whose minimum moves between nodes), where at 2 the board's centre-minus-edges floor was
+/// 21 % wide and its MD tension floor 8 % short; without its nip the board's surface-pressure
+/// floor was 12 % short at 81 nodes and 5 % at 1.25. Under 81 nodes the nip shares chattered
+/// between the lanes (the board at 61: 5.5 kN/m on one lane and 0.12 kN/m on another, against
+/// 1.6-2.1 kN/m each from 81 up).
+pub const STEP_FOLLOWS: f64 = 1.25;
 
-/// Winding nodes of `lab`'s noise rolls: [`NOISE_NODES`], or under a nip enough for the outermost
-/// grid step to be no longer than [`NIP_STEP_FOLLOWS`] follow lengths.
+/// Growth per step of a noise roll's grid steps in ln r, from the diagnosis's own steps at the
+/// core to the noise rolls' ([`noise_options`]). The core-pressure and crush floors converge
+/// slowly with the steps near the core (the lanes' coupling lags over a step comparable to the
+/// build there): on a geometric grid the board's were 12 % short at 173 nodes and, without its
+/// nip, 51 % at 81; graded at 1.05 they are within 1.4 % of those of noise rolls wound on 401
+/// nodes on every field case, the 40-lane roll and the board without its nip.
+pub const NOISE_CORE_GROWTH: f64 = 1.05;
+
+/// Winding options of `lab`'s noise rolls for a diagnosis at `nodes`: the spacing of
+/// [`noise_nodes`] nodes, refined towards the core ([`Spacing::Core`]) from the diagnosis's own
+/// spacing there, growing by [`NOISE_CORE_GROWTH`] per step; the diagnosis's own grid where that
+/// is no finer.
+pub fn noise_options(lab: &Case, nodes: usize) -> Options {
+    Options {
+        nodes: nodes.min(noise_nodes(lab)),
+        spacing: Spacing::Core {
+            core_nodes: nodes,
+            growth: NOISE_CORE_GROWTH,
+        },
+        ..Options::default()
+    }
+}
+
+/// Nodes of the geometric grid whose spacing `lab`'s noise rolls grow to ([`noise_options`]):
+/// [`NOISE_NODES`], or enough for the outermost grid step to be no longer than
+/// [`STEP_FOLLOWS`] follow lengths.
 pub fn noise_nodes(lab: &Case) -> usize {
     let (rc, big_r) = (0.5 * lab.roll.core_diameter_m, 0.5 * lab.roll.diameter_m);
-    if lab.winding.nip_n_per_m <= 0.0 || !(big_r > rc && rc > 0.0) {
+    if !(big_r > rc && rc > 0.0) {
         return NOISE_NODES;
     }
     // the geometric grid's outermost step is about R ln(R / rc) / (nodes - 1)
-    let steps = big_r * (big_r / rc).ln() / (NIP_STEP_FOLLOWS * coupling::NIP_FOLLOW_M);
+    let steps = big_r * (big_r / rc).ln() / (STEP_FOLLOWS * coupling::NIP_FOLLOW_M);
     NOISE_NODES.max(1 + steps.ceil().min(4096.0) as usize)
 }
 
@@ -297,23 +322,16 @@ struct Stored {
     map: HardnessMap,
 }
 
-/// A roll on `lanes` wound at `nodes` with its compressed caliper set as `caliper` says
+/// A roll on `lanes` wound on `opt`'s grid with its compressed caliper set as `caliper` says
 /// ([`wind_caliper`]) and its storage prepared; with the caliper its winding used.
 fn stored(
     lab: &Case,
     lanes: &Lanes,
-    nodes: usize,
+    opt: Options,
     caliper: Caliper,
 ) -> Result<(Stored, Secant), DiagnoseError> {
-    let (wound, found) = wind_caliper(
-        &WindInput::new(&lab.material, &lab.roll, &lab.winding),
-        lanes,
-        Options {
-            nodes,
-            ..Options::default()
-        },
-        caliper,
-    )?;
+    let input = WindInput::new(&lab.material, &lab.roll, &lab.winding);
+    let (wound, found) = wind_caliper(&input, lanes, opt, caliper)?;
     let (prep, map) = prepared(lab, lanes, &wound, &AgeOptions::default())?;
     Ok((Stored { wound, prep, map }, found))
 }
@@ -328,17 +346,17 @@ fn features_of(lab: &Case, lanes: &Lanes, creep: &[LaneCreep], s: Stored, aged: 
     features::compute(lab, lanes, &o)
 }
 
-/// A roll on `lanes` wound at `nodes` with its compressed caliper set as `caliper` says
+/// A roll on `lanes` wound on `opt`'s grid with its compressed caliper set as `caliper` says
 /// ([`wind_caliper`]) and run through storage with `creep` per lane: its features and the
 /// caliper its winding used.
 fn roll_features(
     lab: &Case,
     lanes: &Lanes,
     creep: &[LaneCreep],
-    nodes: usize,
+    opt: Options,
     caliper: Caliper,
 ) -> Result<(Features, Secant), DiagnoseError> {
-    let (s, found) = stored(lab, lanes, nodes, caliper)?;
+    let (s, found) = stored(lab, lanes, opt, caliper)?;
     let aged = age_prepared(&lab.material, &s.prep, &s.wound, Some(creep), &s.map)
         .map_err(FitError::from)?;
     Ok((features_of(lab, lanes, creep, s, aged), found))
@@ -391,7 +409,8 @@ pub(super) fn flattened_features(
         l0.mean_caliper_m = fitted.lanes.mean_caliper_m;
     }
     let start = (fitted.wound.secant).scaled(fitted.lanes.mean_caliper_m, l0.mean_caliper_m);
-    roll_features(case, &l0, &fitted.creep, nodes, Caliper::Fill(start)).map(|(f, _)| f)
+    let opt = Options::with_nodes(nodes);
+    roll_features(case, &l0, &fitted.creep, opt, Caliper::Fill(start)).map(|(f, _)| f)
 }
 
 /// Creep per lane of a noise-only roll: the pooled log-scales moved by one of the lane's own
@@ -417,7 +436,7 @@ fn noisy_creep(lab: &Case, fit: &crate::fit::RollFit, rng: &mut ChaCha8Rng) -> V
         .collect()
 }
 
-/// Features of [`NOISE_ROLLS`] noise-only uniform rolls at `nodes` (drawn in a fixed order from
+/// Features of [`NOISE_ROLLS`] noise-only uniform rolls wound on `opt`'s grid (drawn in a fixed order from
 /// `rng`, run in parallel, collected in order), with caliper noise `rep` (m). `clean`: the
 /// noise-free roll's mean caliper (m) and where its secant ended. Each noise roll is wound with
 /// the clean roll's compressed caliper scaled by its own mean caliper ([`Caliper::Given`]), which
@@ -429,7 +448,7 @@ fn noise_rolls(
     lab: &Case,
     fitted: &Fitted,
     rep: f64,
-    (nodes, clean): (usize, (f64, Secant)),
+    (opt, clean): (Options, (f64, Secant)),
     rng: &mut ChaCha8Rng,
 ) -> Result<Vec<Features>, DiagnoseError> {
     use rayon::prelude::*;
@@ -445,7 +464,7 @@ fn noise_rolls(
             // no clean secant to scale (never the case after a winding): fill the diameter
             let caliper = (clean.1.scaled(clean.0, l.mean_caliper_m))
                 .map_or(Caliper::Fill(None), Caliper::Given);
-            stored(lab, l, nodes, caliper).map(|(s, _)| s)
+            stored(lab, l, opt, caliper).map(|(s, _)| s)
         })
         .collect::<Result<_, _>>()?;
     let aged: Vec<Result<Aged, AgeError>> = (rolls.par_chunks(SIDE_BY_SIDE))
@@ -479,7 +498,7 @@ pub(super) fn rests_on_web(c: &crate::rules::Condition) -> bool {
 }
 
 /// Floors of the deciding features of `table`'s rules from [`NOISE_ROLLS`] noise-only uniform
-/// rolls (wound at no more than [`noise_nodes`] nodes, run in parallel, drawn in a fixed order),
+/// rolls (wound on the grid of [`noise_options`], run in parallel, drawn in a fixed order),
 /// the caliper band test, and the resolution note. The uniform value a finding is measured from
 /// is the noise-free roll at the diagnosis's own `nodes`; the noise deviations are measured from
 /// the noise-free roll at the noise rolls' nodes.
@@ -502,8 +521,9 @@ pub(super) fn noise_floor(
     let pooled = vec![pooled; fit.lanes.len()];
     // the noise-free roll's secant starts from the measured roll's (as a like roll's)
     let start = (fitted.wound.secant).scaled(fitted.lanes.mean_caliper_m, l0.mean_caliper_m);
-    let (uniform, _) = roll_features(lab, &l0, &pooled, nodes, Caliper::Fill(start))?;
-    let coarse = nodes.min(noise_nodes(lab));
+    let own = Options::with_nodes(nodes);
+    let (uniform, _) = roll_features(lab, &l0, &pooled, own, Caliper::Fill(start))?;
+    let coarse = noise_options(lab, nodes);
     let (clean, found) = roll_features(lab, &l0, &pooled, coarse, Caliper::Fill(start))?;
     let mut rng = ChaCha8Rng::seed_from_u64(posterior::seed_for(&lab.id, NOISE_SEED_LANE));
     let at = (coarse, (l0.mean_caliper_m, found));

@@ -18,7 +18,7 @@
 //! settles on the share that keeps the lanes in contact. The lag is updated once per grid step;
 //! on a step longer than the follow length the update is damped (`roll::accrete`), since an
 //! explicit update over several follow lengths chatters, and the noise rolls of a diagnosis are
-//! wound fine enough under a nip (`diagnose::noise::noise_nodes`).
+//! wound with steps of at most 1.25 follow lengths (`diagnose::noise::noise_nodes`).
 //!
 //! **Nip-induced tension.** Each lane's wound-in tension is its web tension plus mu q_i (Good, Wu
 //! and Fikes 1994, "The role of nip load in winding", in force per width: WIT = T_w + mu_k N, from

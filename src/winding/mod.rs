@@ -10,6 +10,7 @@ mod centrifugal;
 mod core;
 pub mod coupling;
 mod element;
+mod grid;
 pub mod hakiel;
 mod roll;
 mod secant;
@@ -21,6 +22,7 @@ mod wound;
 pub use self::core::{collapse_pressure, core_stiffness, of as core_of, ring_collapse_pressure};
 pub use cache::Cache;
 pub use centrifugal::{disk_stress, lift_off_speed};
+pub use grid::{graded_grid, grid, Spacing};
 pub use roll::{
     lane_model, wind, wind_caliper, wind_from, Caliper, LaneStress, LaneSummary, Options, Secant,
     WindError, WindInput, Wound, DEFAULT_LEVELLING, DEFAULT_NODES, SURFACE_ZONE_M,

@@ -21,6 +21,7 @@
 
 use super::centrifugal::lift_off_speed;
 use super::coupling;
+use super::grid::{graded_grid, grid, Spacing};
 use super::hakiel::{LaneModel, LaneState};
 use super::secant::compressed_caliper;
 pub use super::secant::Secant;
@@ -52,12 +53,35 @@ impl<'a> WindInput<'a> {
 /// Discretisation and coupling options.
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct Options {
-    /// Number of grid nodes (layer groups) per lane; the wound state adds the refined zone's
+    /// Number of grid nodes (layer groups) per lane on a geometric grid, or the grid whose
+    /// spacing a graded grid grows to ([`Spacing`]); the wound state adds the refined zone's
     /// sub-nodes under the surface ([`Wound::radius_m`]).
     pub nodes: usize,
     /// Uniform CD levelling fraction on top of the shear-lag levelling, 0..1 (0: shear lag only;
     /// 1: equal lane tensions).
     pub levelling: f64,
+    /// How the grid's radii are spaced.
+    pub spacing: Spacing,
+}
+
+impl Options {
+    /// The default options on a geometric grid of `nodes` nodes.
+    pub fn with_nodes(nodes: usize) -> Self {
+        Options {
+            nodes,
+            ..Options::default()
+        }
+    }
+
+    /// The grid's radii from the core radius `rc` to the roll's `big_r` (m).
+    pub fn grid(&self, rc: f64, big_r: f64) -> Vec<f64> {
+        match self.spacing {
+            Spacing::Core { core_nodes, growth } if core_nodes > self.nodes => {
+                graded_grid(rc, big_r, (self.nodes, core_nodes), growth)
+            }
+            _ => grid(rc, big_r, self.nodes),
+        }
+    }
 }
 
 impl Default for Options {
@@ -65,6 +89,7 @@ impl Default for Options {
         Options {
             nodes: DEFAULT_NODES,
             levelling: DEFAULT_LEVELLING,
+            spacing: Spacing::Geometric,
         }
     }
 }
@@ -167,24 +192,6 @@ pub fn lane_model(input: &WindInput) -> LaneModel {
     }
 }
 
-/// The radial grid: `nodes` radii from `rc` to `big_r` (m) in geometric progression, so that
-/// every interval spans the same fraction of its radius. The accretion equation is invariant
-/// under scaling of r, so this spreads the discretisation error evenly; near the core, where a
-/// uniform grid is coarsest relative to r / g, the nodes are closest.
-pub fn grid(rc: f64, big_r: f64, nodes: usize) -> Vec<f64> {
-    let last = (nodes - 1) as f64;
-    let ratio = (big_r / rc).ln();
-    (0..nodes)
-        .map(|j| {
-            if j + 1 == nodes {
-                big_r
-            } else {
-                rc * (ratio * j as f64 / last).exp()
-            }
-        })
-        .collect()
-}
-
 /// What a roll's build is measured against: the lane model, core and roll radii (m), the lanes'
 /// widths (m) and their sum, and the lanes' calipers (m).
 pub(super) struct Build {
@@ -214,6 +221,8 @@ impl Build {
 /// and outer radius (m) at the last contact update.
 pub(super) struct Accreted {
     pub states: Vec<LaneState>,
+    /// Nodes of the grid wound on.
+    pub grid_nodes: usize,
     pub per_node: f64,
     pub nip_n_per_m: Vec<f64>,
     pub radii_m: Vec<f64>,
@@ -235,21 +244,21 @@ fn couple(input: &WindInput, lanes: &Lanes, radii: &[f64], levelling: f64) -> (V
     (offs, coupling::nip_shares(nip, radii, &widths, k_nip))
 }
 
-/// Accrete all lanes on a grid of `nodes` nodes. A grid step's sub-steps are the same for every
+/// Accrete all lanes on the grid `opt` gives. A grid step's sub-steps are the same for every
 /// lane: they are planned once per step ([`LaneState::plan`]).
 pub(super) fn accrete(
     input: &WindInput,
     lanes: &Lanes,
-    nodes: usize,
-    levelling: f64,
+    opt: Options,
     c_eff: f64,
 ) -> Result<Accreted, WindError> {
     let mat = &input.material;
     let model = lane_model(input);
     let rc = 0.5 * input.roll.core_diameter_m;
     let big_r = 0.5 * input.roll.diameter_m;
+    let (grid, levelling) = (opt.grid(rc, big_r), opt.levelling);
+    let nodes = grid.len();
     let per_node = (big_r - rc) / (nodes as f64 - 1.0) / c_eff;
-    let grid = grid(rc, big_r, nodes);
     let n = lanes.lanes.len();
     let widths = lanes.widths();
     let cal = lanes.calipers();
@@ -309,6 +318,7 @@ pub(super) fn accrete(
     }
     Ok(Accreted {
         states,
+        grid_nodes: nodes,
         per_node,
         nip_n_per_m: nip_q,
         radii_m: radii,
@@ -368,6 +378,13 @@ pub fn wind_caliper(
     }
     if !(0.0..=1.0).contains(&opt.levelling) {
         return Err(WindError::Options("levelling must be within 0..1".into()));
+    }
+    if let Spacing::Core { growth, .. } = opt.spacing {
+        if !(growth > 1.0 && growth.is_finite()) {
+            return Err(WindError::Options(format!(
+                "a graded grid's growth per step must be above 1 and finite, not {growth}"
+            )));
+        }
     }
     if let Some(one) = super::uniform::one_lane(lanes) {
         let (w, found) = wind_caliper(input, &one, opt, caliper)?;
@@ -435,13 +452,13 @@ fn wound_at(
     } = Build::of(input, lanes);
     let c_eff = found.caliper_m;
     let layers = (big_r - rc) / c_eff;
-    let nodes = opt.nodes;
     let Accreted {
         states,
+        grid_nodes,
         per_node,
         nip_n_per_m,
         radii_m,
-    } = kept.map_or_else(|| accrete(input, lanes, nodes, opt.levelling, c_eff), Ok)?;
+    } = kept.map_or_else(|| accrete(input, lanes, opt, c_eff), Ok)?;
     // every lane has the same output radii: the refinement, the sub-steps' plan and the
     // coarsening depend on the shared model and grid only
     let grid = states.first().map(|s| s.r.clone()).unwrap_or_default();
@@ -479,7 +496,7 @@ fn wound_at(
         lanes: out,
         layers,
         layers_per_node: per_node,
-        grid_nodes: nodes,
+        grid_nodes,
         stack_compression: 1.0 - c_eff / lanes.mean_caliper_m,
         layer_thickness_m: c_eff,
         lift_off_speed_m_s: lift_off_speed(mean_sigma, rho),

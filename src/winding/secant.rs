@@ -2,6 +2,7 @@
 //! pressure, at which the lanes' compressed build fills the stated diameter. A secant on its
 //! logarithm, each miss one accretion of every lane on a coarse grid ([`super::roll`]).
 
+use super::grid::Spacing;
 use super::roll::{accrete, Accreted, Build, Options, WindError, WindInput};
 use crate::lanes::Lanes;
 
@@ -11,8 +12,9 @@ use crate::lanes::Lanes;
 /// smooth integral of the strain; its discretisation error there is far below the 1 % of the
 /// stresses), to [`CALIPER_TOL`].
 ///
-/// On a wanted grid no finer than the coarse one, the answer's accretion is the wound state
-/// itself and is handed back, so it is not wound a second time. The iteration starts from
+/// Where the wanted grid's `nodes` are no more than the coarse grid's, the secant runs on the
+/// wanted grid itself (graded or not), and the answer's accretion is the wound state, handed
+/// back so that it is not wound a second time. The iteration starts from
 /// `start` (its caliper and slope), else from the mean caliper with slope -1. Where the miss is
 /// rough (a step no longer halves the smallest miss so far, [`STALL`]), the answer is the best
 /// iterate.
@@ -22,7 +24,16 @@ pub(super) fn compressed_caliper(
     opt: Options,
     start: Option<Secant>,
 ) -> Result<(Secant, Option<Accreted>), WindError> {
-    let coarse = COARSE_NODES.min(opt.nodes);
+    // the wanted grid where it is no finer than the coarse one, else the coarse geometric grid
+    let coarse = if opt.nodes <= COARSE_NODES {
+        opt
+    } else {
+        Options {
+            nodes: COARSE_NODES,
+            spacing: Spacing::Geometric,
+            ..opt
+        }
+    };
     // the miss at ln c_eff = x, and the accretion when it is the wound state itself
     let miss = |x: f64| build_miss(input, lanes, opt, coarse, x);
     // a step that lands where the layers are compressed to nothing is halved back towards the
@@ -87,12 +98,12 @@ fn build_miss(
     input: &WindInput,
     lanes: &Lanes,
     opt: Options,
-    coarse: usize,
+    coarse: Options,
     x: f64,
 ) -> Result<(f64, Option<Accreted>), WindError> {
     let b = Build::of(input, lanes);
     let c_eff = x.exp();
-    let acc = accrete(input, lanes, coarse, opt.levelling, c_eff)?;
+    let acc = accrete(input, lanes, coarse, c_eff)?;
     let radius =
         |(s, c): (&super::hakiel::LaneState, &f64)| s.outer_radius(&b.model, 1.0 / c_eff, *c);
     let built = (acc.states.iter().zip(&b.cal))
@@ -106,8 +117,8 @@ fn build_miss(
             lane: (acc.states.iter().zip(&b.cal))
                 .position(|sc| !radius(sc).is_finite())
                 .unwrap_or(0),
-            step: coarse - 1,
-            nodes: coarse,
+            step: acc.grid_nodes - 1,
+            nodes: acc.grid_nodes,
         });
     }
     if built <= b.rc {
@@ -115,7 +126,7 @@ fn build_miss(
         return Err(WindError::Stack { caliper_m: c_eff });
     }
     let h = ((built - b.rc) / (b.big_r - b.rc)).ln();
-    Ok((h, (coarse == opt.nodes).then_some(acc)))
+    Ok((h, (coarse == opt).then_some(acc)))
 }
 
 /// Where the secant for the compressed caliper ended (or is to start): the compressed caliper
