@@ -23,7 +23,8 @@ fn demo() -> String {
 
 /// Write a case variant to a temp file and return its path.
 fn variant(name: &str, text: &str) -> PathBuf {
-    let dir = std::env::temp_dir().join(format!("rollsleuth-bad-{}", std::process::id()));
+    let dir = std::path::Path::new(env!("CARGO_TARGET_TMPDIR"))
+        .join(format!("rollsleuth-bad-{}", std::process::id()));
     std::fs::create_dir_all(&dir).unwrap();
     let p = dir.join(name);
     std::fs::write(&p, text).unwrap();
@@ -200,7 +201,8 @@ fn unreadable_csv_is_reported_with_its_path() {
 
 #[test]
 fn a_good_csv_profile_loads() {
-    let dir = std::env::temp_dir().join(format!("rollsleuth-csv-{}", std::process::id()));
+    let dir = std::path::Path::new(env!("CARGO_TARGET_TMPDIR"))
+        .join(format!("rollsleuth-csv-{}", std::process::id()));
     std::fs::create_dir_all(&dir).unwrap();
     std::fs::write(
         dir.join("cal.csv"),

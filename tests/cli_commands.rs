@@ -36,7 +36,8 @@ fn every_field_case_passes_check_lanes_and_stress() {
 fn template_is_a_valid_case() {
     let (code, out, _) = run(&["template"]);
     assert_eq!(code, 0);
-    let p = std::env::temp_dir().join(format!("rollsleuth-template-{}.yaml", std::process::id()));
+    let p = std::path::Path::new(env!("CARGO_TARGET_TMPDIR"))
+        .join(format!("rollsleuth-template-{}.yaml", std::process::id()));
     std::fs::write(&p, out).unwrap();
     let (code, _, err) = run(&["check", p.to_str().unwrap()]);
     assert_eq!(code, 0, "{err}");
@@ -121,7 +122,8 @@ fn same_input_gives_the_same_bytes() {
 
 #[test]
 fn diagnose_writes_a_whole_report_and_advises_safely() {
-    let dir = std::env::temp_dir().join(format!("rollsleuth-report-{}", std::process::id()));
+    let dir = std::path::Path::new(env!("CARGO_TARGET_TMPDIR"))
+        .join(format!("rollsleuth-report-{}", std::process::id()));
     let (code, out, err) = run(&["diagnose", "--out", dir.to_str().unwrap()]);
     assert_eq!(code, 1, "{err}");
     assert!(out.contains("Safety:"));

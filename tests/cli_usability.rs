@@ -24,7 +24,8 @@ fn run(c: &mut Command) -> (i32, String, String) {
 }
 
 fn tmp(name: &str) -> PathBuf {
-    let d = std::env::temp_dir().join(format!("rollsleuth-i16-{}-{name}", std::process::id()));
+    let d = std::path::Path::new(env!("CARGO_TARGET_TMPDIR"))
+        .join(format!("rollsleuth-i16-{}-{name}", std::process::id()));
     let _ = std::fs::remove_dir_all(&d);
     std::fs::create_dir_all(&d).unwrap();
     d

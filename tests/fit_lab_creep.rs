@@ -54,7 +54,8 @@ fn lab_creep_curves_set_the_grade_md_creep() {
 fn lab_creep_in_a_case_file_is_read_and_checked() {
     let demo = std::fs::read_to_string("field_cases/nordvik_pm3_caliper_band.yaml").unwrap();
     let block = "lab_creep:\n  - { direction: md, stress: \"8 MPa\", time_unit: h, times: [0.1, 1, 10, 100], strains: [0.00150, 0.00165, 0.00190, 0.00215] }\n";
-    let dir = std::env::temp_dir().join(format!("rollsleuth-lab-{}", std::process::id()));
+    let dir = std::path::Path::new(env!("CARGO_TARGET_TMPDIR"))
+        .join(format!("rollsleuth-lab-{}", std::process::id()));
     std::fs::create_dir_all(&dir).unwrap();
     let good = dir.join("lab.yaml");
     std::fs::write(&good, format!("{demo}{block}")).unwrap();

@@ -69,7 +69,8 @@ fn chromium_renders_every_field_case_report() {
         eprintln!("NOT RUN: chromium is not installed here (apt-get install -y chromium); CI runs this check");
         return;
     };
-    let root = std::env::temp_dir().join(format!("rollsleuth-browser-{}", std::process::id()));
+    let root = std::path::Path::new(env!("CARGO_TARGET_TMPDIR"))
+        .join(format!("rollsleuth-browser-{}", std::process::id()));
     let _ = std::fs::remove_dir_all(&root);
     for case in FIELD_CASES {
         let dir = root.join(Path::new(case).file_stem().unwrap());

@@ -13,7 +13,8 @@ const FIELD_CASES: [&str; 3] = [
 ];
 
 fn out_dir(tag: &str) -> PathBuf {
-    let d = std::env::temp_dir().join(format!("rollsleuth-{tag}-{}", std::process::id()));
+    let d = std::path::Path::new(env!("CARGO_TARGET_TMPDIR"))
+        .join(format!("rollsleuth-{tag}-{}", std::process::id()));
     let _ = std::fs::remove_dir_all(&d);
     d
 }

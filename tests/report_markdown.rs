@@ -10,7 +10,8 @@ const GOLDEN: &str = "tests/data/golden/kestrel_report.md";
 
 #[test]
 fn markdown_report_of_the_kestrel_case_matches_the_golden_file() {
-    let dir = std::env::temp_dir().join(format!("rollsleuth-golden-{}", std::process::id()));
+    let dir = std::path::Path::new(env!("CARGO_TARGET_TMPDIR"))
+        .join(format!("rollsleuth-golden-{}", std::process::id()));
     let _ = std::fs::remove_dir_all(&dir);
     let o = Command::new(env!("CARGO_BIN_EXE_rollsleuth"))
         .args([

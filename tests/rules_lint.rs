@@ -3,7 +3,8 @@
 use std::process::Command;
 
 fn lint(name: &str, text: &str) -> (i32, String, String) {
-    let dir = std::env::temp_dir().join(format!("rollsleuth-lint-{}", std::process::id()));
+    let dir = std::path::Path::new(env!("CARGO_TARGET_TMPDIR"))
+        .join(format!("rollsleuth-lint-{}", std::process::id()));
     std::fs::create_dir_all(&dir).unwrap();
     let p = dir.join(name);
     std::fs::write(&p, text).unwrap();
