@@ -1,13 +1,15 @@
 //! The grid the noise rolls of a diagnosis are wound on (`diagnose::confidence::noise_options`)
-//! against the fine geometric grid: a noise floor is the difference between a roll wound with
-//! noisy lane calipers and the uniform roll on the same grid, so what has to converge is that
-//! difference. Checked on the folding boxboard field case (1500 mm on a 152 mm core) wound
-//! without its nip, where a plain geometric grid of the noise rolls' size is far off near the
-//! core. The reference is the same model on the 401-node grid every command uses, which is
-//! within 1 % of the converged radial stress (tests/winding_checks.rs); a discretisation is
-//! judged by its error against a refined solution of the same equations (grid convergence, as in
-//! Roache 1998, "Verification and Validation in Computational Science and Engineering", from
-//! memory).
+//! against the diagnosed roll's own grid: a noise floor is the difference between a roll wound
+//! with noisy lane calipers and the uniform roll on the same grid, and a finding's deviation is
+//! measured on the diagnosed roll's grid (401 nodes), so the noise rolls' grid has to give the
+//! difference that grid gives. Checked on the folding boxboard field case (1500 mm on a 152 mm
+//! core) wound without its nip, where a geometric grid of the noise rolls' size is far off near
+//! the core. A discretisation is judged by its error against a refined solution of the same
+//! equations (grid convergence, as in Roache 1998, "Verification and Validation in
+//! Computational Science and Engineering", from memory). The 401-node grid is not itself
+//! converged for this difference: the core pressure's response converges at first order with
+//! the grid (against 3201 nodes, 11 % off at 401, 4.8 % at 801, 1.6 % at 1601; DEVELOPERS.md,
+//! "Numerical practice"), where the radial stress itself is within 1 % at 401.
 
 use rollsleuth::case::{self, Case};
 use rollsleuth::diagnose::confidence::{noise_nodes, noise_options};
@@ -38,20 +40,17 @@ fn lanes_with(c: &Case, dev: Option<&dyn Fn(usize) -> f64>) -> Lanes {
     l
 }
 
-/// Per lane: core pressure and peak pressure (Pa) of the noisy roll less the uniform roll's,
-/// both wound with `opt`.
-fn response(c: &Case, opt: Options) -> (Vec<f64>, Vec<f64>) {
+/// Per lane: core pressure (Pa) of the noisy roll less the uniform roll's, both wound with
+/// `opt` (on this roll the peak pressure is at the core).
+fn response(c: &Case, opt: Options) -> Vec<f64> {
     let input = WindInput::new(&c.material, &c.roll, &c.winding);
     // a fixed pattern of caliper noise of about the field case's repeatability (1 % of caliper)
     let dev = |i: usize| 0.01 * (2.7 * i as f64).sin();
     let noisy: Wound = wind(&input, &lanes_with(c, Some(&dev)), opt).expect("winds");
     let flat: Wound = wind(&input, &lanes_with(c, None), opt).expect("winds");
-    let diff = |f: &dyn Fn(&rollsleuth::winding::LaneSummary) -> f64| -> Vec<f64> {
-        (noisy.lanes.iter().zip(&flat.lanes))
-            .map(|(a, b)| f(&a.summary) - f(&b.summary))
-            .collect()
-    };
-    (diff(&|s| s.core_pressure_pa), diff(&|s| s.peak_pressure_pa))
+    (noisy.lanes.iter().zip(&flat.lanes))
+        .map(|(a, b)| a.summary.core_pressure_pa - b.summary.core_pressure_pa)
+        .collect()
 }
 
 /// Largest difference between two responses over the lanes, relative to the reference's largest.
@@ -66,25 +65,32 @@ fn worst(got: &[f64], reference: &[f64]) -> f64 {
 #[test]
 fn the_noise_grid_resolves_the_core_pressure_response_of_a_board_wound_without_a_nip() {
     let c = board_without_nip();
+    let (rc, big_r) = (0.5 * c.roll.core_diameter_m, 0.5 * c.roll.diameter_m);
     let reference = response(&c, Options::with_nodes(DEFAULT_NODES));
     let opt = noise_options(&c, DEFAULT_NODES);
-    let graded = response(&c, opt);
-    // the plain geometric grid the graded one grows to, for contrast
-    let plain = response(&c, Options::with_nodes(noise_nodes(&c)));
-    let (core_g, peak_g) = (
-        worst(&graded.0, &reference.0),
-        worst(&graded.1, &reference.1),
+    let graded_nodes = opt.grid(rc, big_r).len();
+    let graded = worst(&response(&c, opt), &reference);
+    // for contrast: the geometric grids of the graded one's outer spacing and of its node count
+    let plain = worst(
+        &response(&c, Options::with_nodes(noise_nodes(&c))),
+        &reference,
     );
-    let (core_p, peak_p) = (worst(&plain.0, &reference.0), worst(&plain.1, &reference.1));
+    let same = worst(&response(&c, Options::with_nodes(graded_nodes)), &reference);
     eprintln!(
-        "core pressure response off by {:.1} % graded, {:.1} % plain; peak {:.1} % / {:.1} %",
-        100.0 * core_g,
-        100.0 * core_p,
-        100.0 * peak_g,
-        100.0 * peak_p
+        "core pressure response against 401 nodes: graded ({graded_nodes} nodes) {:.1} %, \
+         geometric of its outer spacing {:.1} %, geometric of its node count {:.1} %",
+        100.0 * graded,
+        100.0 * plain,
+        100.0 * same
     );
-    assert!(core_g < 0.05, "graded grid: core response off by {core_g}");
-    assert!(peak_g < 0.05, "graded grid: peak response off by {peak_g}");
-    // the check discriminates: the plain grid of the same outer spacing is well off
-    assert!(core_p > 2.0 * core_g.max(0.01), "plain grid: {core_p}");
+    assert!(graded < 0.05, "graded grid: core response off by {graded}");
+    // the check discriminates, and it is the grading, not the node count, that does it
+    assert!(
+        plain > 4.0 * graded.max(0.01),
+        "geometric, outer spacing: {plain}"
+    );
+    assert!(
+        same > 4.0 * graded.max(0.01),
+        "geometric, as many nodes: {same}"
+    );
 }

@@ -34,24 +34,22 @@ pub const FLOOR_QUANTILE: f64 = 0.95;
 
 /// Grid nodes of a noise roll (floors are differences between rolls at the same nodes) at the
 /// least: the spacing its grid grows to from the core ([`noise_options`]), unless the roll is
-/// large enough for [`STEP_FOLLOWS`] to ask for more ([`noise_nodes`]). Chosen by the floors'
-/// convergence against noise rolls wound on 401 nodes (the same draws; the field cases and a
-/// 40-lane roll): at 61 the end-of-storage surface pressure's floor came out 15-29 % short
-/// (DEVELOPERS.md, "Numerical practice").
+/// large enough for [`STEP_FOLLOWS`] to ask for more ([`noise_nodes`]). Under 81 the lanes' nip
+/// shares chattered ([`STEP_FOLLOWS`]).
 pub const NOISE_NODES: usize = 81;
 
-/// Longest outermost grid step of a noise roll, in lengths over which the lanes' nip shares
-/// follow their contact ([`coupling::NIP_FOLLOW_M`]). The lanes' strain offsets and nip shares
-/// are updated once per grid step from the lanes' radii at its start, so a step that is long
-/// against that length lags them: the lane-pattern, surface-pressure and MD floors of the
-/// 1500 mm board (on a 152 mm core) converge with it, nip or none. Against noise rolls wound on
-/// 401 nodes, every deciding floor of the field cases, the 40-lane roll and the board without
-/// its nip is within 4.9 % at 1.25 (but the board's MD compression floor, 0.001 of the strength against a rule threshold
-/// of 1, whose minimum moves between nodes), where at 2 the board's centre-minus-edges floor was
-/// 21 % wide and its MD tension floor 8 % short; without its nip the board's surface-pressure
-/// floor was 12 % short at 81 nodes and 5 % at 1.25. Under 81 nodes the nip shares chattered
-/// between the lanes (the board at 61: 5.5 kN/m on one lane and 0.12 kN/m on another, against
-/// 1.6-2.1 kN/m each from 81 up).
+/// Longest outermost grid step of a noise roll, in lengths over which the lanes' nip shares follow
+/// their contact ([`coupling::NIP_FOLLOW_M`]). The lanes' strain offsets and nip shares are updated
+/// once per grid step from the lanes' radii at its start, so a step that is long against that
+/// length lags them: the lane-pattern, surface-pressure and MD floors of the 1500 mm board (on a
+/// 152 mm core) converge with it, nip or none. Against noise rolls wound on 401 nodes, every
+/// deciding floor of the field cases, the 40-lane roll and the board without its nip is within
+/// 4.9 % at 1.25 (but the board's MD compression floor, 0.001 of the strength against a rule
+/// threshold of 1, whose minimum moves between nodes), where at 2 the board's centre-minus-edges
+/// floor was 21 % wide and its MD tension floor 8 % short; without its nip the board's
+/// surface-pressure floor was 12 % short at 81 nodes and 5 % at 1.25. Under 81 nodes the nip shares
+/// chattered between the lanes (the board at 61: 5.5 kN/m on one lane and 0.12 kN/m on another,
+/// against 1.6-2.1 kN/m each from 81 up).
 pub const STEP_FOLLOWS: f64 = 1.25;
 
 /// Growth per step of a noise roll's grid steps in ln r, from the diagnosis's own steps at the
@@ -436,14 +434,14 @@ fn noisy_creep(lab: &Case, fit: &crate::fit::RollFit, rng: &mut ChaCha8Rng) -> V
         .collect()
 }
 
-/// Features of [`NOISE_ROLLS`] noise-only uniform rolls wound on `opt`'s grid (drawn in a fixed order from
-/// `rng`, run in parallel, collected in order), with caliper noise `rep` (m). `clean`: the
-/// noise-free roll's mean caliper (m) and where its secant ended. Each noise roll is wound with
+/// Features of [`NOISE_ROLLS`] noise-only uniform rolls wound on `opt`'s grid (drawn in a fixed
+/// order from `rng`, run in parallel, collected in order), with caliper noise `rep` (m). `clean`:
+/// the noise-free roll's mean caliper (m) and where its secant ended. Each noise roll is wound with
 /// the clean roll's compressed caliper scaled by its own mean caliper ([`Caliper::Given`]), which
-/// fills the stated diameter to first order: its build ends within about 0.5 % of the wound
-/// depth of it. That shifts every lane alike; the roll-level features (core and peak pressure,
-/// strength ratios) move with it, by under about 1 % of their floors, far inside the floors'
-/// sampling error over 24 rolls. One winding each, where filling the diameter took two.
+/// fills the stated diameter to first order: its build ends within about 0.5 % of the wound depth
+/// of it. That shifts every lane alike; the roll-level features (core and peak pressure, strength
+/// ratios) move with it, by under about 1 % of their floors, far inside the floors' sampling error
+/// over 24 rolls. One winding each, where filling the diameter took two.
 fn noise_rolls(
     lab: &Case,
     fitted: &Fitted,

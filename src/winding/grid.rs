@@ -9,7 +9,7 @@ pub enum Spacing {
     Geometric,
     /// Refined towards the core ([`graded_grid`]): the steps in ln r start at those of a
     /// geometric grid of `core_nodes` nodes and grow by `growth` per step to those of `nodes`
-    /// nodes, which hold beyond. The grid has more nodes than `nodes`, at most `core_nodes`.
+    /// nodes, which hold beyond. The grid has at least `nodes` nodes and at most `core_nodes`.
     Core { core_nodes: usize, growth: f64 },
 }
 
@@ -33,26 +33,31 @@ pub fn grid(rc: f64, big_r: f64, nodes: usize) -> Vec<f64> {
 
 /// A grid from `rc` to `big_r` (m) refined towards the core: steps in ln r start at those of a
 /// geometric grid of `core` nodes and grow by `growth` per step while shorter than those of
-/// `nodes` nodes; the rest of the way is split into steps of about that length. `core > nodes
-/// >= 2`, `growth > 1`.
+/// `nodes` nodes; the rest of the way is split into equal steps no longer than that. It has at
+/// least `nodes` nodes and at most `core` (`core > nodes >= 2`); with `growth` not above 1 (or
+/// `core <= nodes`) it is the geometric grid of `nodes` nodes.
 ///
 /// Why: the lanes' offsets and nip shares are updated once per grid step from the radii at its
 /// start. Near the core a coarse step is comparable to the build there, and the pressures the
 /// core carries converge only at first order with it (DEVELOPERS.md, "Numerical practice");
 /// grading keeps the core's steps those of the fine grid at a fraction of its nodes.
 pub fn graded_grid(rc: f64, big_r: f64, (nodes, core): (usize, usize), growth: f64) -> Vec<f64> {
+    if growth.is_nan() || growth <= 1.0 || core <= nodes || nodes < 2 {
+        return grid(rc, big_r, nodes.max(2));
+    }
     let ln = (big_r / rc).ln();
     let coarse = ln / (nodes - 1) as f64;
     let mut step = ln / (core - 1) as f64;
     let mut at = vec![0.0];
     let mut s = 0.0;
-    // the ramp leaves room for at least one step of the coarse length
-    while step < coarse && s + step + coarse <= ln {
+    // the ramp leaves room for at least one step of the coarse length; every ramp step is at
+    // least the first, so it has fewer than `core` of them
+    while step < coarse && s + step + coarse <= ln && at.len() < core {
         s += step;
         at.push(s);
         step *= growth;
     }
-    let rest = ((ln - s) / coarse).round().max(1.0);
+    let rest = ((ln - s) / coarse * (1.0 - 1e-12)).ceil().max(1.0);
     let n = rest as usize;
     at.extend((1..n).map(|j| s + (ln - s) * j as f64 / rest));
     let mut r: Vec<f64> = at.iter().map(|x| rc * x.exp()).collect();
@@ -101,6 +106,36 @@ mod tests {
         // 1/80 of ln(R / rc) by 1.05 takes ln 5 / ln 1.05 = 33 steps over a fifth of ln(R / rc),
         // the rest 64 coarse steps
         assert!((95..=100).contains(&r.len()), "{} nodes", r.len());
+    }
+
+    #[test]
+    fn a_graded_grid_keeps_its_node_bounds_and_its_steps_under_the_coarse_step() {
+        let (rc, big_r): (f64, f64) = (0.0508, 0.508);
+        for nodes in (5..130).step_by(3) {
+            let coarse = (big_r / rc).ln() / (nodes - 1) as f64;
+            for core in [nodes + 1, nodes + 2, nodes + 7, 2 * nodes, 401, 4000] {
+                for growth in [1.001, 1.05, 1.5] {
+                    let r = graded_grid(rc, big_r, (nodes, core), growth);
+                    let d = steps(&r);
+                    assert!(d.iter().all(|x| *x > 0.0));
+                    assert!(
+                        r.len() >= nodes && r.len() <= core,
+                        "{nodes} {core}: {}",
+                        r.len()
+                    );
+                    let most = d.iter().fold(0.0_f64, |m, x| m.max(*x));
+                    assert!(most <= coarse * (1.0 + 1e-9), "{nodes} {core} {growth}");
+                }
+            }
+        }
+        // growth not above 1, and a core grid no finer: the geometric grid
+        for growth in [1.0, 0.5, 0.0, f64::NAN] {
+            assert_eq!(
+                graded_grid(rc, big_r, (81, 401), growth),
+                grid(rc, big_r, 81)
+            );
+        }
+        assert_eq!(graded_grid(rc, big_r, (81, 81), 1.05), grid(rc, big_r, 81));
     }
 
     #[test]

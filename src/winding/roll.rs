@@ -106,6 +106,10 @@ pub const DEFAULT_NODES: usize = 401;
 /// narrow lanes level against wide bands, and this fraction the levelling of both.
 pub const DEFAULT_LEVELLING: f64 = 0.5;
 
+/// Most nodes of the geometric grid whose spacing a graded grid starts from at the core
+/// ([`Spacing::Core`]): 64 times the default resolution.
+pub const MAX_CORE_NODES: usize = 64 * DEFAULT_NODES;
+
 /// The winding model failed.
 #[derive(Debug, Clone, PartialEq, thiserror::Error)]
 pub enum WindError {
@@ -379,10 +383,11 @@ pub fn wind_caliper(
     if !(0.0..=1.0).contains(&opt.levelling) {
         return Err(WindError::Options("levelling must be within 0..1".into()));
     }
-    if let Spacing::Core { growth, .. } = opt.spacing {
-        if !(growth > 1.0 && growth.is_finite()) {
+    if let Spacing::Core { growth, core_nodes } = opt.spacing {
+        if !(growth > 1.0 && growth.is_finite()) || core_nodes > MAX_CORE_NODES {
             return Err(WindError::Options(format!(
-                "a graded grid's growth per step must be above 1 and finite, not {growth}"
+                "a graded grid needs a growth per step above 1 and finite (not {growth}) and at \
+                 most {MAX_CORE_NODES} core nodes (not {core_nodes})"
             )));
         }
     }

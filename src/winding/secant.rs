@@ -1,6 +1,7 @@
 //! The compressed caliper of a roll: the mean layer thickness, compressed by the wound-in
 //! pressure, at which the lanes' compressed build fills the stated diameter. A secant on its
-//! logarithm, each miss one accretion of every lane on a coarse grid ([`super::roll`]).
+//! logarithm, each miss one accretion of every lane on a coarse grid, or on the wanted grid where
+//! that has no more nodes ([`super::roll`]).
 
 use super::grid::Spacing;
 use super::roll::{accrete, Accreted, Build, Options, WindError, WindInput};

@@ -54,7 +54,7 @@ pub struct LaneStress {
 /// Wound-in state of the roll.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct Wound {
-    /// Shared nominal radii of the output nodes, m: the grid's nodes (`Options::nodes`), and
+    /// Shared nominal radii of the output nodes, m: the grid's nodes ([`Self::grid_nodes`]), and
     /// in the outer grid steps, the sub-nodes of the accretion's refined zone
     /// ([`super::hakiel::LaneState::finish`]), so the outer wraps are resolved on any grid.
     pub radius_m: Vec<f64>,
@@ -63,8 +63,8 @@ pub struct Wound {
     pub layers: f64,
     /// Mean layers per grid step (the output nodes are denser in the outer grid steps).
     pub layers_per_node: f64,
-    /// Nodes of the grid the roll was wound on (`Options::nodes`); [`Self::radius_m`] has these
-    /// and the refined zone's sub-nodes.
+    /// Nodes of the grid the roll was wound on (`Options::nodes` on a geometric grid, at least
+    /// that on a graded one); [`Self::radius_m`] has these and the refined zone's sub-nodes.
     pub grid_nodes: usize,
     /// Compressed mean layer thickness, m: tangential stresses are wound-in tension over this.
     pub layer_thickness_m: f64,
