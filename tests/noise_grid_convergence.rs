@@ -6,10 +6,9 @@
 //! core) wound without its nip, where a geometric grid of the noise rolls' size is far off near
 //! the core. A discretisation is judged by its error against a refined solution of the same
 //! equations (grid convergence, as in Roache 1998, "Verification and Validation in
-//! Computational Science and Engineering", from memory). The 401-node grid is not itself
-//! converged for this difference: the core pressure's response converges at first order with
-//! the grid (against 3201 nodes, 11 % off at 401, 4.8 % at 801, 1.6 % at 1601; DEVELOPERS.md,
-//! "Numerical practice"), where the radial stress itself is within 1 % at 401.
+//! Computational Science and Engineering", from memory). The 401-node grid is itself within
+//! about 3 % of the converged difference (against 3201 nodes, 3.1 % at 401, 0.55 % at 801;
+//! DEVELOPERS.md, "Numerical practice"), where the radial stress is within 1 % at 401.
 
 use rollsleuth::case::{self, Case};
 use rollsleuth::diagnose::confidence::{noise_nodes, noise_options};

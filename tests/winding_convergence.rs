@@ -9,8 +9,8 @@
 //! Measured with this test's comparison (max over radii of |sigma_r - sigma_r,ref| / |sigma_r,ref|,
 //! reference 4 times finer): 1.12 % at 201 nodes, 0.30 % at 401, an observed order of 1.9
 //! (second order in the node spacing). Field cases at 401 nodes against 1601: Harrowgate
-//! 0.57 %, Kestrel 0.18 %, Nordvik 0.15 % (the lane coupling is first order: DEVELOPERS.md,
-//! "Numerical practice").
+//! 0.72 %, Kestrel 0.18 %, Nordvik 0.25 % (Harrowgate converges at about order 1.65:
+//! DEVELOPERS.md, "Numerical practice").
 
 use rollsleuth::case;
 use rollsleuth::lanes;

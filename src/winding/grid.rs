@@ -37,10 +37,11 @@ pub fn grid(rc: f64, big_r: f64, nodes: usize) -> Vec<f64> {
 /// least `nodes` nodes and at most `core` (`core > nodes >= 2`); with `growth` not above 1 (or
 /// `core <= nodes`) it is the geometric grid of `nodes` nodes.
 ///
-/// Why: the lanes' offsets and nip shares are updated once per grid step from the radii at its
-/// start. Near the core a coarse step is comparable to the build there, and the pressures the
-/// core carries converge only at first order with it (DEVELOPERS.md, "Numerical practice");
-/// grading keeps the core's steps those of the fine grid at a fraction of its nodes.
+/// Why: the lanes' offsets and nip shares are updated once per grid step. Near the core a
+/// coarse step is comparable to the build there, so what the update misses is of order one, and
+/// the pressures the core carries converge slowly with the steps there (DEVELOPERS.md,
+/// "Numerical practice"); grading keeps the core's steps those of the fine grid at a fraction of
+/// its nodes.
 pub fn graded_grid(rc: f64, big_r: f64, (nodes, core): (usize, usize), growth: f64) -> Vec<f64> {
     if growth.is_nan() || growth <= 1.0 || core <= nodes || nodes < 2 {
         return grid(rc, big_r, nodes.max(2));

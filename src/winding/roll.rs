@@ -96,7 +96,7 @@ impl Default for Options {
 
 /// Radial nodes per lane for every command (`stress`, `fit`, `diagnose`, `triage`): within 1 %
 /// of the converged radial stress at every radius on the soft Pfeiffer study roll and on each
-/// field case (measured 0.24 % on the soft roll, at most 0.50 % on the field cases; see
+/// field case (measured 0.30 % on the soft roll, at most 0.72 % on the field cases; see
 /// DEVELOPERS.md, "Numerical practice").
 pub const DEFAULT_NODES: usize = 401;
 
@@ -233,19 +233,55 @@ pub(super) struct Accreted {
 }
 
 /// How the lanes share the winder's loads at one update of their radii ([`super::coupling`]):
-/// each lane's levelled strain offset and its share of the nip line load, N/m.
-fn couple(input: &WindInput, lanes: &Lanes, radii: &[f64], levelling: f64) -> (Vec<f64>, Vec<f64>) {
+/// each lane's levelled strain offset, from the lanes' radii where the layers are wound (`mid`,
+/// m), and its share of the nip line load (N/m), from their radii at the update (`radii`, m).
+fn couple(
+    input: &WindInput,
+    lanes: &Lanes,
+    (radii, mid): (&[f64], &[f64]),
+    levelling: f64,
+) -> (Vec<f64>, Vec<f64>) {
     let mat = input.material;
     let nip = input.winding.nip_n_per_m;
     let widths = lanes.widths();
     let width: f64 = widths.iter().sum();
-    let rbar = radii.iter().zip(&widths).map(|(r, w)| r * w).sum::<f64>() / width;
-    let raw: Vec<f64> = radii.iter().map(|r| (r - rbar) / rbar).collect();
+    let rbar = mid.iter().zip(&widths).map(|(r, w)| r * w).sum::<f64>() / width;
+    let raw: Vec<f64> = mid.iter().map(|r| (r - rbar) / rbar).collect();
     let t = input.winding.tension.at(2.0 * rbar);
     let lag = coupling::shear_lag_length(mat, lanes.mean_caliper_m, t, rbar, nip);
     let offs = coupling::levelled_offsets(&raw, &widths, lag, levelling);
     let k_nip = coupling::nip_stiffness(mat, nip);
     (offs, coupling::nip_shares(nip, radii, &widths, k_nip))
+}
+
+/// How much the lanes' builds grow from a build reaching `start` to one reaching `mid` (m) on a
+/// core of radius `rc` (m): in proportion to the nominal build, 1 with nothing wound yet. The
+/// offsets take the lanes' radii to the middle of the step, where its layers are wound: from the
+/// step's start they lag half a step, which near the core is of the order of the build itself
+/// (the core's response to a lane pattern converged at first order only; DEVELOPERS.md,
+/// "Numerical practice").
+fn build_growth(rc: f64, start: f64, mid: f64) -> f64 {
+    if start > rc {
+        (mid - rc) / (start - rc)
+    } else {
+        1.0
+    }
+}
+
+/// Each lane's outer radius (m) now (`radii`) and with its build grown by `grow` (`mid`; the
+/// core's displacement stays), for lanes of calipers `cal` (m) wound at compressed caliper
+/// `c_eff` (m).
+fn lane_radii(
+    states: &[LaneState],
+    (model, c_eff, cal): (&LaneModel, f64, &[f64]),
+    grow: f64,
+    (radii, mid): (&mut [f64], &mut [f64]),
+) {
+    for (i, st) in states.iter().enumerate() {
+        radii[i] = st.outer_radius(model, 1.0 / c_eff, cal[i]);
+        let core = st.outer_radius(model, 1.0 / c_eff, 0.0);
+        mid[i] = core + (radii[i] - core) * grow;
+    }
 }
 
 /// Accrete all lanes on the grid `opt` gives. A grid step's sub-steps are the same for every
@@ -273,6 +309,7 @@ pub(super) fn accrete(
         .collect();
     let v = input.winding.speed_m_s;
     let mut radii = vec![rc; n];
+    let mut mid = vec![rc; n];
     // the web's own lane strains (a tension profile at winding) come in unlevelled: they are the
     // tensions the lanes carried in the free span
     let web: Vec<f64> = lanes.lanes.iter().map(|l| l.web_strain).collect();
@@ -286,10 +323,9 @@ pub(super) fn accrete(
         // the step lagged the winder's taper and the air film by half a step: first order)
         let r_step = if k > 0 { 0.5 * (grid[k - 1] + rk) } else { rk };
         if k > 0 {
-            for (i, st) in states.iter().enumerate() {
-                radii[i] = st.outer_radius(&model, 1.0 / c_eff, cal[i]);
-            }
-            let (o, q) = couple(input, lanes, &radii, levelling);
+            let grow = build_growth(rc, grid[k - 1], r_step);
+            lane_radii(&states, (&model, c_eff, &cal), grow, (&mut radii, &mut mid));
+            let (o, q) = couple(input, lanes, (&radii, &mid), levelling);
             coupling::follow_nip(&mut nip_q, &q, rk - grid[k - 1]);
             for i in 0..n {
                 offs[i] = web[i] + o[i];
