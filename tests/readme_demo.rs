@@ -8,27 +8,34 @@
 
 use std::process::Command;
 
-const README: &str = "README.md";
+const README: &str = concat!(env!("CARGO_MANIFEST_DIR"), "/README.md");
 const OPEN: &str = "```text\n$ rollsleuth diagnose\n";
+/// The characters a table's lines start with.
+const BORDERS: [char; 5] = ['┌', '│', '╞', '├', '└'];
 
 /// The demo's output as the README shows it: findings 1 and 3 cut to their first line.
 fn abridged(out: &str) -> String {
     let mut keep: Vec<String> = Vec::new();
-    let mut cut = false;
+    // in a cut finding, and past its (possibly wrapped) first line
+    let (mut cut, mut body) = (false, false);
     for line in out.trim_end().lines() {
         let finding = line
             .split_once(". ")
             .filter(|(n, _)| n.len() == 1 && n.chars().all(|c| c.is_ascii_digit()))
             .map(|(n, _)| n);
         if let Some(n) = finding {
-            cut = matches!(n, "1" | "3");
+            (cut, body) = (matches!(n, "1" | "3"), false);
             if cut {
                 keep.push(format!("{line} ..."));
                 keep.push(String::new());
                 continue;
             }
         }
-        if cut && line.starts_with("Complaint:") {
+        // a cut finding's body starts at its first indented line and ends at the next line that
+        // is neither indented, blank nor a table's
+        body |= cut && line.starts_with(' ');
+        let own = line.is_empty() || line.starts_with(' ') || line.starts_with(BORDERS);
+        if cut && body && !own {
             cut = false;
         }
         let second_blank = line.is_empty() && keep.last().is_some_and(|l| l.is_empty());

@@ -40,24 +40,24 @@ pub const NOISE_NODES: usize = 81;
 
 /// Longest outermost grid step of a noise roll, in lengths over which the lanes' nip shares follow
 /// their contact ([`coupling::NIP_FOLLOW_M`]). The lanes' strain offsets and nip shares are updated
-/// once per grid step from the lanes' radii at its start, so a step that is long against that
-/// length lags them: the lane-pattern, surface-pressure and MD floors of the 1500 mm board (on a
-/// 152 mm core) converge with it, nip or none. Against noise rolls wound on 401 nodes, every
-/// deciding floor of the field cases, the 40-lane roll and the board without its nip is within
-/// 4.2 % at 1.25 (but the board's MD compression floor, 0.001 of the strength against a rule
-/// threshold of 1, whose minimum moves between nodes), where at 2 the board's centre-minus-edges
-/// floor was 21 % wide and its MD tension floor 8 % short; without its nip the board's
-/// surface-pressure floor was 12 % short at 81 nodes and 7 % at 1.25 (0.05 kPa). Under 81 nodes the
-/// nip shares chattered between the lanes (the board at 61: 5.5 kN/m on one lane and 0.12 kN/m on
-/// another, against 1.6-2.1 kN/m each from 81 up).
+/// once per grid step, so a step that is long against that length lags them: the lane-pattern,
+/// surface-pressure and MD floors of the 1500 mm board (on a 152 mm core) converge with it, nip or
+/// none. Against noise rolls wound on 401 nodes, every deciding floor of the field cases, the
+/// 40-lane roll and the board without its nip is within 4.2 % at 1.25, but two: the board's MD
+/// compression floor (0.001 of the strength against a rule threshold of 1, whose minimum moves
+/// between nodes) and the end surface pressure floor of the board without its nip, 7 % short (a
+/// floor of 0.05 kPa; 12 % at 81 nodes). At 2 follow lengths the board's centre-minus-edges floor
+/// was 21 % wide and its MD tension floor 8 % short. Under 81 nodes the nip shares chattered
+/// between the lanes (the board at 61: 5.5 kN/m on one lane and 0.12 kN/m on another, against
+/// 1.6-2.1 kN/m each from 81 up).
 pub const STEP_FOLLOWS: f64 = 1.25;
 
 /// Growth per step of a noise roll's grid steps in ln r, from the diagnosis's own steps at the
 /// core to the noise rolls' ([`noise_options`]). The core-pressure and crush floors converge
-/// slowly with the steps near the core (the lanes' coupling lags over a step comparable to the
-/// build there): on a geometric grid the board's were 12 % short at 173 nodes and, without its
-/// nip, 51 % at 81; graded at 1.05 they are within 1.5 % of those of noise rolls wound on 401
-/// nodes on every field case, the 40-lane roll and the board without its nip.
+/// slowly with the steps near the core, where a step is comparable to the build: on geometric
+/// grids of 81 and 139 nodes the board's came out 25 % and 9 % short, and without its nip 47 %
+/// and 21 % short; graded at 1.05 (148 nodes) they are within 1.5 % of those of noise rolls wound
+/// on 401 nodes on every field case, the 40-lane roll and the board without its nip.
 pub const NOISE_CORE_GROWTH: f64 = 1.05;
 
 /// Winding options of `lab`'s noise rolls for a diagnosis at `nodes`: the spacing of

@@ -262,11 +262,17 @@ fn couple(
 /// "Numerical practice").
 fn build_growth(rc: f64, start: f64, mid: f64) -> f64 {
     if start > rc {
-        (mid - rc) / (start - rc)
+        ((mid - rc) / (start - rc)).min(MAX_BUILD_GROWTH)
     } else {
         1.0
     }
 }
+
+/// Most that [`build_growth`] takes the lanes' builds on: from a step's start to its middle the
+/// build may at most double (it grows by about 1.5 at the second step of a geometric or graded
+/// grid; a grid whose steps jump more would have the offsets extrapolated far beyond what was
+/// wound).
+const MAX_BUILD_GROWTH: f64 = 2.0;
 
 /// Each lane's outer radius (m) now (`radii`) and with its build grown by `grow` (`mid`; the
 /// core's displacement stays), for lanes of calipers `cal` (m) wound at compressed caliper
