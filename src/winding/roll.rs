@@ -76,10 +76,10 @@ impl Options {
     /// The grid's radii from the core radius `rc` to the roll's `big_r` (m).
     pub fn grid(&self, rc: f64, big_r: f64) -> Vec<f64> {
         match self.spacing {
-            Spacing::Core { core_nodes, growth } if core_nodes > self.nodes => {
+            Spacing::Core { core_nodes, growth } => {
                 graded_grid(rc, big_r, (self.nodes, core_nodes), growth)
             }
-            _ => grid(rc, big_r, self.nodes),
+            Spacing::Geometric => grid(rc, big_r, self.nodes),
         }
     }
 }
