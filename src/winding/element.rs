@@ -1,5 +1,5 @@
 //! The exact element of the accretion ([`super::hakiel`]) and the active intervals it is
-//! evaluated on.
+//! evaluated on, swept side by side.
 //!
 //! Each interval keeps the decay factor e^(-g tau) it last computed with a library exponential
 //! and the g it was for. While g stays close to that reference (|g_ref - g| tau below
@@ -12,21 +12,34 @@
 /// Largest |x| = |g_ref - g| tau for which e^x is summed as a series.
 const SERIES_SPAN: f64 = 1e-2;
 
-/// One exact element (computed in full; the reference for [`Interval::ratio`]): from z at the
-/// inner end of an interval of log-length `tau` (`grow` =
-/// e^tau), return (phi_in / phi_out, z at the outer end).
+/// One exact element (computed in full, in the Riccati form of [`super::hakiel`]; the
+/// reference the sweep is checked against): from z at the inner end of an interval of
+/// log-length `tau` (`grow` = e^tau), return (phi_in / phi_out, z at the outer end).
+use crate::case::Stack;
+
 #[cfg(test)]
 fn element(g: f64, z0: f64, tau: f64, grow: f64) -> (f64, f64) {
-    element_with(g, (-g * tau).exp(), z0, grow)
-}
-
-/// [`element`] with its decay factor `e1` = e^(-g tau) given.
-#[inline]
-fn element_with(g: f64, e1: f64, z0: f64, grow: f64) -> (f64, f64) {
+    let e1 = (-g * tau).exp();
     let a = g + z0;
     let d = a + (g - z0) * e1 * e1;
-    let inv = 1.0 / d;
-    (2.0 * g * e1 * grow * inv, 2.0 * g * a * inv - g)
+    (2.0 * g * e1 * grow / d, 2.0 * g * a / d - g)
+}
+
+/// One element in the linear form: with u = r phi and w = r^2 phi' + r phi (so z = w / u), an
+/// interval of the constant-modulus equation carries (u, w) by the hyperbolic rotation of angle
+/// g tau, here scaled by its decay factor `e1` = e^(-g tau) (`ig` = 1 / g):
+///
+/// u1 = c u + (s / g) w,  w1 = g s u + c w,  c = (1 + e1^2) / 2,  s = (1 - e1^2) / 2,
+///
+/// and phi_in / phi_out = e^tau e1 u / u1. Returns (u1, w1). The Riccati form z1 = g (z + g
+/// th) / (g + z th) (th = tanh g tau) is the same map on z, but each step waits on a division;
+/// here the chain from one interval to the next is two multiply-adds, and the division for the
+/// ratio stands aside from it.
+#[inline(always)]
+fn rotate((g, ig, e1): (f64, f64, f64), u: f64, w: f64) -> (f64, f64) {
+    let e2 = e1 * e1;
+    let (c, s) = (0.5 + 0.5 * e2, 0.5 - 0.5 * e2);
+    (c * u + (s * ig) * w, (s * g) * u + c * w)
 }
 
 /// e^x for |x| <= [`SERIES_SPAN`], Taylor series to x^6.
@@ -38,54 +51,201 @@ fn exp_small(x: f64) -> f64 {
                 + x * (1.0 / 6.0 + x * (1.0 / 24.0 + x * (1.0 / 120.0 + x * (1.0 / 720.0))))))
 }
 
-/// An active interval of a lane (between consecutive active nodes): log-length, ratio of end
-/// radii, the element ratio phi_in / phi_out last computed, and its reference g and decay
-/// factor (g NaN: none yet).
-#[derive(Debug, Clone, Copy)]
-pub(super) struct Interval {
-    pub tau: f64,
-    pub grow: f64,
-    pub rho: f64,
-    g_ref: f64,
-    e_ref: f64,
+/// (u, w) are rescaled when |u| leaves [1 / RESCALE, RESCALE] (z and the ratios depend on their
+/// ratio only).
+const RESCALE: f64 = 1e150;
+
+/// (u, w) brought back to u = 1; rare (a long run of intervals where the solution grows or
+/// decays by the same factor), so kept off the sweep's path.
+#[cold]
+#[inline(never)]
+fn rescale(u: f64, w: f64) -> (f64, f64) {
+    (1.0, w / u)
 }
 
-impl Interval {
-    /// An interval of log-length `tau` and end-radius ratio `grow`.
-    pub fn new(tau: f64, grow: f64) -> Self {
-        Interval {
-            tau,
-            grow,
-            rho: 0.0,
-            g_ref: f64::NAN,
-            e_ref: 0.0,
+/// The active intervals of a lane (between consecutive active nodes), side by side (one vector
+/// per quantity, so the sweep's passes over them vectorise): log-length, ratio of end radii,
+/// the element ratio phi_in / phi_out last computed, and the reference g and decay factor of
+/// each (g NaN: none yet); and the sweep's working vectors.
+#[derive(Debug, Clone, Default)]
+pub(super) struct Intervals {
+    tau: Vec<f64>,
+    grow: Vec<f64>,
+    /// Element ratio phi_in / phi_out of each interval, as last computed.
+    pub rho: Vec<f64>,
+    g_ref: Vec<f64>,
+    e_ref: Vec<f64>,
+    // sweep scratch: per interval g, 1 / g and e^(-g tau)
+    g: Vec<f64>,
+    ig: Vec<f64>,
+    e: Vec<f64>,
+}
+
+impl Intervals {
+    /// No intervals, room for `cap`.
+    pub fn with_capacity(cap: usize) -> Self {
+        let v = || Vec::with_capacity(cap);
+        Intervals {
+            tau: v(),
+            grow: v(),
+            rho: v(),
+            g_ref: v(),
+            e_ref: v(),
+            g: v(),
+            ig: v(),
+            e: v(),
         }
     }
 
-    /// The element at `g` from `z0`: stores the ratio, returns z at the outer end.
-    #[inline]
-    pub fn ratio(&mut self, g: f64, z0: f64) -> f64 {
-        let x = (self.g_ref - g) * self.tau;
-        let e1 = if x.abs() <= SERIES_SPAN {
-            self.e_ref * exp_small(x)
-        } else {
-            let e = (-g * self.tau).exp();
-            self.g_ref = g;
-            self.e_ref = e;
-            e
-        };
-        let (rho, z1) = element_with(g, e1, z0, self.grow);
-        self.rho = rho;
-        z1
+    /// Append an interval of log-length `tau` and end-radius ratio `grow`.
+    pub fn push(&mut self, tau: f64, grow: f64) {
+        self.tau.push(tau);
+        self.grow.push(grow);
+        self.rho.push(0.0);
+        self.g_ref.push(f64::NAN);
+        self.e_ref.push(0.0);
     }
-}
 
-/// Merge intervals `b..e` of `iv` into one from radius `r_b` to `r_e` (m) with ratio `rho`.
-pub(super) fn merge(iv: &mut Vec<Interval>, b: usize, e: usize, r_b: f64, r_e: f64, rho: f64) {
-    let mut one = Interval::new((r_e / r_b).ln(), r_e / r_b);
-    one.rho = rho;
-    iv[b] = one;
-    iv.drain(b + 1..e);
+    /// The decay factor e^(-g tau) of interval `j`: a series from its reference while g is close
+    /// to it, else computed in full and made the reference.
+    #[inline]
+    fn decay(&mut self, j: usize, g: f64) -> f64 {
+        let x = (self.g_ref[j] - g) * self.tau[j];
+        if x.abs() <= SERIES_SPAN {
+            self.e_ref[j] * exp_small(x)
+        } else {
+            let e = (-g * self.tau[j]).exp();
+            self.g_ref[j] = g;
+            self.e_ref[j] = e;
+            e
+        }
+    }
+
+    /// The element of interval `j` at `g` from (u, w) at its inner end: stores the ratio,
+    /// returns (u, w) at the outer end.
+    pub fn step(&mut self, j: usize, g: f64, (u, w): (f64, f64)) -> (f64, f64) {
+        let e1 = self.decay(j, g);
+        let (u1, w1) = rotate((g, 1.0 / g, e1), u, w);
+        self.rho[j] = self.grow[j] * e1 * u / u1;
+        (u1, w1)
+    }
+
+    /// Sweep the elements of the intervals from node `from` up to node `from + p.len() - 1`: `p`
+    /// holds the pressures (Pa) at those nodes; each element's radial modulus is the `stack`'s
+    /// at the mean of its end pressures, and g = sqrt(`e_t` / E_r). Stores the ratios, carries
+    /// (u, w) (z = w / u) from node `from` up, writing them at each node above it, and returns
+    /// z at the top.
+    ///
+    /// In passes: g (and 1 / g = g E_r / E_t, no second root) of every interval, then the decay
+    /// factors, then the chain of rotations with its ratios. The first two are independent per
+    /// interval and vectorise; the chain waits on two multiply-adds per interval.
+    pub fn sweep(
+        &mut self,
+        (e_t, stack): (f64, Stack),
+        from: usize,
+        p: &[f64],
+        (u_at, w_at): (&mut [f64], &mut [f64]),
+    ) -> f64 {
+        let n = p.len().saturating_sub(1);
+        if n == 0 {
+            return w_at[from] / u_at[from];
+        }
+        // every entry used is written before it is read
+        for v in [&mut self.g, &mut self.ig, &mut self.e] {
+            if v.len() < n {
+                v.resize(n, 0.0);
+            }
+        }
+        match stack {
+            Stack::Pfeiffer { k1_pa, k2 } => {
+                self.moduli(e_t, p, |x| (x.max(0.0) + k1_pa) * k2);
+            }
+            Stack::Constant { radial_modulus_pa } => self.moduli(e_t, p, |_| radial_modulus_pa),
+        }
+        let (tau, g_ref, e_ref) = (
+            &self.tau[from..from + n],
+            &self.g_ref[from..from + n],
+            &self.e_ref[from..from + n],
+        );
+        let mut far = false;
+        for (((e, &g), &t), (&gr, &er)) in self.e[..n]
+            .iter_mut()
+            .zip(&self.g[..n])
+            .zip(tau)
+            .zip(g_ref.iter().zip(e_ref))
+        {
+            let x = (gr - g) * t;
+            *e = er * exp_small(x);
+            far |= !x.abs().le(&SERIES_SPAN); // NaN (no reference yet) is far
+        }
+        if far {
+            for k in 0..n {
+                let (j, g) = (from + k, self.g[k]);
+                if !((self.g_ref[j] - g) * self.tau[j]).abs().le(&SERIES_SPAN) {
+                    self.e[k] = self.decay(j, g);
+                }
+            }
+        }
+        let (mut u, mut w) = (u_at[from], w_at[from]);
+        let rho = &mut self.rho[from..from + n];
+        let grow = &self.grow[from..from + n];
+        let (u_out, w_out) = (
+            &mut u_at[from + 1..=from + n],
+            &mut w_at[from + 1..=from + n],
+        );
+        let (g, ig, e) = (&self.g[..n], &self.ig[..n], &self.e[..n]);
+        // the chain: u into each interval kept in `rho` for the ratio's pass
+        for k in 0..n {
+            let (u1, w1) = rotate((g[k], ig[k], e[k]), u, w);
+            rho[k] = u;
+            u_out[k] = u1;
+            w_out[k] = w1;
+            (u, w) = (u1, w1);
+            if !(u1.abs() <= RESCALE && u1.abs() >= 1.0 / RESCALE) {
+                (u, w) = rescale(u1, w1);
+            }
+        }
+        for (((r, &gr), &ek), &u1) in rho.iter_mut().zip(grow).zip(e).zip(u_out.iter()) {
+            *r = gr * ek * *r / u1;
+        }
+        w / u
+    }
+
+    /// g and 1 / g of each interval for pressures `p` at its ends and radial modulus `modulus`.
+    #[inline(always)]
+    fn moduli(&mut self, e_t: f64, p: &[f64], modulus: impl Fn(f64) -> f64) {
+        let inv_et = 1.0 / e_t;
+        let n = p.len() - 1;
+        for (((g, ig), &p0), &p1) in self.g[..n]
+            .iter_mut()
+            .zip(&mut self.ig[..n])
+            .zip(&p[..n])
+            .zip(&p[1..])
+        {
+            let er = modulus(0.5 * (p0 + p1));
+            let gk = (e_t / er).sqrt();
+            *g = gk;
+            *ig = gk * (er * inv_et);
+        }
+    }
+
+    /// Merge intervals `b..e` into one from radius `r_b` to `r_e` (m) with ratio `rho`.
+    pub fn merge(&mut self, b: usize, e: usize, (r_b, r_e): (f64, f64), rho: f64) {
+        self.tau[b] = (r_e / r_b).ln();
+        self.grow[b] = r_e / r_b;
+        self.rho[b] = rho;
+        self.g_ref[b] = f64::NAN;
+        self.e_ref[b] = 0.0;
+        for v in [
+            &mut self.tau,
+            &mut self.grow,
+            &mut self.rho,
+            &mut self.g_ref,
+            &mut self.e_ref,
+        ] {
+            v.drain(b + 1..e);
+        }
+    }
 }
 
 #[cfg(test)]
@@ -93,7 +253,7 @@ mod tests {
     use super::*;
 
     /// The series stays within 2 units in the last place of the library exponential over its
-    /// span, and a ratio from a reference matches a ratio computed in full.
+    /// span, and an element from a reference matches the Riccati form computed in full.
     #[test]
     fn series_factor_matches_the_exponential() {
         for i in -100..=100 {
@@ -101,13 +261,52 @@ mod tests {
             let (a, b) = (exp_small(x), x.exp());
             assert!((a - b).abs() <= 2.0 * f64::EPSILON * b, "{x}: {a} vs {b}");
         }
-        let mut iv = Interval::new(0.01, 0.01f64.exp());
-        iv.ratio(30.0, 0.9);
+        let mut iv = Intervals::with_capacity(1);
+        iv.push(0.01, 0.01f64.exp());
+        iv.step(0, 30.0, (1.0, 0.9));
         for g in [30.0, 30.5, 29.2, 30.9] {
-            let z = iv.ratio(g, 0.7);
+            let (u, w) = iv.step(0, g, (2.0, 1.4));
+            let z = w / u;
             let (rho, z1) = element(g, 0.7, 0.01, 0.01f64.exp());
-            assert!((iv.rho / rho - 1.0).abs() < 4.0 * f64::EPSILON, "{g}");
+            assert!((iv.rho[0] / rho - 1.0).abs() < 8.0 * f64::EPSILON, "{g}");
             assert!((z / z1 - 1.0).abs() < 8.0 * f64::EPSILON, "{g}");
+        }
+    }
+
+    /// A sweep equals the chain of Riccati elements, each in full, to a few units in the last
+    /// place per element: over a pressure profile that rises to the core, on stacks from soft
+    /// (g tau up to 4, where (u, w) must be rescaled) to stiff, from a rigid and a soft core's z,
+    /// and again after the pressures move (the decay factors then come from their references).
+    #[test]
+    fn a_sweep_matches_the_riccati_chain() {
+        let (k1, k2, e_t) = (5e3, 50.0, 5e9);
+        let stack = Stack::Pfeiffer { k1_pa: k1, k2 };
+        let modulus = |p: f64| stack.modulus(p);
+        for (nodes, span) in [(401, 2.3), (41, 2.3), (2001, 0.7), (7, 1.5)] {
+            let tau = span / (nodes - 1) as f64;
+            let mut iv = Intervals::with_capacity(nodes);
+            for _ in 1..nodes {
+                iv.push(tau, tau.exp());
+            }
+            for (z0, scale) in [(0.3, 1.0), (40.0, 1.0), (0.3, 1.01), (0.3, 3.0)] {
+                let p: Vec<f64> = (0..nodes)
+                    .map(|j| scale * 2e5 * (1.0 - j as f64 / nodes as f64).powi(2))
+                    .collect();
+                let (mut u, mut w) = (vec![0.0; nodes], vec![0.0; nodes]);
+                (u[0], w[0]) = (1.0, z0);
+                let top = iv.sweep((e_t, stack), 0, &p, (&mut u, &mut w));
+                let z: Vec<f64> = u.iter().zip(&w).map(|(u, w)| w / u).collect();
+                let mut zr = z0;
+                for j in 0..nodes - 1 {
+                    let g = (e_t / modulus(0.5 * (p[j] + p[j + 1]))).sqrt();
+                    let (rho, z1) = element(g, zr, tau, tau.exp());
+                    let tol = 1e-13 * (1.0 + j as f64).sqrt();
+                    assert!((iv.rho[j] / rho - 1.0).abs() < tol, "{nodes} {j}: rho");
+                    assert!((z[j + 1] / z1 - 1.0).abs() < tol, "{nodes} {j}: z");
+                    zr = z1;
+                }
+                assert_eq!(top, z[nodes - 1]);
+            }
         }
     }
 }

@@ -22,25 +22,27 @@
 //! z1 = g (a - b) / (a + b),  phi1 / phi0 = e^(-tau) e^(g tau) (a + b) / (2 g),
 //! a = g + z0,  b = (g - z0) e^(-2 g tau),
 //!
-//! where phi is the solution that meets the core condition. Since a Dirichlet load at the outer
-//! edge only scales phi, a unit pressure at radius s gives the increment phi(r) / phi(s) at r:
-//! each step's increment is a product of the per-interval ratios, marched inward from the new
-//! layer, and the new layers' pressure is integrated over their own interval in closed form of
-//! the kernel (Gauss-Legendre in t) rather than lumped at one node. The tangential
-//! increment is z s (equilibrium, s_t = s + r s'). The only approximations left are E_r constant
-//! on an interval and over a step (taken at the mid-step pressure: predictor-corrector in the
-//! surface zone, whose predictor re-uses the ratios the last sub-step's corrector left, and
+//! (computed in the equivalent linear form of [`super::element`], whose chain from interval to
+//! interval needs no division), where phi is the solution that meets the core condition. Since a
+//! Dirichlet load at the outer edge only scales phi, a unit pressure at radius s gives the
+//! increment phi(r) / phi(s) at r: each step's increment is a product of the per-interval ratios,
+//! marched inward from the new layer, and the new layers' pressure is integrated over their own
+//! interval in closed form of the kernel (Gauss-Legendre in t) rather than lumped at one node. The
+//! tangential increment is z s (equilibrium, s_t = s + r s'). The only approximations left are E_r
+//! constant on an interval and over a step (taken at the mid-step pressure: predictor-corrector in
+//! the surface zone, whose predictor re-uses the ratios the last sub-step's corrector left, and
 //! extrapolated from the previous step's increment in the deep part, where a step changes the
-//! pressure little and smoothly): both second order in the node spacing, and the layer's own
-//! inward decay over about r / g needs no resolving. Increments that have decayed below 1e-15
-//! of the local pressure are not carried further in, and the per-interval ratios are only
-//! recomputed where the pressure changed, each decay factor as a short series from the last one
-//! computed in full while g has moved little ([`super::element`]). The stack strain behind the
-//! compressed build is updated by its change per increment (series for small and moderate
-//! changes, no library logarithm for most nodes and steps), in the surface zone once per grid
-//! step (the build is read only between grid steps).
+//! pressure little and smoothly): both second order in the node spacing, and the layer's own inward
+//! decay over about r / g needs no resolving. Increments that have decayed below 1e-15 of the local
+//! pressure are not carried further in, and the per-interval ratios are only recomputed where the
+//! pressure changed, each decay factor as a short series from the last one computed in full while g
+//! has moved little ([`super::element`]). The stack strain behind the compressed build is updated
+//! by its change once per grid step, over the nodes the step loaded (series for small and moderate
+//! changes, no library logarithm for most nodes and steps; [`super::strain`]); the build is read
+//! only between grid steps.
 
-use super::element::{merge, Interval};
+use super::element::Intervals;
+use super::strain;
 pub use super::substeps::SubSteps;
 use crate::case::Stack;
 
@@ -68,40 +70,6 @@ impl LaneModel {
     fn g(&self, p: f64) -> f64 {
         (self.e_t / self.stack.modulus(p)).sqrt()
     }
-}
-
-/// Change of the stack's compressive strain from pressure `p0` to `p1` (Pa). For the Pfeiffer
-/// law it is ln(1 + x) / K2 with x = (p1 - p0) / (K1 + p0); small steps (|x| < 1e-3, most of
-/// them deep in the roll) take the series to x^5 (remainder below 2e-16 relative) instead of a
-/// logarithm.
-#[inline(always)]
-fn strain_change(stack: &Stack, p0: f64, p1: f64) -> f64 {
-    let (p0, p1) = (p0.max(0.0), p1.max(0.0));
-    match *stack {
-        Stack::Pfeiffer { k1_pa, k2 } => {
-            let x = (p1 - p0) / (k1_pa + p0);
-            let l = if x.abs() < 1e-3 {
-                x * (1.0 - x * (0.5 - x * (1.0 / 3.0 - x * (0.25 - 0.2 * x))))
-            } else if x.abs() < 0.1 {
-                ln_1p_near(x)
-            } else {
-                x.ln_1p()
-            };
-            l / k2
-        }
-        Stack::Constant { .. } => stack.strain(p1) - stack.strain(p0),
-    }
-}
-
-/// ln(1 + x) for |x| < 0.1 as 2 atanh(u), u = x / (2 + x) (|u| < 0.053), by its series to
-/// u^13 (remainder below 1e-19 relative): no library call for the pressure changes of the deep
-/// roll, whose relative size per step is about one over the number of steps wound since.
-#[inline]
-fn ln_1p_near(x: f64) -> f64 {
-    let u = x / (2.0 + x);
-    let u2 = u * u;
-    let tail = 1.0 / 9.0 + u2 * (1.0 / 11.0 + u2 * (1.0 / 13.0));
-    2.0 * u * (1.0 + u2 * (1.0 / 3.0 + u2 * (1.0 / 5.0 + u2 * (1.0 / 7.0 + u2 * tail))))
 }
 
 /// Increments smaller than this fraction of the local radial stress are not carried inward.
@@ -162,7 +130,10 @@ pub struct LaneState {
     ar: Vec<f64>,
     asr: Vec<f64>,
     ast: Vec<f64>,
-    az: Vec<f64>,
+    /// u and w of the element chain at each active node (z = 1 + r s' / s = w / u; u = 1 at the
+    /// core, which no sweep writes).
+    au: Vec<f64>,
+    aw: Vec<f64>,
     aeps: Vec<f64>,
     /// Pressure (Pa) at which `aeps` was last brought up to date.
     ap: Vec<f64>,
@@ -171,7 +142,9 @@ pub struct LaneState {
     s: Vec<f64>,
     last: Vec<f64>,
     /// Active intervals.
-    iv: Vec<Interval>,
+    iv: Intervals,
+    /// Pressures (Pa) at the nodes of the sweep in hand.
+    pbuf: Vec<f64>,
     /// Active index of the zone's bottom node (a grid node).
     b: usize,
     /// Deep intervals below this one have ratios valid for the current pressures.
@@ -215,13 +188,15 @@ impl LaneState {
             ar: Vec::with_capacity(cap),
             asr: Vec::with_capacity(cap),
             ast: Vec::with_capacity(cap),
-            az: Vec::with_capacity(cap),
+            au: Vec::with_capacity(cap),
+            aw: Vec::with_capacity(cap),
             aeps: Vec::with_capacity(cap),
             ap: Vec::with_capacity(cap),
             agrid: Vec::with_capacity(cap),
             s: Vec::with_capacity(cap),
             last: Vec::with_capacity(cap),
-            iv: Vec::with_capacity(cap),
+            iv: Intervals::with_capacity(cap),
+            pbuf: Vec::with_capacity(cap),
             b: 0,
             fresh: 0,
             dcut: 0,
@@ -235,7 +210,8 @@ impl LaneState {
         self.ar.push(r);
         self.asr.push(0.0);
         self.ast.push(sigma_w);
-        self.az.push(0.0);
+        self.au.push(1.0);
+        self.aw.push(0.0);
         self.aeps.push(0.0);
         self.ap.push(0.0);
         self.agrid.push(grid);
@@ -273,7 +249,7 @@ impl LaneState {
         if k == 0 {
             // The first layer lies on the core; it carries its wound-in stress and no pressure.
             self.push_node(self.r[0], sigma_w, 0);
-            self.az[0] = 1.0 + m.kappa();
+            self.aw[0] = 1.0 + m.kappa();
             self.wound = 1;
             return Ok(());
         }
@@ -315,7 +291,7 @@ impl LaneState {
                 return Err(fail);
             }
             self.build += r_new - self.ar[top];
-            self.iv.push(Interval::new(tau_new, plan.grow[i - 1]));
+            self.iv.push(tau_new, plan.grow[i - 1]);
             self.push_node(r_new, sigma_w, if i == self.sub { k } else { usize::MAX });
             for j in self.zcut..=top {
                 let sj = self.s[j];
@@ -327,56 +303,44 @@ impl LaneState {
             }
         }
         // deep part: ratios at the mid-step pressure extrapolated from the last step
-        self.deep_march(m, load_b);
+        self.deep_march(load_b);
         if !self.asr.iter().all(|x| x.is_finite()) {
             return Err(fail);
         }
-        self.strains(m, b);
+        self.strains(m, self.dcut);
         self.coarsen();
         self.wound = k + 1;
         Ok(())
     }
 
-    /// Add increment `s` to active node `j`, keeping the build sum.
-    #[inline]
-    fn apply(&mut self, m: &LaneModel, j: usize, s: f64) {
-        self.load(j, s);
-        self.strain(m, j);
-    }
-
-    /// Add increment `s` to the stress of active node `j` (its strain is left to [`Self::strain`];
-    /// in the zone, [`Self::strains`] once per grid step).
+    /// Add increment `s` to the stress of active node `j` (its strain is left to
+    /// [`Self::strains`], once per grid step).
     #[inline]
     fn load(&mut self, j: usize, s: f64) {
         self.asr[j] += s;
         if j == 0 {
             // exact at the core (z = 1 + kappa); elsewhere sigma_t comes from equilibrium
-            self.ast[0] += s * self.az[0];
+            self.ast[0] += s * self.aw[0];
         }
     }
 
-    /// Bring active node `j`'s stack strain up to its present pressure, keeping the build sum
-    /// (the trapezoid weight of a node is half the span of its neighbours).
-    #[inline(always)]
-    fn strain(&mut self, m: &LaneModel, j: usize) {
-        let p = -self.asr[j];
-        let de = strain_change(&m.stack, self.ap[j], p);
-        self.ap[j] = p;
-        self.aeps[j] += de;
-        let hi = self.ar[(j + 1).min(self.ar.len() - 1)];
-        let lo = self.ar[j.saturating_sub(1)];
-        self.build -= 0.5 * de * (hi - lo);
-    }
-
-    /// Bring the strains of the zone's nodes (from active node `b` up) to their pressures at
-    /// the end of a grid step: once per grid step instead of once per sub-step (the build is
-    /// read between grid steps only; the strain is a function of the pressure alone). A node's
-    /// neighbours, and so its trapezoid weight, are fixed from the sub-step after it is laid
-    /// until [`Self::coarsen`], which is after this.
-    fn strains(&mut self, m: &LaneModel, b: usize) {
-        for j in b..self.ar.len() {
-            self.strain(m, j);
+    /// Bring the stack strains of the nodes the grid step loaded (from active node `lo` up) to
+    /// their pressures at its end, keeping the build sum (a node's trapezoid weight is half the
+    /// span of its neighbours): once per grid step, not per sub-step (the build is read between
+    /// grid steps only; the strain is a function of the pressure alone). A node's neighbours are
+    /// fixed from the sub-step after it is laid until [`Self::coarsen`], which is after this.
+    fn strains(&mut self, m: &LaneModel, lo: usize) {
+        let n = self.ar.len();
+        let mut de = std::mem::take(&mut self.pbuf);
+        de.clear();
+        de.resize(n - lo, 0.0);
+        strain::changes(&m.stack, &mut self.ap[lo..], &self.asr[lo..], &mut de);
+        for (j, &d) in (lo..n).zip(&de) {
+            self.aeps[j] += d;
+            let (hi, below) = (self.ar[(j + 1).min(n - 1)], self.ar[j.saturating_sub(1)]);
+            self.build -= 0.5 * d * (hi - below);
         }
+        self.pbuf = de;
     }
 
     /// Element ratios of the intervals from node `from` up to node `to`, with the pressure at node
@@ -389,16 +353,14 @@ impl LaneState {
         to: usize,
         p: impl Fn(&Self, usize) -> f64,
     ) -> (f64, f64) {
-        let mut zj = self.az[from];
-        let mut pj = p(self, from);
-        for j in from..to {
-            let pn = p(self, j + 1);
-            let g = m.g(0.5 * (pj + pn));
-            let z1 = self.iv[j].ratio(g, zj);
-            self.az[j + 1] = z1;
-            zj = z1;
-            pj = pn;
-        }
+        let mut buf = std::mem::take(&mut self.pbuf);
+        buf.clear();
+        buf.extend((from..=to).map(|i| p(self, i)));
+        let zj = self
+            .iv
+            .sweep((m.e_t, m.stack), from, &buf, (&mut self.au, &mut self.aw));
+        let pj = buf[buf.len() - 1];
+        self.pbuf = buf;
         (zj, pj)
     }
 
@@ -415,16 +377,16 @@ impl LaneState {
 
     /// Carry the load that reached the zone bottom through the deep part, recording the
     /// increment (the next step's mid-step pressure estimate).
-    fn deep_march(&mut self, m: &LaneModel, load_b: f64) {
+    fn deep_march(&mut self, load_b: f64) {
         let mut s = load_b;
         let mut j = self.b;
         while j > 0 {
-            s *= self.iv[j - 1].rho;
+            s *= self.iv.rho[j - 1];
             if s.abs() <= NEGLIGIBLE * self.asr[j - 1].abs() {
                 break;
             }
             j -= 1;
-            self.apply(m, j, s);
+            self.load(j, s);
             self.last[j] = s;
         }
         self.dcut = j;
@@ -452,13 +414,15 @@ impl LaneState {
     /// increment, which moves the corrector's mid-step pressure only at second order.
     fn new_interval(&mut self, m: &LaneModel, top: usize) -> (f64, f64) {
         if top <= self.b {
-            return (self.az[top], -self.asr[top]);
+            return (self.aw[top] / self.au[top], -self.asr[top]);
         }
         let j = top - 1;
         let (p0, p1) = (-self.asr[j], -self.asr[top]);
-        let z1 = self.iv[j].ratio(m.g(0.5 * (p0 + p1)), self.az[j]);
-        self.az[top] = z1;
-        (z1, p1)
+        let (u, w) = self
+            .iv
+            .step(j, m.g(0.5 * (p0 + p1)), (self.au[j], self.aw[j]));
+        (self.au[top], self.aw[top]) = (u, w);
+        (w / u, p1)
     }
 
     /// March the increment `s_top` at the surface node inward to the zone bottom or until it
@@ -467,7 +431,7 @@ impl LaneState {
         self.s[top] = s_top;
         let mut i = top;
         while i > self.b {
-            let next = self.s[i] * self.iv[i - 1].rho;
+            let next = self.s[i] * self.iv.rho[i - 1];
             if next.abs() <= NEGLIGIBLE * self.asr[i - 1].abs() {
                 break;
             }
@@ -485,19 +449,20 @@ impl LaneState {
                 let mut rho = 1.0;
                 let mut old = 0.0;
                 for j in b..e {
-                    rho *= self.iv[j].rho;
+                    rho *= self.iv.rho[j];
                     old += (self.ar[j + 1] - self.ar[j])
                         * (1.0 - 0.5 * (self.aeps[j] + self.aeps[j + 1]));
                 }
                 let new = (self.ar[e] - self.ar[b]) * (1.0 - 0.5 * (self.aeps[b] + self.aeps[e]));
                 self.build += new - old;
-                merge(&mut self.iv, b, e, self.ar[b], self.ar[e], rho);
+                self.iv.merge(b, e, (self.ar[b], self.ar[e]), rho);
                 let gone = b + 1..e;
                 for v in [
                     &mut self.ar,
                     &mut self.asr,
                     &mut self.ast,
-                    &mut self.az,
+                    &mut self.au,
+                    &mut self.aw,
                     &mut self.aeps,
                     &mut self.ap,
                     &mut self.s,
@@ -578,22 +543,5 @@ impl LaneState {
             _ => 0.0,
         };
         r0 + core_u + self.build * layers_per_m * caliper
-    }
-}
-
-#[cfg(test)]
-mod tests {
-    /// The series agrees with the library's ln_1p to within 2 units in the last place over its
-    /// span.
-    #[test]
-    fn near_logarithm_matches_the_library() {
-        for i in -1000..=1000 {
-            let x = 0.0999 * f64::from(i) / 1000.0;
-            let (a, b) = (super::ln_1p_near(x), x.ln_1p());
-            assert!(
-                (a - b).abs() <= 2.0 * f64::EPSILON * b.abs(),
-                "{x}: {a} vs {b}"
-            );
-        }
     }
 }

@@ -14,6 +14,7 @@ mod grid;
 pub mod hakiel;
 mod roll;
 mod secant;
+mod strain;
 mod substeps;
 mod summary;
 mod uniform;
