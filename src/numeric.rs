@@ -26,6 +26,7 @@ pub fn thomas(a: &[f64], b: &[f64], c: &[f64], d: &mut [f64], scratch: &mut [f64
 /// [`thomas`] on numbers of the storage kernel ([`Real`]: one system, or a pack of systems
 /// solved side by side): returns the members whose solve failed, as bits (0: all solved). Each
 /// member's solution has the bits of its own solve.
+#[inline(always)]
 pub fn thomas_of<T: Real>(a: &[T], b: &[T], c: &[T], d: &mut [T], scratch: &mut [T]) -> u32 {
     let n = d.len();
     if n < 8 {

@@ -5,6 +5,25 @@
 
 use std::ops::{Add, AddAssign, Div, Mul, Neg, Sub};
 
+/// Environment variable that keeps every kernel on its generic build (set to anything): for
+/// checking that the AVX2 builds give the same bits (`tests/vector_width.rs`).
+pub const GENERIC_ENV: &str = "ROLLSLEUTH_GENERIC";
+
+/// Whether the kernels built for AVX2 may run: the processor has AVX2 and [`GENERIC_ENV`] is
+/// not set (read once). Those builds give the generic build's bits: IEEE division, root,
+/// product and sum are exact whatever the vector width, and Rust fuses no multiply-add.
+#[inline]
+pub fn avx2() -> bool {
+    static WIDE: std::sync::OnceLock<bool> = std::sync::OnceLock::new();
+    *WIDE.get_or_init(|| {
+        #[cfg(target_arch = "x86_64")]
+        let has = std::arch::is_x86_feature_detected!("avx2");
+        #[cfg(not(target_arch = "x86_64"))]
+        let has = false;
+        has && std::env::var_os(GENERIC_ENV).is_none()
+    })
+}
+
 /// Watches values for a member that is not finite, without a test per value: x - x is 0 for a
 /// finite x and NaN otherwise, and a sum of zeros stays 0 while one NaN makes it NaN.
 #[derive(Debug, Clone, Copy)]

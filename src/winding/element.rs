@@ -151,8 +151,8 @@ impl Intervals {
         uw: (&mut [f64], &mut [f64]),
     ) -> f64 {
         #[cfg(target_arch = "x86_64")]
-        if std::arch::is_x86_feature_detected!("avx2") {
-            // SAFETY: the processor has AVX2, checked just above.
+        if crate::pack::avx2() {
+            // SAFETY: `avx2()` is true only where the processor has AVX2.
             return unsafe { self.sweep_avx2(model, from, p, uw) };
         }
         self.sweep_any(model, from, p, uw)

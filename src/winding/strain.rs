@@ -62,8 +62,8 @@ fn ln_1p_near(x: f64) -> f64 {
 /// Where the processor has AVX2 the passes run four wide, to the same bits.
 pub(super) fn changes(stack: &Stack, was: &mut [f64], sr: &[f64], de: &mut [f64]) {
     #[cfg(target_arch = "x86_64")]
-    if std::arch::is_x86_feature_detected!("avx2") {
-        // SAFETY: the processor has AVX2, checked just above.
+    if crate::pack::avx2() {
+        // SAFETY: `avx2()` is true only where the processor has AVX2.
         return unsafe { changes_avx2(stack, was, sr, de) };
     }
     changes_any(stack, was, sr, de);
