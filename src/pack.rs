@@ -5,13 +5,15 @@
 
 use std::ops::{Add, AddAssign, Div, Mul, Neg, Sub};
 
-/// Environment variable that keeps every kernel on its generic build (set to anything): for
+/// Environment variable that keeps every kernel on its generic build when set, to any value
+/// (even empty or 0): for
 /// checking that the AVX2 builds give the same bits (`tests/vector_width.rs`).
 pub const GENERIC_ENV: &str = "ROLLSLEUTH_GENERIC";
 
 /// Whether the kernels built for AVX2 may run: the processor has AVX2 and [`GENERIC_ENV`] is
 /// not set (read once). Those builds give the generic build's bits: IEEE division, root,
-/// product and sum are exact whatever the vector width, and Rust fuses no multiply-add.
+/// product and sum are correctly rounded whatever the vector width, Rust fuses no multiply-add,
+/// and the library functions they call (`exp`, `ln_1p`, `exp_m1`) are the same calls in both.
 #[inline]
 pub fn avx2() -> bool {
     static WIDE: std::sync::OnceLock<bool> = std::sync::OnceLock::new();

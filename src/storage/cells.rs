@@ -108,8 +108,9 @@ impl<const B: usize> Start<Pack<B>> {
 /// stops when every run has failed.
 ///
 /// Where the processor has AVX2 the kernel runs compiled for it ([`run_lane_avx2`]): a pack's
-/// members then run four wide, to the same bits (IEEE operations are exact whatever the vector
-/// width, and nothing is fused).
+/// members then run four wide, to the same bits (IEEE operations are correctly rounded whatever
+/// the vector width, nothing is fused, and library functions such as `exp` and `expm1` are the
+/// same calls in both).
 pub fn run_lane<T: Real, R: Recorder<T>>(
     run: &LaneRun,
     params: &Params<T>,

@@ -9,14 +9,14 @@
 //! within about one unit in the last place of the exponential's, and never drifts, since every
 //! value is one series away from a reference computed in full.
 
+use crate::case::Stack;
+
 /// Largest |x| = |g_ref - g| tau for which e^x is summed as a series.
 const SERIES_SPAN: f64 = 1e-2;
 
 /// One exact element (computed in full, in the Riccati form of [`super::hakiel`]; the
 /// reference the sweep is checked against): from z at the inner end of an interval of
 /// log-length `tau` (`grow` = e^tau), return (phi_in / phi_out, z at the outer end).
-use crate::case::Stack;
-
 #[cfg(test)]
 fn element(g: f64, z0: f64, tau: f64, grow: f64) -> (f64, f64) {
     let e1 = (-g * tau).exp();
@@ -33,7 +33,8 @@ fn element(g: f64, z0: f64, tau: f64, grow: f64) -> (f64, f64) {
 ///
 /// and phi_in / phi_out = e^tau e1 u / u1. Returns (u1, w1). The Riccati form z1 = g (z + g
 /// th) / (g + z th) (th = tanh g tau) is the same map on z, but each step waits on a division;
-/// here the chain from one interval to the next is two multiply-adds, and the division for the
+/// here the chain from one interval to the next is two products and a sum for each of u and w
+/// (nothing fused), and the division for the
 /// ratio stands aside from it.
 #[inline(always)]
 fn rotate((g, ig, e1): (f64, f64, f64), u: f64, w: f64) -> (f64, f64) {
@@ -60,7 +61,13 @@ const RESCALE: f64 = 1e150;
 #[cold]
 #[inline(never)]
 fn rescale(u: f64, w: f64) -> (f64, f64) {
-    (1.0, w / u)
+    if u.is_finite() && u != 0.0 {
+        (1.0, w / u)
+    } else {
+        // overflowed or vanished: no element can be computed, which the callers' checks for
+        // numbers that are not finite report
+        (f64::NAN, f64::NAN)
+    }
 }
 
 /// The active intervals of a lane (between consecutive active nodes), side by side (one vector
@@ -138,11 +145,12 @@ impl Intervals {
     ///
     /// In passes: g (and 1 / g = g E_r / E_t, no second root) of every interval, then the decay
     /// factors, then the chain of rotations with its ratios. The first two are independent per
-    /// interval and vectorise; the chain waits on two multiply-adds per interval.
+    /// interval and vectorise; the chain waits on a product and a sum per interval.
     ///
     /// Where the processor has AVX2 the passes run four wide ([`Self::sweep_avx2`]); the results
-    /// are the same to the bit (IEEE division, root, product and sum are exact whatever the
-    /// vector width, and nothing is fused).
+    /// are the same to the bit (IEEE division, root, product and sum are correctly rounded
+    /// whatever the vector width, nothing is fused, and the full exponential is the same
+    /// library call in both).
     pub fn sweep(
         &mut self,
         model: (f64, Stack),
@@ -309,14 +317,12 @@ mod tests {
 
     /// A sweep equals the chain of Riccati elements, each in full, to a few units in the last
     /// place per element: over a pressure profile that rises to the core, on stacks from soft
-    /// (g tau up to 4, where (u, w) must be rescaled) to stiff, from a rigid and a soft core's z,
-    /// and again after the pressures move (the decay factors then come from their references).
-    /// The build for this processor (four wide where it has AVX2) gives the generic build's bits.
+    /// (g tau up to about 35 on the 7-node grid) to stiff, from a rigid and a soft core's z (z0
+    /// above g there), again after the pressures move (the decay factors then come from their
+    /// references), from the core and from a node above it. The build for this processor (four
+    /// wide where it has AVX2) gives the generic build's bits.
     #[test]
     fn a_sweep_matches_the_riccati_chain() {
-        let (k1, k2, e_t) = (5e3, 50.0, 5e9);
-        let stack = Stack::Pfeiffer { k1_pa: k1, k2 };
-        let modulus = |p: f64| stack.modulus(p);
         for (nodes, span) in [(401, 2.3), (41, 2.3), (2001, 0.7), (7, 1.5)] {
             let tau = span / (nodes - 1) as f64;
             let mut iv = Intervals::with_capacity(nodes);
@@ -324,32 +330,69 @@ mod tests {
                 iv.push(tau, tau.exp());
             }
             for (z0, scale) in [(0.3, 1.0), (40.0, 1.0), (0.3, 1.01), (0.3, 3.0)] {
-                let p: Vec<f64> = (0..nodes)
-                    .map(|j| scale * 2e5 * (1.0 - j as f64 / nodes as f64).powi(2))
-                    .collect();
-                let (mut u, mut w) = (vec![0.0; nodes], vec![0.0; nodes]);
-                (u[0], w[0]) = (1.0, z0);
-                // the generic build, from the same state, for the bits below
-                let (mut any, mut ua, mut wa) = (iv.clone(), u.clone(), w.clone());
-                let top = iv.sweep((e_t, stack), 0, &p, (&mut u, &mut w));
-                let top_any = any.sweep_any((e_t, stack), 0, &p, (&mut ua, &mut wa));
-                assert_eq!(top.to_bits(), top_any.to_bits());
-                for j in 0..nodes - 1 {
-                    assert_eq!(iv.rho[j].to_bits(), any.rho[j].to_bits());
-                    assert_eq!(u[j + 1].to_bits(), ua[j + 1].to_bits());
+                for from in [0, 3] {
+                    sweep_against_riccati(&mut iv, (z0, 2.5), (scale, from));
                 }
-                let z: Vec<f64> = u.iter().zip(&w).map(|(u, w)| w / u).collect();
-                let mut zr = z0;
-                for j in 0..nodes - 1 {
-                    let g = (e_t / modulus(0.5 * (p[j] + p[j + 1]))).sqrt();
-                    let (rho, z1) = element(g, zr, tau, tau.exp());
-                    let tol = 1e-13 * (1.0 + j as f64).sqrt();
-                    assert!((iv.rho[j] / rho - 1.0).abs() < tol, "{nodes} {j}: rho");
-                    assert!((z[j + 1] / z1 - 1.0).abs() < tol, "{nodes} {j}: z");
-                    zr = z1;
-                }
-                assert_eq!(top, z[nodes - 1]);
             }
         }
+    }
+
+    /// A sweep whose (u, w) leaves [1e-150, 1e150] is rescaled, and gives the same ratios and z
+    /// as from (1, z0): from u just above 1e-150 on a rigid core (u falls at the first interval)
+    /// and just below 1e150 on a soft core with z0 above g (u rises).
+    #[test]
+    fn a_sweep_is_rescaled_where_u_leaves_its_range() {
+        for (z0, u0) in [(0.3, 1.01e-150), (40.0, 0.99e150)] {
+            let tau = 2.3 / 400.0;
+            let mut iv = Intervals::with_capacity(401);
+            for _ in 1..401 {
+                iv.push(tau, tau.exp());
+            }
+            let u = sweep_against_riccati(&mut iv, (z0, u0), (1.0, 0));
+            let out = |x: f64| !(1e-150..=1e150).contains(&x.abs());
+            assert!(out(u[1]), "{z0}: u[1] = {}", u[1]);
+            assert!(u[2..].iter().all(|&x| (1e-3..1e3).contains(&x)), "{z0}");
+        }
+    }
+
+    /// Sweep `iv` from node `from`, where (u, w) = (u0, z0 u0) (`u0` = 2.5: not normalised),
+    /// over the pressures 2e5 `scale` (1 - j / n)^2 Pa on a Pfeiffer stack (K1 = 5 kPa, K2 = 50,
+    /// E_t = 5 GPa), and check it against the Riccati chain and the generic build; returns u.
+    fn sweep_against_riccati(
+        iv: &mut Intervals,
+        (z0, u0): (f64, f64),
+        (scale, from): (f64, usize),
+    ) -> Vec<f64> {
+        let (k1, k2, e_t) = (5e3, 50.0, 5e9);
+        let stack = Stack::Pfeiffer { k1_pa: k1, k2 };
+        let nodes = iv.tau.len() + 1;
+        let p: Vec<f64> = (0..nodes)
+            .map(|j| scale * 2e5 * (1.0 - j as f64 / nodes as f64).powi(2))
+            .collect();
+        let (mut u, mut w) = (vec![0.0; nodes], vec![0.0; nodes]);
+        (u[from], w[from]) = (u0, z0 * u0);
+        // the generic build, from the same state, for the bits below
+        let (mut any, mut ua, mut wa) = (iv.clone(), u.clone(), w.clone());
+        let top = iv.sweep((e_t, stack), from, &p[from..], (&mut u, &mut w));
+        let top_any = any.sweep_any((e_t, stack), from, &p[from..], (&mut ua, &mut wa));
+        assert_eq!(top.to_bits(), top_any.to_bits());
+        for j in from..nodes - 1 {
+            assert_eq!(iv.rho[j].to_bits(), any.rho[j].to_bits());
+            assert_eq!(u[j + 1].to_bits(), ua[j + 1].to_bits());
+            assert_eq!(w[j + 1].to_bits(), wa[j + 1].to_bits());
+        }
+        let z: Vec<f64> = u.iter().zip(&w).map(|(u, w)| w / u).collect();
+        let mut zr = z0;
+        for j in from..nodes - 1 {
+            let g = (e_t / stack.modulus(0.5 * (p[j] + p[j + 1]))).sqrt();
+            let tau = iv.tau[j];
+            let (rho, z1) = element(g, zr, tau, tau.exp());
+            let tol = 1e-13 * (1.0 + j as f64).sqrt();
+            assert!((iv.rho[j] / rho - 1.0).abs() < tol, "{nodes} {j}: rho");
+            assert!((z[j + 1] / z1 - 1.0).abs() < tol, "{nodes} {j}: z");
+            zr = z1;
+        }
+        assert_eq!(top, z[nodes - 1]);
+        u
     }
 }

@@ -38,7 +38,7 @@
 //! pressure changed, each decay factor as a short series from the last one computed in full while g
 //! has moved little ([`super::element`]). The stack strain behind the compressed build is updated
 //! by its change once per grid step, over the nodes the step loaded (series for small and moderate
-//! changes, no library logarithm for most nodes and steps; [`super::strain`]); the build is read
+//! changes, no library logarithm for most nodes and steps; `super::strain`); the build is read
 //! only between grid steps.
 
 use super::element::Intervals;

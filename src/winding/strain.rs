@@ -1,5 +1,6 @@
 //! The stack's compressive strain as the pressure on it changes, for the accretion
-//! ([`super::hakiel`]): by its change per increment, in a pass over the nodes a step loaded.
+//! ([`super::hakiel`]): by its change since it was last brought up to date, once per grid step,
+//! in a pass over the nodes the step loaded.
 
 use crate::case::Stack;
 
@@ -55,7 +56,7 @@ fn ln_1p_near(x: f64) -> f64 {
 }
 
 /// The strain changes `de` of nodes whose pressure was `was` (Pa) and whose radial stress is
-/// now `sr` (Pa, compression negative), each as [`change`] gives it; `was` becomes the present
+/// now `sr` (Pa, compression negative), each as `change` gives it; `was` becomes the present
 /// pressure -`sr`. For the Pfeiffer law x is found for every node in one pass (which
 /// vectorises), then the logarithm: by its series alone, in a pass that vectorises too, when no
 /// node is beyond the series' span.
@@ -179,5 +180,27 @@ mod tests {
         }
         let law = (1.0 + 2e5 / 5e3f64).ln() / 50.0;
         assert!((total / law - 1.0).abs() < 1e-12, "{total} vs {law}");
+    }
+
+    /// On a constant radial modulus the change is the difference of Hooke's strains P / E_r
+    /// (zero in tension), in both builds to the bit.
+    #[test]
+    fn a_constant_stack_changes_by_hookes_law() {
+        let e_r = 2e7;
+        let stack = Stack::Constant {
+            radial_modulus_pa: e_r,
+        };
+        let was0 = [0.0, 1e3, 2e5, -5e2];
+        let sr = [-1e3, -3e3, -1e5, 1e3];
+        let (mut was, mut de) = (was0, [0.0; 4]);
+        changes(&stack, &mut was, &sr, &mut de);
+        let (mut was_any, mut de_any) = (was0, [0.0; 4]);
+        changes_any(&stack, &mut was_any, &sr, &mut de_any);
+        for k in 0..4 {
+            let want = (-sr[k]).max(0.0) / e_r - was0[k].max(0.0) / e_r;
+            assert!((de[k] - want).abs() <= 1e-18, "{k}: {} vs {want}", de[k]);
+            assert_eq!(de[k].to_bits(), de_any[k].to_bits(), "{k}");
+            assert_eq!(was[k], -sr[k]);
+        }
     }
 }
