@@ -119,11 +119,14 @@ fn a_unit_slip_in_tension_is_refused_not_a_hang() {
 /// A stack law so soft that the wound layers would be squeezed past their own thickness
 /// (Pfeiffer's strain ln(1 + P/K1)/K2 passes 1 at the roll's MPa pressures when K2 is a few;
 /// paper's K2 is 20 to 100, Pfeiffer 1981, from memory) is refused naming the stack, not blamed
-/// on the tension.
+/// on the tension. K2 = 3 and 4 are refused by every build of the winding so far; between about
+/// 5 and 11 on this roll the secant may instead end at a state whose stack is compressed past the
+/// sheet's void content, which is then warned as not physical (`limits`), and which of the two
+/// happens there moves with the last bits of the winding (8 was refused before 2026-12-04).
 #[test]
 fn a_stack_squeezed_to_nothing_is_refused_naming_the_stack() {
     let d = tempfile::tempdir().unwrap();
-    for k2 in ["3", "8"] {
+    for k2 in ["3", "4"] {
         let case = write(
             d.path(),
             "t.yaml",
@@ -132,6 +135,19 @@ fn a_stack_squeezed_to_nothing_is_refused_naming_the_stack() {
         let r = run(&["stress", s(&case)]);
         refused(&r, &["t.yaml: ", "material.stack", "100 %"]);
         assert!(!r.stderr.contains("no web strain"), "{}", r.stderr);
+    }
+    // in the band between, refused or warned, never silent
+    for k2 in ["5", "8", "10"] {
+        let soft = d.path().join(format!("k{k2}.yaml"));
+        std::fs::write(&soft, DEMO.replacen("k2: 50 }", &format!("k2: {k2} }}"), 1)).unwrap();
+        let r = run(&["stress", s(&soft)]);
+        assert!(
+            (r.code == 2 && r.stderr.contains("material.stack"))
+                || (r.code == 0 && r.stderr.contains("not physical")),
+            "K2 = {k2}: exit {}: {}",
+            r.code,
+            r.stderr
+        );
     }
     // triage names the file a model error came from
     let r = run(&["triage", "--width", "200", s(&d.path().join("t.yaml"))]);

@@ -335,27 +335,32 @@ impl LaneState {
         de.clear();
         de.resize(n - lo, 0.0);
         strain::changes(&m.stack, &mut self.ap[lo..], &self.asr[lo..], &mut de);
-        for (j, &d) in (lo..n).zip(&de) {
-            self.aeps[j] += d;
-            let (hi, below) = (self.ar[(j + 1).min(n - 1)], self.ar[j.saturating_sub(1)]);
-            self.build -= 0.5 * d * (hi - below);
+        for (e, &d) in self.aeps[lo..].iter_mut().zip(&de) {
+            *e += d;
         }
+        self.build -= 0.5 * strain::weighted(&de, &self.ar, lo);
         self.pbuf = de;
     }
 
     /// Element ratios of the intervals from node `from` up to node `to`, with the pressure at node
-    /// i given by `p` (Pa, positive in compression) and each element's modulus at its mid
-    /// pressure; returns the load factor and the pressure at `to`.
+    /// i (Pa, positive in compression) half way through the step: -(sigma_r + half the
+    /// increment), the increment being the deep part's last one (`deep`) or the zone's predicted
+    /// one, counted from node `cut` up; each element's modulus is at its mid pressure. Returns
+    /// the load factor and the pressure at `to`.
     fn sweep(
         &mut self,
         m: &LaneModel,
-        from: usize,
-        to: usize,
-        p: impl Fn(&Self, usize) -> f64,
+        (from, to): (usize, usize),
+        (deep, cut): (bool, usize),
     ) -> (f64, f64) {
         let mut buf = std::mem::take(&mut self.pbuf);
         buf.clear();
-        buf.extend((from..=to).map(|i| p(self, i)));
+        // pressure -(sigma_r + half the increment), the increment counted from `cut` up
+        let half = if deep { &self.last } else { &self.s };
+        let k0 = cut.clamp(from, to + 1);
+        buf.extend(self.asr[from..k0].iter().map(|&a| -(a + 0.0)));
+        let rest = self.asr[k0..=to].iter().zip(&half[k0..=to]);
+        buf.extend(rest.map(|(&a, &h)| -(a + 0.5 * h)));
         let zj = self
             .iv
             .sweep((m.e_t, m.stack), from, &buf, (&mut self.au, &mut self.aw));
@@ -368,11 +373,7 @@ impl LaneState {
     /// through the step as estimated from the last step's increment.
     fn deep_sweep(&mut self, m: &LaneModel) {
         let (from, b, dcut) = (self.fresh.min(self.b), self.b, self.dcut);
-        let p = |st: &Self, i: usize| -> f64 {
-            let half = if i >= dcut { 0.5 * st.last[i] } else { 0.0 };
-            -(st.asr[i] + half)
-        };
-        self.sweep(m, from, b, p);
+        self.sweep(m, (from, b), (true, dcut));
     }
 
     /// Carry the load that reached the zone bottom through the deep part, recording the
@@ -398,11 +399,7 @@ impl LaneState {
     /// pressure (Pa) at `top`.
     fn zone_sweep(&mut self, m: &LaneModel, top: usize) -> (f64, f64) {
         let (b, cut) = (self.b, self.zcut);
-        let p = |st: &Self, i: usize| -> f64 {
-            let half = if i >= cut { 0.5 * st.s[i] } else { 0.0 };
-            -(st.asr[i] + half)
-        };
-        self.sweep(m, b, top, p)
+        self.sweep(m, (b, top), (false, cut))
     }
 
     /// The predictor's ratios: those below the surface node `top` as the last sub-step's
