@@ -34,8 +34,7 @@ fn element(g: f64, z0: f64, tau: f64, grow: f64) -> (f64, f64) {
 /// and phi_in / phi_out = e^tau e1 u / u1. Returns (u1, w1). The Riccati form z1 = g (z + g
 /// th) / (g + z th) (th = tanh g tau) is the same map on z, but each step waits on a division;
 /// here the chain from one interval to the next is two products and a sum for each of u and w
-/// (nothing fused), and the division for the
-/// ratio stands aside from it.
+/// (nothing fused), and the division for the ratio stands aside from it.
 #[inline(always)]
 fn rotate((g, ig, e1): (f64, f64, f64), u: f64, w: f64) -> (f64, f64) {
     let e2 = e1 * e1;
