@@ -6,8 +6,8 @@
 use std::ops::{Add, AddAssign, Div, Mul, Neg, Sub};
 
 /// Environment variable that keeps every kernel on its generic build when set, to any value
-/// (even empty or 0): for
-/// checking that the AVX2 builds give the same bits (`tests/vector_width.rs`).
+/// (even empty or 0): for checking that the AVX2 builds give the same bits
+/// (`tests/vector_width.rs`).
 pub const GENERIC_ENV: &str = "ROLLSLEUTH_GENERIC";
 
 /// Whether the kernels built for AVX2 may run: the processor has AVX2 and [`GENERIC_ENV`] is

@@ -175,7 +175,7 @@ pub fn stress(
         winding::Options {
             nodes,
             levelling,
-            spacing: winding::Spacing::Geometric,
+            ..winding::Options::default()
         },
     )?;
     let s = out.pick(

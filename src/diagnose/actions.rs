@@ -59,7 +59,7 @@ impl Scenario {
         Options {
             nodes,
             levelling: self.levelling,
-            spacing: crate::winding::Spacing::Geometric,
+            ..Options::default()
         }
     }
 

@@ -120,11 +120,16 @@ impl Intervals {
         if x.abs() <= SERIES_SPAN {
             self.e_ref[j] * exp_small(x)
         } else {
-            let e = (-g * self.tau[j]).exp();
-            self.g_ref[j] = g;
-            self.e_ref[j] = e;
-            e
+            self.refresh(j, g)
         }
+    }
+
+    /// The decay factor e^(-g tau) of interval `j` computed in full, and made its reference.
+    fn refresh(&mut self, j: usize, g: f64) -> f64 {
+        let e = (-g * self.tau[j]).exp();
+        self.g_ref[j] = g;
+        self.e_ref[j] = e;
+        e
     }
 
     /// The element of interval `j` at `g` from (u, w) at its inner end: stores the ratio,
@@ -223,7 +228,7 @@ impl Intervals {
             for k in 0..n {
                 let (j, g) = (from + k, self.g[k]);
                 if !((self.g_ref[j] - g) * self.tau[j]).abs().le(&SERIES_SPAN) {
-                    self.e[k] = self.decay(j, g);
+                    self.e[k] = self.refresh(j, g);
                 }
             }
         }

@@ -143,7 +143,8 @@ pub struct LaneState {
     last: Vec<f64>,
     /// Active intervals.
     iv: Intervals,
-    /// Pressures (Pa) at the nodes of the sweep in hand.
+    /// Scratch: the pressures (Pa) at the nodes of the sweep in hand, or the strain changes of
+    /// [`Self::strains`].
     pbuf: Vec<f64>,
     /// Active index of the zone's bottom node (a grid node).
     b: usize,
@@ -358,7 +359,7 @@ impl LaneState {
         // pressure -(sigma_r + half the increment), the increment counted from `cut` up
         let half = if deep { &self.last } else { &self.s };
         let k0 = cut.clamp(from, to + 1);
-        buf.extend(self.asr[from..k0].iter().map(|&a| -(a + 0.0)));
+        buf.extend(self.asr[from..k0].iter().map(|&a| -a));
         let rest = self.asr[k0..=to].iter().zip(&half[k0..=to]);
         buf.extend(rest.map(|(&a, &h)| -(a + 0.5 * h)));
         let zj = self
