@@ -58,8 +58,9 @@ pub struct Series {
     pub errors: Option<f64>,
     pub line: Line,
     pub marker: Marker,
-    /// Draw the marker at every n-th point (1: every point).
-    pub marker_step: usize,
+    /// Markers: `None` at every point, `Some(n)` at about n points spread evenly along the x
+    /// axis (staggered between series).
+    pub marker_count: Option<usize>,
     pub color: RGBColor,
 }
 
@@ -404,14 +405,10 @@ where
             + Cross::new((11, 0), 4, m(Marker::Cross).stroke_width(2))
     });
     // markers of successive series are staggered so that coinciding curves stay visible
-    let step = s.marker_step.max(1);
-    let marks: Vec<(f64, f64)> = s
-        .points
-        .iter()
-        .skip((si * step / 3) % step)
-        .step_by(step)
-        .copied()
-        .collect();
+    let marks = match s.marker_count {
+        Some(n) => super::marks::spread(&s.points, n, si),
+        None => s.points.clone(),
+    };
     draw_marker(chart, &marks, s.marker, s.color)
 }
 

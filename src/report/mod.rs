@@ -17,6 +17,7 @@ pub mod files;
 pub mod fit_view;
 pub mod html;
 pub mod markdown;
+mod marks;
 mod note_words;
 pub mod plots;
 pub mod report_data;

@@ -18,7 +18,7 @@ fn series(label: impl Into<String>, points: Vec<(f64, f64)>) -> Series {
         errors: None,
         line: Line::Solid,
         marker: Marker::None,
-        marker_step: 1,
+        marker_count: None,
         color: PALETTE[0],
     }
 }
@@ -272,7 +272,7 @@ pub fn stress(r: &ReportData) -> Vec<Plot> {
                 );
                 s.line = line;
                 s.marker = MARKERS[k % MARKERS.len()];
-                s.marker_step = (curve.len() / 8).max(1);
+                s.marker_count = Some(8);
                 s.color = PALETTE[k % PALETTE.len()];
                 v.push(s);
             }
