@@ -294,11 +294,7 @@ impl LaneState {
             self.build += r_new - self.ar[top];
             self.iv.push(tau_new, plan.grow[i - 1]);
             self.push_node(r_new, sigma_w, if i == self.sub { k } else { usize::MAX });
-            for j in self.zcut..=top {
-                let sj = self.s[j];
-                self.load(j, sj);
-                self.last[j] += sj;
-            }
+            self.load_zone(top);
             if self.zcut == b {
                 load_b += self.s[b];
             }
@@ -322,6 +318,24 @@ impl LaneState {
         if j == 0 {
             // exact at the core (z = 1 + kappa); elsewhere sigma_t comes from equilibrium
             self.ast[0] += s * self.aw[0];
+        }
+    }
+
+    /// Add the zone's increment (from [`Self::zcut`] up to the surface node `top`) to the
+    /// stresses and to the grid step's increment, as [`Self::load`] node by node would.
+    fn load_zone(&mut self, top: usize) {
+        let lo = self.zcut;
+        let s = &self.s[lo..=top];
+        for ((a, l), &sj) in self.asr[lo..=top]
+            .iter_mut()
+            .zip(&mut self.last[lo..=top])
+            .zip(s)
+        {
+            *a += sj;
+            *l += sj;
+        }
+        if lo == 0 {
+            self.ast[0] += self.s[0] * self.aw[0];
         }
     }
 
