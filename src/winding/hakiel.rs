@@ -316,9 +316,15 @@ impl LaneState {
     fn load(&mut self, j: usize, s: f64) {
         self.asr[j] += s;
         if j == 0 {
-            // exact at the core (z = 1 + kappa); elsewhere sigma_t comes from equilibrium
-            self.ast[0] += s * self.aw[0];
+            self.load_core(s);
         }
+    }
+
+    /// The core node's tangential stress takes its radial increment `s` times z there, exactly
+    /// (z = 1 + kappa at the core); elsewhere sigma_t comes from equilibrium.
+    #[inline]
+    fn load_core(&mut self, s: f64) {
+        self.ast[0] += s * self.aw[0];
     }
 
     /// Add the zone's increment (from [`Self::zcut`] up to the surface node `top`) to the
@@ -335,7 +341,7 @@ impl LaneState {
             *l += sj;
         }
         if lo == 0 {
-            self.ast[0] += self.s[0] * self.aw[0];
+            self.load_core(self.s[0]);
         }
     }
 
