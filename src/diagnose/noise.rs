@@ -427,7 +427,14 @@ fn noisy_creep(lab: &Case, fit: &crate::fit::RollFit, rng: &mut ChaCha8Rng) -> V
                 pooled
             } else {
                 let d = l.draws_theta[rng.random_range(0..n)];
-                [0, 1].map(|i| pooled[i] + d[i] - l.theta[i])
+                // a scale pinned to the roll's value moves with the roll, not per lane
+                [0, 1].map(|i| {
+                    if l.pinned[i] {
+                        pooled[i]
+                    } else {
+                        pooled[i] + d[i] - l.theta[i]
+                    }
+                })
             };
             creep_from(&lab.material, &t)
         })

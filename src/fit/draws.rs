@@ -1,23 +1,30 @@
-//! A lane's posterior draws carried forward: the draws (a scale pinned to the pooled value stays
-//! there), their runs through the whole of storage, and the prediction bands they give each
+//! A lane's posterior draws carried forward: the draws (a scale pinned to the pooled value takes
+//! the pooled posterior's draws), their runs through the whole of storage, and the prediction bands they give each
 //! observation.
 
 use super::lane_fit::{creep_from, LaneProblem, Residual, PACK};
 use crate::case::Material;
 use crate::storage::{age_lane_pack, LaneAged, LaneCreep, LaneRun, Track};
 
-/// Posterior draws for propagation; a scale shrunk to the pooled value stays there, as the
-/// optimum does.
+/// Posterior draws for propagation. A scale shrunk to the pooled value (`pinned`) stays with the roll's value, as the optimum does, and takes draw k of the pooled
+/// posterior (`pooled_draws`, one per draw) in draw k: every lane so pinned moves with the roll's
+/// value in the same state, so the roll-level uncertainty reaches the lanes' lengths without
+/// making lane-to-lane differences the data do not show. Without pooled draws the scale stays at
+/// the pooled optimum.
 pub(super) fn pinned_draws(
     material: &Material,
     post: &crate::fit::posterior::Posterior,
     theta: &[f64],
-    prior: [f64; 2],
+    (pinned, pooled_draws): ([bool; 2], &[[f64; 2]]),
 ) -> (Vec<LaneCreep>, Vec<[f64; 2]>) {
-    let t: Vec<[f64; 2]> = post
-        .draws
-        .iter()
-        .map(|t| [0, 1].map(|i| if theta[i] == prior[i] { prior[i] } else { t[i] }))
+    let t: Vec<[f64; 2]> = (post.draws.iter().enumerate())
+        .map(|(k, t)| {
+            [0, 1].map(|i| match (pinned[i], pooled_draws.get(k)) {
+                (true, Some(d)) => d[i],
+                (true, None) => theta[i],
+                (false, _) => t[i],
+            })
+        })
         .collect();
     (t.iter().map(|x| creep_from(material, x)).collect(), t)
 }

@@ -456,6 +456,10 @@ pub struct LaneFit {
     /// Log-scales at the optimum.
     #[serde(skip)]
     pub theta: Vec<f64>,
+    /// Each log-scale (MD, radial) set to the pooled value: it moves with the roll's value in
+    /// the draws ([`Self::draws`]).
+    #[serde(skip)]
+    pub pinned: [bool; 2],
     /// The lane's creep parameters (grade, or lab-fitted grade, times the scales).
     #[serde(skip)]
     pub creep: LaneCreep,
@@ -476,7 +480,11 @@ pub struct LaneFit {
 /// Nelder-Mead, then the posterior by quadrature on a grid ([`super::posterior::quadrature`]).
 /// A scale the data do not identify is set to the pooled value when the pooled value lies inside
 /// its one-sigma posterior interval.
-pub fn fit_lane(p: &LaneProblem, prior: [f64; 2], seed: u64) -> Result<LaneFit, SolverError> {
+pub fn fit_lane(
+    p: &LaneProblem,
+    (prior, pooled_draws): ([f64; 2], &[[f64; 2]]),
+    seed: u64,
+) -> Result<LaneFit, SolverError> {
     let lanes = std::slice::from_ref(p);
     let obj = Objective {
         lanes,
@@ -493,13 +501,11 @@ pub fn fit_lane(p: &LaneProblem, prior: [f64; 2], seed: u64) -> Result<LaneFit, 
         post.sd[i] < PRIOR_SD_LN * std::f64::consts::FRAC_1_SQRT_2
             && cov_data.is_some_and(|c| c[i][i].sqrt() < PRIOR_SD_LN)
     };
-    let mut theta = m.theta.clone();
-    for (i, t) in theta.iter_mut().enumerate() {
-        // shrink to the pooled value when the data cannot tell it apart from the optimum
-        if !ident(i) && (post.low[i]..=post.high[i]).contains(&prior[i]) {
-            *t = prior[i];
-        }
-    }
+    // shrink to the pooled value when the data cannot tell it apart from the optimum
+    let pinned = [0, 1].map(|i| !ident(i) && (post.low[i]..=post.high[i]).contains(&prior[i]));
+    let theta: Vec<f64> = (0..2)
+        .map(|i| if pinned[i] { prior[i] } else { m.theta[i] })
+        .collect();
     let a = p.simulate(&theta).ok_or(SolverError::ModelFailed)?;
     let mut residuals = residuals(p, &a);
     let final_cost = obj.value_from_run(&theta, a);
@@ -511,7 +517,8 @@ pub fn fit_lane(p: &LaneProblem, prior: [f64; 2], seed: u64) -> Result<LaneFit, 
     };
     let (smd, sr) = (theta[0].exp(), theta[1].exp());
     let c = creep_from(p.material, &theta);
-    let (draws, draws_theta) = super::draws::pinned_draws(p.material, &post, &theta, prior);
+    let (draws, draws_theta) =
+        super::draws::pinned_draws(p.material, &post, &theta, (pinned, pooled_draws));
     let draw_runs = super::draws::draw_runs(p, &draws);
     super::draws::prediction_bands(p, &draws_theta, draw_runs.as_deref(), &mut residuals);
     Ok(LaneFit {
@@ -546,6 +553,7 @@ pub fn fit_lane(p: &LaneProblem, prior: [f64; 2], seed: u64) -> Result<LaneFit, 
         start_cost: m.start_cost,
         final_cost,
         theta,
+        pinned,
         creep: c,
         draws,
         draws_theta,

@@ -134,6 +134,12 @@ pub struct RollFit {
     pub lanes: Vec<LaneFit>,
     pub pooled_md_creep_scale: f64,
     pub pooled_radial_creep_scale: f64,
+    /// One-sigma range (15.87 % and 84.13 % quantiles) of the pooled scales' posterior: what a
+    /// scale no lane's data identify carries into the lanes' lengths ([`LaneFit::draws`]).
+    pub pooled_md_creep_scale_low: f64,
+    pub pooled_md_creep_scale_high: f64,
+    pub pooled_radial_creep_scale_low: f64,
+    pub pooled_radial_creep_scale_high: f64,
     pub pooled_converged: bool,
     /// Stress-free MD strain at unwind per lane (outer third of the web), with fitted parameters.
     pub strain_at_unwind: Vec<f64>,
@@ -241,12 +247,12 @@ pub fn fit_roll(
         .enumerate()
         .map(|(i, o)| LaneProblem::new(&case.material, wound, &prep, &map, i, o))
         .collect();
-    let (pooled, pooled_evaluations) = pooled_fit(&problems)?;
+    let (pooled, pooled_post, pooled_evaluations) = pooled_fit(&problems, &case.id)?;
     let prior = [pooled.theta[0], pooled.theta[1]];
     let contradictions =
         contradict::contradictions(&problems, &prior, &lanes.positions(), &lanes.widths());
     notes.extend(contradiction_notes(&contradictions));
-    let (fits, lane_evaluations) = lane_fits(&problems, prior, &case.id)?;
+    let (fits, lane_evaluations) = lane_fits(&problems, (prior, &pooled_post.draws), &case.id)?;
     if problems.iter().all(|p| p.steps == 0) {
         notes.push(Note::OneAge);
     }
@@ -262,6 +268,10 @@ pub fn fit_roll(
         lanes: fits,
         pooled_md_creep_scale: prior[0].exp(),
         pooled_radial_creep_scale: prior[1].exp(),
+        pooled_md_creep_scale_low: pooled_post.low[0].exp(),
+        pooled_md_creep_scale_high: pooled_post.high[0].exp(),
+        pooled_radial_creep_scale_low: pooled_post.low[1].exp(),
+        pooled_radial_creep_scale_high: pooled_post.high[1].exp(),
         pooled_converged: pooled.converged,
         strain_at_unwind: strain,
         spread_strain,
@@ -317,9 +327,18 @@ fn contradiction_notes(found: &[contradict::Contradiction]) -> Vec<Note> {
     notes
 }
 
+/// Seed offset of the pooled posterior's draws (distinct from any lane index).
+const POOLED_SEED_LANE: usize = 1 << 21;
+
 /// The pooled fit of one pair of scales on up to six evenly spread lanes, with a prior towards
-/// the grade; returns the minimum and its lane simulations.
-fn pooled_fit(problems: &[LaneProblem]) -> Result<(Minimum, u64), FitError> {
+/// the grade; returns the minimum, its posterior (on a grid, as a lane's: [`posterior`]) and
+/// their lane simulations. The posterior's draws are what a scale the lane's own data do not
+/// identify takes in each state: the roll's value is itself only as sure as its data (with no
+/// later survey, as the grade prior).
+fn pooled_fit(
+    problems: &[LaneProblem],
+    case_id: &str,
+) -> Result<(Minimum, posterior::Posterior, u64), FitError> {
     let n = problems.len();
     let pick: Vec<usize> = if n <= 6 {
         (0..n).collect()
@@ -339,8 +358,11 @@ fn pooled_fit(problems: &[LaneProblem]) -> Result<(Minimum, u64), FitError> {
         prior_sd: POOLED_PRIOR_SD_LN,
     };
     let m = minimise(&obj, [0.0, 0.0]).map_err(FitError::Pooled)?;
-    let evaluations = m.evaluations * sample.len() as u64;
-    Ok((m, evaluations))
+    let h = hessian2(&|t| obj.values(t), &m.theta, m.cost, 0.05);
+    let seed = posterior::seed_for(case_id, POOLED_SEED_LANE);
+    let post = posterior::quadrature(&obj, (&m.theta, m.cost), h, POOLED_PRIOR_SD_LN, seed);
+    let evaluations = (m.evaluations + 8 + post.evaluations) * sample.len() as u64;
+    Ok((m, post, evaluations))
 }
 
 /// Each lane's fit with a prior towards the pooled log-scales, its pseudo-draws seeded from the case id
@@ -351,7 +373,7 @@ fn pooled_fit(problems: &[LaneProblem]) -> Result<(Minimum, u64), FitError> {
 /// depend on the number of threads.
 fn lane_fits(
     problems: &[LaneProblem],
-    prior: [f64; 2],
+    prior: ([f64; 2], &[[f64; 2]]),
     case_id: &str,
 ) -> Result<(Vec<LaneFit>, u64), FitError> {
     use rayon::prelude::*;

@@ -17,12 +17,16 @@ pub fn tables(r: &ReportData, v: &mut Vec<Block>) {
     let fit = &r.fitted.fit;
     v.push(Block::Heading(2, "Lanes and fit".into(), "lanes"));
     v.push(Block::Para(vec![t(format!(
-        "Creep fitted per lane to the measured hardness (repeatability {} {}) and diameter (repeatability {}); fit rmse is in units of the repeatability (1 = measurement noise). Pooled creep scales: MD {:.2}, radial {:.2}.",
+        "Creep fitted per lane to the measured hardness (repeatability {} {}) and diameter (repeatability {}); fit rmse is in units of the repeatability (1 = measurement noise). Pooled creep scales (1-sigma range): MD {:.2} ({:.2}-{:.2}), radial {:.2} ({:.2}-{:.2}).",
         units::sig(fit.noise.hardness, 3),
         r.case.hardness.scale,
         q(fit.noise.diameter_m, Kind::Length, r.sys),
         fit.pooled_md_creep_scale,
+        fit.pooled_md_creep_scale_low,
+        fit.pooled_md_creep_scale_high,
         fit.pooled_radial_creep_scale,
+        fit.pooled_radial_creep_scale_low,
+        fit.pooled_radial_creep_scale_high,
     ))]));
     v.push(lane_table(r));
     v.push(Block::Heading(2, "Features".into(), "features"));

@@ -20,9 +20,13 @@ pub fn text(c: &Case, lanes: &Lanes, f: &RollFit, sys: System) -> String {
     );
     let _ = writeln!(
         out,
-        "Roll values (pooled): MD creep scale {:.2}, radial creep scale {:.2}{}; each lane drawn towards them with a prior of a factor {:.1} (1 sigma).",
+        "Roll values (pooled): MD creep scale {:.2} ({:.2}-{:.2}), radial creep scale {:.2} ({:.2}-{:.2}){}; each lane drawn towards them with a prior of a factor {:.1} (1 sigma); a scale a lane's data do not identify stays at the roll's value and carries its range.",
         f.pooled_md_creep_scale,
+        f.pooled_md_creep_scale_low,
+        f.pooled_md_creep_scale_high,
         f.pooled_radial_creep_scale,
+        f.pooled_radial_creep_scale_low,
+        f.pooled_radial_creep_scale_high,
         if f.pooled_converged { "" } else { " (pooled fit hit its iteration limit)" },
         f.prior_sd_ln.exp()
     );
@@ -134,6 +138,10 @@ pub fn json(c: &Case, f: &RollFit) -> Value {
         })).collect::<Vec<_>>(),
         "pooled_md_creep_scale": f.pooled_md_creep_scale,
         "pooled_radial_creep_scale": f.pooled_radial_creep_scale,
+        "pooled_md_creep_scale_low": f.pooled_md_creep_scale_low,
+        "pooled_md_creep_scale_high": f.pooled_md_creep_scale_high,
+        "pooled_radial_creep_scale_low": f.pooled_radial_creep_scale_low,
+        "pooled_radial_creep_scale_high": f.pooled_radial_creep_scale_high,
         "spread_strain": f.spread_strain,
         "spread_mm_per_m": f.spread_mm_per_m,
         "prior_sd_ln": f.prior_sd_ln,

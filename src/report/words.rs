@@ -254,7 +254,7 @@ pub fn note(n: &Note) -> String {
             if converged { "" } else { " (lab-curve fit hit its iteration limit)" }
         ),
         Note::PosteriorCut { lanes, position_m } => posterior_cut(lanes, position_m),
-        Note::OneAge => "all measurements are at one age: creep parameters cannot be identified and stay at the roll's prior (grade values)".into(),
+        Note::OneAge => format!("all measurements are at one age: creep parameters cannot be identified and stay at the roll's prior (grade values, within a factor of {:.0} at one sigma); the lanes' lengths at unwind and the findings' probabilities carry that width", crate::fit::POOLED_PRIOR_SD_LN.exp()),
         Note::DiameterWithoutReference { age_s } => format!(
             "diameter profile at {:.0} d has no winding-time diameter to compare with; not used in the fit",
             age_s / DAY_S
