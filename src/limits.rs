@@ -258,6 +258,23 @@ pub fn air_floats(case: &crate::case::Case) -> Vec<Note> {
     }
 }
 
+/// The converting tension's running stress (tension over caliper) against the web's MD tensile
+/// strength: a web at its strength breaks as it is unwound. The swing of an out-of-round roll
+/// comes on top of it (the `out-of-round-break` rule looks at that, from half the strength up).
+pub fn unwind_tension(case: &crate::case::Case) -> Vec<Note> {
+    let m = &case.material;
+    let stress_pa = case.converting_tension_n_per_m / m.caliper_m;
+    let strength_pa = m.strength.md_tensile_pa;
+    if strength_pa > 0.0 && stress_pa >= strength_pa {
+        vec![Note::Limit(Limit::UnwindTension {
+            stress_pa,
+            strength_pa,
+        })]
+    } else {
+        Vec::new()
+    }
+}
+
 /// Loose outer wraps: cells of a lane's outer half that a storage step held at zero interlayer
 /// pressure ([`crate::storage::LaneAged`]`::loose_outer_depth_m`); a note naming the deepest.
 fn loose_outer_wraps(a: &Aged) -> Option<Note> {

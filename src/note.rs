@@ -90,6 +90,9 @@ pub enum Note {
         /// level a finding needs (5 % over the features tested).
         noise_chance: f64,
         level: f64,
+        /// Which test gave the chance: the feature's own noise rolls (whose bound `threshold`
+        /// is), or a test of the profile readings themselves.
+        basis: NoiseBasis,
     },
     /// A finding that comes from the lanes' caliper (and tension or moisture) profiles alone,
     /// while those profiles do not stand above what measurement noise alone makes: no finding
@@ -277,6 +280,14 @@ pub enum Limit {
         film_m: f64,
         roughness_m: f64,
     },
+    /// The converting tension alone stresses the web at unwind to its MD tensile strength or
+    /// beyond: the web breaks as it is pulled off the roll.
+    UnwindTension {
+        /// Running web stress (converting tension over caliper), Pa.
+        stress_pa: f64,
+        /// MD tensile strength, Pa.
+        strength_pa: f64,
+    },
     /// A lane's predicted hardness falls below zero, the bottom of any hardness scale: the
     /// surface zone has almost no interlayer pressure, where the log map from pressure to
     /// hardness no longer holds.
@@ -329,6 +340,18 @@ pub enum Strength {
     MdTension,
     /// Interlayer pressure on the core against the core's collapse pressure.
     CoreCollapse,
+}
+
+/// Which test decided whether a finding stands above measurement noise.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum NoiseBasis {
+    /// The deciding feature over the noise-only rolls (Student-t prediction bound).
+    NoiseRolls,
+    /// The caliper readings themselves (the band test: the highest reading over the median).
+    CaliperReadings,
+    /// The web's tension or moisture profile at winding (the web-profile test).
+    WebProfile,
 }
 
 /// Append the notes of `more` that `notes` does not hold yet, in order.

@@ -154,3 +154,53 @@ fn a_roll_inside_every_limit_is_diagnosed_without_a_warning() {
     let w = rollsleuth::report::words::warnings(&d);
     assert!(w.is_empty(), "{w:?}");
 }
+
+/// A converting tension that alone stresses the web beyond its MD tensile strength breaks the web
+/// at unwind (the tensile strength is the stress at break: ISO 1924-2 defines it per width, so
+/// the stress is the tension over the caliper). The demo's newsprint, 4.5 kN/m over its caliper,
+/// is past its 40 MPa default strength; every command that runs the roll to unwind says so.
+#[test]
+fn every_command_warns_when_the_converting_tension_breaks_the_web() {
+    let set = "converting.tension=4.5 kN/m";
+    for cmd in ["age", "fit", "diagnose", "whatif"] {
+        let (code, _, err) = run(&[cmd, "--set", set]);
+        assert!(code <= 1, "{cmd}: {err}");
+        assert!(err.contains("the web breaks"), "{cmd} text: {err}");
+        let (_, out, _) = run(&[cmd, "--json", "--set", set]);
+        let v: serde_json::Value = serde_json::from_str(&out).expect(cmd);
+        assert!(
+            v["warnings"].to_string().contains("the web breaks"),
+            "{cmd} JSON: {}",
+            v["warnings"]
+        );
+    }
+    let (_, _, err) = run(&["diagnose"]);
+    assert!(!err.contains("the web breaks"), "{err}");
+}
+
+/// `whatif` runs two rolls, and each one's limits are its own: the measured Harrowgate roll's
+/// loose outer wraps (its one warning, above) and the changed roll's winding above lift-off
+/// both show, each saying which roll it is about, in the text and in the JSON. Like `diagnose`,
+/// it exits 1 while the changed roll still has likely defects, and its JSON carries the safety
+/// note.
+#[test]
+fn whatif_warns_for_both_rolls_and_says_which() {
+    let h = "field_cases/harrowgate_board_dry_store.yaml";
+    let (code, out, err) = run(&["whatif", h, "--set", FAST]);
+    assert_eq!(code, 1, "{out}");
+    // warnings go to standard error, wrapped to the table width: each warning, its lines joined
+    let flat = err.split_whitespace().collect::<Vec<_>>().join(" ");
+    let line = |tag: &str, what: &str| {
+        (flat.split("warning: ").skip(1))
+            .any(|w| w.starts_with(&format!("{tag}: ")) && w.contains(what))
+    };
+    assert!(line("as measured", "outer wraps"), "{err}");
+    assert!(line("as changed", "lift-off"), "{err}");
+    let (_, out, _) = run(&["whatif", "--json", h, "--set", FAST]);
+    let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+    let has = |k: &str, what: &str| v[k].to_string().contains(what);
+    assert!(has("warnings_before", "loose") && !has("warnings_before", "lift-off"));
+    assert!(has("warnings_after", "lift-off"));
+    assert!(has("warnings", "as measured: ") && has("warnings", "as changed: "));
+    assert!(v["safety"].as_str().unwrap().contains("qualified people"));
+}

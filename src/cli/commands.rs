@@ -255,7 +255,12 @@ pub fn whatif(arg: &CaseArg, rules: &RulesArg, out: Output) -> Result<Outcome, C
     } else {
         report::whatif_text(&w, out.sys)?
     };
-    Ok(Outcome::Ok(s))
+    // exit 1 as diagnose does: the changed roll still has likely defects
+    Ok(if w.defects_after.is_empty() {
+        Outcome::Ok(s)
+    } else {
+        Outcome::Findings(s)
+    })
 }
 
 /// `rules features`.

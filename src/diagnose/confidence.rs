@@ -58,7 +58,7 @@ pub use super::profile_test::BAND_DRAWS;
 use super::{DiagnoseError, Finding, Fitted};
 use crate::case::{Case, Measure};
 use crate::fit::{posterior, prepared, with_lab_creep, FitError};
-use crate::note::Note;
+use crate::note::{NoiseBasis, Note};
 use crate::rules::{Rule, Table};
 use crate::storage::{age_prepared, AgeOptions, Aged, LaneAged, LaneCreep};
 use crate::vocab::{Feature, FeatureValues, Likelihood};
@@ -168,6 +168,8 @@ struct NoiseTest<'a> {
     chance: f64,
     /// Level the chance must not exceed: [`FAMILY_LEVEL`] over the number of features tested.
     level: f64,
+    /// The test that gave `chance`.
+    basis: NoiseBasis,
 }
 
 impl NoiseTest<'_> {
@@ -197,6 +199,7 @@ fn noise_test<'a>(r: &Rule, feats: &Features, fl: &'a Floor) -> NoiseTest<'a> {
             own: true,
             chance: 0.0,
             level,
+            basis: NoiseBasis::NoiseRolls,
         };
     };
     // a rule that rests on the caliper profile (thick lanes long, a caliper range, or a diameter
@@ -220,19 +223,21 @@ fn noise_test<'a>(r: &Rule, feats: &Features, fl: &'a Floor) -> NoiseTest<'a> {
         Some(w) if r.when.iter().any(rests_on_web) => w.chance,
         Some(_) | None => 1.0,
     };
-    let chance = if c.feature == Feature::CaliperRangePct {
-        fl.band.chance
-    } else if on_caliper {
-        fl.band.chance.min(own_chance)
-    } else {
-        own_chance.min(web_chance)
-    };
+    let (chance, basis) =
+        if c.feature == Feature::CaliperRangePct || (on_caliper && fl.band.chance < own_chance) {
+            (fl.band.chance, NoiseBasis::CaliperReadings)
+        } else if !on_caliper && web_chance < own_chance {
+            (web_chance, NoiseBasis::WebProfile)
+        } else {
+            (own_chance, NoiseBasis::NoiseRolls)
+        };
     NoiseTest {
         floor: Some(x),
         side,
         own: c.holds(x.uniform),
         chance,
         level,
+        basis,
     }
 }
 
@@ -263,6 +268,7 @@ fn drop_below_floor(
                 threshold: x.threshold(t.side),
                 noise_chance: t.chance,
                 level: t.level,
+                basis: t.basis,
             });
         }
         false

@@ -29,11 +29,17 @@ pub struct WhatIf {
     pub defects_before: Vec<Defect>,
     pub defects_after: Vec<Defect>,
     /// The changed roll's own case warnings, and the physical limits its winding or storage
-    /// passed (in words in the views' `warnings`).
+    /// passed (in words in the views' `warnings`). Its wound diameters are not held against the
+    /// measured roll's diameter profile: the change is what moves them.
     #[serde(skip)]
     pub case_warnings: Vec<String>,
     #[serde(skip)]
     pub notes: Vec<crate::note::Note>,
+    /// The same for the roll as measured.
+    #[serde(skip)]
+    pub case_warnings_before: Vec<String>,
+    #[serde(skip)]
+    pub notes_before: Vec<crate::note::Note>,
 }
 
 /// Compare a case with a variant of it. The variant's lanes are rebuilt from its own profiles
@@ -87,7 +93,12 @@ pub fn what_if(
         defects_before: defects(&fb),
         defects_after: defects(&fa),
         case_warnings: variant.warnings.clone(),
-        notes: crate::fit::limit_notes(variant, &la, &oa.wound, &oa.aged),
+        notes: crate::fit::limit_notes(variant, &la, &oa.wound, &oa.aged)
+            .into_iter()
+            .filter(|n| !matches!(n, crate::note::Note::WindingDiameter(_)))
+            .collect(),
+        case_warnings_before: base.warnings.clone(),
+        notes_before: crate::fit::limit_notes(base, &lb, &ob.wound, &ob.aged),
     })
 }
 

@@ -114,6 +114,7 @@ pub(crate) fn limit_notes(
     found.extend(crate::limits::condensation(&case.storage, &case.material));
     found.extend(crate::limits::flat_contact(case, wound));
     found.extend(crate::limits::air_floats(case));
+    found.extend(crate::limits::unwind_tension(case));
     let rep = observe::DIAMETER_REPEATABILITY_M;
     found.extend(crate::limits::against_winding_diameter(lanes, wound, rep));
     found

@@ -58,7 +58,7 @@ pub fn text(d: &Diagnosis, sys: System) -> String {
         d.rules
     );
     if d.findings.is_empty() {
-        let _ = writeln!(out, "\nNo finding: no rule fired. The roll is predicted to unwind within the rules' thresholds.");
+        let _ = writeln!(out, "\n{}", words::no_finding(d));
     }
     for (k, f) in d.findings.iter().enumerate() {
         out.push_str(&finding_text(k + 1, f, sys));

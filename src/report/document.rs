@@ -224,11 +224,7 @@ fn findings(r: &ReportData, v: &mut Vec<Block>) {
     let (d, sys) = (r.diagnosis, r.sys);
     v.push(Block::Heading(2, "Findings".into(), "findings"));
     if d.findings.is_empty() {
-        v.push(Block::Para(vec![t(if d.confidence.below_floor.is_empty() {
-            "No finding: no rule fired. The roll is predicted to unwind within the rules' thresholds."
-        } else {
-            "No finding stands above measurement noise: the rules that fired did so no more strongly than noise alone would make them (see the notes for what the measurements can resolve)."
-        })]));
+        v.push(Block::Para(vec![t(super::words::no_finding(d))]));
     }
     v.push(Block::Para(vec![t(format!(
         "Probability: the share of {} plausible states of the fitted creep (posterior draws) in which the rule holds. A finding is kept only where measurement noise alone would make it with a chance of {} % or less, shared over the features tested (compared with {} uniform rolls that differ only by noise).",

@@ -1,7 +1,7 @@
 //! Words for the notes the confidence stage and the winding-time diameter check give (split from
 //! `words` to keep each file short). Every `match` is exhaustive.
 
-use super::words::{defect, feature};
+use super::words::{defect, feature, SO};
 use crate::note::{DiameterMismatch, Note};
 use crate::units::DAY_S;
 
@@ -11,6 +11,43 @@ fn defect_name(d: crate::vocab::Defect) -> &'static str {
 
 fn feature_name(f: crate::vocab::Feature) -> &'static str {
     feature(f)
+}
+
+/// `x` shown as 0 when it is rounding residue against `scale` (a difference of equal sums).
+fn clean(x: f64, scale: f64) -> f64 {
+    if x.abs() <= 1e-9 * scale {
+        0.0
+    } else {
+        x
+    }
+}
+
+/// What it takes to stand above noise, by the test that decided: the noise rolls' bound on the
+/// feature (or that no value in the feature's range reaches it), or the profile test on the
+/// readings themselves, whose chance is not a bound on this feature.
+fn needs(
+    feature: crate::vocab::Feature,
+    (value, uniform, threshold): (f64, f64, f64),
+    basis: crate::note::NoiseBasis,
+) -> String {
+    use crate::note::NoiseBasis;
+    match basis {
+        NoiseBasis::CaliperReadings => "; judged on the caliper readings themselves (the highest reading against the median, by their repeatability), which do not stand above noise".into(),
+        NoiseBasis::WebProfile => "; judged on the web's tension or moisture profile at winding, which does not stand above noise".into(),
+        NoiseBasis::NoiseRolls => {
+            let spec = feature.spec();
+            let up = value >= uniform;
+            let reach = if up { uniform + threshold } else { uniform - threshold };
+            if reach < spec.min || reach > spec.max {
+                "; no value in its range stands above noise there".into()
+            } else {
+                format!(
+                    ", while standing above noise takes a difference of {}",
+                    crate::units::sig(threshold, 2)
+                )
+            }
+        }
+    }
 }
 
 /// A note of the diagnosis's confidence (noise floor, resolution, misfit) as a sentence.
@@ -24,16 +61,17 @@ pub(super) fn confidence_note(n: &Note) -> String {
             threshold,
             noise_chance,
             level,
+            basis,
         } => format!(
-            "{} not reported: measurement noise alone moves {} this far with a chance of {} % (a finding needs {} % or less: {} % shared over the one-sided tests); {} against a uniform roll's {}, while standing above noise takes a difference of {}",
+            "{} not reported: measurement noise alone moves {} this far with a chance of {} % (a finding needs {} % or less: {} % shared over the one-sided tests); {} against a uniform roll's {}{}",
             defect_name(defect),
             feature_name(feature),
             crate::units::sig(noise_chance * 100.0, 2),
             crate::units::sig(level * 100.0, 2),
             crate::units::sig(crate::diagnose::confidence::FAMILY_LEVEL * 100.0, 2),
             crate::units::sig(value, 3),
-            crate::units::sig(uniform, 3),
-            crate::units::sig(threshold, 2)
+            crate::units::sig(clean(uniform, value.abs().max(threshold)), 3),
+            needs(feature, (value, uniform, threshold), basis)
         ),
         Note::OnProfileNoise {
             defect,
@@ -135,4 +173,41 @@ pub(super) fn survey_contradicts(n: &Note) -> String {
         measured.abs() * scale,
         sigma * scale,
     )
+}
+
+/// The out-of-round and air limits as sentences (the other limits: [`limit`]).
+pub(super) fn unwind_limit(l: &crate::note::Limit) -> String {
+    use crate::note::Limit;
+    match *l {
+        Limit::FlatContact {
+            half_width_m,
+            radius_m,
+            peak_pressure_pa,
+            crush_pa,
+        } => format!(
+            "stored on its side, the roll's floor contact is {:.0} mm half-width on a {:.0} mm radius with a peak pressure of {:.2} MPa (crush limit {:.2} MPa): the Hertz line contact behind the out-of-round estimate holds for a narrow contact below the crush limit; treat the flat as a rough bound",
+            half_width_m * 1e3,
+            radius_m * 1e3,
+            peak_pressure_pa / 1e6,
+            crush_pa / 1e6
+        ),
+        Limit::UnwindTension {
+            stress_pa,
+            strength_pa,
+        } => format!(
+            "the converting tension stresses the web to {:.1} MPa at unwind, {:.2} times its MD tensile strength ({:.1} MPa): the web breaks as it is pulled off the roll; check converting.tension and material.strength.md_tensile",
+            stress_pa / 1e6,
+            stress_pa / strength_pa,
+            strength_pa / 1e6
+        ),
+        Limit::AirFloats {
+            film_m,
+            roughness_m,
+        } => format!(
+            "the air film entrained at full diameter ({:.1} um) exceeds the faces' combined roughness ({:.1} um) by enough to take away all the wound-in tension: the outer wraps float on air and the model holds their wound-in tension at zero; {SO}",
+            film_m * 1e6,
+            roughness_m * 1e6
+        ),
+        other => super::words::limit(&other),
+    }
 }

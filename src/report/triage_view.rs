@@ -186,14 +186,40 @@ pub fn triage_json(rows: &[TriageRow]) -> serde_json::Value {
     serde_json::json!({ "rolls": rows, "safety": SAFETY })
 }
 
-/// A what-if comparison as JSON (the result's own fields, and the changed roll's warnings).
+/// A what-if comparison as JSON: the result's own fields; the warnings of the roll as measured
+/// (`warnings_before`) and as changed (`warnings_after`), and all of them in `warnings`, each
+/// saying which roll it is about ([`whatif_warnings`]); the safety note.
 pub fn whatif_json(w: &crate::diagnose::WhatIf) -> Result<serde_json::Value, serde_json::Error> {
     let mut v = serde_json::to_value(w)?;
     if let Some(o) = v.as_object_mut() {
-        let warnings = words::note_json(&w.case_warnings, &w.notes).1;
-        o.insert("warnings".into(), serde_json::json!(warnings));
+        let before = words::note_json(&w.case_warnings_before, &w.notes_before).1;
+        let after = words::note_json(&w.case_warnings, &w.notes).1;
+        o.insert("warnings".into(), serde_json::json!(whatif_warnings(w)));
+        o.insert("warnings_before".into(), serde_json::json!(before));
+        o.insert("warnings_after".into(), serde_json::json!(after));
+        o.insert("safety".into(), serde_json::json!(SAFETY));
     }
     Ok(v)
+}
+
+/// The warnings of both rolls, each once, saying which roll it is about: "as measured", "as
+/// changed", or "as measured and as changed".
+pub fn whatif_warnings(w: &crate::diagnose::WhatIf) -> Vec<String> {
+    let before = words::note_json(&w.case_warnings_before, &w.notes_before).1;
+    let after = words::note_json(&w.case_warnings, &w.notes).1;
+    let both = |x: &String| before.contains(x) && after.contains(x);
+    let mut out: Vec<String> = (before.iter())
+        .map(|x| match both(x) {
+            true => format!("as measured and as changed: {x}"),
+            false => format!("as measured: {x}"),
+        })
+        .collect();
+    out.extend(
+        (after.iter())
+            .filter(|x| !both(x))
+            .map(|x| format!("as changed: {x}")),
+    );
+    out
 }
 
 /// Defects in plain words, comma-separated.
@@ -240,9 +266,12 @@ pub fn whatif_text(w: &crate::diagnose::WhatIf, sys: System) -> Result<String, W
             defect_list(d)
         }
     };
-    let notes: String = words::note_lines(&w.case_warnings, &w.notes)
-        .iter()
-        .map(|l| format!("{l}\n"))
+    let notes: String = (whatif_warnings(w).iter())
+        .map(|l| format!("warning: {l}\n"))
+        .chain(
+            (words::note_json(&w.case_warnings, &w.notes).0.iter())
+                .map(|l| format!("note: as changed: {l}\n")),
+        )
         .collect();
     Ok(format!(
         "What if, case {}: {}\nPredicted length spread at unwind: {:.2} -> {:.2} mm per m of web.\nLikely defects: {} -> {}.\n{t}\nLane length at unwind over the width-weighted mean lane; creep as fitted on the measured roll.\n{notes}{SAFETY}\n",
@@ -273,6 +302,8 @@ mod tests {
             defects_after: Vec::new(),
             case_warnings: Vec::new(),
             notes: Vec::new(),
+            case_warnings_before: Vec::new(),
+            notes_before: Vec::new(),
         }
     }
 

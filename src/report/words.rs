@@ -171,6 +171,27 @@ pub fn notes(d: &Diagnosis) -> Vec<String> {
     n
 }
 
+/// What a diagnosis without findings says: that no rule fired, or that those that fired did so
+/// no more strongly than measurement noise alone (naming them), and, when the roll passes a
+/// physical limit, that the warnings still stand.
+pub fn no_finding(d: &Diagnosis) -> String {
+    let below = &d.confidence.below_floor;
+    let mut s = if below.is_empty() {
+        "No finding: no rule fired. The roll is predicted to unwind within the rules' thresholds."
+            .to_string()
+    } else {
+        format!(
+            "No finding stands above measurement noise: {} rule(s) fired ({}), but no more strongly than noise alone makes them (the notes say what the measurements can resolve).",
+            below.len(),
+            below.join(", ")
+        )
+    };
+    if !warnings(d).is_empty() {
+        s.push_str(" The roll does pass a physical limit (see the warnings), which needs no rule and no margin over noise: treat it with care.");
+    }
+    s
+}
+
 /// The diagnosis's warnings: the case's own, then every physical limit a stage passed.
 pub fn warnings(d: &Diagnosis) -> Vec<String> {
     note_json(&d.case_warnings, &d.notes).1
@@ -282,7 +303,7 @@ pub fn note(n: &Note) -> String {
 }
 
 /// What a passed limit means for the results, in the limits' sentences.
-const SO: &str = "results that depend on it are not physical; check the inputs";
+pub(super) const SO: &str = "results that depend on it are not physical; check the inputs";
 
 /// A physical limit passed, as a sentence that says what it means for the findings.
 pub fn limit(l: &crate::note::Limit) -> String {
@@ -295,7 +316,9 @@ pub fn limit(l: &crate::note::Limit) -> String {
             "the winding speed {speed_m_s:.1} m/s is above the lift-off speed {lift_off_m_s:.1} m/s at the roll's mean wound-in stress: outer layers could not stay on the roll as modelled; {SO}"
         ),
         Limit::Condensation(c) => condensation(&c),
-        Limit::FlatContact { .. } | Limit::AirFloats { .. } => unwind_limit(l),
+        Limit::FlatContact { .. } | Limit::AirFloats { .. } | Limit::UnwindTension { .. } => {
+            super::note_words::unwind_limit(l)
+        }
         Limit::Strength {
             which,
             lanes,
@@ -409,34 +432,6 @@ fn hardness_limit(l: &crate::note::Limit) -> String {
             at(lanes, position_m)
         ),
         _ => limit(l),
-    }
-}
-
-/// The out-of-round and air limits as sentences (the other limits: [`limit`]).
-fn unwind_limit(l: &crate::note::Limit) -> String {
-    use crate::note::Limit;
-    match *l {
-        Limit::FlatContact {
-            half_width_m,
-            radius_m,
-            peak_pressure_pa,
-            crush_pa,
-        } => format!(
-            "stored on its side, the roll's floor contact is {:.0} mm half-width on a {:.0} mm radius with a peak pressure of {:.2} MPa (crush limit {:.2} MPa): the Hertz line contact behind the out-of-round estimate holds for a narrow contact below the crush limit; treat the flat as a rough bound",
-            half_width_m * 1e3,
-            radius_m * 1e3,
-            peak_pressure_pa / 1e6,
-            crush_pa / 1e6
-        ),
-        Limit::AirFloats {
-            film_m,
-            roughness_m,
-        } => format!(
-            "the air film entrained at full diameter ({:.1} um) exceeds the faces' combined roughness ({:.1} um) by enough to take away all the wound-in tension: the outer wraps float on air and the model holds their wound-in tension at zero; {SO}",
-            film_m * 1e6,
-            roughness_m * 1e6
-        ),
-        other => limit(&other),
     }
 }
 
