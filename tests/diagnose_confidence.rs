@@ -140,3 +140,22 @@ fn a_slack_lane_made_by_caliper_noise_gives_no_finding() {
         d.notes
     );
 }
+
+/// The demo's band is one caliper reading 2.3 um over its neighbours. Read with a repeatability
+/// of 4 um, that reading lies about half a sigma above the rest: no conventional test (one-sided
+/// normal tail at 0.6 sigma: 27 %, Abramowitz and Stegun 1964, Table 26.1) calls it a band. The
+/// diagnosis must run (its noise rolls, with 5.5 % caliper noise, are wound to the roll's
+/// diameter), keep no finding, and say which rules fired below noise, not that none fired.
+#[test]
+fn a_band_within_the_caliper_noise_is_no_finding_and_says_so() {
+    let c = case::load_demo(&["profiles[0].repeatability=4 um".into()]).unwrap();
+    let d = run(&c);
+    assert!(d.findings.is_empty(), "{:?}", d.findings);
+    assert!(!d.confidence.below_floor.is_empty());
+    let text = rollsleuth::report::words::no_finding(&d);
+    assert!(
+        text.contains("No finding stands above measurement noise"),
+        "{text}"
+    );
+    assert!(text.contains(&d.confidence.below_floor[0]), "{text}");
+}

@@ -448,7 +448,9 @@ fn noisy_creep(lab: &Case, fit: &crate::fit::RollFit, rng: &mut ChaCha8Rng) -> V
 /// fills the stated diameter to first order: its build ends within about 0.5 % of the wound depth
 /// of it. That shifts every lane alike; the roll-level features (core and peak pressure, strength
 /// ratios) move with it, by under about 1 % of their floors, far inside the floors' sampling error
-/// over 24 rolls. One winding each, where filling the diameter took two.
+/// over 24 rolls. One winding each, where filling the diameter took two. A noise roll the scaled
+/// caliper leaves more than [`crate::winding`]'s like-roll tolerance from the diameter (caliper
+/// noise of several per cent) fills the diameter instead.
 fn noise_rolls(
     lab: &Case,
     fitted: &Fitted,
@@ -466,10 +468,15 @@ fn noise_rolls(
     let rolls: Vec<Stored> = inputs
         .par_iter()
         .map(|(l, _)| {
-            // no clean secant to scale (never the case after a winding): fill the diameter
-            let caliper = (clean.1.scaled(clean.0, l.mean_caliper_m))
-                .map_or(Caliper::Fill(None), Caliper::Given);
-            stored(lab, l, opt, caliper).map(|(s, _)| s)
+            // no clean secant to scale (never the case after a winding): fill the diameter; a
+            // noise roll whose build the scaled caliper does not bring to the diameter (large
+            // caliper noise) fills it, starting there
+            match clean.1.scaled(clean.0, l.mean_caliper_m) {
+                Some(s) => stored(lab, l, opt, Caliper::Given(s))
+                    .or_else(|_| stored(lab, l, opt, Caliper::Fill(Some(s)))),
+                None => stored(lab, l, opt, Caliper::Fill(None)),
+            }
+            .map(|(s, _)| s)
         })
         .collect::<Result<_, _>>()?;
     let aged: Vec<Result<Aged, AgeError>> = (rolls.par_chunks(SIDE_BY_SIDE))

@@ -211,3 +211,28 @@ pub(super) fn unwind_limit(l: &crate::note::Limit) -> String {
         other => super::words::limit(&other),
     }
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::note::NoiseBasis;
+    use crate::vocab::Feature;
+
+    /// A note gives the bound of the test that decided, and only that one: a chance from the
+    /// caliper readings' own test is not paired with the noise rolls' bound on the feature (the
+    /// value could exceed that bound and still not stand); a bound that would take the feature
+    /// below its range (a pressure below zero) is said to be out of reach.
+    #[test]
+    fn the_needed_difference_comes_from_the_deciding_test() {
+        let f = Feature::CaliperRangePct;
+        let t = needs(f, (4.79, 0.0, 2.7), NoiseBasis::CaliperReadings);
+        assert!(t.contains("caliper readings") && !t.contains("2.7"), "{t}");
+        let t = needs(f, (1.0, 0.0, 2.7), NoiseBasis::NoiseRolls);
+        assert!(t.contains("takes a difference of 2.7"), "{t}");
+        let p = Feature::SurfacePressureEndKpa;
+        let t = needs(p, (17.4, 150.0, 151.0), NoiseBasis::NoiseRolls);
+        assert!(t.contains("no value in its range"), "{t}");
+        assert_eq!(clean(-1.86e-16, 0.6), 0.0);
+        assert_eq!(clean(0.07, 0.6), 0.07);
+    }
+}

@@ -187,7 +187,7 @@ pub fn no_finding(d: &Diagnosis) -> String {
         )
     };
     if !warnings(d).is_empty() {
-        s.push_str(" The roll does pass a physical limit (see the warnings), which needs no rule and no margin over noise: treat it with care.");
+        s.push_str(" The warnings (a physical limit passed, or a state the model can only bound) stand apart from the rules and the noise test: read them before releasing the roll.");
     }
     s
 }
