@@ -38,7 +38,34 @@ impl Validator {
                 None => ok = false,
             }
         }
-        ok.then_some(out)
+        (ok && self.distinct(ps, &out)).then_some(out)
+    }
+
+    /// Whether no two profiles measure the same thing at the same age: the lanes would read
+    /// only one of them, so a second one is refused, both entries named.
+    fn distinct(&mut self, raw: &[RawProfile], profiles: &[Profile]) -> bool {
+        let mut ok = true;
+        for (j, b) in profiles.iter().enumerate() {
+            let Some(i) = profiles[..j]
+                .iter()
+                .position(|a| a.what == b.what && (a.age_s - b.age_s).abs() < SAME_AGE_S)
+            else {
+                continue;
+            };
+            let message = format!(
+                "profiles[{i}] (line {}) and profiles[{j}] are both {} profiles at {:.1} d; only one can be read. Fix: keep one, average them into one, or give each its own age",
+                line_of(&raw[i].what),
+                what_word(b.what),
+                b.age_s / crate::units::DAY_S
+            );
+            self.push(
+                &format!("profiles[{j}].what"),
+                Some(line_of(&raw[j].what)),
+                message,
+            );
+            ok = false;
+        }
+        ok
     }
 
     /// The caliper repeatability the caliper profiles give, m (the largest when several do);
@@ -262,23 +289,13 @@ impl Validator {
         field: &str,
     ) -> Option<f64> {
         let kind = match what {
-            Measure::Hardness => {
-                if v.is_finite() {
-                    return Some(v);
-                }
-                self.push(
-                    field,
-                    line,
-                    "is not a finite number; remove the point or give its reading".into(),
-                );
-                return None;
-            }
+            Measure::Hardness => return self.hardness_reading(v, line, field),
             Measure::Diameter | Measure::Caliper => Kind::Length,
             Measure::Moisture => Kind::Moisture,
             Measure::Tension if unit.trim() == "%" => {
                 // percent of the profile's mean, kept as a fraction: `lanes` reads only the
                 // profile's shape (each value over the mean), so N/m and % read alike
-                let v = self.check_range(v, field, line, Kind::Number, Range::NonNegative)?;
+                let v = self.check_percent(v, field, line, Range::NonNegative)?;
                 return Some(v / 100.0);
             }
             Measure::Tension => Kind::LineForce,
@@ -286,9 +303,36 @@ impl Validator {
         let v = self.num_unit(v, unit, field, line, kind)?;
         let range = match what {
             Measure::Tension => Range::NonNegative,
+            // the range of material.moisture
+            Measure::Moisture => Range::Between(0.0, super::material::MOISTURE_MAX_PCT),
             _ => Range::Positive,
         };
         self.check_range(v, field, line, kind, range)
+    }
+
+    /// A hardness reading: finite, and inside the scale's range when its name gives one.
+    fn hardness_reading(&mut self, v: f64, line: Option<u64>, field: &str) -> Option<f64> {
+        if !v.is_finite() {
+            self.push(
+                field,
+                line,
+                "is not a finite number; remove the point or give its reading".into(),
+            );
+            return None;
+        }
+        if let Some((scale, lo, hi)) = &self.hardness_range {
+            if v < *lo || v > *hi {
+                let message = format!(
+                    "reading {} is outside the hardness scale '{scale}' ({} .. {}). Fix: correct the reading, or name the scale the gauge reads in hardness.scale",
+                    crate::units::sig(v, 4),
+                    crate::units::sig(*lo, 4),
+                    crate::units::sig(*hi, 4)
+                );
+                self.push(field, line, message);
+                return None;
+            }
+        }
+        Some(v)
     }
 
     /// Whether a position lies on the roll (when the width is known).
@@ -307,6 +351,21 @@ impl Validator {
             return false;
         }
         true
+    }
+}
+
+/// Two profiles measured less than this apart are at the same age, s (a minute: ages are
+/// written in days or hours).
+const SAME_AGE_S: f64 = 60.0;
+
+/// A profile's `what` as written in the case.
+fn what_word(what: Measure) -> &'static str {
+    match what {
+        Measure::Caliper => "caliper",
+        Measure::Diameter => "diameter",
+        Measure::Hardness => "hardness",
+        Measure::Tension => "tension",
+        Measure::Moisture => "moisture",
     }
 }
 
