@@ -12,13 +12,22 @@ use std::path::PathBuf;
 /// Numbers with the line they came from.
 type Points = Vec<(f64, Option<u64>)>;
 
-/// Positions, values, the file they came from, and the (position, value) units of a CSV header.
-type PointsFrom = (Points, Points, String, (Option<String>, Option<String>));
+/// Positions, values, the file they came from, the (position, value) units of a CSV header,
+/// and the CSV line of each row (empty for inline lists).
+type PointsFrom = (
+    Points,
+    Points,
+    String,
+    (Option<String>, Option<String>),
+    Vec<u64>,
+);
 
-/// The units a profile's positions and values are written in.
+/// The units a profile's positions and values are written in, and for a CSV its file and the
+/// line of each row (for messages).
 struct Units {
     position: String,
     value: String,
+    csv: Option<(String, Vec<u64>)>,
 }
 /// Most positions read per profile (a scanner exports a few hundred over a machine width).
 pub(in crate::case) const MAX_PROFILE_POINTS: usize = 5000;
@@ -103,8 +112,9 @@ impl Validator {
         let what = self.word(&p.what, &f("what"))?;
         let age = self.q(&p.age, &f("age"), Kind::Duration, Range::NonNegative);
         let line = Some(line_of(&p.what));
-        let (positions, values, origin, header_units) = self.points(i, p, file)?;
+        let (positions, values, origin, header_units, csv_lines) = self.points(i, p, file)?;
         let units = Units {
+            csv: (!csv_lines.is_empty()).then(|| (origin.clone(), csv_lines)),
             position: p
                 .position_unit
                 .clone()
@@ -148,10 +158,15 @@ impl Validator {
             return None;
         }
         if positions.len() < 2 {
+            let from = if origin == file {
+                String::new()
+            } else {
+                format!(" (CSV file {origin} has {})", positions.len())
+            };
             self.push(
                 &f("positions"),
                 line,
-                "a profile needs at least two positions across the width".into(),
+                format!("a profile needs at least two positions across the width{from}"),
             );
             return None;
         }
@@ -176,6 +191,7 @@ impl Validator {
                 vs.value.iter().map(|&x| (x, Some(line_of(vs)))).collect(),
                 file.to_string(),
                 (None, None),
+                Vec::new(),
             )),
             (Some(c), _, _) => {
                 self.push(
@@ -219,11 +235,14 @@ impl Validator {
         match read_profile(&path, &cols) {
             Ok(read) => Some({
                 self.warnings.extend(read.notes);
+                // a problem in a row is reported at the `csv:` line, the row named in the message
+                let at = Some(line_of(c));
                 (
-                    read.rows.iter().map(|r| (r.0, None)).collect(),
-                    read.rows.iter().map(|r| (r.1, None)).collect(),
+                    read.rows.iter().map(|r| (r.0, at)).collect(),
+                    read.rows.iter().map(|r| (r.1, at)).collect(),
                     path.display().to_string(),
                     (read.position_unit, read.value_unit),
+                    read.lines,
                 )
             }),
             Err(message) => {
@@ -249,6 +268,7 @@ impl Validator {
         let mut val_si = Vec::new();
         let mut ok = true;
         for (k, ((x, xl), (v, vl))) in positions.iter().zip(values.iter()).enumerate() {
+            let before = self.problems.len();
             let xs = self.num_unit(
                 *x,
                 pos_unit,
@@ -259,10 +279,12 @@ impl Validator {
             let vs = self.value_si(*v, *vl, what, val_unit, &f(&format!("values[{k}]")));
             let (Some(x), Some(v)) = (xs, vs) else {
                 ok = false;
+                self.name_row(units, k, before);
                 continue;
             };
             if !self.inside(x, width, &f(&format!("positions[{k}]")), *xl) {
                 ok = false;
+                self.name_row(units, k, before);
                 continue;
             }
             pos_si.push(x);
@@ -277,6 +299,19 @@ impl Validator {
             ok = false;
         }
         ok.then_some((pos_si, val_si))
+    }
+
+    /// The problems from `before` on came from row `k` of a CSV: the message names the file and
+    /// its line.
+    fn name_row(&mut self, units: &Units, k: usize, before: usize) {
+        let Some((csv, lines)) = &units.csv else {
+            return;
+        };
+        let row = lines.get(k).copied().unwrap_or(0);
+        for p in &mut self.problems[before..] {
+            p.message
+                .push_str(&format!(" (CSV file {csv}, line {row})"));
+        }
     }
 
     /// One profile value in SI: hardness as read, lengths through their unit and positive.
