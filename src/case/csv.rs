@@ -85,6 +85,30 @@ fn csv_error(shown: &str, e: csv::Error) -> String {
     }
 }
 
+/// Rows (position, value, line) put in increasing position: a back-edge scan (decreasing
+/// throughout) is reversed, with a note; any other disorder is an error naming the lines.
+fn in_order(rows: &mut [(f64, f64, u64)], shown: &str) -> Result<Vec<String>, String> {
+    let mut notes = Vec::new();
+    if rows.windows(2).any(|w| w[1].0 < w[0].0) {
+        // a scan from the back edge runs the other way all along; any other order is a data error
+        let rising = rows[1].0 > rows[0].0;
+        if let Some(w) = rows
+            .windows(2)
+            .find(|w| w[1].0 != w[0].0 && (w[1].0 > w[0].0) != rising)
+        {
+            return Err(format!(
+                "{shown}:{}: position {} comes after {} (line {}): the positions neither increase throughout nor decrease throughout (a scan from the back edge). Fix: sort the rows by position",
+                w[1].2, w[1].0, w[0].0, w[0].2
+            ));
+        }
+        rows.reverse();
+        notes.push(format!(
+            "{shown}: positions ran from the back edge to the front edge; the rows were sorted by position"
+        ));
+    }
+    Ok(notes)
+}
+
 /// Read a profile CSV (see the module notes).
 pub(super) fn read_profile(path: &Path, cols: &Columns) -> Result<CsvProfile, String> {
     let shown = path.display().to_string();
@@ -156,24 +180,7 @@ fn parse_profile(text: &str, shown: &str, cols: &Columns) -> Result<CsvProfile, 
             }
         }
     }
-    let mut notes = Vec::new();
-    if rows.windows(2).any(|w| w[1].0 < w[0].0) {
-        // a scan from the back edge runs the other way all along; any other order is a data error
-        let rising = rows[1].0 > rows[0].0;
-        if let Some(w) = rows
-            .windows(2)
-            .find(|w| w[1].0 != w[0].0 && (w[1].0 > w[0].0) != rising)
-        {
-            return Err(format!(
-                "{shown}:{}: position {} comes after {} (line {}): the positions neither increase throughout nor decrease throughout (a scan from the back edge). Fix: sort the rows by position",
-                w[1].2, w[1].0, w[0].0, w[0].2
-            ));
-        }
-        rows.reverse();
-        notes.push(format!(
-            "{shown}: positions ran from the back edge to the front edge; the rows were sorted by position"
-        ));
-    }
+    let notes = in_order(&mut rows, shown)?;
     if let Some(w) = rows.windows(2).find(|w| w[1].0 == w[0].0) {
         return Err(format!(
             "{shown}: position {} is given twice (lines {} and {}); keep one reading per position",
