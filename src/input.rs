@@ -18,6 +18,24 @@ pub fn set_max_input_bytes(bytes: u64) {
     LIMIT.store(bytes, Ordering::Relaxed);
 }
 
+/// The limit [`MAX_INPUT_ENV`] sets, bytes: `None` when it is unset or empty, an error (with the
+/// fix) when it is not a whole number of bytes above zero.
+pub fn limit_from_env() -> Result<Option<u64>, String> {
+    let Some(v) = std::env::var_os(MAX_INPUT_ENV) else {
+        return Ok(None);
+    };
+    let text = v.to_string_lossy();
+    if text.trim().is_empty() {
+        return Ok(None);
+    }
+    match text.trim().parse::<u64>() {
+        Ok(b) if b > 0 => Ok(Some(b)),
+        _ => Err(format!(
+            "{MAX_INPUT_ENV}={text:?} is not a size in bytes above zero. Fix: set it to a whole number of bytes, e.g. {MAX_INPUT_ENV}=16777216 for 16 MiB, or unset it for the default {DEFAULT_MAX_INPUT_BYTES}"
+        )),
+    }
+}
+
 /// The largest input file in force, bytes: the option, else the environment variable, else the
 /// default.
 pub fn max_input_bytes() -> u64 {
@@ -49,6 +67,9 @@ pub enum InputError {
         /// Limit in force, bytes.
         limit: u64,
     },
+    /// A stream (standard input) that failed while being read.
+    #[error("could not be read ({0}). Fix: check the command that feeds it, or give a file")]
+    Stream(String),
     /// Not UTF-8 text.
     #[error("is not UTF-8 text (first bad byte at offset {0}). Fix: save the file as UTF-8 text; a spreadsheet or word processor file must be exported as plain text first")]
     NotUtf8(usize),
@@ -113,10 +134,28 @@ pub fn read_bytes(path: &Path) -> Result<Vec<u8>, InputError> {
     Ok(buf)
 }
 
+/// Read a stream (standard input) of at most the input limit as UTF-8 text, as [`read_text`].
+pub fn read_stream(stream: impl Read) -> Result<String, InputError> {
+    let limit = max_input_bytes();
+    let mut buf = Vec::new();
+    stream
+        .take(limit + 1)
+        .read_to_end(&mut buf)
+        .map_err(|e| InputError::Stream(e.to_string()))?;
+    if buf.len() as u64 > limit {
+        return Err(InputError::TooLarge { limit });
+    }
+    text_of(buf)
+}
+
 /// Read a regular file of at most the input limit as UTF-8 text (a leading byte-order mark is
 /// dropped).
 pub fn read_text(path: &Path) -> Result<String, InputError> {
-    let bytes = read_bytes(path)?;
+    text_of(read_bytes(path)?)
+}
+
+/// Bytes as UTF-8 text without a leading byte-order mark.
+fn text_of(bytes: Vec<u8>) -> Result<String, InputError> {
     let mut text =
         String::from_utf8(bytes).map_err(|e| InputError::NotUtf8(e.utf8_error().valid_up_to()))?;
     if text.starts_with('\u{feff}') {
@@ -186,6 +225,19 @@ mod tests {
             read_bytes(Path::new("/")),
             Err(InputError::NotRegular("a folder"))
         );
+    }
+
+    #[test]
+    fn a_stream_obeys_the_size_limit() {
+        let limit = max_input_bytes() as usize;
+        let big = vec![b'#'; limit + 1];
+        assert_eq!(
+            read_stream(&big[..]),
+            Err(InputError::TooLarge {
+                limit: limit as u64
+            })
+        );
+        assert_eq!(read_stream(&b"\xef\xbb\xbfa: 1\n"[..]).unwrap(), "a: 1\n");
     }
 
     #[test]

@@ -1,8 +1,9 @@
 //! Reading a profile's CSV file before validation. The delimiter is detected from the header
 //! line (comma, semicolon or tab; with semicolons a decimal comma is read too). Columns are
 //! `position` and `value`, or the names a case maps them to; a header may carry a unit in
-//! brackets (`position (mm)`, `value (mil)`). Rows scanned from the back edge first are sorted
-//! (with a note); a position given twice is an error naming both lines.
+//! brackets (`position (mm)`, `value (mil)`). Rows scanned from the back edge first (positions
+//! decreasing throughout) are sorted (with a note); rows in any other order, or a position given
+//! twice, are an error naming the lines.
 
 use std::path::Path;
 
@@ -11,6 +12,8 @@ use std::path::Path;
 pub(super) struct CsvProfile {
     /// (position, value) as written (units applied by validation), increasing in position.
     pub rows: Vec<(f64, f64)>,
+    /// The line of the file each row was read from (1-based), in the order of `rows`.
+    pub lines: Vec<u64>,
     /// Unit of the positions given in the header, e.g. `position (mm)`.
     pub position_unit: Option<String>,
     /// Unit of the values given in the header, e.g. `value (mil)`.
@@ -62,11 +65,58 @@ fn name_unit(cell: &str) -> (String, Option<String>) {
     }
 }
 
+/// A csv reader's error in our words, with the line and a fix.
+fn csv_error(shown: &str, e: csv::Error) -> String {
+    match e.kind() {
+        csv::ErrorKind::UnequalLengths {
+            pos,
+            expected_len,
+            len,
+        } => format!(
+            "{shown}:{}: this row has {len} cell{} where the rows before it have {expected_len}. Fix: give every row the same columns as the header line (a position and a value, with the header's separator)",
+            pos.as_ref().map_or(0, |p| p.line()),
+            if *len == 1 { "" } else { "s" }
+        ),
+        csv::ErrorKind::Utf8 { pos, .. } => format!(
+            "{shown}:{}: not UTF-8 text. Fix: save the file as UTF-8 (plain CSV)",
+            pos.as_ref().map_or(0, |p| p.line())
+        ),
+        _ => format!("{shown}: {e}. Fix: export the profile again as plain CSV"),
+    }
+}
+
+/// Rows (position, value, line) put in increasing position: a back-edge scan (decreasing
+/// throughout) is reversed, with a note; any other disorder is an error naming the lines.
+fn in_order(rows: &mut [(f64, f64, u64)], shown: &str) -> Result<Vec<String>, String> {
+    let mut notes = Vec::new();
+    if rows.windows(2).any(|w| w[1].0 < w[0].0) {
+        // a scan from the back edge runs the other way all along; any other order is a data error
+        let rising = rows[1].0 > rows[0].0;
+        if let Some(w) = rows
+            .windows(2)
+            .find(|w| w[1].0 != w[0].0 && (w[1].0 > w[0].0) != rising)
+        {
+            return Err(format!(
+                "{shown}:{}: position {} comes after {} (line {}): the positions neither increase throughout nor decrease throughout (a scan from the back edge). Fix: sort the rows by position",
+                w[1].2, w[1].0, w[0].0, w[0].2
+            ));
+        }
+        rows.reverse();
+        notes.push(format!(
+            "{shown}: positions ran from the back edge to the front edge; the rows were sorted by position"
+        ));
+    }
+    Ok(notes)
+}
+
 /// Read a profile CSV (see the module notes).
 pub(super) fn read_profile(path: &Path, cols: &Columns) -> Result<CsvProfile, String> {
     let shown = path.display().to_string();
-    let bytes = crate::input::read_bytes(path).map_err(|e| {
-        format!("CSV file '{shown}' {e} (the path is relative to the case file's folder)")
+    let bytes = crate::input::read_bytes(path).map_err(|e| match e {
+        crate::input::InputError::Missing => format!(
+            "CSV file '{shown}' does not exist. Fix: check the csv path; it is read from the case file's folder"
+        ),
+        e => format!("CSV file '{shown}' {e}"),
     })?;
     let text = String::from_utf8(bytes).map_err(|_| {
         format!("CSV file '{shown}' is not UTF-8 text; save it as UTF-8 (plain CSV)")
@@ -89,7 +139,7 @@ fn parse_profile(text: &str, shown: &str, cols: &Columns) -> Result<CsvProfile, 
         .delimiter(delim)
         .trim(csv::Trim::All)
         .from_reader(text.as_bytes());
-    let headers = rdr.headers().map_err(|e| format!("{shown}: {e}"))?.clone();
+    let headers = rdr.headers().map_err(|e| csv_error(shown, e))?.clone();
     let cells: Vec<(String, Option<String>)> = headers.iter().map(name_unit).collect();
     let col = |name: &str| cells.iter().position(|(n, _)| *n == name.to_lowercase());
     let (Some(pc), Some(vc)) = (col(cols.position), col(cols.value)) else {
@@ -111,7 +161,7 @@ fn parse_profile(text: &str, shown: &str, cols: &Columns) -> Result<CsvProfile, 
     };
     let mut rows: Vec<(f64, f64, u64)> = Vec::new();
     for rec in rdr.records() {
-        let rec = rec.map_err(|e| format!("{shown}: {e}"))?;
+        let rec = rec.map_err(|e| csv_error(shown, e))?;
         let lineno = rec.position().map(|p| p.line()).unwrap_or(0);
         if rec.iter().all(|c| c.is_empty()) {
             continue;
@@ -130,13 +180,7 @@ fn parse_profile(text: &str, shown: &str, cols: &Columns) -> Result<CsvProfile, 
             }
         }
     }
-    let mut notes = Vec::new();
-    if rows.windows(2).any(|w| w[1].0 < w[0].0) {
-        rows.sort_by(|a, b| a.0.total_cmp(&b.0));
-        notes.push(format!(
-            "{shown}: positions were not in increasing order (a scan from the back edge?); the rows were sorted by position"
-        ));
-    }
+    let notes = in_order(&mut rows, shown)?;
     if let Some(w) = rows.windows(2).find(|w| w[1].0 == w[0].0) {
         return Err(format!(
             "{shown}: position {} is given twice (lines {} and {}); keep one reading per position",
@@ -147,6 +191,7 @@ fn parse_profile(text: &str, shown: &str, cols: &Columns) -> Result<CsvProfile, 
     }
     Ok(CsvProfile {
         rows: rows.iter().map(|r| (r.0, r.1)).collect(),
+        lines: rows.iter().map(|r| r.2).collect(),
         position_unit: cells[pc].1.clone(),
         value_unit: cells[vc].1.clone(),
         notes,
@@ -212,6 +257,37 @@ mod tests {
         )
         .unwrap_err();
         assert!(e.contains("lines 3 and 4"), "{e}");
+    }
+
+    #[test]
+    fn shuffled_rows_are_an_error_naming_the_lines() {
+        let e = read(
+            "shuffled.csv",
+            "position,value\n50,1\n600,2\n300,3\n900,4\n",
+            &Columns::default(),
+        )
+        .unwrap_err();
+        assert!(e.contains("shuffled.csv:4") && e.contains("line 3"), "{e}");
+        assert!(e.contains("Fix: sort the rows"), "{e}");
+    }
+
+    #[test]
+    fn a_row_with_too_many_cells_names_its_line_and_a_fix() {
+        let e = read(
+            "extra.csv",
+            "position,value\n0,1\n100,2,3\n",
+            &Columns::default(),
+        )
+        .unwrap_err();
+        assert!(e.contains("extra.csv:3: this row has 3 cells"), "{e}");
+        assert!(e.contains("Fix:"), "{e}");
+    }
+
+    #[test]
+    fn a_missing_csv_says_where_its_path_starts() {
+        let e = read_profile(Path::new("no/such/file.csv"), &Columns::default()).unwrap_err();
+        assert!(e.contains("case file's folder"), "{e}");
+        assert!(!e.contains("current folder"), "{e}");
     }
 
     #[test]

@@ -46,6 +46,8 @@ fn syntax_text(message: &str) -> String {
         s.push_str("\nFix: check the spelling; `rollsleuth template` prints every field.");
     } else if message.contains("missing field") {
         s.push_str("\nFix: add the field; `rollsleuth template` shows an example.");
+    } else if message.contains("unexpected end of input") {
+        s.push_str("\nFix: the file holds no case, or ends too early; `rollsleuth template` prints a starter case.");
     }
     s
 }

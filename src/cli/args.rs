@@ -30,9 +30,9 @@ pub struct Cli {
     /// when standard output is not a terminal.
     #[arg(long, global = true, value_name = "COLUMNS", value_parser = clap::value_parser!(u16).range(40..))]
     pub width: Option<u16>,
-    /// Largest input file (case, rule table, CSV) in bytes; default 8 MiB, or the environment
-    /// variable ROLLSLEUTH_MAX_INPUT_SIZE.
-    #[arg(long, global = true, value_name = "BYTES")]
+    /// Largest input (case, rule table, CSV, standard input) in bytes, above zero; default 8 MiB,
+    /// or the environment variable ROLLSLEUTH_MAX_INPUT_SIZE.
+    #[arg(long, global = true, value_name = "BYTES", value_parser = input_size)]
     pub max_input_size: Option<u64>,
     #[command(subcommand)]
     pub command: Command,
@@ -77,8 +77,9 @@ pub enum Command {
     Stress {
         #[command(flatten)]
         case: CaseArg,
-        /// Radial grid nodes per lane (the output adds the refined zone's sub-nodes under the surface).
-        #[arg(long, default_value_t = crate::winding::DEFAULT_NODES)]
+        /// Radial grid nodes per lane, 5 to 20001 (the output adds the refined zone's sub-nodes
+        /// under the surface).
+        #[arg(long, default_value_t = crate::winding::DEFAULT_NODES, value_parser = grid_nodes)]
         nodes: usize,
         /// Uniform CD levelling 0..1 on top of the shear-lag levelling (0: shear lag only; 1: equal lane tensions).
         #[arg(long, default_value_t = crate::winding::DEFAULT_LEVELLING)]
@@ -169,4 +170,51 @@ pub enum RulesCommand {
     Features,
     /// Print the built-in default rule table (YAML), a starting point for your own.
     Show,
+}
+
+/// Fewest radial grid nodes the winding accepts.
+pub const MIN_NODES: usize = 5;
+/// Most radial grid nodes `--nodes` accepts: three times the 6401-node reference of the grid
+/// convergence study (benches/grid_convergence, where 401 nodes are within 0.21-0.80 %), so any
+/// study has room, while a mistyped count cannot take the machine's memory and hours.
+pub const MAX_NODES: usize = 20001;
+
+/// `--nodes`: a whole number from [`MIN_NODES`] to [`MAX_NODES`].
+fn grid_nodes(s: &str) -> Result<usize, String> {
+    let fix = format!(
+        "give a whole number from {MIN_NODES} to {MAX_NODES}; the default {} is within 1 % of the converged stress (benches/grid_convergence)",
+        crate::winding::DEFAULT_NODES
+    );
+    match s.trim().parse::<usize>() {
+        Ok(n) if (MIN_NODES..=MAX_NODES).contains(&n) => Ok(n),
+        _ => Err(format!("not a grid node count. Fix: {fix}")),
+    }
+}
+
+/// `--max-input-size`: a whole number of bytes above zero.
+fn input_size(s: &str) -> Result<u64, String> {
+    match s.trim().parse::<u64>() {
+        Ok(b) if b > 0 => Ok(b),
+        _ => Err(format!(
+            "not a size in bytes above zero. Fix: give a whole number of bytes, e.g. 16777216 for 16 MiB (the default is {})",
+            crate::input::DEFAULT_MAX_INPUT_BYTES
+        )),
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn node_counts_and_input_sizes_have_bounds() {
+        assert_eq!(grid_nodes("401"), Ok(401));
+        assert_eq!(grid_nodes("20001"), Ok(20001));
+        assert!(grid_nodes("4").is_err());
+        assert!(grid_nodes("20002").is_err());
+        assert!(grid_nodes("100000000").unwrap_err().contains("5 to 20001"));
+        assert_eq!(input_size("1024"), Ok(1024));
+        assert!(input_size("0").is_err());
+        assert!(input_size("-1").is_err());
+    }
 }

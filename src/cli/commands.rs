@@ -62,16 +62,24 @@ pub const STDIN_NAME: &str = "<standard input>";
 /// Load the case named by `arg` (`-`: standard input, CSV paths relative to the current
 /// folder), or the demo case.
 pub fn load(arg: &CaseArg) -> Result<Case, CliError> {
-    Ok(match &arg.case {
-        Some(p) if p.as_os_str() == "-" => {
-            let mut text = String::new();
-            std::io::Read::read_to_string(&mut std::io::stdin(), &mut text)
-                .map_err(|source| CliError::Stdin { source })?;
-            case::load_str(&text, STDIN_NAME, Some(Path::new(".")), &arg.set)?
-        }
-        Some(p) => case::load_file(p, &arg.set)?,
-        None => case::load_demo(&arg.set)?,
-    })
+    match &arg.case {
+        Some(p) => load_path(p, &arg.set),
+        None => Ok(case::load_demo(&arg.set)?),
+    }
+}
+
+/// Load the case file at `p` (`-`: standard input, under the same size limit as a file).
+fn load_path(p: &Path, set: &[String]) -> Result<Case, CliError> {
+    if p.as_os_str() == "-" {
+        let text = crate::input::read_stream(std::io::stdin().lock()).map_err(CliError::Stdin)?;
+        return Ok(case::load_str(
+            &text,
+            STDIN_NAME,
+            Some(Path::new(".")),
+            set,
+        )?);
+    }
+    Ok(case::load_file(p, set)?)
 }
 
 pub(super) fn load_rules(arg: &RulesArg) -> Result<Table, CliError> {
@@ -135,9 +143,10 @@ pub fn check(cases: &[PathBuf], set: &[String], out: Output) -> Result<Outcome, 
         loaded.push(case::load_demo(set)?);
     }
     for p in cases {
-        match case::load_file(p, set) {
+        match load_path(p, set) {
             Ok(c) => loaded.push(c),
-            Err(e) => errors.push(e),
+            Err(CliError::Case(e)) => errors.push(e),
+            Err(e) => return Err(e),
         }
     }
     if !errors.is_empty() {
@@ -215,6 +224,10 @@ pub fn diagnose(
     date: Option<&str>,
     out: Output,
 ) -> Result<Outcome, CliError> {
+    // an --out that is a file is refused before the long run, in words rather than errno's
+    if let Some(dir) = dir.filter(|d| d.exists() && !d.is_dir()) {
+        return Err(CliError::OutNotFolder(dir.to_path_buf()));
+    }
     let c = load(arg)?;
     let table = load_rules(rules)?;
     let d = match dir {

@@ -35,6 +35,8 @@ pub enum CliError {
         dir: PathBuf,
         source: std::io::Error,
     },
+    #[error("--out {}: is a file, not a folder. Fix: give --out a folder (it is created if missing), e.g. --out reports", .0.display())]
+    OutNotFolder(PathBuf),
     #[error("--date {0:?}: not a calendar date; write YYYY-MM-DD (e.g. 2026-12-02) or `today`")]
     BadDate(String),
     #[error("{}: cannot read the rule table: {source}", .path.display())]
@@ -48,8 +50,11 @@ pub enum CliError {
     WhatIfNeedsSet,
     #[error("triage needs case files or folders holding *.yaml case files")]
     TriageNeedsFiles,
-    #[error("cannot read the case from standard input: {source}")]
-    Stdin { source: std::io::Error },
+    #[error("{name}: the case {0}", name = super::commands::STDIN_NAME)]
+    Stdin(crate::input::InputError),
+    /// The input size limit from the environment is not a size.
+    #[error("{0}")]
+    InputLimit(String),
     #[error("cannot write the output: {source}")]
     Stdout { source: std::io::Error },
     #[error("{}: cannot resume from it: {message}; give the CSV that `triage --format csv` wrote", .path.display())]
@@ -75,8 +80,10 @@ impl CliError {
             CliError::WhatIfNeedsSet
             | CliError::TriageNeedsFiles
             | CliError::ResumeNeedsCsv
-            | CliError::BadDate(_) => super::USAGE_EXIT,
-            CliError::Stdin { .. } | CliError::Stdout { .. } | CliError::Resume { .. } => 2,
+            | CliError::BadDate(_)
+            | CliError::InputLimit(_)
+            | CliError::OutNotFolder(_) => super::USAGE_EXIT,
+            CliError::Stdin(_) | CliError::Stdout { .. } | CliError::Resume { .. } => 2,
             CliError::Case(_)
             | CliError::Cases(_)
             | CliError::Rules(_)
@@ -100,11 +107,13 @@ impl CliError {
             CliError::WhatIfNeedsSet
             | CliError::TriageNeedsFiles
             | CliError::ResumeNeedsCsv
-            | CliError::BadDate(_) => "usage",
+            | CliError::BadDate(_)
+            | CliError::InputLimit(_)
+            | CliError::OutNotFolder(_) => "usage",
             CliError::Case(_)
             | CliError::Cases(_)
             | CliError::Rules(_)
-            | CliError::Stdin { .. }
+            | CliError::Stdin(_)
             | CliError::Resume { .. }
             | CliError::RulesText { .. }
             | CliError::Folder { .. } => "bad_input",

@@ -34,7 +34,9 @@ pub enum Outcome {
 
 /// Run a parsed command.
 pub fn run(cli: &Cli) -> Result<Outcome, CliError> {
-    if let Some(b) = cli.max_input_size {
+    // the option wins; a bad environment value is an error even then, so it is found
+    let env = crate::input::limit_from_env().map_err(CliError::InputLimit)?;
+    if let Some(b) = cli.max_input_size.or(env) {
         crate::input::set_max_input_bytes(b);
     }
     let out = Output {

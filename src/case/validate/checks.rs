@@ -18,6 +18,9 @@ pub(in crate::case) struct Validator {
     pub(in crate::case) problems: Vec<Problem>,
     pub(super) defaults: Vec<DefaultUsed>,
     pub(super) warnings: Vec<String>,
+    /// The hardness scale's name and range (lo, hi), when its name ends with one
+    /// (`rebound 0-100`); readings outside it are refused.
+    pub(super) hardness_range: Option<(String, f64, f64)>,
 }
 
 /// Where a problem's line comes from.
@@ -63,6 +66,32 @@ impl Range {
     }
 }
 
+/// "value V unit is out of range: it must be WHAT (LO unit .. HI unit)", the unit left out for a
+/// bare number and an open end written "no limit"; `values` is (value, low, high) in SI.
+fn range_text(
+    show: impl Fn(f64) -> String,
+    values: (f64, f64, f64),
+    what: &str,
+    label: &str,
+) -> String {
+    let with_unit = |x: f64| {
+        if !x.is_finite() {
+            "no limit".to_string()
+        } else if label.is_empty() {
+            show(x)
+        } else {
+            format!("{} {label}", show(x))
+        }
+    };
+    let (v, lo, hi) = values;
+    format!(
+        "value {} is out of range: it must be {what} ({} .. {})",
+        with_unit(v),
+        with_unit(lo),
+        with_unit(hi)
+    )
+}
+
 impl Validator {
     pub(in crate::case) fn new(lines: LineSource, base: Option<&Path>) -> Validator {
         Validator {
@@ -71,6 +100,7 @@ impl Validator {
             problems: Vec::new(),
             defaults: Vec::new(),
             warnings: Vec::new(),
+            hardness_range: None,
         }
     }
 
@@ -137,25 +167,27 @@ impl Validator {
         let below = if range.open_low() { v <= lo } else { v < lo };
         if below || v > hi {
             let d = units::display(kind, units::message_system(), false);
-            let show = |x: f64| {
-                if x.is_finite() {
-                    units::sig(d.from_si(x), 4)
-                } else {
-                    "no limit".into()
-                }
-            };
-            self.push(
-                field,
-                line,
-                format!(
-                    "value {} {} is out of range: it must be {what} ({} .. {} {})",
-                    units::sig(d.from_si(v), 4),
-                    d.label,
-                    show(lo),
-                    show(hi),
-                    d.label
-                ),
-            );
+            let text = range_text(|x| units::sig(d.from_si(x), 4), (v, lo, hi), what, d.label);
+            self.push(field, line, text);
+            return None;
+        }
+        Some(v)
+    }
+
+    /// A number in per cent (a tension profile's share of its mean), kept as written.
+    pub(super) fn check_percent(
+        &mut self,
+        v: f64,
+        field: &str,
+        line: Option<u64>,
+        range: Range,
+    ) -> Option<f64> {
+        let v = self.check_range(v, field, line, Kind::Number, Range::Any)?;
+        let (lo, hi, what) = range.bounds();
+        let below = if range.open_low() { v <= lo } else { v < lo };
+        if below || v > hi {
+            let text = range_text(|x| units::sig(x, 4), (v, lo, hi), what, "%");
+            self.push(field, line, text);
             return None;
         }
         Some(v)
@@ -273,5 +305,29 @@ impl Validator {
                 None
             }
         }
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn a_range_message_has_no_stray_space_and_keeps_its_unit() {
+        let plain = range_text(|x| format!("{x:.1}"), (0.7, -0.5, 0.5), "within", "");
+        assert_eq!(
+            plain,
+            "value 0.7 is out of range: it must be within (-0.5 .. 0.5)"
+        );
+        let pct = range_text(
+            |x| format!("{x}"),
+            (-50.0, 0.0, f64::INFINITY),
+            "zero or more",
+            "%",
+        );
+        assert_eq!(
+            pct,
+            "value -50 % is out of range: it must be zero or more (0 % .. no limit)"
+        );
     }
 }

@@ -46,10 +46,57 @@ impl Validator {
                 d.text.to_string()
             }
         };
+        self.hardness_range = scale_range(&scale).map(|(lo, hi)| (scale.clone(), lo, hi));
         Some(Hardness {
             scale,
             repeatability: rep?,
             calibration,
         })
+    }
+}
+
+/// The range a hardness scale's name ends with: `rebound 0-100`, `Shore D 0..100`, `0 to 100`
+/// give (0, 100); a name without one (`hardness units`) gives none.
+pub(super) fn scale_range(scale: &str) -> Option<(f64, f64)> {
+    let words: Vec<&str> = scale.split_whitespace().collect();
+    let num = |w: &str| w.parse::<f64>().ok().filter(|v| v.is_finite());
+    let pair = match words.as_slice() {
+        [.., a, sep, b] if matches!(*sep, "-" | "to" | ".." | "\u{2013}") => (num(a)?, num(b)?),
+        [.., last] => {
+            let (a, b) = match last.split_once("..") {
+                Some(ab) => ab,
+                // the separator's dash is the first one after the first character (a low end
+                // may be negative)
+                None => last.split_at(
+                    last.char_indices()
+                        .skip(1)
+                        .find(|(_, c)| matches!(c, '-' | '\u{2013}'))?
+                        .0,
+                ),
+            };
+            let b = b.trim_start_matches(['-', '\u{2013}']);
+            (num(a)?, num(b)?)
+        }
+        [] => return None,
+    };
+    (pair.0 < pair.1).then_some(pair)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::scale_range;
+
+    #[test]
+    fn a_scale_name_ending_with_a_range_gives_it() {
+        assert_eq!(scale_range("rebound 0-100"), Some((0.0, 100.0)));
+        assert_eq!(scale_range("Shore D 0..100"), Some((0.0, 100.0)));
+        assert_eq!(scale_range("gauge 0 to 100"), Some((0.0, 100.0)));
+        assert_eq!(scale_range("gauge 0 - 100"), Some((0.0, 100.0)));
+        assert_eq!(scale_range("odd -10-90"), Some((-10.0, 90.0)));
+        assert_eq!(scale_range("hardness units"), None);
+        assert_eq!(scale_range("rebound"), None);
+        assert_eq!(scale_range("backwards 100-0"), None);
+        assert_eq!(scale_range(""), None);
+        assert_eq!(scale_range("\u{2013}5"), None);
     }
 }

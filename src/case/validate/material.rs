@@ -96,6 +96,10 @@ const STACK: &[Row] = &[
     ),
 ];
 
+/// Highest moisture content accepted, % (material.moisture and every moisture profile value
+/// share it).
+pub(super) const MOISTURE_MAX_PCT: f64 = 40.0;
+
 /// Friction, moisture response and sorption.
 const MOISTURE: &[Row] = &[
     row(
@@ -134,7 +138,7 @@ const MOISTURE: &[Row] = &[
         "material.moisture",
         |m| m.moisture.as_ref(),
         Kind::Moisture,
-        Between(0.0, 40.0),
+        Between(0.0, MOISTURE_MAX_PCT),
         |d| d.moisture,
         |m, v| m.moisture_pct = v,
     ),

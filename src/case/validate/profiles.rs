@@ -12,13 +12,22 @@ use std::path::PathBuf;
 /// Numbers with the line they came from.
 type Points = Vec<(f64, Option<u64>)>;
 
-/// Positions, values, the file they came from, and the (position, value) units of a CSV header.
-type PointsFrom = (Points, Points, String, (Option<String>, Option<String>));
+/// Positions, values, the file they came from, the (position, value) units of a CSV header,
+/// and the CSV line of each row (empty for inline lists).
+type PointsFrom = (
+    Points,
+    Points,
+    String,
+    (Option<String>, Option<String>),
+    Vec<u64>,
+);
 
-/// The units a profile's positions and values are written in.
+/// The units a profile's positions and values are written in, and for a CSV its file and the
+/// line of each row (for messages).
 struct Units {
     position: String,
     value: String,
+    csv: Option<(String, Vec<u64>)>,
 }
 /// Most positions read per profile (a scanner exports a few hundred over a machine width).
 pub(in crate::case) const MAX_PROFILE_POINTS: usize = 5000;
@@ -38,7 +47,34 @@ impl Validator {
                 None => ok = false,
             }
         }
-        ok.then_some(out)
+        (ok && self.distinct(ps, &out)).then_some(out)
+    }
+
+    /// Whether no two profiles measure the same thing at the same age: the lanes would read
+    /// only one of them, so a second one is refused, both entries named.
+    fn distinct(&mut self, raw: &[RawProfile], profiles: &[Profile]) -> bool {
+        let mut ok = true;
+        for (j, b) in profiles.iter().enumerate() {
+            let Some(i) = profiles[..j]
+                .iter()
+                .position(|a| a.what == b.what && (a.age_s - b.age_s).abs() < SAME_AGE_S)
+            else {
+                continue;
+            };
+            let message = format!(
+                "profiles[{i}] (line {}) and profiles[{j}] are both {} profiles at {:.1} d; only one can be read. Fix: keep one, average them into one, or give each its own age",
+                line_of(&raw[i].what),
+                what_word(b.what),
+                b.age_s / crate::units::DAY_S
+            );
+            self.push(
+                &format!("profiles[{j}].what"),
+                Some(line_of(&raw[j].what)),
+                message,
+            );
+            ok = false;
+        }
+        ok
     }
 
     /// The caliper repeatability the caliper profiles give, m (the largest when several do);
@@ -76,8 +112,9 @@ impl Validator {
         let what = self.word(&p.what, &f("what"))?;
         let age = self.q(&p.age, &f("age"), Kind::Duration, Range::NonNegative);
         let line = Some(line_of(&p.what));
-        let (positions, values, origin, header_units) = self.points(i, p, file)?;
+        let (positions, values, origin, header_units, csv_lines) = self.points(i, p, file)?;
         let units = Units {
+            csv: (!csv_lines.is_empty()).then(|| (origin.clone(), csv_lines)),
             position: p
                 .position_unit
                 .clone()
@@ -121,10 +158,15 @@ impl Validator {
             return None;
         }
         if positions.len() < 2 {
+            let from = if origin == file {
+                String::new()
+            } else {
+                format!(" (CSV file {origin} has {})", positions.len())
+            };
             self.push(
                 &f("positions"),
                 line,
-                "a profile needs at least two positions across the width".into(),
+                format!("a profile needs at least two positions across the width{from}"),
             );
             return None;
         }
@@ -149,6 +191,7 @@ impl Validator {
                 vs.value.iter().map(|&x| (x, Some(line_of(vs)))).collect(),
                 file.to_string(),
                 (None, None),
+                Vec::new(),
             )),
             (Some(c), _, _) => {
                 self.push(
@@ -192,11 +235,14 @@ impl Validator {
         match read_profile(&path, &cols) {
             Ok(read) => Some({
                 self.warnings.extend(read.notes);
+                // a problem in a row is reported at the `csv:` line, the row named in the message
+                let at = Some(line_of(c));
                 (
-                    read.rows.iter().map(|r| (r.0, None)).collect(),
-                    read.rows.iter().map(|r| (r.1, None)).collect(),
+                    read.rows.iter().map(|r| (r.0, at)).collect(),
+                    read.rows.iter().map(|r| (r.1, at)).collect(),
                     path.display().to_string(),
                     (read.position_unit, read.value_unit),
+                    read.lines,
                 )
             }),
             Err(message) => {
@@ -222,6 +268,7 @@ impl Validator {
         let mut val_si = Vec::new();
         let mut ok = true;
         for (k, ((x, xl), (v, vl))) in positions.iter().zip(values.iter()).enumerate() {
+            let before = self.problems.len();
             let xs = self.num_unit(
                 *x,
                 pos_unit,
@@ -232,10 +279,12 @@ impl Validator {
             let vs = self.value_si(*v, *vl, what, val_unit, &f(&format!("values[{k}]")));
             let (Some(x), Some(v)) = (xs, vs) else {
                 ok = false;
+                self.name_row(units, k, before);
                 continue;
             };
             if !self.inside(x, width, &f(&format!("positions[{k}]")), *xl) {
                 ok = false;
+                self.name_row(units, k, before);
                 continue;
             }
             pos_si.push(x);
@@ -252,6 +301,19 @@ impl Validator {
         ok.then_some((pos_si, val_si))
     }
 
+    /// The problems from `before` on came from row `k` of a CSV: the message names the file and
+    /// its line.
+    fn name_row(&mut self, units: &Units, k: usize, before: usize) {
+        let Some((csv, lines)) = &units.csv else {
+            return;
+        };
+        let row = lines.get(k).copied().unwrap_or(0);
+        for p in &mut self.problems[before..] {
+            p.message
+                .push_str(&format!(" (CSV file {csv}, line {row})"));
+        }
+    }
+
     /// One profile value in SI: hardness as read, lengths through their unit and positive.
     fn value_si(
         &mut self,
@@ -262,23 +324,13 @@ impl Validator {
         field: &str,
     ) -> Option<f64> {
         let kind = match what {
-            Measure::Hardness => {
-                if v.is_finite() {
-                    return Some(v);
-                }
-                self.push(
-                    field,
-                    line,
-                    "is not a finite number; remove the point or give its reading".into(),
-                );
-                return None;
-            }
+            Measure::Hardness => return self.hardness_reading(v, line, field),
             Measure::Diameter | Measure::Caliper => Kind::Length,
             Measure::Moisture => Kind::Moisture,
             Measure::Tension if unit.trim() == "%" => {
                 // percent of the profile's mean, kept as a fraction: `lanes` reads only the
                 // profile's shape (each value over the mean), so N/m and % read alike
-                let v = self.check_range(v, field, line, Kind::Number, Range::NonNegative)?;
+                let v = self.check_percent(v, field, line, Range::NonNegative)?;
                 return Some(v / 100.0);
             }
             Measure::Tension => Kind::LineForce,
@@ -286,9 +338,36 @@ impl Validator {
         let v = self.num_unit(v, unit, field, line, kind)?;
         let range = match what {
             Measure::Tension => Range::NonNegative,
+            // the range of material.moisture
+            Measure::Moisture => Range::Between(0.0, super::material::MOISTURE_MAX_PCT),
             _ => Range::Positive,
         };
         self.check_range(v, field, line, kind, range)
+    }
+
+    /// A hardness reading: finite, and inside the scale's range when its name gives one.
+    fn hardness_reading(&mut self, v: f64, line: Option<u64>, field: &str) -> Option<f64> {
+        if !v.is_finite() {
+            self.push(
+                field,
+                line,
+                "is not a finite number; remove the point or give its reading".into(),
+            );
+            return None;
+        }
+        if let Some((scale, lo, hi)) = &self.hardness_range {
+            if v < *lo || v > *hi {
+                let message = format!(
+                    "reading {} is outside the hardness scale '{scale}' ({} .. {}). Fix: correct the reading, or name the scale the gauge reads in hardness.scale",
+                    crate::units::sig(v, 4),
+                    crate::units::sig(*lo, 4),
+                    crate::units::sig(*hi, 4)
+                );
+                self.push(field, line, message);
+                return None;
+            }
+        }
+        Some(v)
     }
 
     /// Whether a position lies on the roll (when the width is known).
@@ -307,6 +386,21 @@ impl Validator {
             return false;
         }
         true
+    }
+}
+
+/// Two profiles measured less than this apart are at the same age, s (a minute: ages are
+/// written in days or hours).
+const SAME_AGE_S: f64 = 60.0;
+
+/// A profile's `what` as written in the case.
+fn what_word(what: Measure) -> &'static str {
+    match what {
+        Measure::Caliper => "caliper",
+        Measure::Diameter => "diameter",
+        Measure::Hardness => "hardness",
+        Measure::Tension => "tension",
+        Measure::Moisture => "moisture",
     }
 }
 

@@ -1,0 +1,89 @@
+//! A profile CSV's faults are named with the CSV file, its line and the fix: rows in no order
+//! (a back-edge scan, decreasing throughout, is still sorted with a note), rows of the wrong
+//! length, a missing file, and values the case refuses.
+
+use std::path::PathBuf;
+use std::process::Command;
+
+/// A case whose caliper profile is the CSV `csv`, both written to a scratch folder.
+fn case_with_csv(name: &str, csv: &str) -> PathBuf {
+    let dir = std::path::Path::new(env!("CARGO_TARGET_TMPDIR"))
+        .join(format!("rollsleuth-csv-{}-{name}", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap();
+    std::fs::write(dir.join("scan.csv"), csv).unwrap();
+    let demo = std::fs::read_to_string("field_cases/nordvik_pm3_caliper_band.yaml").unwrap();
+    let start = demo.find("  - what: caliper").unwrap();
+    let end = demo[start..].find("  - what: hardness").unwrap() + start;
+    let text = format!(
+        "{}  - what: caliper\n    age: \"0 d\"\n    unit: um\n    csv: scan.csv\n{}",
+        &demo[..start],
+        &demo[end..]
+    );
+    let p = dir.join("case.yaml");
+    std::fs::write(&p, text).unwrap();
+    p
+}
+
+fn check(p: &std::path::Path) -> (i32, String) {
+    let o = Command::new(env!("CARGO_BIN_EXE_rollsleuth"))
+        .args(["check", p.to_str().unwrap()])
+        .output()
+        .unwrap();
+    let err = String::from_utf8_lossy(&o.stderr).into_owned();
+    assert!(!err.contains("panicked"), "{err}");
+    (o.status.code().unwrap_or(-1), err)
+}
+
+#[test]
+fn a_back_edge_scan_is_sorted_with_a_note() {
+    let p = case_with_csv("rev", "position,value\n1550,72\n800,72.4\n50,71.9\n");
+    let (code, err) = check(&p);
+    assert_eq!(code, 0, "{err}");
+    assert!(err.contains("sorted by position"), "{err}");
+}
+
+#[test]
+fn shuffled_positions_are_an_error_naming_the_lines() {
+    let p = case_with_csv(
+        "shuf",
+        "position,value\n50,72\n800,72.4\n300,71.9\n1550,72\n",
+    );
+    let (code, err) = check(&p);
+    assert_eq!(code, 2, "{err}");
+    assert!(
+        err.contains("scan.csv:4") && err.contains("(line 3)"),
+        "{err}"
+    );
+    assert!(err.contains("Fix: sort the rows"), "{err}");
+}
+
+#[test]
+fn a_row_of_the_wrong_length_names_its_line_and_a_fix() {
+    let p = case_with_csv("extra", "position,value\n50,72\n800,72.4,9\n1550,72\n");
+    let (code, err) = check(&p);
+    assert_eq!(code, 2, "{err}");
+    assert!(err.contains("scan.csv:3: this row has 3 cells"), "{err}");
+    assert!(err.contains("Fix:"), "{err}");
+}
+
+#[test]
+fn a_missing_csv_says_its_path_starts_at_the_case_file() {
+    let p = case_with_csv("missing", "position,value\n50,72\n1550,72\n");
+    let text = std::fs::read_to_string(&p)
+        .unwrap()
+        .replace("csv: scan.csv", "csv: nope.csv");
+    std::fs::write(&p, text).unwrap();
+    let (code, err) = check(&p);
+    assert_eq!(code, 2, "{err}");
+    assert!(err.contains("read from the case file's folder"), "{err}");
+    assert!(!err.contains("current folder"), "{err}");
+}
+
+#[test]
+fn a_refused_csv_value_names_the_csv_file_and_line() {
+    let p = case_with_csv("neg", "position,value\n-50,72\n800,72.4\n1550,72\n");
+    let (code, err) = check(&p);
+    assert_eq!(code, 2, "{err}");
+    assert!(err.contains("outside the roll width"), "{err}");
+    assert!(err.contains("scan.csv, line 2"), "{err}");
+}
