@@ -215,6 +215,9 @@ words! {
         OuterMdStressMpa = "outer_md_stress_mpa",
         /// The finding's lane diameter over the web's 75-300 mm either side of it, per mille.
         DiameterRidgePerMille = "diameter_ridge_per_mille",
+        /// The gauge band's lanes' diameter over the web's 75-300 mm beside them (one side only
+        /// at an edge), per mille: a band may lie at an edge, where no ridge is counted.
+        BandDiameterPerMille = "band_diameter_per_mille",
         /// Largest minus smallest lane at unwind.
         SpreadMmPerM = "spread_mm_per_m",
         /// Largest interlayer pressure in the finding's lanes at winding.
@@ -254,7 +257,7 @@ impl Quantity {
             | Quantity::CorePressureMpa
             | Quantity::UnwindStressSwingMpa => "mpa",
             Quantity::SurfacePressureKpa | Quantity::OuterZonePressureKpa => "kpa",
-            Quantity::DiameterRidgePerMille => "per_mille",
+            Quantity::DiameterRidgePerMille | Quantity::BandDiameterPerMille => "per_mille",
         }
     }
 }

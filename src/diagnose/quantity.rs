@@ -18,7 +18,8 @@ pub const fn quantity_of(d: Defect) -> Quantity {
         Defect::Starring | Defect::CrepeWrinkles => Quantity::CoreMdCompressionMpa,
         Defect::Telescoping => Quantity::SurfacePressureKpa,
         Defect::Bursts => Quantity::OuterMdStressMpa,
-        Defect::Ridges | Defect::GaugeBands => Quantity::DiameterRidgePerMille,
+        Defect::Ridges => Quantity::DiameterRidgePerMille,
+        Defect::GaugeBands => Quantity::BandDiameterPerMille,
         Defect::CrushedLayers => Quantity::PeakPressureMpa,
         Defect::CoreCollapse => Quantity::CorePressureMpa,
         Defect::ConicalRoll => Quantity::SideToSideMmPerM,
@@ -73,6 +74,30 @@ impl Site<'_> {
         }
     }
 
+    /// The largest diameter of the focus lanes over the kept web beside them, per mille of the
+    /// median diameter; `ridge`: inner lanes only, as the feature counts a ridge.
+    fn diameter_over_web(
+        &self,
+        o: &Outcome,
+        kept: &[usize],
+        spans: &[(f64, f64)],
+        ridge: bool,
+    ) -> f64 {
+        let r = outer_radii(&o.wound, kept);
+        let med = median(&r);
+        let mut at = self.focus(kept);
+        if ridge {
+            let inner = local::inner_lanes(kept.len());
+            at.retain(|k| inner.contains(k));
+            if at.is_empty() {
+                at = inner.collect();
+            }
+        }
+        max(at
+            .into_iter()
+            .map(|k| local::baseline(spans, &r, k).map_or(0.0, |m| (r[k] - m) / med * 1e3)))
+    }
+
     /// Evaluate `q` on an outcome, in the quantity's unit (0 when not finite). A local quantity
     /// is judged against the web that is kept ([`local::baseline`] over the kept lanes).
     pub fn measure(&self, q: Quantity, o: &Outcome) -> f64 {
@@ -116,13 +141,8 @@ impl Site<'_> {
                         .unwrap_or(&0.0)
                 })) / 1e6
             }
-            Quantity::DiameterRidgePerMille => {
-                let r = outer_radii(&o.wound, &kept);
-                let med = median(&r);
-                max(self.focus(&kept).into_iter().map(|k| {
-                    local::baseline(&spans, &r, k).map_or(0.0, |m| (r[k] - m) / med * 1e3)
-                }))
-            }
+            Quantity::DiameterRidgePerMille => self.diameter_over_web(o, &kept, &spans, true),
+            Quantity::BandDiameterPerMille => self.diameter_over_web(o, &kept, &spans, false),
             Quantity::SpreadMmPerM => max(s.iter().copied()) + max(s.iter().map(|x| -x)),
             Quantity::SideToSideMmPerM => {
                 let x: Vec<f64> = kept

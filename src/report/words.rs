@@ -84,6 +84,7 @@ pub fn quantity(q: Quantity) -> &'static str {
         Quantity::SurfacePressureKpa => "interlayer pressure at the surface after storage",
         Quantity::OuterMdStressMpa => "MD stress in the outer wrap after storage",
         Quantity::DiameterRidgePerMille => "diameter ridge over the web around it",
+        Quantity::BandDiameterPerMille => "diameter of the thick band over the web beside it",
         Quantity::SpreadMmPerM => "length spread across the width",
         Quantity::PeakPressureMpa => {
             "highest interlayer pressure in the finding's lanes at winding"
@@ -119,7 +120,9 @@ pub fn quantity_value(q: Quantity, v: f64, sys: System) -> String {
     let v = if v.abs() < 5e-4 { 0.0 } else { v };
     match (q, quantity_si(q, v)) {
         (_, Some(si)) => units::show(si, Kind::Pressure, sys, false),
-        (Quantity::DiameterRidgePerMille, _) => format!("{v:.2} per mille"),
+        (Quantity::DiameterRidgePerMille | Quantity::BandDiameterPerMille, _) => {
+            format!("{v:.2} per mille")
+        }
         _ => format!("{v:.3} {}", units::strain_label(sys)),
     }
 }
@@ -129,7 +132,9 @@ pub fn quantity_change(q: Quantity, dv: f64, sys: System) -> String {
     let dv = if dv.abs() < 5e-4 { 0.0 } else { dv };
     match (q, quantity_si(q, dv)) {
         (_, Some(si)) => units::signed(si, Kind::Pressure, sys, false, 1),
-        (Quantity::DiameterRidgePerMille, _) => format!("{dv:+.2} per mille"),
+        (Quantity::DiameterRidgePerMille | Quantity::BandDiameterPerMille, _) => {
+            format!("{dv:+.2} per mille")
+        }
         _ => format!("{dv:+.3} {}", units::strain_label(sys)),
     }
 }
