@@ -111,6 +111,10 @@ pub enum Command {
         rules: RulesArg,
     },
     /// Triage many rolls: one line each, worst first.
+    ///
+    /// Worst first: rolls not diagnosed, then rolls beyond a physical limit (column "beyond
+    /// limits", `limits_exceeded`), then the rest, each by the first finding's likelihood and
+    /// then the length spread.
     Triage {
         /// Case files or folders of case files (*.yaml).
         paths: Vec<PathBuf>,

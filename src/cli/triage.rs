@@ -77,8 +77,9 @@ pub fn triage(
     }
     bar.finish_and_clear();
     rows.sort_by(|a, b| {
-        b.rank_key()
-            .total_cmp(&a.rank_key())
+        let (ka, kb) = (a.rank_key(), b.rank_key());
+        kb.0.cmp(&ka.0)
+            .then(kb.1.total_cmp(&ka.1))
             .then(a.file.cmp(&b.file))
     });
     let s = match format {

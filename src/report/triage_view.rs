@@ -1,6 +1,7 @@
 //! `triage` and `whatif` output: many rolls in one table, and a roll against a changed copy.
 
 use super::{pos, table, words, SAFETY};
+use crate::note::Note;
 use crate::units::System;
 use crate::vocab::Defect;
 
@@ -17,6 +18,9 @@ pub struct TriageRow {
     pub defects: Vec<Defect>,
     pub complaint: Option<Defect>,
     pub agrees: Option<bool>,
+    /// How many physical limits the roll's predicted state is beyond
+    /// ([`crate::note::Limit::beyond_physical`]); `None` when not diagnosed.
+    pub limits_exceeded: Option<u32>,
     pub error: Option<String>,
     /// The case's warnings and every physical limit a stage passed, in words.
     pub warnings: Vec<String>,
@@ -35,6 +39,12 @@ impl TriageRow {
             defects,
             complaint: d.agreement.as_ref().map(|a| a.complaint),
             agrees: d.agreement.as_ref().map(|a| a.agrees),
+            limits_exceeded: Some(
+                d.notes
+                    .iter()
+                    .filter(|n| matches!(n, Note::Limit(l) if l.beyond_physical()))
+                    .count() as u32,
+            ),
             error: None,
             warnings: words::warnings(d),
         }
@@ -49,25 +59,24 @@ impl TriageRow {
             defects: Vec::new(),
             complaint: None,
             agrees: None,
+            limits_exceeded: None,
             error: Some(e.to_string()),
             warnings: Vec::new(),
         }
     }
-    /// Ranking: failures first, then likelihood, then spread.
-    pub fn rank_key(&self) -> f64 {
-        match (
-            self.error.is_some(),
-            self.top_likelihood,
-            self.spread_mm_per_m,
-        ) {
-            (false, Some(l), Some(s)) => l * 1e3 + s,
-            _ => 1e9,
+    /// Ranking, larger first: failures, then rolls beyond a physical limit, then the rest; within
+    /// each, by the first finding's likelihood, then by spread.
+    pub fn rank_key(&self) -> (u8, f64) {
+        let beyond = u8::from(self.limits_exceeded > Some(0));
+        match (&self.error, self.top_likelihood, self.spread_mm_per_m) {
+            (None, Some(l), Some(s)) => (beyond, l * 1e3 + s),
+            _ => (2, 0.0),
         }
     }
 }
 
 /// The columns of the triage CSV (SI; the spread is mm of extra length per m of web).
-const CSV_COLUMNS: [&str; 9] = [
+const CSV_COLUMNS: [&str; 10] = [
     "file",
     "case",
     "spread_mm_per_m",
@@ -75,6 +84,7 @@ const CSV_COLUMNS: [&str; 9] = [
     "defects",
     "complaint",
     "agrees",
+    "limits_exceeded",
     "error",
     "warnings",
 ];
@@ -103,6 +113,7 @@ pub fn triage_csv_rows(rows: &[TriageRow]) -> String {
                 defects.join(";"),
                 r.complaint.map(|c| c.word()).unwrap_or_default().into(),
                 r.agrees.map(|a| a.to_string()).unwrap_or_default(),
+                r.limits_exceeded.map(|n| n.to_string()).unwrap_or_default(),
                 r.error.as_deref().map(one_line).unwrap_or_default(),
                 r.warnings.join(" | "),
             ])?;
@@ -140,6 +151,7 @@ pub fn triage_text(rows: &[TriageRow], sys: System) -> String {
         "likely defects",
         "complaint",
         "agrees",
+        "beyond limits",
     ]);
     let mut failed = String::new();
     let mut warned = String::new();
@@ -163,6 +175,9 @@ pub fn triage_text(rows: &[TriageRow], sys: System) -> String {
     if !failed.is_empty() {
         out.push_str("Not diagnosed (bad input; fix and run again):\n");
         out.push_str(&failed);
+    }
+    if rows.iter().any(|r| r.limits_exceeded > Some(0)) {
+        out.push_str("Beyond limits: the roll's predicted state passes a physical limit (strength, crush, core, lift-off, air film, ...), so results resting on it are not physical; such rolls are listed first, after those not diagnosed. Check their inputs and the warnings.\n");
     }
     out.push_str(&warned);
     out.push_str("Triage uses the fast settings (no corrections re-run); run `rollsleuth diagnose CASE` on a roll for the full report.\n");
@@ -201,6 +216,11 @@ fn cells(r: &TriageRow) -> Vec<String> {
         match r.agrees {
             Some(true) => "yes".into(),
             Some(false) => "no".into(),
+            None => String::new(),
+        },
+        match r.limits_exceeded {
+            Some(0) => "none".into(),
+            Some(n) => format!("{n} (see warnings)"),
             None => String::new(),
         },
     ]
