@@ -76,7 +76,7 @@ impl TriageRow {
 }
 
 /// The columns of the triage CSV (SI; the spread is mm of extra length per m of web).
-const CSV_COLUMNS: [&str; 10] = [
+pub const TRIAGE_CSV_COLUMNS: [&str; 10] = [
     "file",
     "case",
     "spread_mm_per_m",
@@ -91,7 +91,12 @@ const CSV_COLUMNS: [&str; 10] = [
 
 /// The header line of the triage CSV.
 pub fn triage_csv_header() -> String {
-    csv_text(|w| w.write_record(CSV_COLUMNS))
+    csv_text(|w| w.write_record(TRIAGE_CSV_COLUMNS))
+}
+
+/// Rows already in the CSV's columns (a resumed run's earlier rows) as CSV lines.
+pub fn triage_csv_records(rows: &[Vec<String>]) -> String {
+    csv_text(|w| rows.iter().try_for_each(|r| w.write_record(r)))
 }
 
 /// Triage rows as CSV lines (no header); defects are separated by `;`. A roll not diagnosed has
@@ -224,6 +229,14 @@ fn cells(r: &TriageRow) -> Vec<String> {
             None => String::new(),
         },
     ]
+}
+
+/// The note for a subfolder of a folder given to triage: it is not searched.
+pub fn triage_subfolder_note(dir: &std::path::Path) -> String {
+    format!(
+        "note: {}: a subfolder, not searched (triage reads the *.yaml files of the folders it is given); name it too to triage its rolls",
+        dir.display()
+    )
 }
 
 /// Triage as JSON: the rolls, worst first, and the safety note.
