@@ -54,34 +54,13 @@ pub fn triage(
             todo.len()
         ));
     }
-    let bar = progress(todo.len() as u64, out.quiet);
-    let opt = DiagnoseOptions {
-        nodes: crate::winding::DEFAULT_NODES,
-        what_if: false,
-    };
-    let stdout = std::io::stdout();
-    let mut rows = Vec::with_capacity(todo.len());
     if format == TriageFormat::Csv {
         // a resumed run prints the whole CSV again: the rows that stand, then the new ones
+        let stdout = std::io::stdout();
         write_now(&stdout, &report::triage_csv_header())?;
         write_now(&stdout, &earlier.text)?;
     }
-    for batch in todo.chunks(BATCH) {
-        let got: Vec<TriageRow> = batch
-            .par_iter()
-            .map(|f| {
-                let row = one_roll(f, &table, &opt);
-                bar.inc(1);
-                row
-            })
-            .collect();
-        if format == TriageFormat::Csv {
-            let text = report::triage_csv_rows(&got);
-            bar.suspend(|| write_now(&stdout, &text))?;
-        }
-        rows.extend(got);
-    }
-    bar.finish_and_clear();
+    let mut rows = run_rolls(&todo, &table, format == TriageFormat::Csv, out.quiet)?;
     rows.sort_by(|a, b| {
         let (ka, kb) = (a.rank_key(), b.rank_key());
         kb.0.cmp(&ka.0)
@@ -102,6 +81,40 @@ pub fn triage(
     } else {
         Outcome::Ok(s)
     })
+}
+
+/// Diagnose the rolls in batches run in parallel, with a progress bar; with `csv`, each batch's
+/// rows are printed (in file order) as soon as it is done.
+fn run_rolls(
+    todo: &[&PathBuf],
+    table: &crate::rules::Table,
+    csv: bool,
+    quiet: bool,
+) -> Result<Vec<TriageRow>, CliError> {
+    let bar = progress(todo.len() as u64, quiet);
+    let opt = DiagnoseOptions {
+        nodes: crate::winding::DEFAULT_NODES,
+        what_if: false,
+    };
+    let stdout = std::io::stdout();
+    let mut rows = Vec::with_capacity(todo.len());
+    for batch in todo.chunks(BATCH) {
+        let got: Vec<TriageRow> = batch
+            .par_iter()
+            .map(|f| {
+                let row = one_roll(f, table, &opt);
+                bar.inc(1);
+                row
+            })
+            .collect();
+        if csv {
+            let text = report::triage_csv_rows(&got);
+            bar.suspend(|| write_now(&stdout, &text))?;
+        }
+        rows.extend(got);
+    }
+    bar.finish_and_clear();
+    Ok(rows)
 }
 
 /// One roll: loaded and diagnosed, or the reason it could not be.

@@ -224,10 +224,10 @@ fn place<'a>(t: tempfile::NamedTempFile, target: &'a Path) -> Result<Placed<'a>,
 fn unplace(p: Placed, placed: bool, stranded: &mut Vec<(PathBuf, PathBuf)>) {
     match p.aside {
         Some(aside) => {
-            if std::fs::rename(&aside, p.target).is_err() {
-                if let Ok(kept) = aside.keep() {
-                    stranded.push((p.target.to_path_buf(), kept));
-                }
+            // keep() only stops the removal; after a rename back nothing is left at `aside`
+            let back = std::fs::rename(&aside, p.target);
+            if let (Err(_), Ok(kept)) = (back, aside.keep()) {
+                stranded.push((p.target.to_path_buf(), kept));
             }
         }
         None if placed => {
