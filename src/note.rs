@@ -308,6 +308,30 @@ pub enum Limit {
     },
 }
 
+impl Limit {
+    /// Whether the state is beyond what the web, the core or the model can hold (a strength,
+    /// lift-off, an air film taking all the tension, a crushed stack, a diameter inside the
+    /// core, moisture above saturation, a floor contact past Hertz or crush, a hardness off the
+    /// scale, a converting tension past the web's strength): results resting on it are not
+    /// physical. Not so for conditions real rolls meet
+    /// and the model represents (condensation, loose outer wraps).
+    pub fn beyond_physical(&self) -> bool {
+        match self {
+            Limit::AboveLiftOff { .. }
+            | Limit::Strength { .. }
+            | Limit::StackCrushed { .. }
+            | Limit::DiameterInsideCore { .. }
+            | Limit::MoistureAboveSaturation { .. }
+            | Limit::FlatContact { .. }
+            | Limit::AirFloats { .. }
+            | Limit::HardnessBelowScale { .. }
+            | Limit::HardnessNotFinite { .. }
+            | Limit::UnwindTension { .. } => true,
+            Limit::Condensation(_) | Limit::LooseOuterWraps { .. } => false,
+        }
+    }
+}
+
 /// Water condensed on a cold roll brought into warmer, humid air ([`Limit::Condensation`]).
 #[derive(Debug, Clone, Copy, PartialEq, Serialize)]
 pub struct Condensed {

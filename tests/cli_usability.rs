@@ -190,8 +190,8 @@ fn triage_resumes_from_a_partial_csv() {
     assert_eq!(code, 1, "{err}");
     assert_eq!(
         rest.lines().collect::<Vec<_>>(),
-        lines[2..].to_vec(),
-        "no header, only the rest"
+        lines,
+        "the whole CSV again: header, the earlier whole row, then the rest"
     );
     let (code, _, _) = run(cmd().args(["triage", "--resume", "x.csv", d.to_str().unwrap()]));
     assert_eq!(code, 2, "--resume without --format csv is a usage error");

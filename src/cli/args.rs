@@ -112,6 +112,10 @@ pub enum Command {
         rules: RulesArg,
     },
     /// Triage many rolls: one line each, worst first.
+    ///
+    /// Worst first: rolls not diagnosed, then rolls beyond a physical limit (column "beyond
+    /// limits", `limits_exceeded`), then the rest, each by the first finding's likelihood and
+    /// then the length spread.
     Triage {
         /// Case files or folders of case files (*.yaml).
         paths: Vec<PathBuf>,
@@ -120,8 +124,10 @@ pub enum Command {
         /// Output format (--json is the same as --format json).
         #[arg(long, value_enum, default_value_t = TriageFormat::Table)]
         format: TriageFormat,
-        /// Continue a batch: rolls listed in this earlier CSV output (`--format csv`) are
-        /// skipped, and the new rows are printed as CSV without a header, ready to append.
+        /// Continue a batch from this earlier CSV output (`--format csv`): rolls it lists
+        /// without an error are skipped, rolls that failed are run again, and the whole CSV is
+        /// printed (header, the earlier rows that stand, the new rows), one row per file. Write
+        /// it to a new file, then rename that over the old one.
         #[arg(long, value_name = "FILE")]
         resume: Option<PathBuf>,
     },

@@ -89,30 +89,37 @@ pub(super) fn load_rules(arg: &RulesArg) -> Result<Table, CliError> {
     })
 }
 
-/// Case files named by paths (folders expand to their *.yaml files, sorted).
-pub(super) fn case_files(paths: &[PathBuf]) -> Result<Vec<PathBuf>, CliError> {
+/// Case files named by paths (folders expand to their *.yaml and *.yml files, sorted), and the
+/// subfolders of those folders, which are not searched (sorted).
+pub(super) fn case_files(paths: &[PathBuf]) -> Result<(Vec<PathBuf>, Vec<PathBuf>), CliError> {
     let mut out = Vec::new();
+    let mut subfolders = Vec::new();
     for p in paths {
         if p.is_dir() {
             let rd = std::fs::read_dir(p).map_err(|source| CliError::Folder {
                 path: p.clone(),
                 source,
             })?;
-            let mut v: Vec<PathBuf> = rd
-                .filter_map(|e| e.ok().map(|e| e.path()))
+            let entries: Vec<PathBuf> = rd.filter_map(|e| e.ok().map(|e| e.path())).collect();
+            let mut v: Vec<PathBuf> = entries
+                .iter()
                 .filter(|x| {
                     x.extension().is_some_and(|e| {
                         e.eq_ignore_ascii_case("yaml") || e.eq_ignore_ascii_case("yml")
                     })
                 })
+                .cloned()
                 .collect();
             v.sort();
             out.extend(v);
+            let mut d: Vec<PathBuf> = entries.into_iter().filter(|x| x.is_dir()).collect();
+            d.sort();
+            subfolders.extend(d);
         } else {
             out.push(p.clone());
         }
     }
-    Ok(out)
+    Ok((out, subfolders))
 }
 
 /// Load a case, build its lanes and wind it.

@@ -33,7 +33,7 @@ pub enum CliError {
     #[error("{}: cannot write the report: {source}", .dir.display())]
     Report {
         dir: PathBuf,
-        source: std::io::Error,
+        source: crate::report::files::WriteError,
     },
     #[error("--out {}: is a file, not a folder. Fix: give --out a folder (it is created if missing), e.g. --out reports", .0.display())]
     OutNotFolder(PathBuf),
@@ -138,12 +138,19 @@ mod tests {
         assert_eq!(CliError::WhatIfNeedsSet.exit_code(), 2);
         assert_eq!(CliError::TriageNeedsFiles.exit_code(), 2);
         assert_eq!(CliError::WhatIfNeedsSet.kind(), "usage");
-        let io = std::io::Error::other("disk full");
         let e = CliError::Report {
             dir: "out".into(),
-            source: io,
+            source: crate::report::files::WriteError {
+                path: "out/R1.json".into(),
+                folder: false,
+                source: std::io::Error::other("disk full"),
+                stranded: Vec::new(),
+            },
         };
         assert_eq!(e.exit_code(), 2);
-        assert_eq!(e.to_string(), "out: cannot write the report: disk full");
+        assert_eq!(
+            e.to_string(),
+            "out: cannot write the report: out/R1.json: disk full. Fix: check that the folder exists and is writable and that the disk has space, then run again; no report file was changed"
+        );
     }
 }

@@ -31,14 +31,18 @@ pub fn triage(
         return Err(CliError::ResumeNeedsCsv);
     }
     let table = load_rules(rules)?;
-    let files = case_files(paths)?;
+    let (files, subfolders) = case_files(paths)?;
+    for d in &subfolders {
+        out.tell(&report::triage_subfolder_note(d));
+    }
     if files.is_empty() {
         return Err(CliError::TriageNeedsFiles);
     }
-    let done = match resume {
-        Some(p) => listed_files(p)?,
-        None => BTreeSet::new(),
+    let earlier = match resume {
+        Some(p) => earlier_rows(p, &files)?,
+        None => Earlier::default(),
     };
+    let done = &earlier.done;
     let todo: Vec<&PathBuf> = files
         .iter()
         .filter(|f| !done.contains(&f.display().to_string()))
@@ -50,35 +54,17 @@ pub fn triage(
             todo.len()
         ));
     }
-    let bar = progress(todo.len() as u64, out.quiet);
-    let opt = DiagnoseOptions {
-        nodes: crate::winding::DEFAULT_NODES,
-        what_if: false,
-    };
-    let stdout = std::io::stdout();
-    let mut rows = Vec::with_capacity(todo.len());
-    if format == TriageFormat::Csv && resume.is_none() {
+    if format == TriageFormat::Csv {
+        // a resumed run prints the whole CSV again: the rows that stand, then the new ones
+        let stdout = std::io::stdout();
         write_now(&stdout, &report::triage_csv_header())?;
+        write_now(&stdout, &earlier.text)?;
     }
-    for batch in todo.chunks(BATCH) {
-        let got: Vec<TriageRow> = batch
-            .par_iter()
-            .map(|f| {
-                let row = one_roll(f, &table, &opt);
-                bar.inc(1);
-                row
-            })
-            .collect();
-        if format == TriageFormat::Csv {
-            let text = report::triage_csv_rows(&got);
-            bar.suspend(|| write_now(&stdout, &text))?;
-        }
-        rows.extend(got);
-    }
-    bar.finish_and_clear();
+    let mut rows = run_rolls(&todo, &table, format == TriageFormat::Csv, out.quiet)?;
     rows.sort_by(|a, b| {
-        b.rank_key()
-            .total_cmp(&a.rank_key())
+        let (ka, kb) = (a.rank_key(), b.rank_key());
+        kb.0.cmp(&ka.0)
+            .then(kb.1.total_cmp(&ka.1))
             .then(a.file.cmp(&b.file))
     });
     let s = match format {
@@ -87,7 +73,7 @@ pub fn triage(
         TriageFormat::Table => report::triage_text(&rows, out.sys),
     };
     let bad = rows.iter().any(|r| r.error.is_some());
-    let any = rows.iter().any(|r| !r.defects.is_empty());
+    let any = earlier.findings || rows.iter().any(|r| !r.defects.is_empty());
     Ok(if bad {
         Outcome::BadInput(s)
     } else if any {
@@ -95,6 +81,40 @@ pub fn triage(
     } else {
         Outcome::Ok(s)
     })
+}
+
+/// Diagnose the rolls in batches run in parallel, with a progress bar; with `csv`, each batch's
+/// rows are printed (in file order) as soon as it is done.
+fn run_rolls(
+    todo: &[&PathBuf],
+    table: &crate::rules::Table,
+    csv: bool,
+    quiet: bool,
+) -> Result<Vec<TriageRow>, CliError> {
+    let bar = progress(todo.len() as u64, quiet);
+    let opt = DiagnoseOptions {
+        nodes: crate::winding::DEFAULT_NODES,
+        what_if: false,
+    };
+    let stdout = std::io::stdout();
+    let mut rows = Vec::with_capacity(todo.len());
+    for batch in todo.chunks(BATCH) {
+        let got: Vec<TriageRow> = batch
+            .par_iter()
+            .map(|f| {
+                let row = one_roll(f, table, &opt);
+                bar.inc(1);
+                row
+            })
+            .collect();
+        if csv {
+            let text = report::triage_csv_rows(&got);
+            bar.suspend(|| write_now(&stdout, &text))?;
+        }
+        rows.extend(got);
+    }
+    bar.finish_and_clear();
+    Ok(rows)
 }
 
 /// One roll: loaded and diagnosed, or the reason it could not be.
@@ -132,30 +152,90 @@ fn write_now(stdout: &std::io::Stdout, text: &str) -> Result<(), CliError> {
         .map_err(|source| CliError::Stdout { source })
 }
 
-/// The files an earlier CSV output lists (its `file` column).
-fn listed_files(path: &Path) -> Result<BTreeSet<String>, CliError> {
+/// What an earlier CSV output gives a resumed run.
+#[derive(Default)]
+struct Earlier {
+    /// Files with a row and no error: not run again.
+    done: BTreeSet<String>,
+    /// The earlier rows that stand, as CSV lines in the current columns: one per file (the last
+    /// whole row of a file), leaving out the failed rows of files this run diagnoses again.
+    text: String,
+    /// Whether a standing row has findings.
+    findings: bool,
+}
+
+/// Read an earlier CSV output (`--resume`): its whole rows, mapped by column name onto the
+/// current columns (a column it lacks is left empty). A row cut short by a stop is not done; a
+/// row with an error is not done either, so a file fixed since is diagnosed again and its new
+/// row supersedes the failed one.
+fn earlier_rows(path: &Path, files: &[PathBuf]) -> Result<Earlier, CliError> {
     let fail = |message: String| CliError::Resume {
         path: path.to_path_buf(),
         message,
     };
+    if same_file_as_stdout(path) {
+        return Err(fail("the output goes to this same file; write the new CSV to another file, then rename it over this one".into()));
+    }
     let mut rdr = csv::ReaderBuilder::new()
         .flexible(true)
         .from_path(path)
         .map_err(|e| fail(e.to_string()))?;
     let headers = rdr.headers().map_err(|e| fail(e.to_string()))?.clone();
-    let col = headers
-        .iter()
-        .position(|h| h == "file")
-        .ok_or_else(|| fail("it has no `file` column".into()))?;
-    let mut done = BTreeSet::new();
+    let at = |name: &str| headers.iter().position(|h| h == name);
+    let file_col = at("file").ok_or_else(|| fail("it has no `file` column".into()))?;
+    let (error_col, defects_col) = (at("error"), at("defects"));
+    let columns: Vec<Option<usize>> = report::TRIAGE_CSV_COLUMNS.iter().map(|c| at(c)).collect();
+    // the last whole row of each file, in the order the files first appear
+    let mut rows: Vec<(String, csv::StringRecord)> = Vec::new();
     for rec in rdr.records() {
-        // A row cut short by a stop is not done: it is run again.
         let Ok(rec) = rec else { continue };
-        if rec.len() == headers.len() {
-            if let Some(f) = rec.get(col) {
-                done.insert(f.to_string());
-            }
+        if rec.len() != headers.len() {
+            continue;
+        }
+        let file = rec.get(file_col).unwrap_or_default().to_string();
+        match rows.iter_mut().find(|(f, _)| *f == file) {
+            Some(r) => r.1 = rec,
+            None => rows.push((file, rec)),
         }
     }
-    Ok(done)
+    let this_run: BTreeSet<String> = files.iter().map(|f| f.display().to_string()).collect();
+    let cell = |rec: &csv::StringRecord, col: Option<usize>| {
+        col.and_then(|c| rec.get(c)).unwrap_or_default().to_string()
+    };
+    let mut out = Earlier::default();
+    let mut kept = Vec::new();
+    for (file, rec) in rows {
+        let ok = cell(&rec, error_col).is_empty();
+        if !ok && this_run.contains(&file) {
+            continue;
+        }
+        out.findings |= ok && !cell(&rec, defects_col).is_empty();
+        kept.push(columns.iter().map(|&c| cell(&rec, c)).collect::<Vec<_>>());
+        if ok {
+            out.done.insert(file);
+        }
+    }
+    out.text = report::triage_csv_records(&kept);
+    Ok(out)
+}
+
+/// Whether standard output is the file `path` (a `>>` onto the CSV being resumed).
+#[cfg(unix)]
+fn same_file_as_stdout(path: &Path) -> bool {
+    use std::os::fd::AsFd;
+    use std::os::unix::fs::MetadataExt;
+    let out = std::io::stdout()
+        .as_fd()
+        .try_clone_to_owned()
+        .map(std::fs::File::from)
+        .and_then(|f| f.metadata());
+    match (out, std::fs::metadata(path)) {
+        (Ok(a), Ok(b)) => a.is_file() && a.dev() == b.dev() && a.ino() == b.ino(),
+        _ => false,
+    }
+}
+
+#[cfg(not(unix))]
+fn same_file_as_stdout(_: &Path) -> bool {
+    false
 }

@@ -27,8 +27,8 @@ pub mod triage_view;
 pub mod words;
 
 pub use triage_view::{
-    triage_csv_header, triage_csv_rows, triage_json, triage_text, whatif_json, whatif_text,
-    TriageRow, WhatIfLanesError,
+    triage_csv_header, triage_csv_records, triage_csv_rows, triage_json, triage_subfolder_note,
+    triage_text, whatif_json, whatif_text, TriageRow, WhatIfLanesError, TRIAGE_CSV_COLUMNS,
 };
 
 use crate::units::{self, Kind, System};

@@ -1,6 +1,7 @@
 //! `triage` and `whatif` output: many rolls in one table, and a roll against a changed copy.
 
 use super::{pos, table, words, SAFETY};
+use crate::note::Note;
 use crate::units::System;
 use crate::vocab::Defect;
 
@@ -9,11 +10,17 @@ use crate::vocab::Defect;
 pub struct TriageRow {
     pub file: String,
     pub case: String,
-    pub spread_mm_per_m: f64,
-    pub top_likelihood: f64,
+    /// Length spread at unwind, mm per m of web; `None` (JSON null) when the roll could not be
+    /// diagnosed, so that no reader takes a failed roll for a perfect one.
+    pub spread_mm_per_m: Option<f64>,
+    /// Likelihood of the first finding (0 with none); `None` when not diagnosed.
+    pub top_likelihood: Option<f64>,
     pub defects: Vec<Defect>,
     pub complaint: Option<Defect>,
     pub agrees: Option<bool>,
+    /// How many physical limits the roll's predicted state is beyond
+    /// ([`crate::note::Limit::beyond_physical`]); `None` when not diagnosed.
+    pub limits_exceeded: Option<u32>,
     pub error: Option<String>,
     /// The case's warnings and every physical limit a stage passed, in words.
     pub warnings: Vec<String>,
@@ -27,11 +34,17 @@ impl TriageRow {
         TriageRow {
             file: file.display().to_string(),
             case: d.case.clone(),
-            spread_mm_per_m: d.spread_mm_per_m,
-            top_likelihood: d.findings.first().map(|f| f.weight).unwrap_or(0.0),
+            spread_mm_per_m: Some(d.spread_mm_per_m),
+            top_likelihood: Some(d.findings.first().map(|f| f.weight).unwrap_or(0.0)),
             defects,
             complaint: d.agreement.as_ref().map(|a| a.complaint),
             agrees: d.agreement.as_ref().map(|a| a.agrees),
+            limits_exceeded: Some(
+                d.notes
+                    .iter()
+                    .filter(|n| matches!(n, Note::Limit(l) if l.beyond_physical()))
+                    .count() as u32,
+            ),
             error: None,
             warnings: words::warnings(d),
         }
@@ -41,27 +54,29 @@ impl TriageRow {
         TriageRow {
             file: file.display().to_string(),
             case: String::new(),
-            spread_mm_per_m: 0.0,
-            top_likelihood: 0.0,
+            spread_mm_per_m: None,
+            top_likelihood: None,
             defects: Vec::new(),
             complaint: None,
             agrees: None,
+            limits_exceeded: None,
             error: Some(e.to_string()),
             warnings: Vec::new(),
         }
     }
-    /// Ranking: failures first, then likelihood, then spread.
-    pub fn rank_key(&self) -> f64 {
-        if self.error.is_some() {
-            1e9
-        } else {
-            self.top_likelihood * 1e3 + self.spread_mm_per_m
+    /// Ranking, larger first: failures, then rolls beyond a physical limit, then the rest; within
+    /// each, by the first finding's likelihood, then by spread.
+    pub fn rank_key(&self) -> (u8, f64) {
+        let beyond = u8::from(self.limits_exceeded > Some(0));
+        match (&self.error, self.top_likelihood, self.spread_mm_per_m) {
+            (None, Some(l), Some(s)) => (beyond, l * 1e3 + s),
+            _ => (2, 0.0),
         }
     }
 }
 
 /// The columns of the triage CSV (SI; the spread is mm of extra length per m of web).
-const CSV_COLUMNS: [&str; 9] = [
+pub const TRIAGE_CSV_COLUMNS: [&str; 10] = [
     "file",
     "case",
     "spread_mm_per_m",
@@ -69,16 +84,24 @@ const CSV_COLUMNS: [&str; 9] = [
     "defects",
     "complaint",
     "agrees",
+    "limits_exceeded",
     "error",
     "warnings",
 ];
 
 /// The header line of the triage CSV.
 pub fn triage_csv_header() -> String {
-    csv_text(|w| w.write_record(CSV_COLUMNS))
+    csv_text(|w| w.write_record(TRIAGE_CSV_COLUMNS))
 }
 
-/// Triage rows as CSV lines (no header); defects are separated by `;`.
+/// Rows already in the CSV's columns (a resumed run's earlier rows) as CSV lines.
+pub fn triage_csv_records(rows: &[Vec<String>]) -> String {
+    csv_text(|w| rows.iter().try_for_each(|r| w.write_record(r)))
+}
+
+/// Triage rows as CSV lines (no header); defects are separated by `;`. A roll not diagnosed has
+/// its numbers empty (not 0) and its whole error message, one line of it after another joined by
+/// ` | `.
 pub fn triage_csv_rows(rows: &[TriageRow]) -> String {
     csv_text(|w| {
         for r in rows {
@@ -86,25 +109,31 @@ pub fn triage_csv_rows(rows: &[TriageRow]) -> String {
             w.write_record([
                 r.file.clone(),
                 r.case.clone(),
-                if r.error.is_some() {
-                    String::new()
-                } else {
-                    format!("{:.4}", r.spread_mm_per_m)
-                },
-                format!("{:.2}", r.top_likelihood),
+                r.spread_mm_per_m
+                    .map(|x| format!("{x:.4}"))
+                    .unwrap_or_default(),
+                r.top_likelihood
+                    .map(|x| format!("{x:.2}"))
+                    .unwrap_or_default(),
                 defects.join(";"),
                 r.complaint.map(|c| c.word()).unwrap_or_default().into(),
                 r.agrees.map(|a| a.to_string()).unwrap_or_default(),
-                r.error
-                    .as_deref()
-                    .map(|e| e.lines().next().unwrap_or(""))
-                    .unwrap_or_default()
-                    .into(),
+                r.limits_exceeded.map(|n| n.to_string()).unwrap_or_default(),
+                r.error.as_deref().map(one_line).unwrap_or_default(),
                 r.warnings.join(" | "),
             ])?;
         }
         Ok(())
     })
+}
+
+/// A message of several lines on one: each line trimmed, blank ones left out, joined by ` | `.
+fn one_line(e: &str) -> String {
+    e.lines()
+        .map(str::trim)
+        .filter(|l| !l.is_empty())
+        .collect::<Vec<_>>()
+        .join(" | ")
 }
 
 fn csv_text(fill: impl FnOnce(&mut csv::Writer<Vec<u8>>) -> csv::Result<()>) -> String {
@@ -115,8 +144,9 @@ fn csv_text(fill: impl FnOnce(&mut csv::Writer<Vec<u8>>) -> csv::Result<()>) -> 
     String::from_utf8_lossy(&bytes).into_owned()
 }
 
-/// Triage table: the diagnosed rolls, worst first (the roll id is never wrapped, the file is
-/// shown by its name), then the files that could not be diagnosed, each with its whole message.
+/// Triage table: every roll, worst first (the roll id is never wrapped, the file is shown by its
+/// name; a roll not diagnosed says so in its columns), then the messages of the files that could
+/// not be diagnosed, each whole.
 pub fn triage_text(rows: &[TriageRow], sys: System) -> String {
     let spread = format!("length spread {}", super::strain_unit(sys));
     let mut t = table(&[
@@ -126,6 +156,7 @@ pub fn triage_text(rows: &[TriageRow], sys: System) -> String {
         "likely defects",
         "complaint",
         "agrees",
+        "beyond limits",
     ]);
     let mut failed = String::new();
     let mut warned = String::new();
@@ -136,49 +167,76 @@ pub fn triage_text(rows: &[TriageRow], sys: System) -> String {
         if let Some(e) = &r.error {
             // every failed row's message names its file ([`TriageRow::failed`]'s callers)
             failed.push_str(&format!("  {}\n", e.trim_end()));
-            continue;
         }
-        let name = std::path::Path::new(&r.file)
-            .file_name()
-            .map(|n| n.to_string_lossy().into_owned())
-            .unwrap_or_else(|| r.file.clone());
-        t.add_row(vec![
-            r.case.clone(),
-            name,
-            format!("{:.2}", r.spread_mm_per_m),
-            if r.defects.is_empty() {
-                "none".into()
-            } else {
-                defect_list(&r.defects)
-            },
-            r.complaint
-                .map(words::defect)
-                .unwrap_or_default()
-                .to_string(),
-            match r.agrees {
-                Some(true) => "yes".into(),
-                Some(false) => "no".into(),
-                None => String::new(),
-            },
-        ]);
+        t.add_row(cells(r));
     }
     if let Some(col) = t.column_mut(0) {
         col.set_constraint(comfy_table::ColumnConstraint::ContentWidth);
     }
-    let mut out = if t.row_count() > 0 {
-        format!("{t}\n")
-    } else {
-        "No roll could be diagnosed.\n".to_string()
-    };
+    let mut out = format!("{t}\n");
+    if rows.iter().all(|r| r.error.is_some()) {
+        out.push_str("No roll could be diagnosed.\n");
+    }
     if !failed.is_empty() {
         out.push_str("Not diagnosed (bad input; fix and run again):\n");
         out.push_str(&failed);
+    }
+    if rows.iter().any(|r| r.limits_exceeded > Some(0)) {
+        out.push_str("Beyond limits: the roll's predicted state passes a physical limit (strength, crush, core, lift-off, air film, ...), so results resting on it are not physical; such rolls are listed first, after those not diagnosed. Check their inputs and the warnings.\n");
     }
     out.push_str(&warned);
     out.push_str("Triage uses the fast settings (no corrections re-run); run `rollsleuth diagnose CASE` on a roll for the full report.\n");
     out.push_str(SAFETY);
     out.push('\n');
     out
+}
+
+/// A roll's cells in the triage table; a roll not diagnosed says so in its number and defect
+/// columns (its message follows the table).
+fn cells(r: &TriageRow) -> Vec<String> {
+    let name = std::path::Path::new(&r.file)
+        .file_name()
+        .map(|n| n.to_string_lossy().into_owned())
+        .unwrap_or_else(|| r.file.clone());
+    let spread = match (&r.error, r.spread_mm_per_m) {
+        (None, Some(x)) => format!("{x:.2}"),
+        _ => "n/a".into(),
+    };
+    let defects = if r.error.is_some() {
+        "could not diagnose".into()
+    } else if r.defects.is_empty() {
+        "none".into()
+    } else {
+        defect_list(&r.defects)
+    };
+    vec![
+        r.case.clone(),
+        name,
+        spread,
+        defects,
+        r.complaint
+            .map(words::defect)
+            .unwrap_or_default()
+            .to_string(),
+        match r.agrees {
+            Some(true) => "yes".into(),
+            Some(false) => "no".into(),
+            None => String::new(),
+        },
+        match r.limits_exceeded {
+            Some(0) => "none".into(),
+            Some(n) => format!("{n} (see warnings)"),
+            None => String::new(),
+        },
+    ]
+}
+
+/// The note for a subfolder of a folder given to triage: it is not searched.
+pub fn triage_subfolder_note(dir: &std::path::Path) -> String {
+    format!(
+        "note: {}: a subfolder, not searched (triage reads the *.yaml files of the folders it is given); name it too to triage its rolls",
+        dir.display()
+    )
 }
 
 /// Triage as JSON: the rolls, worst first, and the safety note.
