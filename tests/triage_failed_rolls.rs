@@ -2,8 +2,9 @@
 //! CSV cells), its whole error message in the CSV on one line, and the table saying so in the
 //! roll's own row.
 
+mod common;
+
 use std::path::{Path, PathBuf};
-use std::process::Command;
 
 const DEMO: &str = "field_cases/nordvik_pm3_caliper_band.yaml";
 
@@ -20,15 +21,10 @@ fn batch(name: &str) -> PathBuf {
 }
 
 fn triage(args: &[&str]) -> (i32, String) {
-    let o = Command::new(env!("CARGO_BIN_EXE_rollsleuth"))
-        .arg("triage")
-        .args(args)
-        .output()
-        .unwrap();
-    (
-        o.status.code().unwrap_or(-1),
-        String::from_utf8_lossy(&o.stdout).into(),
-    )
+    let mut a = vec!["triage"];
+    a.extend_from_slice(args);
+    let (code, out, _) = common::run_bin(&a);
+    (code, out)
 }
 
 #[test]

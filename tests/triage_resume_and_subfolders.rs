@@ -2,6 +2,8 @@
 //! and prints the whole CSV with one row per file; a folder's subfolders are not searched, and a
 //! note on standard error names each.
 
+mod common;
+
 use std::path::{Path, PathBuf};
 use std::process::Command;
 
@@ -16,16 +18,9 @@ fn scratch(name: &str) -> PathBuf {
 }
 
 fn triage(args: &[&str]) -> (i32, String, String) {
-    let o = Command::new(env!("CARGO_BIN_EXE_rollsleuth"))
-        .arg("triage")
-        .args(args)
-        .output()
-        .unwrap();
-    (
-        o.status.code().unwrap_or(-1),
-        String::from_utf8_lossy(&o.stdout).into(),
-        String::from_utf8_lossy(&o.stderr).into(),
-    )
+    let mut a = vec!["triage"];
+    a.extend_from_slice(args);
+    common::run_bin(&a)
 }
 
 /// (file, error) of each CSV row.

@@ -53,3 +53,17 @@ pub fn fit_case(c: &Case) -> RollFit {
     let w = wound(c, &l, Options::default().nodes);
     fit::fit_roll(c, &l, &w, &AgeOptions::default()).unwrap()
 }
+
+/// Run the built binary with `args`: exit code (-1 when killed), standard output and standard
+/// error, as text.
+pub fn run_bin(args: &[&str]) -> (i32, String, String) {
+    let o = std::process::Command::new(env!("CARGO_BIN_EXE_rollsleuth"))
+        .args(args)
+        .output()
+        .expect("the binary runs");
+    (
+        o.status.code().unwrap_or(-1),
+        String::from_utf8_lossy(&o.stdout).into_owned(),
+        String::from_utf8_lossy(&o.stderr).into_owned(),
+    )
+}
