@@ -389,7 +389,8 @@ pub fn push_new(notes: &mut Vec<Note>, more: impl IntoIterator<Item = Note>) {
 
 impl Note {
     /// Whether this note is a warning (a physical limit passed, measurements the model does not
-    /// explain, the wound state against the winding-time diameters), not information.
+    /// explain, the wound state against the winding-time diameters, surveys past the storage
+    /// history, which the model fills with an assumed stretch), not information.
     pub fn is_warning(&self) -> bool {
         matches!(
             self,
@@ -398,6 +399,7 @@ impl Note {
                 | Note::RollNotExplained { .. }
                 | Note::WindingDiameter(_)
                 | Note::SurveyContradicts { .. }
+                | Note::StorageExtended { .. }
         ) || matches!(self, Note::FindingOnWeakLanes { unexplained, .. } if *unexplained > 0)
     }
 }

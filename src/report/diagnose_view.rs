@@ -75,7 +75,7 @@ pub fn text(d: &Diagnosis, sys: System) -> String {
             }
         );
     }
-    out.push_str(&lanes_table(&d.confidence, sys));
+    out.push_str(&lanes_table(d, sys));
     for w in words::warnings(d) {
         let _ = writeln!(out, "warning: {w}");
     }
@@ -90,13 +90,16 @@ pub fn text(d: &Diagnosis, sys: System) -> String {
 
 /// Each lane's length at unwind with its 5-95 % interval over the plausible states, and how well
 /// the model fits its readings (misfit in noise units).
-fn lanes_table(c: &crate::diagnose::confidence::Confidence, sys: System) -> String {
+/// A lane beyond the measured positions (its profile values extrapolated) is marked `*`.
+fn lanes_table(d: &Diagnosis, sys: System) -> String {
+    let c = &d.confidence;
     let unit = strain_unit(sys);
     let (len, range) = (format!("length {unit}"), format!("5-95 % {unit}"));
     let mut t = table(&["lane at", &len, &range, "misfit (noise units)"]);
-    for l in &c.lanes {
+    for (i, l) in c.lanes.iter().enumerate() {
+        let star = d.lanes.get(i).is_some_and(|r| r.extrapolated);
         t.add_row(vec![
-            pos(l.position_m, sys),
+            format!("{}{}", pos(l.position_m, sys), if star { "*" } else { "" }),
             format!("{:+.2}", l.excess_mm_per_m),
             format!(
                 "{:+.2} .. {:+.2}",

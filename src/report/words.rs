@@ -338,11 +338,11 @@ pub fn limit(l: &crate::note::Limit) -> String {
                 Strength::CoreCollapse => ("pressure on the core", "the core's collapse pressure (its rating, else thin-ring buckling)", "roll.core"),
             };
             format!(
-                "{}: {what} of {:.2} MPa is {:.2} times {limit} ({:.2} MPa); check {field} and the winding, or treat the roll with care",
+                "{}: {what} of {} MPa is {:.2} times {limit} ({} MPa); check {field} and the winding, or treat the roll with care",
                 at(lanes, position_m),
-                value_pa / 1e6,
+                units::sig(value_pa / 1e6, 4),
                 value_pa / limit_pa,
-                limit_pa / 1e6
+                units::sig(limit_pa / 1e6, 4)
             )
         }
         Limit::StackCrushed {

@@ -68,7 +68,8 @@ const LAST_OVER_FIRST: f64 = 14.231_771_646_040_077;
 pub fn timeline(storage: &[Stretch], output_times_s: &[f64], opt: &AgeOptions) -> Timeline {
     let mut stretches = storage.to_vec();
     let mut notes = Vec::new();
-    let total: f64 = stretches.iter().map(|s| s.duration_s).sum();
+    // a fold from +0: an empty history covers 0 d, not -0 d (an empty f64 sum is -0)
+    let total: f64 = stretches.iter().fold(0.0, |a, s| a + s.duration_s);
     let last_age = output_times_s.iter().copied().fold(0.0, f64::max);
     if last_age > total + 1.0 {
         let mut s = stretches.last().cloned().unwrap_or_else(standard_stretch);
@@ -325,6 +326,22 @@ fn compute_moisture(
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    /// Surveys past an empty storage history: the roll is taken as stored at the standard
+    /// atmosphere, which is a warning (an assumption behind every result), and the history it
+    /// had covers 0 d, not -0 d (an empty f64 sum is -0 in Rust).
+    #[test]
+    fn surveys_past_the_history_are_a_warning_from_zero_days() {
+        let t = timeline(&[], &[5.0 * crate::units::DAY_S], &AgeOptions::default());
+        let n = t.notes.first().expect("a note");
+        assert!(n.is_warning());
+        match *n {
+            Note::StorageExtended { covered_s, .. } => {
+                assert!(covered_s == 0.0 && covered_s.is_sign_positive())
+            }
+            _ => panic!("{n:?}"),
+        }
+    }
 
     /// The longest step's share of a one-stretch history on `n` steps.
     fn longest_share(n: usize) -> f64 {
