@@ -242,6 +242,20 @@ impl Quantity {
         )
     }
 
+    /// Whether the quantity is read off the wound roll at winding, before any creep in storage
+    /// (so the lanes' creep scales do not enter it).
+    pub const fn at_winding(self) -> bool {
+        matches!(
+            self,
+            Quantity::DiameterRidgePerMille
+                | Quantity::BandDiameterPerMille
+                | Quantity::PeakPressureMpa
+                | Quantity::CorePressureMpa
+                | Quantity::CoreMdCompressionMpa
+                | Quantity::OuterZonePressureKpa
+        )
+    }
+
     /// The quantity's unit as written in JSON fields.
     pub const fn unit(self) -> &'static str {
         match self {

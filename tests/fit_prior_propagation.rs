@@ -71,3 +71,29 @@ fn without_surveys_the_band_lane_interval_is_not_a_point() {
     assert!(width(&b) > 0.25 * b.excess_mm_per_m.abs(), "{b:?}");
     assert!(width(&b) >= width(&a), "{a:?} {b:?}");
 }
+
+/// Without surveys no lane's creep is identified. A finding judged on the roll at unwind rests
+/// on that creep and its note says so; a finding judged on the wound roll at winding (a diameter
+/// ridge, a gauge band, pressures, MD stress at the core) does not, and its note does not claim
+/// it.
+#[test]
+fn only_findings_after_storage_rest_on_unidentified_creep() {
+    use rollsleuth::diagnose::quantity::quantity_of;
+    use rollsleuth::note::Note;
+    let d = common::diagnose_at(&nordvik(12, false), 101, false);
+    let mut seen = (false, false);
+    for f in &d.findings {
+        let unidentified = d.notes.iter().any(|n| {
+            matches!(n, Note::FindingOnWeakLanes { defect, unidentified, .. }
+                if *defect == f.defect && *unidentified > 0)
+        });
+        let at_winding = quantity_of(f.defect).at_winding();
+        assert_eq!(unidentified, !at_winding, "{:?}", f.defect);
+        if at_winding {
+            seen.0 = true;
+        } else {
+            seen.1 = true;
+        }
+    }
+    assert!(seen.0 && seen.1, "{:?}", common::defects(&d));
+}

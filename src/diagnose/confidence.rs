@@ -547,14 +547,17 @@ fn consistency_notes(
             .iter()
             .filter(|r| !lanes[r.index].explained || contradicted(r.index))
             .count();
-        let unidentified = f
-            .lanes
-            .iter()
-            .filter(|r| {
-                let l = &fitted.fit.lanes[r.index];
-                !(l.md_identifiable && l.radial_identifiable)
-            })
-            .count();
+        // a finding judged on the wound roll at winding does not rest on creep
+        let at_winding = super::quantity::quantity_of(f.defect).at_winding();
+        let identified = |i: usize| {
+            let l = &fitted.fit.lanes[i];
+            l.md_identifiable && l.radial_identifiable
+        };
+        let unidentified = if at_winding {
+            0
+        } else {
+            (f.lanes.iter()).filter(|r| !identified(r.index)).count()
+        };
         if unexplained + unidentified > 0 {
             notes.push(Note::FindingOnWeakLanes {
                 defect: f.defect,
