@@ -61,8 +61,16 @@ impl Range {
             Range::Between(a, b) => (a, b, "within"),
         }
     }
-    fn open_low(self) -> bool {
-        matches!(self, Range::Positive)
+    /// Whether `v` lies in the range (above zero for [`Range::Positive`], bounds included
+    /// otherwise).
+    fn admits(self, v: f64) -> bool {
+        let (lo, hi, _) = self.bounds();
+        let below = if matches!(self, Range::Positive) {
+            v <= lo
+        } else {
+            v < lo
+        };
+        !below && v <= hi
     }
 }
 
@@ -155,23 +163,13 @@ impl Validator {
         kind: Kind,
         range: Range,
     ) -> Option<f64> {
-        let (lo, hi, what) = range.bounds();
-        if !v.is_finite() {
-            self.push(
-                field,
-                line,
-                "is not a finite number; give a real value".into(),
-            );
-            return None;
-        }
-        let below = if range.open_low() { v <= lo } else { v < lo };
-        if below || v > hi {
-            let d = units::display(kind, units::message_system(), false);
-            let text = range_text(|x| units::sig(d.from_si(x), 4), (v, lo, hi), what, d.label);
-            self.push(field, line, text);
-            return None;
-        }
-        Some(v)
+        let d = units::display(kind, units::message_system(), false);
+        self.within(
+            v,
+            (field, line),
+            range,
+            (|x| units::sig(d.from_si(x), 4), d.label),
+        )
     }
 
     /// A number in per cent (a tension profile's share of its mean), kept as written.
@@ -182,11 +180,29 @@ impl Validator {
         line: Option<u64>,
         range: Range,
     ) -> Option<f64> {
-        let v = self.check_range(v, field, line, Kind::Number, Range::Any)?;
-        let (lo, hi, what) = range.bounds();
-        let below = if range.open_low() { v <= lo } else { v < lo };
-        if below || v > hi {
-            let text = range_text(|x| units::sig(x, 4), (v, lo, hi), what, "%");
+        self.within(v, (field, line), range, (|x| units::sig(x, 4), "%"))
+    }
+
+    /// `v` when finite and in `range`, else a problem at `field` and `line`, its numbers shown by
+    /// `show` with unit `label`.
+    fn within(
+        &mut self,
+        v: f64,
+        (field, line): (&str, Option<u64>),
+        range: Range,
+        (show, label): (impl Fn(f64) -> String, &str),
+    ) -> Option<f64> {
+        if !v.is_finite() {
+            self.push(
+                field,
+                line,
+                "is not a finite number; give a real value".into(),
+            );
+            return None;
+        }
+        if !range.admits(v) {
+            let (lo, hi, what) = range.bounds();
+            let text = range_text(show, (v, lo, hi), what, label);
             self.push(field, line, text);
             return None;
         }
