@@ -28,22 +28,27 @@ pub fn limit_from_env() -> Result<Option<u64>, String> {
     if text.trim().is_empty() {
         return Ok(None);
     }
-    match text.trim().parse::<u64>() {
-        Ok(b) if b > 0 => Ok(Some(b)),
-        _ => Err(format!(
+    match parse_size(&text) {
+        Some(b) => Ok(Some(b)),
+        None => Err(format!(
             "{MAX_INPUT_ENV}={text:?} is not a size in bytes above zero. Fix: set it to a whole number of bytes, e.g. {MAX_INPUT_ENV}=16777216 for 16 MiB, or unset it for the default {DEFAULT_MAX_INPUT_BYTES}"
         )),
     }
 }
 
+/// A size limit as written (option or environment): a whole number of bytes above zero.
+pub fn parse_size(text: &str) -> Option<u64> {
+    text.trim().parse::<u64>().ok().filter(|&b| b > 0)
+}
+
 /// The largest input file in force, bytes: the option, else the environment variable, else the
-/// default.
+/// default (a library caller's bad variable falls back to it; the command line refuses one,
+/// [`limit_from_env`]).
 pub fn max_input_bytes() -> u64 {
     match LIMIT.load(Ordering::Relaxed) {
-        0 => std::env::var(MAX_INPUT_ENV)
+        0 => limit_from_env()
             .ok()
-            .and_then(|v| v.trim().parse::<u64>().ok())
-            .filter(|&b| b > 0)
+            .flatten()
             .unwrap_or(DEFAULT_MAX_INPUT_BYTES),
         b => b,
     }

@@ -199,9 +199,9 @@ fn grid_nodes(s: &str) -> Result<usize, String> {
 
 /// `--max-input-size`: a whole number of bytes above zero.
 fn input_size(s: &str) -> Result<u64, String> {
-    match s.trim().parse::<u64>() {
-        Ok(b) if b > 0 => Ok(b),
-        _ => Err(format!(
+    match crate::input::parse_size(s) {
+        Some(b) => Ok(b),
+        None => Err(format!(
             "not a size in bytes above zero. Fix: give a whole number of bytes, e.g. 16777216 for 16 MiB (the default is {})",
             crate::input::DEFAULT_MAX_INPUT_BYTES
         )),
