@@ -187,15 +187,20 @@ fn earlier_rows(path: &Path, files: &[PathBuf]) -> Result<Earlier, CliError> {
     let columns: Vec<Option<usize>> = report::TRIAGE_CSV_COLUMNS.iter().map(|c| at(c)).collect();
     // the last whole row of each file, in the order the files first appear
     let mut rows: Vec<(String, csv::StringRecord)> = Vec::new();
+    // each file's place in `rows`, so a long batch is read in one pass
+    let mut index: std::collections::HashMap<String, usize> = std::collections::HashMap::new();
     for rec in rdr.records() {
         let Ok(rec) = rec else { continue };
         if rec.len() != headers.len() {
             continue;
         }
         let file = rec.get(file_col).unwrap_or_default().to_string();
-        match rows.iter_mut().find(|(f, _)| *f == file) {
-            Some(r) => r.1 = rec,
-            None => rows.push((file, rec)),
+        match index.get(&file) {
+            Some(&i) => rows[i].1 = rec,
+            None => {
+                index.insert(file.clone(), rows.len());
+                rows.push((file, rec));
+            }
         }
     }
     let this_run: BTreeSet<String> = files.iter().map(|f| f.display().to_string()).collect();
