@@ -246,13 +246,16 @@ pub fn triage_json(rows: &[TriageRow]) -> serde_json::Value {
 
 /// A what-if comparison as JSON: the result's own fields; the warnings of the roll as measured
 /// (`warnings_before`) and as changed (`warnings_after`), and all of them in `warnings`, each
-/// saying which roll it is about ([`whatif_warnings`]); the safety note.
+/// saying which roll it is about ([`tagged`]); the safety note.
 pub fn whatif_json(w: &crate::diagnose::WhatIf) -> Result<serde_json::Value, serde_json::Error> {
     let mut v = serde_json::to_value(w)?;
     if let Some(o) = v.as_object_mut() {
         let before = words::note_json(&w.case_warnings_before, &w.notes_before).1;
         let after = words::note_json(&w.case_warnings, &w.notes).1;
-        o.insert("warnings".into(), serde_json::json!(whatif_warnings(w)));
+        o.insert(
+            "warnings".into(),
+            serde_json::json!(tagged(&before, &after)),
+        );
         o.insert("warnings_before".into(), serde_json::json!(before));
         o.insert("warnings_after".into(), serde_json::json!(after));
         o.insert("safety".into(), serde_json::json!(SAFETY));
@@ -262,9 +265,7 @@ pub fn whatif_json(w: &crate::diagnose::WhatIf) -> Result<serde_json::Value, ser
 
 /// The warnings of both rolls, each once, saying which roll it is about: "as measured", "as
 /// changed", or "as measured and as changed".
-pub fn whatif_warnings(w: &crate::diagnose::WhatIf) -> Vec<String> {
-    let before = words::note_json(&w.case_warnings_before, &w.notes_before).1;
-    let after = words::note_json(&w.case_warnings, &w.notes).1;
+fn tagged(before: &[String], after: &[String]) -> Vec<String> {
     let both = |x: &String| before.contains(x) && after.contains(x);
     let mut out: Vec<String> = (before.iter())
         .map(|x| match both(x) {
@@ -324,10 +325,13 @@ pub fn whatif_text(w: &crate::diagnose::WhatIf, sys: System) -> Result<String, W
             defect_list(d)
         }
     };
-    let notes: String = (whatif_warnings(w).iter())
+    let before = words::note_json(&w.case_warnings_before, &w.notes_before).1;
+    let (after_notes, after) = words::note_json(&w.case_warnings, &w.notes);
+    let notes: String = (tagged(&before, &after).iter())
         .map(|l| format!("warning: {l}\n"))
         .chain(
-            (words::note_json(&w.case_warnings, &w.notes).0.iter())
+            after_notes
+                .iter()
                 .map(|l| format!("note: as changed: {l}\n")),
         )
         .collect();
