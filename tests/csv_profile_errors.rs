@@ -2,8 +2,9 @@
 //! (a back-edge scan, decreasing throughout, is still sorted with a note), rows of the wrong
 //! length, a missing file, and values the case refuses.
 
+mod common;
+
 use std::path::PathBuf;
-use std::process::Command;
 
 /// A case whose caliper profile is the CSV `csv`, both written to a scratch folder.
 fn case_with_csv(name: &str, csv: &str) -> PathBuf {
@@ -25,13 +26,7 @@ fn case_with_csv(name: &str, csv: &str) -> PathBuf {
 }
 
 fn check(p: &std::path::Path) -> (i32, String) {
-    let o = Command::new(env!("CARGO_BIN_EXE_rollsleuth"))
-        .args(["check", p.to_str().unwrap()])
-        .output()
-        .unwrap();
-    let err = String::from_utf8_lossy(&o.stderr).into_owned();
-    assert!(!err.contains("panicked"), "{err}");
-    (o.status.code().unwrap_or(-1), err)
+    common::check_file(p)
 }
 
 #[test]

@@ -3,8 +3,9 @@
 //! scale, moisture beyond material.moisture's range, a lane count together with edges, edges
 //! that leave part of the roll out, and two profiles of one kind at one age.
 
+mod common;
+
 use std::path::PathBuf;
-use std::process::Command;
 
 fn demo() -> String {
     std::fs::read_to_string("field_cases/nordvik_pm3_caliper_band.yaml").unwrap()
@@ -22,17 +23,7 @@ fn variant(name: &str, text: &str) -> PathBuf {
 
 /// `check` on a variant of the demo: exit code and standard error.
 fn check(name: &str, text: &str) -> (i32, String) {
-    let p = variant(name, text);
-    let o = Command::new(env!("CARGO_BIN_EXE_rollsleuth"))
-        .args(["check", p.to_str().unwrap()])
-        .output()
-        .unwrap();
-    let err = String::from_utf8_lossy(&o.stderr).into_owned();
-    assert!(!err.contains("panicked"), "{err}");
-    if o.status.code() == Some(2) {
-        assert!(o.stdout.is_empty(), "no partial output: {err}");
-    }
-    (o.status.code().unwrap_or(-1), err)
+    common::check_file(&variant(name, text))
 }
 
 /// Assert a refusal whose message holds each needle.

@@ -67,3 +67,14 @@ pub fn run_bin(args: &[&str]) -> (i32, String, String) {
         String::from_utf8_lossy(&o.stderr).into_owned(),
     )
 }
+
+/// `rollsleuth check FILE`: exit code and standard error, asserting that it did not panic and,
+/// when it refused the file (exit 2), that it printed no partial output.
+pub fn check_file(p: &std::path::Path) -> (i32, String) {
+    let (code, out, err) = run_bin(&["check", p.to_str().expect("a UTF-8 path")]);
+    assert!(!err.contains("panicked"), "{err}");
+    if code == 2 {
+        assert!(out.is_empty(), "no partial output: {err}");
+    }
+    (code, err)
+}
