@@ -110,6 +110,25 @@ pub enum Note {
         profile_chance: f64,
         level: f64,
     },
+    /// A finding stands on the caliper readings' crown, and the crown alone (every lane's creep
+    /// made the lanes' mean) fires its rule (`diagnose::crown`).
+    OnCaliperCrown {
+        defect: Defect,
+        /// The readings' parabola, centre over the outermost readings, m (negative: edges
+        /// thick), and its component over the repeatability (positive: centre thick).
+        crown_m: f64,
+        sigmas: f64,
+        /// Readings left out of the parabola as a band.
+        left_out: usize,
+        /// One-sided chance that noise alone crowns level readings this far, and the level the
+        /// crown test must meet.
+        noise_chance: f64,
+        level: f64,
+        /// The deciding feature, and its value with every lane's creep made the lanes' mean
+        /// (feature's own unit).
+        feature: Feature,
+        uniform_creep: f64,
+    },
     /// A rule that fired on the fitted roll holds in fewer than half of the plausible states.
     Unlikely {
         defect: Defect,
@@ -127,6 +146,10 @@ pub enum Note {
         lane_excess_mm_per_m: f64,
         /// Smallest centre-minus-edges length difference that does, mm/m.
         centre_edges_mm_per_m: f64,
+        /// Smallest crown of the caliper readings (centre over the outermost readings, either
+        /// sign) that stands above noise, m; `None` when no rule rides on it
+        /// (`diagnose::crown`).
+        crown_m: Option<f64>,
     },
     /// A lane's fit misfit is above 3 noise units: the model does not explain its readings.
     LaneNotExplained {
@@ -376,6 +399,8 @@ pub enum NoiseBasis {
     CaliperReadings,
     /// The web's tension or moisture profile at winding (the web-profile test).
     WebProfile,
+    /// The caliper readings' crown across the width (`diagnose::crown`).
+    CaliperCrown,
 }
 
 /// Append the notes of `more` that `notes` does not hold yet, in order.

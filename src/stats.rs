@@ -191,9 +191,67 @@ pub fn chi2_sf(x: f64, k: f64) -> f64 {
     gamma_q(0.5 * k, 0.5 * x)
 }
 
+/// Upper tail P(Z >= z) of the standard normal law, from the chi-square law on one degree of
+/// freedom: Z^2 is chi-square(1), so P(Z >= z) = Q(1/2, z^2/2) / 2 for z >= 0 (Abramowitz and
+/// Stegun 1964, 26.2.30 with 26.4.19, from memory). Not a number for a `z` that is not.
+pub fn normal_sf(z: f64) -> f64 {
+    if z.is_nan() {
+        return f64::NAN;
+    }
+    let half = 0.5 * chi2_sf(z * z, 1.0);
+    if z >= 0.0 {
+        half
+    } else {
+        1.0 - half
+    }
+}
+
+/// The z with [`normal_sf`]`(z) = p`, for 0 < p < 1 (bisection to the last bit; +/-infinity at
+/// the ends, not a number outside them).
+pub fn normal_isf(p: f64) -> f64 {
+    if !(0.0..=1.0).contains(&p) {
+        return f64::NAN;
+    }
+    if p == 0.0 || p == 1.0 {
+        return if p == 0.0 {
+            f64::INFINITY
+        } else {
+            f64::NEG_INFINITY
+        };
+    }
+    // P(Z >= 40) is about 4e-350, below any f64
+    let (mut lo, mut hi) = (-40.0_f64, 40.0_f64);
+    for _ in 0..200 {
+        let mid = 0.5 * (lo + hi);
+        if mid <= lo || mid >= hi {
+            break;
+        }
+        if normal_sf(mid) > p {
+            lo = mid;
+        } else {
+            hi = mid;
+        }
+    }
+    0.5 * (lo + hi)
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    /// Normal tails and quantiles (Abramowitz and Stegun 1964, Table 26.1 and 26.5: Q(1.959964)
+    /// = 0.025, Q(3.090232) = 0.001, Q(1) = 0.158655); P(Z >= 7) = 1.279813e-12 (SciPy 1.17.1,
+    /// `norm.sf(7)`).
+    #[test]
+    fn normal_tails_and_quantiles() {
+        assert!((normal_sf(1.959_964) - 0.025).abs() < 1e-7);
+        assert!((normal_sf(-1.0) - (1.0 - 0.158_655_3)).abs() < 1e-7);
+        assert!((normal_sf(7.0) / 1.279_813e-12 - 1.0).abs() < 1e-5);
+        assert!((normal_isf(0.001) - 3.090_232).abs() < 1e-6);
+        assert!((normal_isf(0.975) + 1.959_964).abs() < 1e-6);
+        assert_eq!(normal_isf(0.0), f64::INFINITY);
+        assert!(normal_isf(1.5).is_nan() && normal_sf(f64::NAN).is_nan());
+    }
 
     /// Gamma of integers is a factorial, Gamma(1/2) = sqrt(pi) (Abramowitz and Stegun 1964,
     /// 6.1.6 and 6.1.8).

@@ -273,7 +273,7 @@ fn even_web(lanes: &mut Lanes) {
 }
 
 /// Give every lane the roll's mean delayed compliance and mean viscous fluidity, per direction.
-fn uniform_creep(creep: &mut [LaneCreep]) {
+pub(super) fn uniform_creep(creep: &mut [LaneCreep]) {
     let k = creep.len().max(1) as f64;
     let mean = |g: &dyn Fn(&LaneCreep) -> f64| creep.iter().map(g).sum::<f64>() / k;
     let (md_d, md_v, r_d, r_v) = (

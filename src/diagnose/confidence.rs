@@ -24,8 +24,10 @@
 //!   web's own profile at winding (`web_length_share` above) may stand on that profile's test
 //!   ([`super::profile_test::web_test`]), one more test in the family; for a
 //!   caliper band (deciding feature `caliper_range_pct`) from the readings themselves
-//!   ([`BandTest`], Monte Carlo, no winding). A finding whose rule holds in fewer than half of
-//!   the plausible states is dropped too.
+//!   ([`BandTest`], Monte Carlo, no winding); for a baggy centre or baggy edges wound in from the
+//!   caliper profile, from the readings' crown when the crown alone fires the rule
+//!   ([`super::crown`], on a share of the rule's level fixed in advance). A finding whose rule
+//!   holds in fewer than half of the plausible states is dropped too.
 //! - **Profiles within noise.** A feature that jumps (a lane going slack) has a heavier tail than
 //!   the noise rolls predict. A finding that goes away when the profiles that do not stand above
 //!   noise (calipers by their unevenness test: outlier, spread, wedge, crown; tension and
@@ -45,6 +47,7 @@
 //!
 //! **Invariant:** no prose; notes carry numbers (positions in m, lengths in mm per m of web).
 
+use super::crown::{crown, rides_on_crown, Crown, OWN_SHARE};
 use super::features::{self, Features};
 use super::noise::{
     caliper_repeatability, flattened_features, noise_floor, rests_on_web, Floor, Side,
@@ -118,13 +121,19 @@ pub fn assess(
 ) -> Result<Confidence, DiagnoseError> {
     let (lab, _) = with_lab_creep(case)?;
     let states = posterior_states(&lab, fitted)?;
-    let fl = noise_floor(&lab, fitted, table, nodes)?;
-    let mut below_floor = drop_below_floor(table, feats, &fl, findings, notes);
+    let mut fl = noise_floor(&lab, fitted, table, nodes)?;
+    let (rep, source) = caliper_repeatability(case);
+    let crown = crown((&lab, fitted), table, rep, fl.level)?;
+    if let (Note::Resolution { crown_m, .. }, Some(k)) = (&mut fl.resolution, &crown) {
+        *crown_m = Some(k.needed_m);
+    }
+    let tests = (&fl, crown.as_ref());
+    let mut below_floor = drop_below_floor(table, feats, tests, findings, notes);
     let on_noise = (case, fitted, nodes);
     below_floor.extend(drop_on_profile_noise(
-        on_noise, table, feats, &fl, findings, notes,
+        on_noise, table, feats, tests, findings, notes,
     )?);
-    grade_findings(table, feats, &fl, &states, findings);
+    grade_findings(table, feats, tests, &states, findings);
     findings.retain(|f| {
         let keep = f.probability >= 0.5;
         if !keep {
@@ -141,7 +150,6 @@ pub fn assess(
     let lanes = lane_spreads(fitted, feats, &states);
     let roll_misfit = roll_misfit(fitted);
     consistency_notes(fitted, &lanes, roll_misfit, findings, notes);
-    let (rep, source) = caliper_repeatability(case);
     Ok(Confidence {
         caliper_repeatability_m: rep,
         caliper_repeatability_source: source,
@@ -184,8 +192,10 @@ impl NoiseTest<'_> {
 }
 
 /// The noise test of rule `r` on the diagnosed roll's features.
-fn noise_test<'a>(r: &Rule, feats: &Features, fl: &'a Floor) -> NoiseTest<'a> {
-    let level = fl.level;
+fn noise_test<'a>(r: &Rule, feats: &Features, (fl, crown): Tests<'a>) -> NoiseTest<'a> {
+    // a rule that may ride on the caliper crown gives that test its share of the level
+    let riding = crown.filter(|_| rides_on_crown(r));
+    let level = fl.level * if riding.is_some() { OWN_SHARE } else { 1.0 };
     let found = r.when.first().and_then(|c| {
         fl.floors
             .iter()
@@ -231,21 +241,35 @@ fn noise_test<'a>(r: &Rule, feats: &Features, fl: &'a Floor) -> NoiseTest<'a> {
         } else {
             (own_chance, NoiseBasis::NoiseRolls)
         };
-    NoiseTest {
+    let test = NoiseTest {
         floor: Some(x),
         side,
         own: c.holds(x.uniform),
         chance,
         level,
         basis,
+    };
+    // the crown route, where the crown alone fires the rule and it is the stronger evidence
+    match riding.and_then(|k| k.route(r, side, fl.level)) {
+        Some((chance, level)) if chance / level < test.chance / test.level => NoiseTest {
+            chance,
+            level,
+            basis: NoiseBasis::CaliperCrown,
+            ..test
+        },
+        _ => test,
     }
 }
+
+/// What the noise test of a rule reads: the noise floor and the caliper crown, when the table has
+/// a rule that may ride on it.
+type Tests<'a> = (&'a Floor, Option<&'a Crown>);
 
 /// Drop the findings that do not stand above the noise floor, with a note each; their rules.
 fn drop_below_floor(
     table: &Table,
     feats: &Features,
-    fl: &Floor,
+    tests: Tests<'_>,
     findings: &mut Vec<Finding>,
     notes: &mut Vec<Note>,
 ) -> Vec<String> {
@@ -254,8 +278,11 @@ fn drop_below_floor(
         let Some(r) = table.rules.iter().find(|r| r.id == f.rule) else {
             return true;
         };
-        let t = noise_test(r, feats, fl);
+        let t = noise_test(r, feats, tests);
         if t.stands() {
+            if let (NoiseBasis::CaliperCrown, Some(k)) = (t.basis, tests.1) {
+                notes.push(k.note(f.defect, r, (t.chance, t.level)));
+            }
             return true;
         }
         below.push(f.rule.clone());
@@ -295,10 +322,11 @@ fn drop_on_profile_noise(
     (case, fitted, nodes): (&Case, &Fitted, usize),
     table: &Table,
     feats: &Features,
-    fl: &Floor,
+    tests: Tests<'_>,
     findings: &mut Vec<Finding>,
     notes: &mut Vec<Note>,
 ) -> Result<Vec<String>, DiagnoseError> {
+    let fl = tests.0;
     let (rep, _) = caliper_repeatability(case);
     // each kind of profile is made uniform when the lanes differ by it and it does not stand
     // above noise; one that stands is kept
@@ -323,7 +351,7 @@ fn drop_on_profile_noise(
     };
     let flatten = (calipers > fl.level, web > fl.level);
     let rule_of = |f: &Finding| table.rules.iter().find(|r| r.id == f.rule);
-    let asks = |f: &Finding| rule_of(f).is_some_and(|r| !noise_test(r, feats, fl).own);
+    let asks = |f: &Finding| rule_of(f).is_some_and(|r| !noise_test(r, feats, tests).own);
     if flatten == (false, false) || !findings.iter().any(asks) {
         return Ok(Vec::new());
     }
@@ -360,7 +388,7 @@ fn drop_on_profile_noise(
 fn grade_findings(
     table: &Table,
     feats: &Features,
-    fl: &Floor,
+    tests: Tests<'_>,
     states: &[State],
     findings: &mut [Finding],
 ) {
@@ -375,7 +403,7 @@ fn grade_findings(
         f.probability = holds as f64 / states.len().max(1) as f64;
         f.likelihood = grade(
             f.probability,
-            noise_test(r, feats, fl).clear(),
+            noise_test(r, feats, tests).clear(),
             r.likelihood,
         );
     }

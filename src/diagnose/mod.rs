@@ -8,6 +8,7 @@ pub mod actions;
 pub mod attribution;
 pub mod confidence;
 pub mod corrections;
+mod crown;
 pub mod features;
 pub mod local;
 mod noise;

@@ -583,6 +583,7 @@ pub(super) fn noise_floor(
         band_m: band.threshold_sigmas * rep,
         lane_excess_mm_per_m: floor_of(Feature::LocalPeakMmPerM).threshold(Side::Up),
         centre_edges_mm_per_m: floor_of(Feature::CentreMinusEdgesMmPerM).threshold(Side::Both),
+        crown_m: None,
     };
     Ok(Floor {
         floors,

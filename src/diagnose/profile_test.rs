@@ -117,6 +117,12 @@ fn outlier_test(readings: &[f64], rep: f64, level: f64) -> BandTest {
     }
 }
 
+/// The outlier test's threshold for `n` readings at `level`, in repeatability units: the
+/// quantile of the noise statistic the test compares with.
+pub(super) fn outlier_threshold(n: usize, level: f64) -> f64 {
+    posterior::quantile(&null_statistics(n), 1.0 - level)
+}
+
 /// The profile of kind `what` with the most readings.
 fn densest(lab: &Case, what: Measure) -> Option<&Profile> {
     lab.profiles
@@ -138,7 +144,7 @@ pub(super) fn band_test(lab: &Case, lanes: &Lanes, rep: f64, level: f64) -> Band
 /// The caliper readings the profile tests judge (m) and their positions (m): the caliper
 /// profile with the most readings, or the lanes' calipers at their centres when the case has
 /// none.
-fn caliper_readings(lab: &Case, lanes: &Lanes) -> (Vec<f64>, Vec<f64>) {
+pub(super) fn caliper_readings(lab: &Case, lanes: &Lanes) -> (Vec<f64>, Vec<f64>) {
     densest(lab, Measure::Caliper).map_or_else(
         || {
             let c = lanes.lanes.iter().map(|l| l.caliper_m).collect();
@@ -184,13 +190,33 @@ pub(super) fn unevenness_chance(
         let ss: f64 = readings[..n].iter().map(|x| (x - mean).powi(2)).sum();
         chances.push(crate::stats::chi2_sf(ss / var, (n - 1) as f64));
     }
-    // orthonormal polynomials of position over the readings: 1, then degree 1 and 2
-    let (lo, hi) = positions[..n]
+    for e in poly_basis(&positions[..n]).iter().skip(1) {
+        let c: f64 = e.iter().zip(readings).map(|(x, y)| x * y).sum();
+        chances.push(crate::stats::chi2_sf(c * c / var, 1.0));
+    }
+    let least = chances
+        .iter()
+        .map(|c| if c.is_nan() { 1.0 } else { *c })
+        .fold(1.0, f64::min);
+    let outlier = if outlier_chance.is_nan() {
+        1.0
+    } else {
+        outlier_chance
+    };
+    outlier.min((least * chances.len().max(1) as f64).min(1.0))
+}
+
+/// Polynomials of position over `positions` made orthonormal (Gram-Schmidt): the constant, then
+/// degree 1 and 2 where the positions allow them (a degree needs two positions more than it).
+/// Positions are mapped onto -1..1 first, which leaves the span, and so each vector, unchanged.
+pub(super) fn poly_basis(positions: &[f64]) -> Vec<Vec<f64>> {
+    let n = positions.len();
+    let (lo, hi) = positions
         .iter()
         .fold((f64::INFINITY, f64::NEG_INFINITY), |(a, b), &x| {
             (a.min(x), b.max(x))
         });
-    let u: Vec<f64> = positions[..n]
+    let u: Vec<f64> = positions
         .iter()
         .map(|x| 2.0 * (x - lo) / (hi - lo).max(1e-12) - 1.0)
         .collect();
@@ -209,20 +235,9 @@ pub(super) fn unevenness_chance(
             break;
         }
         e.iter_mut().for_each(|x| *x /= norm);
-        let c: f64 = e.iter().zip(readings).map(|(x, y)| x * y).sum();
-        chances.push(crate::stats::chi2_sf(c * c / var, 1.0));
         basis.push(e);
     }
-    let least = chances
-        .iter()
-        .map(|c| if c.is_nan() { 1.0 } else { *c })
-        .fold(1.0, f64::min);
-    let outlier = if outlier_chance.is_nan() {
-        1.0
-    } else {
-        outlier_chance
-    };
-    outlier.min((least * chances.len().max(1) as f64).min(1.0))
+    basis
 }
 
 /// The test of the web's own profile at winding: the tension profile's readings over their

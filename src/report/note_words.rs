@@ -34,6 +34,7 @@ fn needs(
     match basis {
         NoiseBasis::CaliperReadings => "; judged on the caliper readings themselves (the highest reading against the median, by their repeatability), which do not stand above noise".into(),
         NoiseBasis::WebProfile => "; judged on the web's tension or moisture profile at winding, which does not stand above noise".into(),
+        NoiseBasis::CaliperCrown => "; judged on the caliper readings' crown across the width, which does not stand above noise".into(),
         NoiseBasis::NoiseRolls => {
             let spec = feature.spec();
             let up = value >= uniform;
@@ -89,24 +90,13 @@ pub(super) fn confidence_note(n: &Note) -> String {
             crate::units::sig(profile_chance * 100.0, 2),
             crate::units::sig(level * 100.0, 2)
         ),
+        Note::OnCaliperCrown { .. } => crown_note(n),
         Note::Unlikely { defect, probability } => format!(
             "{} not reported: its rule holds in only {:.0} % of the plausible states (posterior draws)",
             defect_name(defect),
             probability * 100.0
         ),
-        Note::Resolution {
-            caliper_repeatability_m,
-            band_m,
-            lane_excess_mm_per_m,
-            centre_edges_mm_per_m,
-        } => format!(
-            "resolution of these measurements (caliper read to {:.1} um, one sigma): a caliper band must exceed {:.1} um, a lane's excess length over the web around it {:.3} % and centre against edges {:.3} % of the web length to stand above noise (a {} % chance, shared over the one-sided tests, that noise alone does it)",
-            caliper_repeatability_m * 1e6,
-            band_m * 1e6,
-            lane_excess_mm_per_m / 10.0,
-            centre_edges_mm_per_m / 10.0,
-            crate::units::sig(crate::diagnose::confidence::FAMILY_LEVEL * 100.0, 2)
-        ),
+        Note::Resolution { .. } => resolution_note(n),
         Note::LaneNotExplained { position_m, misfit } => format!(
             "the lane at {:.0} mm is not explained by the model: its readings miss the fit by {misfit:.1} noise units (rms; over 3)",
             position_m * 1e3
@@ -125,6 +115,65 @@ pub(super) fn confidence_note(n: &Note) -> String {
         ),
         _ => String::new(),
     }
+}
+
+/// What the measurements resolve ([`Note::Resolution`]) as a sentence.
+fn resolution_note(n: &Note) -> String {
+    let Note::Resolution {
+        caliper_repeatability_m,
+        band_m,
+        lane_excess_mm_per_m,
+        centre_edges_mm_per_m,
+        crown_m,
+    } = *n
+    else {
+        return String::new();
+    };
+    format!(
+        "resolution of these measurements (caliper read to {:.1} um, one sigma): a caliper band must exceed {:.1} um{}, a lane's excess length over the web around it {:.3} % and centre against edges {:.3} % of the web length to stand above noise (a {} % chance, shared over the one-sided tests, that noise alone does it)",
+        caliper_repeatability_m * 1e6,
+        band_m * 1e6,
+        crown_m.map_or(String::new(), |c| format!(
+            ", a crown of the caliper profile (centre against the outermost readings) {:.1} um",
+            c * 1e6
+        )),
+        lane_excess_mm_per_m / 10.0,
+        centre_edges_mm_per_m / 10.0,
+        crate::units::sig(crate::diagnose::confidence::FAMILY_LEVEL * 100.0, 2)
+    )
+}
+
+/// A finding standing on the caliper crown ([`Note::OnCaliperCrown`]) as a sentence.
+fn crown_note(n: &Note) -> String {
+    let Note::OnCaliperCrown {
+        defect,
+        crown_m,
+        sigmas,
+        left_out,
+        noise_chance,
+        level,
+        feature,
+        uniform_creep,
+    } = *n
+    else {
+        return String::new();
+    };
+    format!(
+        "{} stands on the caliper profile's crown: the readings' parabola{} is {} um {} at the centre than at the outermost readings ({:.1} times their repeatability; noise alone crowns level readings this far with a chance of {} %, a finding needs {} % or less), and the crown alone, with every lane's creep made the lanes' mean, gives {} {}, which still fires the rule",
+        defect_name(defect),
+        match left_out {
+            0 => String::new(),
+            1 => " (one reading of a band left out)".into(),
+            k => format!(" ({k} readings of a band left out)"),
+        },
+        crate::units::sig(crown_m.abs() * 1e6, 2),
+        if crown_m >= 0.0 { "higher" } else { "lower" },
+        sigmas.abs(),
+        crate::units::sig(noise_chance * 100.0, 2),
+        crate::units::sig(level * 100.0, 2),
+        feature_name(feature),
+        crate::units::sig(uniform_creep, 3)
+    )
 }
 
 /// The wound state against the diameter profile at winding ([`Note::WindingDiameter`]).

@@ -257,6 +257,7 @@ pub fn note(n: &Note) -> String {
         Note::BelowNoiseFloor { .. }
         | Note::OnProfileNoise { .. }
         | Note::Unlikely { .. }
+        | Note::OnCaliperCrown { .. }
         | Note::Resolution { .. }
         | Note::LaneNotExplained { .. }
         | Note::RollNotExplained { .. }

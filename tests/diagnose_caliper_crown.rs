@@ -1,0 +1,72 @@
+//! A baggy centre wound in from a crowned caliper profile stands on the caliper readings' crown,
+//! and a gauge band near the centre is not taken for a crown.
+//!
+//! The trade's fact: a caliper profile thick in the middle winds the centre tighter, so the centre
+//! lanes take more of the wound-in tension, creep longer in storage and unwind baggy (common
+//! practice; the caliper-to-hardness link is the one hardness profiles are read for, Roisum 1994,
+//! "The Mechanics of Winding", from memory). The statistics: a level profile's quadratic
+//! component over its readings is normal with the repeatability as its standard deviation, so a
+//! crown of 4 % read at 15 positions to 0.5 um (about 9 standard deviations) cannot be noise
+//! (Neyman 1937, Skandinavisk Aktuarietidskrift 20:149-199, from memory), while one reading
+//! 4.5 % thick among level ones is a band (its neighbours' parabola, with it left out, is within
+//! two standard deviations: NumPy 2.4.6 least squares, as in `diagnose::crown`'s unit test).
+
+mod common;
+
+use rollsleuth::case;
+use rollsleuth::note::{NoiseBasis, Note};
+use rollsleuth::vocab::Defect;
+
+fn crown_notes(d: &rollsleuth::diagnose::Diagnosis) -> usize {
+    d.notes
+        .iter()
+        .filter(|n| matches!(n, Note::OnCaliperCrown { .. }))
+        .count()
+}
+
+#[test]
+fn a_crowned_caliper_profile_gives_a_baggy_centre_at_every_lane_count() {
+    let file = std::path::Path::new("tests/data/caliper_crown/crowned_newsprint.yaml");
+    for n in [8, 17, 40] {
+        let c = case::load_file(file, &[format!("lanes.count={n}")]).unwrap();
+        let d = common::diagnose_at(&c, 101, false);
+        let found = common::defects(&d);
+        assert!(found.contains(&Defect::BaggyCenter), "{n} lanes: {found:?}");
+        assert!(!found.contains(&Defect::BaggyEdges), "{n} lanes: {found:?}");
+        assert_eq!(crown_notes(&d), 1, "{n} lanes: {:?}", d.notes);
+        let crown = d.notes.iter().find_map(|x| match x {
+            Note::OnCaliperCrown {
+                crown_m, sigmas, ..
+            } => Some((*crown_m, *sigmas)),
+            _ => None,
+        });
+        let (crown_m, sigmas) = crown.unwrap();
+        // 77.9 .. 81.3 um: a crown of about 3.4 um, far above the 0.5 um repeatability
+        assert!((crown_m * 1e6 - 3.4).abs() < 0.2, "{crown_m}");
+        assert!(sigmas > 8.0, "{sigmas}");
+    }
+}
+
+#[test]
+fn a_gauge_band_near_the_centre_is_no_crown() {
+    let file = std::path::Path::new("tests/data/caliper_crown/centre_band_film.yaml");
+    for n in [17, 40] {
+        let c = case::load_file(file, &[format!("lanes.count={n}")]).unwrap();
+        let d = common::diagnose_at(&c, 101, false);
+        let found = common::defects(&d);
+        assert!(found.contains(&Defect::GaugeBands), "{n} lanes: {found:?}");
+        assert!(
+            !found.contains(&Defect::BaggyCenter),
+            "{n} lanes: {found:?}"
+        );
+        assert_eq!(crown_notes(&d), 0, "{n} lanes: {:?}", d.notes);
+        // the noise test of a crown-riding rule names the crown when it decided
+        assert!(!d.notes.iter().any(|x| matches!(
+            x,
+            Note::BelowNoiseFloor {
+                basis: NoiseBasis::CaliperCrown,
+                ..
+            }
+        )));
+    }
+}
