@@ -200,6 +200,36 @@ fn onto(p: &Profile, centres: &[f64]) -> (Vec<f64>, bool) {
     (v, any)
 }
 
+/// Lanes wider than the caliper readings' median spacing by more than this share (reading
+/// positions are rounded; a lane a few per cent wider still samples every band).
+const COARSE_TOL: f64 = 0.1;
+
+/// The note on lanes asked for (`e`, edges, m) whose inner lanes are wider than the densest
+/// caliper profile's median reading spacing: a band narrower than a lane can fall between lane
+/// centres, where the lanes sample the profile (the demo's band is lost so below 16 lanes).
+fn coarse_note(case: &Case, e: &[f64]) -> Option<Note> {
+    if case.lane_count.is_none() && case.lane_edges_m.is_none() {
+        return None;
+    }
+    let p = (case.profiles.iter())
+        .filter(|p| p.what == Measure::Caliper)
+        .max_by_key(|p| p.positions_m.len())?;
+    let mut gaps: Vec<f64> = p.positions_m.windows(2).map(|w| w[1] - w[0]).collect();
+    if gaps.len() < 2 {
+        return None;
+    }
+    gaps.sort_by(f64::total_cmp);
+    let spacing = gaps[gaps.len() / 2];
+    let inner = e.windows(2).skip(1).take(e.len().saturating_sub(3));
+    let lane = inner.map(|w| w[1] - w[0]).fold(0.0, f64::max);
+    (spacing > 0.0 && lane > spacing * (1.0 + COARSE_TOL)).then(|| Note::LanesCoarse {
+        lane_m: lane,
+        spacing_m: spacing,
+        // a whole count of spacings is enough as it is (not one more for a rounding residue)
+        enough: (case.roll.width_m / spacing * (1.0 - 1e-9)).ceil() as usize,
+    })
+}
+
 /// Notes on how many lanes `n` were made from what the case asked for.
 fn count_notes(case: &Case, n: usize) -> Vec<Note> {
     let mut notes = Vec::new();
@@ -244,6 +274,7 @@ pub fn build(case: &Case) -> Lanes {
         })
         .collect();
     let mut notes = count_notes(case, n);
+    notes.extend(coarse_note(case, &e));
     let mut extrap = vec![false; n];
     let mut mark = |what: Measure, notes: &mut Vec<Note>| {
         let i = earliest_index(&series, what)?;

@@ -36,6 +36,16 @@ pub enum Note {
         /// Lanes made.
         lanes: usize,
     },
+    /// Lanes asked for (`lanes.count` or `lanes.edges`) are wider than the caliper readings'
+    /// spacing: a band narrower than a lane can fall between lane centres.
+    LanesCoarse {
+        /// Widest inner lane, m.
+        lane_m: f64,
+        /// Median spacing of the densest caliper profile's readings, m.
+        spacing_m: f64,
+        /// Lanes over the width that are no wider than the spacing.
+        enough: usize,
+    },
     /// No caliper profile: lane calipers were inferred from the earliest diameter profile.
     CaliperFromDiameter,
     /// Lab creep curves set a direction's Burgers parameters.

@@ -183,3 +183,33 @@ fn the_coated_roll_gives_the_same_findings_at_every_lane_count() {
     intervals_overlap("coated longest lane", &long, 0.0);
     same_spread(&runs, 0.05);
 }
+
+/// Lanes coarser than the caliper readings say so, with the count that resolves a band one
+/// reading wide: the demo's readings are 100 mm apart over 1600 mm, so 16 lanes (sampling at
+/// the readings' spacing; common practice), and no note from there up or on lanes made from the
+/// readings themselves.
+#[test]
+fn lanes_coarser_than_the_readings_say_what_resolves_a_band() {
+    use rollsleuth::note::Note;
+    let coarse = |c: &Case| {
+        rollsleuth::lanes::build(c)
+            .notes
+            .into_iter()
+            .find_map(|n| match n {
+                Note::LanesCoarse {
+                    lane_m,
+                    spacing_m,
+                    enough,
+                } => Some((lane_m, spacing_m, enough)),
+                _ => None,
+            })
+    };
+    let (lane, spacing, enough) = coarse(&case_at(None, 12)).expect("12 lanes of 133 mm");
+    assert!((lane - 1.6 / 12.0).abs() < 1e-9, "{lane}");
+    assert!((spacing - 0.1).abs() < 1e-9, "{spacing}");
+    assert_eq!(enough, 16);
+    for n in [16, 24, 40] {
+        assert_eq!(coarse(&case_at(None, n)), None, "{n} lanes");
+    }
+    assert_eq!(coarse(&case::load_demo(&[]).unwrap()), None);
+}

@@ -259,6 +259,12 @@ pub fn diagnose_fitted(
         )?);
     }
     let mut notes = fit.all_notes();
+    // what the lanes can resolve bears on the findings
+    let coarse = lanes
+        .notes
+        .iter()
+        .filter(|n| matches!(n, Note::LanesCoarse { .. }));
+    crate::note::push_new(&mut notes, coarse.copied());
     let confidence = confidence::assess(
         case,
         table,

@@ -143,6 +143,23 @@ fn resolution_note(n: &Note) -> String {
     )
 }
 
+/// Lanes coarser than the caliper readings ([`Note::LanesCoarse`]) as a sentence.
+pub(super) fn lanes_coarse(n: &Note) -> String {
+    let Note::LanesCoarse {
+        lane_m,
+        spacing_m,
+        enough,
+    } = *n
+    else {
+        return String::new();
+    };
+    format!(
+        "lanes up to {:.0} mm wide are wider than the caliper readings' spacing ({:.0} mm): the lanes take the profile at their centres, so a band narrower than a lane can fall between them and be weakened or missed; state lanes no wider than the spacing (lanes.count = {enough} or more) to resolve it",
+        lane_m * 1e3,
+        spacing_m * 1e3
+    )
+}
+
 /// A finding standing on the caliper crown ([`Note::OnCaliperCrown`]) as a sentence.
 fn crown_note(n: &Note) -> String {
     let Note::OnCaliperCrown {

@@ -254,6 +254,7 @@ pub fn note(n: &Note) -> String {
         Note::LanesCount { asked, lanes } => format!(
             "lanes.count = {asked} gives {lanes} lanes: each edge lane is made 25 mm wide (a strip split off one wider than two strips, else the excess given to its neighbour), because moisture exchange through the ends and the edge tension act in the outer centimetres"
         ),
+        Note::LanesCoarse { .. } => super::note_words::lanes_coarse(n),
         Note::BelowNoiseFloor { .. }
         | Note::OnProfileNoise { .. }
         | Note::Unlikely { .. }
