@@ -9,7 +9,8 @@ use std::process::Command;
 
 mod common;
 
-const FAST: &str = "winding.speed=150 m/s";
+// above the demo's lift-off speed of about 160 m/s (its 2 pli and nip part, see the last test)
+const FAST: &str = "winding.speed=200 m/s";
 
 fn run(args: &[&str]) -> (i32, String, String) {
     let o = Command::new(env!("CARGO_BIN_EXE_rollsleuth"))
@@ -97,7 +98,7 @@ fn the_report_and_triage_carry_the_warning() {
         .lines()
         .find(|l| l.trim_start().starts_with("speed:"))
         .expect("demo states its speed");
-    std::fs::write(&case, demo.replacen(speed, "  speed: \"150 m/s\"", 1)).unwrap();
+    std::fs::write(&case, demo.replacen(speed, "  speed: \"200 m/s\"", 1)).unwrap();
     let (_, table, err) = run(&["triage", case.to_str().unwrap()]);
     assert!(
         format!("{table}{err}").contains("lift-off"),
@@ -203,4 +204,33 @@ fn whatif_warns_for_both_rolls_and_says_which() {
     assert!(has("warnings_after", "lift-off"));
     assert!(has("warnings", "as measured: ") && has("warnings", "as changed: "));
     assert!(v["safety"].as_str().unwrap().contains("qualified people"));
+}
+
+/// The lift-off speed is that of the stress the winder puts in, before the spin takes its part:
+/// sqrt(sigma / rho) with sigma the web tension plus the nip-induced part (friction x nip load;
+/// Good, Wu and Fikes 1994) over the caliper (thin spinning ring; Timoshenko and Goodier, as
+/// above). On the demo (2 pli, no nip) wound at 183 m/s, far past it, the lift-off speed is the
+/// tension's own, about 88 m/s, not the zero that the spun-off wound-in tension would give;
+/// with its 10 pli nip at friction 0.45 the stress is (2 + 4.5) pli over the caliper. 1 pli =
+/// 175.1268 N/m (NIST SP 811, B.8).
+#[test]
+fn the_lift_off_speed_is_the_winders_stress_before_the_spin() {
+    let lift_off = |sets: &[&str]| {
+        let mut args = vec!["stress", "--json"];
+        for s in sets {
+            args.extend(["--set", s]);
+        }
+        let (_, out, err) = run(&args);
+        let v: serde_json::Value = serde_json::from_str(&out).expect(&err);
+        v["lift_off_speed_m_s"].as_f64().unwrap()
+    };
+    let c = rollsleuth::case::load_demo(&[]).unwrap();
+    let caliper = rollsleuth::lanes::build(&c).mean_caliper_m;
+    let rho = c.material.density_kg_m3;
+    let expect = |pli: f64| (pli * 175.126_8 / caliper / rho).sqrt();
+    let bare = lift_off(&["winding.nip=0 N/m", "winding.speed=11000 m/min"]);
+    assert!((bare / expect(2.0) - 1.0).abs() < 1e-4, "{bare}");
+    assert!((bare - 88.0).abs() < 1.0, "{bare}");
+    let nipped = lift_off(&[]);
+    assert!((nipped / expect(6.5) - 1.0).abs() < 1e-4, "{nipped}");
 }

@@ -270,11 +270,29 @@ pub(super) fn unwind_limit(l: &crate::note::Limit) -> String {
             film_m,
             roughness_m,
         } => format!(
-            "the air film entrained at full diameter ({:.1} um) exceeds the faces' combined roughness ({:.1} um) by enough to take away all the wound-in tension: the outer wraps float on air and the model holds their wound-in tension at zero; {SO}",
-            film_m * 1e6,
+            "the air film entrained at full diameter ({}) exceeds the faces' combined roughness ({:.1} um) by enough to take away all the wound-in tension: the outer wraps float on air and the model holds their wound-in tension at zero; {SO}",
+            film_words(film_m),
             roughness_m * 1e6
         ),
         other => super::words::limit(&other),
+    }
+}
+
+/// Thickest air film the foil-bearing formula is read for, m: the Knox and Sweeney (1971) film
+/// is a thin-film solution, h far below the roll radius; a web wound at so little tension that
+/// the formula gives millimetres does not run on a film at all.
+const FILM_READ_M: f64 = 1e-3;
+
+/// An entrained air film in words: micrometres, or past [`FILM_READ_M`] that the formula is
+/// outside its range.
+fn film_words(film_m: f64) -> String {
+    if film_m > FILM_READ_M || !film_m.is_finite() {
+        format!(
+            "over {:.0} um, where the thin-film formula no longer holds: the web barely touches the roll",
+            FILM_READ_M * 1e6
+        )
+    } else {
+        format!("{:.1} um", film_m * 1e6)
     }
 }
 

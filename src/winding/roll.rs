@@ -19,7 +19,7 @@
 //! ([`crate::lanes::Lane::web_strain`]) to its offset, unlevelled: with equal radii the lanes carry
 //! the measured profile's shape, and a lane measured slack winds slack.
 
-use super::centrifugal::lift_off_speed;
+use super::centrifugal::{lift_off_speed, winder_stress};
 use super::coupling;
 use super::grid::{graded_grid, grid, Spacing};
 use super::hakiel::{LaneModel, LaneState};
@@ -493,9 +493,8 @@ fn wound_at(
         model,
         rc,
         big_r,
-        widths,
-        width,
         cal,
+        ..
     } = Build::of(input, lanes);
     let c_eff = found.caliper_m;
     let layers = (big_r - rc) / c_eff;
@@ -513,13 +512,11 @@ fn wound_at(
     let rho = mat.density_kg_m3;
     let v = input.winding.speed_m_s;
     let omega = if big_r > 0.0 { v / big_r } else { 0.0 };
-    let mut mean_sigma = 0.0;
     let out: Vec<LaneStress> = states
         .into_iter()
         .enumerate()
         .map(|(i, st)| {
             let s = summarise(&st, &model, c_eff, cal[i], rho, omega, mat.poisson);
-            mean_sigma += s.wound_in_tension_mean_n_per_m / cal[i] * widths[i] / width;
             LaneStress {
                 position_m: lanes.lanes[i].position_m,
                 caliper_m: cal[i],
@@ -546,7 +543,7 @@ fn wound_at(
         grid_nodes,
         stack_compression: 1.0 - c_eff / lanes.mean_caliper_m,
         layer_thickness_m: c_eff,
-        lift_off_speed_m_s: lift_off_speed(mean_sigma, rho),
+        lift_off_speed_m_s: lift_off_speed(winder_stress(input, lanes.mean_caliper_m), rho),
         levelling: opt.levelling,
         shear_lag_m,
         core_stiffness_pa: model.core_stiffness,
