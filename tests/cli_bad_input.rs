@@ -302,3 +302,20 @@ fn set_keeps_the_file_lines_and_blames_itself_for_its_own_values() {
         &["--set winding.tension=[1, 2]", "no longer fits"],
     );
 }
+
+#[test]
+fn a_cross_field_problem_blames_the_set_that_changed_one_of_its_fields() {
+    // the core diameter is checked against the roll diameter, the nip against the tension: when
+    // `--set` wrote the other field, the problem is that `--set`'s, not the file line's
+    bad(
+        &["check", "--set", "roll.diameter=50 mm"],
+        &[
+            "--set roll.diameter=50 mm: roll.core_diameter",
+            "not smaller",
+        ],
+    );
+    bad(
+        &["check", "--set", "winding.tension=0.2 pli"],
+        &["--set winding.tension=0.2 pli: winding.nip", "20 times"],
+    );
+}

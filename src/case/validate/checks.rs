@@ -113,19 +113,38 @@ impl Validator {
     }
 
     pub(super) fn push(&mut self, field: &str, line: Option<u64>, message: String) {
-        let (line, set) = match &self.lines {
-            LineSource::Spans => (line.filter(|&l| l > 0), None),
-            LineSource::Edited { lines, sets } => {
-                // the last --set that covers the field wrote its value
-                match sets
-                    .iter()
-                    .rev()
-                    .find(|(p, _)| super::super::lines::is_under(field, p))
-                {
-                    Some((_, arg)) => (None, Some(arg.clone())),
-                    None => (super::super::lines::line_for(lines, field), None),
-                }
-            }
+        self.push_across(field, &[], line, message);
+    }
+
+    /// The last `--set` that wrote `field` (or a field under it), if one did.
+    fn set_of(&self, field: &str) -> Option<&String> {
+        match &self.lines {
+            LineSource::Spans => None,
+            LineSource::Edited { sets, .. } => sets
+                .iter()
+                .rev()
+                .find(|(p, _)| super::super::lines::is_under(field, p))
+                .map(|(_, arg)| arg),
+        }
+    }
+
+    /// A problem with `field` that comes from its value against the `others` (a cross-field
+    /// check): reported against the `--set` that wrote `field`, else against one that wrote any of
+    /// the others (the value that changed), else at `field`'s line.
+    pub(super) fn push_across(
+        &mut self,
+        field: &str,
+        others: &[&str],
+        line: Option<u64>,
+        message: String,
+    ) {
+        let set = (self.set_of(field))
+            .or_else(|| others.iter().find_map(|o| self.set_of(o)))
+            .cloned();
+        let line = match (&self.lines, &set) {
+            (_, Some(_)) => None,
+            (LineSource::Spans, None) => line.filter(|&l| l > 0),
+            (LineSource::Edited { lines, .. }, None) => super::super::lines::line_for(lines, field),
         };
         self.problems.push(Problem {
             field: field.to_string(),

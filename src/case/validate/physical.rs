@@ -40,8 +40,9 @@ impl Validator {
             t_max.partial_cmp(&carry),
             Some(std::cmp::Ordering::Less | std::cmp::Ordering::Equal)
         ) {
-            self.push(
+            self.push_across(
                 field,
+                &["material.md_modulus", "material.caliper", "material.grade"],
                 line,
                 format!(
                     "a web tension of {t_max:.0} N/m strains this web by {:.2} % (MD modulus x caliper = {:.0} N/m per unit strain), above the {} % a web can be wound at; check the tension's unit (e.g. \"2 pli\", \"350 N/m\"), material.md_modulus and material.caliper",
@@ -57,8 +58,14 @@ impl Validator {
         };
         let nip_part = m.friction * w.nip_n_per_m;
         if nip_part > MAX_NIP_RATIO * t_min.max(1.0) {
-            self.push(
+            self.push_across(
                 "winding.nip",
+                &[
+                    "winding.tension",
+                    "winding.taper",
+                    "material.friction",
+                    "material.grade",
+                ],
                 raw.winding.nip.as_ref().map(line_of),
                 format!(
                     "friction x nip load ({nip_part:.0} N/m) is over {MAX_NIP_RATIO} times the lowest web tension ({t_min:.0} N/m); check the nip's unit (a line load, e.g. \"20 kN/m\" or \"100 pli\")"

@@ -25,8 +25,9 @@ impl Validator {
         );
         if let (Some(d), Some(c)) = (dia, core_d) {
             if c >= d {
-                self.push(
+                self.push_across(
                     "roll.core_diameter",
+                    &["roll.diameter"],
                     Some(line_of(&r.core_diameter)),
                     format!(
                         "core diameter {:.1} mm is not smaller than the roll diameter {:.1} mm; check both values and their units",
