@@ -82,3 +82,15 @@ fn a_refused_csv_value_names_the_csv_file_and_line() {
     assert!(err.contains("outside the roll width"), "{err}");
     assert!(err.contains("scan.csv, line 2"), "{err}");
 }
+
+#[test]
+fn a_wrong_unit_in_the_header_is_one_problem_naming_its_rows() {
+    let p = case_with_csv("unit", "position (kPa),value\n50,72\n800,72.4\n1550,71.9\n");
+    let (code, err) = check(&p);
+    assert_eq!(code, 2, "{err}");
+    assert!(err.contains("1 problem in the case"), "{err}");
+    assert!(
+        err.contains("positions: 'kPa'") && err.contains("scan.csv, lines 2, 3, 4)"),
+        "{err}"
+    );
+}

@@ -2,6 +2,7 @@
 //! checked against the roll width.
 
 use super::super::csv::{read_profile, Columns};
+use super::super::errors::Problem;
 use super::super::model::*;
 use super::super::raw::{RawColumns, RawProfile, Word};
 use super::checks::{line_of, Range, Validator};
@@ -267,8 +268,9 @@ impl Validator {
         let mut pos_si = Vec::new();
         let mut val_si = Vec::new();
         let mut ok = true;
+        // the row of each problem from `start` on
+        let (start, mut rows) = (self.problems.len(), Vec::new());
         for (k, ((x, xl), (v, vl))) in positions.iter().zip(values.iter()).enumerate() {
-            let before = self.problems.len();
             let xs = self.num_unit(
                 *x,
                 pos_unit,
@@ -279,17 +281,18 @@ impl Validator {
             let vs = self.value_si(*v, *vl, what, val_unit, &f(&format!("values[{k}]")));
             let (Some(x), Some(v)) = (xs, vs) else {
                 ok = false;
-                self.name_row(units, k, before);
+                rows.resize(self.problems.len() - start, k);
                 continue;
             };
             if !self.inside(x, width, &f(&format!("positions[{k}]")), *xl) {
                 ok = false;
-                self.name_row(units, k, before);
+                rows.resize(self.problems.len() - start, k);
                 continue;
             }
             pos_si.push(x);
             val_si.push(v);
         }
+        self.name_rows(units, start, &rows);
         if ok && pos_si.windows(2).any(|w| w[1] <= w[0]) {
             self.push(
                 &f("positions"),
@@ -301,16 +304,56 @@ impl Validator {
         ok.then_some((pos_si, val_si))
     }
 
-    /// The problems from `before` on came from row `k` of a CSV: the message names the file and
-    /// its line.
-    fn name_row(&mut self, units: &Units, k: usize, before: usize) {
-        let Some((csv, lines)) = &units.csv else {
-            return;
-        };
-        let row = lines.get(k).copied().unwrap_or(0);
-        for p in &mut self.problems[before..] {
-            p.message
-                .push_str(&format!(" (CSV file {csv}, line {row})"));
+    /// The problems from `start` on came from the rows `rows` (one each): problems with the
+    /// same message (a unit wrong for every reading) become one, on the field they share, naming
+    /// every row; each names its rows, by CSV line when the profile came from a CSV.
+    fn name_rows(&mut self, units: &Units, start: usize, rows: &[usize]) {
+        let found: Vec<Problem> = self.problems.drain(start..).collect();
+        let mut merged: Vec<(Problem, Vec<usize>)> = Vec::new();
+        for (p, &k) in found.into_iter().zip(rows) {
+            match merged.iter_mut().find(|(m, _)| m.message == p.message) {
+                Some((m, ks)) => {
+                    // the field both lie under: `profiles[0].positions[3]` -> `profiles[0].positions`
+                    let base = |f: &str| match f.strip_suffix(']').and_then(|g| g.rfind('[')) {
+                        Some(i) => f[..i].to_string(),
+                        None => f.to_string(),
+                    };
+                    if m.field != p.field && base(&m.field) == base(&p.field) {
+                        m.field = base(&m.field);
+                    }
+                    ks.push(k);
+                }
+                None => merged.push((p, vec![k])),
+            }
+        }
+        for (mut p, ks) in merged {
+            let at: Vec<String> = match &units.csv {
+                Some((_, lines)) => ks
+                    .iter()
+                    .map(|k| lines.get(*k).copied().unwrap_or(0).to_string())
+                    .collect(),
+                None => ks.iter().map(|k| k.to_string()).collect(),
+            };
+            // a long run of rows is named by its first few and its last
+            let list = match at.as_slice() {
+                [first @ .., last] if at.len() > 6 => {
+                    format!(
+                        "{}, ... {last} ({} in all)",
+                        first[..3].join(", "),
+                        at.len()
+                    )
+                }
+                _ => at.join(", "),
+            };
+            let (one, many) = match &units.csv {
+                Some((csv, _)) => (
+                    format!(" (CSV file {csv}, line {list})"),
+                    format!(" (CSV file {csv}, lines {list})"),
+                ),
+                None => (String::new(), format!(" (readings {list}, counted from 0)")),
+            };
+            p.message.push_str(if ks.len() == 1 { &one } else { &many });
+            self.problems.push(p);
         }
     }
 
