@@ -70,3 +70,23 @@ fn a_gauge_band_near_the_centre_is_no_crown() {
         )));
     }
 }
+
+/// A note that says a finding stands on the crown is given only with that finding: a baggy
+/// edges that stands on the 3 % dish of this roll's readings but holds in fewer than half of
+/// the plausible states is dropped, and its crown note with it (a report must not say a finding
+/// stands that it then does not report).
+#[test]
+fn a_crown_note_comes_only_with_its_finding() {
+    let file = std::path::Path::new("tests/data/caliper_crown/thick_edges_3pct.yaml");
+    let c = case::load_file(file, &[]).unwrap();
+    let d = common::diagnose_at(&c, 101, false);
+    for n in &d.notes {
+        if let Note::OnCaliperCrown { defect, .. } = n {
+            assert!(
+                d.findings.iter().any(|f| f.defect == *defect),
+                "{defect:?} note without its finding: {:?}",
+                common::defects(&d)
+            );
+        }
+    }
+}

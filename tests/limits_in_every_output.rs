@@ -234,3 +234,18 @@ fn the_lift_off_speed_is_the_winders_stress_before_the_spin() {
     let nipped = lift_off(&[]);
     assert!((nipped / expect(6.5) - 1.0).abs() < 1e-4, "{nipped}");
 }
+
+/// Under a taper the outer wraps are wound at the least tension, so they lift off first: the
+/// lift-off speed is that of the lowest winder stress over the build (as above), here the taper's
+/// outer 0.5 pli with no nip.
+#[test]
+fn under_a_taper_the_lift_off_speed_is_that_of_the_least_tension() {
+    let taper = "winding={taper: [{diameter: \"102 mm\", tension: \"3 pli\"}, {diameter: \"1000 mm\", tension: \"0.5 pli\"}], nip: \"0 N/m\", speed: \"1800 m/min\"}";
+    let (_, out, err) = run(&["stress", "--json", "--set", taper]);
+    let v: serde_json::Value = serde_json::from_str(&out).expect(&err);
+    let got = v["lift_off_speed_m_s"].as_f64().unwrap();
+    let c = rollsleuth::case::load_demo(&[]).unwrap();
+    let caliper = rollsleuth::lanes::build(&c).mean_caliper_m;
+    let want = (0.5 * 175.126_8 / caliper / c.material.density_kg_m3).sqrt();
+    assert!((got / want - 1.0).abs() < 1e-4, "{got} against {want}");
+}

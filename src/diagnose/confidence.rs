@@ -47,7 +47,7 @@
 //!
 //! **Invariant:** no prose; notes carry numbers (positions in m, lengths in mm per m of web).
 
-use super::crown::{crown, rides_on_crown, Crown, OWN_SHARE};
+use super::crown::{crown, drop_orphan_notes, rides_on_crown, Crown, OWN_SHARE};
 use super::features::{self, Features};
 use super::noise::{
     caliper_repeatability, flattened_features, noise_floor, rests_on_web, Floor, Side,
@@ -145,6 +145,7 @@ pub fn assess(
         }
         keep
     });
+    drop_orphan_notes(findings, notes);
     findings.sort_by(|a, b| (b.probability * b.weight).total_cmp(&(a.probability * a.weight)));
     notes.push(fl.resolution);
     let lanes = lane_spreads(fitted, feats, &states);
@@ -250,7 +251,7 @@ fn noise_test<'a>(r: &Rule, feats: &Features, (fl, crown): Tests<'a>) -> NoiseTe
         basis,
     };
     // the crown route, where the crown alone fires the rule and it is the stronger evidence
-    match riding.and_then(|k| k.route(r, side, fl.level)) {
+    match riding.and_then(|k| k.route(r, (side, x.uniform), fl.level)) {
         Some((chance, level)) if chance / level < test.chance / test.level => NoiseTest {
             chance,
             level,

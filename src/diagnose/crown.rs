@@ -106,11 +106,18 @@ impl Crown {
     }
 
     /// The crown test of rule `r` on `side`, for a rule whose share of the family is `level`:
-    /// its chance and the level it must meet ([`OWN_SHARE`]); `None` unless the crown alone
-    /// (creep made uniform) meets the rule's deciding condition.
-    pub(super) fn route(&self, r: &Rule, side: Side, level: f64) -> Option<(f64, f64)> {
+    /// its chance and the level it must meet ([`OWN_SHARE`]); `None` unless the crown alone meets
+    /// the rule's deciding condition: with creep made uniform, and again with the noise-free
+    /// uniform roll's value (`uniform`, what storage makes of a level roll: drying or wetting
+    /// ends) taken out, so the crown does not stand on a moisture pattern it did not make.
+    pub(super) fn route(
+        &self,
+        r: &Rule,
+        (side, uniform): (Side, f64),
+        level: f64,
+    ) -> Option<(f64, f64)> {
         let fires = match (&self.guard, r.when.first()) {
-            (Some(g), Some(c)) => c.holds(g[c.feature]),
+            (Some(g), Some(c)) => c.holds(g[c.feature]) && c.holds(g[c.feature] - uniform),
             _ => false,
         };
         fires.then(|| (self.chance(side), level * (1.0 - OWN_SHARE)))
@@ -153,6 +160,15 @@ pub(super) fn crown(
         out.guard = Some(uniform_creep_features(lab, fitted)?);
     }
     Ok(Some(out))
+}
+
+/// Drop the crown notes of findings that did not stand to the end (dropped later as unlikely or
+/// on profile noise): a note says a finding stands only where it does.
+pub(super) fn drop_orphan_notes(findings: &[super::Finding], notes: &mut Vec<Note>) {
+    notes.retain(|n| match n {
+        Note::OnCaliperCrown { defect, .. } => findings.iter().any(|f| f.defect == *defect),
+        _ => true,
+    });
 }
 
 /// The readings' parabola across the width after a band is left out.

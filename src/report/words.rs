@@ -320,7 +320,7 @@ pub fn limit(l: &crate::note::Limit) -> String {
             speed_m_s,
             lift_off_m_s,
         } => format!(
-            "the winding speed {speed_m_s:.1} m/s is above the lift-off speed {} m/s at the winder's mean stress (web tension and nip part): outer layers could not stay on the roll as modelled; {SO}",
+            "the winding speed {speed_m_s:.1} m/s is above the lift-off speed {} m/s at the winder's least stress over the build (web tension and nip part): outer layers could not stay on the roll as modelled; {SO}",
             crate::units::sig(lift_off_m_s, 3)
         ),
         Limit::Condensation(c) => condensation(&c),

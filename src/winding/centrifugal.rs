@@ -37,21 +37,22 @@ pub fn lift_off_speed(wound_in_stress_pa: f64, rho: f64) -> f64 {
 /// Points over the build at which [`winder_stress`] samples the winder's tension.
 const BUILD_SAMPLES: usize = 64;
 
-/// The stress a layer is wound at before spin and entrained air take their part, Pa, averaged
-/// over the build (layers are spaced evenly in radius, so a mean over radius): the winder's web
-/// tension at each diameter (its taper) plus the nip-induced part (friction x nip, at most
-/// [`super::coupling::NIP_SATURATION`] times the tension), over the web's caliper. The stress
-/// [`lift_off_speed`] needs: the wound-in tension the model carries has the spin already taken
-/// out, so it would put lift-off at zero once the winder runs past it.
+/// The least stress a layer is wound at over the build before spin and entrained air take their
+/// part, Pa: the winder's web tension at each diameter (its taper, sampled evenly in radius)
+/// plus the nip-induced part (friction x nip, at most [`super::coupling::NIP_SATURATION`] times
+/// the tension), over the web's caliper. The stress [`lift_off_speed`] needs: layers lift off
+/// wherever they are wound at less than rho v^2 (a taper's low outer tension first), and the
+/// wound-in tension the model carries has the spin already taken out, so it would put lift-off
+/// at zero once the winder runs past it.
 pub fn winder_stress(input: &super::WindInput, caliper_m: f64) -> f64 {
     let w = input.winding;
     let (d0, d1) = (input.roll.core_diameter_m, input.roll.diameter_m);
-    let sum: f64 = (0..BUILD_SAMPLES)
+    let least = (0..=BUILD_SAMPLES)
         .map(|k| {
-            let d = d0 + (d1 - d0) * (k as f64 + 0.5) / BUILD_SAMPLES as f64;
+            let d = d0 + (d1 - d0) * k as f64 / BUILD_SAMPLES as f64;
             let t = w.tension.at(d).max(0.0);
             t + super::coupling::nip_tension(input.material.friction, w.nip_n_per_m, t)
         })
-        .sum();
-    sum / BUILD_SAMPLES as f64 / caliper_m.max(1e-12)
+        .fold(f64::INFINITY, f64::min);
+    least / caliper_m.max(1e-12)
 }
