@@ -32,54 +32,114 @@ pub(super) struct BandTest {
     pub(super) threshold_sigmas: f64,
 }
 
-/// Largest |reading - median of the readings|, in the readings' unit. `buf` is scratch.
-fn band_statistic(v: &[f64], buf: &mut Vec<f64>) -> f64 {
+/// Which readings an outlier test looks for.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, PartialOrd, Ord)]
+pub(super) enum Outlying {
+    /// Either way (a tension or moisture streak: a slack or a tight lane, a wet or a dry one).
+    Either,
+    /// Thick against its neighbours: each reading over the median of its [`NEIGHBOURS`] nearest
+    /// readings by index, the largest of them. A caliper band builds a hard ring, a ridge and a
+    /// long lane; a thin reading makes none of those. Against its neighbours, not the whole
+    /// profile's median: a crowned or dished profile moves slowly from reading to reading, and
+    /// its centre or its edges stand far from the median without any band (a crown is judged by
+    /// [`super::crown`]).
+    Thick,
+    /// Thick against the whole profile's median: the largest reading - median.
+    ThickOverall,
+}
+
+/// Readings a reading is held against in the thick band test (four each side inside the profile;
+/// the nearest eight at its ends): enough that their median is not much noisier than the whole
+/// profile's, few enough that a crown hardly bends it (a 3 % crown read at 15 positions: the
+/// centre reading stands 0.13 of the crown over its neighbours' median).
+pub const NEIGHBOURS: usize = 8;
+
+/// Median of `v` (not empty); `v` is reordered.
+fn median_of(v: &mut [f64]) -> f64 {
     let n = v.len();
-    if n == 0 {
-        return 0.0;
-    }
-    buf.clear();
-    buf.extend_from_slice(v);
-    // the median's order statistics, as a sort would place them
-    let (below, upper, _) = buf.select_nth_unstable_by(n / 2, f64::total_cmp);
+    let (below, upper, _) = v.select_nth_unstable_by(n / 2, f64::total_cmp);
     let upper = *upper;
-    let med = if n % 2 == 1 {
+    if n % 2 == 1 {
         upper
     } else {
         0.5 * (below.iter().copied().fold(f64::NEG_INFINITY, f64::max) + upper)
-    };
+    }
+}
+
+/// The largest excess of a reading over the median of its [`NEIGHBOURS`] nearest readings by
+/// index (all the others when there are fewer), 0 when none exceeds it. `buf` is scratch.
+fn thick_statistic(v: &[f64], buf: &mut Vec<f64>) -> f64 {
+    let n = v.len();
+    let k = NEIGHBOURS.min(n.saturating_sub(1));
+    if k == 0 {
+        return 0.0;
+    }
+    let mut most: f64 = 0.0;
+    for i in 0..n {
+        // the window of k + 1 readings around i, moved inward at the ends
+        let lo = i.saturating_sub(k / 2).min(n - 1 - k);
+        buf.clear();
+        buf.extend((lo..=lo + k).filter(|&j| j != i).map(|j| v[j]));
+        most = most.max(v[i] - median_of(buf));
+    }
+    most
+}
+
+/// Largest |reading - median of the readings| ([`Outlying::Either`]) or a reading's excess over
+/// its neighbours ([`Outlying::Thick`]), in the readings' unit. `buf` is scratch.
+fn band_statistic(v: &[f64], buf: &mut Vec<f64>, way: Outlying) -> f64 {
+    if v.is_empty() {
+        return 0.0;
+    }
+    if way == Outlying::Thick {
+        return thick_statistic(v, buf);
+    }
+    buf.clear();
+    buf.extend_from_slice(v);
+    let med = median_of(buf);
+    if way == Outlying::ThickOverall {
+        return v.iter().map(|x| x - med).fold(0.0, f64::max);
+    }
     v.iter().map(|x| (x - med).abs()).fold(0.0, f64::max)
 }
+
+/// Noise statistics kept per reading count and way.
+type Kept = BTreeMap<(usize, Outlying), Arc<[f64]>>;
 
 /// Reading counts whose noise statistics are kept for the rest of the process.
 const KEPT_COUNTS: usize = 64;
 
-/// The band statistic of [`BAND_DRAWS`] noise-only profiles of `n` standard normal readings,
-/// sorted. A function of `n` alone (drawn from a stream seeded by `n`), so it is drawn once per
-/// reading count and process and shared by every profile, test and roll with that many readings.
-fn null_statistics(n: usize) -> Arc<[f64]> {
-    static KEPT: Mutex<BTreeMap<usize, Arc<[f64]>>> = Mutex::new(BTreeMap::new());
+/// The band statistic (`way`) of [`BAND_DRAWS`] noise-only profiles of `n` standard normal
+/// readings, sorted. A function of `n` and `way` alone (drawn from a stream seeded by them), so it
+/// is drawn once per reading count, way and process and shared by every profile, test and roll.
+fn null_statistics(n: usize, way: Outlying) -> Arc<[f64]> {
+    static KEPT: Mutex<Kept> = Mutex::new(BTreeMap::new());
     let kept = KEPT
         .lock()
         .unwrap_or_else(|e| e.into_inner())
-        .get(&n)
+        .get(&(n, way))
         .cloned();
     if let Some(v) = kept {
         return v;
     }
-    let mut rng = ChaCha8Rng::seed_from_u64(posterior::seed_for("band statistic", n));
+    let label = match way {
+        Outlying::Either => "band statistic",
+        Outlying::Thick => "thick band statistic",
+        Outlying::ThickOverall => "thick overall band statistic",
+    };
+    let mut rng = ChaCha8Rng::seed_from_u64(posterior::seed_for(label, n));
     let (mut draw, mut buf) = (vec![0.0; n], Vec::with_capacity(n));
     let mut noise: Vec<f64> = (0..BAND_DRAWS)
         .map(|_| {
             normals(&mut rng, &mut draw);
-            band_statistic(&draw, &mut buf)
+            band_statistic(&draw, &mut buf, way)
         })
         .collect();
     noise.sort_by(f64::total_cmp);
     let noise: Arc<[f64]> = noise.into();
     let mut m = KEPT.lock().unwrap_or_else(|e| e.into_inner());
     if m.len() < KEPT_COUNTS {
-        m.entry(n).or_insert_with(|| Arc::clone(&noise));
+        m.entry((n, way)).or_insert_with(|| Arc::clone(&noise));
     }
     noise
 }
@@ -107,9 +167,9 @@ fn normals(rng: &mut ChaCha8Rng, out: &mut [f64]) {
 
 /// The outlier test of `readings` with one-sigma repeatability `rep` (same unit) at `level`.
 /// A statistic that is not a number (readings that are not) is no evidence: chance 1.
-fn outlier_test(readings: &[f64], rep: f64, level: f64) -> BandTest {
-    let observed = band_statistic(readings, &mut Vec::new()) / rep.max(1e-300);
-    let noise = null_statistics(readings.len());
+fn outlier_test(readings: &[f64], rep: f64, level: f64, way: Outlying) -> BandTest {
+    let observed = band_statistic(readings, &mut Vec::new(), way) / rep.max(1e-300);
+    let noise = null_statistics(readings.len(), way);
     let count = noise.len() - noise.partition_point(|x| *x < observed);
     BandTest {
         chance: (count + 1) as f64 / (BAND_DRAWS + 1) as f64,
@@ -120,7 +180,7 @@ fn outlier_test(readings: &[f64], rep: f64, level: f64) -> BandTest {
 /// The outlier test's threshold for `n` readings at `level`, in repeatability units: the
 /// quantile of the noise statistic the test compares with.
 pub(super) fn outlier_threshold(n: usize, level: f64) -> f64 {
-    posterior::quantile(&null_statistics(n), 1.0 - level)
+    posterior::quantile(&null_statistics(n, Outlying::Either), 1.0 - level)
 }
 
 /// The profile of kind `what` with the most readings.
@@ -138,7 +198,23 @@ fn densest(lab: &Case, what: Measure) -> Option<&Profile> {
 /// lanes' calipers when the case has none) with repeatability `rep` (m) at `level`.
 pub(super) fn band_test(lab: &Case, lanes: &Lanes, rep: f64, level: f64) -> BandTest {
     let (readings, _) = caliper_readings(lab, lanes);
-    outlier_test(&readings, rep, level)
+    thick_band(&readings, rep, level)
+}
+
+/// The band test of caliper `readings` with repeatability `rep` at `level`: the thickest reading
+/// must stand out both from the profile's median and from the median of its [`NEIGHBOURS`]
+/// nearest readings ([`Outlying::ThickOverall`], [`Outlying::Thick`]); the larger of the two
+/// chances (an intersection-union test, whose size is at most either test's: Berger 1982,
+/// Technometrics 24:295-300, from memory). The first alone takes a crown's thick centre for a
+/// band, the second alone loses power against a band with shoulders (its neighbours' median is
+/// noisier and sits on the shoulders). Its threshold is the larger of the two.
+fn thick_band(readings: &[f64], rep: f64, level: f64) -> BandTest {
+    let a = outlier_test(readings, rep, level, Outlying::Thick);
+    let b = outlier_test(readings, rep, level, Outlying::ThickOverall);
+    BandTest {
+        chance: a.chance.max(b.chance),
+        threshold_sigmas: a.threshold_sigmas.max(b.threshold_sigmas),
+    }
 }
 
 /// The caliper readings the profile tests judge (m) and their positions (m): the caliper
@@ -252,11 +328,21 @@ pub(super) fn web_test(lab: &Case, level: f64) -> Option<BandTest> {
         let m = p.values.iter().sum::<f64>() / p.values.len().max(1) as f64;
         if m > 0.0 && m.is_finite() {
             let v: Vec<f64> = p.values.iter().map(|x| x / m).collect();
-            tests.push(outlier_test(&v, TENSION_REPEATABILITY, level));
+            tests.push(outlier_test(
+                &v,
+                TENSION_REPEATABILITY,
+                level,
+                Outlying::Either,
+            ));
         }
     }
     if let Some(p) = densest(lab, Measure::Moisture) {
-        tests.push(outlier_test(&p.values, MOISTURE_REPEATABILITY_PCT, level));
+        tests.push(outlier_test(
+            &p.values,
+            MOISTURE_REPEATABILITY_PCT,
+            level,
+            Outlying::Either,
+        ));
     }
     let n = tests.len() as f64;
     tests
@@ -270,6 +356,7 @@ pub(super) fn web_test(lab: &Case, level: f64) -> Option<BandTest> {
 
 #[cfg(test)]
 mod tests {
+    use super::Outlying::{Either, Thick};
     use super::{band_statistic, normals, null_statistics, outlier_test, unevenness_chance};
     use rand::SeedableRng;
 
@@ -279,10 +366,25 @@ mod tests {
     fn the_band_statistic_measures_from_the_sorted_median() {
         let mut buf = Vec::new();
         // odd: median 3, farthest reading 10
-        assert_eq!(band_statistic(&[10.0, 3.0, 1.0, 2.0, 4.0], &mut buf), 7.0);
+        assert_eq!(
+            band_statistic(&[10.0, 3.0, 1.0, 2.0, 4.0], &mut buf, Either),
+            7.0
+        );
         // even: median (2 + 4) / 2 = 3, farthest reading -5
-        assert_eq!(band_statistic(&[4.0, -5.0, 9.0, 2.0], &mut buf), 8.0);
-        assert_eq!(band_statistic(&[], &mut buf), 0.0);
+        assert_eq!(
+            band_statistic(&[4.0, -5.0, 9.0, 2.0], &mut buf, Either),
+            8.0
+        );
+        // thick against its neighbours (all the others in so few): 9 over the median of
+        // (4, -5, 2) by 7, 5 over that of
+        // (4, -50, 4, 4) by 1 (a thin reading is no band); inside a straight slope no reading
+        // stands out, only its high end over the eight readings inward of it, by 4.5 steps
+        assert_eq!(band_statistic(&[4.0, -5.0, 9.0, 2.0], &mut buf, Thick), 7.0);
+        let one = band_statistic(&[4.0, -50.0, 5.0, 4.0, 4.0], &mut buf, Thick);
+        assert_eq!(one, 1.0);
+        let slope: Vec<f64> = (0..9).map(|i| i as f64).collect();
+        assert_eq!(band_statistic(&slope, &mut buf, Thick), 4.5);
+        assert_eq!(band_statistic(&[], &mut buf, Either), 0.0);
     }
 
     /// Polar-method draws are standard normal: mean 0, variance 1, and 5 % beyond +/-1.959964
@@ -308,7 +410,7 @@ mod tests {
     /// standard errors over 100,000 draws: 0.008 and 0.0003.
     #[test]
     fn the_noise_statistic_of_two_readings_is_half_normal() {
-        let t = outlier_test(&[0.0, 2.0 * 1.821_377], 1.0, 0.01);
+        let t = outlier_test(&[0.0, 2.0 * 1.821_377], 1.0, 0.01, Either);
         assert!(
             (t.threshold_sigmas - 1.821_377).abs() < 0.03,
             "{}",
@@ -317,11 +419,39 @@ mod tests {
         assert!((t.chance - 0.01).abs() < 0.0013, "{}", t.chance);
         // the same count gives the same draws, kept once
         assert!(std::sync::Arc::ptr_eq(
-            &null_statistics(2),
-            &null_statistics(2)
+            &null_statistics(2, Either),
+            &null_statistics(2, Either)
         ));
         // readings that are not numbers are no evidence
-        assert_eq!(outlier_test(&[0.0, f64::NAN], 1.0, 0.01).chance, 1.0);
+        assert_eq!(
+            outlier_test(&[0.0, f64::NAN], 1.0, 0.01, Either).chance,
+            1.0
+        );
+    }
+
+    /// A crowned profile has no band, a band on a level profile is one: 15 readings, a crown of
+    /// 6 repeatabilities (the centre reading 6 above the ends, 1.6 above the median) stands out
+    /// from the median by a large chance-free margin but not from its neighbours; one reading 6
+    /// above a level profile stands out from both (chance at the Monte Carlo floor, 1e-5).
+    #[test]
+    fn a_crown_is_no_band_and_a_band_is_one() {
+        let u: Vec<f64> = (0..15).map(|i| i as f64 / 7.0 - 1.0).collect();
+        let crown: Vec<f64> = u.iter().map(|x| 6.0 * (1.0 - x * x)).collect();
+        assert!(super::thick_band(&crown, 1.0, 0.001).chance > 0.1);
+        let mut band = vec![0.0; 15];
+        band[7] = 6.0;
+        assert!(super::thick_band(&band, 1.0, 0.001).chance < 1e-4);
+    }
+
+    /// With two readings the thick statistic is |x1 - x2|, normal with variance 2 folded: its
+    /// 99th percentile is sqrt(2) z(0.995) = 1.414214 x 2.575829 = 3.642773 (Abramowitz and
+    /// Stegun 1964, Table 26.5). Monte Carlo standard error over 100,000 draws: about 0.015.
+    #[test]
+    fn the_thick_statistic_of_two_readings_is_their_folded_difference() {
+        let q = crate::fit::posterior::quantile(&null_statistics(2, Thick), 0.99);
+        assert!((q - 3.642_773).abs() < 0.05, "{q}");
+        let t = outlier_test(&[0.0, 3.642_773], 1.0, 0.01, Thick);
+        assert!((t.chance - 0.01).abs() < 0.0013, "{}", t.chance);
     }
 
     /// With the readings exactly on a line, the linear component carries the whole sum of
