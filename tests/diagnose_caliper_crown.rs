@@ -90,3 +90,21 @@ fn a_crown_note_comes_only_with_its_finding() {
         }
     }
 }
+
+/// Thick edges wind tight edge rings, but two edges are not the repeating narrow pattern of hard
+/// rings that corrugations are (corrugations: a CD pattern of narrow hard and soft bands under
+/// the nip, common practice); and they give baggy edges whatever the lane count.
+#[test]
+fn thick_edges_are_no_corrugation_at_any_lane_count() {
+    let file = std::path::Path::new("tests/data/caliper_crown/thick_edges_4pct.yaml");
+    for n in [8, 17, 40] {
+        let c = case::load_file(file, &[format!("lanes.count={n}")]).unwrap();
+        let d = common::diagnose_at(&c, 101, false);
+        let found = common::defects(&d);
+        assert!(
+            !found.contains(&Defect::Corrugations),
+            "{n} lanes: {found:?}"
+        );
+        assert!(found.contains(&Defect::BaggyEdges), "{n} lanes: {found:?}");
+    }
+}

@@ -434,13 +434,16 @@ fn winding_states(case: &Case, lanes: &Lanes, wound: &Wound) -> WindingStates {
 /// wound without a pattern, so a peak beyond it is a pattern, not noise).
 pub const HARD_BAND_FRACTION: f64 = 0.1;
 
-/// Hard rings wound in: lanes whose mean wound-in tension `wit` (N/m) is a local maximum over
-/// both neighbours and [`HARD_BAND_FRACTION`] above the width-weighted mean (`widths` m).
+/// Hard rings wound in: inner lanes ([`inner_lanes`]) whose mean wound-in tension `wit` (N/m) is
+/// a local maximum over both neighbours and [`HARD_BAND_FRACTION`] above the width-weighted mean
+/// (`widths` m). An end lane is not counted: it has a neighbour on one side only, so thick or
+/// tight edges would count as two rings of a repeating pattern, which they are not (the edge
+/// rules judge them).
 fn hard_band_count(wit: &[f64], widths: &[f64]) -> usize {
     let n = wit.len();
     let mean = weighted_mean(wit, widths);
     let side = |j: Option<usize>| j.and_then(|j| wit.get(j)).copied();
-    (0..n)
+    inner_lanes(n)
         .filter(|&i| {
             let left = side(i.checked_sub(1)).unwrap_or(f64::NEG_INFINITY);
             let right = side(Some(i + 1)).unwrap_or(f64::NEG_INFINITY);

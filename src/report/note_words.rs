@@ -278,6 +278,15 @@ pub(super) fn unwind_limit(l: &crate::note::Limit) -> String {
     }
 }
 
+/// A count in words; a threshold between counts (above 1.5) keeps its half.
+pub(super) fn count(v: f64) -> String {
+    if v.fract() == 0.0 {
+        format!("{v:.0}")
+    } else {
+        format!("{v:.1}")
+    }
+}
+
 /// Thickest air film the foil-bearing formula is read for, m: the Knox and Sweeney (1971) film
 /// is a thin-film solution, h far below the roll radius; a web wound at so little tension that
 /// the formula gives millimetres does not run on a film at all.

@@ -555,7 +555,9 @@ pub fn feature_value(f: Feature, v: f64, sys: System) -> String {
         }
         F::MoistureShare | F::CreepShare | F::WebLengthShare => format!("{:.0} %", v * 100.0),
         F::DiameterRidgePerMille => format!("{v:.2} per mille"),
-        F::BandCount | F::SlackLanes | F::PaperGrade | F::HardBandCount => format!("{v:.0}"),
+        F::BandCount | F::SlackLanes | F::PaperGrade | F::HardBandCount => {
+            super::note_words::count(v)
+        }
         F::LocalPeakRatio
         | F::CentreMinusEdgesRatio
         | F::LongestLaneRatio
