@@ -108,3 +108,17 @@ fn thick_edges_are_no_corrugation_at_any_lane_count() {
         assert!(found.contains(&Defect::BaggyEdges), "{n} lanes: {found:?}");
     }
 }
+
+/// A crowned roll whose ends also dried: both push the centre long (drying shrinks the edges,
+/// common practice; the crown winds the centre tight), and the moisture share sits near a half,
+/// so the plausible states split between the drying and the winding rule of a baggy centre. The
+/// defect holds in all of them and is reported, not dropped as unlikely under each rule apart.
+#[test]
+fn a_baggy_centre_split_between_two_mechanisms_is_still_found() {
+    let file = std::path::Path::new("tests/data/caliper_crown/crowned_dry_ends.yaml");
+    let c = case::load_file(file, &[]).unwrap();
+    let d = common::diagnose_at(&c, 101, false);
+    let f = d.findings.iter().find(|f| f.defect == Defect::BaggyCenter);
+    let f = f.unwrap_or_else(|| panic!("{:?}", d.notes));
+    assert!(f.probability > 0.9, "{}", f.probability);
+}

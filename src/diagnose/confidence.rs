@@ -24,10 +24,9 @@
 //!   web's own profile at winding (`web_length_share` above) may stand on that profile's test
 //!   ([`super::profile_test::web_test`]), one more test in the family; for a
 //!   caliper band (deciding feature `caliper_range_pct`) from the readings themselves
-//!   ([`BandTest`], Monte Carlo, no winding); for a baggy centre or baggy edges wound in from the
-//!   caliper profile, from the readings' crown when the crown alone fires the rule
-//!   ([`super::crown`], on a share of the rule's level fixed in advance). A finding whose rule
-//!   holds in fewer than half of the plausible states is dropped too.
+//!   ([`BandTest`], Monte Carlo, no winding); a winding baggy centre or edges on the readings'
+//!   crown ([`super::crown`]). A finding whose defect holds in fewer than half of the plausible
+//!   states ([`Table::siblings`]) is dropped too.
 //! - **Profiles within noise.** A feature that jumps (a lane going slack) has a heavier tail than
 //!   the noise rolls predict. A finding that goes away when the profiles that do not stand above
 //!   noise (calipers by their unevenness test: outlier, spread, wedge, crown; tension and
@@ -397,9 +396,9 @@ fn grade_findings(
         let Some(r) = table.rules.iter().find(|r| r.id == f.rule) else {
             continue;
         };
-        let holds = states
-            .iter()
-            .filter(|s| r.when.iter().all(|c| c.holds(s.values[c.feature])))
+        let (siblings, hold) = (table.siblings(r), |q: &&Rule, s: &State| q.holds(&s.values));
+        let holds = (states.iter())
+            .filter(|s| siblings.iter().any(|q| hold(q, s)))
             .count();
         f.probability = holds as f64 / states.len().max(1) as f64;
         f.likelihood = grade(

@@ -95,7 +95,9 @@ pub struct Finding {
     pub defect: Defect,
     pub rule: String,
     pub likelihood: Likelihood,
-    /// Share of the plausible states (posterior draws) in which the rule's condition holds.
+    /// Share of the plausible states (posterior draws) in which the defect holds: the rule's
+    /// conditions, or those of another rule that finds the same defect by the same deciding
+    /// condition and names another mechanism.
     pub probability: f64,
     pub weight: f64,
     pub mechanism: String,

@@ -86,6 +86,11 @@ impl Condition {
         self.above.is_none_or(|a| v > a) && self.below.is_none_or(|b| v < b)
     }
 
+    /// Whether `other` tests the same feature on the same interval (whatever its source).
+    pub fn same_test(&self, other: &Condition) -> bool {
+        self.feature == other.feature && self.interval() == other.interval()
+    }
+
     /// The open interval (above, below), unbounded sides infinite.
     pub fn interval(&self) -> (f64, f64) {
         (
@@ -121,6 +126,27 @@ pub struct Rule {
 pub struct Table {
     pub source: String,
     pub rules: Vec<Rule>,
+}
+
+impl Rule {
+    /// Whether every condition of the rule holds on feature values `v`.
+    pub fn holds(&self, v: &crate::vocab::FeatureValues) -> bool {
+        self.when.iter().all(|c| c.holds(v[c.feature]))
+    }
+}
+
+impl Table {
+    /// The rules that find `r`'s defect by the same deciding condition (its first; `r` among
+    /// them). They differ only in the mechanism they name (a moisture or a winding share), so a
+    /// plausible state split between two mechanisms is still that defect: the defect holds where
+    /// any of them does.
+    pub fn siblings(&self, r: &Rule) -> Vec<&Rule> {
+        let same = |q: &&Rule| match (q.when.first(), r.when.first()) {
+            (Some(a), Some(b)) => q.defect == r.defect && a.same_test(b),
+            _ => q.id == r.id,
+        };
+        self.rules.iter().filter(same).collect()
+    }
 }
 
 /// One problem found in a table.
