@@ -278,6 +278,27 @@ pub(super) fn unwind_limit(l: &crate::note::Limit) -> String {
     }
 }
 
+/// The headline of a diagnosis whose rules all fired without a finding standing (`below`, their
+/// ids): below measurement noise, or (`unlikely`) some holding in fewer than half of the
+/// plausible states.
+pub(super) fn dropped_headline(below: &[String], unlikely: bool) -> String {
+    let why = if unlikely {
+        "but each is within what measurement noise alone makes or holds in fewer than half of the plausible states (the notes say which, and what the measurements can resolve)"
+    } else {
+        "but no more strongly than noise alone makes them (the notes say what the measurements can resolve)"
+    };
+    let head = if unlikely {
+        "No finding stands"
+    } else {
+        "No finding stands above measurement noise"
+    };
+    format!(
+        "{head}: {} rule(s) fired ({}), {why}.",
+        below.len(),
+        below.join(", ")
+    )
+}
+
 /// A count in words; a threshold between counts (above 1.5) keeps its half.
 pub(super) fn count(v: f64) -> String {
     if v.fract() == 0.0 {
@@ -310,6 +331,18 @@ mod tests {
     use super::*;
     use crate::note::NoiseBasis;
     use crate::vocab::Feature;
+
+    /// A diagnosis without findings does not blame noise alone when a rule was dropped as
+    /// unlikely over the plausible states.
+    #[test]
+    fn the_no_finding_headline_names_both_reasons_when_both_acted() {
+        let ids = vec!["baggy-centre-drying".to_string()];
+        let t = dropped_headline(&ids, true);
+        assert!(t.contains("fewer than half of the plausible states"), "{t}");
+        assert!(!t.contains("above measurement noise:"), "{t}");
+        let t = dropped_headline(&ids, false);
+        assert!(t.starts_with("No finding stands above measurement noise: 1 rule(s) fired"));
+    }
 
     /// A note gives the bound of the test that decided, and only that one: a chance from the
     /// caliper readings' own test is not paired with the noise rolls' bound on the feature (the

@@ -185,11 +185,8 @@ pub fn no_finding(d: &Diagnosis) -> String {
         "No finding: no rule fired. The roll is predicted to unwind within the rules' thresholds."
             .to_string()
     } else {
-        format!(
-            "No finding stands above measurement noise: {} rule(s) fired ({}), but no more strongly than noise alone makes them (the notes say what the measurements can resolve).",
-            below.len(),
-            below.join(", ")
-        )
+        let unlikely = d.notes.iter().any(|n| matches!(n, Note::Unlikely { .. }));
+        super::note_words::dropped_headline(below, unlikely)
     };
     if !warnings(d).is_empty() {
         s.push_str(" The warnings (a physical limit passed, or a state the model can only bound) stand apart from the rules and the noise test: read them before releasing the roll.");
