@@ -24,7 +24,7 @@
 
 use super::features;
 use super::noise::{rests_on_web, Side};
-use super::profile_test::{caliper_readings, outlier_threshold, poly_basis};
+use super::profile_test::{caliper_readings, poly_basis};
 use super::{DiagnoseError, Fitted};
 use crate::case::Case;
 use crate::fit::{prepared, FitError};
@@ -140,12 +140,10 @@ pub(super) fn crown(
     let (readings, positions) = caliper_readings(lab, &fitted.lanes);
     let n = readings.len().min(positions.len());
     let rep = rep.max(f64::MIN_POSITIVE);
-    let Some(fit) = parabola(
-        &readings[..n],
-        &positions[..n],
-        rep,
-        outlier_threshold(n, level),
-    ) else {
+    // a reading lies this many repeatabilities from the fit by noise alone with a chance of at
+    // most `level` over all n of them (Bonferroni on the two-sided normal tail)
+    let beyond = normal_isf(level / (2.0 * n.max(1) as f64));
+    let Some(fit) = parabola(&readings[..n], &positions[..n], rep, beyond) else {
         return Ok(None);
     };
     let z = normal_isf((1.0 - OWN_SHARE) * level);
@@ -187,10 +185,10 @@ struct Parabola {
 /// `threshold` repeatabilities from it (a band, which would otherwise read as a crown when it
 /// lies near the centre), at most a quarter of the readings. `None` under four readings.
 ///
-/// On level readings the outlier test's threshold is passed with a chance of at most the
-/// family's level, so the crown test is nearly always made on every reading; a reading's residual
-/// from the fit has a standard deviation below the repeatability, which makes the threshold
-/// conservative (a reading is left out less often than the outlier test would flag it).
+/// On level readings the threshold ([`crown`]: the Bonferroni bound of the two-sided normal tail
+/// over the readings at the family's level) is passed with a chance of at most that level, so the
+/// crown test is nearly always made on every reading; a reading's residual from the fit has a
+/// standard deviation below the repeatability, which makes the threshold conservative.
 fn parabola(readings: &[f64], positions: &[f64], rep: f64, threshold: f64) -> Option<Parabola> {
     let mut keep: Vec<usize> = (0..readings.len()).collect();
     let n = keep.len();
@@ -293,7 +291,7 @@ mod tests {
     /// On level readings the crown's component is standard normal in repeatability units
     /// (Neyman 1937, from memory), so the one-sided crown test at 1 % fires on 1 % of noise-only
     /// profiles: 20,000 profiles of 15 readings, binomial standard error 0.07 %, tolerance 4 of
-    /// them. With the band left out at the outlier test's threshold the size hardly moves.
+    /// them. With a band left out beyond 3.5 repeatabilities the size hardly moves.
     #[test]
     fn the_crown_test_holds_its_level_on_level_readings() {
         use rand::{Rng, SeedableRng};

@@ -68,19 +68,48 @@ fn median_of(v: &mut [f64]) -> f64 {
 
 /// The largest excess of a reading over the median of its [`NEIGHBOURS`] nearest readings by
 /// index (all the others when there are fewer), 0 when none exceeds it. `buf` is scratch.
+///
+/// The windows of [`NEIGHBOURS`] + 1 readings around each reading (moved inward at the ends)
+/// slide by one reading at a time, so one sorted window is kept: a step takes one reading out and
+/// puts one in, and each reading's neighbours are the window without it (this runs 100,000
+/// times a reading for the test's noise-only profiles).
 fn thick_statistic(v: &[f64], buf: &mut Vec<f64>) -> f64 {
     let n = v.len();
     let k = NEIGHBOURS.min(n.saturating_sub(1));
     if k == 0 {
         return 0.0;
     }
-    let mut most: f64 = 0.0;
+    let rank = |w: &[f64], x: f64| w.iter().position(|y| y.to_bits() == x.to_bits());
+    let (mut most, mut at): (f64, Option<usize>) = (0.0, None);
     for i in 0..n {
-        // the window of k + 1 readings around i, moved inward at the ends
         let lo = i.saturating_sub(k / 2).min(n - 1 - k);
-        buf.clear();
-        buf.extend((lo..=lo + k).filter(|&j| j != i).map(|j| v[j]));
-        most = most.max(v[i] - median_of(buf));
+        match at {
+            Some(prev) if prev == lo => {}
+            Some(prev) => {
+                // the window moved on by one: v[prev] out, v[lo + k] in
+                if let Some(r) = rank(buf, v[prev]) {
+                    buf.remove(r);
+                }
+                let x = v[lo + k];
+                let p = buf.partition_point(|y| y.total_cmp(&x).is_lt());
+                buf.insert(p, x);
+            }
+            None => {
+                buf.clear();
+                buf.extend_from_slice(&v[lo..=lo + k]);
+                buf.sort_by(f64::total_cmp);
+            }
+        }
+        at = Some(lo);
+        // the neighbours' median: the window's order statistics with v[i] taken out
+        let r = rank(buf, v[i]).unwrap_or(buf.len());
+        let nth = |j: usize| if j < r { buf[j] } else { buf[j + 1] };
+        let med = if k % 2 == 1 {
+            nth(k / 2)
+        } else {
+            0.5 * (nth(k / 2 - 1) + nth(k / 2))
+        };
+        most = most.max(v[i] - med);
     }
     most
 }
@@ -122,26 +151,36 @@ fn null_statistics(n: usize, way: Outlying) -> Arc<[f64]> {
     if let Some(v) = kept {
         return v;
     }
-    let label = match way {
-        Outlying::Either => "band statistic",
-        Outlying::Thick => "thick band statistic",
-        Outlying::ThickOverall => "thick overall band statistic",
+    // the two thick statistics are drawn together, from the same noise-only profiles
+    let (label, ways): (&str, &[Outlying]) = match way {
+        Outlying::Either => ("band statistic", &[Outlying::Either]),
+        Outlying::Thick | Outlying::ThickOverall => (
+            "thick band statistics",
+            &[Outlying::Thick, Outlying::ThickOverall],
+        ),
     };
     let mut rng = ChaCha8Rng::seed_from_u64(posterior::seed_for(label, n));
     let (mut draw, mut buf) = (vec![0.0; n], Vec::with_capacity(n));
-    let mut noise: Vec<f64> = (0..BAND_DRAWS)
-        .map(|_| {
-            normals(&mut rng, &mut draw);
-            band_statistic(&draw, &mut buf, way)
-        })
-        .collect();
-    noise.sort_by(f64::total_cmp);
-    let noise: Arc<[f64]> = noise.into();
-    let mut m = KEPT.lock().unwrap_or_else(|e| e.into_inner());
-    if m.len() < KEPT_COUNTS {
-        m.entry((n, way)).or_insert_with(|| Arc::clone(&noise));
+    let mut noise: Vec<Vec<f64>> = vec![Vec::with_capacity(BAND_DRAWS); ways.len()];
+    for _ in 0..BAND_DRAWS {
+        normals(&mut rng, &mut draw);
+        for (v, w) in noise.iter_mut().zip(ways) {
+            v.push(band_statistic(&draw, &mut buf, *w));
+        }
     }
-    noise
+    let mut m = KEPT.lock().unwrap_or_else(|e| e.into_inner());
+    let mut wanted = None;
+    for (mut v, w) in noise.into_iter().zip(ways) {
+        v.sort_by(f64::total_cmp);
+        let v: Arc<[f64]> = v.into();
+        if m.len() < KEPT_COUNTS {
+            m.entry((n, *w)).or_insert_with(|| Arc::clone(&v));
+        }
+        if *w == way {
+            wanted = Some(v);
+        }
+    }
+    wanted.unwrap_or_else(|| Arc::from(Vec::new()))
 }
 
 /// Fill `out` with standard normal draws, two at a time by Marsaglia's polar method (Marsaglia
@@ -175,12 +214,6 @@ fn outlier_test(readings: &[f64], rep: f64, level: f64, way: Outlying) -> BandTe
         chance: (count + 1) as f64 / (BAND_DRAWS + 1) as f64,
         threshold_sigmas: posterior::quantile(&noise, 1.0 - level),
     }
-}
-
-/// The outlier test's threshold for `n` readings at `level`, in repeatability units: the
-/// quantile of the noise statistic the test compares with.
-pub(super) fn outlier_threshold(n: usize, level: f64) -> f64 {
-    posterior::quantile(&null_statistics(n, Outlying::Either), 1.0 - level)
 }
 
 /// The profile of kind `what` with the most readings.
