@@ -211,9 +211,7 @@ fn coarse_note(case: &Case, e: &[f64]) -> Option<Note> {
     if case.lane_count.is_none() && case.lane_edges_m.is_none() {
         return None;
     }
-    let p = (case.profiles.iter())
-        .filter(|p| p.what == Measure::Caliper)
-        .max_by_key(|p| p.positions_m.len())?;
+    let p = case.densest(Measure::Caliper)?;
     let mut gaps: Vec<f64> = p.positions_m.windows(2).map(|w| w[1] - w[0]).collect();
     if gaps.len() < 2 {
         return None;

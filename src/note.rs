@@ -138,6 +138,9 @@ pub enum Note {
         /// (feature's own unit).
         feature: Feature,
         uniform_creep: f64,
+        /// The deciding feature on the noise-free uniform roll (what storage makes of a level
+        /// roll), taken out of `uniform_creep` for the crown's own part.
+        storage_part: f64,
     },
     /// A rule that fired on the fitted roll holds in fewer than half of the plausible states.
     Unlikely {

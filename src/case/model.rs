@@ -401,4 +401,14 @@ impl Case {
     pub fn storage_s(&self) -> f64 {
         self.storage.iter().map(|s| s.duration_s).sum()
     }
+
+    /// The profile of kind `what` with the most readings (the first of equals).
+    pub fn densest(&self, what: Measure) -> Option<&Profile> {
+        (self.profiles.iter())
+            .filter(|p| p.what == what)
+            .fold(None::<&Profile>, |best, p| match best {
+                Some(b) if b.values.len() >= p.values.len() => Some(b),
+                _ => Some(p),
+            })
+    }
 }

@@ -281,7 +281,8 @@ fn drop_below_floor(
         let t = noise_test(r, feats, tests);
         if t.stands() {
             if let (NoiseBasis::CaliperCrown, Some(k)) = (t.basis, tests.1) {
-                notes.push(k.note(f.defect, r, (t.chance, t.level)));
+                let uniform = t.floor.map_or(0.0, |x| x.uniform);
+                notes.push(k.note((f.defect, r), (t.chance, t.level), uniform));
             }
             return true;
         }
@@ -396,9 +397,9 @@ fn grade_findings(
         let Some(r) = table.rules.iter().find(|r| r.id == f.rule) else {
             continue;
         };
-        let (siblings, hold) = (table.siblings(r), |q: &&Rule, s: &State| q.holds(&s.values));
+        let siblings = table.siblings(r);
         let holds = (states.iter())
-            .filter(|s| siblings.iter().any(|q| hold(q, s)))
+            .filter(|s| siblings.iter().any(|q| q.holds(&s.values)))
             .count();
         f.probability = holds as f64 / states.len().max(1) as f64;
         f.likelihood = grade(

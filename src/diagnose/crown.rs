@@ -19,8 +19,10 @@
 //! and Rubin 1983, Psychological Bulletin 94:540-541, from memory), so noise alone still puts up
 //! the finding with a chance no larger than the level. The crown route also asks that the crown
 //! alone fire the rule: the diagnosed roll run again with every lane's creep made the lanes' mean
-//! ([`super::actions::uniform_creep`]) must still meet the deciding condition, so a crown that is
-//! real but too small does not stand on creep differences the data cannot resolve.
+//! ([`super::actions::uniform_creep`]) must still meet the deciding condition, with and without
+//! the noise-free uniform roll's value (what storage alone makes of a level roll: drying or
+//! wetting ends), so a crown that is real but too small does not stand on creep differences the
+//! data cannot resolve or on a moisture pattern it did not make.
 
 use super::features;
 use super::noise::{rests_on_web, Side};
@@ -49,8 +51,8 @@ pub(super) struct Crown {
     pub(super) sigmas: f64,
     /// Smallest crown of either sign that stands at the crown test's share of the level, m.
     pub(super) needed_m: f64,
-    /// Readings left out of the parabola as a band (farther from it than the outlier test's
-    /// threshold).
+    /// Readings left out of the parabola as a band (farther from it than noise reaches at the
+    /// level, [`crown`]).
     pub(super) left_out: usize,
     /// Features of the diagnosed roll with every lane's creep made the lanes' mean, when the
     /// crown stands above noise and a rule of the table may ride on it.
@@ -87,8 +89,13 @@ impl Crown {
     }
 
     /// The note of a finding of `defect` on rule `r` that stands on this crown, with the crown
-    /// test's chance and level.
-    pub(super) fn note(&self, defect: Defect, r: &Rule, (chance, level): (f64, f64)) -> Note {
+    /// test's chance and level and the deciding feature on the noise-free uniform roll.
+    pub(super) fn note(
+        &self,
+        (defect, r): (Defect, &Rule),
+        (chance, level): (f64, f64),
+        uniform: f64,
+    ) -> Note {
         let feature = r
             .when
             .first()
@@ -102,6 +109,7 @@ impl Crown {
             level,
             feature,
             uniform_creep: self.guard.as_ref().map_or(f64::NAN, |g| g[feature]),
+            storage_part: uniform,
         }
     }
 
@@ -195,14 +203,13 @@ fn parabola(readings: &[f64], positions: &[f64], rep: f64, threshold: f64) -> Op
     loop {
         let (x, at): (Vec<f64>, Vec<f64>) =
             keep.iter().map(|&i| (readings[i], positions[i])).unzip();
-        let basis = poly_basis(&at);
+        let (basis, u) = poly_basis(&at);
         let e2 = basis.get(2)?;
-        let fitted = |j: usize| -> f64 {
-            basis
-                .iter()
-                .map(|e| e[j] * e.iter().zip(&x).map(|(a, b)| a * b).sum::<f64>())
-                .sum()
-        };
+        // the fit's coefficient on each basis vector, and each reading's distance from the fit
+        let coef: Vec<f64> = (basis.iter())
+            .map(|e| e.iter().zip(&x).map(|(a, b)| a * b).sum())
+            .collect();
+        let fitted = |j: usize| -> f64 { basis.iter().zip(&coef).map(|(e, c)| e[j] * c).sum() };
         let (worst, dev) = (0..x.len())
             .map(|j| (j, (x[j] - fitted(j)).abs() / rep))
             .fold((0, 0.0), |a, b| if b.1 > a.1 { b } else { a });
@@ -212,14 +219,8 @@ fn parabola(readings: &[f64], positions: &[f64], rep: f64, threshold: f64) -> Op
         }
         // e2 is u^2's residual made unit: its product with u^2 is that residual's length, k > 0,
         // and a parabola of crown A (1 - u^2) has component -A k
-        let (lo, hi) = at
-            .iter()
-            .fold((f64::INFINITY, f64::NEG_INFINITY), |(a, b), &p| {
-                (a.min(p), b.max(p))
-            });
-        let u2 = |p: f64| (2.0 * (p - lo) / (hi - lo).max(1e-12) - 1.0).powi(2);
-        let k: f64 = e2.iter().zip(&at).map(|(e, p)| e * u2(*p)).sum();
-        let c: f64 = e2.iter().zip(&x).map(|(e, v)| e * v).sum();
+        let k: f64 = e2.iter().zip(&u).map(|(e, p)| e * p * p).sum();
+        let c = coef[2];
         return Some(Parabola {
             crown: -c / k,
             k,

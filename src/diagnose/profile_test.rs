@@ -7,7 +7,7 @@
 //! finding that rests on the profiles alone.
 
 use super::noise::{MOISTURE_REPEATABILITY_PCT, TENSION_REPEATABILITY};
-use crate::case::{Case, Measure, Profile};
+use crate::case::{Case, Measure};
 use crate::fit::posterior;
 use crate::lanes::Lanes;
 use rand::{Rng, SeedableRng};
@@ -216,17 +216,6 @@ fn outlier_test(readings: &[f64], rep: f64, level: f64, way: Outlying) -> BandTe
     }
 }
 
-/// The profile of kind `what` with the most readings.
-fn densest(lab: &Case, what: Measure) -> Option<&Profile> {
-    lab.profiles
-        .iter()
-        .filter(|p| p.what == what)
-        .fold(None::<&Profile>, |best, p| match best {
-            Some(b) if b.values.len() >= p.values.len() => Some(b),
-            _ => Some(p),
-        })
-}
-
 /// The band test of the case's caliper readings (the caliper profile with the most readings; the
 /// lanes' calipers when the case has none) with repeatability `rep` (m) at `level`.
 pub(super) fn band_test(lab: &Case, lanes: &Lanes, rep: f64, level: f64) -> BandTest {
@@ -254,7 +243,7 @@ fn thick_band(readings: &[f64], rep: f64, level: f64) -> BandTest {
 /// profile with the most readings, or the lanes' calipers at their centres when the case has
 /// none.
 pub(super) fn caliper_readings(lab: &Case, lanes: &Lanes) -> (Vec<f64>, Vec<f64>) {
-    densest(lab, Measure::Caliper).map_or_else(
+    lab.densest(Measure::Caliper).map_or_else(
         || {
             let c = lanes.lanes.iter().map(|l| l.caliper_m).collect();
             (c, lanes.positions())
@@ -299,7 +288,7 @@ pub(super) fn unevenness_chance(
         let ss: f64 = readings[..n].iter().map(|x| (x - mean).powi(2)).sum();
         chances.push(crate::stats::chi2_sf(ss / var, (n - 1) as f64));
     }
-    for e in poly_basis(&positions[..n]).iter().skip(1) {
+    for e in poly_basis(&positions[..n]).0.iter().skip(1) {
         let c: f64 = e.iter().zip(readings).map(|(x, y)| x * y).sum();
         chances.push(crate::stats::chi2_sf(c * c / var, 1.0));
     }
@@ -317,8 +306,9 @@ pub(super) fn unevenness_chance(
 
 /// Polynomials of position over `positions` made orthonormal (Gram-Schmidt): the constant, then
 /// degree 1 and 2 where the positions allow them (a degree needs two positions more than it).
-/// Positions are mapped onto -1..1 first, which leaves the span, and so each vector, unchanged.
-pub(super) fn poly_basis(positions: &[f64]) -> Vec<Vec<f64>> {
+/// Positions are mapped onto -1..1 first (the outermost at -1 and 1), which leaves the span, and
+/// so each vector, unchanged; the mapped positions are returned with the basis.
+pub(super) fn poly_basis(positions: &[f64]) -> (Vec<Vec<f64>>, Vec<f64>) {
     let n = positions.len();
     let (lo, hi) = positions
         .iter()
@@ -346,7 +336,7 @@ pub(super) fn poly_basis(positions: &[f64]) -> Vec<Vec<f64>> {
         e.iter_mut().for_each(|x| *x /= norm);
         basis.push(e);
     }
-    basis
+    (basis, u)
 }
 
 /// The test of the web's own profile at winding: the tension profile's readings over their
@@ -357,7 +347,7 @@ pub(super) fn web_test(lab: &Case, level: f64) -> Option<BandTest> {
     let mut tests = Vec::new();
     // a tension profile is read by its shape over its mean: none without a positive mean (as
     // the lanes read it, `lanes::web_strains`)
-    if let Some(p) = densest(lab, Measure::Tension) {
+    if let Some(p) = lab.densest(Measure::Tension) {
         let m = p.values.iter().sum::<f64>() / p.values.len().max(1) as f64;
         if m > 0.0 && m.is_finite() {
             let v: Vec<f64> = p.values.iter().map(|x| x / m).collect();
@@ -369,7 +359,7 @@ pub(super) fn web_test(lab: &Case, level: f64) -> Option<BandTest> {
             ));
         }
     }
-    if let Some(p) = densest(lab, Measure::Moisture) {
+    if let Some(p) = lab.densest(Measure::Moisture) {
         tests.push(outlier_test(
             &p.values,
             MOISTURE_REPEATABILITY_PCT,

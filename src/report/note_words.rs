@@ -171,12 +171,13 @@ fn crown_note(n: &Note) -> String {
         level,
         feature,
         uniform_creep,
+        storage_part,
     } = *n
     else {
         return String::new();
     };
     format!(
-        "{} stands on the caliper profile's crown: the readings' parabola{} is {} um {} at the centre than at the outermost readings ({:.1} times their repeatability; noise alone crowns level readings this far with a chance of {} %, a finding needs {} % or less), and the crown alone, with every lane's creep made the lanes' mean, gives {} {}, which still fires the rule",
+        "{} stands on the caliper profile's crown: the readings' parabola{} is {} um {} at the centre than at the outermost readings ({:.1} times their repeatability; noise alone crowns level readings this far with a chance of {} %, a finding needs {} % or less), and the crown alone, with every lane's creep made the lanes' mean, gives {} {} ({} once what storage makes of a level roll is taken out), which still fires the rule",
         defect_name(defect),
         match left_out {
             0 => String::new(),
@@ -189,7 +190,8 @@ fn crown_note(n: &Note) -> String {
         crate::units::sig(noise_chance * 100.0, 2),
         crate::units::sig(level * 100.0, 2),
         feature_name(feature),
-        crate::units::sig(uniform_creep, 3)
+        crate::units::sig(uniform_creep, 3),
+        crate::units::sig(uniform_creep - storage_part, 3)
     )
 }
 

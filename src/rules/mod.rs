@@ -235,7 +235,7 @@ pub fn evaluate<'t>(table: &'t Table, values: &FeatureValues) -> Vec<Fired<'t>> 
     let mut out: Vec<Fired> = table
         .rules
         .iter()
-        .filter(|r| r.when.iter().all(|c| c.holds(values[c.feature])))
+        .filter(|r| r.holds(values))
         .map(|r| Fired {
             rule: r,
             evidence: r

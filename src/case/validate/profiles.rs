@@ -345,14 +345,13 @@ impl Validator {
                 }
                 _ => at.join(", "),
             };
-            let (one, many) = match &units.csv {
-                Some((csv, _)) => (
-                    format!(" (CSV file {csv}, line {list})"),
-                    format!(" (CSV file {csv}, lines {list})"),
-                ),
-                None => (String::new(), format!(" (readings {list}, counted from 0)")),
+            let lines = if ks.len() == 1 { "line" } else { "lines" };
+            let suffix = match &units.csv {
+                Some((csv, _)) => format!(" (CSV file {csv}, {lines} {list})"),
+                None if ks.len() > 1 => format!(" (readings {list}, counted from 0)"),
+                None => String::new(),
             };
-            p.message.push_str(if ks.len() == 1 { &one } else { &many });
+            p.message.push_str(&suffix);
             self.problems.push(p);
         }
     }
