@@ -231,31 +231,16 @@ fn long_band(u: &Unwind) -> Vec<usize> {
     (lo..=hi).collect()
 }
 
-/// Front-to-back difference of a least-squares straight line across the width, absolute, mm/m.
+/// Front-to-back difference of the robust straight line across the width, absolute, mm/m.
 fn side_to_side(u: &Unwind) -> f64 {
-    straight_line_difference(&u.x, &u.s, u.width)
+    line_difference(&u.x, &u.s, &u.w, u.width)
 }
 
-/// Difference over `width` of the least-squares straight line through `(x, s)`, absolute, in
-/// the unit of `s` (0 when the positions do not spread).
-pub fn straight_line_difference(x: &[f64], s: &[f64], width: f64) -> f64 {
-    let n = x.len().min(s.len()) as f64;
-    if n < 2.0 {
-        return 0.0;
-    }
-    let xm = x.iter().sum::<f64>() / n;
-    let sm = s.iter().sum::<f64>() / n;
-    let sxx: f64 = x.iter().map(|a| (a - xm).powi(2)).sum();
-    let slope = if sxx > 0.0 {
-        x.iter()
-            .zip(s)
-            .map(|(a, b)| (a - xm) * (b - sm))
-            .sum::<f64>()
-            / sxx
-    } else {
-        0.0
-    };
-    (slope * width).abs()
+/// Difference over `width` of the robust straight line through `(x, s)` with lane widths `w`
+/// ([`crate::stats::theil_sen_slope`]: a single long band near one edge hardly tilts it, a wedge
+/// across the width does), absolute, in the unit of `s` (0 when the positions do not spread).
+pub fn line_difference(x: &[f64], s: &[f64], w: &[f64], width: f64) -> f64 {
+    (crate::stats::theil_sen_slope(x, s, w) * width).abs()
 }
 
 /// Local maxima standing out from the mean lane by over [`BAND_MM_PER_M`].

@@ -149,7 +149,9 @@ impl Site<'_> {
                     .iter()
                     .map(|&i| self.lanes.lanes[i].position_m)
                     .collect();
-                features::straight_line_difference(&x, &s, self.width_m)
+                let w = self.lanes.widths();
+                let w: Vec<f64> = kept.iter().map(|&i| w[i]).collect();
+                features::line_difference(&x, &s, &w, self.width_m)
             }
             Quantity::PeakPressureMpa => {
                 max(self

@@ -91,7 +91,7 @@ pub fn quantity(q: Quantity) -> &'static str {
         }
         Quantity::CorePressureMpa => "interlayer pressure on the core at winding",
         Quantity::SideToSideMmPerM => {
-            "front-to-back length difference (straight line across the width)"
+            "front-to-back length difference (robust straight line across the width)"
         }
         Quantity::UnwindStressSwingMpa => "once-per-turn swing of web stress at unwind",
         Quantity::OuterZonePressureKpa => {
