@@ -87,7 +87,10 @@ fn surveyed(name: &str, lanes: usize) -> Vec<Defect> {
 
 /// A wedge of 4 % and one of 6 % (front to back, about 6 and 9 standard deviations of the
 /// readings' slope) are conical rolls although the creep the surveys leave unresolved puts local
-/// peaks of a few tenths of the running strain on the lanes of each plausible state.
+/// peaks of a few tenths of the running strain on the lanes of each plausible state. Their thick
+/// end is no gauge band: it stands over the readings' median and over its neighbours, all on its
+/// thin side, but not over the straight line through the other readings (the band test's line
+/// leg; the deleted residual of Cook and Weisberg 1982, from memory).
 #[test]
 fn a_surveyed_caliper_wedge_is_a_conical_roll_at_every_lane_count() {
     for name in ["wedge_4pct", "wedge_6pct"] {
@@ -95,6 +98,10 @@ fn a_surveyed_caliper_wedge_is_a_conical_roll_at_every_lane_count() {
             let found = surveyed(name, n);
             assert!(
                 found.contains(&Defect::ConicalRoll),
+                "{name}, {n} lanes: {found:?}"
+            );
+            assert!(
+                !found.contains(&Defect::GaugeBands),
                 "{name}, {n} lanes: {found:?}"
             );
         }
@@ -124,5 +131,21 @@ fn a_band_near_one_edge_is_not_a_conical_roll() {
             "{n} lanes: {found:?}"
         );
         assert!(found.contains(&Defect::BaggyLane), "{n} lanes: {found:?}");
+    }
+}
+
+/// The back edge 4 % thick over its outer 250 mm (two readings, about 6 standard deviations) is a
+/// gauge band at every lane count: the two readings together stand over the straight line
+/// through the others (the band test's line leg holds bands of up to three readings out of the
+/// line it judges them against), and the roll is not taken for a conical one.
+#[test]
+fn a_thick_edge_is_a_gauge_band_not_a_conical_roll() {
+    for n in [8, 17, 40] {
+        let found = surveyed("thick_back_edge", n);
+        assert!(found.contains(&Defect::GaugeBands), "{n} lanes: {found:?}");
+        assert!(
+            !found.contains(&Defect::ConicalRoll),
+            "{n} lanes: {found:?}"
+        );
     }
 }

@@ -10,6 +10,7 @@ pub mod confidence;
 pub mod corrections;
 mod crown;
 pub mod features;
+mod line_scan;
 pub mod local;
 mod noise;
 mod profile_test;

@@ -20,6 +20,7 @@ CASES = {
     'wedge_6pct': ('Caliper wedge, back side 6 % thick', lambda x: 0.06 * x / W, 12),
     'dish_3pct': ('Dished caliper, both edges 3 % thick', lambda x: 0.03 * (2 * x / W - 1) ** 2, 13),
     'back_band': ('One band 5 % thick near the back edge', lambda x: 0.05 if abs(x - 1500) <= 100 else 0.0, 14),
+    'thick_back_edge': ('Back edge 4 % thick over its outer 250 mm', lambda x: 0.04 if x > W - 250 else 0.0, 15),
 }
 
 
