@@ -50,6 +50,9 @@ words! {
         BaggyLane = "baggy_lane",
         BaggyCenter = "baggy_center",
         BaggyEdges = "baggy_edges",
+        /// One edge long against the web inward of it (a thick edge on one side): that edge runs
+        /// slack at unwind.
+        BaggyOneEdge = "baggy_one_edge",
         Puckers = "puckers",
         Ridges = "ridges",
         Corrugations = "corrugations",
@@ -224,8 +227,11 @@ words! {
         PeakPressureMpa = "peak_pressure_mpa",
         /// Largest interlayer pressure on the core at winding.
         CorePressureMpa = "core_pressure_mpa",
-        /// Front-to-back difference of a straight line fitted to the lanes at unwind.
+        /// Front-to-back difference of the robust straight line through the lanes at unwind.
         SideToSideMmPerM = "side_to_side_mm_per_m",
+        /// The longer edge strip's excess over the web 75-300 mm inward of it at unwind, less the
+        /// other's where that is long too.
+        LongEdgeMmPerM = "long_edge_mm_per_m",
         /// Amplitude of the once-per-turn swing of web stress at unwind (tension over caliper).
         UnwindStressSwingMpa = "unwind_stress_swing_mpa",
         /// Lowest mean interlayer pressure of the outer 25 mm at winding (higher is better).
@@ -264,7 +270,8 @@ impl Quantity {
             | Quantity::CentreMinusEdgesMmPerM
             | Quantity::EdgesMinusCentreMmPerM
             | Quantity::SpreadMmPerM
-            | Quantity::SideToSideMmPerM => "mm_per_m",
+            | Quantity::SideToSideMmPerM
+            | Quantity::LongEdgeMmPerM => "mm_per_m",
             Quantity::CoreMdCompressionMpa
             | Quantity::OuterMdStressMpa
             | Quantity::PeakPressureMpa
@@ -290,6 +297,8 @@ words! {
         CentreMinusEdgesMmPerM = "centre_minus_edges_mm_per_m",
         SideToSideMmPerM = "side_to_side_mm_per_m",
         SideToSideRatio = "side_to_side_ratio",
+        LongEdgeMmPerM = "long_edge_mm_per_m",
+        LongEdgeRatio = "long_edge_ratio",
         BandCount = "band_count",
         CaliperCorrelation = "caliper_correlation",
         CaliperRangePct = "caliper_range_pct",
@@ -362,6 +371,8 @@ impl Feature {
             F::CentreMinusEdgesMmPerM => spec("centre half minus the outermost lane each side, mm/m (positive: baggy centre)", -INF, INF, true),
             F::SideToSideRatio => spec("front-to-back difference of a robust straight line (Theil-Sen) over the web's running strain T/(E h)", 0.0, INF, false),
             F::SideToSideMmPerM => spec("front-to-back difference of a robust straight line (Theil-Sen), absolute, mm/m", 0.0, INF, true),
+            F::LongEdgeMmPerM => spec("larger excess of an outermost lane (the 25 mm edge strip) over the web 75-300 mm inward of it, less the other's where that is long too (one edge long, the other not), mm/m (0 below five lanes)", -INF, INF, true),
+            F::LongEdgeRatio => spec("long_edge_mm_per_m over the web's running strain T/(E h)", -INF, INF, false),
             F::BandCount => spec("number of long bands (local peaks over 0.3 mm/m prominent)", 0.0, INF, false),
             F::CaliperCorrelation => spec("correlation of lane caliper with lane length at unwind, -1..1", -1.0, 1.0, false),
             F::CaliperRangePct => spec("thickest minus thinnest lane caliper, % of mean", 0.0, INF, false),

@@ -135,17 +135,33 @@ fn a_band_near_one_edge_is_not_a_conical_roll() {
 }
 
 /// The back edge 4 % thick over its outer 250 mm (two readings, about 6 standard deviations) is a
-/// gauge band at every lane count: the two readings together stand over the straight line
-/// through the others (the band test's line leg holds bands of up to three readings out of the
-/// line it judges them against), and the roll is not taken for a conical one.
+/// gauge band and a baggy edge on that side at every lane count: the two readings together stand
+/// over the straight line through the others (the band test's line leg holds bands of up to three
+/// readings out of the line it judges them against); the edge strip unwinds longer than the web
+/// inward of it by about the running strain T/(E h), where a lane runs slack (common practice);
+/// and the roll is not taken for a conical one. A dish (both edges thick alike) is no one-sided
+/// edge.
 #[test]
-fn a_thick_edge_is_a_gauge_band_not_a_conical_roll() {
+fn a_thick_edge_is_a_gauge_band_and_a_baggy_edge_on_its_side() {
     for n in [8, 17, 40] {
-        let found = surveyed("thick_back_edge", n);
+        let c = case::load_file(
+            std::path::Path::new("tests/data/one_sided/thick_back_edge.yaml"),
+            &[format!("lanes.count={n}")],
+        )
+        .unwrap();
+        let d = run(&c);
+        let found = common::defects(&d);
         assert!(found.contains(&Defect::GaugeBands), "{n} lanes: {found:?}");
         assert!(
             !found.contains(&Defect::ConicalRoll),
             "{n} lanes: {found:?}"
         );
+        let edge = d.findings.iter().find(|f| f.defect == Defect::BaggyOneEdge);
+        let edge = edge.unwrap_or_else(|| panic!("{n} lanes: {found:?}"));
+        // the long edge is the back one (the roll is 1800 mm wide)
+        assert!(!edge.lanes.is_empty(), "{n} lanes");
+        assert!(edge.lanes.iter().all(|l| l.position_m > 1.5), "{n} lanes");
+        let dish = surveyed("dish_3pct", n);
+        assert!(!dish.contains(&Defect::BaggyOneEdge), "{n} lanes: {dish:?}");
     }
 }

@@ -185,6 +185,7 @@ struct LengthPattern {
     peak_width_mm: f64,
     centre_minus_edges: f64,
     side_to_side: f64,
+    long_edge: f64,
     band_count: f64,
 }
 
@@ -200,6 +201,7 @@ fn length_pattern(u: &Unwind, centre: &[usize], edges: &[usize]) -> LengthPatter
         peak_lanes,
         centre_minus_edges: mean_of(centre, &|i| s[i]) - mean_of(edges, &|i| s[i]),
         side_to_side: side_to_side(u),
+        long_edge: super::local::end_excess(&u.spans, s),
         band_count: band_count(u) as f64,
     }
 }
@@ -528,6 +530,7 @@ pub fn compute(case: &Case, lanes: &Lanes, o: &super::actions::Outcome) -> Featu
         F::CentreMinusEdgesRatio => ratio(len.centre_minus_edges),
         F::LongestLaneRatio => ratio(len.longest_excess),
         F::SideToSideRatio => ratio(len.side_to_side),
+        F::LongEdgeRatio => ratio(len.long_edge),
         F::RunningStrainMmPerM => finite(running),
         F::SpreadMmPerM => finite(len.spread),
         F::LongestLaneExcessMmPerM => finite(len.longest_excess),
@@ -535,6 +538,7 @@ pub fn compute(case: &Case, lanes: &Lanes, o: &super::actions::Outcome) -> Featu
         F::PeakWidthMm => finite(len.peak_width_mm),
         F::CentreMinusEdgesMmPerM => finite(len.centre_minus_edges),
         F::SideToSideMmPerM => finite(len.side_to_side),
+        F::LongEdgeMmPerM => finite(len.long_edge),
         F::BandCount => finite(len.band_count),
         F::CaliperCorrelation => finite(caliper_correlation),
         F::CaliperRangePct => finite(caliper_range_pct),

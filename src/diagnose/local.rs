@@ -61,6 +61,22 @@ pub fn baseline(spans: &[(f64, f64)], v: &[f64], k: usize) -> Option<f64> {
     }
 }
 
+/// How far one edge is long and the other not: the larger excess of an end lane (the outermost
+/// lane each side, from five lanes up) over the web 75-300 mm inward of it ([`baseline`], one
+/// side), less the other end lane's excess where that is long too, in the unit of `v`. A long
+/// edge on one side, which the inner lanes' local peak leaves out; both edges long alike (thick
+/// edges, a dish) is the centre-against-edges pattern, not this. 0 below five lanes (every lane
+/// is inner there).
+pub fn end_excess(spans: &[(f64, f64)], v: &[f64]) -> f64 {
+    let n = v.len();
+    if n < 5 {
+        return 0.0;
+    }
+    let over = |k: usize| baseline(spans, v, k).map_or(0.0, |m| v[k] - m);
+    let (a, b) = (over(0), over(n - 1));
+    a.max(b) - a.min(b).max(0.0)
+}
+
 /// Front and back edge of every lane, m.
 pub fn spans(lanes: &Lanes) -> Vec<(f64, f64)> {
     lanes.lanes.iter().map(|l| (l.left_m, l.right_m)).collect()
@@ -156,5 +172,23 @@ mod tests {
         // lanes wider than the window: the adjacent lane each side
         let s = equal(3, 2.4);
         assert_eq!(baseline(&s, &[1.0, 5.0, 3.0], 1), Some(2.0));
+    }
+
+    /// One edge 1 long over level web is long by 1 at any lane count (the web inward of the edge
+    /// lane is level); both edges long alike is no one-sided edge; a short other edge (dried) does
+    /// not add to it; under five lanes every lane is inner (definitions of the feature).
+    #[test]
+    fn one_long_edge_counts_and_two_alike_do_not() {
+        for n in [8, 16, 40] {
+            let s = equal(n, 1.6);
+            let mut v = vec![0.0; n];
+            v[n - 1] = 1.0;
+            assert!((end_excess(&s, &v) - 1.0).abs() < 1e-12, "{n} lanes");
+            v[0] = 1.0;
+            assert!(end_excess(&s, &v).abs() < 1e-12, "{n} lanes");
+            v[0] = -2.0;
+            assert!((end_excess(&s, &v) - 1.0).abs() < 1e-12, "{n} lanes");
+        }
+        assert_eq!(end_excess(&equal(4, 1.6), &[0.0, 0.0, 0.0, 3.0]), 0.0);
     }
 }

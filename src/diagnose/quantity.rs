@@ -15,6 +15,7 @@ pub const fn quantity_of(d: Defect) -> Quantity {
         Defect::Corrugations => Quantity::LocalPeakMmPerM,
         Defect::BaggyCenter => Quantity::CentreMinusEdgesMmPerM,
         Defect::BaggyEdges => Quantity::EdgesMinusCentreMmPerM,
+        Defect::BaggyOneEdge => Quantity::LongEdgeMmPerM,
         Defect::Starring | Defect::CrepeWrinkles => Quantity::CoreMdCompressionMpa,
         Defect::Telescoping => Quantity::SurfacePressureKpa,
         Defect::Bursts => Quantity::OuterMdStressMpa,
@@ -153,6 +154,7 @@ impl Site<'_> {
                 let w: Vec<f64> = kept.iter().map(|&i| w[i]).collect();
                 features::line_difference(&x, &s, &w, self.width_m)
             }
+            Quantity::LongEdgeMmPerM => local::end_excess(&spans, &s),
             Quantity::PeakPressureMpa => {
                 max(self
                     .focus(&kept)
@@ -347,6 +349,7 @@ pub fn locate(
             e.retain(|&i| x[i] > cm.max(0.0));
             e
         }
+        Defect::BaggyOneEdge => long_edge(x, &spans),
         Defect::ConicalRoll => {
             // the long side: the lanes above the mean lane on the side the line rises to
             let half = 0.5 * width_m;
@@ -376,6 +379,15 @@ pub fn locate(
         | Defect::CoreCollapse => near_extreme(&stress_state(defect, o)),
         Defect::OutOfRound | Defect::LooseOuterWraps | Defect::NoDefect => Vec::new(),
     }
+}
+
+/// The end lane longer over the web inward of it (as [`local::end_excess`] judges it), and the
+/// lanes next to it as long.
+fn long_edge(x: &[f64], spans: &[(f64, f64)]) -> Vec<usize> {
+    let (a, b) = (0, x.len().saturating_sub(1));
+    let over = |k: usize| local::baseline(spans, x, k).map_or(0.0, |m| x[k] - m);
+    let end = if over(b) > over(a) { b } else { a };
+    around(x, end, 0.5 * (x[end] + median(x)))
 }
 
 /// Per lane, the stress state a stress-based defect is located by (the lanes near its extreme).
@@ -413,6 +425,7 @@ fn stress_state(defect: Defect, o: &Outcome) -> Vec<f64> {
         Defect::BaggyLane
         | Defect::BaggyCenter
         | Defect::BaggyEdges
+        | Defect::BaggyOneEdge
         | Defect::Puckers
         | Defect::Ridges
         | Defect::Corrugations

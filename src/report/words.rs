@@ -13,6 +13,7 @@ pub fn defect(d: Defect) -> &'static str {
         Defect::BaggyLane => "baggy lane",
         Defect::BaggyCenter => "baggy centre",
         Defect::BaggyEdges => "baggy edges",
+        Defect::BaggyOneEdge => "baggy edge (one side)",
         Defect::Puckers => "puckers",
         Defect::Ridges => "ridges",
         Defect::Corrugations => "corrugations",
@@ -93,6 +94,7 @@ pub fn quantity(q: Quantity) -> &'static str {
         Quantity::SideToSideMmPerM => {
             "front-to-back length difference (robust straight line across the width)"
         }
+        Quantity::LongEdgeMmPerM => "excess length of the long edge over the web inward of it",
         Quantity::UnwindStressSwingMpa => "once-per-turn swing of web stress at unwind",
         Quantity::OuterZonePressureKpa => {
             "lowest interlayer pressure of the outer wraps at winding"
@@ -498,6 +500,8 @@ pub fn feature(f: Feature) -> &'static str {
         F::PeakWidthMm => "width of the long band",
         F::CentreMinusEdgesMmPerM => "centre minus edges",
         F::SideToSideMmPerM => "front-to-back difference",
+        F::LongEdgeMmPerM => "edge strip over the web inward of it",
+        F::LongEdgeRatio => "long edge / running strain",
         F::SideToSideRatio => "front-to-back / running strain",
         F::BandCount => "number of long bands",
         F::CaliperCorrelation => "caliper / length correlation",
@@ -540,7 +544,8 @@ pub fn feature_value(f: Feature, v: f64, sys: System) -> String {
         | F::LongestLaneExcessMmPerM
         | F::LocalPeakMmPerM
         | F::CentreMinusEdgesMmPerM
-        | F::SideToSideMmPerM => format!("{v:.3} {strain}"),
+        | F::SideToSideMmPerM
+        | F::LongEdgeMmPerM => format!("{v:.3} {strain}"),
         F::PeakWidthMm | F::RunOutMm => units::show(v * 1e-3, Kind::Length, sys, false),
         F::CoreMdStressMpa | F::OuterMdStressEndMpa => {
             units::show(v * 1e6, Kind::Pressure, sys, false)
@@ -559,6 +564,7 @@ pub fn feature_value(f: Feature, v: f64, sys: System) -> String {
         | F::CentreMinusEdgesRatio
         | F::LongestLaneRatio
         | F::SideToSideRatio
+        | F::LongEdgeRatio
         | F::CaliperCorrelation
         | F::WoundTensionRatio
         | F::NipToTensionRatio
