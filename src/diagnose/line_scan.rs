@@ -8,38 +8,68 @@
 /// one-sided thick edge one or two).
 const LINE_BAND: usize = 3;
 
-/// The largest excess of a band of 1 to [`LINE_BAND`] adjacent readings over the least-squares
-/// straight line (by index) through the readings outside it, in units of that excess's standard
-/// deviation in the readings' own: for a band B of k readings and the m others,
-/// (mean of B - line at B's mean index) / sqrt(1/k + 1/m + (B's mean index - the others')^2 /
-/// their sum of squares about their mean index), the error of predicting a mean of k new
+/// Grid units per reading spacing in [`grid`].
+const GRID_UNIT: f64 = 1e6;
+
+/// The readings' positions as the line leg uses them: in units of their mean spacing from the
+/// first, to a millionth ([`GRID_UNIT`]), so evenly spaced readings are 0, 1, 2, ... exactly and
+/// share their noise-only profiles with every such profile of that count. Positions that do not
+/// rise (or are not `n` numbers) are taken as evenly spaced.
+pub(super) fn grid(positions: &[f64], n: usize) -> Vec<i64> {
+    let ok = positions.len() == n
+        && n >= 2
+        && positions.iter().all(|p| p.is_finite())
+        && positions.windows(2).all(|w| w[1] > w[0]);
+    if !ok {
+        return index_grid(n);
+    }
+    let step = (positions[n - 1] - positions[0]) / (n - 1) as f64;
+    positions
+        .iter()
+        .map(|p| ((p - positions[0]) / step * GRID_UNIT).round() as i64)
+        .collect()
+}
+
+/// Evenly spaced readings' grid: 0, 1, 2, ... in [`GRID_UNIT`]s.
+pub(super) fn index_grid(n: usize) -> Vec<i64> {
+    (0..n as i64).map(|i| i * GRID_UNIT as i64).collect()
+}
+
+/// The largest excess of a band of 1 to [`LINE_BAND`] adjacent readings `v` over the
+/// least-squares straight line (against their positions, on [`grid`] `at`) through the readings
+/// outside it, in units of that excess's standard deviation in the readings' own: for a band B
+/// of k readings and the m others, (mean of B - line at B's mean position) / sqrt(1/k + 1/m +
+/// (B's mean position - the others')^2 / their sum of squares about their mean position), the
+/// error of predicting a mean of k new
 /// readings from a fitted line (Draper and Smith 1998, "Applied Regression Analysis", 3rd ed.,
 /// section 3.1, from memory; for k = 1 the deleted residual of Cook and Weisberg 1982). Each is
 /// standard normal on a level profile of unit noise, and a band does not move the line it is
 /// judged against. At least three readings stay outside a band. 0 when none lies above its line.
-pub(super) fn over_line(v: &[f64]) -> f64 {
+pub(super) fn over_line(v: &[f64], at: &[i64]) -> f64 {
     thread_local! {
         static SCAN: std::cell::RefCell<LineScan> = const {
-            std::cell::RefCell::new(LineScan { n: 0, bands: Vec::new() })
+            std::cell::RefCell::new(LineScan { at: Vec::new(), x: Vec::new(), bands: Vec::new() })
         };
     }
     SCAN.with_borrow_mut(|scan| {
-        if scan.n != v.len() {
-            *scan = LineScan::new(v.len());
+        if scan.at != at {
+            *scan = LineScan::new(at);
         }
         scan.most(v)
     })
 }
 
-/// What [`over_line`] needs of the positions alone, per band of `n` readings (made once per
-/// reading count and thread: the noise-only profiles use it 100,000 times).
+/// What [`over_line`] needs of the positions alone, per band (made once per grid and thread:
+/// the noise-only profiles use it 100,000 times).
 struct LineScan {
-    n: usize,
+    at: Vec<i64>,
+    /// Positions in reading spacings.
+    x: Vec<f64>,
     bands: Vec<LineBand>,
 }
 
-/// One band's geometry: its first reading and width, 1/k, 1/m, the others' mean index, 1 over
-/// their sum of squares about it, the band's mean index less theirs, and 1 over the standard
+/// One band's geometry: its first reading and width, 1/k, 1/m, the others' mean position, 1 over
+/// their sum of squares about it, the band's mean position less theirs, and 1 over the standard
 /// deviation factor.
 struct LineBand {
     start: usize,
@@ -53,8 +83,10 @@ struct LineBand {
 }
 
 impl LineScan {
-    fn new(n: usize) -> Self {
-        let sum = |lo: usize, hi: usize, p: i32| (lo..hi).map(|i| (i as f64).powi(p)).sum::<f64>();
+    fn new(at: &[i64]) -> Self {
+        let x: Vec<f64> = at.iter().map(|&g| g as f64 / GRID_UNIT).collect();
+        let n = x.len();
+        let sum = |lo: usize, hi: usize, p: i32| x[lo..hi].iter().map(|v| v.powi(p)).sum::<f64>();
         let mut bands = Vec::new();
         for k in 1..=LINE_BAND.min(n.saturating_sub(3)) {
             for start in 0..=n - k {
@@ -75,15 +107,19 @@ impl LineScan {
                 });
             }
         }
-        LineScan { n, bands }
+        LineScan {
+            at: at.to_vec(),
+            x,
+            bands,
+        }
     }
 
     fn most(&self, v: &[f64]) -> f64 {
-        // running sums of v and i v over the readings before each index
+        // running sums of v and x v over the readings before each index
         let (mut py, mut pxy) = (vec![0.0; v.len() + 1], vec![0.0; v.len() + 1]);
         for (i, y) in v.iter().enumerate() {
             py[i + 1] = py[i] + y;
-            pxy[i + 1] = pxy[i] + i as f64 * y;
+            pxy[i + 1] = pxy[i] + self.x[i] * y;
         }
         let (ty, txy) = (py[v.len()], pxy[v.len()]);
         let mut most = 0.0_f64;
@@ -96,5 +132,39 @@ impl LineScan {
             most = most.max(excess * b.inv_sd);
         }
         most
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// Evenly spaced positions are the index grid exactly (shared noise-only profiles); a
+    /// straight wedge read at uneven positions (60 mm apart at the front, 270 mm at the back)
+    /// lies on its line: no band, where by reading number its thick end stands out; one reading
+    /// d above it at the back end stands d sqrt(1 - h) over the line through all of them, the
+    /// deleted residual over its standard deviation (Cook and Weisberg 1982, section 2.2).
+    #[test]
+    fn the_line_is_fitted_against_the_positions() {
+        let even: Vec<f64> = (0..15).map(|i| 0.06 + 0.12 * i as f64).collect();
+        assert_eq!(grid(&even, 15), index_grid(15));
+        let uneven: Vec<f64> = (0..12)
+            .map(|i| 0.06 * i as f64)
+            .chain((1..=4).map(|i| 0.66 + 0.27 * i as f64))
+            .collect();
+        let wedge: Vec<f64> = uneven.iter().map(|x| 4.0 * x).collect();
+        let at = grid(&uneven, uneven.len());
+        // (positions are kept to a millionth of a spacing)
+        assert!(over_line(&wedge, &at) < 1e-5);
+        let by_number = over_line(&wedge, &index_grid(uneven.len()));
+        assert!(by_number > 1.0, "{by_number}");
+        let mut band = wedge.clone();
+        *band.last_mut().unwrap() += 6.0;
+        let x: Vec<f64> = at.iter().map(|&g| g as f64 / GRID_UNIT).collect();
+        let xm = x.iter().sum::<f64>() / x.len() as f64;
+        let sxx: f64 = x.iter().map(|v| (v - xm).powi(2)).sum();
+        let h = 1.0 / x.len() as f64 + (x[x.len() - 1] - xm).powi(2) / sxx;
+        let d = over_line(&band, &at);
+        assert!((d - 6.0 * (1.0 - h).sqrt()).abs() < 1e-6, "{d}");
     }
 }

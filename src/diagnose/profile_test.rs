@@ -6,6 +6,7 @@
 //! tails from [`crate::stats::chi2_sf`]), which the confidence stage asks before it drops a
 //! finding that rests on the profiles alone.
 
+use super::line_scan;
 use super::noise::{MOISTURE_REPEATABILITY_PCT, TENSION_REPEATABILITY};
 use crate::case::{Case, Measure};
 use crate::fit::posterior;
@@ -53,8 +54,9 @@ pub(super) enum Outlying {
 }
 
 /// Fewest readings whose [`Outlying::ThickOverLine`] statistic is taken over a line; fewer are
-/// held against their median.
-const LINE_READINGS: usize = 4;
+/// held against their median (of four, a band of one leaves three for the line, and an end
+/// reading's excess over it is barely larger than the line's own error there).
+const LINE_READINGS: usize = 5;
 
 /// Readings a reading is held against in the thick band test (four each side inside the profile;
 /// the nearest eight at its ends): enough that their median is not much noisier than the whole
@@ -126,7 +128,7 @@ fn thick_statistic(v: &[f64], buf: &mut Vec<f64>) -> f64 {
 /// its neighbours ([`Outlying::Thick`]), in the readings' unit, or over the line through the
 /// others ([`Outlying::ThickOverLine`], in units of its standard deviation: over their median,
 /// in the readings' unit, below [`LINE_READINGS`]). `buf` is scratch.
-fn band_statistic(v: &[f64], buf: &mut Vec<f64>, way: Outlying) -> f64 {
+fn band_statistic(v: &[f64], at: &[i64], buf: &mut Vec<f64>, way: Outlying) -> f64 {
     if v.is_empty() {
         return 0.0;
     }
@@ -134,7 +136,7 @@ fn band_statistic(v: &[f64], buf: &mut Vec<f64>, way: Outlying) -> f64 {
         return thick_statistic(v, buf);
     }
     if way == Outlying::ThickOverLine && v.len() >= LINE_READINGS {
-        return super::line_scan::over_line(v);
+        return super::line_scan::over_line(v, at);
     }
     buf.clear();
     buf.extend_from_slice(v);
@@ -145,21 +147,29 @@ fn band_statistic(v: &[f64], buf: &mut Vec<f64>, way: Outlying) -> f64 {
     v.iter().map(|x| (x - med).abs()).fold(0.0, f64::max)
 }
 
-/// Noise statistics kept per reading count and way.
-type Kept = BTreeMap<(usize, Outlying), Arc<[f64]>>;
+/// Noise statistics kept per readings' grid and way.
+type Kept = BTreeMap<(Vec<i64>, Outlying), Arc<[f64]>>;
 
-/// Reading counts whose noise statistics are kept for the rest of the process.
+/// Grids whose noise statistics are kept for the rest of the process.
 const KEPT_COUNTS: usize = 64;
 
-/// The band statistic (`way`) of [`BAND_DRAWS`] noise-only profiles of `n` standard normal
-/// readings, sorted. A function of `n` and `way` alone (drawn from a stream seeded by them), so it
-/// is drawn once per reading count, way and process and shared by every profile, test and roll.
-fn null_statistics(n: usize, way: Outlying) -> Arc<[f64]> {
+/// The band statistic (`way`) of [`BAND_DRAWS`] noise-only profiles of standard normal readings
+/// on grid `at` ([`line_scan::grid`]; only the line leg reads the positions, and only the
+/// reading count seeds the draws), sorted. A function of `at` and `way` alone, so it is drawn
+/// once per grid, way and process and shared by every profile, test and roll (evenly spaced
+/// readings of a count share one grid).
+fn null_statistics(at: &[i64], way: Outlying) -> Arc<[f64]> {
     static KEPT: Mutex<Kept> = Mutex::new(BTreeMap::new());
+    let n = at.len();
+    // the either-way statistic does not read the positions
+    let at: Vec<i64> = match way {
+        Outlying::Either => line_scan::index_grid(n),
+        Outlying::Thick | Outlying::ThickOverLine => at.to_vec(),
+    };
     let kept = KEPT
         .lock()
         .unwrap_or_else(|e| e.into_inner())
-        .get(&(n, way))
+        .get(&(at.clone(), way))
         .cloned();
     if let Some(v) = kept {
         return v;
@@ -178,7 +188,7 @@ fn null_statistics(n: usize, way: Outlying) -> Arc<[f64]> {
     for _ in 0..BAND_DRAWS {
         normals(&mut rng, &mut draw);
         for (v, w) in noise.iter_mut().zip(ways) {
-            v.push(band_statistic(&draw, &mut buf, *w));
+            v.push(band_statistic(&draw, &at, &mut buf, *w));
         }
     }
     let mut m = KEPT.lock().unwrap_or_else(|e| e.into_inner());
@@ -187,7 +197,7 @@ fn null_statistics(n: usize, way: Outlying) -> Arc<[f64]> {
         v.sort_by(f64::total_cmp);
         let v: Arc<[f64]> = v.into();
         if m.len() < KEPT_COUNTS {
-            m.entry((n, *w)).or_insert_with(|| Arc::clone(&v));
+            m.entry((at.clone(), *w)).or_insert_with(|| Arc::clone(&v));
         }
         if *w == way {
             wanted = Some(v);
@@ -217,11 +227,11 @@ fn normals(rng: &mut ChaCha8Rng, out: &mut [f64]) {
     }
 }
 
-/// The outlier test of `readings` with one-sigma repeatability `rep` (same unit) at `level`.
-/// A statistic that is not a number (readings that are not) is no evidence: chance 1.
-fn outlier_test(readings: &[f64], rep: f64, level: f64, way: Outlying) -> BandTest {
-    let observed = band_statistic(readings, &mut Vec::new(), way) / rep.max(1e-300);
-    let noise = null_statistics(readings.len(), way);
+/// The outlier test of `readings` on grid `at` with one-sigma repeatability `rep` (same unit) at
+/// `level`. A statistic that is not a number (readings that are not) is no evidence: chance 1.
+fn outlier_test(readings: &[f64], at: &[i64], rep: f64, level: f64, way: Outlying) -> BandTest {
+    let observed = band_statistic(readings, at, &mut Vec::new(), way) / rep.max(1e-300);
+    let noise = null_statistics(at, way);
     let count = noise.len() - noise.partition_point(|x| *x < observed);
     BandTest {
         chance: (count + 1) as f64 / (BAND_DRAWS + 1) as f64,
@@ -232,8 +242,13 @@ fn outlier_test(readings: &[f64], rep: f64, level: f64, way: Outlying) -> BandTe
 /// The band test of the case's caliper readings (the caliper profile with the most readings; the
 /// lanes' calipers when the case has none) with repeatability `rep` (m) at `level`.
 pub(super) fn band_test(lab: &Case, lanes: &Lanes, rep: f64, level: f64) -> BandTest {
-    let (readings, _) = caliper_readings(lab, lanes);
-    thick_band(&readings, rep, level)
+    let (readings, positions) = caliper_readings(lab, lanes);
+    thick_band(
+        &readings,
+        &line_scan::grid(&positions, readings.len()),
+        rep,
+        level,
+    )
 }
 
 /// The band test of caliper `readings` with repeatability `rep` at `level`: a reading must stand
@@ -244,9 +259,9 @@ pub(super) fn band_test(lab: &Case, lanes: &Lanes, rep: f64, level: f64) -> Band
 /// band, the second alone loses power against a band with shoulders (its neighbours' median is
 /// noisier and sits on the shoulders) and takes a wedge's thick end for one (its neighbours all
 /// lie on its thin side). Its threshold is the larger of the two.
-fn thick_band(readings: &[f64], rep: f64, level: f64) -> BandTest {
-    let a = outlier_test(readings, rep, level, Outlying::Thick);
-    let b = outlier_test(readings, rep, level, Outlying::ThickOverLine);
+fn thick_band(readings: &[f64], at: &[i64], rep: f64, level: f64) -> BandTest {
+    let a = outlier_test(readings, at, rep, level, Outlying::Thick);
+    let b = outlier_test(readings, at, rep, level, Outlying::ThickOverLine);
     BandTest {
         chance: a.chance.max(b.chance),
         threshold_sigmas: a.threshold_sigmas.max(b.threshold_sigmas),
@@ -367,6 +382,7 @@ pub(super) fn web_test(lab: &Case, level: f64) -> Option<BandTest> {
             let v: Vec<f64> = p.values.iter().map(|x| x / m).collect();
             tests.push(outlier_test(
                 &v,
+                &line_scan::index_grid(v.len()),
                 TENSION_REPEATABILITY,
                 level,
                 Outlying::Either,
@@ -376,6 +392,7 @@ pub(super) fn web_test(lab: &Case, level: f64) -> Option<BandTest> {
     if let Some(p) = lab.densest(Measure::Moisture) {
         tests.push(outlier_test(
             &p.values,
+            &line_scan::index_grid(p.values.len()),
             MOISTURE_REPEATABILITY_PCT,
             level,
             Outlying::Either,
@@ -393,8 +410,23 @@ pub(super) fn web_test(lab: &Case, level: f64) -> Option<BandTest> {
 
 #[cfg(test)]
 mod tests {
-    use super::Outlying::{Either, Thick};
-    use super::{band_statistic, normals, null_statistics, outlier_test, unevenness_chance};
+    use super::line_scan::index_grid;
+    use super::{normals, unevenness_chance, BandTest, Outlying};
+    use Outlying::{Either, Thick};
+
+    // the tests on evenly spaced readings
+    fn band_statistic(v: &[f64], buf: &mut Vec<f64>, way: Outlying) -> f64 {
+        super::band_statistic(v, &index_grid(v.len()), buf, way)
+    }
+    fn null_statistics(n: usize, way: Outlying) -> std::sync::Arc<[f64]> {
+        super::null_statistics(&index_grid(n), way)
+    }
+    fn outlier_test(v: &[f64], rep: f64, level: f64, way: Outlying) -> BandTest {
+        super::outlier_test(v, &index_grid(v.len()), rep, level, way)
+    }
+    fn thick_band(v: &[f64], rep: f64, level: f64) -> BandTest {
+        super::thick_band(v, &index_grid(v.len()), rep, level)
+    }
     use rand::SeedableRng;
 
     /// The median through selection is the median of the sorted readings, for odd and even
@@ -474,10 +506,10 @@ mod tests {
     fn a_crown_is_no_band_and_a_band_is_one() {
         let u: Vec<f64> = (0..15).map(|i| i as f64 / 7.0 - 1.0).collect();
         let crown: Vec<f64> = u.iter().map(|x| 6.0 * (1.0 - x * x)).collect();
-        assert!(super::thick_band(&crown, 1.0, 0.001).chance > 0.1);
+        assert!(thick_band(&crown, 1.0, 0.001).chance > 0.1);
         let mut band = vec![0.0; 15];
         band[7] = 6.0;
-        assert!(super::thick_band(&band, 1.0, 0.001).chance < 1e-4);
+        assert!(thick_band(&band, 1.0, 0.001).chance < 1e-4);
     }
 
     /// A wedge has no band: 15 readings rising by 0.5 repeatability a reading (7 from end to
@@ -489,15 +521,15 @@ mod tests {
     fn a_wedge_is_no_band_and_a_band_at_its_thick_end_is_one() {
         let mut buf = Vec::new();
         let wedge: Vec<f64> = (0..15).map(|i| 0.5 * i as f64).collect();
-        let on_line = band_statistic(&wedge, &mut buf, super::Outlying::ThickOverLine);
+        let on_line = band_statistic(&wedge, &mut buf, Outlying::ThickOverLine);
         assert!(on_line < 1e-12, "{on_line}");
-        assert!(super::thick_band(&wedge, 1.0, 0.001).chance > 0.1);
+        assert!(thick_band(&wedge, 1.0, 0.001).chance > 0.1);
         let mut band = wedge.clone();
         band[14] += 6.0;
         let h: f64 = 1.0 / 15.0 + 49.0 / 280.0;
-        let d = band_statistic(&band, &mut buf, super::Outlying::ThickOverLine);
+        let d = band_statistic(&band, &mut buf, Outlying::ThickOverLine);
         assert!((d - 6.0 * (1.0 - h).sqrt()).abs() < 1e-12, "{d}");
-        assert!(super::thick_band(&band, 1.0, 0.001).chance < 1e-4);
+        assert!(thick_band(&band, 1.0, 0.001).chance < 1e-4);
     }
 
     /// The line leg's statistic of 15 level readings: its 99.9th percentile is 4.043 (NumPy
@@ -508,10 +540,8 @@ mod tests {
     /// band widths tests more than the 15 single readings.
     #[test]
     fn the_line_leg_null_matches_an_independent_monte_carlo() {
-        let q = crate::fit::posterior::quantile(
-            &null_statistics(15, super::Outlying::ThickOverLine),
-            0.999,
-        );
+        let q =
+            crate::fit::posterior::quantile(&null_statistics(15, Outlying::ThickOverLine), 0.999);
         assert!((q - 4.043).abs() < 0.1, "{q}");
         assert!(q > crate::stats::normal_isf(0.001 / 15.0), "{q}");
     }
