@@ -140,7 +140,7 @@ fn a_band_near_one_edge_is_not_a_conical_roll() {
 /// readings out of the line it judges them against); the edge strip unwinds longer than the web
 /// inward of it by about the running strain T/(E h), where a lane runs slack (common practice);
 /// and the roll is not taken for a conical one. A dish (both edges thick alike) is no one-sided
-/// edge.
+/// edge. A complaint of baggy edges agrees with it (the complainant saw an edge baggy).
 #[test]
 fn a_thick_edge_is_a_gauge_band_and_a_baggy_edge_on_its_side() {
     for n in [8, 17, 40] {
@@ -149,6 +149,8 @@ fn a_thick_edge_is_a_gauge_band_and_a_baggy_edge_on_its_side() {
             &[format!("lanes.count={n}")],
         )
         .unwrap();
+        let mut c = c;
+        c.complaint = Some("baggy_edges".into());
         let d = run(&c);
         let found = common::defects(&d);
         assert!(found.contains(&Defect::GaugeBands), "{n} lanes: {found:?}");
@@ -161,6 +163,7 @@ fn a_thick_edge_is_a_gauge_band_and_a_baggy_edge_on_its_side() {
         // the long edge is the back one (the roll is 1800 mm wide)
         assert!(!edge.lanes.is_empty(), "{n} lanes");
         assert!(edge.lanes.iter().all(|l| l.position_m > 1.5), "{n} lanes");
+        assert!(d.agreement.as_ref().is_some_and(|a| a.agrees), "{n} lanes");
         let dish = surveyed("dish_3pct", n);
         assert!(!dish.contains(&Defect::BaggyOneEdge), "{n} lanes: {dish:?}");
     }

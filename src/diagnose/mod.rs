@@ -370,11 +370,20 @@ fn finding(
     })
 }
 
-/// Whether the findings agree with the complaint.
+/// Whether the findings agree with the complaint: a finding of the defect complained of, or of
+/// its kin (baggy edges and a baggy edge on one side: a complainant who saw one edge baggy may
+/// write either).
 fn agreement(complaint: Defect, findings: &[Finding]) -> Agreement {
+    let kin = |d: Defect| {
+        matches!(
+            (d, complaint),
+            (Defect::BaggyEdges, Defect::BaggyOneEdge) | (Defect::BaggyOneEdge, Defect::BaggyEdges)
+        )
+    };
     let rank = findings
         .iter()
         .position(|f| f.defect == complaint)
+        .or_else(|| findings.iter().position(|f| kin(f.defect)))
         .map(|p| p + 1);
     Agreement {
         complaint,
