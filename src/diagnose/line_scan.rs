@@ -40,15 +40,20 @@ pub(super) fn index_grid(n: usize) -> Vec<i64> {
 /// outside it, in units of that excess's standard deviation in the readings' own: for a band B
 /// of k readings and the m others, (mean of B - line at B's mean position) / sqrt(1/k + 1/m +
 /// (B's mean position - the others')^2 / their sum of squares about their mean position), the
-/// error of predicting a mean of k new
-/// readings from a fitted line (Draper and Smith 1998, "Applied Regression Analysis", 3rd ed.,
-/// section 3.1, from memory; for k = 1 the deleted residual of Cook and Weisberg 1982). Each is
-/// standard normal on a level profile of unit noise, and a band does not move the line it is
-/// judged against. At least three readings stay outside a band. 0 when none lies above its line.
+/// error of predicting a mean of k new readings from a fitted line (Draper and Smith 1998,
+/// "Applied Regression Analysis", 3rd ed., section 3.1, from memory; for k = 1 the deleted
+/// residual of Cook and Weisberg 1982). Each is standard normal on a level profile of unit
+/// noise, and a band does not move the line it is judged against. At least three readings stay
+/// outside a band. 0 when none lies above its line.
 pub(super) fn over_line(v: &[f64], at: &[i64]) -> f64 {
     thread_local! {
         static SCAN: std::cell::RefCell<LineScan> = const {
-            std::cell::RefCell::new(LineScan { at: Vec::new(), x: Vec::new(), bands: Vec::new() })
+            std::cell::RefCell::new(LineScan {
+                at: Vec::new(),
+                x: Vec::new(),
+                bands: Vec::new(),
+                sums: Vec::new(),
+            })
         };
     }
     SCAN.with_borrow_mut(|scan| {
@@ -66,6 +71,8 @@ struct LineScan {
     /// Positions in reading spacings.
     x: Vec<f64>,
     bands: Vec<LineBand>,
+    /// Scratch: running sums of v and x v over the readings before each index.
+    sums: Vec<(f64, f64)>,
 }
 
 /// One band's geometry: its first reading and width, 1/k, 1/m, the others' mean position, 1 over
@@ -111,21 +118,23 @@ impl LineScan {
             at: at.to_vec(),
             x,
             bands,
+            sums: Vec::with_capacity(n + 1),
         }
     }
 
-    fn most(&self, v: &[f64]) -> f64 {
-        // running sums of v and x v over the readings before each index
-        let (mut py, mut pxy) = (vec![0.0; v.len() + 1], vec![0.0; v.len() + 1]);
-        for (i, y) in v.iter().enumerate() {
-            py[i + 1] = py[i] + y;
-            pxy[i + 1] = pxy[i] + self.x[i] * y;
+    fn most(&mut self, v: &[f64]) -> f64 {
+        let p = &mut self.sums;
+        p.clear();
+        p.push((0.0, 0.0));
+        for (y, x) in v.iter().zip(&self.x) {
+            let (sy, sxy) = p[p.len() - 1];
+            p.push((sy + y, sxy + x * y));
         }
-        let (ty, txy) = (py[v.len()], pxy[v.len()]);
+        let (ty, txy) = p[p.len() - 1];
         let mut most = 0.0_f64;
         for b in &self.bands {
-            let yb = py[b.start + b.k] - py[b.start];
-            let xyb = pxy[b.start + b.k] - pxy[b.start];
+            let yb = p[b.start + b.k].0 - p[b.start].0;
+            let xyb = p[b.start + b.k].1 - p[b.start].1;
             let (yr, xyr) = (ty - yb, txy - xyb);
             let slope = (xyr - b.xr * yr) * b.inv_sxx;
             let excess = yb * b.inv_k - yr * b.inv_m - slope * b.dx;

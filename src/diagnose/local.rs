@@ -68,13 +68,18 @@ pub fn baseline(spans: &[(f64, f64)], v: &[f64], k: usize) -> Option<f64> {
 /// edges, a dish) is the centre-against-edges pattern, not this. 0 below five lanes (every lane
 /// is inner there).
 pub fn end_excess(spans: &[(f64, f64)], v: &[f64]) -> f64 {
-    let n = v.len();
-    if n < 5 {
+    if v.len() < 5 {
         return 0.0;
     }
-    let over = |k: usize| baseline(spans, v, k).map_or(0.0, |m| v[k] - m);
-    let (a, b) = (over(0), over(n - 1));
+    let (a, b) = end_overs(spans, v);
     a.max(b) - a.min(b).max(0.0)
+}
+
+/// Excess of the first and of the last lane over the web inward of it ([`baseline`]; 0 where
+/// there is none), in the unit of `v`.
+pub fn end_overs(spans: &[(f64, f64)], v: &[f64]) -> (f64, f64) {
+    let over = |k: usize| baseline(spans, v, k).map_or(0.0, |m| v[k] - m);
+    (over(0), over(v.len().saturating_sub(1)))
 }
 
 /// Front and back edge of every lane, m.

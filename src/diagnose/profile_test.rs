@@ -45,9 +45,9 @@ pub(super) enum Outlying {
     /// its centre or its edges stand far from the median without any band (a crown is judged by
     /// [`super::crown`]).
     Thick,
-    /// Thick against the straight line through the other readings by index: the largest
-    /// excess of a band of one to three readings over the line through those outside it
-    /// ([`super::line_scan::over_line`]). A wedge's thick end stands over the readings' median
+    /// Thick against the straight line through the other readings, against their positions:
+    /// the largest excess of a band of one to three readings over the line through those outside
+    /// it ([`super::line_scan::over_line`]). A wedge's thick end stands over the readings' median
     /// and over its neighbours (all on one side of it) without any band, but not over the line
     /// through the others.
     ThickOverLine,
@@ -251,9 +251,10 @@ pub(super) fn band_test(lab: &Case, lanes: &Lanes, rep: f64, level: f64) -> Band
     )
 }
 
-/// The band test of caliper `readings` with repeatability `rep` at `level`: a reading must stand
-/// out both from the straight line through the other readings and from the median of its [`NEIGHBOURS`]
-/// nearest readings ([`Outlying::ThickOverLine`], [`Outlying::Thick`]); the larger of the two
+/// The band test of caliper `readings` on grid `at` with repeatability `rep` at `level`: a band
+/// must stand out both from the straight line through the other readings and a reading from the
+/// median of its [`NEIGHBOURS`] nearest readings ([`Outlying::ThickOverLine`],
+/// [`Outlying::Thick`]); the larger of the two
 /// chances (an intersection-union test, whose size is at most either test's: Berger 1982,
 /// Technometrics 24:295-300, from memory). The first alone takes a crown's thick centre for a
 /// band, the second alone loses power against a band with shoulders (its neighbours' median is

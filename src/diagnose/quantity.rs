@@ -384,9 +384,8 @@ pub fn locate(
 /// The end lane longer over the web inward of it (as [`local::end_excess`] judges it), and the
 /// lanes next to it as long.
 fn long_edge(x: &[f64], spans: &[(f64, f64)]) -> Vec<usize> {
-    let (a, b) = (0, x.len().saturating_sub(1));
-    let over = |k: usize| local::baseline(spans, x, k).map_or(0.0, |m| x[k] - m);
-    let end = if over(b) > over(a) { b } else { a };
+    let (front, back) = local::end_overs(spans, x);
+    let end = if back > front { x.len() - 1 } else { 0 };
     around(x, end, 0.5 * (x[end] + median(x)))
 }
 
