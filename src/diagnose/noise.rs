@@ -11,6 +11,7 @@ use super::features::{self, Features};
 use super::profile_test::{band_test, web_test, BandTest};
 use super::{DiagnoseError, Fitted};
 use crate::case::{Case, Measure};
+use crate::fit::posterior::normal;
 use crate::fit::{creep_from, posterior, prepared, FitError};
 use crate::lanes::Lanes;
 use crate::note::Note;
@@ -217,13 +218,6 @@ pub(super) fn caliper_repeatability(case: &Case) -> (f64, String) {
     }
 }
 
-/// A standard normal draw (Box-Muller).
-pub(super) fn normal(rng: &mut ChaCha8Rng) -> f64 {
-    let u1: f64 = rng.random::<f64>().max(1e-300);
-    let u2: f64 = rng.random::<f64>();
-    (-2.0 * u1.ln()).sqrt() * (std::f64::consts::TAU * u2).cos()
-}
-
 /// What noise alone makes: floors of the deciding features, the caliper band test and the
 /// resolution note.
 pub(super) struct Floor {
@@ -412,13 +406,17 @@ pub(super) fn flattened_features(
 }
 
 /// Creep per lane of a noise-only roll: the pooled log-scales moved by one of the lane's own
-/// posterior draws' deviations from its fitted log-scales (a random draw per lane), so the
-/// correlation of the two scales is kept; a scale the data do not identify does not move.
+/// posterior draws' deviations from its fitted log-scales, so the correlation of the two scales
+/// is kept; a scale the data do not identify does not move. The draw is the one at the normal
+/// quantile of the lane's score in a realisation of the survey readings' field, so lanes that
+/// share readings move together ([`crate::fit::field`]); without a survey field, a random draw
+/// per lane.
 fn noisy_creep(lab: &Case, fit: &crate::fit::RollFit, rng: &mut ChaCha8Rng) -> Vec<LaneCreep> {
     let pooled = [
         fit.pooled_md_creep_scale.ln(),
         fit.pooled_radial_creep_scale.ln(),
     ];
+    let field = crate::fit::field::Field::of(lab).map(|f| (f.draw(rng), f));
     fit.lanes
         .iter()
         .map(|l| {
@@ -426,7 +424,11 @@ fn noisy_creep(lab: &Case, fit: &crate::fit::RollFit, rng: &mut ChaCha8Rng) -> V
             let t = if n == 0 {
                 pooled
             } else {
-                let d = l.draws_theta[rng.random_range(0..n)];
+                let k = match &field {
+                    Some((z, f)) => f.pick(z, (&l.draws_theta, l.pinned), l.position_m),
+                    None => rng.random_range(0..n),
+                };
+                let d = l.draws_theta[k];
                 // a scale pinned to the roll's value moves with the roll, not per lane
                 [0, 1].map(|i| {
                     if l.pinned[i] {

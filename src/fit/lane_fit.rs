@@ -479,11 +479,14 @@ pub struct LaneFit {
 /// Fit one lane with a prior centred on `prior` (the pooled log-scales): the optimum by
 /// Nelder-Mead, then the posterior by quadrature on a grid ([`super::posterior::quadrature`]).
 /// A scale the data do not identify is set to the pooled value when the pooled value lies inside
-/// its one-sigma posterior interval.
+/// its one-sigma posterior interval. With `scores` (the lane's score in each state,
+/// [`super::field`]) the posterior draws are put in state order by them, else left in their
+/// seeded random order.
 pub fn fit_lane(
     p: &LaneProblem,
     (prior, pooled_draws): ([f64; 2], &[[f64; 2]]),
     seed: u64,
+    scores: Option<&[f64]>,
 ) -> Result<LaneFit, SolverError> {
     let lanes = std::slice::from_ref(p);
     let obj = Objective {
@@ -509,16 +512,11 @@ pub fn fit_lane(
     let a = p.simulate(&theta).ok_or(SolverError::ModelFailed)?;
     let mut residuals = residuals(p, &a);
     let final_cost = obj.value_from_run(&theta, a);
-    let rmse = if residuals.is_empty() {
-        0.0
-    } else {
-        (residuals.iter().map(|r| r.normalised.powi(2)).sum::<f64>() / residuals.len() as f64)
-            .sqrt()
-    };
+    let rmse = rms_normalised(&residuals);
     let (smd, sr) = (theta[0].exp(), theta[1].exp());
     let c = creep_from(p.material, &theta);
     let (draws, draws_theta) =
-        super::draws::pinned_draws(p.material, &post, &theta, (pinned, pooled_draws));
+        super::draws::pinned_draws(p.material, &post, &theta, (pinned, pooled_draws), scores);
     let draw_runs = super::draws::draw_runs(p, &draws);
     super::draws::prediction_bands(p, &draws_theta, draw_runs.as_deref(), &mut residuals);
     Ok(LaneFit {
@@ -559,6 +557,14 @@ pub fn fit_lane(
         draws_theta,
         draw_runs,
     })
+}
+
+/// Root-mean-square normalised residual (0 with no residuals).
+fn rms_normalised(residuals: &[Residual]) -> f64 {
+    if residuals.is_empty() {
+        return 0.0;
+    }
+    (residuals.iter().map(|r| r.normalised.powi(2)).sum::<f64>() / residuals.len() as f64).sqrt()
 }
 
 /// Residuals of a lane's observations against a simulated lane.

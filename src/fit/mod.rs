@@ -5,6 +5,7 @@
 pub mod contradict;
 pub mod creep_curve;
 mod draws;
+pub mod field;
 mod grid;
 mod hardness;
 mod lane_fit;
@@ -253,7 +254,9 @@ pub fn fit_roll(
     let contradictions =
         contradict::contradictions(&problems, &prior, &lanes.positions(), &lanes.widths());
     notes.extend(contradiction_notes(&contradictions));
-    let (fits, lane_evaluations) = lane_fits(&problems, (prior, &pooled_post.draws), &case.id)?;
+    let states = state_scores(case, &problems);
+    let (fits, lane_evaluations) =
+        lane_fits(&problems, (prior, &pooled_post.draws), &case.id, &states)?;
     if problems.iter().all(|p| p.steps == 0) {
         notes.push(Note::OneAge);
     }
@@ -376,12 +379,16 @@ fn lane_fits(
     problems: &[LaneProblem],
     prior: ([f64; 2], &[[f64; 2]]),
     case_id: &str,
+    states: &[Vec<f64>],
 ) -> Result<(Vec<LaneFit>, u64), FitError> {
     use rayon::prelude::*;
     let all: Vec<_> = problems
         .par_iter()
         .enumerate()
-        .map(|(lane, p)| fit_lane(p, prior, posterior::seed_for(case_id, lane)))
+        .map(|(lane, p)| {
+            let scores = states.get(lane).map(Vec::as_slice);
+            fit_lane(p, prior, posterior::seed_for(case_id, lane), scores)
+        })
         .collect();
     let mut fits = Vec::with_capacity(problems.len());
     let mut evaluations = 0;
@@ -391,6 +398,29 @@ fn lane_fits(
         fits.push(f);
     }
     Ok((fits, evaluations))
+}
+
+/// Seed offset of the states' score fields (distinct from any lane index and the pooled fit's).
+const FIELD_SEED_LANE: usize = (1 << 21) + 1;
+
+/// Each lane's score in each of the [`posterior::DRAWS`] states ([`field`]): one realisation of
+/// the survey positions' field per state, seeded from the case id; empty where the case has no
+/// survey with two positions (the lanes' draws then stay in their own random order).
+fn state_scores(case: &Case, problems: &[LaneProblem]) -> Vec<Vec<f64>> {
+    use rand::SeedableRng;
+    let Some(f) = field::Field::of(case) else {
+        return Vec::new();
+    };
+    let mut rng =
+        rand_chacha::ChaCha8Rng::seed_from_u64(posterior::seed_for(&case.id, FIELD_SEED_LANE));
+    let z: Vec<Vec<f64>> = (0..posterior::DRAWS).map(|_| f.draw(&mut rng)).collect();
+    problems
+        .iter()
+        .map(|p| {
+            let x = p.wound.lanes[p.lane].position_m;
+            z.iter().map(|zk| f.score(zk, x)).collect()
+        })
+        .collect()
 }
 
 /// The measurement noise a case's fit uses, with where each value came from.

@@ -207,8 +207,8 @@ fn pseudo_draws(
         .collect()
 }
 
-/// A standard normal draw (Box-Muller).
-fn normal(rng: &mut ChaCha8Rng) -> f64 {
+/// A standard normal draw (Box-Muller, the cosine branch).
+pub fn normal(rng: &mut ChaCha8Rng) -> f64 {
     let u1: f64 = rng.random::<f64>().max(1e-300);
     let u2: f64 = rng.random::<f64>();
     (-2.0 * u1.ln()).sqrt() * (std::f64::consts::TAU * u2).cos()
