@@ -10,8 +10,8 @@
 //!
 //! So the draws are made to share the readings' noise: a standard normal score per survey
 //! position (one field per state or noise roll), carried to each lane centre with the weights
-//! that interpolate its data (linear between the two nearest readings, the end reading beyond
-//! the ends) and scaled back to unit variance. The score's correlation between two lanes is the
+//! that interpolate its data (linear within the segment it lies in, extrapolated from the end
+//! segment beyond the ends) and scaled back to unit variance. The score's correlation between two lanes is the
 //! correlation of their data noise. A lane's draws are then put in the order of their effect
 //! (the log-scale of the lane's own creep that is not pinned to the roll's) and matched to the
 //! states by the ranks of the lane's scores, which keeps each lane's draws exactly and induces
@@ -68,15 +68,12 @@ impl Field {
 
     /// The unit-variance score at lane centre `x` (m) of realisation `z`: the readings' scores
     /// with the weights that interpolate the lane's data, over the root of their sum of squares.
+    /// The weights are [`crate::interp::linear_extrap`]'s: the two readings of the segment the
+    /// centre lies in, and beyond the ends the end segment's (extrapolated, so an end lane
+    /// shares both end readings with its neighbour).
     pub fn score(&self, z: &[f64], x: f64) -> f64 {
         let p = &self.positions;
-        let j = p.partition_point(|&q| q <= x);
-        if j == 0 {
-            return z[0];
-        }
-        if j >= p.len() {
-            return z[p.len() - 1];
-        }
+        let j = p.partition_point(|&q| q <= x).clamp(1, p.len() - 1);
         let t = (x - p[j - 1]) / (p[j] - p[j - 1]);
         ((1.0 - t) * z[j - 1] + t * z[j]) / ((1.0 - t).powi(2) + t * t).sqrt()
     }
@@ -137,15 +134,21 @@ mod tests {
     }
 
     /// At a survey position the score is that position's; half way it is the mean of the two
-    /// over sqrt(1/2), so every lane's score is standard normal; beyond the ends, the end's.
+    /// over sqrt(1/2), so every lane's score is standard normal; beyond the ends, the end
+    /// segment's extrapolation weights (as the lane's data are extrapolated).
     #[test]
     fn scores_interpolate_with_unit_variance() {
         let f = field(&[0.1, 0.3, 0.5]);
         let z = [1.0, -2.0, 0.5];
         assert_eq!(f.score(&z, 0.1), 1.0);
         assert_eq!(f.score(&z, 0.3), -2.0);
-        assert_eq!(f.score(&z, 0.0), 1.0);
-        assert_eq!(f.score(&z, 0.9), 0.5);
+        assert_eq!(f.score(&z, 0.5), 0.5);
+        // half a spacing before the first reading: weights 1.5 and -0.5
+        let before = (1.5 * 1.0 - 0.5 * -2.0) / (1.5f64 * 1.5 + 0.25).sqrt();
+        approx::assert_relative_eq!(f.score(&z, 0.0), before, max_relative = 1e-12);
+        // the weights are those that extrapolate the lane's data
+        let (y, _) = crate::interp::linear_extrap(&[0.1, 0.3, 0.5], &z, 0.0);
+        approx::assert_relative_eq!(y, 1.5 * 1.0 - 0.5 * -2.0, max_relative = 1e-12);
         approx::assert_relative_eq!(
             f.score(&z, 0.2),
             (0.5 * 1.0 + 0.5 * -2.0) / 0.5f64.sqrt(),
