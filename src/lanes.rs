@@ -63,12 +63,16 @@ pub struct Series {
     pub what: Measure,
     /// Roll age at the reading, s.
     pub age_s: f64,
-    /// Value at each lane centre (caliper m, diameter m, hardness scale units).
+    /// Value of each lane (caliper m, diameter m, hardness scale units): the mean of the readings
+    /// inside the lane where it holds two or more, else the profile at its centre ([`onto`]).
     pub values: Vec<f64>,
-    /// True where some lane centre lies outside the measured positions.
+    /// True where some lane takes a value extrapolated beyond the measured positions.
     pub extrapolated: bool,
-    /// Factor on a reading's noise at each lane centre ([`crate::interp::noise_gain`]: 1 inside
-    /// the readings, more where a lane is extrapolated).
+    /// Per lane, whether its value is extrapolated.
+    pub beyond: Vec<bool>,
+    /// Factor on a reading's noise in each lane's value: 1 / sqrt(k) for the mean of k readings,
+    /// else [`crate::interp::noise_gain`] at its centre (1 inside the readings, more where a lane
+    /// is extrapolated).
     pub noise_gain: Vec<f64>,
 }
 
@@ -187,17 +191,49 @@ fn beyond(positions: &[f64], x: f64) -> bool {
     }
 }
 
-/// Interpolate a profile onto lane centres; returns values and whether any was extrapolated.
-fn onto(p: &Profile, centres: &[f64]) -> (Vec<f64>, bool) {
-    let mut any = false;
-    let v = centres
-        .iter()
-        .map(|&x| {
-            any |= beyond(&p.positions_m, x);
-            linear_extrap(&p.positions_m, &p.values, x).0
+/// A profile on the lanes between edges `e` (m). A lane that holds two or more readings (one
+/// wider than their spacing) takes their mean, whose noise is that of one reading over the root
+/// of their count: it uses every reading, where its centre alone would skip those between lane
+/// centres (a band there would be lost). Any other lane takes the profile interpolated at its
+/// centre, linearly, extrapolated from the end segment beyond the readings.
+fn onto(p: &Profile, e: &[f64]) -> Series {
+    let n = e.len().saturating_sub(1);
+    let (mut values, mut beyond_at, mut gain) = (Vec::new(), Vec::new(), Vec::new());
+    for i in 0..n {
+        let held = held(&p.positions_m, e, i);
+        if held.len() >= 2 {
+            let k = held.len() as f64;
+            values.push(held.iter().map(|&j| p.values[j]).sum::<f64>() / k);
+            beyond_at.push(false);
+            gain.push(1.0 / k.sqrt());
+        } else {
+            let x = 0.5 * (e[i] + e[i + 1]);
+            values.push(linear_extrap(&p.positions_m, &p.values, x).0);
+            beyond_at.push(beyond(&p.positions_m, x));
+            gain.push(crate::interp::noise_gain(&p.positions_m, x));
+        }
+    }
+    Series {
+        what: p.what,
+        age_s: p.age_s,
+        values,
+        extrapolated: beyond_at.iter().any(|&b| b),
+        beyond: beyond_at,
+        noise_gain: gain,
+    }
+}
+
+/// Indices of the readings at `positions` (m) that lane `i` between edges `e` (m) holds: from
+/// its left edge up to its right edge, a reading on an inner edge going to the lane on its right
+/// (the last lane keeps its right edge).
+pub fn held(positions: &[f64], e: &[f64], i: usize) -> Vec<usize> {
+    let (left, right, last) = (e[i], e[i + 1], i + 2 == e.len());
+    (0..positions.len())
+        .filter(|&j| {
+            let x = positions[j];
+            x >= left && (x < right || (last && x <= right))
         })
-        .collect();
-    (v, any)
+        .collect()
 }
 
 /// Lanes wider than the caliper readings' median spacing by more than this share (reading
@@ -205,8 +241,9 @@ fn onto(p: &Profile, centres: &[f64]) -> (Vec<f64>, bool) {
 const COARSE_TOL: f64 = 0.1;
 
 /// The note on lanes asked for (`e`, edges, m) whose inner lanes are wider than the densest
-/// caliper profile's median reading spacing: a band narrower than a lane can fall between lane
-/// centres, where the lanes sample the profile (the demo's band is lost so below 16 lanes).
+/// caliper profile's median reading spacing: a band narrower than a lane is averaged over the
+/// lane that holds it with other readings, or falls between the centres of lanes that hold one
+/// reading or none.
 fn coarse_note(case: &Case, e: &[f64]) -> Option<Note> {
     if case.lane_count.is_none() && case.lane_edges_m.is_none() {
         return None;
@@ -254,23 +291,7 @@ pub fn build(case: &Case) -> Lanes {
     let centres: Vec<f64> = e.windows(2).map(|w| 0.5 * (w[0] + w[1])).collect();
     let widths: Vec<f64> = e.windows(2).map(|w| w[1] - w[0]).collect();
     let n = centres.len();
-    let series: Vec<Series> = case
-        .profiles
-        .iter()
-        .map(|p| {
-            let (values, extrapolated) = onto(p, &centres);
-            Series {
-                what: p.what,
-                age_s: p.age_s,
-                values,
-                extrapolated,
-                noise_gain: centres
-                    .iter()
-                    .map(|&x| crate::interp::noise_gain(&p.positions_m, x))
-                    .collect(),
-            }
-        })
-        .collect();
+    let series: Vec<Series> = case.profiles.iter().map(|p| onto(p, &e)).collect();
     let mut notes = count_notes(case, n);
     notes.extend(coarse_note(case, &e));
     let mut extrap = vec![false; n];
@@ -278,10 +299,8 @@ pub fn build(case: &Case) -> Lanes {
         let i = earliest_index(&series, what)?;
         let (p, s) = (&case.profiles[i], &series[i]);
         if s.extrapolated {
-            for (i, &x) in centres.iter().enumerate() {
-                if beyond(&p.positions_m, x) {
-                    extrap[i] = true;
-                }
+            for (x, &b) in extrap.iter_mut().zip(&s.beyond) {
+                *x |= b;
             }
             notes.push(Note::Extrapolated {
                 what: p.what,
@@ -392,6 +411,11 @@ fn earliest_index(series: &[Series], what: Measure) -> Option<usize> {
 }
 
 impl Lanes {
+    /// Lane edges from the front edge, m (one more than the lanes).
+    pub fn edges_m(&self) -> Vec<f64> {
+        let right = self.lanes.last().map(|l| l.right_m);
+        self.lanes.iter().map(|l| l.left_m).chain(right).collect()
+    }
     /// Lane centres, m.
     pub fn positions(&self) -> Vec<f64> {
         self.lanes.iter().map(|l| l.position_m).collect()
@@ -460,6 +484,34 @@ mod tests {
 
     /// One or two lanes: only splits (the two edge lanes share their one inner edge), never a
     /// trim; one lane wider than two strips becomes strip, middle, strip.
+    /// A lane holding two or more readings takes their mean, whose noise is one reading's over
+    /// the root of their count (the standard error of a mean of independent readings); a lane
+    /// holding one or none takes the profile at its centre, extrapolated beyond the readings.
+    #[test]
+    fn a_wide_lane_takes_the_mean_of_the_readings_it_holds() {
+        let p = Profile {
+            what: Measure::Hardness,
+            age_s: 0.0,
+            positions_m: vec![0.1, 0.2, 0.3, 0.4],
+            values: vec![1.0, 2.0, 3.0, 4.0],
+            origin: "test".into(),
+        };
+        let s = onto(&p, &[0.0, 0.25, 0.5]);
+        assert_eq!(s.values, vec![1.5, 3.5]);
+        for g in &s.noise_gain {
+            approx::assert_relative_eq!(*g, 0.5f64.sqrt(), max_relative = 1e-12);
+        }
+        assert!(!s.extrapolated);
+        // a lane holding none takes its centre's extrapolation; a reading on an inner edge goes
+        // to the lane on its right, and the last lane keeps its right edge
+        let s = onto(&p, &[0.0, 0.1, 0.5]);
+        approx::assert_relative_eq!(s.values[0], 0.5);
+        assert!(s.extrapolated && s.beyond[0] && !s.beyond[1]);
+        approx::assert_relative_eq!(s.values[1], 2.5);
+        approx::assert_relative_eq!(s.noise_gain[1], 0.5);
+        assert_eq!(held(&p.positions_m, &[0.0, 0.2, 0.4], 1), vec![1, 2, 3]);
+    }
+
     #[test]
     fn one_or_two_lanes_are_split_and_never_trimmed() {
         assert_eq!(widths(&with_edge_strips(even(0.06, 2))), vec![0.03, 0.03]);

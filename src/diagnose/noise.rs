@@ -408,24 +408,26 @@ pub(super) fn flattened_features(
 /// Creep per lane of a noise-only roll: the pooled log-scales moved by one of the lane's own
 /// posterior draws' deviations from its fitted log-scales, so the correlation of the two scales
 /// is kept; a scale the data do not identify does not move. The draw is the one at the normal
-/// quantile of the lane's score in a realisation of the survey readings' field, so lanes that
-/// share readings move together ([`crate::fit::field`]); without a survey field, a random draw
-/// per lane.
-fn noisy_creep(lab: &Case, fit: &crate::fit::RollFit, rng: &mut ChaCha8Rng) -> Vec<LaneCreep> {
+/// quantile of the lane's score in the survey readings' field ([`crate::fit::field`]: lanes on
+/// `e`, edges, that share readings move together), else a random draw per lane.
+fn noisy_creep(
+    lab: &Case,
+    (fit, e): (&crate::fit::RollFit, &[f64]),
+    rng: &mut ChaCha8Rng,
+) -> Vec<LaneCreep> {
     let pooled = [
         fit.pooled_md_creep_scale.ln(),
         fit.pooled_radial_creep_scale.ln(),
     ];
     let field = crate::fit::field::Field::of(lab).map(|f| (f.draw(rng), f));
-    fit.lanes
-        .iter()
-        .map(|l| {
+    (fit.lanes.iter().enumerate())
+        .map(|(i, l)| {
             let n = l.draws_theta.len();
             let t = if n == 0 {
                 pooled
             } else {
                 let k = match &field {
-                    Some((z, f)) => f.pick(z, (&l.draws_theta, l.pinned), l.position_m),
+                    Some((z, f)) => f.pick(z, (&l.draws_theta, l.pinned), (e, i)),
                     None => rng.random_range(0..n),
                 };
                 let d = l.draws_theta[k];
@@ -461,10 +463,11 @@ fn noise_rolls(
     rng: &mut ChaCha8Rng,
 ) -> Result<Vec<Features>, DiagnoseError> {
     use rayon::prelude::*;
+    let edges = fitted.lanes.edges_m();
     let inputs: Vec<(Lanes, Vec<LaneCreep>)> = (0..NOISE_ROLLS)
         .map(|_| {
             let l = uniform_lanes(lab, &fitted.lanes, Some((&mut *rng, rep)));
-            (l, noisy_creep(lab, &fitted.fit, &mut *rng))
+            (l, noisy_creep(lab, (&fitted.fit, &edges), &mut *rng))
         })
         .collect();
     let rolls: Vec<Stored> = inputs

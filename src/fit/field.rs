@@ -66,23 +66,34 @@ impl Field {
         (0..self.len()).map(|_| normal(rng)).collect()
     }
 
-    /// The unit-variance score at lane centre `x` (m) of realisation `z`: the readings' scores
-    /// with the weights that interpolate the lane's data, over the root of their sum of squares.
-    /// The weights are [`crate::interp::linear_extrap`]'s: the two readings of the segment the
-    /// centre lies in, and beyond the ends the end segment's (extrapolated, so an end lane
-    /// shares both end readings with its neighbour).
-    pub fn score(&self, z: &[f64], x: f64) -> f64 {
+    /// The unit-variance score of lane `i` between edges `e` (m) in realisation `z`: the
+    /// readings' scores with the weights that make the lane's data ([`crate::lanes::build`]),
+    /// over the root of their sum of squares. A lane holding two or more readings takes their
+    /// mean; any other its centre's interpolation ([`crate::interp::linear_extrap`]: the two
+    /// readings of the segment the centre lies in, and beyond the ends the end segment's, so an
+    /// end lane shares both end readings with its neighbour).
+    pub fn score(&self, z: &[f64], e: &[f64], i: usize) -> f64 {
         let p = &self.positions;
+        let held = crate::lanes::held(p, e, i);
+        if held.len() >= 2 {
+            return held.iter().map(|&j| z[j]).sum::<f64>() / (held.len() as f64).sqrt();
+        }
+        let x = 0.5 * (e[i] + e[i + 1]);
         let j = p.partition_point(|&q| q <= x).clamp(1, p.len() - 1);
         let t = (x - p[j - 1]) / (p[j] - p[j - 1]);
         ((1.0 - t) * z[j - 1] + t * z[j]) / ((1.0 - t).powi(2) + t * t).sqrt()
     }
 
-    /// The draw a noise-only roll takes from a lane at centre `x` (m) with posterior `draws`
-    /// (log-scales) and `pinned` scales, in realisation `z`: the one at the normal quantile of
-    /// the lane's score among its draws in the order of their effect.
-    pub fn pick(&self, z: &[f64], (draws, pinned): (&[[f64; 2]], [bool; 2]), x: f64) -> usize {
-        at_score(&by_effect(draws, key_of(pinned)), self.score(z, x))
+    /// The draw a noise-only roll takes from lane `i` between edges `e` (m), with posterior
+    /// `draws` (log-scales) and pinned scales, in realisation `z`: the one at the normal quantile
+    /// of the lane's score among its draws in the order of their effect.
+    pub fn pick(
+        &self,
+        z: &[f64],
+        draws: (&[[f64; 2]], [bool; 2]),
+        (e, i): (&[f64], usize),
+    ) -> usize {
+        at_score(&by_effect(draws.0, key_of(draws.1)), self.score(z, e, i))
     }
 }
 
@@ -133,6 +144,11 @@ mod tests {
         }
     }
 
+    /// The score of a lane 2 um wide centred on `x` (m): its centre's.
+    fn at(f: &Field, z: &[f64], x: f64) -> f64 {
+        f.score(z, &[x - 1e-6, x + 1e-6], 0)
+    }
+
     /// At a survey position the score is that position's; half way it is the mean of the two
     /// over sqrt(1/2), so every lane's score is standard normal; beyond the ends, the end
     /// segment's extrapolation weights (as the lane's data are extrapolated).
@@ -140,17 +156,26 @@ mod tests {
     fn scores_interpolate_with_unit_variance() {
         let f = field(&[0.1, 0.3, 0.5]);
         let z = [1.0, -2.0, 0.5];
-        assert_eq!(f.score(&z, 0.1), 1.0);
-        assert_eq!(f.score(&z, 0.3), -2.0);
-        assert_eq!(f.score(&z, 0.5), 0.5);
+        assert_eq!(at(&f, &z, 0.1), 1.0);
+        assert_eq!(at(&f, &z, 0.3), -2.0);
+        assert_eq!(at(&f, &z, 0.5), 0.5);
         // half a spacing before the first reading: weights 1.5 and -0.5
         let before = (1.5 * 1.0 - 0.5 * -2.0) / (1.5f64 * 1.5 + 0.25).sqrt();
-        approx::assert_relative_eq!(f.score(&z, 0.0), before, max_relative = 1e-12);
+        approx::assert_relative_eq!(at(&f, &z, 0.0), before, max_relative = 1e-12);
         // the weights are those that extrapolate the lane's data
         let (y, _) = crate::interp::linear_extrap(&[0.1, 0.3, 0.5], &z, 0.0);
         approx::assert_relative_eq!(y, 1.5 * 1.0 - 0.5 * -2.0, max_relative = 1e-12);
+        // a lane holding two readings takes their mean (the lane's data are the mean), three
+        // likewise; one on an inner edge belongs to the lane on its right
+        let e = [0.0, 0.2, 0.6];
+        approx::assert_relative_eq!(f.score(&z, &e, 1), (-2.0 + 0.5) / 2f64.sqrt());
+        approx::assert_relative_eq!(f.score(&z, &[0.0, 0.6], 0), (1.0 - 2.0 + 0.5) / 3f64.sqrt());
+        let e = [0.1, 0.3, 0.6];
+        approx::assert_relative_eq!(f.score(&z, &e, 1), (-2.0 + 0.5) / 2f64.sqrt());
+        // a lane holding one reading takes its centre's interpolation
+        approx::assert_relative_eq!(f.score(&z, &e, 0), at(&f, &z, 0.2));
         approx::assert_relative_eq!(
-            f.score(&z, 0.2),
+            at(&f, &z, 0.2),
             (0.5 * 1.0 + 0.5 * -2.0) / 0.5f64.sqrt(),
             max_relative = 1e-12
         );
@@ -160,7 +185,7 @@ mod tests {
         let (mut s2, mut sab, n) = (0.0, 0.0, 40_000);
         for _ in 0..n {
             let z = f.draw(&mut rng);
-            let (a, b) = (f.score(&z, 0.15), f.score(&z, 0.2));
+            let (a, b) = (at(&f, &z, 0.15), at(&f, &z, 0.2));
             s2 += a * a;
             sab += a * b;
         }
@@ -203,8 +228,8 @@ mod tests {
         let mut sum = 0.0;
         for _ in 0..sets {
             let z: Vec<Vec<f64>> = (0..16).map(|_| f.draw(&mut rng)).collect();
-            let a: Vec<f64> = z.iter().map(|zk| f.score(zk, 0.25)).collect();
-            let b: Vec<f64> = z.iter().map(|zk| f.score(zk, 0.5)).collect();
+            let a: Vec<f64> = z.iter().map(|zk| at(&f, zk, 0.25)).collect();
+            let b: Vec<f64> = z.iter().map(|zk| at(&f, zk, 0.5)).collect();
             let (da, db) = (rank_matched(&draws, 0, &a), rank_matched(&draws, 0, &b));
             // the draws' keys are their ranks 0..15: Spearman's rho from the rank differences
             let d2: f64 = da.iter().zip(&db).map(|(x, y)| (x[0] - y[0]).powi(2)).sum();

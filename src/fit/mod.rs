@@ -254,7 +254,7 @@ pub fn fit_roll(
     let contradictions =
         contradict::contradictions(&problems, &prior, &lanes.positions(), &lanes.widths());
     notes.extend(contradiction_notes(&contradictions));
-    let states = state_scores(case, &problems);
+    let states = state_scores(case, lanes);
     let (fits, lane_evaluations) =
         lane_fits(&problems, (prior, &pooled_post.draws), &case.id, &states)?;
     if problems.iter().all(|p| p.steps == 0) {
@@ -406,7 +406,7 @@ const FIELD_SEED_LANE: usize = (1 << 21) + 1;
 /// Each lane's score in each of the [`posterior::DRAWS`] states ([`field`]): one realisation of
 /// the survey positions' field per state, seeded from the case id; empty where the case has no
 /// survey with two positions (the lanes' draws then stay in their own random order).
-fn state_scores(case: &Case, problems: &[LaneProblem]) -> Vec<Vec<f64>> {
+fn state_scores(case: &Case, lanes: &Lanes) -> Vec<Vec<f64>> {
     use rand::SeedableRng;
     let Some(f) = field::Field::of(case) else {
         return Vec::new();
@@ -414,12 +414,9 @@ fn state_scores(case: &Case, problems: &[LaneProblem]) -> Vec<Vec<f64>> {
     let mut rng =
         rand_chacha::ChaCha8Rng::seed_from_u64(posterior::seed_for(&case.id, FIELD_SEED_LANE));
     let z: Vec<Vec<f64>> = (0..posterior::DRAWS).map(|_| f.draw(&mut rng)).collect();
-    problems
-        .iter()
-        .map(|p| {
-            let x = p.wound.lanes[p.lane].position_m;
-            z.iter().map(|zk| f.score(zk, x)).collect()
-        })
+    let e = lanes.edges_m();
+    (0..lanes.lanes.len())
+        .map(|i| z.iter().map(|zk| f.score(zk, &e, i)).collect())
         .collect()
 }
 

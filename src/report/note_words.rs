@@ -154,7 +154,7 @@ pub(super) fn lanes_coarse(n: &Note) -> String {
         return String::new();
     };
     format!(
-        "lanes up to {:.0} mm wide are wider than the caliper readings' spacing ({:.0} mm): the lanes take the profile at their centres, so a band narrower than a lane can fall between them and be weakened or missed; state lanes no wider than the spacing (lanes.count = {enough} or more) to resolve it",
+        "lanes up to {:.0} mm wide are wider than the caliper readings' spacing ({:.0} mm): a lane takes the mean of the readings it holds, or the profile at its centre where it holds one, so a band narrower than a lane is averaged over it or falls between lane centres, weakened or missed; state lanes no wider than the spacing (lanes.count = {enough} or more) to resolve it",
         lane_m * 1e3,
         spacing_m * 1e3
     )
