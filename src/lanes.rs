@@ -482,8 +482,6 @@ mod tests {
         assert_eq!(with_edge_strips(even(0.2, 10)), even(0.2, 10));
     }
 
-    /// One or two lanes: only splits (the two edge lanes share their one inner edge), never a
-    /// trim; one lane wider than two strips becomes strip, middle, strip.
     /// A lane holding two or more readings takes their mean, whose noise is one reading's over
     /// the root of their count (the standard error of a mean of independent readings); a lane
     /// holding one or none takes the profile at its centre, extrapolated beyond the readings.
@@ -512,6 +510,8 @@ mod tests {
         assert_eq!(held(&p.positions_m, &[0.0, 0.2, 0.4], 1), vec![1, 2, 3]);
     }
 
+    /// One or two lanes: only splits (the two edge lanes share their one inner edge), never a
+    /// trim; one lane wider than two strips becomes strip, middle, strip.
     #[test]
     fn one_or_two_lanes_are_split_and_never_trimmed() {
         assert_eq!(widths(&with_edge_strips(even(0.06, 2))), vec![0.03, 0.03]);

@@ -1,13 +1,14 @@
 //! Lanes narrower than the survey readings' spacing are fitted to nearly the same interpolated
 //! readings, so their posterior draws must move together across the plausible states, while
 //! lanes fitted to different readings move independently (`fit::field`). The demo roll's
-//! hardness and diameter are read at 17 positions; at 40 lanes, two or three lanes lie between
-//! two readings. The Spearman rank correlation of two lanes' MD creep draws over the 16 states
+//! hardness and diameter are read at 18 positions; at 40 lanes, two or three lanes lie between
+//! two readings. A scale pinned to the roll's value still takes the pooled posterior's draw k in
+//! state k in every lane. The Spearman rank correlation of two lanes' MD creep draws over the 16 states
 //! is compared with what the readings' noise gives: for two lanes whose data interpolate the
 //! same two readings with weights (1 - t, t), the scores' correlation rho follows from the
 //! weights, and the draws' mean rank correlation is Moran's (1948) expectation for normal scores,
-//! 6 / (pi (n + 1)) (asin rho + (n - 2) asin(rho / 2)) (from memory; checked against SciPy in
-//! `fit::field`'s unit test).
+//! 6 / (pi (n + 1)) (asin rho + (n - 2) asin(rho / 2)) (from memory; checked against a SciPy
+//! Monte Carlo in `tests/data/field/moran.py`).
 
 use rollsleuth::case::{self, Measure};
 use rollsleuth::fit::fit_roll;
@@ -88,4 +89,32 @@ fn lanes_between_the_same_readings_draw_together_and_distant_lanes_do_not() {
         mean_far.abs() < 4.0 * se + 0.02,
         "far pairs: {mean_far} (se {se})"
     );
+}
+
+/// Every lane whose MD scale is pinned to the roll's value takes the same MD value in each state
+/// (the pooled posterior's draw of that index), at the default lanes and at 40 lanes; the coated
+/// roll has such lanes.
+#[test]
+fn pinned_scales_take_the_pooled_draw_of_the_state() {
+    for sets in [vec![], vec!["lanes.count=40".to_string()]] {
+        let path = concat!(
+            env!("CARGO_MANIFEST_DIR"),
+            "/field_cases/kestrel_coated_cold_to_humid.yaml"
+        );
+        let c = case::load_file(std::path::Path::new(path), &sets).unwrap();
+        let l = lanes::build(&c);
+        let input = WindInput::new(&c.material, &c.roll, &c.winding);
+        let w = wind(&input, &l, Options::with_nodes(121)).unwrap();
+        let fit = fit_roll(&c, &l, &w, &AgeOptions::default()).unwrap();
+        let pinned: Vec<&Vec<[f64; 2]>> = (fit.lanes.iter())
+            .filter(|f| f.pinned[0] && f.draws_theta.len() == 16)
+            .map(|f| &f.draws_theta)
+            .collect();
+        assert!(pinned.len() >= 2, "{sets:?}: {} pinned lanes", pinned.len());
+        for d in &pinned[1..] {
+            for k in 0..16 {
+                assert_eq!(d[k][0], pinned[0][k][0], "{sets:?}: state {k}");
+            }
+        }
+    }
 }

@@ -2,7 +2,8 @@
 //! lengths with intervals, and how well the model explains each lane's measurements.
 //!
 //! - **States.** Each lane's creep posterior ([`crate::fit::posterior`]) gives draws; state k takes
-//!   draw k of every lane (the lanes' posteriors are independent given the pooled scales) and runs
+//!   draw k of every lane (put in state order so that lanes fitted to the same survey readings
+//!   move together, [`crate::fit::field`]; a pinned scale takes the pooled draw k) and runs
 //!   the roll through storage to unwind. A finding's probability is the share of states in which
 //!   every condition of its rule holds; each lane's length at unwind gets a standard deviation and
 //!   5 %/95 % quantiles over the states.

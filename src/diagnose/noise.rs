@@ -11,6 +11,7 @@ use super::features::{self, Features};
 use super::profile_test::{band_test, web_test, BandTest};
 use super::{DiagnoseError, Fitted};
 use crate::case::{Case, Measure};
+use crate::fit::field::{coupled, Field};
 use crate::fit::posterior::normal;
 use crate::fit::{creep_from, posterior, prepared, FitError};
 use crate::lanes::Lanes;
@@ -415,11 +416,8 @@ fn noisy_creep(
     (fit, e): (&crate::fit::RollFit, &[f64]),
     rng: &mut ChaCha8Rng,
 ) -> Vec<LaneCreep> {
-    let pooled = [
-        fit.pooled_md_creep_scale.ln(),
-        fit.pooled_radial_creep_scale.ln(),
-    ];
-    let field = crate::fit::field::Field::of(lab).map(|f| (f.draw(rng), f));
+    let pooled = [fit.pooled_md_creep_scale, fit.pooled_radial_creep_scale].map(f64::ln);
+    let field = Field::of(lab).map(|f| (f.draw(rng), f));
     (fit.lanes.iter().enumerate())
         .map(|(i, l)| {
             let n = l.draws_theta.len();
@@ -427,8 +425,8 @@ fn noisy_creep(
                 pooled
             } else {
                 let k = match &field {
-                    Some((z, f)) => f.pick(z, (&l.draws_theta, l.pinned), (e, i)),
-                    None => rng.random_range(0..n),
+                    Some((z, f)) if coupled(l.pinned) => f.pick(z, &l.draws_theta, (e, i)),
+                    _ => rng.random_range(0..n),
                 };
                 let d = l.draws_theta[k];
                 // a scale pinned to the roll's value moves with the roll, not per lane

@@ -12,9 +12,10 @@ use crate::storage::{age_lane_pack, LaneAged, LaneCreep, LaneRun, Track};
 /// making lane-to-lane differences the data do not show. Without pooled draws the scale stays at
 /// the pooled optimum.
 ///
-/// With `scores` (the lane's score in each state, as many as the draws) the lane's own draws are
-/// first put in state order by them ([`super::field::rank_matched`]), so that lanes fitted to
-/// the same survey readings move together; else they keep their seeded random order.
+/// With `scores` (the lane's score in each state, as many as the draws) and the lane's MD scale
+/// its own, the lane's own draws are first put in state order by them
+/// ([`super::field::rank_matched`]), so that lanes fitted to the same survey readings move
+/// together; else they keep their seeded random order.
 pub(super) fn pinned_draws(
     material: &Material,
     post: &crate::fit::posterior::Posterior,
@@ -22,8 +23,9 @@ pub(super) fn pinned_draws(
     (pinned, pooled_draws): ([bool; 2], &[[f64; 2]]),
     scores: Option<&[f64]>,
 ) -> (Vec<LaneCreep>, Vec<[f64; 2]>) {
-    let own = match scores.filter(|s| s.len() == post.draws.len()) {
-        Some(s) => super::field::rank_matched(&post.draws, super::field::key_of(pinned), s),
+    let own = match scores.filter(|s| s.len() == post.draws.len() && super::field::coupled(pinned))
+    {
+        Some(s) => super::field::rank_matched(&post.draws, s),
         None => post.draws.clone(),
     };
     let t: Vec<[f64; 2]> = (own.iter().enumerate())

@@ -12,11 +12,16 @@
 //! position (one field per state or noise roll), carried to each lane centre with the weights
 //! that interpolate its data (linear within the segment it lies in, extrapolated from the end
 //! segment beyond the ends) and scaled back to unit variance. The score's correlation between two lanes is the
-//! correlation of their data noise. A lane's draws are then put in the order of their effect
-//! (the log-scale of the lane's own creep that is not pinned to the roll's) and matched to the
-//! states by the ranks of the lane's scores, which keeps each lane's draws exactly and induces
-//! the rank correlation of the scores between lanes (Iman and Conover 1982). A noise-only roll
-//! takes from each lane the draw at the normal quantile of the lane's score.
+//! correlation of their data noise. A lane's data are its centre's interpolation, or the mean of
+//! the readings it holds where it holds two or more ([`crate::lanes`]), and its score is made the
+//! same way. A lane's draws are then put in the order of their MD log-scale (the creep that sets
+//! its length at unwind) and matched to the states by the ranks of the lane's scores, which keeps
+//! each lane's draws exactly and induces the rank correlation of the scores between lanes (Iman
+//! and Conover 1982). A noise-only roll takes from each lane the draw at the normal quantile of
+//! the lane's score. Only the MD scale is coupled: a lane's radial draws follow its MD draws as
+//! its posterior correlates them, and a lane whose MD scale is pinned to the roll's value draws
+//! independently (its radial scale is not tied to a neighbour's MD scale). The whole of a
+//! lane's posterior spread is coupled, the prior's part with the data's.
 
 use super::posterior::normal;
 use crate::case::{Case, Measure};
@@ -85,37 +90,34 @@ impl Field {
     }
 
     /// The draw a noise-only roll takes from lane `i` between edges `e` (m), with posterior
-    /// `draws` (log-scales) and pinned scales, in realisation `z`: the one at the normal quantile
-    /// of the lane's score among its draws in the order of their effect.
-    pub fn pick(
-        &self,
-        z: &[f64],
-        draws: (&[[f64; 2]], [bool; 2]),
-        (e, i): (&[f64], usize),
-    ) -> usize {
-        at_score(&by_effect(draws.0, key_of(draws.1)), self.score(z, e, i))
+    /// `draws` (log-scales), in realisation `z`: the one at the normal quantile of the lane's
+    /// score among its draws in the order of their MD log-scale.
+    pub fn pick(&self, z: &[f64], draws: &[[f64; 2]], (e, i): (&[f64], usize)) -> usize {
+        at_score(&by_effect(draws), self.score(z, e, i))
     }
 }
 
-/// The component of a lane's log-scales whose draws order them: the MD scale unless it is
-/// pinned to the roll's value, else the radial.
-pub fn key_of(pinned: [bool; 2]) -> usize {
-    usize::from(pinned[0] && !pinned[1])
+/// Whether a lane's draws are coupled to the field: its MD creep scale is its own (not pinned to
+/// the roll's value). The draws are ordered by the MD scale, the one that sets a lane's length at
+/// unwind; a lane whose MD scale is pinned keeps its radial draws independent of its neighbours'
+/// (ordering them by the radial scale would tie one lane's radial scale to another's MD).
+pub fn coupled(pinned: [bool; 2]) -> bool {
+    !pinned[0]
 }
 
-/// Indices of `draws` in increasing order of component `key` (ties in their given order).
-pub fn by_effect(draws: &[[f64; 2]], key: usize) -> Vec<usize> {
+/// Indices of `draws` in increasing order of their MD log-scale (ties in their given order).
+pub fn by_effect(draws: &[[f64; 2]]) -> Vec<usize> {
     let mut idx: Vec<usize> = (0..draws.len()).collect();
-    idx.sort_by(|&a, &b| draws[a][key].total_cmp(&draws[b][key]));
+    idx.sort_by(|&a, &b| draws[a][0].total_cmp(&draws[b][0]));
     idx
 }
 
 /// `draws` put in state order: the state with the r-th smallest score takes the draw with the
-/// r-th smallest component `key` (ties among scores in state order). Scores must be as many as
+/// r-th smallest MD log-scale (ties among scores in state order). Scores must be as many as
 /// draws.
-pub fn rank_matched(draws: &[[f64; 2]], key: usize, scores: &[f64]) -> Vec<[f64; 2]> {
+pub fn rank_matched(draws: &[[f64; 2]], scores: &[f64]) -> Vec<[f64; 2]> {
     debug_assert_eq!(draws.len(), scores.len());
-    let sorted = by_effect(draws, key);
+    let sorted = by_effect(draws);
     let mut states: Vec<usize> = (0..scores.len()).collect();
     states.sort_by(|&a, &b| scores[a].total_cmp(&scores[b]));
     let mut out = draws.to_vec();
@@ -128,6 +130,7 @@ pub fn rank_matched(draws: &[[f64; 2]], key: usize, scores: &[f64]) -> Vec<[f64;
 /// The draw a noise-only roll takes from a lane whose score is `u`: the one at the normal
 /// quantile of `u` among the lane's draws in the order of `by_effect`.
 pub fn at_score(sorted: &[usize], u: f64) -> usize {
+    debug_assert!(u.is_finite(), "a lane's score is a finite normal draw");
     let q = crate::stats::normal_sf(-u);
     let n = sorted.len();
     sorted[((q * n as f64) as usize).min(n - 1)]
@@ -151,7 +154,9 @@ mod tests {
 
     /// At a survey position the score is that position's; half way it is the mean of the two
     /// over sqrt(1/2), so every lane's score is standard normal; beyond the ends, the end
-    /// segment's extrapolation weights (as the lane's data are extrapolated).
+    /// segment's extrapolation weights (as the lane's data are extrapolated). The variance and
+    /// correlation checked are those of weighted sums of independent standard normals,
+    /// sum w_i^2 and sum w_i v_i (textbook probability).
     #[test]
     fn scores_interpolate_with_unit_variance() {
         let f = field(&[0.1, 0.3, 0.5]);
@@ -205,20 +210,17 @@ mod tests {
     fn rank_matching_permutes_the_draws_by_the_scores() {
         let draws = [[3.0, 0.0], [1.0, 9.0], [2.0, 5.0], [0.0, 7.0]];
         let scores = [0.2, -1.0, 1.5, 0.0];
-        let out = rank_matched(&draws, 0, &scores);
+        let out = rank_matched(&draws, &scores);
         assert_eq!(out, vec![[2.0, 5.0], [0.0, 7.0], [3.0, 0.0], [1.0, 9.0]]);
-        // ordered by the radial component when the MD one is pinned
-        assert_eq!(key_of([true, false]), 1);
-        assert_eq!(key_of([false, true]), 0);
-        let out = rank_matched(&draws, 1, &scores);
-        assert_eq!(out, vec![[0.0, 7.0], [3.0, 0.0], [1.0, 9.0], [2.0, 5.0]]);
+        // a lane whose MD scale is pinned is not coupled
+        assert!(coupled([false, true]) && !coupled([true, false]));
     }
 
     /// Rank matching induces between two lanes the rank correlation of their scores: over
     /// states of 16, the mean Spearman correlation of two lanes' draws is Moran's (1948)
     /// expectation for normal scores of correlation rho, 6 / (pi (n + 1)) (asin rho + (n - 2)
     /// asin(rho / 2)) (from memory; a SciPy 1.17.1 Monte Carlo of 20,000 sets gave 0.8531
-    /// against the formula's 0.8536 for the weights below).
+    /// against the formula's 0.8536 for the weights below: `tests/data/field/moran.py`).
     #[test]
     fn rank_matching_carries_the_scores_correlation_to_the_draws() {
         let f = field(&[0.0, 1.0]);
@@ -230,7 +232,7 @@ mod tests {
             let z: Vec<Vec<f64>> = (0..16).map(|_| f.draw(&mut rng)).collect();
             let a: Vec<f64> = z.iter().map(|zk| at(&f, zk, 0.25)).collect();
             let b: Vec<f64> = z.iter().map(|zk| at(&f, zk, 0.5)).collect();
-            let (da, db) = (rank_matched(&draws, 0, &a), rank_matched(&draws, 0, &b));
+            let (da, db) = (rank_matched(&draws, &a), rank_matched(&draws, &b));
             // the draws' keys are their ranks 0..15: Spearman's rho from the rank differences
             let d2: f64 = da.iter().zip(&db).map(|(x, y)| (x[0] - y[0]).powi(2)).sum();
             sum += 1.0 - 6.0 * d2 / (n * (n * n - 1.0));
@@ -245,7 +247,9 @@ mod tests {
         );
     }
 
-    /// A noise-only roll's pick at a standard normal score takes each draw equally often.
+    /// A noise-only roll's pick at a standard normal score takes each draw equally often: the
+    /// normal distribution function of a standard normal is uniform (the probability integral
+    /// transform, textbook).
     #[test]
     fn a_quantile_pick_is_uniform_over_the_draws() {
         let sorted: Vec<usize> = (0..16).collect();

@@ -60,8 +60,8 @@ pub struct Posterior {
     pub low: [f64; 2],
     pub high: [f64; 2],
     /// [`DRAWS`] draws kept for propagation: a seeded random member of each of `DRAWS` equal
-    /// slices of the pseudo-draws (so of the posterior's mass), in a seeded random order, so
-    /// that draw k of one lane is independent of draw k of another (states pair them by index).
+    /// slices of the pseudo-draws (so of the posterior's mass), in a seeded random order (the
+    /// fit then puts a lane's draws in state order, [`super::field`]; states pair them by index).
     pub draws: Vec<[f64; 2]>,
     /// Nodes of the quadrature grid.
     pub nodes: usize,
