@@ -32,17 +32,22 @@ pub fn linear_flat(points: &[(f64, f64)], x: f64) -> f64 {
 /// readings, so no lane counts as better than one reading; beyond them the end segment's slope
 /// amplifies the noise: 1.58 at half a reading spacing out).
 pub fn noise_gain(xs: &[f64], x: f64) -> f64 {
+    segment(xs, x).map_or(1.0, |(_, w)| ((1.0 - w).powi(2) + w * w).sqrt().max(1.0))
+}
+
+/// The segment of `xs` (sorted) that [`linear_extrap`] reads at `x`: the index of its upper
+/// end (the segment runs from `xs[i - 1]` to `xs[i]`; beyond the readings, the end segment) and
+/// how far along it `x` lies (below 0 or above 1 beyond the ends), so that the value there is
+/// the readings' weights 1 - w and w. `None` with fewer than two readings or a segment of no
+/// length.
+pub fn segment(xs: &[f64], x: f64) -> Option<(usize, f64)> {
     let n = xs.len();
     if n < 2 {
-        return 1.0;
+        return None;
     }
     let i = xs.partition_point(|&p| p <= x).clamp(1, n - 1);
     let (x0, x1) = (xs[i - 1], xs[i]);
-    if x1 - x0 <= 0.0 {
-        return 1.0;
-    }
-    let w = (x - x0) / (x1 - x0);
-    ((1.0 - w).powi(2) + w * w).sqrt().max(1.0)
+    (x1 - x0 > 0.0).then(|| (i, (x - x0) / (x1 - x0)))
 }
 
 /// Linear interpolation of `ys` at `xs` (sorted) onto `x`, extrapolating linearly from the end

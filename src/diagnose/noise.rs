@@ -409,15 +409,16 @@ pub(super) fn flattened_features(
 /// Creep per lane of a noise-only roll: the pooled log-scales moved by one of the lane's own
 /// posterior draws' deviations from its fitted log-scales, so the correlation of the two scales
 /// is kept; a scale the data do not identify does not move. The draw is the one at the normal
-/// quantile of the lane's score in the survey readings' field ([`crate::fit::field`]: lanes on
-/// `e`, edges, that share readings move together), else a random draw per lane.
+/// quantile of the lane's score in a realisation of the survey readings' `field`
+/// ([`crate::fit::field`]: lanes on `e`, edges, that share readings move together), else a
+/// random draw per lane.
 fn noisy_creep(
     lab: &Case,
-    (fit, e): (&crate::fit::RollFit, &[f64]),
+    (fit, field, e): (&crate::fit::RollFit, Option<&Field>, &[f64]),
     rng: &mut ChaCha8Rng,
 ) -> Vec<LaneCreep> {
     let pooled = [fit.pooled_md_creep_scale, fit.pooled_radial_creep_scale].map(f64::ln);
-    let field = Field::of(lab).map(|f| (f.draw(rng), f));
+    let field = field.map(|f| (f.draw(rng), f));
     (fit.lanes.iter().enumerate())
         .map(|(i, l)| {
             let n = l.draws_theta.len();
@@ -461,11 +462,12 @@ fn noise_rolls(
     rng: &mut ChaCha8Rng,
 ) -> Result<Vec<Features>, DiagnoseError> {
     use rayon::prelude::*;
-    let edges = fitted.lanes.edges_m();
+    let (edges, field) = (fitted.lanes.edges_m(), Field::of(lab));
     let inputs: Vec<(Lanes, Vec<LaneCreep>)> = (0..NOISE_ROLLS)
         .map(|_| {
             let l = uniform_lanes(lab, &fitted.lanes, Some((&mut *rng, rep)));
-            (l, noisy_creep(lab, (&fitted.fit, &edges), &mut *rng))
+            let on = (&fitted.fit, field.as_ref(), edges.as_slice());
+            (l, noisy_creep(lab, on, &mut *rng))
         })
         .collect();
     let rolls: Vec<Stored> = inputs

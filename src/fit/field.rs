@@ -83,9 +83,8 @@ impl Field {
         if held.len() >= 2 {
             return held.iter().map(|&j| z[j]).sum::<f64>() / (held.len() as f64).sqrt();
         }
-        let x = 0.5 * (e[i] + e[i + 1]);
-        let j = p.partition_point(|&q| q <= x).clamp(1, p.len() - 1);
-        let t = (x - p[j - 1]) / (p[j] - p[j - 1]);
+        // the positions are distinct, so every segment has a length
+        let (j, t) = crate::interp::segment(p, 0.5 * (e[i] + e[i + 1])).unwrap_or((1, 0.0));
         ((1.0 - t) * z[j - 1] + t * z[j]) / ((1.0 - t).powi(2) + t * t).sqrt()
     }
 
