@@ -89,7 +89,7 @@ fn surveyed(name: &str, lanes: usize) -> Vec<Defect> {
 /// readings' slope) are conical rolls although the creep the surveys leave unresolved puts local
 /// peaks of a few tenths of the running strain on the lanes of each plausible state. Their thick
 /// end is no gauge band: it stands over the readings' median and over its neighbours, all on its
-/// thin side, but not over the straight line through the other readings (the band test's line
+/// thin side, but not over the straight line through the other readings (the band test's trend
 /// leg; the deleted residual of Cook and Weisberg 1982, from memory).
 #[test]
 fn a_surveyed_caliper_wedge_is_a_conical_roll_at_every_lane_count() {
@@ -120,6 +120,28 @@ fn a_dished_roll_is_not_conical() {
     }
 }
 
+/// A dish of 5 % (both edges 3.9 um, about 8 standard deviations of a reading, thicker than the
+/// centre) winds baggy edges (thick edges take more wound-in tension and creep longer; common
+/// practice) and is no gauge band, no one-sided edge and no conical roll: its edges stand over
+/// their neighbours, all on their thin side, and over the straight line through the other
+/// readings, but not over the parabola those readings bend along (the band test's trend leg:
+/// the others' quadratic coefficient stands more than three standard errors from zero; the
+/// deleted residual of Cook and Weisberg 1982, from memory). A smooth profile is not a band.
+#[test]
+fn a_dish_is_baggy_edges_and_no_band() {
+    for n in [8, 17, 40] {
+        let found = surveyed("dish_5pct", n);
+        assert!(found.contains(&Defect::BaggyEdges), "{n} lanes: {found:?}");
+        for not in [
+            Defect::GaugeBands,
+            Defect::BaggyOneEdge,
+            Defect::ConicalRoll,
+        ] {
+            assert!(!found.contains(&not), "{n} lanes: {found:?}");
+        }
+    }
+}
+
 /// One band 5 % thick near the back edge is a long lane there, not a roll tilted from side to
 /// side.
 #[test]
@@ -136,8 +158,9 @@ fn a_band_near_one_edge_is_not_a_conical_roll() {
 
 /// The back edge 4 % thick over its outer 250 mm (two readings, about 6 standard deviations) is a
 /// gauge band and a baggy edge on that side at every lane count: the two readings together stand
-/// over the straight line through the others (the band test's line leg holds bands of up to three
-/// readings out of the line it judges them against); the edge strip unwinds longer than the web
+/// over the straight line through the others (the band test's trend leg holds bands of up to
+/// three readings out of the trend it judges them against, and the others are level, so it is
+/// a line); the edge strip unwinds longer than the web
 /// inward of it by about the running strain T/(E h), where a lane runs slack (common practice);
 /// and the roll is not taken for a conical one. A dish (both edges thick alike) is no one-sided
 /// edge. A complaint of baggy edges agrees with it (the complainant saw an edge baggy).

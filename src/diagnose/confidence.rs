@@ -56,8 +56,8 @@ pub use super::noise::{
     noise_nodes, noise_options, FeatureFloor, FAMILY_LEVEL, FLOOR_QUANTILE, NOISE_CORE_GROWTH,
     NOISE_NODES, NOISE_ROLLS, STEP_FOLLOWS,
 };
-use super::profile_test::caliper_unevenness;
 pub use super::profile_test::BAND_DRAWS;
+use super::unevenness::caliper_unevenness;
 use super::{DiagnoseError, Finding, Fitted};
 use crate::case::{Case, Measure};
 use crate::fit::{posterior, prepared, with_lab_creep, FitError};

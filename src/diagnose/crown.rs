@@ -7,7 +7,7 @@
 //! so a broad crown that the readings show many times above their repeatability can still sit
 //! inside that floor. A crown spreads over every reading: its quadratic component across the
 //! width (the readings projected on the degree-2 polynomial of position made orthonormal over
-//! them, [`super::profile_test::poly_basis`]) is normal with the repeatability as its standard
+//! them, [`super::unevenness::poly_basis`]) is normal with the repeatability as its standard
 //! deviation when the profile is level (the low-order components of Neyman's smooth test;
 //! Neyman 1937, Skandinavisk Aktuarietidskrift 20:149-199, from memory).
 //!
@@ -26,7 +26,8 @@
 
 use super::features;
 use super::noise::{rests_on_web, Side};
-use super::profile_test::{caliper_readings, poly_basis};
+use super::profile_test::caliper_readings;
+use super::unevenness::poly_basis;
 use super::{DiagnoseError, Fitted};
 use crate::case::Case;
 use crate::fit::{prepared, FitError};

@@ -10,11 +10,12 @@ pub mod confidence;
 pub mod corrections;
 mod crown;
 pub mod features;
-mod line_scan;
 pub mod local;
 mod noise;
 mod profile_test;
 pub mod quantity;
+mod trend_scan;
+mod unevenness;
 pub mod unwind;
 mod whatif;
 

@@ -1,7 +1,7 @@
 #!/usr/bin/env python3
 """Make the invented rolls of tests/one_sided_roll.rs (made-up mill: Ashcombe PM1, newsprint).
 
-    ROLLSLEUTH=target/release/rollsleuth python3 tests/data/one_sided/make_cases.py
+    ROLLSLEUTH=target/release/rollsleuth python3 tests/data/one_sided/make_cases.py [NAME ...]
 
 Each roll has a caliper profile of 15 readings with Gaussian reading noise at the stated
 repeatability (seeded), and hardness and diameter surveys at winding and after storage
@@ -19,6 +19,7 @@ CASES = {
     'wedge_4pct': ('Caliper wedge, back side 4 % thick', lambda x: 0.04 * x / W, 11),
     'wedge_6pct': ('Caliper wedge, back side 6 % thick', lambda x: 0.06 * x / W, 12),
     'dish_3pct': ('Dished caliper, both edges 3 % thick', lambda x: 0.03 * (2 * x / W - 1) ** 2, 13),
+    'dish_5pct': ('Dished caliper, both edges 5 % thick', lambda x: 0.05 * (2 * x / W - 1) ** 2, 16),
     'back_band': ('One band 5 % thick near the back edge', lambda x: 0.05 if abs(x - 1500) <= 100 else 0.0, 14),
     'thick_back_edge': ('Back edge 4 % thick over its outer 250 mm', lambda x: 0.04 if x > W - 250 else 0.0, 15),
 }
@@ -76,6 +77,6 @@ def make(name, title, shape, seed):
 
 
 if __name__ == '__main__':
-    for name, (title, shape, seed) in CASES.items():
-        make(name, title, shape, seed)
+    for name in sys.argv[1:] or CASES:
+        make(name, *CASES[name])
         print(name, file=sys.stderr)
