@@ -191,6 +191,29 @@ pub fn chi2_sf(x: f64, k: f64) -> f64 {
     gamma_q(0.5 * k, 0.5 * x)
 }
 
+/// Upper quantile of the chi-square law with `k` degrees of freedom: the `x` with
+/// P(X >= x) = `p` (0 < p < 1), by bisection on [`chi2_sf`] to a relative 1e-12 (a fixed
+/// bracket and iteration count, deterministic).
+pub fn chi2_isf(p: f64, k: f64) -> f64 {
+    let (mut lo, mut hi) = (0.0_f64, k.max(1.0));
+    while chi2_sf(hi, k) > p && hi < 1e12 {
+        lo = hi;
+        hi *= 2.0;
+    }
+    for _ in 0..200 {
+        let mid = 0.5 * (lo + hi);
+        if chi2_sf(mid, k) > p {
+            lo = mid;
+        } else {
+            hi = mid;
+        }
+        if hi - lo <= 1e-12 * hi {
+            break;
+        }
+    }
+    0.5 * (lo + hi)
+}
+
 /// Upper tail P(Z >= z) of the standard normal law, from the chi-square law on one degree of
 /// freedom: Z^2 is chi-square(1), so P(Z >= z) = Q(1/2, z^2/2) / 2 for z >= 0 (Abramowitz and
 /// Stegun 1964, 26.2.30 with 26.4.19, from memory). Not a number for a `z` that is not.
@@ -289,6 +312,21 @@ mod tests {
         assert!((normal_isf(0.975) + 1.959_964).abs() < 1e-6);
         assert_eq!(normal_isf(0.0), f64::INFINITY);
         assert!(normal_isf(1.5).is_nan() && normal_sf(f64::NAN).is_nan());
+    }
+
+    /// Chi-square upper quantiles at 0.001 (SciPy 1.17.1, `chi2.isf(0.001, k)`).
+    #[test]
+    fn chi2_upper_quantiles_match_scipy() {
+        for (k, want) in [
+            (1.0, 10.827_566_170_662_733),
+            (3.0, 16.266_236_196_238_13),
+            (6.0, 22.457_744_484_825_323),
+            (12.0, 32.909_490_407_360_21),
+            (27.0, 55.476_020_205_745_21),
+        ] {
+            let got = chi2_isf(0.001, k);
+            assert!((got / want - 1.0).abs() < 1e-9, "k {k}: {got} vs {want}");
+        }
     }
 
     /// Equal weights give the ordinary Theil-Sen slope (SciPy 1.17.1, `scipy.stats.theilslopes`:

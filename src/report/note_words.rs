@@ -32,7 +32,7 @@ fn needs(
 ) -> String {
     use crate::note::NoiseBasis;
     match basis {
-        NoiseBasis::CaliperReadings => "; judged on the caliper readings themselves (a band of one to three readings against the trend through the others, a line or, where they bend, a parabola, and a reading against its eight nearest, by their repeatability), which do not stand above noise".into(),
+        NoiseBasis::CaliperReadings => "; judged on the caliper readings themselves (a band of one to three readings against the trend through the others, a line or, where they bend along one, a parabola, and a reading against its eight nearest, by their repeatability), which do not stand above noise".into(),
         NoiseBasis::WebProfile => "; judged on the web's tension or moisture profile at winding, which does not stand above noise".into(),
         NoiseBasis::CaliperCrown => "; judged on the caliper readings' crown across the width, which does not stand above noise".into(),
         NoiseBasis::NoiseRolls => {
