@@ -112,14 +112,21 @@ pub fn student_t_isf(p: f64, nu: f64) -> f64 {
     if p >= 0.5 {
         return -student_t_isf(1.0 - p, nu);
     }
-    let (mut lo, mut hi) = (0.0_f64, 1.0_f64);
-    while student_t_sf(hi, nu) > p && hi < 1e12 {
+    upper_point(p, |t| student_t_sf(t, nu), 1.0)
+}
+
+/// The `x` >= 0 with `sf(x)` = `p` for a decreasing tail `sf`, by bisection to a relative 1e-12:
+/// the bracket [0, `hi`] doubled until it holds the point, then at most 200 halvings (a fixed
+/// order of operations, deterministic).
+fn upper_point(p: f64, sf: impl Fn(f64) -> f64, hi: f64) -> f64 {
+    let (mut lo, mut hi) = (0.0_f64, hi);
+    while sf(hi) > p && hi < 1e12 {
         lo = hi;
         hi *= 2.0;
     }
     for _ in 0..200 {
         let mid = 0.5 * (lo + hi);
-        if student_t_sf(mid, nu) > p {
+        if sf(mid) > p {
             lo = mid;
         } else {
             hi = mid;
@@ -192,26 +199,9 @@ pub fn chi2_sf(x: f64, k: f64) -> f64 {
 }
 
 /// Upper quantile of the chi-square law with `k` degrees of freedom: the `x` with
-/// P(X >= x) = `p` (0 < p < 1), by bisection on [`chi2_sf`] to a relative 1e-12 (a fixed
-/// bracket and iteration count, deterministic).
+/// P(X >= x) = `p` (0 < p < 1), by bisection on [`chi2_sf`] (`upper_point`).
 pub fn chi2_isf(p: f64, k: f64) -> f64 {
-    let (mut lo, mut hi) = (0.0_f64, k.max(1.0));
-    while chi2_sf(hi, k) > p && hi < 1e12 {
-        lo = hi;
-        hi *= 2.0;
-    }
-    for _ in 0..200 {
-        let mid = 0.5 * (lo + hi);
-        if chi2_sf(mid, k) > p {
-            lo = mid;
-        } else {
-            hi = mid;
-        }
-        if hi - lo <= 1e-12 * hi {
-            break;
-        }
-    }
-    0.5 * (lo + hi)
+    upper_point(p, |x| chi2_sf(x, k), k.max(1.0))
 }
 
 /// Upper tail P(Z >= z) of the standard normal law, from the chi-square law on one degree of
