@@ -1,14 +1,14 @@
 //! Lanes narrower than the survey readings' spacing are fitted to nearly the same interpolated
-//! readings, so their posterior draws must move together across the plausible states, while
-//! lanes fitted to different readings move independently (`fit::field`). The demo roll's
-//! hardness and diameter are read at 18 positions; at 40 lanes, two or three lanes lie between
-//! two readings. A scale pinned to the roll's value still takes the pooled posterior's draw k in
-//! state k in every lane. The Spearman rank correlation of two lanes' MD creep draws over the 16 states
-//! is compared with what the readings' noise gives: for two lanes whose data interpolate the
-//! same two readings with weights (1 - t, t), the scores' correlation rho follows from the
-//! weights, and the draws' mean rank correlation is Moran's (1948) expectation for normal scores,
-//! 6 / (pi (n + 1)) (asin rho + (n - 2) asin(rho / 2)) (from memory; checked against a SciPy
-//! Monte Carlo in `tests/data/field/moran.py`).
+//! readings, so their posterior draws must move together across the plausible states, while lanes
+//! fitted to different readings move independently (`fit::field`). The demo roll's hardness and
+//! diameter are read at 18 positions; at 40 lanes, two or three lanes lie between two readings. A
+//! scale pinned to the roll's value still takes the pooled posterior's draw k in state k in every
+//! lane. The Spearman rank correlation of two lanes' MD creep draws over the 16 states is compared
+//! with what the readings' noise gives: for two lanes whose data interpolate the same two readings
+//! with weights (1 - t, t), the scores' correlation rho follows from the weights, and the draws'
+//! mean rank correlation is Moran's (1948) expectation for normal scores, 6 / (pi (n + 1)) (asin
+//! rho + (n - 2) asin(rho / 2)) (from memory; checked against a SciPy Monte Carlo in
+//! `tests/data/field/moran.py`).
 
 use rollsleuth::case::{self, Measure};
 use rollsleuth::fit::fit_roll;

@@ -254,15 +254,15 @@ pub(super) fn band_test(lab: &Case, lanes: &Lanes, rep: f64, level: f64) -> Band
 }
 
 /// The band test of caliper `readings` on grid `at` with repeatability `rep` at `level`: a band
-/// must stand out both from the trend through the other readings and a reading from the
-/// median of its [`NEIGHBOURS`] nearest readings ([`Outlying::ThickOverTrend`],
-/// [`Outlying::Thick`]); the larger of the two
-/// chances (an intersection-union test, whose size is at most either test's: Berger 1982,
-/// Technometrics 24:295-300, from memory). The first alone takes the thick parts of a profile
-/// bent more than a parabola (or a crown's thick centre, with too few readings for a quadratic)
-/// for a band, the second alone loses power against a band with shoulders (its neighbours' median is
-/// noisier and sits on the shoulders) and takes a wedge's thick end or a dish's thick edges for
-/// one (their neighbours all lie on their thin side). Its threshold is the larger of the two.
+/// must stand out both from the trend through the other readings and a reading from the median of
+/// its [`NEIGHBOURS`] nearest readings ([`Outlying::ThickOverTrend`], [`Outlying::Thick`]); the
+/// larger of the two chances (an intersection-union test, whose size is at most either test's:
+/// Berger 1982, Technometrics 24:295-300, from memory). The first alone takes the thick parts of a
+/// profile bent more than a parabola (or a crown's thick centre, with too few readings for a
+/// quadratic) for a band, the second alone loses power against a band with shoulders (its
+/// neighbours' median is noisier and sits on the shoulders) and takes a wedge's thick end or a
+/// dish's thick edges for one (their neighbours all lie on their thin side). Its threshold is the
+/// larger of the two.
 fn thick_band(readings: &[f64], at: &[i64], rep: f64, level: f64) -> BandTest {
     let a = outlier_test(readings, at, rep, level, Outlying::Thick);
     let b = outlier_test(readings, at, rep, level, Outlying::ThickOverTrend);

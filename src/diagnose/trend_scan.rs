@@ -1,14 +1,14 @@
 //! The trend leg of the caliper band test ([`super::profile_test`]): how far a band of a few
 //! adjacent readings stands over the least-squares trend through the readings outside it, a
 //! straight line against position, or a quadratic where those readings are bent beyond noise
-//! ([`CURVATURE_SIGMAS`]) and lie on it ([`FIT_CHANCE`]). A wedge's thick end and a dish's thick edges stand over the
-//! readings' median and over their neighbours without any band (their neighbours all lie on
-//! their thin side), but not over that trend: a wedge is a line, a crown or dish close to a
-//! parabola, and it bends the readings around any band as much as itself. A quadratic for every
-//! band would cost power at the ends, where it extrapolates: a noise-free band of two readings 7
-//! repeatabilities thick at the end of 15 stands 7.4 over the line through the others, 5.2 over
-//! their quadratic. Thick readings at both edges bend the readings outside either band, but do
-//! not lie on a parabola with them, so each band is held against the line.
+//! ([`CURVATURE_SIGMAS`]) and lie on it ([`FIT_CHANCE`]). A wedge's thick end and a dish's thick
+//! edges stand over the readings' median and over their neighbours without any band (their
+//! neighbours all lie on their thin side), but not over that trend: a wedge is a line, a crown or
+//! dish close to a parabola, and it bends the readings around any band as much as itself. A
+//! quadratic for every band would cost power at the ends, where it extrapolates: a noise-free band
+//! of two readings 7 repeatabilities thick at the end of 15 stands 7.4 over the line through the
+//! others, 5.2 over their quadratic. Thick readings at both edges bend the readings outside either
+//! band, but do not lie on a parabola with them, so each band is held against the line.
 
 /// Widest band, in readings, that [`over_trend`] holds against the trend through the readings
 /// outside it (a band of one to three readings: a gauge band is a few readings wide, a
@@ -42,17 +42,18 @@ pub(super) fn index_grid(n: usize) -> Vec<i64> {
     (0..n as i64).map(|i| i * GRID_UNIT as i64).collect()
 }
 
-/// The largest excess of a band of 1 to [`TREND_BAND`] adjacent readings `v` over the
-/// least-squares trend (against their positions, on [`grid`] `at`) through the readings outside
-/// it (a line, or a quadratic where they are bent: [`CURVATURE_SIGMAS`]), in units of that excess's standard deviation in the readings' own:
-/// for a band B of k readings, (mean of B - the fitted trend's mean over B) / sqrt(1/k +
-/// f^T (X^T X)^-1 f), with X the others' design matrix and f the mean over B of its rows, the
-/// error of predicting a mean of k new readings from a fitted regression (Draper and Smith
-/// 1998, "Applied Regression Analysis", 3rd ed., sections 3.1 and 5.1, from memory; for k = 1
-/// the deleted residual of Cook and Weisberg 1982). Each is about standard normal on a level profile
-/// of unit noise, and a band does not move the trend it is judged against. `v` is in units of
-/// the readings' repeatability ([`CURVATURE_SIGMAS`] reads it so). At least one reading
-/// more than the trend has coefficients stays outside a band. 0 when none lies above its trend.
+/// The largest excess of a band of 1 to [`TREND_BAND`] adjacent readings `v` over the least-squares
+/// trend (against their positions, on [`grid`] `at`) through the readings outside it (a line, or a
+/// quadratic where they are bent, [`CURVATURE_SIGMAS`], and lie on it, [`FIT_CHANCE`]), in units
+/// of that excess's standard deviation in the readings' own: for a band B of k readings, (mean of
+/// B - the fitted trend's mean over B) / sqrt(1/k + f^T (X^T X)^-1 f), with X the others' design
+/// matrix and f the mean over B of its rows, the error of predicting a mean of k new readings from
+/// a fitted regression (Draper and Smith 1998, "Applied Regression Analysis", 3rd ed., sections 3.1
+/// and 5.1, from memory; for k = 1 the deleted residual of Cook and Weisberg 1982). Each is about
+/// standard normal on a level profile of unit noise, and a band does not move the trend it is
+/// judged against. `v` is in units of the readings' repeatability ([`CURVATURE_SIGMAS`] and
+/// [`FIT_CHANCE`] read it so). At least one reading more than the trend has coefficients stays
+/// outside a band. 0 when none lies above its trend.
 pub(super) fn over_trend(v: &[f64], at: &[i64]) -> f64 {
     thread_local! {
         static SCAN: std::cell::RefCell<TrendScan> = const {
@@ -84,8 +85,8 @@ struct TrendScan {
 }
 
 /// One band's geometry: its first reading and width, 1/k, the straight line's and (where
-/// [`BENT_OTHERS`] readings or more stay outside) the quadratic's prediction of the band's mean, and the weights
-/// that give the others' quadratic coefficient over its standard error.
+/// [`BENT_OTHERS`] readings or more stay outside) the quadratic's prediction of the band's mean,
+/// and the weights that give the others' quadratic coefficient over its standard error.
 struct TrendBand {
     start: usize,
     k: usize,
@@ -217,8 +218,6 @@ impl TrendScan {
                 let Some(line) = Predictor::new(m, f, 2, kf) else {
                     continue;
                 };
-                // the others' quadratic coefficient is g . (their sums), g = M^-1 e_3, with
-                // variance g_3 (unit noise)
                 let quadratic = (n - k >= BENT_OTHERS)
                     .then(|| Bent::new(m, f, kf, n - k))
                     .flatten();
@@ -304,23 +303,29 @@ fn solve_spd(m: [[f64; 3]; 3], f: [f64; 3], p: usize) -> Option<[f64; 3]> {
 mod tests {
     use super::*;
 
-    /// The hat value of reading `i` under a least-squares fit of degree `d` over positions `x`,
-    /// from the orthonormal polynomials of the positions (Gram-Schmidt, written out here apart
-    /// from the normal equations the scan solves): h_ii = sum_j e_j(i)^2 (Cook and Weisberg 1982,
-    /// section 2.1).
-    fn hat(x: &[f64], d: i32, i: usize) -> f64 {
-        let mut basis: Vec<Vec<f64>> = Vec::new();
+    /// The powers 0..=`d` of positions `x` made orthonormal (Gram-Schmidt, written out here apart
+    /// from the normal equations the scan solves), each with its norm before it was normalised:
+    /// the part of its column orthogonal to the lower powers.
+    fn orthonormal(x: &[f64], d: i32) -> Vec<(Vec<f64>, f64)> {
+        let mut basis: Vec<(Vec<f64>, f64)> = Vec::new();
         for p in 0..=d {
             let mut e: Vec<f64> = x.iter().map(|v| v.powi(p)).collect();
-            for b in &basis {
+            for (b, _) in &basis {
                 let dot: f64 = e.iter().zip(b).map(|(a, c)| a * c).sum();
                 e.iter_mut().zip(b).for_each(|(a, c)| *a -= dot * c);
             }
             let norm = e.iter().map(|a| a * a).sum::<f64>().sqrt();
             e.iter_mut().for_each(|a| *a /= norm);
-            basis.push(e);
+            basis.push((e, norm));
         }
-        basis.iter().map(|e| e[i] * e[i]).sum()
+        basis
+    }
+
+    /// The hat value of reading `i` under a least-squares fit of degree `d` over positions `x`:
+    /// h_ii = sum_j e_j(i)^2 over the orthonormal polynomials (Cook and Weisberg 1982, section
+    /// 2.1).
+    fn hat(x: &[f64], d: i32, i: usize) -> f64 {
+        orthonormal(x, d).iter().map(|(e, _)| e[i] * e[i]).sum()
     }
 
     /// Evenly spaced positions are the index grid exactly (shared noise-only profiles); a
@@ -394,13 +399,7 @@ mod tests {
             .unwrap();
         let q = b.quadratic.as_ref().unwrap();
         let u: Vec<f64> = (0..14).map(|i| i as f64 / 7.0 - 1.0).collect();
-        let mut e: Vec<f64> = u.iter().map(|x| x * x).collect();
-        for basis in [vec![1.0; 14], u.clone()] {
-            let norm2: f64 = basis.iter().map(|x| x * x).sum();
-            let dot: f64 = e.iter().zip(&basis).map(|(a, c)| a * c).sum::<f64>() / norm2;
-            e.iter_mut().zip(&basis).for_each(|(a, c)| *a -= dot * c);
-        }
-        let se = 1.0 / e.iter().map(|x| x * x).sum::<f64>().sqrt();
+        let se = 1.0 / orthonormal(&u, 2)[2].1;
         for (sigmas, bent) in [(1.9, false), (2.1, true)] {
             let a = sigmas * se;
             let mut v: Vec<f64> = u.iter().map(|x| a * x * x).collect();

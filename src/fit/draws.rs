@@ -1,16 +1,16 @@
 //! A lane's posterior draws carried forward: the draws (a scale pinned to the pooled value takes
-//! the pooled posterior's draws), their runs through the whole of storage, and the prediction bands they give each
-//! observation.
+//! the pooled posterior's draws), their runs through the whole of storage, and the prediction bands
+//! they give each observation.
 
 use super::lane_fit::{creep_from, LaneProblem, Residual, PACK};
 use crate::case::Material;
 use crate::storage::{age_lane_pack, LaneAged, LaneCreep, LaneRun, Track};
 
-/// Posterior draws for propagation. A scale shrunk to the pooled value (`pinned`) stays with the roll's value, as the optimum does, and takes draw k of the pooled
-/// posterior (`pooled_draws`, one per draw) in draw k: every lane so pinned moves with the roll's
-/// value in the same state, so the roll-level uncertainty reaches the lanes' lengths without
-/// making lane-to-lane differences the data do not show. Without pooled draws the scale stays at
-/// the pooled optimum.
+/// Posterior draws for propagation. A scale shrunk to the pooled value (`pinned`) stays with the
+/// roll's value, as the optimum does, and takes draw k of the pooled posterior (`pooled_draws`, one
+/// per draw) in draw k: every lane so pinned moves with the roll's value in the same state, so the
+/// roll-level uncertainty reaches the lanes' lengths without making lane-to-lane differences the
+/// data do not show. Without pooled draws the scale stays at the pooled optimum.
 ///
 /// With `scores` (the lane's score in each state, as many as the draws) and the lane's MD scale
 /// its own, the lane's own draws are first put in state order by them

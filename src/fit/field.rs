@@ -8,20 +8,20 @@
 //! smooth patterns (a side-to-side slope) too small and its lane-local extremes too large, so
 //! the same roll would be judged differently at another lane count.
 //!
-//! So the draws are made to share the readings' noise: a standard normal score per survey
-//! position (one field per state or noise roll), carried to each lane centre with the weights
-//! that interpolate its data (linear within the segment it lies in, extrapolated from the end
-//! segment beyond the ends) and scaled back to unit variance. The score's correlation between two lanes is the
-//! correlation of their data noise. A lane's data are its centre's interpolation, or the mean of
-//! the readings it holds where it holds two or more ([`crate::lanes`]), and its score is made the
-//! same way. A lane's draws are then put in the order of their MD log-scale (the creep that sets
-//! its length at unwind) and matched to the states by the ranks of the lane's scores, which keeps
-//! each lane's draws exactly and induces the rank correlation of the scores between lanes (Iman
-//! and Conover 1982). A noise-only roll takes from each lane the draw at the normal quantile of
-//! the lane's score. Only the MD scale is coupled: a lane's radial draws follow its MD draws as
+//! So the draws are made to share the readings' noise: a standard normal score per survey position
+//! (one field per state or noise roll), carried to each lane centre with the weights that
+//! interpolate its data (linear within the segment it lies in, extrapolated from the end segment
+//! beyond the ends) and scaled back to unit variance. The score's correlation between two lanes is
+//! the correlation of their data noise. A lane's data are its centre's interpolation, or the mean
+//! of the readings it holds where it holds two or more ([`crate::lanes`]), and its score is made
+//! the same way. A lane's draws are then put in the order of their MD log-scale (the creep that
+//! sets its length at unwind) and matched to the states by the ranks of the lane's scores, which
+//! keeps each lane's draws exactly and induces the rank correlation of the scores between lanes
+//! (Iman and Conover 1982). A noise-only roll takes from each lane the draw at the normal quantile
+//! of the lane's score. Only the MD scale is coupled: a lane's radial draws follow its MD draws as
 //! its posterior correlates them, and a lane whose MD scale is pinned to the roll's value draws
-//! independently (its radial scale is not tied to a neighbour's MD scale). The whole of a
-//! lane's posterior spread is coupled, the prior's part with the data's.
+//! independently (its radial scale is not tied to a neighbour's MD scale). The whole of a lane's
+//! posterior spread is coupled, the prior's part with the data's.
 
 use super::posterior::normal;
 use crate::case::{Case, Measure};

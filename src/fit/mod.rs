@@ -369,8 +369,8 @@ fn pooled_fit(
     Ok((m, post, evaluations))
 }
 
-/// Each lane's fit with a prior towards the pooled log-scales, its pseudo-draws seeded from the case id
-/// and the lane; returns the fits and their simulations.
+/// Each lane's fit with a prior towards the pooled log-scales, its pseudo-draws seeded from the
+/// case id and the lane; returns the fits and their simulations.
 ///
 /// Lanes are fitted in parallel (each fit is a pure function of its lane and seed); results are
 /// taken in lane order, and the first failing lane by index is reported, so the output does not
