@@ -94,3 +94,83 @@ fn a_wrong_unit_in_the_header_is_one_problem_naming_its_rows() {
         "{err}"
     );
 }
+
+/// `rollsleuth check case.yaml` run inside the case's folder (the case path has no folder part,
+/// so the CSV's folder is the current one): exit code and standard error.
+#[cfg(unix)]
+fn check_in_folder(case: &std::path::Path) -> (i32, String) {
+    let o = std::process::Command::new(env!("CARGO_BIN_EXE_rollsleuth"))
+        .args(["check", "case.yaml"])
+        .current_dir(case.parent().unwrap())
+        .output()
+        .expect("the binary runs");
+    let (out, err) = (o.stdout, String::from_utf8_lossy(&o.stderr).into_owned());
+    assert!(!err.contains("panicked"), "{err}");
+    if o.status.code() == Some(2) {
+        assert!(out.is_empty(), "no partial output: {err}");
+    }
+    (o.status.code().unwrap_or(-1), err)
+}
+
+/// The case of [`case_with_csv`] with its `csv:` pointed at `scan.csv` as a symbolic link to
+/// `target`.
+#[cfg(unix)]
+fn case_with_linked_csv(name: &str, target: &std::path::Path) -> PathBuf {
+    let p = case_with_csv(name, "position,value\n50,72\n800,72.4\n1550,72\n");
+    let dir = p.parent().unwrap();
+    std::fs::rename(dir.join("scan.csv"), dir.join("real.csv")).unwrap();
+    let target = if target.is_relative() {
+        dir.join(target)
+    } else {
+        target.to_path_buf()
+    };
+    std::os::unix::fs::symlink(target, dir.join("scan.csv")).unwrap();
+    p
+}
+
+#[cfg(unix)]
+#[test]
+fn a_csv_linked_out_of_the_case_folder_is_refused_unread() {
+    let outside = std::path::Path::new(env!("CARGO_TARGET_TMPDIR"))
+        .join(format!("rollsleuth-outside-{}.csv", std::process::id()));
+    std::fs::write(&outside, "outside-secret-4711:x:0:0:nobody\n1,2\n").unwrap();
+    let p = case_with_linked_csv("linkout", &outside);
+    // the case named with its folder, and named from inside it (no folder in its path)
+    for (code, err) in [check(&p), check_in_folder(&p)] {
+        assert_eq!(code, 2, "{err}");
+        assert!(err.contains("profiles[0].csv"), "{err}");
+        assert!(err.contains("case.yaml"), "{err}");
+        assert!(err.contains("leads out of the case file's folder"), "{err}");
+        assert!(err.contains("Fix: put the CSV file in the case file's folder"), "{err}");
+        assert!(!err.contains("outside-secret"), "the outside file was read: {err}");
+    }
+}
+
+#[cfg(unix)]
+#[test]
+fn a_csv_linked_to_a_file_inside_the_case_folder_is_read() {
+    // an absolute link and a relative one, both to `real.csv` beside the case
+    let abs = case_with_linked_csv("linkin-abs", std::path::Path::new("real.csv"));
+    let rel = case_with_csv("linkin-rel", "position,value\n50,72\n800,72.4\n1550,72\n");
+    let dir = rel.parent().unwrap();
+    std::fs::rename(dir.join("scan.csv"), dir.join("real.csv")).unwrap();
+    std::os::unix::fs::symlink("real.csv", dir.join("scan.csv")).unwrap();
+    for p in [&abs, &rel] {
+        for (code, err) in [check(p), check_in_folder(p)] {
+            assert_eq!(code, 0, "{err}");
+            assert!(!err.contains("symbolic link"), "{err}");
+        }
+    }
+}
+
+#[test]
+fn a_bad_header_is_echoed_only_as_a_short_printable_snippet() {
+    let long = format!("secret\u{7}{}", "x".repeat(200));
+    let p = case_with_csv("longhead", &format!("{long},other\n50,72\n1550,72\n"));
+    let (code, err) = check(&p);
+    assert_eq!(code, 2, "{err}");
+    assert!(err.contains("needs columns `position` and `value`"), "{err}");
+    assert!(err.contains("found: secret?xxx"), "{err}");
+    assert!(!err.contains(&"x".repeat(41)), "more than a snippet: {err}");
+    assert!(!err.contains('\u{7}'), "a control character was echoed: {err}");
+}

@@ -65,6 +65,24 @@ fn name_unit(cell: &str) -> (String, Option<String>) {
     }
 }
 
+/// Most characters of a file's own text a message repeats.
+const SNIPPET_CHARS: usize = 40;
+
+/// A short, printable excerpt of a file's text for a message: control characters become `?`
+/// and the text is cut at [`SNIPPET_CHARS`] characters (marked `...`), so a message never
+/// carries more than a glimpse of whatever file was named.
+fn snippet(text: &str) -> String {
+    let mut out: String = text
+        .chars()
+        .take(SNIPPET_CHARS)
+        .map(|c| if c.is_control() { '?' } else { c })
+        .collect();
+    if text.chars().count() > SNIPPET_CHARS {
+        out.push_str("...");
+    }
+    out
+}
+
 /// A csv reader's error in our words, with the line and a fix.
 fn csv_error(shown: &str, e: csv::Error) -> String {
     match e.kind() {
@@ -109,9 +127,8 @@ fn in_order(rows: &mut [(f64, f64, u64)], shown: &str) -> Result<Vec<String>, St
     Ok(notes)
 }
 
-/// Read a profile CSV (see the module notes).
-pub(super) fn read_profile(path: &Path, cols: &Columns) -> Result<CsvProfile, String> {
-    let shown = path.display().to_string();
+/// Read a profile CSV (see the module notes) from `path`; `shown` names the file in messages.
+pub(super) fn read_profile(path: &Path, shown: &str, cols: &Columns) -> Result<CsvProfile, String> {
     let bytes = crate::input::read_bytes(path).map_err(|e| match e {
         crate::input::InputError::Missing => format!(
             "CSV file '{shown}' does not exist. Fix: check the csv path; it is read from the case file's folder"
@@ -121,7 +138,7 @@ pub(super) fn read_profile(path: &Path, cols: &Columns) -> Result<CsvProfile, St
     let text = String::from_utf8(bytes).map_err(|_| {
         format!("CSV file '{shown}' is not UTF-8 text; save it as UTF-8 (plain CSV)")
     })?;
-    parse_profile(&text, &shown, cols)
+    parse_profile(&text, shown, cols)
 }
 
 /// The rows of a profile CSV given as text with the default column names (`name` stands for the
@@ -148,7 +165,7 @@ fn parse_profile(text: &str, shown: &str, cols: &Columns) -> Result<CsvProfile, 
             "{shown}:1: needs columns `{}` and `{}` (found: {}); name the columns in the header line, or map yours with `columns: {{position: NAME, value: NAME}}` in the profile",
             cols.position,
             cols.value,
-            found.join(", ")
+            snippet(&found.join(", "))
         ));
     };
     let number = |s: &str| {
@@ -205,7 +222,7 @@ mod tests {
     fn read(name: &str, text: &str, cols: &Columns) -> Result<CsvProfile, String> {
         let p = std::env::temp_dir().join(format!("rollsleuth-csv-{}-{name}", std::process::id()));
         std::fs::write(&p, text).unwrap();
-        let r = read_profile(&p, cols);
+        let r = read_profile(&p, &p.display().to_string(), cols);
         let _ = std::fs::remove_file(&p);
         r
     }
@@ -285,7 +302,8 @@ mod tests {
 
     #[test]
     fn a_missing_csv_says_where_its_path_starts() {
-        let e = read_profile(Path::new("no/such/file.csv"), &Columns::default()).unwrap_err();
+        let e = read_profile(Path::new("no/such/file.csv"), "file.csv", &Columns::default())
+            .unwrap_err();
         assert!(e.contains("case file's folder"), "{e}");
         assert!(!e.contains("current folder"), "{e}");
     }

@@ -219,7 +219,7 @@ impl Validator {
         columns: Option<&RawColumns>,
         field: &str,
     ) -> Option<PointsFrom> {
-        let path = match confined(self.base.as_deref(), &c.value) {
+        let (shown, path) = match confined(self.base.as_deref(), &c.value) {
             Ok(p) => p,
             Err(message) => {
                 self.push(field, Some(line_of(c)), message);
@@ -233,7 +233,7 @@ impl Validator {
             },
             None => Columns::default(),
         };
-        match read_profile(&path, &cols) {
+        match read_profile(&path, &shown.display().to_string(), &cols) {
             Ok(read) => Some({
                 self.warnings.extend(read.notes);
                 // a problem in a row is reported at the `csv:` line, the row named in the message
@@ -241,7 +241,7 @@ impl Validator {
                 (
                     read.rows.iter().map(|r| (r.0, at)).collect(),
                     read.rows.iter().map(|r| (r.1, at)).collect(),
-                    path.display().to_string(),
+                    shown.display().to_string(),
                     (read.position_unit, read.value_unit),
                     read.lines,
                 )
@@ -530,11 +530,16 @@ fn likely_unit(
 }
 
 /// A CSV path from a case file, resolved inside the case file's folder: relative, no `..`, and
-/// not leading out of the folder through a symbolic link. A case file received from elsewhere
-/// cannot make rollsleuth read any other file on the machine.
-pub(super) fn confined(base: Option<&std::path::Path>, rel: &str) -> Result<PathBuf, String> {
-    use std::path::Component;
-    let p = std::path::Path::new(rel);
+/// not leading out of the folder through a symbolic link. Both the file and the folder are
+/// resolved to their real paths before anything is opened, and the real path is what is read,
+/// so a case file received from elsewhere cannot make rollsleuth read any other file on the
+/// machine. Returns the path to show in messages and the path to open.
+pub(super) fn confined(
+    base: Option<&std::path::Path>,
+    rel: &str,
+) -> Result<(PathBuf, PathBuf), String> {
+    use std::path::{Component, Path};
+    let p = Path::new(rel);
     let fix = "Fix: put the CSV file in the case file's folder (or a folder below it) and give its path from there, e.g. csv: scans/caliper.csv";
     if p.as_os_str().is_empty()
         || p.components()
@@ -544,15 +549,31 @@ pub(super) fn confined(base: Option<&std::path::Path>, rel: &str) -> Result<Path
             "'{rel}' is not a path inside the case file's folder (absolute paths and '..' are refused). {fix}"
         ));
     }
-    let base = base.unwrap_or(std::path::Path::new("."));
+    let base = base.unwrap_or(Path::new("."));
     let joined = base.join(p);
-    // a missing file is reported by the reader; a file that exists must resolve inside `base`
-    if let (Ok(b), Ok(f)) = (base.canonicalize(), joined.canonicalize()) {
-        if !f.starts_with(&b) {
-            return Err(format!(
-                "'{rel}' leads out of the case file's folder through a symbolic link. {fix}"
-            ));
-        }
+    // a case file named without a folder (`case.yaml`) has the empty path as its parent, which
+    // does not resolve: it is the current folder
+    let base = Some(base)
+        .filter(|b| !b.as_os_str().is_empty())
+        .unwrap_or(Path::new("."));
+    let unresolved = |what: &str, e: std::io::Error| {
+        format!(
+            "'{rel}': the {what} cannot be resolved to its real path ({e}), so the CSV was not read. Fix: check that the folders on the way are readable, or copy the CSV into the case file's folder"
+        )
+    };
+    let real = match joined.canonicalize() {
+        Ok(f) => f,
+        // the reader reports a missing file (a dangling link too) with its own fix
+        Err(e) if e.kind() == std::io::ErrorKind::NotFound => return Ok((joined.clone(), joined)),
+        Err(e) => return Err(unresolved("CSV file", e)),
+    };
+    let folder = base
+        .canonicalize()
+        .map_err(|e| unresolved("case file's folder", e))?;
+    if !real.starts_with(&folder) {
+        return Err(format!(
+            "'{rel}' leads out of the case file's folder through a symbolic link, so it was not read. {fix}"
+        ));
     }
-    Ok(joined)
+    Ok((joined, real))
 }
