@@ -319,3 +319,26 @@ fn a_cross_field_problem_blames_the_set_that_changed_one_of_its_fields() {
         &["--set winding.tension=0.2 pli: winding.nip", "20 times"],
     );
 }
+
+#[test]
+fn a_density_out_of_range_from_basis_weight_over_caliper_names_both_fields() {
+    // the demo gives 45 g/m2: a caliper of 5 mm makes it 9 kg/m3, one of 5 um 9000 kg/m3
+    bad(
+        &["check", "--set", "material.caliper=5 mm"],
+        &[
+            "--set material.caliper=5 mm: material.basis_weight",
+            "material.basis_weight 45.00 g/m2 over material.caliper 5000 um",
+            "density of 9.000 kg/m3",
+            "within 100.0 kg/m3 .. 3000 kg/m3",
+            "the caliper is too large or the basis weight too small",
+            "Fix: check material.caliper and material.basis_weight",
+        ],
+    );
+    bad(
+        &["check", "--set", "material.caliper=5 um"],
+        &[
+            "density of 9000 kg/m3",
+            "the caliper is too small or the basis weight too large",
+        ],
+    );
+}

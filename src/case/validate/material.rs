@@ -38,6 +38,10 @@ const fn row(
     }
 }
 
+/// Range of the density, given or derived from basis weight over caliper, kg/m3 (light tissue
+/// to mineral-filled board, with margin).
+const DENSITY_KG_M3: (f64, f64) = (100.0, 3000.0);
+
 /// Read before density (a basis weight needs the caliper).
 const CALIPER: &[Row] = &[row(
     "material.caliper",
@@ -408,7 +412,7 @@ impl Validator {
         caliper: Option<f64>,
         out: &mut Material,
     ) -> bool {
-        let rho_range = Between(100.0, 3000.0);
+        let rho_range = Between(DENSITY_KG_M3.0, DENSITY_KG_M3.1);
         let v = match (&m.density, &m.basis_weight) {
             (Some(_), Some(bw)) => {
                 self.push(
@@ -420,15 +424,8 @@ impl Validator {
             }
             (None, Some(bw)) => {
                 let gsm = self.q(bw, "material.basis_weight", Kind::Grammage, Positive);
-                gsm.zip(caliper).and_then(|(w, c)| {
-                    self.check_range(
-                        w / c,
-                        "material.basis_weight",
-                        Some(line_of(bw)),
-                        Kind::Density,
-                        rho_range,
-                    )
-                })
+                gsm.zip(caliper)
+                    .and_then(|(w, c)| self.weight_density(w, c, Some(line_of(bw))))
             }
             (d, None) => self.or_default(
                 d.as_ref(),
@@ -439,6 +436,38 @@ impl Validator {
             ),
         };
         v.map(|v| out.density_kg_m3 = v).is_some()
+    }
+
+    /// The density a basis weight `w` (kg/m2) over a caliper `c` (m) gives, when it lies in
+    /// [`DENSITY_KG_M3`]; else a problem naming both fields, the density, its range and which
+    /// way the two are likely wrong (reported against a `--set` of either).
+    fn weight_density(&mut self, w: f64, c: f64, line: Option<u64>) -> Option<f64> {
+        let (rho, (lo, hi)) = (w / c, DENSITY_KG_M3);
+        if (lo..=hi).contains(&rho) {
+            return Some(rho);
+        }
+        let sys = crate::units::message_system();
+        let show = |v, kind, fine| crate::units::show(v, kind, sys, fine);
+        let check = if rho < lo {
+            "the caliper is too large or the basis weight too small"
+        } else {
+            "the caliper is too small or the basis weight too large"
+        };
+        let message = format!(
+            "material.basis_weight {} over material.caliper {} gives a density of {}, out of range: it must be within {} .. {}; {check}. Fix: check material.caliper and material.basis_weight, their units first (a caliper is tens to hundreds of um, a basis weight tens to hundreds of g/m2)",
+            show(w, Kind::Grammage, false),
+            show(c, Kind::Length, true),
+            show(rho, Kind::Density, false),
+            show(lo, Kind::Density, false),
+            show(hi, Kind::Density, false),
+        );
+        self.push_across(
+            "material.basis_weight",
+            &["material.caliper"],
+            line,
+            message,
+        );
+        None
     }
 
     /// Stack law: Pfeiffer constants (given or grade defaults) or a constant radial modulus.
