@@ -141,8 +141,14 @@ fn a_csv_linked_out_of_the_case_folder_is_refused_unread() {
         assert!(err.contains("profiles[0].csv"), "{err}");
         assert!(err.contains("case.yaml"), "{err}");
         assert!(err.contains("leads out of the case file's folder"), "{err}");
-        assert!(err.contains("Fix: put the CSV file in the case file's folder"), "{err}");
-        assert!(!err.contains("outside-secret"), "the outside file was read: {err}");
+        assert!(
+            err.contains("Fix: put the CSV file in the case file's folder"),
+            "{err}"
+        );
+        assert!(
+            !err.contains("outside-secret"),
+            "the outside file was read: {err}"
+        );
     }
 }
 
@@ -169,8 +175,14 @@ fn a_bad_header_is_echoed_only_as_a_short_printable_snippet() {
     let p = case_with_csv("longhead", &format!("{long},other\n50,72\n1550,72\n"));
     let (code, err) = check(&p);
     assert_eq!(code, 2, "{err}");
-    assert!(err.contains("needs columns `position` and `value`"), "{err}");
+    assert!(
+        err.contains("needs columns `position` and `value`"),
+        "{err}"
+    );
     assert!(err.contains("found: secret?xxx"), "{err}");
     assert!(!err.contains(&"x".repeat(41)), "more than a snippet: {err}");
-    assert!(!err.contains('\u{7}'), "a control character was echoed: {err}");
+    assert!(
+        !err.contains('\u{7}'),
+        "a control character was echoed: {err}"
+    );
 }

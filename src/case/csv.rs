@@ -3,9 +3,10 @@
 //! `position` and `value`, or the names a case maps them to; a header may carry a unit in
 //! brackets (`position (mm)`, `value (mil)`). Rows scanned from the back edge first (positions
 //! decreasing throughout) are sorted (with a note); rows in any other order, or a position given
-//! twice, are an error naming the lines.
+//! twice, are an error naming the lines. A CSV path is first confined to the case file's folder
+//! ([`confined`]).
 
-use std::path::Path;
+use std::path::{Path, PathBuf};
 
 /// A profile CSV as read: rows in increasing position, units from the header, and notes.
 #[derive(Debug, Clone, PartialEq, Default)]
@@ -139,6 +140,52 @@ pub(super) fn read_profile(path: &Path, shown: &str, cols: &Columns) -> Result<C
         format!("CSV file '{shown}' is not UTF-8 text; save it as UTF-8 (plain CSV)")
     })?;
     parse_profile(&text, shown, cols)
+}
+
+/// A CSV path from a case file, resolved inside the case file's folder: relative, no `..`, and
+/// not leading out of the folder through a symbolic link. Both the file and the folder are
+/// resolved to their real paths before anything is opened, and the real path is what is read,
+/// so a case file received from elsewhere cannot make rollsleuth read any other file on the
+/// machine. Returns the path to show in messages and the path to open.
+pub(super) fn confined(base: Option<&Path>, rel: &str) -> Result<(PathBuf, PathBuf), String> {
+    use std::path::Component;
+    let p = Path::new(rel);
+    let fix = "Fix: put the CSV file in the case file's folder (or a folder below it) and give its path from there, e.g. csv: scans/caliper.csv";
+    if p.as_os_str().is_empty()
+        || p.components()
+            .any(|c| !matches!(c, Component::Normal(_) | Component::CurDir))
+    {
+        return Err(format!(
+            "'{rel}' is not a path inside the case file's folder (absolute paths and '..' are refused). {fix}"
+        ));
+    }
+    let base = base.unwrap_or(Path::new("."));
+    let joined = base.join(p);
+    // a case file named without a folder (`case.yaml`) has the empty path as its parent, which
+    // does not resolve: it is the current folder
+    let base = Some(base)
+        .filter(|b| !b.as_os_str().is_empty())
+        .unwrap_or(Path::new("."));
+    let unresolved = |what: &str, e: std::io::Error| {
+        format!(
+            "'{rel}': the {what} cannot be resolved to its real path ({e}), so the CSV was not read. Fix: check that the folders on the way are readable, or copy the CSV into the case file's folder"
+        )
+    };
+    let real = match joined.canonicalize() {
+        Ok(f) => f,
+        // the reader reports a missing file (a dangling link too) with its own fix
+        Err(e) if e.kind() == std::io::ErrorKind::NotFound => return Ok((joined.clone(), joined)),
+        Err(e) => return Err(unresolved("CSV file", e)),
+    };
+    let folder = base
+        .canonicalize()
+        .map_err(|e| unresolved("case file's folder", e))?;
+    if !real.starts_with(&folder) {
+        return Err(format!(
+            "'{rel}' leads out of the case file's folder through a symbolic link, so it was not read. {fix}"
+        ));
+    }
+    Ok((joined, real))
 }
 
 /// The rows of a profile CSV given as text with the default column names (`name` stands for the
@@ -302,8 +349,12 @@ mod tests {
 
     #[test]
     fn a_missing_csv_says_where_its_path_starts() {
-        let e = read_profile(Path::new("no/such/file.csv"), "file.csv", &Columns::default())
-            .unwrap_err();
+        let e = read_profile(
+            Path::new("no/such/file.csv"),
+            "file.csv",
+            &Columns::default(),
+        )
+        .unwrap_err();
         assert!(e.contains("case file's folder"), "{e}");
         assert!(!e.contains("current folder"), "{e}");
     }

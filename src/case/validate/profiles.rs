@@ -1,14 +1,13 @@
 //! `profiles`: cross-width measurements given inline or as a CSV file, converted to SI and
 //! checked against the roll width.
 
-use super::super::csv::{read_profile, Columns};
+use super::super::csv::{confined, read_profile, Columns};
 use super::super::errors::Problem;
 use super::super::model::*;
 use super::super::raw::{RawColumns, RawProfile, Word};
 use super::checks::{line_of, Range, Validator};
 use crate::units::Kind;
 use serde_saphyr::Spanned;
-use std::path::PathBuf;
 
 /// Numbers with the line they came from.
 type Points = Vec<(f64, Option<u64>)>;
@@ -527,53 +526,4 @@ fn likely_unit(
         .into_iter()
         .filter(|u| !u.eq_ignore_ascii_case(labelled))
         .find(|u| factor(u).is_some_and(|f| (band.0..=band.1).contains(&(written * f / nominal))))
-}
-
-/// A CSV path from a case file, resolved inside the case file's folder: relative, no `..`, and
-/// not leading out of the folder through a symbolic link. Both the file and the folder are
-/// resolved to their real paths before anything is opened, and the real path is what is read,
-/// so a case file received from elsewhere cannot make rollsleuth read any other file on the
-/// machine. Returns the path to show in messages and the path to open.
-pub(super) fn confined(
-    base: Option<&std::path::Path>,
-    rel: &str,
-) -> Result<(PathBuf, PathBuf), String> {
-    use std::path::{Component, Path};
-    let p = Path::new(rel);
-    let fix = "Fix: put the CSV file in the case file's folder (or a folder below it) and give its path from there, e.g. csv: scans/caliper.csv";
-    if p.as_os_str().is_empty()
-        || p.components()
-            .any(|c| !matches!(c, Component::Normal(_) | Component::CurDir))
-    {
-        return Err(format!(
-            "'{rel}' is not a path inside the case file's folder (absolute paths and '..' are refused). {fix}"
-        ));
-    }
-    let base = base.unwrap_or(Path::new("."));
-    let joined = base.join(p);
-    // a case file named without a folder (`case.yaml`) has the empty path as its parent, which
-    // does not resolve: it is the current folder
-    let base = Some(base)
-        .filter(|b| !b.as_os_str().is_empty())
-        .unwrap_or(Path::new("."));
-    let unresolved = |what: &str, e: std::io::Error| {
-        format!(
-            "'{rel}': the {what} cannot be resolved to its real path ({e}), so the CSV was not read. Fix: check that the folders on the way are readable, or copy the CSV into the case file's folder"
-        )
-    };
-    let real = match joined.canonicalize() {
-        Ok(f) => f,
-        // the reader reports a missing file (a dangling link too) with its own fix
-        Err(e) if e.kind() == std::io::ErrorKind::NotFound => return Ok((joined.clone(), joined)),
-        Err(e) => return Err(unresolved("CSV file", e)),
-    };
-    let folder = base
-        .canonicalize()
-        .map_err(|e| unresolved("case file's folder", e))?;
-    if !real.starts_with(&folder) {
-        return Err(format!(
-            "'{rel}' leads out of the case file's folder through a symbolic link, so it was not read. {fix}"
-        ));
-    }
-    Ok((joined, real))
 }
