@@ -197,3 +197,31 @@ fn fit_diagnose_and_triage_report_the_same_spread() {
         "fit {fit}, triage {triage}"
     );
 }
+
+#[test]
+fn check_warns_of_surveys_past_the_storage_history_as_diagnose_does() {
+    // the demo stores 31 d; a survey at 300 d, or surveys with no storage at all, leave a gap
+    // that every run fills with assumed conditions
+    for (set, reach, covers) in [
+        ("profiles[3].age=300 d", "300.0 d", "31.0 d"),
+        ("storage=[]", "31.0 d", "0.0 d"),
+    ] {
+        let warning = format!("measurements reach {reach} but storage history covers {covers}");
+        // warnings go to standard error, as every command's do
+        let (code, _, err) = run(&["check", "--set", set]);
+        assert_eq!(code, 0, "{err}");
+        assert!(err.contains(&format!("warning: {warning}")), "{err}");
+        let (_, json, err) = run(&["check", "--json", "--set", set]);
+        let v: serde_json::Value = serde_json::from_str(&json).expect(&err);
+        let warnings = v["cases"][0]["warnings"].as_array().expect("warnings");
+        assert!(
+            warnings
+                .iter()
+                .any(|w| w.as_str().is_some_and(|w| w.starts_with(&warning))),
+            "{warnings:?}"
+        );
+    }
+    let (code, _, err) = run(&["check"]);
+    assert_eq!(code, 0, "{err}");
+    assert!(!err.contains("storage history covers"), "{err}");
+}

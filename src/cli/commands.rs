@@ -142,7 +142,8 @@ pub fn template(out: Output) -> Result<Outcome, CliError> {
     Ok(Outcome::Ok(s))
 }
 
-/// `check`: every case is loaded; any that fails is reported, all together.
+/// `check`: every case is loaded; any that fails is reported, all together. A case whose
+/// surveys reach past its storage history gets the warning every run of it will give.
 pub fn check(cases: &[PathBuf], set: &[String], out: Output) -> Result<Outcome, CliError> {
     let mut loaded = Vec::new();
     let mut errors = Vec::new();
@@ -158,6 +159,13 @@ pub fn check(cases: &[PathBuf], set: &[String], out: Output) -> Result<Outcome, 
     }
     if !errors.is_empty() {
         return Err(CliError::Cases(errors));
+    }
+    for c in &mut loaded {
+        // surveys past the storage history: the warning every run of the case will give
+        let ages: Vec<f64> = c.profiles.iter().map(|p| p.age_s).collect();
+        if let Some(n) = crate::storage::storage_extended(&c.storage, &ages) {
+            c.warnings.push(report::words::note(&n));
+        }
     }
     let json = if out.json {
         report::check_view::cases_json(&loaded)?

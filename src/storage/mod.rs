@@ -30,6 +30,6 @@ pub use record::{FullRecord, FullRecords, Recorder, Snapshot, Track};
 pub use shift::{arrhenius_shift, moisture_shift, GAS_R, T_REF_K};
 pub use sorption::gab_moisture;
 pub use timeline::{
-    moisture as moisture_history, timeline, MoistureHistory, Step, StoreInput, Timeline,
-    FLOOR_CONTACT,
+    moisture as moisture_history, storage_extended, timeline, MoistureHistory, Step, StoreInput,
+    Timeline, FLOOR_CONTACT,
 };

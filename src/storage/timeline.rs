@@ -64,22 +64,31 @@ pub struct Timeline {
 /// steps.
 const LAST_OVER_FIRST: f64 = 14.231_771_646_040_077;
 
+/// The warning a storage history gets when `output_times_s` (the measurement ages) reach past
+/// its end: storage is taken to go on to the last of them, the last stretch continued (the
+/// standard atmosphere when there is none). [`timeline`] extends storage so; `check` shows the
+/// same warning without a run.
+pub fn storage_extended(storage: &[Stretch], output_times_s: &[f64]) -> Option<Note> {
+    // a fold from +0: an empty history covers 0 d, not -0 d (an empty f64 sum is -0)
+    let total: f64 = storage.iter().fold(0.0, |a, s| a + s.duration_s);
+    let last_age = output_times_s.iter().copied().fold(0.0, f64::max);
+    (last_age > total + 1.0).then(|| Note::StorageExtended {
+        last_age_s: last_age,
+        covered_s: total,
+        added_s: last_age - total,
+        standard: storage.is_empty(),
+    })
+}
+
 /// Build the time grid for a storage history, with step ends at the output times.
 pub fn timeline(storage: &[Stretch], output_times_s: &[f64], opt: &AgeOptions) -> Timeline {
     let mut stretches = storage.to_vec();
-    let mut notes = Vec::new();
-    // a fold from +0: an empty history covers 0 d, not -0 d (an empty f64 sum is -0)
-    let total: f64 = stretches.iter().fold(0.0, |a, s| a + s.duration_s);
-    let last_age = output_times_s.iter().copied().fold(0.0, f64::max);
-    if last_age > total + 1.0 {
+    let notes: Vec<Note> = storage_extended(storage, output_times_s)
+        .into_iter()
+        .collect();
+    if let Some(&Note::StorageExtended { added_s, .. }) = notes.first() {
         let mut s = stretches.last().cloned().unwrap_or_else(standard_stretch);
-        s.duration_s = last_age - total;
-        notes.push(Note::StorageExtended {
-            last_age_s: last_age,
-            covered_s: total,
-            added_s: s.duration_s,
-            standard: storage.is_empty(),
-        });
+        s.duration_s = added_s;
         stretches.push(s);
     }
     let mut cuts: Vec<(f64, usize)> = Vec::new();
