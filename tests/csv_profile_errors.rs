@@ -186,3 +186,36 @@ fn a_bad_header_is_echoed_only_as_a_short_printable_snippet() {
         "a control character was echoed: {err}"
     );
 }
+
+#[test]
+fn a_header_unit_other_than_the_profiles_unit_is_an_error_naming_both() {
+    // the case says `unit: um`; the header says mil
+    let p = case_with_csv(
+        "unitclash",
+        "position (mm), value (mil)\n50,2.8\n1550,2.9\n",
+    );
+    let (code, err) = check(&p);
+    assert_eq!(code, 2, "{err}");
+    assert!(err.contains("case.yaml"), "{err}");
+    assert!(
+        err.contains("profiles[0].unit: `unit: um` disagrees"),
+        "{err}"
+    );
+    assert!(err.contains("'mil' in the header of CSV file"), "{err}");
+    assert!(err.contains("scan.csv"), "{err}");
+    assert!(err.contains("Fix: correct the one that is wrong"), "{err}");
+}
+
+#[test]
+fn a_header_unit_that_agrees_with_the_profiles_unit_is_read() {
+    // the same unit in another spelling and case is no clash
+    for (name, header) in [("unitsame", "value (um)"), ("unitmu", "Value (\u{b5}m)")] {
+        let p = case_with_csv(
+            name,
+            &format!("position (mm),{header}\n50,72\n800,72.4\n1550,72\n"),
+        );
+        let (code, err) = check(&p);
+        assert_eq!(code, 0, "{header}: {err}");
+        assert!(!err.contains("disagrees"), "{err}");
+    }
+}

@@ -72,7 +72,7 @@ const SNIPPET_CHARS: usize = 40;
 /// A short, printable excerpt of a file's text for a message: control characters become `?`
 /// and the text is cut at [`SNIPPET_CHARS`] characters (marked `...`), so a message never
 /// carries more than a glimpse of whatever file was named.
-fn snippet(text: &str) -> String {
+pub(super) fn snippet(text: &str) -> String {
     let mut out: String = text
         .chars()
         .take(SNIPPET_CHARS)

@@ -113,15 +113,8 @@ impl Validator {
         let age = self.q(&p.age, &f("age"), Kind::Duration, Range::NonNegative);
         let line = Some(line_of(&p.what));
         let (positions, values, origin, header_units, csv_lines) = self.points(i, p, file)?;
-        let units = Units {
-            csv: (!csv_lines.is_empty()).then(|| (origin.clone(), csv_lines)),
-            position: p
-                .position_unit
-                .clone()
-                .or(header_units.0)
-                .unwrap_or_else(|| "mm".to_string()),
-            value: p.unit.clone().or(header_units.1).unwrap_or_default(),
-        };
+        let csv = (!csv_lines.is_empty()).then(|| (origin.clone(), csv_lines));
+        let units = self.units(i, p, what, header_units, csv)?;
         if what != Measure::Hardness && units.value.is_empty() {
             self.push(&f("unit"), line, unit_hint(what).into());
             return None;
@@ -177,6 +170,57 @@ impl Validator {
             positions_m: pos_si,
             values: val_si,
             origin,
+        })
+    }
+
+    /// The units profile `i` is read in: `position_unit` and `unit` as written, else the CSV
+    /// header's, else mm for positions. A header unit other than the case's own is an error
+    /// naming both (which of the two holds cannot be told).
+    fn units(
+        &mut self,
+        i: usize,
+        p: &RawProfile,
+        what: Measure,
+        header: (Option<String>, Option<String>),
+        csv: Option<(String, Vec<u64>)>,
+    ) -> Option<Units> {
+        let value_kind = match what {
+            Measure::Caliper | Measure::Diameter => Some(Kind::Length),
+            Measure::Moisture => Some(Kind::Moisture),
+            Measure::Tension => Some(Kind::LineForce),
+            Measure::Hardness => None,
+        };
+        let mut ok = true;
+        for (field, given, head, column, kind) in [
+            (
+                "position_unit",
+                &p.position_unit,
+                &header.0,
+                "position",
+                Some(Kind::Length),
+            ),
+            ("unit", &p.unit, &header.1, "value", value_kind),
+        ] {
+            let (Some(g), Some(h), Some((file, _))) = (given, head, &csv) else {
+                continue;
+            };
+            if !same_unit(g, h, kind) {
+                let message = format!(
+                    "`{field}: {g}` disagrees with the unit '{}' in the header of CSV file {file} (its {column} column), so which holds cannot be told. Fix: correct the one that is wrong, or remove `{field}` to read the header's unit",
+                    super::super::csv::snippet(h)
+                );
+                self.push(
+                    &format!("profiles[{i}].{field}"),
+                    Some(line_of(&p.what)),
+                    message,
+                );
+                ok = false;
+            }
+        }
+        ok.then(|| Units {
+            csv,
+            position: (p.position_unit.clone().or(header.0)).unwrap_or_else(|| "mm".to_string()),
+            value: p.unit.clone().or(header.1).unwrap_or_default(),
         })
     }
 
@@ -443,6 +487,17 @@ fn what_word(what: Measure) -> &'static str {
         Measure::Tension => "tension",
         Measure::Moisture => "moisture",
     }
+}
+
+/// Whether two unit words name one unit of `kind`: the same word whatever its case, or two words
+/// for one factor ("um" and "µm"); a `kind` of `None` compares the words only.
+fn same_unit(a: &str, b: &str, kind: Option<Kind>) -> bool {
+    let factor = |u: &str, k| crate::units::parse(&format!("1 {u}"), k).ok();
+    a.trim().eq_ignore_ascii_case(b.trim())
+        || kind.is_some_and(|k| match (factor(a, k), factor(b, k)) {
+            (Some(x), Some(y)) => (x - y).abs() <= 1e-12 * x.abs().max(y.abs()),
+            _ => false,
+        })
 }
 
 /// What a profile's missing `unit` should say.
