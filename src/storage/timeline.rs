@@ -72,7 +72,7 @@ pub fn storage_extended(storage: &[Stretch], output_times_s: &[f64]) -> Option<N
     // a fold from +0: an empty history covers 0 d, not -0 d (an empty f64 sum is -0)
     let total: f64 = storage.iter().fold(0.0, |a, s| a + s.duration_s);
     let last_age = output_times_s.iter().copied().fold(0.0, f64::max);
-    (last_age > total + 1.0).then(|| Note::StorageExtended {
+    (last_age > total + 1.0).then_some(Note::StorageExtended {
         last_age_s: last_age,
         covered_s: total,
         added_s: last_age - total,
