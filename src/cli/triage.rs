@@ -165,7 +165,8 @@ struct Earlier {
 }
 
 /// Read an earlier CSV output (`--resume`): its whole rows, mapped by column name onto the
-/// current columns (a column it lacks is left empty). A row cut short by a stop is not done; a
+/// current columns (a column it lacks is left empty, but for `safety`, given to a diagnosed row
+/// with findings or warnings). A row cut short by a stop is not done; a
 /// row with an error is not done either, so a file fixed since is diagnosed again and its new
 /// row supersedes the failed one.
 fn earlier_rows(path: &Path, files: &[PathBuf]) -> Result<Earlier, CliError> {
@@ -185,6 +186,15 @@ fn earlier_rows(path: &Path, files: &[PathBuf]) -> Result<Earlier, CliError> {
     let file_col = at("file").ok_or_else(|| fail("it has no `file` column".into()))?;
     let (error_col, defects_col) = (at("error"), at("defects"));
     let columns: Vec<Option<usize>> = report::TRIAGE_CSV_COLUMNS.iter().map(|c| at(c)).collect();
+    // a CSV from before the `safety` column: a diagnosed row with findings or warnings gets it
+    let safety_at = (at("safety").is_none())
+        .then(|| {
+            report::TRIAGE_CSV_COLUMNS
+                .iter()
+                .position(|c| *c == "safety")
+        })
+        .flatten();
+    let warnings_col = at("warnings");
     // the last whole row of each file, in the order the files first appear
     let mut rows: Vec<(String, csv::StringRecord)> = Vec::new();
     // each file's place in `rows`, so a long batch is read in one pass
@@ -214,8 +224,15 @@ fn earlier_rows(path: &Path, files: &[PathBuf]) -> Result<Earlier, CliError> {
         if !ok && this_run.contains(&file) {
             continue;
         }
-        out.findings |= ok && !cell(&rec, defects_col).is_empty();
-        kept.push(columns.iter().map(|&c| cell(&rec, c)).collect::<Vec<_>>());
+        let findings = !cell(&rec, defects_col).is_empty();
+        out.findings |= ok && findings;
+        let mut row: Vec<String> = columns.iter().map(|&c| cell(&rec, c)).collect();
+        if let Some(i) = safety_at {
+            if ok && (findings || !cell(&rec, warnings_col).is_empty()) {
+                row[i] = report::SAFETY.to_string();
+            }
+        }
+        kept.push(row);
         if ok {
             out.done.insert(file);
         }

@@ -149,7 +149,8 @@ pub struct Diagnosis {
     pub agreement: Option<Agreement>,
     pub lanes: Vec<LaneResult>,
     pub spread_mm_per_m: f64,
-    /// Whether the output advises action (then it carries the safety note).
+    /// Whether the output advises action (then it carries the safety note): a finding, or a
+    /// note that advises action ([`Note::advises_action`]: a physical limit passed).
     pub advises_action: bool,
     pub notes: Vec<Note>,
     /// Noise floor, lane intervals and misfit ([`confidence`]).
@@ -287,7 +288,7 @@ pub fn diagnose_fitted(
         title: case.title.clone(),
         rules: table.source.clone(),
         spread_mm_per_m: feats.get(Feature::SpreadMmPerM),
-        advises_action: !findings.is_empty(),
+        advises_action: !findings.is_empty() || notes.iter().any(Note::advises_action),
         features: feats,
         findings,
         runs: rerun.map(|(r, _)| r.count).unwrap_or_default(),

@@ -24,6 +24,11 @@ pub struct TriageRow {
     pub error: Option<String>,
     /// The case's warnings and every physical limit a stage passed, in words.
     pub warnings: Vec<String>,
+    /// Whether the row advises action (a finding, or a physical limit passed): the CSV then
+    /// gives the safety note in its `safety` column. The JSON and the table give it once for
+    /// all rolls.
+    #[serde(skip)]
+    pub advises_action: bool,
 }
 
 impl TriageRow {
@@ -47,6 +52,7 @@ impl TriageRow {
             ),
             error: None,
             warnings: words::warnings(d),
+            advises_action: d.advises_action,
         }
     }
     /// A roll that could not be diagnosed; `e` names the file (the table prints it as it is).
@@ -62,6 +68,7 @@ impl TriageRow {
             limits_exceeded: None,
             error: Some(e.to_string()),
             warnings: Vec::new(),
+            advises_action: false,
         }
     }
     /// Ranking, larger first: failures, then rolls beyond a physical limit, then the rest; within
@@ -75,8 +82,10 @@ impl TriageRow {
     }
 }
 
-/// The columns of the triage CSV (SI; the spread is mm of extra length per m of web).
-pub const TRIAGE_CSV_COLUMNS: [&str; 10] = [
+/// The columns of the triage CSV (SI; the spread is mm of extra length per m of web). Each row
+/// stands on its own in a spreadsheet, so a row that advises action carries the safety note in
+/// `safety` (empty otherwise).
+pub const TRIAGE_CSV_COLUMNS: [&str; 11] = [
     "file",
     "case",
     "spread_mm_per_m",
@@ -87,6 +96,7 @@ pub const TRIAGE_CSV_COLUMNS: [&str; 10] = [
     "limits_exceeded",
     "error",
     "warnings",
+    "safety",
 ];
 
 /// The header line of the triage CSV.
@@ -121,6 +131,7 @@ pub fn triage_csv_rows(rows: &[TriageRow]) -> String {
                 r.limits_exceeded.map(|n| n.to_string()).unwrap_or_default(),
                 r.error.as_deref().map(one_line).unwrap_or_default(),
                 r.warnings.join(" | "),
+                if r.advises_action { SAFETY } else { "" }.to_string(),
             ])?;
         }
         Ok(())
