@@ -61,12 +61,7 @@ pub fn triage(
         write_now(&stdout, &earlier.text)?;
     }
     let mut rows = run_rolls(&todo, &table, format == TriageFormat::Csv, out.quiet)?;
-    rows.sort_by(|a, b| {
-        let (ka, kb) = (a.rank_key(), b.rank_key());
-        kb.0.cmp(&ka.0)
-            .then(kb.1.total_cmp(&ka.1))
-            .then(a.file.cmp(&b.file))
-    });
+    rows.sort_by(|a, b| a.rank_cmp(b).then(a.file.cmp(&b.file)));
     let s = match format {
         TriageFormat::Csv => String::new(),
         TriageFormat::Json => report::json_text(&report::triage_json(&rows))?,
@@ -166,7 +161,8 @@ struct Earlier {
 
 /// Read an earlier CSV output (`--resume`): its whole rows, mapped by column name onto the
 /// current columns (a column it lacks is left empty, but for `safety`, given to a diagnosed row
-/// with findings or warnings). A row cut short by a stop is not done; a
+/// with findings or warnings; a `top_likelihood` written before `top_probability` was the rule's
+/// weight and is left empty too). A row cut short by a stop is not done; a
 /// row with an error is not done either, so a file fixed since is diagnosed again and its new
 /// row supersedes the failed one.
 fn earlier_rows(path: &Path, files: &[PathBuf]) -> Result<Earlier, CliError> {
@@ -185,7 +181,10 @@ fn earlier_rows(path: &Path, files: &[PathBuf]) -> Result<Earlier, CliError> {
     let at = |name: &str| headers.iter().position(|h| h == name);
     let file_col = at("file").ok_or_else(|| fail("it has no `file` column".into()))?;
     let (error_col, defects_col) = (at("error"), at("defects"));
-    let columns: Vec<Option<usize>> = report::TRIAGE_CSV_COLUMNS.iter().map(|c| at(c)).collect();
+    // before `top_probability`, `top_likelihood` held the rule's weight, not the graded word
+    let columns: Vec<Option<usize>> = (report::TRIAGE_CSV_COLUMNS.iter())
+        .map(|&c| at(c).filter(|_| c != "top_likelihood" || at("top_probability").is_some()))
+        .collect();
     // a CSV from before the `safety` column: a diagnosed row with findings or warnings gets it
     let safety_at = (at("safety").is_none())
         .then(|| {

@@ -113,6 +113,17 @@ pub struct Finding {
     pub corrections: Vec<CheckedCorrection>,
 }
 
+impl Finding {
+    /// The order of findings, most likely first: by the graded likelihood (high, medium, low),
+    /// then the probability, then the rule's weight. `diagnose` lists its findings so, and
+    /// triage ranks rolls by their first finding the same way.
+    pub fn rank_cmp(&self, other: &Finding) -> std::cmp::Ordering {
+        (other.likelihood.rank().cmp(&self.likelihood.rank()))
+            .then(other.probability.total_cmp(&self.probability))
+            .then(other.weight.total_cmp(&self.weight))
+    }
+}
+
 /// Does the prediction agree with what the complainant saw?
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct Agreement {
@@ -415,4 +426,53 @@ fn lane_results(fit: &crate::fit::RollFit, lanes: &Lanes, feats: &Features) -> V
             extrapolated: lanes.lanes[i].extrapolated,
         })
         .collect()
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn finding(rule: &str, likelihood: Likelihood, probability: f64, weight: f64) -> Finding {
+        Finding {
+            defect: Defect::BaggyLane,
+            rule: rule.into(),
+            likelihood,
+            probability,
+            weight,
+            mechanism: String::new(),
+            evidence: Vec::new(),
+            lanes: Vec::new(),
+            length_difference_mm_per_m: 0.0,
+            attribution: None,
+            corrections: Vec::new(),
+        }
+    }
+
+    /// Findings are listed by graded likelihood first: a high finding before a medium one of
+    /// a rule with the same label weight and probability, and before a medium one whose
+    /// probability times weight is larger; then by probability, then by the label's weight.
+    #[test]
+    fn findings_rank_by_graded_likelihood_then_probability_then_weight() {
+        let mut f = vec![
+            finding("medium-sure", Likelihood::Medium, 1.0, 0.8),
+            finding("low", Likelihood::Low, 1.0, 0.8),
+            finding("high-less-sure", Likelihood::High, 0.9, 0.5),
+            finding("medium-lower-label", Likelihood::Medium, 1.0, 0.5),
+            finding("high", Likelihood::High, 1.0, 0.8),
+            finding("medium-less-sure", Likelihood::Medium, 0.7, 0.8),
+        ];
+        f.sort_by(Finding::rank_cmp);
+        let order: Vec<&str> = f.iter().map(|x| x.rule.as_str()).collect();
+        assert_eq!(
+            order,
+            [
+                "high",
+                "high-less-sure",
+                "medium-sure",
+                "medium-lower-label",
+                "medium-less-sure",
+                "low"
+            ]
+        );
+    }
 }
