@@ -453,7 +453,7 @@ mod tests {
     /// probability times weight is larger; then by probability, then by the label's weight.
     #[test]
     fn findings_rank_by_graded_likelihood_then_probability_then_weight() {
-        let mut f = vec![
+        let mut f = [
             finding("medium-sure", Likelihood::Medium, 1.0, 0.8),
             finding("low", Likelihood::Low, 1.0, 0.8),
             finding("high-less-sure", Likelihood::High, 0.9, 0.5),

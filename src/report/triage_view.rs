@@ -422,7 +422,7 @@ mod tests {
     #[test]
     fn triage_ranks_by_graded_likelihood_then_probability_then_weight_then_spread() {
         use Likelihood::{High, Medium};
-        let mut rows = vec![
+        let mut rows = [
             row("none", None, 3.0),
             row("medium", Some((Medium, 1.0, 0.8)), 2.0),
             row("high_less_sure", Some((High, 0.92, 0.8)), 0.1),
