@@ -426,6 +426,13 @@ pub fn push_new(notes: &mut Vec<Note>, more: impl IntoIterator<Item = Note>) {
 }
 
 impl Note {
+    /// Whether this note advises action on the roll: a physical limit passed, each warned of
+    /// with what to check or how to treat the roll. Output carrying one carries the safety note
+    /// (`report::SAFETY`), as output with findings does.
+    pub fn advises_action(&self) -> bool {
+        matches!(self, Note::Limit(_))
+    }
+
     /// Whether this note is a warning (a physical limit passed, measurements the model does not
     /// explain, the wound state against the winding-time diameters, surveys past the storage
     /// history, which the model fills with an assumed stretch), not information.

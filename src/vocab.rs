@@ -163,7 +163,17 @@ words! {
 }
 
 impl Likelihood {
-    /// Weight for ranking findings (common practice: ordinal, high first).
+    /// Rank of the grade, higher more likely: high 2, medium 1, low 0.
+    pub const fn rank(self) -> u8 {
+        match self {
+            Likelihood::High => 2,
+            Likelihood::Medium => 1,
+            Likelihood::Low => 0,
+        }
+    }
+
+    /// Weight of a rule's label, which breaks ties between findings of the same graded
+    /// likelihood and probability (common practice: ordinal, high first).
     pub const fn weight(self) -> f64 {
         match self {
             Likelihood::High => 0.8,

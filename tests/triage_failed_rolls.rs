@@ -41,6 +41,7 @@ fn a_failed_roll_has_no_numbers_and_its_whole_message() {
     );
     assert!(bad["spread_mm_per_m"].is_null(), "{bad}");
     assert!(bad["top_likelihood"].is_null(), "{bad}");
+    assert!(bad["top_probability"].is_null(), "{bad}");
     let error = bad["error"].as_str().unwrap();
     assert!(
         error.contains("winding.tension") && error.contains('\n'),
@@ -61,6 +62,7 @@ fn a_failed_roll_has_no_numbers_and_its_whole_message() {
         .unwrap();
     assert_eq!(&bad[col("spread_mm_per_m")], "", "{csv}");
     assert_eq!(&bad[col("top_likelihood")], "", "{csv}");
+    assert_eq!(&bad[col("top_probability")], "", "{csv}");
     let e = &bad[col("error")];
     assert!(
         e.contains("1 problem in the case | ") && e.contains("winding.tension") && e.contains("kg"),

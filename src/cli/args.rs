@@ -114,8 +114,8 @@ pub enum Command {
     /// Triage many rolls: one line each, worst first.
     ///
     /// Worst first: rolls not diagnosed, then rolls beyond a physical limit (column "beyond
-    /// limits", `limits_exceeded`), then the rest, each by the first finding's likelihood and
-    /// then the length spread.
+    /// limits", `limits_exceeded`), then the rest, each by the first finding's graded likelihood,
+    /// its probability and its rule's label, then the length spread.
     Triage {
         /// Case files or folders of case files (*.yaml).
         paths: Vec<PathBuf>,

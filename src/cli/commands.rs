@@ -266,16 +266,33 @@ pub fn diagnose(
     })
 }
 
-/// `whatif`: the case as measured against the case with the `--set` changes.
+/// `whatif`: the case as measured against the case with the `--set` changes. A change of the
+/// lane layout, or one that moves the lanes, is refused before the run: the comparison is lane
+/// by lane.
 pub fn whatif(arg: &CaseArg, rules: &RulesArg, out: Output) -> Result<Outcome, CliError> {
     if arg.set.is_empty() {
         return Err(CliError::WhatIfNeedsSet);
+    }
+    if let Some(set) = arg.set.iter().find(|s| sets_lanes(s)) {
+        return Err(CliError::WhatIfLaneLayout {
+            set: set.clone(),
+            diagnose: diagnose_command(arg),
+        });
     }
     let base = load(&CaseArg {
         case: arg.case.clone(),
         set: Vec::new(),
     })?;
     let variant = load(arg)?;
+    let (before, after) = (lanes::build(&base), lanes::build(&variant));
+    if before.positions() != after.positions() {
+        return Err(CliError::WhatIfLanesMoved {
+            sets: arg.set.join(" --set "),
+            before: before.lanes.len(),
+            after: after.lanes.len(),
+            diagnose: diagnose_command(arg),
+        });
+    }
     let table = load_rules(rules)?;
     let w = diagnose::what_if(&base, &variant, &arg.set, &table, &Default::default())?;
     let s = if out.json {
@@ -289,6 +306,33 @@ pub fn whatif(arg: &CaseArg, rules: &RulesArg, out: Output) -> Result<Outcome, C
     } else {
         Outcome::Findings(s)
     })
+}
+
+/// Whether a `--set path=value` writes the lane layout (`lanes`, `lanes.count`, `lanes.edges`).
+fn sets_lanes(set: &str) -> bool {
+    let path = set.split_once('=').map_or(set, |(p, _)| p).trim();
+    path.split(['.', '[']).next() == Some("lanes")
+}
+
+/// The `diagnose` command line with the same case and `--set` changes, each argument quoted for
+/// a POSIX shell where it needs it.
+fn diagnose_command(arg: &CaseArg) -> String {
+    let quote = |a: &str| {
+        let plain = |c: char| c.is_ascii_alphanumeric() || "_-.,/=:[]+".contains(c);
+        if !a.is_empty() && a.chars().all(plain) {
+            a.to_string()
+        } else {
+            format!("'{}'", a.replace('\'', r"'\''"))
+        }
+    };
+    let mut words = vec!["rollsleuth diagnose".to_string()];
+    if let Some(c) = &arg.case {
+        words.push(quote(&c.display().to_string()));
+    }
+    for s in &arg.set {
+        words.push(format!("--set {}", quote(s)));
+    }
+    words.join(" ")
 }
 
 /// `rules features`.
@@ -369,4 +413,30 @@ fn write_report(
         source,
     })?;
     Ok((d, written))
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// `lanes` and every path under it set the lane layout; a field merely named like it does not.
+    #[test]
+    fn sets_lanes_knows_the_lane_layout_paths() {
+        for s in [
+            "lanes.count=24",
+            " lanes.edges = [0, 1 m]",
+            "lanes={count: 3}",
+            "lanes[0]=1",
+        ] {
+            assert!(sets_lanes(s), "{s}");
+        }
+        for s in [
+            "winding.tension=2 pli",
+            "lanes_note=x",
+            "roll.lanes=3",
+            "profiles[0].age=1 d",
+        ] {
+            assert!(!sets_lanes(s), "{s}");
+        }
+    }
 }

@@ -48,6 +48,18 @@ pub enum CliError {
     Json(#[from] serde_json::Error),
     #[error("whatif needs at least one --set path=value, e.g. --set winding.tension=\"1.8 pli\"")]
     WhatIfNeedsSet,
+    /// `whatif --set lanes...`: a change of the lane layout cannot be compared lane by lane.
+    #[error("--set {set}: whatif compares the roll lane by lane before and after a change, so it cannot change the lane layout (lanes.count, lanes.edges). Fix: leave `lanes` out of whatif's --set, or run `{diagnose}` to see the roll at another lane layout")]
+    WhatIfLaneLayout { set: String, diagnose: String },
+    /// `whatif` with changes that move the lanes (profile positions, the width): no lane-by-lane
+    /// comparison.
+    #[error("--set {sets}: the change moves the lanes ({}), and whatif compares the roll lane by lane before and after a change. Fix: run `{diagnose}` to see the changed roll at its own lanes", lanes_moved(*.before, *.after))]
+    WhatIfLanesMoved {
+        sets: String,
+        before: usize,
+        after: usize,
+        diagnose: String,
+    },
     #[error("triage needs case files or folders holding *.yaml case files")]
     TriageNeedsFiles,
     #[error("{name}: the case {0}", name = super::commands::STDIN_NAME)]
@@ -61,6 +73,15 @@ pub enum CliError {
     Resume { path: PathBuf, message: String },
     #[error("--resume needs --format csv (it continues a CSV output)")]
     ResumeNeedsCsv,
+}
+
+/// How the lanes moved: their count, else their centres.
+fn lanes_moved(before: usize, after: usize) -> String {
+    if before == after {
+        format!("{before} lanes, not all at the same centres")
+    } else {
+        format!("{before} lanes before, {after} after")
+    }
 }
 
 /// Case errors one per line, each but the first with its own `error: ` prefix.
@@ -84,6 +105,7 @@ impl CliError {
             | CliError::InputLimit(_)
             | CliError::OutNotFolder(_) => super::USAGE_EXIT,
             CliError::Stdin(_) | CliError::Stdout { .. } | CliError::Resume { .. } => 2,
+            CliError::WhatIfLaneLayout { .. } | CliError::WhatIfLanesMoved { .. } => 2,
             CliError::Case(_)
             | CliError::Cases(_)
             | CliError::Rules(_)
@@ -116,6 +138,8 @@ impl CliError {
             | CliError::Stdin(_)
             | CliError::Resume { .. }
             | CliError::RulesText { .. }
+            | CliError::WhatIfLaneLayout { .. }
+            | CliError::WhatIfLanesMoved { .. }
             | CliError::Folder { .. } => "bad_input",
             CliError::Wind(_)
             | CliError::Age(_)

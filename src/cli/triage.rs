@@ -61,12 +61,7 @@ pub fn triage(
         write_now(&stdout, &earlier.text)?;
     }
     let mut rows = run_rolls(&todo, &table, format == TriageFormat::Csv, out.quiet)?;
-    rows.sort_by(|a, b| {
-        let (ka, kb) = (a.rank_key(), b.rank_key());
-        kb.0.cmp(&ka.0)
-            .then(kb.1.total_cmp(&ka.1))
-            .then(a.file.cmp(&b.file))
-    });
+    rows.sort_by(|a, b| a.rank_cmp(b).then(a.file.cmp(&b.file)));
     let s = match format {
         TriageFormat::Csv => String::new(),
         TriageFormat::Json => report::json_text(&report::triage_json(&rows))?,
@@ -165,7 +160,9 @@ struct Earlier {
 }
 
 /// Read an earlier CSV output (`--resume`): its whole rows, mapped by column name onto the
-/// current columns (a column it lacks is left empty). A row cut short by a stop is not done; a
+/// current columns (a column it lacks is left empty, but for `safety`, given to a diagnosed row
+/// with findings or warnings; a `top_likelihood` written before `top_probability` was the rule's
+/// weight and is left empty too). A row cut short by a stop is not done; a
 /// row with an error is not done either, so a file fixed since is diagnosed again and its new
 /// row supersedes the failed one.
 fn earlier_rows(path: &Path, files: &[PathBuf]) -> Result<Earlier, CliError> {
@@ -184,7 +181,19 @@ fn earlier_rows(path: &Path, files: &[PathBuf]) -> Result<Earlier, CliError> {
     let at = |name: &str| headers.iter().position(|h| h == name);
     let file_col = at("file").ok_or_else(|| fail("it has no `file` column".into()))?;
     let (error_col, defects_col) = (at("error"), at("defects"));
-    let columns: Vec<Option<usize>> = report::TRIAGE_CSV_COLUMNS.iter().map(|c| at(c)).collect();
+    // before `top_probability`, `top_likelihood` held the rule's weight, not the graded word
+    let columns: Vec<Option<usize>> = (report::TRIAGE_CSV_COLUMNS.iter())
+        .map(|&c| at(c).filter(|_| c != "top_likelihood" || at("top_probability").is_some()))
+        .collect();
+    // a CSV from before the `safety` column: a diagnosed row with findings or warnings gets it
+    let safety_at = (at("safety").is_none())
+        .then(|| {
+            report::TRIAGE_CSV_COLUMNS
+                .iter()
+                .position(|c| *c == "safety")
+        })
+        .flatten();
+    let warnings_col = at("warnings");
     // the last whole row of each file, in the order the files first appear
     let mut rows: Vec<(String, csv::StringRecord)> = Vec::new();
     // each file's place in `rows`, so a long batch is read in one pass
@@ -214,8 +223,15 @@ fn earlier_rows(path: &Path, files: &[PathBuf]) -> Result<Earlier, CliError> {
         if !ok && this_run.contains(&file) {
             continue;
         }
-        out.findings |= ok && !cell(&rec, defects_col).is_empty();
-        kept.push(columns.iter().map(|&c| cell(&rec, c)).collect::<Vec<_>>());
+        let findings = !cell(&rec, defects_col).is_empty();
+        out.findings |= ok && findings;
+        let mut row: Vec<String> = columns.iter().map(|&c| cell(&rec, c)).collect();
+        if let Some(i) = safety_at {
+            if ok && (findings || !cell(&rec, warnings_col).is_empty()) {
+                row[i] = report::SAFETY.to_string();
+            }
+        }
+        kept.push(row);
         if ok {
             out.done.insert(file);
         }

@@ -37,7 +37,8 @@
 //!   excess and centre-to-edges difference that pass).
 //! - **Grading.** Likelihood from the probability (high at 0.9 or more, medium at 0.6, else low),
 //!   never above the rule's own label, and high only with a clear margin over noise
-//!   ([`NoiseTest::clear`]).
+//!   ([`NoiseTest::clear`]). Findings are listed by that grade, then by probability, then by
+//!   the rule's weight ([`Finding::rank_cmp`]).
 //! - **Consistency.** A lane whose fit misfit (root-mean-square residual in noise units) exceeds
 //!   [`MISFIT_LIMIT`] is not explained; so is the roll when its pooled misfit does. Findings on
 //!   such lanes, or on lanes with a scale the data do not identify, are named in notes.
@@ -146,7 +147,7 @@ pub fn assess(
         keep
     });
     drop_orphan_notes(findings, notes);
-    findings.sort_by(|a, b| (b.probability * b.weight).total_cmp(&(a.probability * a.weight)));
+    findings.sort_by(Finding::rank_cmp);
     notes.push(fl.resolution);
     let lanes = lane_spreads(fitted, feats, &states);
     let roll_misfit = roll_misfit(fitted);
@@ -414,11 +415,6 @@ fn grade_findings(
 /// Likelihood from a probability, capped by the rule's label; high needs a clear margin over
 /// noise ([`NoiseTest::clear`]).
 fn grade(p: f64, wide: bool, label: Likelihood) -> Likelihood {
-    let rank = |l: Likelihood| match l {
-        Likelihood::High => 2,
-        Likelihood::Medium => 1,
-        Likelihood::Low => 0,
-    };
     let g = if p >= 0.9 && wide {
         Likelihood::High
     } else if p >= 0.6 {
@@ -426,7 +422,7 @@ fn grade(p: f64, wide: bool, label: Likelihood) -> Likelihood {
     } else {
         Likelihood::Low
     };
-    if rank(g) <= rank(label) {
+    if g.rank() <= label.rank() {
         g
     } else {
         label

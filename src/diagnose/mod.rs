@@ -113,6 +113,17 @@ pub struct Finding {
     pub corrections: Vec<CheckedCorrection>,
 }
 
+impl Finding {
+    /// The order of findings, most likely first: by the graded likelihood (high, medium, low),
+    /// then the probability, then the rule's weight. `diagnose` lists its findings so, and
+    /// triage ranks rolls by their first finding the same way.
+    pub fn rank_cmp(&self, other: &Finding) -> std::cmp::Ordering {
+        (other.likelihood.rank().cmp(&self.likelihood.rank()))
+            .then(other.probability.total_cmp(&self.probability))
+            .then(other.weight.total_cmp(&self.weight))
+    }
+}
+
 /// Does the prediction agree with what the complainant saw?
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct Agreement {
@@ -149,7 +160,8 @@ pub struct Diagnosis {
     pub agreement: Option<Agreement>,
     pub lanes: Vec<LaneResult>,
     pub spread_mm_per_m: f64,
-    /// Whether the output advises action (then it carries the safety note).
+    /// Whether the output advises action (then it carries the safety note): a finding, or a
+    /// note that advises action ([`Note::advises_action`]: a physical limit passed).
     pub advises_action: bool,
     pub notes: Vec<Note>,
     /// Noise floor, lane intervals and misfit ([`confidence`]).
@@ -287,7 +299,7 @@ pub fn diagnose_fitted(
         title: case.title.clone(),
         rules: table.source.clone(),
         spread_mm_per_m: feats.get(Feature::SpreadMmPerM),
-        advises_action: !findings.is_empty(),
+        advises_action: !findings.is_empty() || notes.iter().any(Note::advises_action),
         features: feats,
         findings,
         runs: rerun.map(|(r, _)| r.count).unwrap_or_default(),
@@ -414,4 +426,53 @@ fn lane_results(fit: &crate::fit::RollFit, lanes: &Lanes, feats: &Features) -> V
             extrapolated: lanes.lanes[i].extrapolated,
         })
         .collect()
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn finding(rule: &str, likelihood: Likelihood, probability: f64, weight: f64) -> Finding {
+        Finding {
+            defect: Defect::BaggyLane,
+            rule: rule.into(),
+            likelihood,
+            probability,
+            weight,
+            mechanism: String::new(),
+            evidence: Vec::new(),
+            lanes: Vec::new(),
+            length_difference_mm_per_m: 0.0,
+            attribution: None,
+            corrections: Vec::new(),
+        }
+    }
+
+    /// Findings are listed by graded likelihood first: a high finding before a medium one of
+    /// a rule with the same label weight and probability, and before a medium one whose
+    /// probability times weight is larger; then by probability, then by the label's weight.
+    #[test]
+    fn findings_rank_by_graded_likelihood_then_probability_then_weight() {
+        let mut f = [
+            finding("medium-sure", Likelihood::Medium, 1.0, 0.8),
+            finding("low", Likelihood::Low, 1.0, 0.8),
+            finding("high-less-sure", Likelihood::High, 0.9, 0.5),
+            finding("medium-lower-label", Likelihood::Medium, 1.0, 0.5),
+            finding("high", Likelihood::High, 1.0, 0.8),
+            finding("medium-less-sure", Likelihood::Medium, 0.7, 0.8),
+        ];
+        f.sort_by(Finding::rank_cmp);
+        let order: Vec<&str> = f.iter().map(|x| x.rule.as_str()).collect();
+        assert_eq!(
+            order,
+            [
+                "high",
+                "high-less-sure",
+                "medium-sure",
+                "medium-lower-label",
+                "medium-less-sure",
+                "low"
+            ]
+        );
+    }
 }

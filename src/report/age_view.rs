@@ -73,6 +73,7 @@ pub fn text(c: &Case, lanes: &Lanes, a: &Aged, sys: System) -> String {
     for line in super::words::note_lines(&c.warnings, &a.notes) {
         let _ = writeln!(out, "{line}");
     }
+    super::push_safety(&mut out, super::safety_for(&a.notes));
     out
 }
 
@@ -106,7 +107,7 @@ fn time_line(lanes: &Lanes, a: &Aged) -> comfy_table::Table {
     tl
 }
 
-/// JSON with arrays over `times_s`.
+/// JSON with arrays over `times_s`; `safety` when a warning advises action.
 pub fn json(c: &Case, a: &Aged) -> Value {
     let (notes, warnings) = super::words::note_json(&c.warnings, &a.notes);
     json!({
@@ -117,6 +118,7 @@ pub fn json(c: &Case, a: &Aged) -> Value {
         "hardness_map": a.hardness_map,
         "notes": notes,
         "warnings": warnings,
+        "safety": super::safety_for(&a.notes),
         "lanes": a.lanes,
     })
 }

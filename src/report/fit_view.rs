@@ -76,9 +76,11 @@ pub fn text(c: &Case, lanes: &Lanes, f: &RollFit, sys: System) -> String {
         crate::units::show(f.noise.diameter_m, crate::units::Kind::Length, sys, false),
         f.noise.diameter_source
     );
-    for line in super::words::note_lines(&c.warnings, &f.all_notes()) {
+    let notes = f.all_notes();
+    for line in super::words::note_lines(&c.warnings, &notes) {
         let _ = writeln!(out, "{line}");
     }
+    super::push_safety(&mut out, super::safety_for(&notes));
     out
 }
 
@@ -118,9 +120,10 @@ fn worst_residuals(f: &RollFit, sys: System) -> Option<comfy_table::Table> {
     Some(r)
 }
 
-/// JSON of the fit.
+/// JSON of the fit; `safety` when a warning advises action.
 pub fn json(c: &Case, f: &RollFit) -> Value {
-    let (notes, warnings) = super::words::note_json(&c.warnings, &f.all_notes());
+    let all = f.all_notes();
+    let (notes, warnings) = super::words::note_json(&c.warnings, &all);
     json!({
         "case": c.id,
         "lanes": f.lanes.iter().enumerate().map(|(i, l)| json!({
@@ -165,6 +168,7 @@ pub fn json(c: &Case, f: &RollFit) -> Value {
         "evaluations": f.evaluations,
         "notes": notes,
         "warnings": warnings,
+        "safety": super::safety_for(&all),
     })
 }
 

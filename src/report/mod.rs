@@ -109,6 +109,24 @@ pub fn pos(si: f64, sys: System) -> String {
 /// The safety note every output that advises action carries.
 pub const SAFETY: &str = "Safety: rolls are heavy and can burst, telescope or fall. These findings support, and do not replace, site procedures, local codes and the judgement of qualified people; handle, wind and store rolls only as your site's procedures allow.";
 
+/// The safety note for output whose notes advise action ([`crate::note::Note::advises_action`]):
+/// `Some(SAFETY)`, else `None` (JSON `null`, as `diagnose` gives without findings).
+pub fn safety_for(notes: &[crate::note::Note]) -> Option<&'static str> {
+    notes
+        .iter()
+        .any(crate::note::Note::advises_action)
+        .then_some(SAFETY)
+}
+
+/// The safety note as the last paragraph of human output, when `safety` holds it.
+pub fn push_safety(out: &mut String, safety: Option<&str>) {
+    if let Some(s) = safety {
+        out.push('\n');
+        out.push_str(s);
+        out.push('\n');
+    }
+}
+
 /// A JSON document as printed: pretty, keys sorted, a final newline.
 pub fn json_text(v: &serde_json::Value) -> Result<String, serde_json::Error> {
     let mut s = serde_json::to_string_pretty(v)?;

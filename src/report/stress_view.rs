@@ -71,9 +71,11 @@ pub fn text(c: &Case, l: &Lanes, w: &Wound, sys: System) -> String {
             slack.join(", ")
         );
     }
-    for line in super::words::note_lines(&c.warnings, &limits(c, l, w)) {
+    let limits = limits(c, l, w);
+    for line in super::words::note_lines(&c.warnings, &limits) {
         let _ = writeln!(out, "{line}");
     }
+    super::push_safety(&mut out, super::safety_for(&limits));
     out
 }
 
@@ -117,9 +119,10 @@ fn limits(c: &Case, l: &Lanes, w: &Wound) -> Vec<crate::note::Note> {
     out
 }
 
-/// JSON with full radial arrays per lane.
+/// JSON with full radial arrays per lane; `safety` when a warning advises action.
 pub fn json(c: &Case, l: &Lanes, w: &Wound) -> Value {
-    let (notes, warnings) = super::words::note_json(&c.warnings, &limits(c, l, w));
+    let limits = limits(c, l, w);
+    let (notes, warnings) = super::words::note_json(&c.warnings, &limits);
     json!({
         "case": c.id,
         "radius_m": w.radius_m,
@@ -144,6 +147,7 @@ pub fn json(c: &Case, l: &Lanes, w: &Wound) -> Value {
         })).collect::<Vec<_>>(),
         "notes": notes,
         "warnings": warnings,
+        "safety": super::safety_for(&limits),
     })
 }
 

@@ -3,7 +3,8 @@
 use super::{pos, table, words, SAFETY};
 use crate::note::Note;
 use crate::units::System;
-use crate::vocab::Defect;
+use crate::vocab::{Defect, Likelihood};
+use std::cmp::Ordering;
 
 /// One roll in a triage.
 #[derive(Debug, Clone, PartialEq, serde::Serialize)]
@@ -13,8 +14,15 @@ pub struct TriageRow {
     /// Length spread at unwind, mm per m of web; `None` (JSON null) when the roll could not be
     /// diagnosed, so that no reader takes a failed roll for a perfect one.
     pub spread_mm_per_m: Option<f64>,
-    /// Likelihood of the first finding (0 with none); `None` when not diagnosed.
-    pub top_likelihood: Option<f64>,
+    /// Graded likelihood of the first finding (the most likely, as `diagnose` orders them);
+    /// `None` with no finding or when not diagnosed.
+    pub top_likelihood: Option<Likelihood>,
+    /// Probability of the first finding (share of the plausible states in which it holds);
+    /// `None` with no finding or when not diagnosed.
+    pub top_probability: Option<f64>,
+    /// Weight of the first finding's rule label, the last tie-break of the ranking.
+    #[serde(skip)]
+    pub top_weight: Option<f64>,
     pub defects: Vec<Defect>,
     pub complaint: Option<Defect>,
     pub agrees: Option<bool>,
@@ -24,6 +32,11 @@ pub struct TriageRow {
     pub error: Option<String>,
     /// The case's warnings and every physical limit a stage passed, in words.
     pub warnings: Vec<String>,
+    /// Whether the row advises action (a finding, or a physical limit passed): the CSV then
+    /// gives the safety note in its `safety` column. The JSON and the table give it once for
+    /// all rolls.
+    #[serde(skip)]
+    pub advises_action: bool,
 }
 
 impl TriageRow {
@@ -35,7 +48,9 @@ impl TriageRow {
             file: file.display().to_string(),
             case: d.case.clone(),
             spread_mm_per_m: Some(d.spread_mm_per_m),
-            top_likelihood: Some(d.findings.first().map(|f| f.weight).unwrap_or(0.0)),
+            top_likelihood: d.findings.first().map(|f| f.likelihood),
+            top_probability: d.findings.first().map(|f| f.probability),
+            top_weight: d.findings.first().map(|f| f.weight),
             defects,
             complaint: d.agreement.as_ref().map(|a| a.complaint),
             agrees: d.agreement.as_ref().map(|a| a.agrees),
@@ -47,6 +62,7 @@ impl TriageRow {
             ),
             error: None,
             warnings: words::warnings(d),
+            advises_action: d.advises_action,
         }
     }
     /// A roll that could not be diagnosed; `e` names the file (the table prints it as it is).
@@ -56,37 +72,52 @@ impl TriageRow {
             case: String::new(),
             spread_mm_per_m: None,
             top_likelihood: None,
+            top_probability: None,
+            top_weight: None,
             defects: Vec::new(),
             complaint: None,
             agrees: None,
             limits_exceeded: None,
             error: Some(e.to_string()),
             warnings: Vec::new(),
+            advises_action: false,
         }
     }
-    /// Ranking, larger first: failures, then rolls beyond a physical limit, then the rest; within
-    /// each, by the first finding's likelihood, then by spread.
-    pub fn rank_key(&self) -> (u8, f64) {
-        let beyond = u8::from(self.limits_exceeded > Some(0));
-        match (&self.error, self.top_likelihood, self.spread_mm_per_m) {
-            (None, Some(l), Some(s)) => (beyond, l * 1e3 + s),
-            _ => (2, 0.0),
-        }
+    /// The triage order, worst first: failures, then rolls beyond a physical limit, then the
+    /// rest; within each, as `diagnose` orders findings, by the first finding's graded
+    /// likelihood (a roll with none last), then its probability, then its rule's weight; then by
+    /// the spread.
+    pub fn rank_cmp(&self, other: &TriageRow) -> Ordering {
+        let group = |r: &TriageRow| match (&r.error, r.spread_mm_per_m) {
+            (None, Some(_)) => u8::from(r.limits_exceeded > Some(0)),
+            _ => 2,
+        };
+        let grade = |r: &TriageRow| r.top_likelihood.map(|l| l.rank() + 1).unwrap_or(0);
+        let num = |x: Option<f64>| x.unwrap_or(0.0);
+        (group(other).cmp(&group(self)))
+            .then(grade(other).cmp(&grade(self)))
+            .then(num(other.top_probability).total_cmp(&num(self.top_probability)))
+            .then(num(other.top_weight).total_cmp(&num(self.top_weight)))
+            .then(num(other.spread_mm_per_m).total_cmp(&num(self.spread_mm_per_m)))
     }
 }
 
-/// The columns of the triage CSV (SI; the spread is mm of extra length per m of web).
-pub const TRIAGE_CSV_COLUMNS: [&str; 10] = [
+/// The columns of the triage CSV (SI; the spread is mm of extra length per m of web). Each row
+/// stands on its own in a spreadsheet, so a row that advises action carries the safety note in
+/// `safety` (empty otherwise).
+pub const TRIAGE_CSV_COLUMNS: [&str; 12] = [
     "file",
     "case",
     "spread_mm_per_m",
     "top_likelihood",
+    "top_probability",
     "defects",
     "complaint",
     "agrees",
     "limits_exceeded",
     "error",
     "warnings",
+    "safety",
 ];
 
 /// The header line of the triage CSV.
@@ -113,6 +144,9 @@ pub fn triage_csv_rows(rows: &[TriageRow]) -> String {
                     .map(|x| format!("{x:.4}"))
                     .unwrap_or_default(),
                 r.top_likelihood
+                    .map(|l| l.word().to_string())
+                    .unwrap_or_default(),
+                r.top_probability
                     .map(|x| format!("{x:.2}"))
                     .unwrap_or_default(),
                 defects.join(";"),
@@ -121,6 +155,7 @@ pub fn triage_csv_rows(rows: &[TriageRow]) -> String {
                 r.limits_exceeded.map(|n| n.to_string()).unwrap_or_default(),
                 r.error.as_deref().map(one_line).unwrap_or_default(),
                 r.warnings.join(" | "),
+                if r.advises_action { SAFETY } else { "" }.to_string(),
             ])?;
         }
         Ok(())
@@ -367,6 +402,71 @@ mod tests {
             case_warnings_before: Vec::new(),
             notes_before: Vec::new(),
         }
+    }
+
+    fn row(file: &str, grade: Option<(Likelihood, f64, f64)>, spread: f64) -> TriageRow {
+        let mut r = TriageRow::failed(std::path::Path::new(file), "");
+        r.error = None;
+        r.spread_mm_per_m = Some(spread);
+        r.limits_exceeded = Some(0);
+        r.top_likelihood = grade.map(|g| g.0);
+        r.top_probability = grade.map(|g| g.1);
+        r.top_weight = grade.map(|g| g.2);
+        r
+    }
+
+    /// Rolls rank by their first finding's graded likelihood, then its probability, then its
+    /// rule's weight, then the spread: a medium finding of a high-labelled rule (weight 0.8)
+    /// on a roll with a wide spread ranks below a high finding; a roll with no finding last, a
+    /// failed roll first.
+    #[test]
+    fn triage_ranks_by_graded_likelihood_then_probability_then_weight_then_spread() {
+        use Likelihood::{High, Medium};
+        let mut rows = [
+            row("none", None, 3.0),
+            row("medium", Some((Medium, 1.0, 0.8)), 2.0),
+            row("high_less_sure", Some((High, 0.92, 0.8)), 0.1),
+            row("high_sure", Some((High, 1.0, 0.8)), 0.2),
+            row("medium_lower_label", Some((Medium, 1.0, 0.5)), 2.5),
+            row("high_sure_wider", Some((High, 1.0, 0.8)), 0.3),
+            TriageRow::failed(std::path::Path::new("failed"), "bad"),
+        ];
+        rows.sort_by(|a, b| a.rank_cmp(b));
+        let order: Vec<&str> = rows.iter().map(|r| r.file.as_str()).collect();
+        assert_eq!(
+            order,
+            [
+                "failed",
+                "high_sure_wider",
+                "high_sure",
+                "high_less_sure",
+                "medium",
+                "medium_lower_label",
+                "none"
+            ]
+        );
+    }
+
+    /// The CSV gives the graded word and the probability, each empty when there is no finding.
+    #[test]
+    fn triage_csv_gives_the_graded_likelihood_and_the_probability() {
+        let rows = [
+            row("a.yaml", Some((Likelihood::Medium, 0.75, 0.8)), 1.0),
+            row("b.yaml", None, 0.0),
+        ];
+        let csv = triage_csv_rows(&rows);
+        let mut lines = csv.lines();
+        assert!(
+            lines
+                .next()
+                .unwrap()
+                .starts_with("a.yaml,,1.0000,medium,0.75,"),
+            "{csv}"
+        );
+        assert!(
+            lines.next().unwrap().starts_with("b.yaml,,0.0000,,,"),
+            "{csv}"
+        );
     }
 
     /// Lanes that line up give one row each; lanes that do not are an error naming the counts,
