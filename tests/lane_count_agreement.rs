@@ -112,13 +112,15 @@ fn same_defects(runs: &[(usize, Diagnosis)], want: &[Defect]) {
     }
 }
 
-/// The demo (a 3.5 % caliper band at 650 mm): a baggy lane, a ridge and a gauge band at 16, 18,
-/// 24 and 40 lanes (before the cross-width window was fixed in metres the ridge was lost at 40
-/// lanes), and the longest lane's length at unwind agrees within the 5-95 % intervals: every
-/// pair of intervals overlaps, and the longest lane stays at the band.
+/// The demo (a 3.5 % caliper band at 650 mm, one reading wide): a baggy lane, a ridge and a
+/// gauge band at 16, 17, 18, 20, 22, 24 and 40 lanes, and the longest lane's length at unwind
+/// agrees within the 5-95 % intervals: every pair of intervals overlaps, and the longest lane
+/// stays at the band. Before the cross-width window was fixed in metres the ridge was lost at 40
+/// lanes; before a lane took the reading it holds whole (`lanes::onto`), at 17, 20 and 22 lanes,
+/// whose centres missed the band's reading and took about two thirds of its height.
 #[test]
 fn the_demo_gives_the_same_findings_and_peak_lane_at_every_lane_count() {
-    let runs = at_counts(None, &[16, 18, 24, 40]);
+    let runs = at_counts(None, &[16, 17, 18, 20, 22, 24, 40]);
     same_defects(
         &runs,
         &[Defect::BaggyLane, Defect::Ridges, Defect::GaugeBands],
@@ -212,4 +214,28 @@ fn lanes_coarser_than_the_readings_say_what_resolves_a_band() {
         assert_eq!(coarse(&case_at(None, n)), None, "{n} lanes");
     }
     assert_eq!(coarse(&case::load_demo(&[]).unwrap()), None);
+}
+
+/// One or two lanes resolve no pattern across the width: the demo as one lane, or as two
+/// halves, gives no baggy centre or edges (one lane had given a baggy centre of 0.59 mm/m, its
+/// own mean strain read against no edge at all; definition of the feature).
+#[test]
+fn one_or_two_lanes_make_no_centre_against_edges() {
+    use rollsleuth::vocab::Feature;
+    for edges in [
+        "[\"0 mm\", \"1600 mm\"]",
+        "[\"0 mm\", \"800 mm\", \"1600 mm\"]",
+    ] {
+        let c = case::load_demo(&[format!("lanes.edges={edges}")]).unwrap();
+        let d = run(&c);
+        assert_eq!(
+            d.features.get(Feature::CentreMinusEdgesMmPerM),
+            0.0,
+            "{edges}"
+        );
+        let found: Vec<Defect> = d.findings.iter().map(|f| f.defect).collect();
+        for not in [Defect::BaggyCenter, Defect::BaggyEdges] {
+            assert!(!found.contains(&not), "{edges}: {found:?}");
+        }
+    }
 }

@@ -4,8 +4,9 @@
 //! diameter are read at 18 positions; at 40 lanes, two or three lanes lie between two readings. A
 //! scale pinned to the roll's value still takes the pooled posterior's draw k in state k in every
 //! lane. The Spearman rank correlation of two lanes' MD creep draws over the 16 states is compared
-//! with what the readings' noise gives: for two lanes whose data interpolate the same two readings
-//! with weights (1 - t, t), the scores' correlation rho follows from the weights, and the draws'
+//! with what the readings' noise gives: for two lanes whose data are made from the same two
+//! readings (a lane holding one takes it, one holding none interpolates them with weights
+//! (1 - t, t)), the scores' correlation rho follows from the weights, and the draws'
 //! mean rank correlation is Moran's (1948) expectation for normal scores, 6 / (pi (n + 1)) (asin
 //! rho + (n - 2) asin(rho / 2)) (from memory; checked against a SciPy Monte Carlo in
 //! `tests/data/field/moran.py`).
@@ -46,18 +47,34 @@ fn lanes_between_the_same_readings_draw_together_and_distant_lanes_do_not() {
         .collect();
     let md = |i: usize| -> Vec<f64> { fit.lanes[i].draws_theta.iter().map(|d| d[0]).collect() };
     let between = |x: f64| survey.partition_point(|&q| q <= x);
+    let edges = l.edges_m();
+    // the weights that make lane i's data from the readings (`lanes::onto`): the mean of the
+    // readings it holds, else its centre's interpolation between the two around it
+    let weights = |i: usize, x: f64| -> Vec<f64> {
+        let mut w = vec![0.0; survey.len()];
+        let held = lanes::held(&survey, &edges, i);
+        if !held.is_empty() {
+            for &k in &held {
+                w[k] = 1.0 / held.len() as f64;
+            }
+        } else {
+            let b = between(x).clamp(1, survey.len() - 1);
+            let t = (x - survey[b - 1]) / (survey[b] - survey[b - 1]);
+            (w[b - 1], w[b]) = (1.0 - t, t);
+        }
+        w
+    };
     let (mut near, mut far) = (Vec::new(), Vec::new());
     for (a, &i) in own.iter().enumerate() {
         for &j in &own[a + 1..] {
             let (xi, xj) = (fit.lanes[i].position_m, fit.lanes[j].position_m);
             let (bi, bj) = (between(xi), between(xj));
             let r = spearman(&md(i), &md(j));
-            if bi == bj && bi > 0 && bi < survey.len() {
-                // both interpolate readings bi - 1 and bi: the scores' correlation from the weights
-                let t = |x: f64| (x - survey[bi - 1]) / (survey[bi] - survey[bi - 1]);
-                let (ti, tj) = (t(xi), t(xj));
-                let rho = ((1.0 - ti) * (1.0 - tj) + ti * tj)
-                    / (((1.0 - ti).powi(2) + ti * ti) * ((1.0 - tj).powi(2) + tj * tj)).sqrt();
+            let (wi, wj) = (weights(i, xi), weights(j, xj));
+            let dot = |u: &[f64], v: &[f64]| u.iter().zip(v).map(|(p, q)| p * q).sum::<f64>();
+            let rho = dot(&wi, &wj) / (dot(&wi, &wi) * dot(&wj, &wj)).sqrt();
+            if bi == bj && bi > 0 && bi < survey.len() && rho > 0.0 {
+                // both made from readings bi - 1 and bi: the scores' correlation from the weights
                 near.push((r, rho));
             } else if bi.abs_diff(bj) >= 3 {
                 far.push(r);

@@ -162,8 +162,9 @@ fn a_band_near_one_edge_is_not_a_conical_roll() {
 /// three readings out of the trend it judges them against, and the others are level, so it is
 /// a line); the edge strip unwinds longer than the web
 /// inward of it by about the running strain T/(E h), where a lane runs slack (common practice);
-/// and the roll is not taken for a conical one. A dish (both edges thick alike) is no one-sided
-/// edge. A complaint of baggy edges agrees with it (the complainant saw an edge baggy).
+/// and the roll is not taken for a conical one, nor for one with baggy edges (both edges long
+/// against the centre: `centre_minus_edges` is 0 where the edges lie on opposite sides of
+/// it). A dish (both edges thick alike) is no one-sided edge. A complaint of baggy edges agrees with it (the complainant saw an edge baggy).
 #[test]
 fn a_thick_edge_is_a_gauge_band_and_a_baggy_edge_on_its_side() {
     for n in [8, 17, 40] {
@@ -187,6 +188,8 @@ fn a_thick_edge_is_a_gauge_band_and_a_baggy_edge_on_its_side() {
         assert!(!edge.lanes.is_empty(), "{n} lanes");
         assert!(edge.lanes.iter().all(|l| l.position_m > 1.5), "{n} lanes");
         assert!(d.agreement.as_ref().is_some_and(|a| a.agrees), "{n} lanes");
+        // one long edge is not baggy edges: those stand on both edges
+        assert!(!found.contains(&Defect::BaggyEdges), "{n} lanes: {found:?}");
         let dish = surveyed("dish_3pct", n);
         assert!(!dish.contains(&Defect::BaggyOneEdge), "{n} lanes: {dish:?}");
     }

@@ -199,10 +199,22 @@ fn length_pattern(u: &Unwind, centre: &[usize], edges: &[usize]) -> LengthPatter
         local_peak: local_peak(s, &u.spans),
         peak_width_mm: peak_lanes.iter().map(|&i| u.w[i]).sum::<f64>() * 1e3,
         peak_lanes,
-        centre_minus_edges: mean_of(centre, &|i| s[i]) - mean_of(edges, &|i| s[i]),
+        centre_minus_edges: centre_against_ends(s, centre, edges),
         side_to_side: side_to_side(u),
         long_edge: super::local::end_excess(&u.spans, s),
         band_count: band_count(u) as f64,
+    }
+}
+
+/// Centre half (`centre`) against the end lanes (`ends`) as a two-sided pattern
+/// ([`super::local::centre_minus_both`]), in the unit of `s`; 0 unless there are two end lanes
+/// and a centre lane apart from them (one or two lanes resolve no centre against edges).
+fn centre_against_ends(s: &[f64], centre: &[usize], ends: &[usize]) -> f64 {
+    match ends {
+        [a, b] if !centre.is_empty() && !centre.iter().any(|i| i == a || i == b) => {
+            super::local::centre_minus_both(mean_of(centre, &|i| s[i]), s[*a], s[*b])
+        }
+        _ => 0.0,
     }
 }
 

@@ -75,6 +75,22 @@ pub fn end_excess(spans: &[(f64, f64)], v: &[f64]) -> f64 {
     a.max(b) - a.min(b).max(0.0)
 }
 
+/// Centre `c` minus the two edges `front` and `back` as a two-sided pattern: their mean where
+/// both edges lie on the same side of the centre (a baggy centre stands above both edges, and
+/// baggy edges both stand above the centre); 0 where they lie on opposite sides of it or level
+/// with it (a wedge, or one long edge and one short: the side-to-side and one-edge features speak
+/// for those). In the unit of the inputs. (The edge nearer the centre instead of the mean lost a
+/// 4 % dish whose edge lanes' creep the data do not identify: one edge read 0.07 mm/m long, the
+/// other 0.46.)
+pub fn centre_minus_both(c: f64, front: f64, back: f64) -> f64 {
+    let (a, b) = (c - front, c - back);
+    if (a > 0.0 && b > 0.0) || (a < 0.0 && b < 0.0) {
+        0.5 * (a + b)
+    } else {
+        0.0
+    }
+}
+
 /// Excess of the first and of the last lane over the web inward of it ([`baseline`]; 0 where
 /// there is none), in the unit of `v`.
 pub fn end_overs(spans: &[(f64, f64)], v: &[f64]) -> (f64, f64) {
@@ -177,6 +193,19 @@ mod tests {
         // lanes wider than the window: the adjacent lane each side
         let s = equal(3, 2.4);
         assert_eq!(baseline(&s, &[1.0, 5.0, 3.0], 1), Some(2.0));
+    }
+
+    /// A baggy centre or baggy edges stands on both edges: their mean where both lie on one side
+    /// of the centre, and none where they lie on opposite sides (a wedge, one long edge and one
+    /// short) or one is level with it (definition of the feature).
+    #[test]
+    fn centre_against_both_edges() {
+        assert_eq!(centre_minus_both(1.0, 0.0, 0.25), 0.875);
+        assert_eq!(centre_minus_both(0.0, 1.0, 0.5), -0.75);
+        assert_eq!(centre_minus_both(0.0, 1.3, -0.2), 0.0);
+        assert_eq!(centre_minus_both(0.0, -0.4, 0.9), 0.0);
+        assert_eq!(centre_minus_both(0.0, 0.0, 0.9), 0.0);
+        assert_eq!(centre_minus_both(0.2, -0.3, -0.3), 0.5);
     }
 
     /// One edge 1 long over level web is long by 1 at any lane count (the web inward of the edge

@@ -180,20 +180,19 @@ impl Site<'_> {
         }
     }
 
-    /// Centre half minus the outermost kept lane each side, mm/m.
+    /// Centre half minus the outermost kept lane each side as a two-sided pattern
+    /// ([`local::centre_minus_both`]), mm/m; 0 unless a centre lane is kept apart from the two
+    /// outermost kept lanes.
     fn centre_minus_ends(&self, kept: &[usize], s: &[f64]) -> f64 {
         let centre = features::centre_lanes(self.lanes, self.width_m);
-        let c = mean(
-            (0..kept.len())
-                .filter(|&k| centre.contains(&kept[k]))
-                .map(|k| s[k]),
-        );
-        let e = if kept.len() >= 2 {
-            0.5 * (s[0] + s[kept.len() - 1])
-        } else {
-            0.0
-        };
-        c - e
+        let inner: Vec<usize> = (0..kept.len())
+            .filter(|&k| centre.contains(&kept[k]))
+            .collect();
+        let last = kept.len().saturating_sub(1);
+        if kept.len() < 3 || inner.is_empty() || inner.iter().any(|&k| k == 0 || k == last) {
+            return 0.0;
+        }
+        local::centre_minus_both(mean(inner.iter().map(|&k| s[k])), s[0], s[last])
     }
 }
 

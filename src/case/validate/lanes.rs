@@ -9,6 +9,11 @@ use crate::units::Kind;
 /// millimetre (or converted from inches) round by less.
 const EDGE_TOL_M: f64 = 0.5e-3;
 
+/// Narrowest lane that explicit edges may make, m: a hardness reading's footprint and a caliper
+/// scanner's sample are wider (common practice), and `lanes.count` at its largest (400) makes
+/// lanes of a few mm on a roll of a metre or more.
+const MIN_LANE_M: f64 = 1e-3;
+
 /// A length as messages show it.
 fn show(x: f64) -> String {
     crate::units::show(x, Kind::Length, crate::units::message_system(), false)
@@ -86,7 +91,27 @@ impl Validator {
             v[n - 1] = w;
         }
         // an end lane narrower than the tolerance vanishes with the snap: refused here too
-        self.increasing(&v, line).then_some(v)
+        if !self.increasing(&v, line) {
+            return None;
+        }
+        self.wide_enough(&v, line).then_some(v)
+    }
+
+    /// Whether every lane between edges `v` (m) is at least [`MIN_LANE_M`] wide; when not, the
+    /// first that is not is named.
+    fn wide_enough(&mut self, v: &[f64], line: Option<u64>) -> bool {
+        let Some(k) = v.windows(2).position(|w| w[1] - w[0] < MIN_LANE_M) else {
+            return true;
+        };
+        let message = format!(
+            "the lane from edges[{k}] = {} to edges[{}] = {} is narrower than {}: no cross-width reading resolves a strip that narrow. Fix: merge it with its neighbour (remove one of the two edges)",
+            show(v[k]),
+            k + 1,
+            show(v[k + 1]),
+            show(MIN_LANE_M)
+        );
+        self.push("lanes.edges", line, message);
+        false
     }
 
     /// Whether the edges increase; when not, the first pair that does not is named.
