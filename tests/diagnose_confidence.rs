@@ -159,3 +159,36 @@ fn a_band_within_the_caliper_noise_is_no_finding_and_says_so() {
     );
     assert!(text.contains(&d.confidence.below_floor[0]), "{text}");
 }
+
+/// Every number that decides a finding carries its uncertainty: each evidence value of the
+/// demo's findings has its 5-95 % interval over the plausible states (the creep posterior's
+/// draws), and a deciding condition tested on the noise rolls names where the feature stands
+/// above measurement noise, which the value passes on the condition's side (a finding stands only
+/// there). The demo's ridge is built at winding from the calipers, so the creep draws leave it
+/// where it is and the noise rolls set its threshold.
+#[test]
+fn evidence_carries_its_spread_and_its_noise_threshold() {
+    let d = run(&case::load_demo(&[]).unwrap());
+    let mut thresholds = 0;
+    for f in &d.findings {
+        for e in &f.evidence {
+            let (lo, hi) = (e.p05.unwrap(), e.p95.unwrap());
+            assert!(lo.is_finite() && hi.is_finite() && lo <= hi, "{}: {e:?}", f.rule);
+        }
+        let e = &f.evidence[0];
+        if let Some(x) = e.noise_threshold {
+            thresholds += 1;
+            if e.above.is_some() {
+                assert!(e.value > x, "{}: {e:?}", f.rule);
+            } else {
+                assert!(e.value < x, "{}: {e:?}", f.rule);
+            }
+        }
+    }
+    let ridge = d.findings.iter().find(|f| f.defect == Defect::Ridges).unwrap();
+    let e = &ridge.evidence[0];
+    assert_eq!(e.feature, Feature::DiameterRidgePerMille);
+    assert!((e.p95.unwrap() - e.p05.unwrap()).abs() < 1e-9, "{e:?}");
+    assert!(e.noise_threshold.is_some_and(|x| x < e.value), "{e:?}");
+    assert!(thresholds >= 1);
+}

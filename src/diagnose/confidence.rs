@@ -404,11 +404,25 @@ fn grade_findings(
             .filter(|s| siblings.iter().any(|q| q.holds(&s.values)))
             .count();
         f.probability = holds as f64 / states.len().max(1) as f64;
-        f.likelihood = grade(
-            f.probability,
-            noise_test(r, feats, tests).clear(),
-            r.likelihood,
-        );
+        let test = noise_test(r, feats, tests);
+        f.likelihood = grade(f.probability, test.clear(), r.likelihood);
+        for e in f.evidence.iter_mut() {
+            let mut v: Vec<f64> = states.iter().map(|s| s.values[e.feature]).collect();
+            v.sort_by(f64::total_cmp);
+            if !v.is_empty() {
+                e.p05 = Some(posterior::quantile(&v, 0.05));
+                e.p95 = Some(posterior::quantile(&v, 0.95));
+            }
+        }
+        if let (Some(e), Some(x), NoiseBasis::NoiseRolls, false) =
+            (f.evidence.first_mut(), test.floor, test.basis, test.own)
+        {
+            e.noise_threshold = match test.side {
+                Side::Up => Some(x.uniform + x.threshold_above),
+                Side::Down => Some(x.uniform - x.threshold_below),
+                Side::Both => None,
+            };
+        }
     }
 }
 

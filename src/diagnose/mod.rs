@@ -69,14 +69,24 @@ pub enum DiagnoseError {
     Run(#[from] RunError),
 }
 
-/// A feature value that fired a rule, with the condition and its source.
+/// A feature value that fired a rule, with the condition and its source (values in the
+/// feature's own unit, which its name carries).
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct Evidence {
     pub feature: Feature,
+    /// The value at the fitted creep.
     pub value: f64,
     pub above: Option<f64>,
     pub below: Option<f64>,
     pub source: String,
+    /// 5 % and 95 % quantiles of the value over the plausible states (the creep posterior's
+    /// draws; [`confidence`]): what the hardness and diameter readings leave uncertain.
+    pub p05: Option<f64>,
+    pub p95: Option<f64>,
+    /// For the rule's deciding condition tested on the noise rolls: the value the feature must
+    /// pass to stand above measurement noise (the noise-free uniform roll's value moved by the
+    /// noise rolls' threshold, on the condition's side); otherwise None.
+    pub noise_threshold: Option<f64>,
 }
 
 /// A lane named in a finding.
@@ -371,6 +381,9 @@ fn finding(
                 above: c.above,
                 below: c.below,
                 source: c.source.clone(),
+                p05: None,
+                p95: None,
+                noise_threshold: None,
             })
             .collect(),
         lanes: lane_refs,

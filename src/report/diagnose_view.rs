@@ -23,6 +23,36 @@ fn cond(feature: Feature, above: Option<f64>, below: Option<f64>, sys: System) -
     }
 }
 
+/// An evidence value and, below it, its 5-95 % interval over the plausible states.
+fn value_with_spread(e: &crate::diagnose::Evidence, sys: System) -> String {
+    let v = |x: f64| words::feature_value(e.feature, x, sys);
+    match (e.p05, e.p95) {
+        (Some(lo), Some(hi)) => format!("{}\ncreep 5-95 %: {} to {}", v(e.value), number(&v(lo)), v(hi)),
+        _ => v(e.value),
+    }
+}
+
+/// An evidence condition and, below it, where the feature stands above measurement noise.
+fn cond_with_noise(e: &crate::diagnose::Evidence, sys: System) -> String {
+    let c = cond(e.feature, e.above, e.below, sys);
+    match (e.noise_threshold, e.above.is_some()) {
+        (Some(x), true) => format!(
+            "{c}\nnoise: above {}",
+            words::feature_value(e.feature, x, sys)
+        ),
+        (Some(x), false) => format!(
+            "{c}\nnoise: below {}",
+            words::feature_value(e.feature, x, sys)
+        ),
+        (None, _) => c,
+    }
+}
+
+/// The number of a value with its unit ("1.41 per mille" -> "1.41").
+fn number(v: &str) -> &str {
+    v.split(' ').next().unwrap_or(v)
+}
+
 fn lanes_text(lanes: &[crate::diagnose::LaneRef], sys: System) -> String {
     if lanes.is_empty() {
         return "whole roll".into();
@@ -135,8 +165,8 @@ fn finding_text(rank: usize, f: &Finding, sys: System) -> String {
     for e in &f.evidence {
         t.add_row(vec![
             words::feature(e.feature).to_string(),
-            words::feature_value(e.feature, e.value, sys),
-            cond(e.feature, e.above, e.below, sys),
+            value_with_spread(e, sys),
+            cond_with_noise(e, sys),
             short(&e.source, SOURCE_CHARS),
         ]);
     }

@@ -113,6 +113,31 @@ fn condition(name: &Feature, above: Option<f64>, below: Option<f64>, sys: System
     }
 }
 
+/// An evidence value `v` with its 5-95 % interval over the plausible states, where known.
+fn with_spread(e: &crate::diagnose::Evidence, v: String, sys: System) -> String {
+    match (e.p05, e.p95) {
+        (Some(lo), Some(hi)) => format!(
+            "{v} (creep 5-95 %: {} to {})",
+            feature_value(&e.feature, lo, sys),
+            feature_value(&e.feature, hi, sys)
+        ),
+        _ => v,
+    }
+}
+
+/// An evidence condition `c` with where the feature stands above measurement noise, where
+/// tested on the noise rolls.
+fn with_noise(e: &crate::diagnose::Evidence, c: String, sys: System) -> String {
+    let side = if e.above.is_some() { "above" } else { "below" };
+    match e.noise_threshold {
+        Some(x) => format!(
+            "{c}; above noise {side} {}",
+            feature_value(&e.feature, x, sys)
+        ),
+        None => c,
+    }
+}
+
 /// The report's blocks.
 pub fn build(r: &ReportData) -> Vec<Block> {
     let mut v = Vec::new();
@@ -261,10 +286,14 @@ fn findings(r: &ReportData, v: &mut Vec<Block>) {
                     vec![
                         t(e.feature.word()),
                         k(
-                            feature_value(&e.feature, e.value, sys),
+                            with_spread(e, feature_value(&e.feature, e.value, sys), sys),
                             format!("finding{}.{}", i + 1, e.feature),
                         ),
-                        t(condition(&e.feature, e.above, e.below, sys)),
+                        t(with_noise(
+                            e,
+                            condition(&e.feature, e.above, e.below, sys),
+                            sys,
+                        )),
                         t(e.source.clone()),
                     ]
                 })
