@@ -17,15 +17,12 @@ pub struct CheckedCorrection {
     pub text: String,
     pub why: String,
     pub quantity: Quantity,
-    /// Unit of `before`, `after` and the intervals.
+    /// Unit of `before` and `after`.
     pub unit: &'static str,
     /// The finding's quantity as predicted.
     pub before: f64,
     /// The quantity with the correction applied (None when re-runs are off).
     pub after: Option<f64>,
-    /// Uncertainty interval of `before` and `after`, when the fit provides one.
-    pub before_interval: Option<(f64, f64)>,
-    pub after_interval: Option<(f64, f64)>,
     /// Whether the quantity moves the better way (None when not re-run).
     pub improves: Option<bool>,
 }
@@ -83,8 +80,6 @@ pub fn check(
             unit: q.unit(),
             before,
             after,
-            before_interval: None,
-            after_interval: None,
             improves: after.map(|a| improves(q, before, a)),
         });
     }
