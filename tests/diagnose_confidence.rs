@@ -173,7 +173,11 @@ fn evidence_carries_its_spread_and_its_noise_threshold() {
     for f in &d.findings {
         for e in &f.evidence {
             let (lo, hi) = (e.p05.unwrap(), e.p95.unwrap());
-            assert!(lo.is_finite() && hi.is_finite() && lo <= hi, "{}: {e:?}", f.rule);
+            assert!(
+                lo.is_finite() && hi.is_finite() && lo <= hi,
+                "{}: {e:?}",
+                f.rule
+            );
         }
         let e = &f.evidence[0];
         if let Some(x) = e.noise_threshold {
@@ -185,7 +189,11 @@ fn evidence_carries_its_spread_and_its_noise_threshold() {
             }
         }
     }
-    let ridge = d.findings.iter().find(|f| f.defect == Defect::Ridges).unwrap();
+    let ridge = d
+        .findings
+        .iter()
+        .find(|f| f.defect == Defect::Ridges)
+        .unwrap();
     let e = &ridge.evidence[0];
     assert_eq!(e.feature, Feature::DiameterRidgePerMille);
     assert!((e.p95.unwrap() - e.p05.unwrap()).abs() < 1e-9, "{e:?}");

@@ -27,7 +27,12 @@ fn cond(feature: Feature, above: Option<f64>, below: Option<f64>, sys: System) -
 fn value_with_spread(e: &crate::diagnose::Evidence, sys: System) -> String {
     let v = |x: f64| words::feature_value(e.feature, x, sys);
     match (e.p05, e.p95) {
-        (Some(lo), Some(hi)) => format!("{}\ncreep 5-95 %: {} to {}", v(e.value), number(&v(lo)), v(hi)),
+        (Some(lo), Some(hi)) => format!(
+            "{}\ncreep 5-95 %: {} to {}",
+            v(e.value),
+            number(&v(lo)),
+            v(hi)
+        ),
         _ => v(e.value),
     }
 }
