@@ -49,7 +49,7 @@
 //! **Invariant:** no prose; notes carry numbers (positions in m, lengths in mm per m of web).
 
 use super::crown::{crown, drop_orphan_notes, rides_on_crown, Crown, OWN_SHARE};
-use super::features::{self, Features};
+use super::features::Features;
 use super::noise::{
     caliper_repeatability, flattened_features, noise_floor, rests_on_web, Floor, Side,
 };
@@ -58,14 +58,14 @@ pub use super::noise::{
     NOISE_NODES, NOISE_ROLLS, STEP_FOLLOWS,
 };
 pub use super::profile_test::BAND_DRAWS;
+use super::states::{posterior_states, State};
 use super::unevenness::caliper_unevenness;
 use super::{DiagnoseError, Finding, Fitted};
 use crate::case::{Case, Measure};
-use crate::fit::{posterior, prepared, with_lab_creep, FitError};
+use crate::fit::{posterior, with_lab_creep};
 use crate::note::{NoiseBasis, Note};
 use crate::rules::{Rule, Table};
-use crate::storage::{age_prepared, AgeOptions, Aged, LaneAged, LaneCreep};
-use crate::vocab::{Feature, FeatureValues, Likelihood};
+use crate::vocab::{Feature, Likelihood};
 use serde::Serialize;
 
 /// Misfit (root-mean-square residual in noise units) above which a lane is not explained.
@@ -441,82 +441,6 @@ fn grade(p: f64, wide: bool, label: Likelihood) -> Likelihood {
     } else {
         label
     }
-}
-
-/// Feature values of one posterior state and its lane lengths.
-struct State {
-    values: FeatureValues,
-    excess_mm_per_m: Vec<f64>,
-}
-
-/// Where the posterior states' storage runs come from.
-enum StateSource<'a> {
-    /// The fit's runs of each lane's draws.
-    Fit(Vec<&'a [LaneAged]>),
-    /// Runs here, on this storage grid and hardness map.
-    Here(crate::storage::Prepared, crate::storage::HardnessMap),
-}
-
-/// The roll run to unwind with draw k of every lane's posterior, for every k: from the fit's runs
-/// of the draws when every lane has them ([`crate::fit::LaneFit::draw_runs`]), else run here.
-fn posterior_states(lab: &Case, fitted: &Fitted) -> Result<Vec<State>, DiagnoseError> {
-    let count = fitted
-        .fit
-        .lanes
-        .iter()
-        .map(|l| l.draws.len())
-        .min()
-        .unwrap_or(0);
-    let runs: Option<Vec<&[LaneAged]>> = (fitted.fit.lanes.iter())
-        .map(|l| l.draw_runs.as_deref().filter(|r| r.len() >= count))
-        .collect();
-    let source = match runs {
-        Some(r) => StateSource::Fit(r),
-        None => {
-            let (prep, map) = prepared(lab, &fitted.lanes, &fitted.wound, &AgeOptions::default())?;
-            StateSource::Here(prep, map)
-        }
-    };
-    let aged_at = |k: usize, creep: &[LaneCreep]| -> Result<Aged, DiagnoseError> {
-        match &source {
-            // the fit's record of the roll with each lane's run replaced by its draw k
-            StateSource::Fit(r) => Ok(fitted.fit.aged.with_lanes(r.iter().map(|l| l[k].clone()))),
-            StateSource::Here(prep, map) => {
-                Ok(
-                    age_prepared(&lab.material, prep, &fitted.wound, Some(creep), map)
-                        .map_err(FitError::from)?,
-                )
-            }
-        }
-    };
-    let mut out = Vec::with_capacity(count);
-    // one outcome on the fitted wound state (cloned once); each state replaces its storage and
-    // unwind parts
-    let mut slot: Option<super::actions::Outcome> = None;
-    for k in 0..count {
-        let creep: Vec<LaneCreep> = fitted.fit.lanes.iter().map(|l| l.draws[k]).collect();
-        let aged = aged_at(k, &creep)?;
-        let unwind = super::unwind::at_unwind(lab, &fitted.wound, &creep);
-        let o = match slot.take() {
-            Some(mut o) => {
-                o.aged = aged;
-                o.unwind = unwind;
-                o
-            }
-            None => super::actions::Outcome {
-                wound: fitted.wound.clone(),
-                aged,
-                unwind,
-            },
-        };
-        let f = features::compute(lab, &fitted.lanes, &o);
-        slot = Some(o);
-        out.push(State {
-            values: f.values,
-            excess_mm_per_m: f.excess_mm_per_m,
-        });
-    }
-    Ok(out)
 }
 
 /// Each lane's length at unwind with its spread over the states, and its misfit.

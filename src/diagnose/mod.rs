@@ -14,6 +14,7 @@ pub mod local;
 mod noise;
 mod profile_test;
 pub mod quantity;
+mod states;
 mod trend_scan;
 mod unevenness;
 pub mod unwind;
