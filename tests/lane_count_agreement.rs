@@ -237,5 +237,10 @@ fn one_or_two_lanes_make_no_centre_against_edges() {
         for not in [Defect::BaggyCenter, Defect::BaggyEdges] {
             assert!(!found.contains(&not), "{edges}: {found:?}");
         }
+        // the header counts the lanes in words that fit the count
+        let text = rollsleuth::report::diagnose_view::text(&d, rollsleuth::units::System::Si);
+        let n = d.lanes.len();
+        let want = if n == 1 { "(1 lane;" } else { "(2 lanes;" };
+        assert!(text.contains(want), "{edges}: {text}");
     }
 }

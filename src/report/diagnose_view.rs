@@ -83,13 +83,14 @@ pub fn text(d: &Diagnosis, sys: System) -> String {
     let _ = writeln!(out, "Diagnosis of case {}: {}", d.case, d.title);
     let _ = writeln!(
         out,
-        "Predicted length spread across the width at unwind: {:.2} {} of web ({} lanes; rules: {}).",
+        "Predicted length spread across the width at unwind: {:.2} {} of web ({} {}; rules: {}).",
         d.spread_mm_per_m,
         match sys {
             System::Si => "mm per metre",
             System::Us => "mil per inch",
         },
         d.lanes.len(),
+        if d.lanes.len() == 1 { "lane" } else { "lanes" },
         d.rules
     );
     if d.findings.is_empty() {
