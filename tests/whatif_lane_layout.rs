@@ -80,3 +80,22 @@ fn a_change_that_keeps_the_lanes_is_compared() {
     assert!(code <= 1, "{err}");
     assert!(out.contains("What if, case"), "{out}");
 }
+
+/// The library refuses it as well, before any fit: `diagnose::what_if` on a variant whose lanes
+/// lie elsewhere is `LanesMoved`, with the lane counts.
+#[test]
+fn the_library_refuses_a_variant_whose_lanes_moved() {
+    use rollsleuth::diagnose::{what_if, DiagnoseError};
+    let base = rollsleuth::case::load_demo(&[]).unwrap();
+    let variant = rollsleuth::case::load_demo(&["roll.width=1590 mm".into()]).unwrap();
+    let table = rollsleuth::rules::load_default().unwrap();
+    let set = ["roll.width=1590 mm".to_string()];
+    let e = what_if(&base, &variant, &set, &table, &Default::default()).unwrap_err();
+    assert_eq!(
+        e,
+        DiagnoseError::LanesMoved {
+            before: 18,
+            after: 18
+        }
+    );
+}

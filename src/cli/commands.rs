@@ -297,17 +297,18 @@ pub fn whatif(arg: &CaseArg, rules: &RulesArg, out: Output) -> Result<Outcome, C
         set: Vec::new(),
     })?;
     let variant = load(arg)?;
-    let (before, after) = (lanes::build(&base), lanes::build(&variant));
-    if before.positions() != after.positions() {
-        return Err(CliError::WhatIfLanesMoved {
-            sets: arg.set.join(" --set "),
-            before: before.lanes.len(),
-            after: after.lanes.len(),
-            diagnose: diagnose_command(arg),
-        });
-    }
     let table = load_rules(rules)?;
-    let w = diagnose::what_if(&base, &variant, &arg.set, &table, &Default::default())?;
+    let w = match diagnose::what_if(&base, &variant, &arg.set, &table, &Default::default()) {
+        Err(diagnose::DiagnoseError::LanesMoved { before, after }) => {
+            return Err(CliError::WhatIfLanesMoved {
+                sets: arg.set.join(" --set "),
+                before,
+                after,
+                diagnose: diagnose_command(arg),
+            })
+        }
+        w => w?,
+    };
     let s = if out.json {
         report::json_text(&report::whatif_json(&w)?)?
     } else {

@@ -68,6 +68,10 @@ pub enum DiagnoseError {
     Fit(#[from] FitError),
     #[error(transparent)]
     Run(#[from] RunError),
+    /// A what-if whose change moves the lanes (their count or their centres): the comparison is
+    /// lane by lane ([`what_if`]).
+    #[error("the change moves the lanes ({before} before, {after} after, or not all at the same centres); a what-if compares the roll lane by lane")]
+    LanesMoved { before: usize, after: usize },
 }
 
 /// A feature value that fired a rule, with the condition and its source (values in the

@@ -44,7 +44,8 @@ pub struct WhatIf {
 
 /// Compare a case with a variant of it. The variant's lanes are rebuilt from its own profiles
 /// and layout; each of its lanes gets the measured case's fitted creep at its centre
-/// ([`creep_at`]).
+/// ([`creep_at`]). A variant whose lanes lie elsewhere (another count or other centres) is
+/// refused before the fit ([`DiagnoseError::LanesMoved`]): the comparison is lane by lane.
 pub fn what_if(
     base: &Case,
     variant: &Case,
@@ -52,6 +53,13 @@ pub fn what_if(
     table: &Table,
     opt: &DiagnoseOptions,
 ) -> Result<WhatIf, DiagnoseError> {
+    let (lb, la) = (lanes::build(base), lanes::build(variant));
+    if lb.positions() != la.positions() {
+        return Err(DiagnoseError::LanesMoved {
+            before: lb.lanes.len(),
+            after: la.lanes.len(),
+        });
+    }
     let f = fitted(base, opt)?;
     let fitted_at: Vec<(f64, LaneCreep)> = f
         .lanes
@@ -61,17 +69,16 @@ pub fn what_if(
         .zip(f.creep.iter().copied())
         .collect();
     let mut winds = Cache::default();
-    let mut run = |c: &Case| -> Result<(Lanes, actions::Outcome), DiagnoseError> {
-        let l = lanes::build(c);
+    let mut run = |c: &Case, l: &Lanes| -> Result<actions::Outcome, DiagnoseError> {
         let cr = creep_at(&fitted_at, &l.positions(), &LaneCreep::grade(&c.material));
-        let s = base_scenario(c, &l, cr, Options::default().levelling);
+        let s = base_scenario(c, l, cr, Options::default().levelling);
         if std::ptr::eq(c, base) {
-            winds.insert(&s.wind_input(), &l, s.wind_options(opt.nodes), &f.wound);
+            winds.insert(&s.wind_input(), l, s.wind_options(opt.nodes), &f.wound);
         }
-        Ok((l, s.run_cached(opt.nodes, &mut winds)?))
+        Ok(s.run_cached(opt.nodes, &mut winds)?)
     };
-    let (lb, ob) = run(base)?;
-    let (la, oa) = run(variant)?;
+    let ob = run(base, &lb)?;
+    let oa = run(variant, &la)?;
     let fb = features::compute(base, &lb, &ob);
     let fa = features::compute(variant, &la, &oa);
     let defects = |f: &Features| {
