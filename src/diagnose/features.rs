@@ -209,7 +209,7 @@ fn length_pattern(u: &Unwind, centre: &[usize], edges: &[usize]) -> LengthPatter
 /// Centre half (`centre`) against the end lanes (`ends`) as a two-sided pattern
 /// ([`super::local::centre_minus_both`]), in the unit of `s`; 0 unless there are two end lanes
 /// and a centre lane apart from them (one or two lanes resolve no centre against edges).
-fn centre_against_ends(s: &[f64], centre: &[usize], ends: &[usize]) -> f64 {
+pub(super) fn centre_against_ends(s: &[f64], centre: &[usize], ends: &[usize]) -> f64 {
     match ends {
         [a, b] if !centre.is_empty() && !centre.iter().any(|i| i == a || i == b) => {
             super::local::centre_minus_both(mean_of(centre, &|i| s[i]), s[*a], s[*b])

@@ -180,19 +180,15 @@ impl Site<'_> {
         }
     }
 
-    /// Centre half minus the outermost kept lane each side as a two-sided pattern
-    /// ([`local::centre_minus_both`]), mm/m; 0 unless a centre lane is kept apart from the two
-    /// outermost kept lanes.
+    /// Centre half minus the outermost kept lane each side as a two-sided pattern, as the
+    /// feature reads it ([`features::centre_against_ends`] over the kept lanes), mm/m.
     fn centre_minus_ends(&self, kept: &[usize], s: &[f64]) -> f64 {
         let centre = features::centre_lanes(self.lanes, self.width_m);
         let inner: Vec<usize> = (0..kept.len())
             .filter(|&k| centre.contains(&kept[k]))
             .collect();
-        let last = kept.len().saturating_sub(1);
-        if kept.len() < 3 || inner.is_empty() || inner.iter().any(|&k| k == 0 || k == last) {
-            return 0.0;
-        }
-        local::centre_minus_both(mean(inner.iter().map(|&k| s[k])), s[0], s[last])
+        let ends = [0, kept.len().saturating_sub(1)];
+        features::centre_against_ends(s, &inner, &ends)
     }
 }
 
