@@ -118,9 +118,7 @@ pub fn text(d: &Diagnosis, sys: System) -> String {
     for n in words::notes(d) {
         let _ = writeln!(out, "note: {n}");
     }
-    if d.advises_action {
-        let _ = writeln!(out, "\n{SAFETY}");
-    }
+    super::push_safety(&mut out, d.advises_action.then_some(SAFETY));
     out
 }
 
@@ -283,6 +281,6 @@ pub fn json(d: &Diagnosis) -> Value {
         "confidence": d.confidence,
         "notes": words::notes(d),
         "warnings": words::warnings(d),
-        "safety": if d.advises_action { Some(SAFETY) } else { None },
+        "safety": d.advises_action.then_some(SAFETY),
     })
 }
