@@ -129,14 +129,22 @@ pub struct Finding {
 }
 
 impl Finding {
-    /// The order of findings, most likely first: by the graded likelihood (high, medium, low),
-    /// then the probability, then the rule's weight. `diagnose` lists its findings so, and
-    /// triage ranks rolls by their first finding the same way.
+    /// The order of findings, most likely first ([`likelier_first`]). `diagnose` lists its
+    /// findings so, and triage ranks rolls by their first finding the same way.
     pub fn rank_cmp(&self, other: &Finding) -> std::cmp::Ordering {
-        (other.likelihood.rank().cmp(&self.likelihood.rank()))
-            .then(other.probability.total_cmp(&self.probability))
-            .then(other.weight.total_cmp(&self.weight))
+        likelier_first(
+            (self.likelihood, self.probability, self.weight),
+            (other.likelihood, other.probability, other.weight),
+        )
     }
+}
+
+/// The order of two findings given as (graded likelihood, probability, rule weight), most
+/// likely first: by the grade (high, medium, low), then the probability, then the weight.
+pub fn likelier_first(a: (Likelihood, f64, f64), b: (Likelihood, f64, f64)) -> std::cmp::Ordering {
+    (b.0.rank().cmp(&a.0.rank()))
+        .then(b.1.total_cmp(&a.1))
+        .then(b.2.total_cmp(&a.2))
 }
 
 /// Does the prediction agree with what the complainant saw?

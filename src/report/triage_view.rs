@@ -92,12 +92,18 @@ impl TriageRow {
             (None, Some(_)) => u8::from(r.limits_exceeded > Some(0)),
             _ => 2,
         };
-        let grade = |r: &TriageRow| r.top_likelihood.map(|l| l.rank() + 1).unwrap_or(0);
         let num = |x: Option<f64>| x.unwrap_or(0.0);
+        let top = |r: &TriageRow| {
+            (r.top_likelihood).map(|l| (l, num(r.top_probability), num(r.top_weight)))
+        };
+        let findings = match (top(self), top(other)) {
+            (Some(a), Some(b)) => crate::diagnose::likelier_first(a, b),
+            (Some(_), None) => Ordering::Less,
+            (None, Some(_)) => Ordering::Greater,
+            (None, None) => Ordering::Equal,
+        };
         (group(other).cmp(&group(self)))
-            .then(grade(other).cmp(&grade(self)))
-            .then(num(other.top_probability).total_cmp(&num(self.top_probability)))
-            .then(num(other.top_weight).total_cmp(&num(self.top_weight)))
+            .then(findings)
             .then(num(other.spread_mm_per_m).total_cmp(&num(self.spread_mm_per_m)))
     }
 }
