@@ -161,7 +161,7 @@ pub fn improves(i: Option<bool>) -> &'static str {
 }
 
 /// How root causes are attributed, said whenever they were.
-pub const SHARES_METHOD: &str = "each source's share is its Shapley value (Shapley 1953) over every subset of source removals, on the finding's own quantity: independent of the order of removal, interactions shared evenly, and the shares add up to the change with every source removed; web tension, nip, speed and storage time amplify a non-uniformity without making one, so they are shown as the quantity at a feasible alternative";
+pub const SHARES_METHOD: &str = "each source's share is its Shapley value (Shapley 1953) over every subset of source removals, on the finding's own quantity: independent of the order of removal, interactions shared evenly, and the shares add up to the change with every source removed (a source that works against the finding has a negative share, and then the others' add up to more than 100 %); web tension, nip, speed and storage time amplify a non-uniformity without making one, so they are shown as the quantity at a feasible alternative";
 
 /// The diagnosis's notes with the notes its results imply, sorted, each once (warnings are
 /// apart: [`warnings`]).
