@@ -119,6 +119,10 @@ pub enum Note {
         /// profile needs to stand.
         profile_chance: f64,
         level: f64,
+        /// Caliper readings kept as measured, the bands that stand out (0 where every caliper
+        /// reading was made uniform), and the positions of the first and last of them, m.
+        kept_readings: usize,
+        kept_span_m: (f64, f64),
     },
     /// A finding stands on the caliper readings' crown, and the crown alone (every lane's creep
     /// made the lanes' mean) fires its rule (`diagnose::crown`).

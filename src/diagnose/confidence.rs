@@ -48,6 +48,7 @@
 //!
 //! **Invariant:** no prose; notes carry numbers (positions in m, lengths in mm per m of web).
 
+use super::band_place::{flat_lanes, rest_unevenness, Flat};
 use super::crown::{crown, drop_orphan_notes, rides_on_crown, Crown, OWN_SHARE};
 use super::features::Features;
 use super::noise::{
@@ -57,6 +58,7 @@ pub use super::noise::{
     noise_nodes, noise_options, FeatureFloor, FAMILY_LEVEL, FLOOR_QUANTILE, NOISE_CORE_GROWTH,
     NOISE_NODES, NOISE_ROLLS, STEP_FOLLOWS,
 };
+use super::profile_test::caliper_readings;
 pub use super::profile_test::BAND_DRAWS;
 use super::states::{posterior_states, State};
 use super::unevenness::caliper_unevenness;
@@ -193,8 +195,14 @@ impl NoiseTest<'_> {
     }
 }
 
-/// The noise test of rule `r` on the diagnosed roll's features.
-fn noise_test<'a>(r: &Rule, feats: &Features, (fl, crown): Tests<'a>) -> NoiseTest<'a> {
+/// The noise test of rule `r` on the diagnosed roll's features, for a finding on lanes `on`
+/// (indices; empty for the roll as a whole).
+fn noise_test<'a>(
+    r: &Rule,
+    on: &[usize],
+    feats: &Features,
+    (fl, crown): Tests<'a>,
+) -> NoiseTest<'a> {
     // a rule that may ride on the caliper crown gives that test its share of the level
     let riding = crown.filter(|_| rides_on_crown(r));
     let level = fl.level * if riding.is_some() { OWN_SHARE } else { 1.0 };
@@ -227,6 +235,12 @@ fn noise_test<'a>(r: &Rule, feats: &Features, (fl, crown): Tests<'a>) -> NoiseTe
                     | Feature::DiameterRidgePerMille
             )
     });
+    // but only where the finding's lanes carry a reading that stands out: a band at one place
+    // lends no significance to a pattern at another (where none stands out anywhere, the test's
+    // own chance, which then does not pass)
+    let carriers = &fl.band.carriers;
+    let carried = on.is_empty() || carriers.is_empty() || on.iter().any(|i| carriers.contains(i));
+    let band_chance = if carried { fl.band.chance } else { 1.0 };
     let side = Side::of(c);
     let own_chance = x.chance(feats.get(c.feature) - x.uniform, side);
     // a rule that rests on the web's own profile at winding may stand on that profile's test,
@@ -236,8 +250,8 @@ fn noise_test<'a>(r: &Rule, feats: &Features, (fl, crown): Tests<'a>) -> NoiseTe
         Some(_) | None => 1.0,
     };
     let (chance, basis) =
-        if c.feature == Feature::CaliperRangePct || (on_caliper && fl.band.chance < own_chance) {
-            (fl.band.chance, NoiseBasis::CaliperReadings)
+        if c.feature == Feature::CaliperRangePct || (on_caliper && band_chance < own_chance) {
+            (band_chance, NoiseBasis::CaliperReadings)
         } else if !on_caliper && web_chance < own_chance {
             (web_chance, NoiseBasis::WebProfile)
         } else {
@@ -263,6 +277,11 @@ fn noise_test<'a>(r: &Rule, feats: &Features, (fl, crown): Tests<'a>) -> NoiseTe
     }
 }
 
+/// The indices of a finding's lanes.
+fn lanes_of(f: &Finding) -> Vec<usize> {
+    f.lanes.iter().map(|l| l.index).collect()
+}
+
 /// What the noise test of a rule reads: the noise floor and the caliper crown, when the table has
 /// a rule that may ride on it.
 type Tests<'a> = (&'a Floor, Option<&'a Crown>);
@@ -280,7 +299,7 @@ fn drop_below_floor(
         let Some(r) = table.rules.iter().find(|r| r.id == f.rule) else {
             return true;
         };
-        let t = noise_test(r, feats, tests);
+        let t = noise_test(r, &lanes_of(f), feats, tests);
         if t.stands() {
             if let (NoiseBasis::CaliperCrown, Some(k)) = (t.basis, tests.1) {
                 let uniform = t.floor.map_or(0.0, |x| x.uniform);
@@ -352,9 +371,11 @@ fn drop_on_profile_noise(
     } else {
         0.0
     };
-    let flatten = (calipers > fl.level, web > fl.level);
+    let (flat_calipers, calipers) = caliper_flat((case, fitted), rep, fl, (differ, calipers));
+    let flatten = (flat_calipers != Flat::Keep, web > fl.level);
     let rule_of = |f: &Finding| table.rules.iter().find(|r| r.id == f.rule);
-    let asks = |f: &Finding| rule_of(f).is_some_and(|r| !noise_test(r, feats, tests).own);
+    let asks =
+        |f: &Finding| rule_of(f).is_some_and(|r| !noise_test(r, &lanes_of(f), feats, tests).own);
     if flatten == (false, false) || !findings.iter().any(asks) {
         return Ok(Vec::new());
     }
@@ -364,7 +385,15 @@ fn drop_on_profile_noise(
         (true, false) => calipers,
         _ => web,
     };
-    let flat = flattened_features(case, fitted, nodes, flatten)?;
+    let kept_m: Vec<f64> = match &flat_calipers {
+        Flat::Except(keep) => {
+            let (_, at) = caliper_readings(case, &fitted.lanes);
+            keep.iter().filter_map(|&i| at.get(i).copied()).collect()
+        }
+        Flat::All | Flat::Keep => Vec::new(),
+    };
+    let l0 = flat_lanes(case, &fitted.lanes, &flat_calipers, flatten.1);
+    let flat = flattened_features(case, fitted, nodes, &l0)?;
     let mut dropped = Vec::new();
     findings.retain(|f| {
         let Some(c) = rule_of(f).filter(|_| asks(f)).and_then(|r| r.when.first()) else {
@@ -381,10 +410,39 @@ fn drop_on_profile_noise(
             flattened: flat.get(c.feature),
             profile_chance,
             level: fl.level,
+            kept_readings: kept_m.len(),
+            kept_span_m: (
+                kept_m.first().copied().unwrap_or(0.0),
+                kept_m.last().copied().unwrap_or(0.0),
+            ),
         });
         false
     });
     Ok(dropped)
+}
+
+/// What of the calipers a re-run without the profiles noise can make makes uniform, and the
+/// chance that noise alone makes what it flattens as uneven: all of them where they do not stand
+/// above noise (`chance`, the unevenness test; the lanes' calipers differ where `differ`); where
+/// they stand by their bands alone, all but the bands (a band that stands lends nothing to the
+/// noise elsewhere on the profile); else none.
+fn caliper_flat(
+    (case, fitted): (&Case, &Fitted),
+    rep: f64,
+    fl: &Floor,
+    (differ, chance): (bool, f64),
+) -> (Flat, f64) {
+    let standing = &fl.band.standing;
+    if chance > fl.level {
+        return (Flat::All, chance);
+    }
+    if differ && !standing.is_empty() {
+        let rest = rest_unevenness(case, &fitted.lanes, rep, standing);
+        if rest > fl.level {
+            return (Flat::Except(standing.clone()), rest);
+        }
+    }
+    (Flat::Keep, chance)
 }
 
 /// Each finding's probability over the states and its likelihood graded from it.
@@ -404,7 +462,7 @@ fn grade_findings(
             .filter(|s| siblings.iter().any(|q| q.holds(&s.values)))
             .count();
         f.probability = holds as f64 / states.len().max(1) as f64;
-        let test = noise_test(r, feats, tests);
+        let test = noise_test(r, &lanes_of(f), feats, tests);
         f.likelihood = grade(f.probability, test.clear(), r.likelihood);
         for e in f.evidence.iter_mut() {
             let mut v: Vec<f64> = states.iter().map(|s| s.values[e.feature]).collect();

@@ -6,6 +6,7 @@
 
 pub mod actions;
 pub mod attribution;
+mod band_place;
 pub mod confidence;
 pub mod corrections;
 mod crown;

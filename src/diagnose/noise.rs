@@ -246,7 +246,11 @@ pub const MOISTURE_REPEATABILITY_PCT: f64 = 0.15;
 /// noise-free roll) and put on the lanes as the case's own profiles are (so lanes average or
 /// interpolate the noise as they do the readings); without a caliper profile the lanes' own
 /// deviations are drawn with `noise`'s sigma.
-fn uniform_lanes(lab: &Case, lanes: &Lanes, noise: Option<(&mut ChaCha8Rng, f64)>) -> Lanes {
+pub(super) fn uniform_lanes(
+    lab: &Case,
+    lanes: &Lanes,
+    noise: Option<(&mut ChaCha8Rng, f64)>,
+) -> Lanes {
     let flat = |m: Measure| lab.profiles.iter().any(|p| p.what == m);
     let has_profile = flat(Measure::Caliper);
     let web = flat(Measure::Tension) || flat(Measure::Moisture);
@@ -378,32 +382,18 @@ fn age_group(
         .collect()
 }
 
-/// Features of the diagnosed roll with its lanes' calipers (`calipers`) and web profiles
-/// (`web`, tension and moisture) made uniform where asked, each lane's fitted creep kept, wound
-/// at the diagnosis's `nodes`: what the roll shows without those measured profiles.
+/// Features of the diagnosed roll on lanes `l0` (its own lanes with some profiles made uniform,
+/// [`super::band_place::flat_lanes`]), each lane's fitted creep kept, wound at the diagnosis's
+/// `nodes`: what the roll shows without those measured profiles.
 pub(super) fn flattened_features(
     case: &Case,
     fitted: &Fitted,
     nodes: usize,
-    (calipers, web): (bool, bool),
+    l0: &Lanes,
 ) -> Result<Features, DiagnoseError> {
-    let mut l0 = uniform_lanes(case, &fitted.lanes, None);
-    // what is not to be made uniform is put back from the diagnosed lanes (the same lanes)
-    for (lane, own) in l0.lanes.iter_mut().zip(&fitted.lanes.lanes) {
-        if !calipers {
-            (lane.caliper_m, lane.caliper_deviation) = (own.caliper_m, own.caliper_deviation);
-        }
-        if !web {
-            (lane.web_strain, lane.winding_moisture_pct) =
-                (own.web_strain, own.winding_moisture_pct);
-        }
-    }
-    if !calipers {
-        l0.mean_caliper_m = fitted.lanes.mean_caliper_m;
-    }
     let start = (fitted.wound.secant).scaled(fitted.lanes.mean_caliper_m, l0.mean_caliper_m);
     let opt = Options::with_nodes(nodes);
-    roll_features(case, &l0, &fitted.creep, opt, Caliper::Fill(start)).map(|(f, _)| f)
+    roll_features(case, l0, &fitted.creep, opt, Caliper::Fill(start)).map(|(f, _)| f)
 }
 
 /// Creep per lane of a noise-only roll: the pooled log-scales moved by one of the lane's own

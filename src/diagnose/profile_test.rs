@@ -4,6 +4,7 @@
 //! (Monte Carlo over noise-only profiles with as many readings, cheap). Whether the caliper
 //! profile is uneven in any way is [`super::unevenness`]'s.
 
+use super::band_place;
 use super::noise::{MOISTURE_REPEATABILITY_PCT, TENSION_REPEATABILITY};
 use super::trend_scan;
 use crate::case::{Case, Measure};
@@ -29,6 +30,12 @@ pub(super) struct BandTest {
     pub(super) chance: f64,
     /// Quantile of the noise statistic at the test's level, repeatability units.
     pub(super) threshold_sigmas: f64,
+    /// The lanes that carry a reading standing out at the test's level (the caliper band test
+    /// only, [`super::band_place`]): a rule resting on the calipers may stand on this test only
+    /// for a finding on one of them. Empty where no reading stands out.
+    pub(super) carriers: Vec<usize>,
+    /// Those readings (indices into [`caliper_readings`]).
+    pub(super) standing: Vec<usize>,
 }
 
 /// Which readings an outlier test looks for.
@@ -238,19 +245,43 @@ fn outlier_test(readings: &[f64], at: &[i64], rep: f64, level: f64, way: Outlyin
     BandTest {
         chance: (count + 1) as f64 / (BAND_DRAWS + 1) as f64,
         threshold_sigmas: posterior::quantile(&noise, 1.0 - level),
+        carriers: Vec::new(),
+        standing: Vec::new(),
     }
 }
 
 /// The band test of the case's caliper readings (the caliper profile with the most readings; the
 /// lanes' calipers when the case has none) with repeatability `rep` (m) at `level`.
+/// The lanes that carry a reading standing out over its neighbours at the thick leg's threshold
+/// are the test's `carriers`.
 pub(super) fn band_test(lab: &Case, lanes: &Lanes, rep: f64, level: f64) -> BandTest {
     let (readings, positions) = caliper_readings(lab, lanes);
-    thick_band(
-        &readings,
-        &trend_scan::grid(&positions, readings.len()),
-        rep,
-        level,
-    )
+    let grid = trend_scan::grid(&positions, readings.len());
+    let mut t = thick_band(&readings, &grid, rep, level);
+    let scaled: Vec<f64> = readings.iter().map(|x| x / rep.max(1e-300)).collect();
+    let thick = outlier_test(&readings, &grid, rep, level, Outlying::Thick).threshold_sigmas;
+    let mut at = band_place::standing(
+        &band_place::thick_excesses(&scaled),
+        thick,
+        t.chance <= level,
+    );
+    // and the band of one to three readings the trend leg holds out, where it stands: a band
+    // wider than a reading is placed whole, though its inner readings stand over neighbours
+    // that are the band's own
+    if readings.len() >= TREND_READINGS {
+        let over = outlier_test(&readings, &grid, rep, level, Outlying::ThickOverTrend);
+        if let (true, Some((first, k))) = (
+            over.chance <= level,
+            trend_scan::over_trend_band(&scaled, &grid),
+        ) {
+            at.extend(first..first + k);
+            at.sort_unstable();
+            at.dedup();
+        }
+    }
+    t.carriers = band_place::carriers(lanes, &positions, &at);
+    t.standing = at;
+    t
 }
 
 /// The band test of caliper `readings` on grid `at` with repeatability `rep` at `level`: a band
@@ -269,6 +300,8 @@ fn thick_band(readings: &[f64], at: &[i64], rep: f64, level: f64) -> BandTest {
     BandTest {
         chance: a.chance.max(b.chance),
         threshold_sigmas: a.threshold_sigmas.max(b.threshold_sigmas),
+        carriers: Vec::new(),
+        standing: Vec::new(),
     }
 }
 
@@ -322,6 +355,8 @@ pub(super) fn web_test(lab: &Case, level: f64) -> Option<BandTest> {
         .map(|t| BandTest {
             chance: (n * t.chance).min(1.0),
             threshold_sigmas: t.threshold_sigmas,
+            carriers: Vec::new(),
+            standing: Vec::new(),
         })
 }
 
@@ -371,6 +406,22 @@ mod tests {
         let slope: Vec<f64> = (0..9).map(|i| i as f64).collect();
         assert_eq!(band_statistic(&slope, &mut buf, Thick), 4.5);
         assert_eq!(band_statistic(&[], &mut buf, Either), 0.0);
+    }
+
+    /// The thick leg's sliding-window statistic is the largest of the per-reading excesses
+    /// [`super::super::band_place::thick_excesses`] computes window by window (the same
+    /// definition, two implementations), at counts below, at and above the window.
+    #[test]
+    fn the_sliding_window_agrees_with_each_reading_on_its_own() {
+        let mut rng = rand_chacha::ChaCha8Rng::seed_from_u64(11);
+        let mut buf = Vec::new();
+        for n in [2, 5, 9, 10, 16, 40] {
+            let mut v = vec![0.0; n];
+            normals(&mut rng, &mut v);
+            let each = super::super::band_place::thick_excesses(&v);
+            let most = each.iter().copied().fold(0.0, f64::max);
+            assert_eq!(band_statistic(&v, &mut buf, Thick), most, "{n} readings");
+        }
     }
 
     /// Polar-method draws are standard normal: mean 0, variance 1, and 5 % beyond +/-1.959964

@@ -55,6 +55,17 @@ pub(super) fn index_grid(n: usize) -> Vec<i64> {
 /// [`FIT_CHANCE`] read it so). At least one reading more than the trend has coefficients stays
 /// outside a band. 0 when none lies above its trend.
 pub(super) fn over_trend(v: &[f64], at: &[i64]) -> f64 {
+    with_scan(at, |scan| scan.most(v))
+}
+
+/// The readings (first, count) of the band [`over_trend`] finds most in excess of its trend,
+/// `None` where none lies above it.
+pub(super) fn over_trend_band(v: &[f64], at: &[i64]) -> Option<(usize, usize)> {
+    with_scan(at, |scan| scan.best(v))
+}
+
+/// `f` on this thread's scan of grid `at` (made anew for a new grid).
+fn with_scan<T>(at: &[i64], f: impl FnOnce(&mut TrendScan) -> T) -> T {
     thread_local! {
         static SCAN: std::cell::RefCell<TrendScan> = const {
             std::cell::RefCell::new(TrendScan {
@@ -69,7 +80,7 @@ pub(super) fn over_trend(v: &[f64], at: &[i64]) -> f64 {
         if scan.at != at {
             *scan = TrendScan::new(at);
         }
-        scan.most(v)
+        f(scan)
     })
 }
 
@@ -239,6 +250,25 @@ impl TrendScan {
     }
 
     fn most(&mut self, v: &[f64]) -> f64 {
+        let mut most = 0.0_f64;
+        self.scan(v, |_, excess| most = most.max(excess));
+        most
+    }
+
+    /// The band (first reading, readings) whose excess over its trend is the largest, `None`
+    /// when none lies above its trend.
+    fn best(&mut self, v: &[f64]) -> Option<(usize, usize)> {
+        let mut best = (0.0_f64, None);
+        self.scan(v, |b, excess| {
+            if excess > best.0 {
+                best = (excess, Some((b.start, b.k)));
+            }
+        });
+        best.1
+    }
+
+    /// Each band's excess over its trend, to `visit`.
+    fn scan(&mut self, v: &[f64], mut visit: impl FnMut(&TrendBand, f64)) {
         // about their mean (no trend depends on it), so a large offset keeps its digits
         let c = v.iter().sum::<f64>() / v.len().max(1) as f64;
         let p = &mut self.sums;
@@ -254,7 +284,6 @@ impl TrendScan {
             ]);
         }
         let t = p[p.len() - 1];
-        let mut most = 0.0_f64;
         for b in &self.bands {
             let (hi, lo) = (p[b.start + b.k], p[b.start]);
             let rest: [f64; 4] = std::array::from_fn(|j| t[j] - (hi[j] - lo[j]));
@@ -264,9 +293,8 @@ impl TrendScan {
                 Some(q) => q.predictor.excess(yb, rest3),
                 None => b.line.excess(yb, rest3),
             };
-            most = most.max(excess);
+            visit(b, excess);
         }
-        most
     }
 }
 

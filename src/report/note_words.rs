@@ -51,6 +51,23 @@ fn needs(
     }
 }
 
+/// The `n` caliper readings a re-run without the profiles noise can make kept, from and to
+/// `span` (m), in words: nothing where every reading was made uniform.
+fn kept_words(n: usize, (a, b): (f64, f64)) -> String {
+    match n {
+        0 => String::new(),
+        1 => format!(
+            " but for the caliper reading that stands out, at {:.0} mm,",
+            a * 1e3
+        ),
+        _ => format!(
+            " but for the {n} caliper readings that stand out, from {:.0} to {:.0} mm,",
+            a * 1e3,
+            b * 1e3
+        ),
+    }
+}
+
 /// A note of the diagnosis's confidence (noise floor, resolution, misfit) as a sentence.
 pub(super) fn confidence_note(n: &Note) -> String {
     match *n {
@@ -81,12 +98,15 @@ pub(super) fn confidence_note(n: &Note) -> String {
             flattened,
             profile_chance,
             level,
+            kept_readings,
+            kept_span_m,
         } => format!(
-            "{} not reported: it comes from the differences between the lanes' calipers (and web profiles) alone ({} is {} as measured, {} with those made uniform and each lane's creep kept), and those differences are within what measurement noise alone makes (a chance of {} %; a profile must reach {} % or less to stand)",
+            "{} not reported: it comes from the differences between the lanes' calipers (and web profiles) alone ({} is {} as measured, {} with those made uniform{} and each lane's creep kept), and those differences are within what measurement noise alone makes (a chance of {} %; a profile must reach {} % or less to stand)",
             defect_name(defect),
             feature_name(feature),
             crate::units::sig(value, 3),
             crate::units::sig(flattened, 3),
+            kept_words(kept_readings, kept_span_m),
             crate::units::sig(profile_chance * 100.0, 2),
             crate::units::sig(level * 100.0, 2)
         ),
