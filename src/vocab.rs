@@ -400,7 +400,7 @@ impl Feature {
             F::NipToTensionRatio => spec("friction x nip load over web tension", 0.0, INF, false),
             F::HardBandCount => spec("number of hard rings wound in (lanes with a local peak of wound-in tension 10 % over the mean lane)", 0.0, INF, false),
             F::SlackLanes => spec("lanes longer than the mean lane by over 0.5 mm/m", 0.0, INF, false),
-            F::CorePressureRatio => spec("highest interlayer pressure on the core over the core's collapse pressure (maker's rating or thin-ring buckling); 0 for a rigid core without a rating", 0.0, INF, false),
+            F::CorePressureRatio => spec("highest mean interlayer pressure on the core over a window of the core's ring-load decay length pi/beta (Timoshenko and Woinowsky-Krieger 1959; the whole width for a rigid core) over the core's collapse pressure (maker's rating or thin-ring buckling); 0 for a rigid core without a rating", 0.0, INF, false),
             F::PeakPressureCrushRatio => spec("highest wound-in interlayer pressure over the stack's ZD crush limit", 0.0, INF, false),
             F::MdCompressionStrengthRatio => spec("most compressive MD stress at winding over the MD compressive strength (0: no compression)", 0.0, INF, false),
             F::MdTensionStrengthRatio => spec("highest MD stress in the outer wraps at the end of storage over the MD tensile strength", -INF, INF, false),

@@ -482,9 +482,10 @@ fn limit_ratios(
     aged: &Aged,
     last: usize,
     st: &StressStates,
+    spans: &[(f64, f64)],
 ) -> LimitRatios {
     use crate::note::Strength;
-    let checks = crate::limits::strength(&case.material, &case.roll, wound);
+    let checks = crate::limits::strength(&case.material, &case.roll, wound, spans);
     let ratio = |which: Strength| {
         checks
             .iter()
@@ -528,7 +529,7 @@ pub fn compute(case: &Case, lanes: &Lanes, o: &super::actions::Outcome) -> Featu
     let st = stress_states(wound, aged, last);
     let (edge_moisture, moisture_change) = moisture_change(aged, last, &centre, &ends);
     let ws = winding_states(case, lanes, wound);
-    let lim = limit_ratios(case, wound, aged, last, &st);
+    let lim = limit_ratios(case, wound, aged, last, &st, &u.spans);
     let excess: Vec<f64> = u.s.iter().map(|v| v - u.mean_w).collect();
     let slack: Vec<usize> = (0..u.n()).filter(|&i| excess[i] > SLACK_MM_PER_M).collect();
     let running = running_strain(case, lanes);

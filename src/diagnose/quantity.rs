@@ -33,6 +33,8 @@ pub const fn quantity_of(d: Defect) -> Quantity {
 /// Where a quantity is measured: the roll's lanes, the finding's lanes and the lanes left out.
 pub struct Site<'a> {
     pub lanes: &'a Lanes,
+    /// The roll (its core, for the core's load width).
+    pub roll: &'a crate::case::Roll,
     /// Roll width, m.
     pub width_m: f64,
     /// The finding's lanes (its evidence); none: the whole roll.
@@ -167,10 +169,7 @@ impl Site<'_> {
             }
             Quantity::OuterZonePressureKpa => outer_zone_kpa(&o.wound, &kept),
             Quantity::CorePressureMpa => {
-                max(kept
-                    .iter()
-                    .map(|&i| o.wound.lanes[i].summary.core_pressure_pa))
-                    / 1e6
+                core_load(self.roll, &spans, &o.wound, &kept).map_or(0.0, |m| m.mean / 1e6)
             }
         };
         if v.is_finite() {
@@ -190,6 +189,21 @@ impl Site<'_> {
         let ends = [0, kept.len().saturating_sub(1)];
         features::centre_against_ends(s, &inner, &ends)
     }
+}
+
+/// The pressure on the core over its load width ([`crate::limits::core_load`]) from lanes
+/// `idx` at `spans` (m).
+pub fn core_load(
+    roll: &crate::case::Roll,
+    spans: &[(f64, f64)],
+    w: &Wound,
+    idx: &[usize],
+) -> Option<crate::numeric::WindowMean> {
+    let p: Vec<f64> = idx
+        .iter()
+        .map(|&i| w.lanes[i].summary.core_pressure_pa)
+        .collect();
+    crate::limits::core_load(roll, spans, &p)
 }
 
 /// Largest MD compressive stress of lane `i` in the inner third of the wound roll, Pa.
@@ -370,9 +384,11 @@ pub fn locate(
         | Defect::CrepeWrinkles
         | Defect::Telescoping
         | Defect::Bursts
-        | Defect::CrushedLayers
-        | Defect::CoreCollapse => near_extreme(&stress_state(defect, o)),
-        Defect::OutOfRound | Defect::LooseOuterWraps | Defect::NoDefect => Vec::new(),
+        | Defect::CrushedLayers => near_extreme(&stress_state(defect, o)),
+        // the core is loaded over its load width (the finding names that window, not lanes)
+        Defect::CoreCollapse | Defect::OutOfRound | Defect::LooseOuterWraps | Defect::NoDefect => {
+            Vec::new()
+        }
     }
 }
 
@@ -410,13 +426,8 @@ fn stress_state(defect: Defect, o: &Outcome) -> Vec<f64> {
             .iter()
             .map(|l| l.summary.peak_pressure_pa)
             .collect(),
-        Defect::CoreCollapse => o
-            .wound
-            .lanes
-            .iter()
-            .map(|l| l.summary.core_pressure_pa)
-            .collect(),
-        Defect::BaggyLane
+        Defect::CoreCollapse
+        | Defect::BaggyLane
         | Defect::BaggyCenter
         | Defect::BaggyEdges
         | Defect::BaggyOneEdge
