@@ -390,7 +390,7 @@ impl Feature {
             F::CreepShare => spec("share of the lane-to-lane length differences made in the roll (the web's own profile at winding taken out) from creep, 0..1", 0.0, 1.0, false),
             F::WebLengthShare => spec("share of the longest lane's excess over the mean lane that the web brought to the winder (its own length from the tension profile at winding), 0..1", 0.0, 1.0, false),
             F::CoreMdStressMpa => spec("most compressive MD stress in the inner third at winding, MPa (negative: compression)", -INF, INF, false),
-            F::SurfacePressureEndKpa => spec("lowest interlayer pressure in the outer 25 mm at the end of storage, kPa", 0.0, INF, false),
+            F::SurfacePressureEndKpa => spec("interlayer pressure in the outer 25 mm at the end of storage, width-weighted mean over the lanes (friction over the whole width resists axial slip), kPa", 0.0, INF, false),
             F::SurfacePressureLossPct => spec("mean loss of surface-zone pressure over storage, %", -INF, 100.0, false),
             F::OuterMdStressEndMpa => spec("highest MD stress in the outer wraps at the end of storage, MPa", -INF, INF, false),
             F::EdgeMoistureChangePct => spec("moisture change of the edge lanes minus the centre lanes, points", -INF, INF, false),

@@ -131,10 +131,12 @@ impl Site<'_> {
                 max(kept.iter().map(|&i| core_compression(&o.wound, i))) / 1e6
             }
             Quantity::SurfacePressureKpa => {
-                -max(kept
-                    .iter()
-                    .map(|&i| -o.aged.lanes[i].surface_pressure_pa[last]))
-                    / 1e3
+                // width-weighted over the kept web, as the feature reads it
+                let p = features::surface_at(&o.aged, last);
+                let w = self.lanes.widths();
+                let kp: Vec<f64> = kept.iter().map(|&i| p[i]).collect();
+                let kw: Vec<f64> = kept.iter().map(|&i| w[i]).collect();
+                crate::numeric::weighted_mean(&kp, &kw) / 1e3
             }
             Quantity::OuterMdStressMpa => {
                 max(kept.iter().map(|&i| {
@@ -380,15 +382,16 @@ pub fn locate(
             let em = mean(ends.iter().map(|&i| x[i]));
             centre.into_iter().filter(|&i| x[i] > em.max(0.0)).collect()
         }
-        Defect::Starring
-        | Defect::CrepeWrinkles
-        | Defect::Telescoping
-        | Defect::Bursts
-        | Defect::CrushedLayers => near_extreme(&stress_state(defect, o)),
-        // the core is loaded over its load width (the finding names that window, not lanes)
-        Defect::CoreCollapse | Defect::OutOfRound | Defect::LooseOuterWraps | Defect::NoDefect => {
-            Vec::new()
+        Defect::Starring | Defect::CrepeWrinkles | Defect::Bursts | Defect::CrushedLayers => {
+            near_extreme(&stress_state(defect, o))
         }
+        // the core is loaded over its load width (the finding names that window, not lanes);
+        // the outer wraps slide against friction over the whole width
+        Defect::CoreCollapse
+        | Defect::Telescoping
+        | Defect::OutOfRound
+        | Defect::LooseOuterWraps
+        | Defect::NoDefect => Vec::new(),
     }
 }
 
@@ -403,17 +406,10 @@ fn long_edge(x: &[f64], spans: &[(f64, f64)]) -> Vec<usize> {
 /// Per lane, the stress state a stress-based defect is located by (the lanes near its extreme).
 fn stress_state(defect: Defect, o: &Outcome) -> Vec<f64> {
     let n = o.wound.lanes.len();
-    let last = o.aged.last();
     match defect {
         Defect::Starring | Defect::CrepeWrinkles => {
             (0..n).map(|i| core_compression(&o.wound, i)).collect()
         }
-        Defect::Telescoping => o
-            .aged
-            .lanes
-            .iter()
-            .map(|l| -l.surface_pressure_pa[last])
-            .collect(),
         Defect::Bursts => o
             .aged
             .lanes
@@ -427,6 +423,7 @@ fn stress_state(defect: Defect, o: &Outcome) -> Vec<f64> {
             .map(|l| l.summary.peak_pressure_pa)
             .collect(),
         Defect::CoreCollapse
+        | Defect::Telescoping
         | Defect::BaggyLane
         | Defect::BaggyCenter
         | Defect::BaggyEdges
