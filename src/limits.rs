@@ -53,7 +53,13 @@ fn past(v: f64, limit: f64) -> Option<f64> {
 /// Checks on the wound-in state: winding speed against the lift-off speed; the web's and the
 /// core's strength ([`strength`]); the stack's compression at each lane's peak interlayer
 /// pressure. One note per kind, naming the worst lane and the number of lanes.
-pub fn after_winding(w: &Wound, material: &Material, roll: &Roll, speed_m_s: f64) -> Vec<Note> {
+pub fn after_winding(
+    w: &Wound,
+    lanes: &Lanes,
+    material: &Material,
+    roll: &Roll,
+    speed_m_s: f64,
+) -> Vec<Note> {
     let mut out = Vec::new();
     if speed_m_s > w.lift_off_speed_m_s {
         out.push(Note::Limit(Limit::AboveLiftOff {
@@ -61,8 +67,17 @@ pub fn after_winding(w: &Wound, material: &Material, roll: &Roll, speed_m_s: f64
             lift_off_m_s: w.lift_off_speed_m_s,
         }));
     }
-    for r in strength(material, roll, w) {
-        if r.lanes > 0 {
+    for r in strength(material, roll, w, &spans(lanes)) {
+        if r.which == Strength::CoreCollapse {
+            if r.ratio.is_nan() || r.ratio > 1.0 {
+                out.push(Note::Limit(Limit::CorePressure {
+                    from_m: r.position_m - 0.5 * r.width_m,
+                    to_m: r.position_m + 0.5 * r.width_m,
+                    pressure_pa: r.value_pa,
+                    limit_pa: r.limit_pa,
+                }));
+            }
+        } else if r.lanes > 0 {
             out.push(Note::Limit(Limit::Strength {
                 which: r.which,
                 lanes: r.lanes,
@@ -87,29 +102,88 @@ pub fn after_winding(w: &Wound, material: &Material, roll: &Roll, speed_m_s: f64
     out
 }
 
-/// A wound state against one strength: the largest ratio over the lanes.
+/// A wound state against one strength: the largest ratio over the lanes (for the core, over
+/// the running mean of [`core_load`]).
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct StrengthRatio {
     pub which: Strength,
     /// Largest state over its limit (0 when the limit is not positive).
     pub ratio: f64,
-    /// The state in the worst lane (a magnitude), Pa.
+    /// The state in the worst lane, or the core's averaged pressure (a magnitude), Pa.
     pub value_pa: f64,
     /// The limit, Pa.
     pub limit_pa: f64,
-    /// Centre of the worst lane, m.
+    /// Centre of the worst lane, or of the core's worst window, m.
     pub position_m: f64,
-    /// Lanes whose state exceeds the limit.
+    /// Width the state is taken over: the worst lane's, or the core's window, m.
+    pub width_m: f64,
+    /// Lanes whose state exceeds the limit (for the core: the lanes under its window when the
+    /// window's mean does).
     pub lanes: u32,
 }
 
-/// The wound state against the web's strength (ZD crush, MD compression, MD tension) and, where
-/// the core has a collapse pressure ([`crate::winding::collapse_pressure`]), the core's.
-pub fn strength(material: &Material, roll: &Roll, w: &Wound) -> Vec<StrengthRatio> {
+/// The lanes' spans (left, right edges), m.
+pub fn spans(lanes: &Lanes) -> Vec<(f64, f64)> {
+    lanes.lanes.iter().map(|l| (l.left_m, l.right_m)).collect()
+}
+
+/// The pressure on the core as its collapse pressure sees it: the highest running mean of the
+/// lanes' core pressures `core_pa` (Pa, lanes at `spans`, m) over the core's load width
+/// ([`crate::winding::core_load_width`]: the tube's ring-load decay length, Timoshenko and
+/// Woinowsky-Krieger 1959; the whole width for a rigid core). A collapse pressure is a uniform
+/// pressure over the core's length, and a tube carries a local load over about that length, so
+/// one lane narrower than it does not load the core by its own pressure alone; lanes wider than
+/// it are read whole ([`crate::numeric::running_mean_max`]). A width in metres, so the lane
+/// count does not change it.
+pub fn core_load(
+    roll: &Roll,
+    spans: &[(f64, f64)],
+    core_pa: &[f64],
+) -> Option<crate::numeric::WindowMean> {
+    let width =
+        crate::winding::core_load_width(&roll.core, 0.5 * roll.core_diameter_m, roll.width_m);
+    crate::numeric::running_mean_max(spans, core_pa, width)
+}
+
+/// The core against its collapse pressure `limit_pa` (Pa): [`core_load`] over it.
+fn core_ratio(roll: &Roll, w: &Wound, spans: &[(f64, f64)], limit_pa: f64) -> StrengthRatio {
+    let p: Vec<f64> = w.lanes.iter().map(|l| l.summary.core_pressure_pa).collect();
+    let m = core_load(roll, spans, &p);
+    let (value_pa, from_m, to_m) = m.map_or((0.0, 0.0, 0.0), |m| (m.mean, m.from_m, m.to_m));
+    let ratio = if limit_pa > 0.0 {
+        value_pa / limit_pa
+    } else {
+        0.0
+    };
+    let under = spans.iter().filter(|&&(a, b)| b > from_m && a < to_m);
+    StrengthRatio {
+        which: Strength::CoreCollapse,
+        ratio,
+        value_pa,
+        limit_pa,
+        position_m: 0.5 * (from_m + to_m),
+        width_m: to_m - from_m,
+        lanes: if ratio.is_nan() || ratio > 1.0 {
+            under.count() as u32
+        } else {
+            0
+        },
+    }
+}
+
+/// The wound state against the web's strength (ZD crush, MD compression, MD tension), lane by
+/// lane, and, where the core has a collapse pressure ([`crate::winding::collapse_pressure`]),
+/// the core's ([`core_load`] over the lanes at `spans`, m).
+pub fn strength(
+    material: &Material,
+    roll: &Roll,
+    w: &Wound,
+    spans: &[(f64, f64)],
+) -> Vec<StrengthRatio> {
     use crate::winding::LaneSummary;
     let s = &material.strength;
     type State = fn(&LaneSummary) -> f64;
-    let mut items: Vec<(Strength, f64, State)> = vec![
+    let items: Vec<(Strength, f64, State)> = vec![
         (Strength::ZdCrush, s.zd_crush_pa, |l| l.peak_pressure_pa),
         (Strength::MdCompression, s.md_compressive_pa, |l| {
             (-l.tangential_min_pa).max(0.0)
@@ -123,10 +197,7 @@ pub fn strength(material: &Material, roll: &Roll, w: &Wound) -> Vec<StrengthRati
         0.5 * roll.core_diameter_m,
         roll.core_rating_pa,
     );
-    if let Some(pc) = collapse {
-        items.push((Strength::CoreCollapse, pc, |l| l.core_pressure_pa));
-    }
-    items
+    let mut out: Vec<StrengthRatio> = items
         .into_iter()
         .map(|(which, limit_pa, state)| {
             let mut r = StrengthRatio {
@@ -135,9 +206,10 @@ pub fn strength(material: &Material, roll: &Roll, w: &Wound) -> Vec<StrengthRati
                 value_pa: 0.0,
                 limit_pa,
                 position_m: w.lanes.first().map_or(0.0, |l| l.position_m),
+                width_m: spans.first().map_or(0.0, |s| s.1 - s.0),
                 lanes: 0,
             };
-            for l in &w.lanes {
+            for (i, l) in w.lanes.iter().enumerate() {
                 let v = state(&l.summary);
                 let ratio = if limit_pa > 0.0 { v / limit_pa } else { 0.0 };
                 if ratio.is_nan() || ratio > 1.0 {
@@ -145,11 +217,16 @@ pub fn strength(material: &Material, roll: &Roll, w: &Wound) -> Vec<StrengthRati
                 }
                 if ratio.is_nan() || ratio > r.ratio {
                     (r.ratio, r.value_pa, r.position_m) = (ratio, v, l.position_m);
+                    r.width_m = spans.get(i).map_or(0.0, |s| s.1 - s.0);
                 }
             }
             r
         })
-        .collect()
+        .collect();
+    if let Some(pc) = collapse {
+        out.push(core_ratio(roll, w, spans, pc));
+    }
+    out
 }
 
 /// How many repeatabilities a lane's predicted diameter deviation may differ from the measured

@@ -256,6 +256,17 @@ pub enum Limit {
         /// The limit, Pa.
         limit_pa: f64,
     },
+    /// The pressure on the core, averaged over the core's load width
+    /// ([`crate::limits::core_load`]), beyond the core's collapse pressure.
+    CorePressure {
+        /// The window of the highest mean, m from the front edge.
+        from_m: f64,
+        to_m: f64,
+        /// Mean pressure on the core over it, Pa.
+        pressure_pa: f64,
+        /// The core's collapse pressure, Pa.
+        limit_pa: f64,
+    },
     /// The stack law puts a lane's stack at a compressive strain past any real void content.
     StackCrushed {
         /// Lanes past the limit (the worst is described).
@@ -359,6 +370,7 @@ impl Limit {
         match self {
             Limit::AboveLiftOff { .. }
             | Limit::Strength { .. }
+            | Limit::CorePressure { .. }
             | Limit::StackCrushed { .. }
             | Limit::DiameterInsideCore { .. }
             | Limit::MoistureAboveSaturation { .. }

@@ -178,6 +178,72 @@ pub fn weighted_mean(v: &[f64], w: &[f64]) -> f64 {
     v.iter().zip(w).map(|(a, b)| a * b).sum::<f64>() / sw
 }
 
+/// The window of a fixed width where a piecewise-constant profile is highest on average.
+#[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
+pub struct WindowMean {
+    /// Width-weighted mean of the profile over the window (the profile's unit).
+    pub mean: f64,
+    /// The window's ends, m.
+    pub from_m: f64,
+    pub to_m: f64,
+}
+
+/// The highest running width-weighted mean of `v` over a window `window_m` wide (m), the lanes
+/// given by their `spans` (left, right edges, m; sorted, not overlapping): each lane weighs by
+/// the part of the window it covers. The window slides over the lanes' extent; one wider than
+/// that extent is the whole extent, and inside a lane wider than the window it reads that lane.
+/// The window's mean is piecewise linear in its start, so the highest lies where an end of the
+/// window meets a lane edge; those starts are tried in order and the first highest kept. `None`
+/// without lanes or for a window not above zero.
+///
+/// ```
+/// use rollsleuth::numeric::running_mean_max;
+/// // lanes 0-0.1, 0.1-0.2, 0.2-0.4 at 1, 3, 2: a 0.15 m window from 0.1 to 0.25 reads
+/// // (3 x 0.1 + 2 x 0.05) / 0.15 = 2.667
+/// let m = running_mean_max(&[(0.0, 0.1), (0.1, 0.2), (0.2, 0.4)], &[1.0, 3.0, 2.0], 0.15).unwrap();
+/// assert!((m.mean - 8.0 / 3.0).abs() < 1e-12 && (m.from_m - 0.1).abs() < 1e-12);
+/// ```
+pub fn running_mean_max(spans: &[(f64, f64)], v: &[f64], window_m: f64) -> Option<WindowMean> {
+    let (first, last) = (spans.first()?.0, spans.last()?.1);
+    if window_m.is_nan() || window_m <= 0.0 || v.len() != spans.len() {
+        return None;
+    }
+    let w = window_m.min(last - first);
+    let mean_from = |x0: f64| {
+        let x1 = x0 + w;
+        let (mut sum, mut cover) = (0.0, 0.0);
+        for (&(a, b), &val) in spans.iter().zip(v) {
+            let part = (b.min(x1) - a.max(x0)).max(0.0);
+            sum += val * part;
+            cover += part;
+        }
+        if cover > 0.0 {
+            sum / cover
+        } else {
+            f64::NEG_INFINITY
+        }
+    };
+    let mut starts: Vec<f64> = spans
+        .iter()
+        .flat_map(|&(a, b)| [a, b, a - w, b - w])
+        .map(|x| x.clamp(first, last - w))
+        .collect();
+    starts.sort_by(f64::total_cmp);
+    starts.dedup();
+    let mut best: Option<WindowMean> = None;
+    for x0 in starts {
+        let mean = mean_from(x0);
+        if best.is_none_or(|b| mean > b.mean || (mean.is_nan() && !b.mean.is_nan())) {
+            best = Some(WindowMean {
+                mean,
+                from_m: x0,
+                to_m: x0 + w,
+            });
+        }
+    }
+    best
+}
+
 /// Largest minus smallest value; 0 for no values.
 ///
 /// ```
@@ -348,5 +414,45 @@ mod tests {
         ] {
             assert!((normal_upper_quantile(p) - z).abs() < 2e-6, "{p}");
         }
+    }
+
+    /// The running mean against a hand computation (the mean of a piecewise-constant profile
+    /// over a window is the integral over the window divided by its width; each lane's part is
+    /// its overlap). Lanes 0-0.2 at 1, 0.2-0.3 at 5, 0.3-0.35 at 9, 0.35-1.0 at 2; window 0.1:
+    /// - from 0.25: (5 x 0.05 + 9 x 0.05) / 0.1 = 7.0 (the narrow 9 alone cannot fill it);
+    /// - from 0.3: (9 x 0.05 + 2 x 0.05) / 0.1 = 5.5; from 0.2: 5.0. The highest is 7.0.
+    ///
+    /// A window wider than the roll is the whole width: (0.2 + 0.5 + 0.45 + 1.3) / 1.0 = 2.45.
+    /// A lane wider than the window reads that lane: two lanes 0-0.5 at 4 and 0.5-1 at 1 with
+    /// a 0.1 window give 4 from 0 to 0.1.
+    #[test]
+    fn the_running_mean_is_the_overlap_weighted_mean_of_the_best_window() {
+        let spans = [(0.0, 0.2), (0.2, 0.3), (0.3, 0.35), (0.35, 1.0)];
+        let v = [1.0, 5.0, 9.0, 2.0];
+        let m = running_mean_max(&spans, &v, 0.1).unwrap();
+        assert_relative_eq!(m.mean, 7.0, max_relative = 1e-12);
+        assert_relative_eq!(m.from_m, 0.25, epsilon = 1e-12);
+        assert_relative_eq!(m.to_m, 0.35, epsilon = 1e-12);
+        let all = running_mean_max(&spans, &v, 5.0).unwrap();
+        assert_relative_eq!(all.mean, 2.45, max_relative = 1e-12);
+        assert_eq!((all.from_m, all.to_m), (0.0, 1.0));
+        let wide = running_mean_max(&[(0.0, 0.5), (0.5, 1.0)], &[4.0, 1.0], 0.1).unwrap();
+        assert_eq!((wide.mean, wide.from_m), (4.0, 0.0));
+        // the same profile cut into finer lanes gives the same window
+        let fine = [
+            (0.0, 0.1),
+            (0.1, 0.2),
+            (0.2, 0.25),
+            (0.25, 0.3),
+            (0.3, 0.35),
+            (0.35, 1.0),
+        ];
+        let fv = [1.0, 1.0, 5.0, 5.0, 9.0, 2.0];
+        let f = running_mean_max(&fine, &fv, 0.1).unwrap();
+        assert_relative_eq!(f.mean, 7.0, max_relative = 1e-12);
+        assert!(running_mean_max(&[], &[], 0.1).is_none());
+        assert!(running_mean_max(&spans, &v, 0.0).is_none());
+        let nan = running_mean_max(&spans, &[1.0, f64::NAN, 1.0, 1.0], 0.1).unwrap();
+        assert!(nan.mean.is_nan());
     }
 }

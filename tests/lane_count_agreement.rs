@@ -147,9 +147,11 @@ fn the_demo_gives_the_same_findings_and_peak_lane_at_every_lane_count() {
     }
 }
 
-/// The dry board roll (a broad baggy centre, low surface pressure, short edges dried from the
-/// ends): the same findings at 12, 24 and 40 lanes, a broad centre not a local peak at any
-/// count; the shortest lane (the edge strip, as wide at every count) agrees within 2 % (its
+/// The dry board roll (a broad baggy centre, short edges dried from the ends): the same
+/// findings at 12, 24 and 40 lanes, a broad centre not a local peak at any count, and no
+/// telescoping: the outer wraps' width-weighted pressure at the end (22.6-23.1 kPa,
+/// `tests/telescoping_lane_count.rs`) is above the rule's 20 kPa (the dried 25 mm edge strip's
+/// 2.7 kPa, which decided it before, is not the friction over the width); the shortest lane (the edge strip, as wide at every count) agrees within 2 % (its
 /// 5-95 % interval is about 0.1 % wide: the board's edges are set by drying, which the creep
 /// posterior does not move), and the spread within 2 %. (With edge lanes of 25, 60 and 36 mm the spread was
 /// 1.14, 0.84 and 1.04 mm/m.)
@@ -159,7 +161,7 @@ fn the_board_roll_gives_the_same_findings_at_every_lane_count() {
         Some("field_cases/harrowgate_board_dry_store.yaml"),
         &[12, 24, 40],
     );
-    same_defects(&runs, &[Defect::BaggyCenter, Defect::Telescoping]);
+    same_defects(&runs, &[Defect::BaggyCenter]);
     let short: Vec<_> = runs
         .iter()
         .map(|(n, d)| (*n, extreme_lane(d, -1.0)))

@@ -333,7 +333,11 @@ struct StressStates {
     outer_md_end_mpa: f64,
 }
 
-fn stress_states(wound: &Wound, aged: &Aged, last: usize) -> StressStates {
+/// `widths`: the lanes' widths, m. The surface pressure at the end is the width-weighted mean:
+/// the outer wraps slide axially (telescope) against friction over the whole width, a
+/// resisting force of friction times the interlayer pressure integrated over the face
+/// (Coulomb's law of friction, Coulomb 1785), so one narrow lane's low pressure does not decide.
+fn stress_states(wound: &Wound, aged: &Aged, last: usize, widths: &[f64]) -> StressStates {
     let rc = wound.radius_m[0];
     let rr = wound.radius_m[wound.radius_m.len() - 1];
     let inner = rc + (rr - rc) / 3.0;
@@ -350,10 +354,7 @@ fn stress_states(wound: &Wound, aged: &Aged, last: usize) -> StressStates {
     let n = aged.lanes.len() as f64;
     StressStates {
         core_md_mpa: core_md / 1e6,
-        surface_pressure_end_kpa: min_from(
-            f64::INFINITY,
-            aged.lanes.iter().map(|l| l.surface_pressure_pa[last]),
-        ) / 1e3,
+        surface_pressure_end_kpa: weighted_mean(&surface_at(aged, last), widths) / 1e3,
         surface_pressure_loss_pct: aged
             .lanes
             .iter()
@@ -370,6 +371,14 @@ fn stress_states(wound: &Wound, aged: &Aged, last: usize) -> StressStates {
                 .map(|l| *l.final_tangential_stress_pa.last().unwrap_or(&0.0)),
         ) / 1e6,
     }
+}
+
+/// Each lane's surface-zone pressure at step `last`, Pa.
+pub(super) fn surface_at(aged: &Aged, last: usize) -> Vec<f64> {
+    aged.lanes
+        .iter()
+        .map(|l| l.surface_pressure_pa[last])
+        .collect()
 }
 
 /// Moisture change over storage: edge lanes minus centre lanes, and the largest of any lane,
@@ -482,9 +491,10 @@ fn limit_ratios(
     aged: &Aged,
     last: usize,
     st: &StressStates,
+    spans: &[(f64, f64)],
 ) -> LimitRatios {
     use crate::note::Strength;
-    let checks = crate::limits::strength(&case.material, &case.roll, wound);
+    let checks = crate::limits::strength(&case.material, &case.roll, wound, spans);
     let ratio = |which: Strength| {
         checks
             .iter()
@@ -525,10 +535,10 @@ pub fn compute(case: &Case, lanes: &Lanes, o: &super::actions::Outcome) -> Featu
     let (caliper_correlation, caliper_range_pct) = caliper_link(lanes, &u);
     let (moisture_share, creep_share) = shares(aged, last);
     let web_length_share = web_share(aged, &u);
-    let st = stress_states(wound, aged, last);
+    let st = stress_states(wound, aged, last, &u.w);
     let (edge_moisture, moisture_change) = moisture_change(aged, last, &centre, &ends);
     let ws = winding_states(case, lanes, wound);
-    let lim = limit_ratios(case, wound, aged, last, &st);
+    let lim = limit_ratios(case, wound, aged, last, &st, &u.spans);
     let excess: Vec<f64> = u.s.iter().map(|v| v - u.mean_w).collect();
     let slack: Vec<usize> = (0..u.n()).filter(|&i| excess[i] > SLACK_MM_PER_M).collect();
     let running = running_strain(case, lanes);

@@ -123,6 +123,10 @@ pub struct Finding {
     pub lanes: Vec<LaneRef>,
     /// The length difference behind the finding (its first feature), mm/m when a length.
     pub length_difference_mm_per_m: f64,
+    /// For a core collapse, where the core is loaded most: the window of the highest mean
+    /// pressure over the core's load width ([`crate::limits::core_load`]); none otherwise.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub core: Option<crate::numeric::WindowMean>,
     /// Root cause on the finding's own quantity (None when re-runs are off).
     pub attribution: Option<Attribution>,
     /// Corrections checked on the same quantity; those that do not improve it last.
@@ -348,7 +352,14 @@ fn finding(
     rerun: Option<&mut (Runner, Runs)>,
 ) -> Result<Finding, DiagnoseError> {
     let r = fr.rule;
-    let idx = locate(r.defect, lanes, case.roll.width_m, feats, fitted);
+    let core = core_window(r.defect, case, lanes, fitted);
+    let idx = match core {
+        // the lanes under the core's most loaded window
+        Some(m) => (0..lanes.lanes.len())
+            .filter(|&i| lanes.lanes[i].right_m > m.from_m && lanes.lanes[i].left_m < m.to_m)
+            .collect(),
+        None => locate(r.defect, lanes, case.roll.width_m, feats, fitted),
+    };
     let lane_refs: Vec<LaneRef> = idx
         .iter()
         .map(|&i| LaneRef {
@@ -361,6 +372,7 @@ fn finding(
     let q = quantity_of(r.defect);
     let site = Site {
         lanes,
+        roll: &case.roll,
         width_m: case.roll.width_m,
         at: &idx,
         excluded: &[],
@@ -405,9 +417,23 @@ fn finding(
             Some(f) if f.spec().is_length => feats.get(f).abs(),
             _ => feats.get(Feature::SpreadMmPerM),
         },
+        core,
         attribution,
         corrections,
     })
+}
+
+/// For a core collapse, the core's most loaded window ([`quantity::core_load`] over all lanes).
+fn core_window(
+    defect: Defect,
+    case: &Case,
+    lanes: &Lanes,
+    o: &Outcome,
+) -> Option<crate::numeric::WindowMean> {
+    let all: Vec<usize> = (0..lanes.lanes.len()).collect();
+    (defect == Defect::CoreCollapse)
+        .then(|| quantity::core_load(&case.roll, &local::spans(lanes), &o.wound, &all))
+        .flatten()
 }
 
 /// Whether the findings agree with the complaint: a finding of the defect complained of, or of
@@ -470,6 +496,7 @@ mod tests {
             evidence: Vec::new(),
             lanes: Vec::new(),
             length_difference_mm_per_m: 0.0,
+            core: None,
             attribution: None,
             corrections: Vec::new(),
         }

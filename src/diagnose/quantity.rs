@@ -33,6 +33,8 @@ pub const fn quantity_of(d: Defect) -> Quantity {
 /// Where a quantity is measured: the roll's lanes, the finding's lanes and the lanes left out.
 pub struct Site<'a> {
     pub lanes: &'a Lanes,
+    /// The roll (its core, for the core's load width).
+    pub roll: &'a crate::case::Roll,
     /// Roll width, m.
     pub width_m: f64,
     /// The finding's lanes (its evidence); none: the whole roll.
@@ -129,10 +131,12 @@ impl Site<'_> {
                 max(kept.iter().map(|&i| core_compression(&o.wound, i))) / 1e6
             }
             Quantity::SurfacePressureKpa => {
-                -max(kept
-                    .iter()
-                    .map(|&i| -o.aged.lanes[i].surface_pressure_pa[last]))
-                    / 1e3
+                // width-weighted over the kept web, as the feature reads it
+                let p = features::surface_at(&o.aged, last);
+                let w = self.lanes.widths();
+                let kp: Vec<f64> = kept.iter().map(|&i| p[i]).collect();
+                let kw: Vec<f64> = kept.iter().map(|&i| w[i]).collect();
+                crate::numeric::weighted_mean(&kp, &kw) / 1e3
             }
             Quantity::OuterMdStressMpa => {
                 max(kept.iter().map(|&i| {
@@ -167,10 +171,7 @@ impl Site<'_> {
             }
             Quantity::OuterZonePressureKpa => outer_zone_kpa(&o.wound, &kept),
             Quantity::CorePressureMpa => {
-                max(kept
-                    .iter()
-                    .map(|&i| o.wound.lanes[i].summary.core_pressure_pa))
-                    / 1e6
+                core_load(self.roll, &spans, &o.wound, &kept).map_or(0.0, |m| m.mean / 1e6)
             }
         };
         if v.is_finite() {
@@ -190,6 +191,21 @@ impl Site<'_> {
         let ends = [0, kept.len().saturating_sub(1)];
         features::centre_against_ends(s, &inner, &ends)
     }
+}
+
+/// The pressure on the core over its load width ([`crate::limits::core_load`]) from lanes
+/// `idx` at `spans` (m).
+pub fn core_load(
+    roll: &crate::case::Roll,
+    spans: &[(f64, f64)],
+    w: &Wound,
+    idx: &[usize],
+) -> Option<crate::numeric::WindowMean> {
+    let p: Vec<f64> = idx
+        .iter()
+        .map(|&i| w.lanes[i].summary.core_pressure_pa)
+        .collect();
+    crate::limits::core_load(roll, spans, &p)
 }
 
 /// Largest MD compressive stress of lane `i` in the inner third of the wound roll, Pa.
@@ -366,13 +382,16 @@ pub fn locate(
             let em = mean(ends.iter().map(|&i| x[i]));
             centre.into_iter().filter(|&i| x[i] > em.max(0.0)).collect()
         }
-        Defect::Starring
-        | Defect::CrepeWrinkles
+        Defect::Starring | Defect::CrepeWrinkles | Defect::Bursts | Defect::CrushedLayers => {
+            near_extreme(&stress_state(defect, o))
+        }
+        // the core is loaded over its load width (the finding names that window, not lanes);
+        // the outer wraps slide against friction over the whole width
+        Defect::CoreCollapse
         | Defect::Telescoping
-        | Defect::Bursts
-        | Defect::CrushedLayers
-        | Defect::CoreCollapse => near_extreme(&stress_state(defect, o)),
-        Defect::OutOfRound | Defect::LooseOuterWraps | Defect::NoDefect => Vec::new(),
+        | Defect::OutOfRound
+        | Defect::LooseOuterWraps
+        | Defect::NoDefect => Vec::new(),
     }
 }
 
@@ -387,17 +406,10 @@ fn long_edge(x: &[f64], spans: &[(f64, f64)]) -> Vec<usize> {
 /// Per lane, the stress state a stress-based defect is located by (the lanes near its extreme).
 fn stress_state(defect: Defect, o: &Outcome) -> Vec<f64> {
     let n = o.wound.lanes.len();
-    let last = o.aged.last();
     match defect {
         Defect::Starring | Defect::CrepeWrinkles => {
             (0..n).map(|i| core_compression(&o.wound, i)).collect()
         }
-        Defect::Telescoping => o
-            .aged
-            .lanes
-            .iter()
-            .map(|l| -l.surface_pressure_pa[last])
-            .collect(),
         Defect::Bursts => o
             .aged
             .lanes
@@ -410,13 +422,9 @@ fn stress_state(defect: Defect, o: &Outcome) -> Vec<f64> {
             .iter()
             .map(|l| l.summary.peak_pressure_pa)
             .collect(),
-        Defect::CoreCollapse => o
-            .wound
-            .lanes
-            .iter()
-            .map(|l| l.summary.core_pressure_pa)
-            .collect(),
-        Defect::BaggyLane
+        Defect::CoreCollapse
+        | Defect::Telescoping
+        | Defect::BaggyLane
         | Defect::BaggyCenter
         | Defect::BaggyEdges
         | Defect::BaggyOneEdge

@@ -105,8 +105,13 @@ pub(crate) fn limit_notes(
     wound: &Wound,
     aged: &Aged,
 ) -> Vec<crate::note::Note> {
-    let mut found =
-        crate::limits::after_winding(wound, &case.material, &case.roll, case.winding.speed_m_s);
+    let mut found = crate::limits::after_winding(
+        wound,
+        lanes,
+        &case.material,
+        &case.roll,
+        case.winding.speed_m_s,
+    );
     found.extend(crate::limits::after_storage(
         aged,
         &case.material,

@@ -164,7 +164,11 @@ fn finding_text(rank: usize, f: &Finding, sys: System) -> String {
         f.rule
     );
     let _ = writeln!(out, "   Why: {}", f.mechanism);
-    let _ = writeln!(out, "   Where: {}", lanes_text(&f.lanes, sys));
+    let at = match &f.core {
+        Some(m) => super::note_words::core_where(m, sys),
+        None => lanes_text(&f.lanes, sys),
+    };
+    let _ = writeln!(out, "   Where: {at}");
     let mut t = table(&["evidence", "value", "fires when", "source"]);
     for e in &f.evidence {
         t.add_row(vec![

@@ -226,6 +226,9 @@ fn headline(r: &ReportData, v: &mut Vec<Block>) {
 }
 
 fn lanes_text(f: &crate::diagnose::Finding, sys: System) -> String {
+    if let Some(m) = &f.core {
+        return super::note_words::core_where(m, sys);
+    }
     if f.lanes.is_empty() {
         return "whole roll".into();
     }

@@ -296,8 +296,56 @@ pub(super) fn unwind_limit(l: &crate::note::Limit) -> String {
             film_words(film_m),
             roughness_m * 1e6
         ),
+        Limit::CorePressure {
+            from_m,
+            to_m,
+            pressure_pa,
+            limit_pa,
+        } => format!(
+            "core from {:.0} to {:.0} mm: pressure on the core of {} MPa (the mean over the {:.0} mm a tube carries a local load over, Timoshenko and Woinowsky-Krieger 1959) is {:.2} times the core's collapse pressure (its rating, else thin-ring buckling; {} MPa); check roll.core and the winding, or treat the roll with care",
+            from_m * 1e3,
+            to_m * 1e3,
+            crate::units::sig(pressure_pa / 1e6, 4),
+            (to_m - from_m) * 1e3,
+            pressure_pa / limit_pa,
+            crate::units::sig(limit_pa / 1e6, 4)
+        ),
         other => super::words::limit(&other),
     }
+}
+
+/// The predicted-hardness limits as sentences (the other limits: [`limit`]).
+pub(super) fn hardness_limit(l: &crate::note::Limit) -> String {
+    use crate::note::Limit;
+    match *l {
+        Limit::HardnessBelowScale {
+            lanes,
+            position_m,
+            hardness,
+        } => format!(
+            "{}: the predicted hardness falls to {hardness:.1}, below the bottom of any hardness scale: the surface zone has almost no interlayer pressure, where the map H = a + b ln P no longer holds, so hardness readings there cannot test the model (hardness.calibration)",
+            super::words::at(lanes, position_m)
+        ),
+        Limit::HardnessNotFinite { lanes, position_m } => format!(
+            "{}: the predicted hardness is not a finite number; {} (hardness.calibration)",
+            super::words::at(lanes, position_m),
+            super::words::SO
+        ),
+        _ => super::words::limit(l),
+    }
+}
+
+/// Where a core collapse is: the core's most loaded window (its ends) and the mean pressure on
+/// the core over it ([`crate::limits::core_load`]).
+pub(super) fn core_where(m: &crate::numeric::WindowMean, sys: crate::units::System) -> String {
+    use crate::units::Kind;
+    format!(
+        "core from {} to {}, mean pressure on the core {} over the {} a tube carries a local load over",
+        super::pos(m.from_m, sys),
+        super::pos(m.to_m, sys),
+        super::q(m.mean, Kind::Pressure, sys),
+        super::q(m.to_m - m.from_m, Kind::Length, sys)
+    )
 }
 
 /// The headline of a diagnosis whose rules all fired without a finding standing (`below`, their

@@ -113,7 +113,7 @@ fn heading(c: &Case, w: &Wound, sys: System) -> String {
 /// The physical limits the wound state passed, and its diameters against the winding-time
 /// diameter profile.
 fn limits(c: &Case, l: &Lanes, w: &Wound) -> Vec<crate::note::Note> {
-    let mut out = crate::limits::after_winding(w, &c.material, &c.roll, c.winding.speed_m_s);
+    let mut out = crate::limits::after_winding(w, l, &c.material, &c.roll, c.winding.speed_m_s);
     let rep = crate::fit::observe::DIAMETER_REPEATABILITY_M;
     out.extend(crate::limits::against_winding_diameter(l, w, rep));
     out

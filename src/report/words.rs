@@ -323,7 +323,10 @@ pub fn limit(l: &crate::note::Limit) -> String {
             crate::units::sig(lift_off_m_s, 3)
         ),
         Limit::Condensation(c) => condensation(&c),
-        Limit::FlatContact { .. } | Limit::AirFloats { .. } | Limit::UnwindTension { .. } => {
+        Limit::FlatContact { .. }
+        | Limit::AirFloats { .. }
+        | Limit::UnwindTension { .. }
+        | Limit::CorePressure { .. } => {
             super::note_words::unwind_limit(l)
         }
         Limit::Strength {
@@ -379,7 +382,9 @@ pub fn limit(l: &crate::note::Limit) -> String {
             "{}: moisture reaches {moisture_pct:.2} %, above the isotherm's saturation {saturation_pct:.2} %; {SO} (material.sorption, storage)",
             at(lanes, position_m)
         ),
-        Limit::HardnessBelowScale { .. } | Limit::HardnessNotFinite { .. } => hardness_limit(l),
+        Limit::HardnessBelowScale { .. } | Limit::HardnessNotFinite { .. } => {
+            super::note_words::hardness_limit(l)
+        }
         Limit::LooseOuterWraps { .. } => loose_wraps(l),
     }
 }
@@ -415,30 +420,10 @@ fn loose_wraps(l: &crate::note::Limit) -> String {
 }
 
 /// Which lanes passed a limit: the one, or how many and the worst.
-fn at(lanes: u32, position_m: f64) -> String {
+pub(super) fn at(lanes: u32, position_m: f64) -> String {
     match lanes {
         1 => format!("lane at {:.0} mm", position_m * 1e3),
         n => format!("{n} lanes (worst at {:.0} mm)", position_m * 1e3),
-    }
-}
-
-/// The predicted-hardness limits as sentences (the other limits: [`limit`]).
-fn hardness_limit(l: &crate::note::Limit) -> String {
-    use crate::note::Limit;
-    match *l {
-        Limit::HardnessBelowScale {
-            lanes,
-            position_m,
-            hardness,
-        } => format!(
-            "{}: the predicted hardness falls to {hardness:.1}, below the bottom of any hardness scale: the surface zone has almost no interlayer pressure, where the map H = a + b ln P no longer holds, so hardness readings there cannot test the model (hardness.calibration)",
-            at(lanes, position_m)
-        ),
-        Limit::HardnessNotFinite { lanes, position_m } => format!(
-            "{}: the predicted hardness is not a finite number; {SO} (hardness.calibration)",
-            at(lanes, position_m)
-        ),
-        _ => limit(l),
     }
 }
 

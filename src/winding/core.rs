@@ -56,6 +56,41 @@ pub fn ring_collapse_pressure(modulus_pa: f64, wall_m: f64, outer_radius_m: f64)
     3.0 * modulus_pa * wall_m.powi(3) / 12.0 / r.powi(3)
 }
 
+/// Decay length of a ring load on a thin cylindrical shell, m: pi / beta with
+/// beta^4 = 3 (1 - nu^2) / (R^2 t^2), R the mid-wall radius and t the wall (Timoshenko and
+/// Woinowsky-Krieger 1959, Theory of Plates and Shells, 2nd ed., section 114: the deflection
+/// under a ring load goes as e^(-beta x) (cos beta x + sin beta x), down to e^(-pi) = 4 % of its
+/// peak at x = pi / beta). A local pressure on a tube is carried over about this length, so the
+/// pressure a core's collapse pressure (a pressure over its length) is compared with is a mean
+/// over it.
+///
+/// # Units
+/// `wall_m`, `outer_radius_m` m; returns m.
+///
+/// ```
+/// // 152 mm core, 12 mm wall, nu 0.3: R = 70 mm, beta = (2.73 / (0.07 x 0.012)^2)^(1/4)
+/// // = 44.35 /m, pi / beta = 70.84 mm
+/// let l = rollsleuth::winding::ring_load_length(0.012, 0.076, 0.3);
+/// assert!((l * 1e3 - 70.84).abs() < 0.01);
+/// ```
+pub fn ring_load_length(wall_m: f64, outer_radius_m: f64, poisson: f64) -> f64 {
+    let r = (outer_radius_m - 0.5 * wall_m).max(1e-9);
+    let beta = (3.0 * (1.0 - poisson * poisson)).powf(0.25) / (r * wall_m.max(1e-12)).sqrt();
+    std::f64::consts::PI / beta
+}
+
+/// The width over which the pressure on a case's core is averaged before it is compared with
+/// the core's collapse pressure, m: the tube's [`ring_load_length`], never more than the roll's
+/// `width_m`; the whole width for a rigid core (its bending length is unbounded).
+pub fn core_load_width(core: &Core, core_radius_m: f64, width_m: f64) -> f64 {
+    match *core {
+        Core::Rigid => width_m,
+        Core::Tube {
+            wall_m, poisson, ..
+        } => ring_load_length(wall_m, core_radius_m, poisson).min(width_m),
+    }
+}
+
 /// Collapse pressure of a case's core, Pa: the maker's `rating` when given, else the thin-ring
 /// buckling pressure of a tube; `None` for a rigid core without a rating.
 pub fn collapse_pressure(core: &Core, core_radius_m: f64, rating_pa: Option<f64>) -> Option<f64> {

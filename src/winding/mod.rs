@@ -20,7 +20,10 @@ mod summary;
 mod uniform;
 mod wound;
 
-pub use self::core::{collapse_pressure, core_stiffness, of as core_of, ring_collapse_pressure};
+pub use self::core::{
+    collapse_pressure, core_load_width, core_stiffness, of as core_of, ring_collapse_pressure,
+    ring_load_length,
+};
 pub use cache::Cache;
 pub use centrifugal::{disk_stress, lift_off_speed};
 pub use grid::{graded_grid, grid, Spacing};
