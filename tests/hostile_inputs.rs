@@ -211,7 +211,8 @@ fn triage_skips_fifos_and_reads_upper_case_extensions() {
         .unwrap();
     assert!(ok.success());
     let r = run(&["triage", s(d.path())]);
-    assert!(r.stdout.contains("UPPER.YAML"), "{}", r.stdout);
+    // the roll diagnosed by its id, which the table never wraps (a file name may wrap)
+    assert!(r.stdout.contains("NVP-PM3-24117-R06"), "{}", r.stdout);
     assert!(r.stdout.contains("named pipe"), "{}", r.stdout);
 }
 

@@ -3,7 +3,8 @@
 //! in the root-cause report. The limit checked here is the lift-off speed: a layer wound at
 //! speed v carries a centrifugal hoop stress rho v^2 (Timoshenko and Goodier, Theory of
 //! Elasticity, rotating disk), so above v = sqrt(sigma_wound / rho) the wound-in stress cannot
-//! hold it on the roll.
+//! hold it on the roll. A changed roll whose measured surveys the model no longer explains
+//! exits 3, a result like 0 and 1 (README, exit codes); bad input would be 2.
 
 use std::process::Command;
 
@@ -28,7 +29,7 @@ fn run(args: &[&str]) -> (i32, String, String) {
 fn every_command_warns_when_the_roll_is_wound_above_lift_off() {
     for cmd in ["stress", "age", "fit", "diagnose", "whatif"] {
         let (code, _, err) = run(&[cmd, "--set", FAST]);
-        assert!(code <= 1, "{cmd}: {err}");
+        assert!(matches!(code, 0 | 1 | 3), "{cmd}: {err}");
         assert!(
             err.contains("warning:") && err.contains("lift-off speed"),
             "{cmd} text: {err}"
@@ -86,7 +87,7 @@ fn the_report_and_triage_carry_the_warning() {
     let d = tempfile::tempdir().unwrap();
     let out = d.path().join("out");
     let (code, _, err) = run(&["diagnose", "--set", FAST, "--out", out.to_str().unwrap()]);
-    assert!(code <= 1, "{err}");
+    assert!(matches!(code, 0 | 1 | 3), "{err}");
     let md = std::fs::read_to_string(out.join("NVP-PM3-24117-R06.md")).unwrap();
     assert!(
         md.contains("warning:") && md.contains("lift-off"),
@@ -120,7 +121,7 @@ fn a_hardness_below_the_scale_is_a_warning() {
     let stiff = "material.radial_modulus=20 MPa";
     for cmd in ["age", "fit"] {
         let (code, _, err) = run(&[cmd, case, "--set", stiff]);
-        assert!(code <= 1, "{cmd}: {err}");
+        assert!(matches!(code, 0 | 1 | 3), "{cmd}: {err}");
         // the text is wrapped to the terminal's width
         let err = err.split_whitespace().collect::<Vec<_>>().join(" ");
         assert!(

@@ -241,10 +241,11 @@ pub fn fit(arg: &CaseArg, out: Output) -> Result<Outcome, CliError> {
         || report::fit_view::json(&c, &f),
         || report::fit_view::text(&c, &l, &f, out.sys),
     )?;
-    Ok(Outcome::Ok(s))
+    Ok(Outcome::of_roll(s, false, &crate::fit::model_fit(&f)))
 }
 
-/// `diagnose`: findings exit with 1; `--out` writes the report files first.
+/// `diagnose`: findings exit with 1, a roll the model does not explain with 3; `--out` writes
+/// the report files first.
 pub fn diagnose(
     arg: &CaseArg,
     rules: &RulesArg,
@@ -272,11 +273,8 @@ pub fn diagnose(
         || report::diagnose_view::json(&d),
         || report::diagnose_view::text(&d, out.sys),
     )?;
-    Ok(if d.findings.is_empty() {
-        Outcome::Ok(s)
-    } else {
-        Outcome::Findings(s)
-    })
+    let fit = d.confidence.model_fit();
+    Ok(Outcome::of_roll(s, !d.findings.is_empty(), &fit))
 }
 
 /// `whatif`: the case as measured against the case with the `--set` changes. A change of the

@@ -3,7 +3,8 @@
 //!
 //! **Invariant:** the only module that knows clap; makes no words of its own (`report` does).
 //! Exit codes: 0 ok, 1 findings, 2 bad input, a usage error, a model that could not be solved, or
-//! output that could not be written ([`CliError::exit_code`]).
+//! output that could not be written ([`CliError::exit_code`]), 3 a roll the model does not explain
+//! (its misfit over [`crate::fit::MISFIT_LIMIT`]; before 1, as the findings rest on that model).
 
 pub mod args;
 pub mod commands;
@@ -30,6 +31,24 @@ pub enum Outcome {
     Findings(String),
     /// Printed; some inputs were bad (exit 2), e.g. a triage with a broken case file.
     BadInput(String),
+    /// Printed; the model does not explain a roll's surveys (exit 3), findings or not.
+    NotExplained(String),
+}
+
+/// Exit code of a roll the model does not explain ([`Outcome::NotExplained`]).
+pub const NOT_EXPLAINED_EXIT: u8 = 3;
+
+impl Outcome {
+    /// `NotExplained` when the model does not explain the roll, else `Findings` or `Ok`.
+    pub fn of_roll(s: String, findings: bool, fit: &crate::fit::ModelFit) -> Outcome {
+        if fit.verdict == crate::fit::Verdict::NotExplained {
+            Outcome::NotExplained(s)
+        } else if findings {
+            Outcome::Findings(s)
+        } else {
+            Outcome::Ok(s)
+        }
+    }
 }
 
 /// Run a parsed command.
@@ -185,6 +204,7 @@ fn route_notes(o: Outcome, cli: &Cli) -> Outcome {
         Outcome::Ok(s) => Outcome::Ok(split(s)),
         Outcome::Findings(s) => Outcome::Findings(split(s)),
         Outcome::BadInput(s) => Outcome::BadInput(split(s)),
+        Outcome::NotExplained(s) => Outcome::NotExplained(split(s)),
     }
 }
 
@@ -233,6 +253,10 @@ pub fn main(args: impl IntoIterator<Item = OsString>) -> ExitCode {
         Ok(Outcome::BadInput(s)) => {
             let _ = out.write_all(s.as_bytes());
             ExitCode::from(2)
+        }
+        Ok(Outcome::NotExplained(s)) => {
+            let _ = out.write_all(s.as_bytes());
+            ExitCode::from(NOT_EXPLAINED_EXIT)
         }
         Err(e) => {
             // a model's error does not name the case file it came from; a case's error does

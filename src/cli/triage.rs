@@ -18,7 +18,8 @@ use std::path::{Path, PathBuf};
 const BATCH: usize = 16;
 
 /// `triage`: every roll diagnosed with the fast settings; a roll that fails is a row, not the
-/// end of the run. Exit 2 when any roll could not be diagnosed, else 1 with findings.
+/// end of the run. Exit 2 when any roll could not be diagnosed, else 3 when the model does not
+/// explain a roll, else 1 with findings.
 pub fn triage(
     paths: &[PathBuf],
     rules: &RulesArg,
@@ -69,8 +70,11 @@ pub fn triage(
     };
     let bad = rows.iter().any(|r| r.error.is_some());
     let any = earlier.findings || rows.iter().any(|r| !r.defects.is_empty());
+    let unexplained = earlier.not_explained || rows.iter().any(TriageRow::not_explained);
     Ok(if bad {
         Outcome::BadInput(s)
+    } else if unexplained {
+        Outcome::NotExplained(s)
     } else if any {
         Outcome::Findings(s)
     } else {
@@ -157,6 +161,8 @@ struct Earlier {
     text: String,
     /// Whether a standing row has findings.
     findings: bool,
+    /// Whether the model does not explain a standing row's roll (`model_fit` `not_explained`).
+    not_explained: bool,
 }
 
 /// Read an earlier CSV output (`--resume`): its whole rows, mapped by column name onto the
@@ -181,6 +187,7 @@ fn earlier_rows(path: &Path, files: &[PathBuf]) -> Result<Earlier, CliError> {
     let at = |name: &str| headers.iter().position(|h| h == name);
     let file_col = at("file").ok_or_else(|| fail("it has no `file` column".into()))?;
     let (error_col, defects_col) = (at("error"), at("defects"));
+    let fit_col = at("model_fit");
     // before `top_probability`, `top_likelihood` held the rule's weight, not the graded word
     let columns: Vec<Option<usize>> = (report::TRIAGE_CSV_COLUMNS.iter())
         .map(|&c| at(c).filter(|_| c != "top_likelihood" || at("top_probability").is_some()))
@@ -225,6 +232,8 @@ fn earlier_rows(path: &Path, files: &[PathBuf]) -> Result<Earlier, CliError> {
         }
         let findings = !cell(&rec, defects_col).is_empty();
         out.findings |= ok && findings;
+        let not = report::fit_words::verdict_word(crate::fit::Verdict::NotExplained);
+        out.not_explained |= ok && cell(&rec, fit_col) == not;
         let mut row: Vec<String> = columns.iter().map(|&c| cell(&rec, c)).collect();
         if let Some(i) = safety_at {
             if ok && (findings || !cell(&rec, warnings_col).is_empty()) {

@@ -70,8 +70,7 @@ use crate::rules::{Rule, Table};
 use crate::vocab::{Feature, Likelihood};
 use serde::Serialize;
 
-/// Misfit (root-mean-square residual in noise units) above which a lane is not explained.
-pub const MISFIT_LIMIT: f64 = 3.0;
+pub use crate::fit::MISFIT_LIMIT;
 
 /// A lane's length at unwind with its spread over the plausible states.
 #[derive(Debug, Clone, PartialEq, Serialize)]
@@ -109,6 +108,15 @@ pub struct Confidence {
     /// Rules whose finding was dropped: below the noise floor, resting on profiles within noise,
     /// or holding in fewer than half of the states.
     pub below_floor: Vec<String>,
+}
+
+impl Confidence {
+    /// Whether the model explains the surveys: the roll's misfit and each lane's against
+    /// [`MISFIT_LIMIT`] (the verdict every output opens with).
+    pub fn model_fit(&self) -> crate::fit::ModelFit {
+        let lanes = self.lanes.iter().map(|l| (l.position_m, l.misfit));
+        crate::fit::explained::from_lanes(self.roll_misfit, lanes)
+    }
 }
 
 /// Assess a diagnosis: drop findings below the noise floor, give each a probability and a graded
@@ -152,7 +160,7 @@ pub fn assess(
     findings.sort_by(Finding::rank_cmp);
     notes.push(fl.resolution);
     let lanes = lane_spreads(fitted, feats, &states);
-    let roll_misfit = roll_misfit(fitted);
+    let roll_misfit = crate::fit::explained::roll_misfit(&fitted.fit);
     consistency_notes(fitted, &lanes, roll_misfit, findings, notes);
     Ok(Confidence {
         caliper_repeatability_m: rep,
@@ -521,25 +529,10 @@ fn lane_spreads(fitted: &Fitted, feats: &Features, states: &[State]) -> Vec<Lane
                 excess_mm_per_m_p05: posterior::quantile(&v, 0.05),
                 excess_mm_per_m_p95: posterior::quantile(&v, 0.95),
                 misfit: l.rmse,
-                explained: l.rmse <= MISFIT_LIMIT,
+                explained: crate::fit::explained::explained(l.rmse),
             }
         })
         .collect()
-}
-
-/// Root-mean-square normalised residual over every reading of the roll.
-fn roll_misfit(fitted: &Fitted) -> f64 {
-    let r: Vec<f64> = fitted
-        .fit
-        .lanes
-        .iter()
-        .flat_map(|l| l.residuals.iter().map(|r| r.normalised))
-        .collect();
-    if r.is_empty() {
-        0.0
-    } else {
-        (r.iter().map(|x| x * x).sum::<f64>() / r.len() as f64).sqrt()
-    }
 }
 
 /// Notes on lanes and a roll the model does not explain, and on findings resting on them.
@@ -556,7 +549,7 @@ fn consistency_notes(
             misfit: l.misfit,
         });
     }
-    if roll_misfit > MISFIT_LIMIT {
+    if !crate::fit::explained::explained(roll_misfit) {
         notes.push(Note::RollNotExplained {
             misfit: roll_misfit,
         });

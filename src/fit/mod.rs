@@ -5,6 +5,7 @@
 pub mod contradict;
 pub mod creep_curve;
 mod draws;
+pub mod explained;
 pub mod field;
 mod grid;
 mod hardness;
@@ -13,6 +14,7 @@ pub mod observe;
 pub mod posterior;
 pub mod synth;
 
+pub use explained::{model_fit, ModelFit, Verdict, MISFIT_LIMIT};
 pub use hardness::hardness_map;
 pub use lane_fit::{
     creep_from, fit_lane, hessian2, inverse_pd, minimise, scaled, FittedParams, LaneFit,

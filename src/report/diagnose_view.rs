@@ -81,6 +81,11 @@ fn lanes_text(lanes: &[crate::diagnose::LaneRef], sys: System) -> String {
 pub fn text(d: &Diagnosis, sys: System) -> String {
     let mut out = String::new();
     let _ = writeln!(out, "Diagnosis of case {}: {}", d.case, d.title);
+    let fit = d.confidence.model_fit();
+    let rests = "The findings below, and the absence of findings,";
+    if let Some(s) = super::fit_words::opening(&fit, sys, rests) {
+        let _ = writeln!(out, "{s}");
+    }
     let _ = writeln!(
         out,
         "Predicted length spread across the width at unwind: {:.2} {} of web ({} {}; rules: {}).",
@@ -102,13 +107,14 @@ pub fn text(d: &Diagnosis, sys: System) -> String {
     if let Some(a) = &d.agreement {
         let _ = writeln!(
             out,
-            "Complaint: {}. {}",
+            "Complaint: {}. {}{}",
             words::defect(a.complaint),
             match (a.agrees, a.rank) {
                 (true, Some(r)) => format!("The prediction agrees (finding {r})."),
                 (true, None) => "The prediction agrees (no defect predicted).".into(),
                 (false, _) => "The prediction does not show it: check the measurements, the storage history and the rules' thresholds.".into(),
-            }
+            },
+            super::fit_words::agreement_caveat(&fit)
         );
     }
     out.push_str(&lanes_table(d, sys));
@@ -283,6 +289,7 @@ pub fn json(d: &Diagnosis) -> Value {
         "features": d.features.values,
         "lanes": d.lanes,
         "confidence": d.confidence,
+        "model_fit": d.confidence.model_fit(),
         "notes": words::notes(d),
         "warnings": words::warnings(d),
         "safety": d.advises_action.then_some(SAFETY),

@@ -182,6 +182,23 @@ fn headline(r: &ReportData, v: &mut Vec<Block>) {
             None => "none stated.".into(),
         }),
     ]);
+    lines.push(found_line(d, sys));
+    let fit = d.confidence.model_fit();
+    if fit.verdict == crate::fit::Verdict::LanesNotExplained {
+        let rests = "What rests on those lanes";
+        let words = super::fit_words::opening(&fit, sys, rests).unwrap_or_default();
+        lines.push(vec![b("Model fit: "), t(words)]);
+    }
+    if let Some(line) = document_cause::main_cause(d) {
+        lines.push(line);
+    }
+    lines.push(agreement_line(d));
+    v.push(Block::Boxed(lines));
+}
+
+/// The headline's "Found": what the rules found, after what the model does not explain.
+fn found_line(d: &crate::diagnose::Diagnosis, sys: System) -> Vec<Span> {
+    let fit = d.confidence.model_fit();
     let found = if d.findings.is_empty() && d.confidence.below_floor.is_empty() {
         "no rule fired: the roll is predicted to unwind within the rules' thresholds".to_string()
     } else if d.findings.is_empty() {
@@ -200,29 +217,31 @@ fn headline(r: &ReportData, v: &mut Vec<Block>) {
             .collect::<Vec<_>>()
             .join("; ")
     };
-    lines.push(vec![
+    let before = super::fit_words::found_prefix(&fit, sys).unwrap_or_default();
+    vec![
         b("Found: "),
         t(format!(
-            "{found}. Predicted length spread across the width at unwind: "
+            "{before}{found}. Predicted length spread across the width at unwind: "
         )),
         k(per_mille(d.spread_mm_per_m, sys), "spread"),
         t("."),
-    ]);
-    if let Some(line) = document_cause::main_cause(d) {
-        lines.push(line);
-    }
-    lines.push(vec![
+    ]
+}
+
+/// The headline's agreement with the complaint.
+fn agreement_line(d: &crate::diagnose::Diagnosis) -> Vec<Span> {
+    let caveat = super::fit_words::agreement_caveat(&d.confidence.model_fit());
+    vec![
         b("Agreement with the complaint: "),
         t(match &d.agreement {
             None => "no complaint to compare with.".to_string(),
             Some(a) => match (a.agrees, a.rank) {
-                (true, Some(r)) => format!("the prediction agrees (finding {r})."),
-                (true, None) => "the prediction agrees (no defect predicted).".into(),
-                (false, _) => "the prediction does not show it: check the measurements, the storage history and the rules' thresholds.".into(),
+                (true, Some(r)) => format!("the prediction agrees (finding {r}).{caveat}"),
+                (true, None) => format!("the prediction agrees (no defect predicted).{caveat}"),
+                (false, _) => format!("the prediction does not show it: check the measurements, the storage history and the rules' thresholds.{caveat}"),
             },
         }),
-    ]);
-    v.push(Block::Boxed(lines));
+    ]
 }
 
 fn lanes_text(f: &crate::diagnose::Finding, sys: System) -> String {

@@ -18,6 +18,10 @@ pub fn text(c: &Case, lanes: &Lanes, f: &RollFit, sys: System) -> String {
         f.lanes.iter().map(|l| l.residuals.len()).sum::<usize>(),
         f.evaluations
     );
+    let rests = "The creep scales and the strain at unwind below";
+    if let Some(s) = super::fit_words::opening(&crate::fit::model_fit(f), sys, rests) {
+        let _ = writeln!(out, "{s}");
+    }
     let _ = writeln!(
         out,
         "Roll values (pooled): MD creep scale {:.2} ({:.2}-{:.2}), radial creep scale {:.2} ({:.2}-{:.2}){}; each lane drawn towards them with a prior of a factor {:.1} (1 sigma); a scale a lane's data do not identify stays at the roll's value and carries its range.",
@@ -166,6 +170,7 @@ pub fn json(c: &Case, f: &RollFit) -> Value {
             "noise_sd": k.sigma,
         })).collect::<Vec<_>>(),
         "evaluations": f.evaluations,
+        "model_fit": crate::fit::model_fit(f),
         "notes": notes,
         "warnings": warnings,
         "safety": super::safety_for(&all),

@@ -15,6 +15,7 @@ pub mod document_tables;
 pub mod escape;
 pub mod files;
 pub mod fit_view;
+pub mod fit_words;
 pub mod html;
 pub mod markdown;
 mod marks;

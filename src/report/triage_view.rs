@@ -1,6 +1,7 @@
 //! `triage` and `whatif` output: many rolls in one table, and a roll against a changed copy.
 
 use super::{pos, table, words, SAFETY};
+use crate::fit::{ModelFit, Verdict};
 use crate::note::Note;
 use crate::units::System;
 use crate::vocab::{Defect, Likelihood};
@@ -29,6 +30,9 @@ pub struct TriageRow {
     /// How many physical limits the roll's predicted state is beyond
     /// ([`crate::note::Limit::beyond_physical`]); `None` when not diagnosed.
     pub limits_exceeded: Option<u32>,
+    /// Whether the model explains the roll's surveys, with its misfit; `None` when not
+    /// diagnosed.
+    pub model_fit: Option<ModelFit>,
     pub error: Option<String>,
     /// The case's warnings and every physical limit a stage passed, in words.
     pub warnings: Vec<String>,
@@ -60,6 +64,7 @@ impl TriageRow {
                     .filter(|n| matches!(n, Note::Limit(l) if l.beyond_physical()))
                     .count() as u32,
             ),
+            model_fit: Some(d.confidence.model_fit()),
             error: None,
             warnings: words::warnings(d),
             advises_action: d.advises_action,
@@ -78,19 +83,25 @@ impl TriageRow {
             complaint: None,
             agrees: None,
             limits_exceeded: None,
+            model_fit: None,
             error: Some(e.to_string()),
             warnings: Vec::new(),
             advises_action: false,
         }
     }
-    /// The triage order, worst first: failures, then rolls beyond a physical limit, then the
-    /// rest; within each, as `diagnose` orders findings, by the first finding's graded
-    /// likelihood (a roll with none last), then its probability, then its rule's weight; then by
-    /// the spread.
+    /// Whether the model does not explain the roll's surveys (its misfit over the limit).
+    pub fn not_explained(&self) -> bool {
+        (self.model_fit.as_ref()).is_some_and(|m| m.verdict == Verdict::NotExplained)
+    }
+    /// The triage order, worst first: failures, then rolls beyond a physical limit, then rolls
+    /// the model does not explain, then the rest; within each, as `diagnose` orders findings, by
+    /// the first finding's graded likelihood (a roll with none last), then its probability,
+    /// then its rule's weight; then by the spread.
     pub fn rank_cmp(&self, other: &TriageRow) -> Ordering {
         let group = |r: &TriageRow| match (&r.error, r.spread_mm_per_m) {
-            (None, Some(_)) => u8::from(r.limits_exceeded > Some(0)),
-            _ => 2,
+            (None, Some(_)) if r.limits_exceeded > Some(0) => 2,
+            (None, Some(_)) => u8::from(r.not_explained()),
+            _ => 3,
         };
         let num = |x: Option<f64>| x.unwrap_or(0.0);
         let top = |r: &TriageRow| {
@@ -110,8 +121,9 @@ impl TriageRow {
 
 /// The columns of the triage CSV (SI; the spread is mm of extra length per m of web). Each row
 /// stands on its own in a spreadsheet, so a row that advises action carries the safety note in
-/// `safety` (empty otherwise).
-pub const TRIAGE_CSV_COLUMNS: [&str; 12] = [
+/// `safety` (empty otherwise). `model_fit` is `explained`, `lanes_not_explained` or
+/// `not_explained` ([`crate::fit::Verdict`]), with the roll's misfit in noise units beside it.
+pub const TRIAGE_CSV_COLUMNS: [&str; 14] = [
     "file",
     "case",
     "spread_mm_per_m",
@@ -124,6 +136,8 @@ pub const TRIAGE_CSV_COLUMNS: [&str; 12] = [
     "error",
     "warnings",
     "safety",
+    "model_fit",
+    "roll_misfit_noise_units",
 ];
 
 /// The header line of the triage CSV.
@@ -162,6 +176,12 @@ pub fn triage_csv_rows(rows: &[TriageRow]) -> String {
                 r.error.as_deref().map(one_line).unwrap_or_default(),
                 r.warnings.join(" | "),
                 if r.advises_action { SAFETY } else { "" }.to_string(),
+                (r.model_fit.as_ref())
+                    .map(|m| super::fit_words::verdict_word(m.verdict).to_string())
+                    .unwrap_or_default(),
+                (r.model_fit.as_ref())
+                    .map(|m| format!("{:.2}", m.roll_misfit_noise_units))
+                    .unwrap_or_default(),
             ])?;
         }
         Ok(())
@@ -198,6 +218,7 @@ pub fn triage_text(rows: &[TriageRow], sys: System) -> String {
         "complaint",
         "agrees",
         "beyond limits",
+        "model fits",
     ]);
     let mut failed = String::new();
     let mut warned = String::new();
@@ -225,6 +246,9 @@ pub fn triage_text(rows: &[TriageRow], sys: System) -> String {
     if rows.iter().any(|r| r.limits_exceeded > Some(0)) {
         out.push_str("Beyond limits: the roll's predicted state passes a physical limit (strength, crush, core, lift-off, air film, ...), so results resting on it are not physical; such rolls are listed first, after those not diagnosed. Check their inputs and the warnings.\n");
     }
+    if rows.iter().any(TriageRow::not_explained) {
+        out.push_str(&format!("Not explained: the model does not explain the roll's surveys (readings miss the fit by over {:.0} noise units, rms), so its findings, or the absence of findings, rest on an unexplained model; such rolls are listed after those beyond limits. Check their surveys (instrument, scale, positions, ages) and storage history, and run `rollsleuth diagnose CASE` on each.\n", crate::fit::MISFIT_LIMIT));
+    }
     out.push_str(&warned);
     out.push_str("Triage uses the fast settings (no corrections re-run); run `rollsleuth diagnose CASE` on a roll for the full report.\n");
     out.push_str(SAFETY);
@@ -232,13 +256,17 @@ pub fn triage_text(rows: &[TriageRow], sys: System) -> String {
     out
 }
 
+/// The name of a file, as the triage table shows it.
+fn file_name(file: &str) -> String {
+    (std::path::Path::new(file).file_name())
+        .map(|n| n.to_string_lossy().into_owned())
+        .unwrap_or_else(|| file.to_string())
+}
+
 /// A roll's cells in the triage table; a roll not diagnosed says so in its number and defect
 /// columns (its message follows the table).
 fn cells(r: &TriageRow) -> Vec<String> {
-    let name = std::path::Path::new(&r.file)
-        .file_name()
-        .map(|n| n.to_string_lossy().into_owned())
-        .unwrap_or_else(|| r.file.clone());
+    let name = file_name(&r.file);
     let spread = match (&r.error, r.spread_mm_per_m) {
         (None, Some(x)) => format!("{x:.2}"),
         _ => "n/a".into(),
@@ -269,6 +297,9 @@ fn cells(r: &TriageRow) -> Vec<String> {
             Some(n) => format!("{n} (see warnings)"),
             None => String::new(),
         },
+        (r.model_fit.as_ref())
+            .map(super::fit_words::triage_cell)
+            .unwrap_or_default(),
     ]
 }
 
@@ -451,6 +482,30 @@ mod tests {
                 "none"
             ]
         );
+    }
+
+    /// A roll the model does not explain ranks after rolls beyond a physical limit and before
+    /// every other roll, findings or not.
+    #[test]
+    fn a_roll_the_model_does_not_explain_ranks_right_after_rolls_beyond_limits() {
+        let fit = |verdict, misfit| {
+            let lanes = [(0.1, misfit)].into_iter();
+            let mut m = crate::fit::explained::from_lanes(misfit, lanes);
+            m.verdict = verdict;
+            Some(m)
+        };
+        let mut high = row("high", Some((Likelihood::High, 1.0, 0.8)), 2.0);
+        high.model_fit = fit(Verdict::Explained, 0.6);
+        let mut beyond = row("beyond", None, 0.1);
+        beyond.limits_exceeded = Some(1);
+        let mut unexplained = row("unexplained", None, 0.05);
+        unexplained.model_fit = fit(Verdict::NotExplained, 6.0);
+        let mut lanes = row("lanes", None, 0.5);
+        lanes.model_fit = fit(Verdict::LanesNotExplained, 1.2);
+        let mut rows = [lanes, high, unexplained, beyond];
+        rows.sort_by(|a, b| a.rank_cmp(b));
+        let order: Vec<&str> = rows.iter().map(|r| r.file.as_str()).collect();
+        assert_eq!(order, ["beyond", "unexplained", "high", "lanes"]);
     }
 
     /// The CSV gives the graded word and the probability, each empty when there is no finding.
