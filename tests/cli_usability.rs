@@ -411,3 +411,23 @@ fn triage_shows_progress_on_a_terminal() {
         "progress on the terminal: {seen}"
     );
 }
+
+/// `--lanes N` is `--set lanes.count=N` written shorter: the same bytes on `lanes` and `stress`;
+/// a count outside 1-400 is refused with the fix, exit 2.
+#[test]
+fn lanes_option_is_the_lane_count_override() {
+    for sub in ["lanes", "stress"] {
+        let a = run(cmd().args([sub, DEMO, "--lanes", "24", "--json"]));
+        let b = run(cmd().args([sub, DEMO, "--set", "lanes.count=24", "--json"]));
+        assert_eq!(a.0, 0, "{}", a.2);
+        assert_eq!(a, b, "{sub}");
+    }
+    for bad in ["0", "401", "many"] {
+        let (code, _, err) = run(cmd().args(["lanes", DEMO, "--lanes", bad]));
+        assert_eq!(code, 2, "{bad}: {err}");
+        assert!(
+            err.contains("--lanes") && err.contains("from 1 to 400"),
+            "{err}"
+        );
+    }
+}

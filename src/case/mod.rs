@@ -18,4 +18,4 @@ pub use errors::{CaseError, Problem};
 pub use model::*;
 pub use overrides::apply_set;
 pub use read::{load_demo, load_file, load_str, DEMO_NAME, DEMO_YAML};
-pub use validate::MAX_WEB_STRAIN;
+pub use validate::{MAX_LANE_COUNT, MAX_WEB_STRAIN};

@@ -56,6 +56,17 @@ pub struct CaseArg {
     /// Override a field before validation, e.g. --set winding.tension="1.8 pli" (repeatable).
     #[arg(long = "set", value_name = "PATH=VALUE")]
     pub set: Vec<String>,
+    /// Number of equal lanes across the width, 1 to 400 (the same as --set lanes.count=N).
+    #[arg(long, value_name = "N", value_parser = lane_count)]
+    pub lanes: Option<u32>,
+}
+
+impl CaseArg {
+    /// The overrides to apply: the lane count of `--lanes` first, then the `--set`s in order.
+    pub fn sets(&self) -> Vec<String> {
+        let lanes = self.lanes.map(|n| format!("lanes.count={n}"));
+        lanes.into_iter().chain(self.set.iter().cloned()).collect()
+    }
 }
 
 /// Subcommands.
@@ -194,6 +205,17 @@ fn grid_nodes(s: &str) -> Result<usize, String> {
     match s.trim().parse::<usize>() {
         Ok(n) if (MIN_NODES..=MAX_NODES).contains(&n) => Ok(n),
         _ => Err(format!("not a grid node count. Fix: {fix}")),
+    }
+}
+
+/// `--lanes`: a whole number of lanes from 1 to [`crate::case::MAX_LANE_COUNT`].
+fn lane_count(s: &str) -> Result<u32, String> {
+    let max = crate::case::MAX_LANE_COUNT;
+    match s.trim().parse::<u32>() {
+        Ok(n) if (1..=max).contains(&n) => Ok(n),
+        _ => Err(format!(
+            "not a lane count. Fix: give a whole number from 1 to {max}, e.g. --lanes 24"
+        )),
     }
 }
 

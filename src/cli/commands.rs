@@ -62,9 +62,10 @@ pub const STDIN_NAME: &str = "<standard input>";
 /// Load the case named by `arg` (`-`: standard input, CSV paths relative to the current
 /// folder), or the demo case.
 pub fn load(arg: &CaseArg) -> Result<Case, CliError> {
+    let sets = arg.sets();
     match &arg.case {
-        Some(p) => load_path(p, &arg.set),
-        None => Ok(case::load_demo(&arg.set)?),
+        Some(p) => load_path(p, &sets),
+        None => Ok(case::load_demo(&sets)?),
     }
 }
 
@@ -293,6 +294,7 @@ pub fn whatif(arg: &CaseArg, rules: &RulesArg, out: Output) -> Result<Outcome, C
     let base = load(&CaseArg {
         case: arg.case.clone(),
         set: Vec::new(),
+        lanes: arg.lanes,
     })?;
     let variant = load(arg)?;
     let table = load_rules(rules)?;
@@ -340,6 +342,9 @@ fn diagnose_command(arg: &CaseArg) -> String {
     let mut words = vec!["rollsleuth diagnose".to_string()];
     if let Some(c) = &arg.case {
         words.push(quote(&c.display().to_string()));
+    }
+    if let Some(n) = arg.lanes {
+        words.push(format!("--lanes {n}"));
     }
     for s in &arg.set {
         words.push(format!("--set {}", quote(s)));

@@ -14,6 +14,9 @@ const EDGE_TOL_M: f64 = 0.5e-3;
 /// lanes of a few mm on a roll of a metre or more.
 const MIN_LANE_M: f64 = 1e-3;
 
+/// Most lanes `lanes.count` (and `--lanes`) may ask for.
+pub const MAX_LANE_COUNT: u32 = 400;
+
 /// A length as messages show it.
 fn show(x: f64) -> String {
     crate::units::show(x, Kind::Length, crate::units::message_system(), false)
@@ -27,13 +30,13 @@ impl Validator {
     ) -> (Option<Vec<f64>>, Option<usize>) {
         let Some(l) = l else { return (None, None) };
         let count = l.count.as_ref().and_then(|c| {
-            if (1..=400).contains(&c.value) {
+            if (1..=MAX_LANE_COUNT).contains(&c.value) {
                 Some(c.value as usize)
             } else {
                 self.push(
                     "lanes.count",
                     Some(line_of(c)),
-                    "must be between 1 and 400".into(),
+                    format!("must be between 1 and {MAX_LANE_COUNT}"),
                 );
                 None
             }

@@ -17,4 +17,5 @@ mod storage;
 mod winding;
 
 pub(super) use checks::{LineSource, Validator};
+pub use lanes::MAX_LANE_COUNT;
 pub use physical::MAX_WEB_STRAIN;
