@@ -25,9 +25,15 @@ pub struct WhatIf {
     /// Lane length at unwind over the mean lane, before and after, mm/m.
     pub excess_before_mm_per_m: Vec<f64>,
     pub excess_after_mm_per_m: Vec<f64>,
-    /// Defects the rules predict before and after.
+    /// Defects before: the measured roll's findings as `diagnose` gives them (screened against
+    /// measurement noise); after: the defects the rules give on the changed roll, but those the
+    /// measured roll's screen dropped ([`WhatIf::screened_out`]).
     pub defects_before: Vec<Defect>,
     pub defects_after: Vec<Defect>,
+    /// Defects the rules give on the measured roll that its screen drops (within measurement
+    /// noise, or holding in fewer than half of the plausible states; `diagnose` says which):
+    /// listed on neither side.
+    pub screened_out: Vec<Defect>,
     /// The changed roll's own case warnings, and the physical limits its winding or storage
     /// passed (in words in the views' `warnings`). Its wound diameters are not held against the
     /// measured roll's diameter profile: the change is what moves them.
@@ -89,6 +95,20 @@ pub fn what_if(
         d.dedup();
         d
     };
+    // the measured roll screened as `diagnose` screens it; a defect its screen drops is no
+    // finding there, and the change is not judged on it
+    let screen = DiagnoseOptions {
+        what_if: false,
+        ..*opt
+    };
+    let found: Vec<Defect> = super::diagnose_fitted(base, table, &screen, &f)?
+        .findings
+        .iter()
+        .map(|x| x.defect)
+        .collect();
+    let screened_out: Vec<Defect> = (defects(&fb).into_iter())
+        .filter(|d| !found.contains(d))
+        .collect();
     Ok(WhatIf {
         case: base.id.clone(),
         changes: changes.to_vec(),
@@ -97,8 +117,11 @@ pub fn what_if(
         position_m: la.positions(),
         excess_before_mm_per_m: fb.excess_mm_per_m.clone(),
         excess_after_mm_per_m: fa.excess_mm_per_m.clone(),
-        defects_before: defects(&fb),
-        defects_after: defects(&fa),
+        defects_before: found,
+        defects_after: (defects(&fa).into_iter())
+            .filter(|d| !screened_out.contains(d))
+            .collect(),
+        screened_out,
         case_warnings: variant.warnings.clone(),
         notes: crate::fit::limit_notes(variant, &la, &oa.wound, &oa.aged)
             .into_iter()

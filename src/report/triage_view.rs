@@ -407,8 +407,16 @@ pub fn whatif_text(w: &crate::diagnose::WhatIf, sys: System) -> Result<String, W
                 .map(|l| format!("note: as changed: {l}\n")),
         )
         .collect();
+    let screened = if w.screened_out.is_empty() {
+        String::new()
+    } else {
+        format!(
+            "Not findings on the measured roll, so not judged here (within measurement noise, or unlikely; `diagnose` says which): {}.\n",
+            defect_list(&w.screened_out)
+        )
+    };
     Ok(format!(
-        "What if, case {}: {}\nPredicted length spread at unwind: {:.2} -> {:.2} mm per m of web.\nLikely defects: {} -> {}.\n{t}\nLane length at unwind over the width-weighted mean lane; creep as fitted on the measured roll.\n{notes}{SAFETY}\n",
+        "What if, case {}: {}\nPredicted length spread at unwind: {:.2} -> {:.2} mm per m of web.\nLikely defects: {} -> {}.\n{screened}{t}\nLane length at unwind over the width-weighted mean lane; creep as fitted on the measured roll.\n{notes}{SAFETY}\n",
         w.case,
         w.changes.join(", "),
         w.spread_before_mm_per_m,
@@ -434,6 +442,7 @@ mod tests {
             excess_after_mm_per_m: vec![-0.25, 0.25],
             defects_before: vec![Defect::BaggyCenter],
             defects_after: Vec::new(),
+            screened_out: Vec::new(),
             case_warnings: Vec::new(),
             notes: Vec::new(),
             case_warnings_before: Vec::new(),
