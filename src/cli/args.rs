@@ -174,7 +174,8 @@ pub enum RulesCommand {
     },
     /// List the features a rule may test.
     Features,
-    /// Print the built-in default rule table (YAML), a starting point for your own.
+    /// Print the built-in default rule table (YAML, or JSON with --json), a starting point for
+    /// your own.
     Show,
 }
 

@@ -358,6 +358,17 @@ pub fn rules_features(out: Output) -> Result<Outcome, CliError> {
     Ok(Outcome::Ok(s))
 }
 
+/// `rules show`: the built-in table as its YAML text, or as JSON.
+pub fn rules_show(out: Output) -> Result<Outcome, CliError> {
+    let json = if out.json {
+        report::rules_view::show_json(&rules::load_default()?)
+    } else {
+        Value::Null
+    };
+    let s = out.pick(|| json, || rules::DEFAULT_RULES.to_string())?;
+    Ok(Outcome::Ok(s))
+}
+
 /// `rules lint`: a table with problems fails with all of them.
 pub fn rules_lint(file: Option<&Path>, out: Output) -> Result<Outcome, CliError> {
     let t = load_rules(&RulesArg {

@@ -76,7 +76,7 @@ pub fn run(cli: &Cli) -> Result<Outcome, CliError> {
         Command::Rules { command } => match command {
             RulesCommand::Features => commands::rules_features(out),
             RulesCommand::Lint { file } => commands::rules_lint(file.as_deref(), out),
-            RulesCommand::Show => Ok(Outcome::Ok(crate::rules::DEFAULT_RULES.to_string())),
+            RulesCommand::Show => commands::rules_show(out),
         },
         Command::Completions { shell } => {
             let mut buf = Vec::new();
