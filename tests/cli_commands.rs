@@ -63,10 +63,10 @@ fn json_field_names_carry_si_units() {
     for k in [
         "position_m",
         "moisture_pct",
-        "permanent_strain",
-        "hygro_strain",
+        "permanent_strain_m_per_m",
+        "hygro_strain_m_per_m",
         "diameter_m",
-        "hardness",
+        "hardness_hardness_units",
     ] {
         assert!(v["lanes"][0].get(k).is_some(), "age lane lacks {k}");
     }
@@ -76,13 +76,13 @@ fn json_field_names_carry_si_units() {
         "position_m",
         "params",
         "uncertainty",
-        "rmse",
+        "rmse_noise_units",
         "converged",
-        "strain_at_unwind",
+        "strain_at_unwind_m_per_m",
     ] {
         assert!(v["lanes"][0].get(k).is_some(), "fit lane lacks {k}");
     }
-    assert!(v["spread_strain"].is_number());
+    assert!(v["spread_m_per_m"].is_number());
     let (code, out, _) = run(&["diagnose", "--json"]);
     assert_eq!(code, 1, "findings exit with 1");
     let v: serde_json::Value = serde_json::from_str(&out).unwrap();

@@ -200,7 +200,7 @@ fn every_field_case_report_is_well_formed_self_contained_and_agrees_with_the_jso
                 for s in a["shares"].as_array().unwrap() {
                     let key = format!("share.{}.{}", i + 1, s["cause"].as_str().unwrap());
                     let shown = keyed(&doc, &key);
-                    match s["share"].as_f64() {
+                    match s["share_fraction"].as_f64() {
                         Some(x) => {
                             let number: f64 = shown.trim_end_matches(" %").parse().unwrap();
                             assert!((number - x * 100.0).abs() <= 0.5, "{case} {key}: {shown}");

@@ -18,7 +18,9 @@ pub struct TriageRow {
     /// `None` with no finding or when not diagnosed.
     pub top_likelihood: Option<Likelihood>,
     /// Probability of the first finding (share of the plausible states in which it holds);
-    /// `None` with no finding or when not diagnosed.
+    /// `None` with no finding or when not diagnosed. JSON `top_probability_fraction`; the
+    /// CSV keeps its column `top_probability`, which earlier CSVs a run resumes from have.
+    #[serde(rename = "top_probability_fraction")]
     pub top_probability: Option<f64>,
     /// Weight of the first finding's rule label, the last tie-break of the ranking.
     #[serde(skip)]
