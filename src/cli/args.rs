@@ -126,8 +126,9 @@ pub enum Command {
         format: TriageFormat,
         /// Continue a batch from this earlier CSV output (`--format csv`): rolls it lists
         /// without an error are skipped, rolls that failed are run again, and the whole CSV is
-        /// printed (header, the earlier rows that stand, the new rows), one row per file. Write
-        /// it to a new file, then rename that over the old one.
+        /// printed as a fresh run prints it (header, one row per file in file order, the earlier
+        /// rows that stand in their places; rows of files not named this time last). Write it
+        /// to a new file, then rename that over the old one.
         #[arg(long, value_name = "FILE")]
         resume: Option<PathBuf>,
     },
