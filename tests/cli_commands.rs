@@ -250,3 +250,21 @@ fn stress_on_a_coarse_grid_says_it_is_not_converged() {
     let (_, json, _) = run(&["stress", "--json"]);
     assert!(!json.contains("not converged"));
 }
+
+/// Temperatures print to a tenth of a degree in both unit systems (a stretch given as "6 C" was
+/// "6.000 C" and "17.00 C"): the demo's storage at 17, 6 and 24 C, and the same in F by
+/// F = 9/5 C + 32 (NIST SP 811, appendix B.8: 62.6, 42.8 and 75.2 F).
+#[test]
+fn temperatures_print_to_a_tenth_of_a_degree() {
+    let (code, si, err) = run(&["check", "--width", "200"]);
+    assert_eq!(code, 0, "{err}");
+    for t in ["17.0 C", "6.0 C", "24.0 C"] {
+        assert!(si.contains(&format!(" {t} ")), "{t}: {si}");
+    }
+    let (code, us, err) = run(&["check", "--units", "us", "--width", "200"]);
+    assert_eq!(code, 0, "{err}");
+    for t in ["62.6 F", "42.8 F", "75.2 F"] {
+        assert!(us.contains(&format!(" {t} ")), "{t}: {us}");
+    }
+    assert!(!si.contains("6.000 C") && !si.contains("17.00 C"), "{si}");
+}
