@@ -268,3 +268,36 @@ fn temperatures_print_to_a_tenth_of_a_degree() {
     }
     assert!(!si.contains("6.000 C") && !si.contains("17.00 C"), "{si}");
 }
+
+/// `--units us` reaches the notes and warnings (they said mm, um, C and g/m2 whatever the
+/// units): the demo's loose-wraps and condensation warnings and its resolution note give lengths
+/// in in or mil and temperatures in F (6 C = 42.8 F, F = 9/5 C + 32: NIST SP 811, appendix B.8);
+/// SI output and the JSON's words stay as they were.
+#[test]
+fn us_units_reach_notes_and_warnings() {
+    let (_, _, us) = run(&["diagnose", "--units", "us"]);
+    assert!(us.contains("came in at 42.8 F"), "{us}");
+    assert!(us.contains("worst at 0.5 in"), "{us}");
+    assert!(us.contains("caliper read to 0.01969 mil"), "{us}");
+    for si in [
+        " mm", " um", " C,", " C:", " C)", "g/m2", " MPa", " kPa", " m/s",
+    ] {
+        assert!(!us.contains(si), "{si} in US output: {us}");
+    }
+    let (_, _, si) = run(&["diagnose"]);
+    for s in [
+        "came in at 6.0 C",
+        "worst at 12 mm",
+        "caliper read to 0.5 um",
+        "(8 g/m2",
+    ] {
+        assert!(si.contains(s), "{s}: {si}");
+    }
+    let (_, out, _) = run(&["diagnose", "--units", "us", "--json"]);
+    let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+    let w = v["warnings"].to_string();
+    assert!(
+        w.contains("came in at 6.0 C") && w.contains("worst at 12 mm"),
+        "{w}"
+    );
+}

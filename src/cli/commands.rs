@@ -164,7 +164,8 @@ pub fn check(cases: &[PathBuf], set: &[String], out: Output) -> Result<Outcome, 
         // surveys past the storage history: the warning every run of the case will give
         let ages: Vec<f64> = c.profiles.iter().map(|p| p.age_s).collect();
         if let Some(n) = crate::storage::storage_extended(&c.storage, &ages) {
-            c.warnings.push(report::words::note(&n));
+            let sys = if out.json { System::Si } else { out.sys };
+            c.warnings.push(report::words::note_in(&n, sys));
         }
     }
     let json = if out.json {

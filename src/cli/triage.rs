@@ -60,7 +60,13 @@ pub fn triage(
     if csv {
         write_now(&std::io::stdout(), &report::triage_csv_header())?;
     }
-    let mut rows = run_rolls(&plan, &table, csv, out.quiet)?;
+    // the table's warnings in the units asked for; the CSV and the JSON in SI
+    let sys = if format == TriageFormat::Table {
+        out.sys
+    } else {
+        crate::units::System::Si
+    };
+    let mut rows = run_rolls(&plan, &table, (csv, sys), out.quiet)?;
     if csv {
         // rows of files this run does not name: kept, after this run's
         write_now(&std::io::stdout(), &earlier.others)?;
@@ -91,11 +97,11 @@ enum Roll<'a> {
 /// Diagnose the rolls to run in batches run in parallel, with a progress bar; with `csv`, each
 /// batch's rows are printed as soon as it is done, in file order with the listed rows in their
 /// places (every row up to the batch's last file), so a resumed run prints a fresh run's CSV.
-/// Returns the new rows.
+/// Returns the new rows, their warnings in `sys`.
 fn run_rolls(
     plan: &[Roll],
     table: &crate::rules::Table,
-    csv: bool,
+    (csv, sys): (bool, crate::units::System),
     quiet: bool,
 ) -> Result<Vec<TriageRow>, CliError> {
     let todo: Vec<(usize, &PathBuf)> = (plan.iter().enumerate())
@@ -116,7 +122,7 @@ fn run_rolls(
         let got: Vec<TriageRow> = batch
             .par_iter()
             .map(|(_, f)| {
-                let row = one_roll(f, table, &opt);
+                let row = one_roll(f, table, &opt, sys);
                 bar.inc(1);
                 row
             })
@@ -155,10 +161,15 @@ fn csv_lines(plan: &[Roll], rows: &[Option<TriageRow>], range: std::ops::Range<u
 }
 
 /// One roll: loaded and diagnosed, or the reason it could not be.
-fn one_roll(f: &Path, table: &crate::rules::Table, opt: &DiagnoseOptions) -> TriageRow {
+fn one_roll(
+    f: &Path,
+    table: &crate::rules::Table,
+    opt: &DiagnoseOptions,
+    sys: crate::units::System,
+) -> TriageRow {
     match case::load_file(f, &[]) {
         Ok(c) => match diagnose::diagnose(&c, table, opt) {
-            Ok(d) => TriageRow::from_diagnosis(f, &d),
+            Ok(d) => TriageRow::from_diagnosis_in(f, &d, sys),
             // a model's error does not name the file (a case's error does): every failed row's
             // message names it, in the table, the CSV and the JSON alike
             Err(e) => TriageRow::failed(f, &format!("{}: {e}", f.display())),

@@ -329,7 +329,7 @@ pub fn lanes_text(c: &Case, l: &Lanes, sys: System) -> String {
     if l.lanes.iter().any(|x| x.extrapolated) {
         let _ = writeln!(out, "* extrapolated beyond the measured positions");
     }
-    for line in super::words::note_lines(&c.warnings, &l.notes) {
+    for line in super::words::note_lines(&c.warnings, &l.notes, sys) {
         let _ = writeln!(out, "{line}");
     }
     let _ = writeln!(

@@ -77,7 +77,7 @@ pub fn text(c: &Case, lanes: &Lanes, f: &RollFit, sys: System) -> String {
         f.noise.diameter_source
     );
     let notes = f.all_notes();
-    for line in super::words::note_lines(&c.warnings, &notes) {
+    for line in super::words::note_lines(&c.warnings, &notes, sys) {
         let _ = writeln!(out, "{line}");
     }
     super::push_safety(&mut out, super::safety_for(&notes));

@@ -72,7 +72,7 @@ pub fn text(c: &Case, l: &Lanes, w: &Wound, sys: System) -> String {
         );
     }
     let limits = limits(c, l, w);
-    for line in super::words::note_lines(&c.warnings, &limits) {
+    for line in super::words::note_lines(&c.warnings, &limits, sys) {
         let _ = writeln!(out, "{line}");
     }
     super::push_safety(&mut out, super::safety_for(&limits));

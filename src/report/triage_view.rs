@@ -42,8 +42,17 @@ pub struct TriageRow {
 }
 
 impl TriageRow {
-    /// A diagnosed roll.
+    /// A diagnosed roll, its warnings in SI (as the CSV and the JSON give them).
     pub fn from_diagnosis(file: &std::path::Path, d: &crate::diagnose::Diagnosis) -> Self {
+        Self::from_diagnosis_in(file, d, System::Si)
+    }
+
+    /// A diagnosed roll, its warnings' quantities in `sys` (for the table).
+    pub fn from_diagnosis_in(
+        file: &std::path::Path,
+        d: &crate::diagnose::Diagnosis,
+        sys: System,
+    ) -> Self {
         let mut defects: Vec<Defect> = d.findings.iter().map(|f| f.defect).collect();
         defects.dedup();
         TriageRow {
@@ -63,7 +72,7 @@ impl TriageRow {
                     .count() as u32,
             ),
             error: None,
-            warnings: words::warnings(d),
+            warnings: words::warnings_in(d, sys),
             advises_action: d.advises_action,
         }
     }
@@ -368,8 +377,8 @@ pub fn whatif_text(w: &crate::diagnose::WhatIf, sys: System) -> Result<String, W
             defect_list(d)
         }
     };
-    let before = words::note_json(&w.case_warnings_before, &w.notes_before).1;
-    let (after_notes, after) = words::note_json(&w.case_warnings, &w.notes);
+    let before = words::note_text(&w.case_warnings_before, &w.notes_before, sys).1;
+    let (after_notes, after) = words::note_text(&w.case_warnings, &w.notes, sys);
     let notes: String = (tagged(&before, &after).iter())
         .map(|l| format!("warning: {l}\n"))
         .chain(
