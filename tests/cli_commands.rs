@@ -300,4 +300,12 @@ fn us_units_reach_notes_and_warnings() {
         w.contains("came in at 6.0 C") && w.contains("worst at 12 mm"),
         "{w}"
     );
+    // the case's own warnings too: a nip far above the web tension
+    let nip = ["--set", "winding.nip=40 pli"];
+    let (_, _, us) = run(&["check", "--units", "us", nip[0], nip[1]]);
+    assert!(us.contains("friction x nip (18.00 pli)"), "{us}");
+    let (_, out, _) = run(&["check", "--units", "us", "--json", nip[0], nip[1]]);
+    let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+    let w = v["cases"][0]["warnings"].to_string();
+    assert!(w.contains("friction x nip (3152 N/m)"), "{w}");
 }

@@ -48,7 +48,8 @@ pub fn run(cli: &Cli) -> Result<Outcome, CliError> {
         quiet: cli.quiet,
         verbose: cli.verbose,
     };
-    crate::units::set_message_system(out.sys);
+    // the case's messages (its warnings, its errors) in the units asked for; JSON stays SI
+    crate::units::set_message_system(if out.json { System::Si } else { out.sys });
     match &cli.command {
         Command::Template => commands::template(out),
         Command::Check { cases, set } => commands::check(cases, set, out),
