@@ -473,12 +473,22 @@ pub fn show(si: f64, kind: Kind, sys: System, fine: bool) -> String {
     } else {
         display(kind, sys, fine)
     };
-    let v = d.from_si(si);
-    let s = sig(v, 4);
+    let s = digits(d.from_si(si), kind);
     if d.label.is_empty() {
         s
     } else {
         format!("{s} {}", d.label)
+    }
+}
+
+/// A value in a display unit as `show` writes its number: four significant digits, but a
+/// temperature to a tenth of a degree (C or F are interval scales: digits counted from their
+/// arbitrary zero mean nothing, and 6 C read back from 279.15 K is not "6.000 C"); never "-0.0".
+pub fn digits(v: f64, kind: Kind) -> String {
+    if kind == Kind::Temperature {
+        format!("{:.1}", (v * 10.0).round() / 10.0 + 0.0)
+    } else {
+        sig(v, 4)
     }
 }
 

@@ -63,10 +63,10 @@ fn json_field_names_carry_si_units() {
     for k in [
         "position_m",
         "moisture_pct",
-        "permanent_strain",
-        "hygro_strain",
+        "permanent_strain_m_per_m",
+        "hygro_strain_m_per_m",
         "diameter_m",
-        "hardness",
+        "hardness_hardness_units",
     ] {
         assert!(v["lanes"][0].get(k).is_some(), "age lane lacks {k}");
     }
@@ -76,13 +76,13 @@ fn json_field_names_carry_si_units() {
         "position_m",
         "params",
         "uncertainty",
-        "rmse",
+        "rmse_noise_units",
         "converged",
-        "strain_at_unwind",
+        "strain_at_unwind_m_per_m",
     ] {
         assert!(v["lanes"][0].get(k).is_some(), "fit lane lacks {k}");
     }
-    assert!(v["spread_strain"].is_number());
+    assert!(v["spread_m_per_m"].is_number());
     let (code, out, _) = run(&["diagnose", "--json"]);
     assert_eq!(code, 1, "findings exit with 1");
     let v: serde_json::Value = serde_json::from_str(&out).unwrap();
@@ -249,4 +249,63 @@ fn stress_on_a_coarse_grid_says_it_is_not_converged() {
     );
     let (_, json, _) = run(&["stress", "--json"]);
     assert!(!json.contains("not converged"));
+}
+
+/// Temperatures print to a tenth of a degree in both unit systems (a stretch given as "6 C" was
+/// "6.000 C" and "17.00 C"): the demo's storage at 17, 6 and 24 C, and the same in F by
+/// F = 9/5 C + 32 (NIST SP 811, appendix B.8: 62.6, 42.8 and 75.2 F).
+#[test]
+fn temperatures_print_to_a_tenth_of_a_degree() {
+    let (code, si, err) = run(&["check", "--width", "200"]);
+    assert_eq!(code, 0, "{err}");
+    for t in ["17.0 C", "6.0 C", "24.0 C"] {
+        assert!(si.contains(&format!(" {t} ")), "{t}: {si}");
+    }
+    let (code, us, err) = run(&["check", "--units", "us", "--width", "200"]);
+    assert_eq!(code, 0, "{err}");
+    for t in ["62.6 F", "42.8 F", "75.2 F"] {
+        assert!(us.contains(&format!(" {t} ")), "{t}: {us}");
+    }
+    assert!(!si.contains("6.000 C") && !si.contains("17.00 C"), "{si}");
+}
+
+/// `--units us` reaches the notes and warnings (they said mm, um, C and g/m2 whatever the
+/// units): the demo's loose-wraps and condensation warnings and its resolution note give lengths
+/// in in or mil and temperatures in F (6 C = 42.8 F, F = 9/5 C + 32: NIST SP 811, appendix B.8);
+/// SI output and the JSON's words stay as they were.
+#[test]
+fn us_units_reach_notes_and_warnings() {
+    let (_, _, us) = run(&["diagnose", "--units", "us"]);
+    assert!(us.contains("came in at 42.8 F"), "{us}");
+    assert!(us.contains("worst at 0.5 in"), "{us}");
+    assert!(us.contains("caliper read to 0.01969 mil"), "{us}");
+    for si in [
+        " mm", " um", " C,", " C:", " C)", "g/m2", " MPa", " kPa", " m/s",
+    ] {
+        assert!(!us.contains(si), "{si} in US output: {us}");
+    }
+    let (_, _, si) = run(&["diagnose"]);
+    for s in [
+        "came in at 6.0 C",
+        "worst at 12 mm",
+        "caliper read to 0.5 um",
+        "(8 g/m2",
+    ] {
+        assert!(si.contains(s), "{s}: {si}");
+    }
+    let (_, out, _) = run(&["diagnose", "--units", "us", "--json"]);
+    let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+    let w = v["warnings"].to_string();
+    assert!(
+        w.contains("came in at 6.0 C") && w.contains("worst at 12 mm"),
+        "{w}"
+    );
+    // the case's own warnings too: a nip far above the web tension
+    let nip = ["--set", "winding.nip=40 pli"];
+    let (_, _, us) = run(&["check", "--units", "us", nip[0], nip[1]]);
+    assert!(us.contains("friction x nip (18.00 pli)"), "{us}");
+    let (_, out, _) = run(&["check", "--units", "us", "--json", nip[0], nip[1]]);
+    let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+    let w = v["cases"][0]["warnings"].to_string();
+    assert!(w.contains("friction x nip (3152 N/m)"), "{w}");
 }

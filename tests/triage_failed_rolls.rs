@@ -41,7 +41,7 @@ fn a_failed_roll_has_no_numbers_and_its_whole_message() {
     );
     assert!(bad["spread_mm_per_m"].is_null(), "{bad}");
     assert!(bad["top_likelihood"].is_null(), "{bad}");
-    assert!(bad["top_probability"].is_null(), "{bad}");
+    assert!(bad["top_probability_fraction"].is_null(), "{bad}");
     let error = bad["error"].as_str().unwrap();
     assert!(
         error.contains("winding.tension") && error.contains('\n'),

@@ -21,7 +21,11 @@ fn triage_top_finding_is_diagnose_s_first_graded_finding() {
         let d = json(&["diagnose", "--json", r["file"].as_str().unwrap()]);
         let first = &d["findings"][0];
         assert_eq!(r["top_likelihood"], first["likelihood"], "{r}");
-        assert_eq!(r["top_probability"], first["probability"], "{r}");
+        assert!(first["probability_fraction"].is_f64(), "{first}");
+        assert_eq!(
+            r["top_probability_fraction"], first["probability_fraction"],
+            "{r}"
+        );
         assert!(r["top_likelihood"].is_string(), "a graded word: {r}");
         // diagnose lists its findings by graded likelihood: never a medium before a high
         let grades: Vec<u8> = (d["findings"].as_array().unwrap().iter())

@@ -102,7 +102,10 @@ fn diagnose_says_up_front_that_the_model_does_not_explain_the_roll_and_exits_3()
     assert_eq!(m["verdict"], "not_explained", "{m}");
     let misfit = m["roll_misfit_noise_units"].as_f64().unwrap();
     assert!(misfit > 3.0, "{m}");
-    assert_eq!(misfit, v["confidence"]["roll_misfit"].as_f64().unwrap());
+    assert_eq!(
+        misfit,
+        v["confidence"]["roll_misfit_noise_units"].as_f64().unwrap()
+    );
     assert_eq!(m["limit_noise_units"].as_f64(), Some(3.0));
 
     let (code, out, _) = run(&["diagnose", "--quiet"]);

@@ -148,7 +148,7 @@ def main():
             d, t, ts, det = runs[n]
             c = compare(d, ref)
             c.update(N=n, seconds=t, seconds_all=ts, deterministic=det,
-                     out_nodes=len(d["radius_m"]), layers=d.get("layers"),
+                     out_nodes=len(d["radius_m"]), layers=d.get("layer_count"),
                      warnings=d["warnings"], notes=d["notes"])
             rows.append(c)
         dref = runs[N_REF][0]
@@ -156,7 +156,7 @@ def main():
             "case": " ".join([case[1]] + case[2]), "lanes": len(dref["lanes"]), "rows": rows,
             "ref": {"N": N_REF, "seconds": runs[N_REF][1], "seconds_all": runs[N_REF][2],
                     "deterministic": runs[N_REF][3], "out_nodes": len(dref["radius_m"]),
-                    "layers": dref.get("layers"), "warnings": dref["warnings"],
+                    "layers": dref.get("layer_count"), "warnings": dref["warnings"],
                     "max_abs_ref_pa": max(l[3] for l in ref.lanes),
                     "interp_check_2h": interp_self_check(ref),
                     "interp_check_2h_interior": interp_self_check(ref, True)},

@@ -57,8 +57,8 @@ class Rollsleuth:
         return {
             "e_t": m["md_modulus_pa"],
             "k1": m["stack"]["k1_pa"],
-            "k2": m["stack"]["k2"],
-            "kappa": m["poisson"] - 1.0,  # rigid core: E_t / E_c = 0
+            "k2": m["stack"]["k2_dimensionless"],
+            "kappa": m["poisson_ratio"] - 1.0,  # rigid core: E_t / E_c = 0
             "r_core": 0.5 * roll["core_diameter_m"],
             "r_outer": 0.5 * roll["diameter_m"],
             "tension": w["tension"]["tension_n_per_m"],

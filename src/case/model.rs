@@ -28,6 +28,7 @@ pub enum Stack {
         /// K1, Pa.
         k1_pa: f64,
         /// K2, dimensionless.
+        #[serde(rename = "k2_dimensionless")]
         k2: f64,
     },
     /// A constant radial modulus, Pa.
@@ -77,9 +78,11 @@ impl Stack {
 pub struct Gab {
     /// Monolayer moisture Mm, % (dry basis).
     pub monolayer_pct: f64,
-    /// Guggenheim constant C.
+    /// Guggenheim constant C, dimensionless.
+    #[serde(rename = "c_dimensionless")]
     pub c: f64,
-    /// Multilayer constant K.
+    /// Multilayer constant K, dimensionless.
+    #[serde(rename = "k_dimensionless")]
     pub k: f64,
 }
 
@@ -89,7 +92,8 @@ pub struct Gab {
 /// + t / viscous_time], where E is the elastic (instantaneous) modulus.
 #[derive(Debug, Clone, Copy, PartialEq, Serialize)]
 pub struct Burgers {
-    /// Kelvin (delayed, recoverable) compliance as a fraction of the elastic compliance.
+    /// Kelvin (delayed, recoverable) compliance over the elastic compliance.
+    #[serde(rename = "delayed_ratio")]
     pub delayed: f64,
     /// Kelvin retardation time, s.
     pub retardation_s: f64,
@@ -127,10 +131,12 @@ pub struct Material {
     /// CD modulus, Pa.
     pub cd_modulus_pa: f64,
     /// Poisson ratio in the winding model's core condition, dimensionless.
+    #[serde(rename = "poisson_ratio")]
     pub poisson: f64,
     /// Stack compression law.
     pub stack: Stack,
-    /// Web-on-web friction coefficient.
+    /// Web-on-web friction coefficient (friction force over normal force).
+    #[serde(rename = "friction_ratio")]
     pub friction: f64,
     /// MD hygroexpansion, strain per % moisture.
     pub hygro_md_per_pct: f64,
@@ -180,6 +186,7 @@ pub enum Core {
         /// Wall thickness, m.
         wall_m: f64,
         /// Poisson ratio.
+        #[serde(rename = "poisson_ratio")]
         poisson: f64,
     },
 }
@@ -206,7 +213,10 @@ pub enum Tension {
     /// Constant web tension, N/m.
     Constant { tension_n_per_m: f64 },
     /// (diameter m, tension N/m) points sorted by diameter; linear between, flat outside.
-    Taper { points: Vec<(f64, f64)> },
+    Taper {
+        #[serde(serialize_with = "taper_points")]
+        points: Vec<(f64, f64)>,
+    },
 }
 
 impl Tension {
@@ -217,6 +227,19 @@ impl Tension {
             Tension::Taper { points } => crate::interp::linear_flat(points, d_m),
         }
     }
+}
+
+/// Taper points in JSON: each with its diameter and tension named with their units.
+fn taper_points<S: serde::Serializer>(points: &[(f64, f64)], s: S) -> Result<S::Ok, S::Error> {
+    #[derive(Serialize)]
+    struct Point {
+        diameter_m: f64,
+        tension_n_per_m: f64,
+    }
+    s.collect_seq(points.iter().map(|&(d, t)| Point {
+        diameter_m: d,
+        tension_n_per_m: t,
+    }))
 }
 
 /// Winder settings.
@@ -247,8 +270,22 @@ pub enum Measure {
     Moisture,
 }
 
-/// A cross-width profile.
-#[derive(Debug, Clone, PartialEq, Serialize)]
+impl Measure {
+    /// The unit of a value of this kind as JSON field names end in it: `m`, `n_per_m`, `pct`,
+    /// or `hardness_units` (the case's hardness scale).
+    pub fn json_unit(self) -> &'static str {
+        match self {
+            Measure::Hardness => "hardness_units",
+            Measure::Diameter | Measure::Caliper => "m",
+            Measure::Tension => "n_per_m",
+            Measure::Moisture => "pct",
+        }
+    }
+}
+
+/// A cross-width profile. In JSON its values are named by their unit ([`Measure::json_unit`]):
+/// `values_m`, `values_n_per_m`, `values_pct` or `values_hardness_units`.
+#[derive(Debug, Clone, PartialEq)]
 pub struct Profile {
     pub what: Measure,
     /// Roll age at measurement, s.
@@ -256,10 +293,22 @@ pub struct Profile {
     /// Positions from the front edge, m.
     pub positions_m: Vec<f64>,
     /// Values in SI (m, N/m), moisture in %, or hardness scale units.
-    #[serde(rename = "values_si")]
     pub values: Vec<f64>,
     /// Where it came from (case file or CSV path).
     pub origin: String,
+}
+
+impl Serialize for Profile {
+    fn serialize<S: serde::Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {
+        use serde::ser::SerializeMap;
+        let mut m = s.serialize_map(Some(5))?;
+        m.serialize_entry("what", &self.what)?;
+        m.serialize_entry("age_s", &self.age_s)?;
+        m.serialize_entry("positions_m", &self.positions_m)?;
+        m.serialize_entry(&format!("values_{}", self.what.json_unit()), &self.values)?;
+        m.serialize_entry("origin", &self.origin)?;
+        m.end()
+    }
 }
 
 /// Wrap of a roll surface.
@@ -287,6 +336,7 @@ pub struct Stretch {
     /// Temperature, K.
     pub temperature_k: f64,
     /// Relative humidity, fraction 0..1.
+    #[serde(rename = "rh_fraction")]
     pub rh: f64,
     pub barrel_wrap: Wrap,
     pub end_wrap: Wrap,
@@ -295,6 +345,7 @@ pub struct Stretch {
     /// Share of the stretch one contact line of a roll stored on its side bears the weight, 0..1
     /// (1: never turned; 0.25: a quarter turn at regular intervals, four lines share the load).
     /// Not read from a case file: the `turn_rolls` correction sets it.
+    #[serde(rename = "contact_fraction")]
     pub contact_share: f64,
 }
 
@@ -322,6 +373,7 @@ impl WrapPermeance {
 pub struct Hardness {
     pub scale: String,
     /// One-sigma repeatability of a reading, scale units.
+    #[serde(rename = "repeatability_hardness_units")]
     pub repeatability: f64,
     /// Calibration, if the case gives one.
     pub calibration: Option<Calibration>,
@@ -330,7 +382,11 @@ pub struct Hardness {
 /// H = a + b ln(P / pressure_ref).
 #[derive(Debug, Clone, Copy, PartialEq, Serialize)]
 pub struct Calibration {
+    /// Scale units.
+    #[serde(rename = "a_hardness_units")]
     pub a: f64,
+    /// Scale units per e-fold of pressure.
+    #[serde(rename = "b_hardness_units")]
     pub b: f64,
     /// Reference pressure, Pa.
     pub pressure_ref_pa: f64,
@@ -346,10 +402,12 @@ pub struct LabCreep {
     /// Test temperature, K.
     pub temperature_k: f64,
     /// Test relative humidity, fraction.
+    #[serde(rename = "rh_fraction")]
     pub rh: f64,
     /// Times since loading, s.
     pub times_s: Vec<f64>,
     /// Total strains (elastic + creep), dimensionless.
+    #[serde(rename = "strains_m_per_m")]
     pub strains: Vec<f64>,
 }
 

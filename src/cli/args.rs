@@ -92,7 +92,8 @@ pub enum Command {
         /// under the surface).
         #[arg(long, default_value_t = crate::winding::DEFAULT_NODES, value_parser = grid_nodes)]
         nodes: usize,
-        /// Uniform CD levelling 0..1 on top of the shear-lag levelling (0: shear lag only; 1: equal lane tensions).
+        /// Uniform CD levelling 0..1 on top of the shear-lag levelling (0: shear lag only; 1:
+        /// equal lane tensions).
         #[arg(long, default_value_t = crate::winding::DEFAULT_LEVELLING)]
         levelling: f64,
     },
@@ -137,8 +138,9 @@ pub enum Command {
         format: TriageFormat,
         /// Continue a batch from this earlier CSV output (`--format csv`): rolls it lists
         /// without an error are skipped, rolls that failed are run again, and the whole CSV is
-        /// printed (header, the earlier rows that stand, the new rows), one row per file. Write
-        /// it to a new file, then rename that over the old one.
+        /// printed as a fresh run prints it (header, one row per file in file order, the earlier
+        /// rows that stand in their places; rows of files not named this time last). Write it
+        /// to a new file, then rename that over the old one.
         #[arg(long, value_name = "FILE")]
         resume: Option<PathBuf>,
     },
@@ -185,7 +187,8 @@ pub enum RulesCommand {
     },
     /// List the features a rule may test.
     Features,
-    /// Print the built-in default rule table (YAML), a starting point for your own.
+    /// Print the built-in default rule table (YAML, or JSON with --json), a starting point for
+    /// your own.
     Show,
 }
 

@@ -165,7 +165,8 @@ pub fn check(cases: &[PathBuf], set: &[String], out: Output) -> Result<Outcome, 
         // surveys past the storage history: the warning every run of the case will give
         let ages: Vec<f64> = c.profiles.iter().map(|p| p.age_s).collect();
         if let Some(n) = crate::storage::storage_extended(&c.storage, &ages) {
-            c.warnings.push(report::words::note(&n));
+            let sys = if out.json { System::Si } else { out.sys };
+            c.warnings.push(report::words::note_in(&n, sys));
         }
     }
     let json = if out.json {
@@ -358,6 +359,17 @@ pub fn rules_features(out: Output) -> Result<Outcome, CliError> {
         report::rules_view::features_json,
         report::rules_view::features_text,
     )?;
+    Ok(Outcome::Ok(s))
+}
+
+/// `rules show`: the built-in table as its YAML text, or as JSON.
+pub fn rules_show(out: Output) -> Result<Outcome, CliError> {
+    let json = if out.json {
+        report::rules_view::show_json(&rules::load_default()?)
+    } else {
+        Value::Null
+    };
+    let s = out.pick(|| json, || rules::DEFAULT_RULES.to_string())?;
     Ok(Outcome::Ok(s))
 }
 

@@ -67,7 +67,8 @@ pub fn run(cli: &Cli) -> Result<Outcome, CliError> {
         quiet: cli.quiet,
         verbose: cli.verbose,
     };
-    crate::units::set_message_system(out.sys);
+    // the case's messages (its warnings, its errors) in the units asked for; JSON stays SI
+    crate::units::set_message_system(if out.json { System::Si } else { out.sys });
     match &cli.command {
         Command::Template => commands::template(out),
         Command::Check { cases, set } => commands::check(cases, set, out),
@@ -95,7 +96,7 @@ pub fn run(cli: &Cli) -> Result<Outcome, CliError> {
         Command::Rules { command } => match command {
             RulesCommand::Features => commands::rules_features(out),
             RulesCommand::Lint { file } => commands::rules_lint(file.as_deref(), out),
-            RulesCommand::Show => Ok(Outcome::Ok(crate::rules::DEFAULT_RULES.to_string())),
+            RulesCommand::Show => commands::rules_show(out),
         },
         Command::Completions { shell } => {
             let mut buf = Vec::new();

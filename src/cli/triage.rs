@@ -1,5 +1,5 @@
 //! `triage`: many rolls, one row each, with a progress bar on standard error, a table, CSV or
-//! JSON, and `--resume` from a partial CSV output.
+//! JSON, and `--resume` from a partial CSV output, which prints the CSV a fresh run prints.
 
 use super::args::{RulesArg, TriageFormat};
 use super::commands::{case_files, load_rules, Output};
@@ -9,12 +9,13 @@ use crate::diagnose::{self, DiagnoseOptions};
 use crate::report::{self, TriageRow};
 use indicatif::{ProgressBar, ProgressDrawTarget, ProgressStyle};
 use rayon::prelude::*;
-use std::collections::BTreeSet;
+use std::collections::{BTreeSet, HashMap};
 use std::io::Write;
 use std::path::{Path, PathBuf};
 
-/// Rolls run in parallel per batch; CSV rows are written (in file order) after each batch, so a
-/// stopped run leaves whole rows to resume from.
+/// Rolls run in parallel per batch; CSV rows are written (in file order, with the earlier rows
+/// of a resumed run in their places) after each batch, so a stopped run leaves whole rows to
+/// resume from.
 const BATCH: usize = 16;
 
 /// `triage`: every roll diagnosed with the fast settings; a roll that fails is a row, not the
@@ -43,25 +44,34 @@ pub fn triage(
         Some(p) => earlier_rows(p, &files)?,
         None => Earlier::default(),
     };
-    let done = &earlier.done;
-    let todo: Vec<&PathBuf> = files
-        .iter()
-        .filter(|f| !done.contains(&f.display().to_string()))
+    let plan: Vec<Roll> = (files.iter())
+        .map(|f| match earlier.done.get(&f.display().to_string()) {
+            Some(line) => Roll::Listed(line),
+            None => Roll::Run(f),
+        })
         .collect();
-    if !done.is_empty() {
+    let todo = plan.iter().filter(|r| matches!(r, Roll::Run(_))).count();
+    if !earlier.done.is_empty() {
         out.detail(&format!(
-            "resuming: {} rolls already listed, {} to go",
-            files.len() - todo.len(),
-            todo.len()
+            "resuming: {} rolls already listed, {todo} to go",
+            files.len() - todo
         ));
     }
-    if format == TriageFormat::Csv {
-        // a resumed run prints the whole CSV again: the rows that stand, then the new ones
-        let stdout = std::io::stdout();
-        write_now(&stdout, &report::triage_csv_header())?;
-        write_now(&stdout, &earlier.text)?;
+    let csv = format == TriageFormat::Csv;
+    if csv {
+        write_now(&std::io::stdout(), &report::triage_csv_header())?;
     }
-    let mut rows = run_rolls(&todo, &table, format == TriageFormat::Csv, out.quiet)?;
+    // the table's warnings in the units asked for; the CSV and the JSON in SI
+    let sys = if format == TriageFormat::Table {
+        out.sys
+    } else {
+        crate::units::System::Si
+    };
+    let mut rows = run_rolls(&plan, &table, (csv, sys), out.quiet)?;
+    if csv {
+        // rows of files this run does not name: kept, after this run's
+        write_now(&std::io::stdout(), &earlier.others)?;
+    }
     rows.sort_by(|a, b| a.rank_cmp(b).then(a.file.cmp(&b.file)));
     let s = match format {
         TriageFormat::Csv => String::new(),
@@ -82,45 +92,88 @@ pub fn triage(
     })
 }
 
-/// Diagnose the rolls in batches run in parallel, with a progress bar; with `csv`, each batch's
-/// rows are printed (in file order) as soon as it is done.
+/// A file of the run: listed by the earlier CSV a run resumes from (its CSV line), or to run.
+enum Roll<'a> {
+    Listed(&'a str),
+    Run(&'a PathBuf),
+}
+
+/// Diagnose the rolls to run in batches run in parallel, with a progress bar; with `csv`, each
+/// batch's rows are printed as soon as it is done, in file order with the listed rows in their
+/// places (every row up to the batch's last file), so a resumed run prints a fresh run's CSV.
+/// Returns the new rows, their warnings in `sys`.
 fn run_rolls(
-    todo: &[&PathBuf],
+    plan: &[Roll],
     table: &crate::rules::Table,
-    csv: bool,
+    (csv, sys): (bool, crate::units::System),
     quiet: bool,
 ) -> Result<Vec<TriageRow>, CliError> {
+    let todo: Vec<(usize, &PathBuf)> = (plan.iter().enumerate())
+        .filter_map(|(i, r)| match r {
+            Roll::Run(f) => Some((i, *f)),
+            Roll::Listed(_) => None,
+        })
+        .collect();
     let bar = progress(todo.len() as u64, quiet);
     let opt = DiagnoseOptions {
         nodes: crate::winding::DEFAULT_NODES,
         what_if: false,
     };
     let stdout = std::io::stdout();
-    let mut rows = Vec::with_capacity(todo.len());
+    let mut rows: Vec<Option<TriageRow>> = plan.iter().map(|_| None).collect();
+    let mut printed = 0;
     for batch in todo.chunks(BATCH) {
         let got: Vec<TriageRow> = batch
             .par_iter()
-            .map(|f| {
-                let row = one_roll(f, table, &opt);
+            .map(|(_, f)| {
+                let row = one_roll(f, table, &opt, sys);
                 bar.inc(1);
                 row
             })
             .collect();
-        if csv {
-            let text = report::triage_csv_rows(&got);
-            bar.suspend(|| write_now(&stdout, &text))?;
+        let last = batch.last().map_or(0, |b| b.0 + 1);
+        for ((i, _), row) in batch.iter().zip(got) {
+            rows[*i] = Some(row);
         }
-        rows.extend(got);
+        if csv {
+            let text = csv_lines(plan, &rows, printed..last);
+            bar.suspend(|| write_now(&stdout, &text))?;
+            printed = last;
+        }
     }
     bar.finish_and_clear();
-    Ok(rows)
+    if csv {
+        write_now(&stdout, &csv_lines(plan, &rows, printed..plan.len()))?;
+    }
+    Ok(rows.into_iter().flatten().collect())
+}
+
+/// The CSV lines of the files `range` of the plan: a listed file's earlier line, a run file's
+/// new row.
+fn csv_lines(plan: &[Roll], rows: &[Option<TriageRow>], range: std::ops::Range<usize>) -> String {
+    let mut text = String::new();
+    for i in range {
+        match (&plan[i], &rows[i]) {
+            (Roll::Listed(line), _) => text.push_str(line),
+            (Roll::Run(_), Some(row)) => {
+                text.push_str(&report::triage_csv_rows(std::slice::from_ref(row)))
+            }
+            (Roll::Run(_), None) => {}
+        }
+    }
+    text
 }
 
 /// One roll: loaded and diagnosed, or the reason it could not be.
-fn one_roll(f: &Path, table: &crate::rules::Table, opt: &DiagnoseOptions) -> TriageRow {
+fn one_roll(
+    f: &Path,
+    table: &crate::rules::Table,
+    opt: &DiagnoseOptions,
+    sys: crate::units::System,
+) -> TriageRow {
     match case::load_file(f, &[]) {
         Ok(c) => match diagnose::diagnose(&c, table, opt) {
-            Ok(d) => TriageRow::from_diagnosis(f, &d),
+            Ok(d) => TriageRow::from_diagnosis_in(f, &d, sys),
             // a model's error does not name the file (a case's error does): every failed row's
             // message names it, in the table, the CSV and the JSON alike
             Err(e) => TriageRow::failed(f, &format!("{}: {e}", f.display())),
@@ -154,11 +207,11 @@ fn write_now(stdout: &std::io::Stdout, text: &str) -> Result<(), CliError> {
 /// What an earlier CSV output gives a resumed run.
 #[derive(Default)]
 struct Earlier {
-    /// Files with a row and no error: not run again.
-    done: BTreeSet<String>,
-    /// The earlier rows that stand, as CSV lines in the current columns: one per file (the last
-    /// whole row of a file), leaving out the failed rows of files this run diagnoses again.
-    text: String,
+    /// Files of this run with a row and no error, not run again: each file's row as a CSV line
+    /// in the current columns (the last whole row of the file).
+    done: HashMap<String, String>,
+    /// The rows of files this run does not name, as CSV lines in the order they came.
+    others: String,
     /// Whether a standing row has findings.
     findings: bool,
     /// Whether the model does not explain a standing row's roll (`model_fit` `not_explained`).
@@ -224,10 +277,11 @@ fn earlier_rows(path: &Path, files: &[PathBuf]) -> Result<Earlier, CliError> {
         col.and_then(|c| rec.get(c)).unwrap_or_default().to_string()
     };
     let mut out = Earlier::default();
-    let mut kept = Vec::new();
+    let mut others = Vec::new();
     for (file, rec) in rows {
         let ok = cell(&rec, error_col).is_empty();
-        if !ok && this_run.contains(&file) {
+        let ours = this_run.contains(&file);
+        if !ok && ours {
             continue;
         }
         let findings = !cell(&rec, defects_col).is_empty();
@@ -240,12 +294,14 @@ fn earlier_rows(path: &Path, files: &[PathBuf]) -> Result<Earlier, CliError> {
                 row[i] = report::SAFETY.to_string();
             }
         }
-        kept.push(row);
-        if ok {
-            out.done.insert(file);
+        if ours {
+            let line = report::triage_csv_records(std::slice::from_ref(&row));
+            out.done.insert(file, line);
+        } else {
+            others.push(row);
         }
     }
-    out.text = report::triage_csv_records(&kept);
+    out.others = report::triage_csv_records(&others);
     Ok(out)
 }
 

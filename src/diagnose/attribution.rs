@@ -155,6 +155,7 @@ pub struct SourceShare {
     /// How much of the quantity this source makes, in the quantity's unit.
     pub contribution: f64,
     /// Contribution over the change with every source removed (None when that change is nil).
+    #[serde(rename = "share_fraction")]
     pub share: Option<f64>,
 }
 

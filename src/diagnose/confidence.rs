@@ -85,6 +85,7 @@ pub struct LaneSpread {
     pub excess_mm_per_m_p05: f64,
     pub excess_mm_per_m_p95: f64,
     /// Root-mean-square fit residual in units of the measurement noise (1 = noise level).
+    #[serde(rename = "misfit_noise_units")]
     pub misfit: f64,
     /// Misfit at or below [`MISFIT_LIMIT`].
     pub explained: bool,
@@ -104,6 +105,7 @@ pub struct Confidence {
     pub floors: Vec<FeatureFloor>,
     pub lanes: Vec<LaneSpread>,
     /// Root-mean-square residual of every reading of the roll, noise units.
+    #[serde(rename = "roll_misfit_noise_units")]
     pub roll_misfit: f64,
     /// Rules whose finding was dropped: below the noise floor, resting on profiles within noise,
     /// or holding in fewer than half of the states.

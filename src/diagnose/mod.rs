@@ -116,7 +116,10 @@ pub struct Finding {
     /// Share of the plausible states (posterior draws) in which the defect holds: the rule's
     /// conditions, or those of another rule that finds the same defect by the same deciding
     /// condition and names another mechanism.
+    #[serde(rename = "probability_fraction")]
     pub probability: f64,
+    /// The weight of the rule's likelihood label, 0..1 ([`Likelihood::weight`]).
+    #[serde(rename = "weight_fraction")]
     pub weight: f64,
     pub mechanism: String,
     pub evidence: Vec<Evidence>,
@@ -165,11 +168,17 @@ pub struct Agreement {
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct LaneResult {
     pub position_m: f64,
+    /// Lane caliper over the mean caliper, less 1.
+    #[serde(rename = "caliper_deviation_fraction")]
     pub caliper_deviation: f64,
+    /// Stress-free MD strain at unwind (outer third of the web).
+    #[serde(rename = "strain_at_unwind_m_per_m")]
     pub strain_at_unwind: f64,
     pub excess_mm_per_m: f64,
     pub md_creep_scale: f64,
     pub radial_creep_scale: f64,
+    /// Root-mean-square fit residual in units of the measurement noise.
+    #[serde(rename = "fit_rmse_noise_units")]
     pub fit_rmse: f64,
     /// Whether a profile had to be extrapolated to this lane.
     pub extrapolated: bool,

@@ -74,7 +74,8 @@ impl Field {
     /// The unit-variance score of lane `i` between edges `e` (m) in realisation `z`: the
     /// readings' scores with the weights that make the lane's data ([`crate::lanes::build`]),
     /// over the root of their sum of squares. A lane holding readings takes their mean (one
-    /// reading: that reading); any other its centre's interpolation ([`crate::interp::linear_extrap`]: the two
+    /// reading: that reading); any other its centre's interpolation
+    /// ([`crate::interp::linear_extrap`]: the two
     /// readings of the segment the centre lies in, and beyond the ends the end segment's, so an
     /// end lane shares both end readings with its neighbour).
     pub fn score(&self, z: &[f64], e: &[f64], i: usize) -> f64 {

@@ -406,8 +406,11 @@ pub struct Residual {
 pub struct FittedParams {
     pub md_creep_scale: f64,
     pub radial_creep_scale: f64,
+    /// Kelvin compliance over the elastic compliance, MD and radial.
+    #[serde(rename = "md_delayed_ratio")]
     pub md_delayed: f64,
     pub md_viscous_time_s: f64,
+    #[serde(rename = "radial_delayed_ratio")]
     pub radial_delayed: f64,
     pub radial_viscous_time_s: f64,
 }

@@ -131,6 +131,8 @@ pub(crate) fn limit_notes(
 /// Measurement noise used in the fit.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct Noise {
+    /// One-sigma repeatability of a hardness reading, scale units.
+    #[serde(rename = "hardness_hardness_units")]
     pub hardness: f64,
     pub hardness_source: String,
     pub diameter_m: f64,

@@ -70,7 +70,7 @@ pub fn text(c: &Case, lanes: &Lanes, a: &Aged, sys: System) -> String {
         out,
         "Strain at unwind is the stress-free MD strain a lane keeps (permanent + delayed creep + hygroexpansion); a lane longer than the mean by more than about 0.5 mm/m runs visibly slack on light webs (common practice)."
     );
-    for line in super::words::note_lines(&c.warnings, &a.notes) {
+    for line in super::words::note_lines(&c.warnings, &a.notes, sys) {
         let _ = writeln!(out, "{line}");
     }
     super::push_safety(&mut out, super::safety_for(&a.notes));

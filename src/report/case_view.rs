@@ -329,7 +329,7 @@ pub fn lanes_text(c: &Case, l: &Lanes, sys: System) -> String {
     if l.lanes.iter().any(|x| x.extrapolated) {
         let _ = writeln!(out, "* extrapolated beyond the measured positions");
     }
-    for line in super::words::note_lines(&c.warnings, &l.notes) {
+    for line in super::words::note_lines(&c.warnings, &l.notes, sys) {
         let _ = writeln!(out, "{line}");
     }
     let _ = writeln!(
@@ -353,10 +353,10 @@ pub fn lanes_json(c: &Case, l: &Lanes) -> Value {
             "right_m": x.right_m,
             "width_m": x.width_m,
             "caliper_m": x.caliper_m,
-            "caliper_deviation": x.caliper_deviation,
+            "caliper_deviation_fraction": x.caliper_deviation,
             "diameter_deviation_m": x.diameter_deviation_m,
-            "hardness_deviation": x.hardness_deviation,
-            "strain": x.wound_strain_difference,
+            "hardness_deviation_hardness_units": x.hardness_deviation,
+            "strain_m_per_m": x.wound_strain_difference,
             "extrapolated": x.extrapolated,
         })).collect::<Vec<_>>(),
         "notes": notes,

@@ -118,10 +118,10 @@ pub fn text(d: &Diagnosis, sys: System) -> String {
         );
     }
     out.push_str(&lanes_table(d, sys));
-    for w in words::warnings(d) {
+    for w in words::warnings_in(d, sys) {
         let _ = writeln!(out, "warning: {w}");
     }
-    for n in words::notes(d) {
+    for n in words::notes_in(d, sys) {
         let _ = writeln!(out, "note: {n}");
     }
     super::push_safety(&mut out, d.advises_action.then_some(SAFETY));

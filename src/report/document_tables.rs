@@ -321,12 +321,12 @@ fn defaults(c: &Case, v: &mut Vec<Block>) {
 /// note.
 pub fn provenance(r: &ReportData, v: &mut Vec<Block>) {
     let d = r.diagnosis;
-    let mut notes: Vec<Vec<Span>> = super::words::notes(d)
+    let mut notes: Vec<Vec<Span>> = super::words::notes_in(d, r.sys)
         .into_iter()
         .map(|n| vec![t(n)])
         .collect();
     notes.extend(
-        super::words::warnings(d)
+        super::words::warnings_in(d, r.sys)
             .into_iter()
             .map(|w| vec![b("warning: "), t(w)]),
     );

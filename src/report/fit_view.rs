@@ -81,7 +81,7 @@ pub fn text(c: &Case, lanes: &Lanes, f: &RollFit, sys: System) -> String {
         f.noise.diameter_source
     );
     let notes = f.all_notes();
-    for line in super::words::note_lines(&c.warnings, &notes) {
+    for line in super::words::note_lines(&c.warnings, &notes, sys) {
         let _ = writeln!(out, "{line}");
     }
     super::push_safety(&mut out, super::safety_for(&notes));
@@ -124,6 +124,35 @@ fn worst_residuals(f: &RollFit, sys: System) -> Option<comfy_table::Table> {
     Some(r)
 }
 
+/// A residual in JSON: the measured and predicted values named with their unit (hardness units,
+/// or m of diameter change), the residual in noise units.
+fn residual_json(x: &crate::fit::Residual) -> Value {
+    let u = x.what.json_unit();
+    let mut m = serde_json::Map::new();
+    m.insert("what".into(), json!(x.what));
+    m.insert("age_s".into(), json!(x.age_s));
+    m.insert(format!("measured_{u}"), json!(x.measured));
+    m.insert(format!("predicted_{u}"), json!(x.predicted));
+    m.insert(format!("predicted_{u}_p05"), json!(x.predicted_p05));
+    m.insert(format!("predicted_{u}_p95"), json!(x.predicted_p95));
+    m.insert("normalised_noise_units".into(), json!(x.normalised));
+    Value::Object(m)
+}
+
+/// A contradiction in JSON, its values named with their unit (hardness units, or m).
+fn contradiction_json(k: &crate::fit::contradict::Contradiction) -> Value {
+    let u = k.what.json_unit();
+    let mut m = serde_json::Map::new();
+    m.insert("what".into(), json!(super::words::measure(k.what)));
+    m.insert("age_s".into(), json!(k.age_s));
+    m.insert("position_m".into(), json!(k.position_m));
+    m.insert("unit".into(), json!(u));
+    m.insert(format!("predicted_change_vs_roll_{u}"), json!(k.predicted));
+    m.insert(format!("measured_change_vs_roll_{u}"), json!(k.measured));
+    m.insert(format!("noise_sd_{u}"), json!(k.sigma));
+    Value::Object(m)
+}
+
 /// JSON of the fit; `safety` when a warning advises action.
 pub fn json(c: &Case, f: &RollFit) -> Value {
     let all = f.all_notes();
@@ -136,12 +165,12 @@ pub fn json(c: &Case, f: &RollFit) -> Value {
             "uncertainty": l.uncertainty,
             "md_identifiable": l.md_identifiable,
             "radial_identifiable": l.radial_identifiable,
-            "rmse": l.rmse,
+            "rmse_noise_units": l.rmse,
             "converged": l.converged,
             "iterations": l.iterations,
             "evaluations": l.evaluations,
-            "residuals": l.residuals,
-            "strain_at_unwind": f.strain_at_unwind[i],
+            "residuals": l.residuals.iter().map(residual_json).collect::<Vec<_>>(),
+            "strain_at_unwind_m_per_m": f.strain_at_unwind[i],
         })).collect::<Vec<_>>(),
         "pooled_md_creep_scale": f.pooled_md_creep_scale,
         "pooled_radial_creep_scale": f.pooled_radial_creep_scale,
@@ -149,26 +178,11 @@ pub fn json(c: &Case, f: &RollFit) -> Value {
         "pooled_md_creep_scale_high": f.pooled_md_creep_scale_high,
         "pooled_radial_creep_scale_low": f.pooled_radial_creep_scale_low,
         "pooled_radial_creep_scale_high": f.pooled_radial_creep_scale_high,
-        "spread_strain": f.spread_strain,
+        "spread_m_per_m": f.spread_strain,
         "spread_mm_per_m": f.spread_mm_per_m,
         "prior_sd_ln": f.prior_sd_ln,
         "noise": f.noise,
-        "contradictions": f.contradictions.iter().map(|k| json!({
-            "what": super::words::measure(k.what),
-            "age_s": k.age_s,
-            "position_m": k.position_m,
-            // hardness in scale units, diameter in m
-            "unit": match k.what {
-                crate::case::Measure::Hardness => "hardness_units",
-                crate::case::Measure::Diameter
-                | crate::case::Measure::Caliper
-                | crate::case::Measure::Tension
-                | crate::case::Measure::Moisture => "m",
-            },
-            "predicted_change_vs_roll": k.predicted,
-            "measured_change_vs_roll": k.measured,
-            "noise_sd": k.sigma,
-        })).collect::<Vec<_>>(),
+        "contradictions": f.contradictions.iter().map(contradiction_json).collect::<Vec<_>>(),
         "evaluations": f.evaluations,
         "model_fit": crate::fit::model_fit(f),
         "notes": notes,

@@ -17,6 +17,7 @@ pub mod files;
 pub mod fit_view;
 pub mod fit_words;
 pub mod html;
+mod limit_words;
 pub mod markdown;
 mod marks;
 mod note_words;
@@ -104,6 +105,15 @@ pub fn pos(si: f64, sys: System) -> String {
     match sys {
         System::Si => format!("{:.0} mm", si * 1e3),
         System::Us => format!("{:.1} in", si / units::INCH_M),
+    }
+}
+
+/// A quantity in a note or warning: `si`, its SI wording as the notes have always given it, or in
+/// US units the value as [`units::show`] writes it (so the SI text stays as it was).
+pub fn said(sys: System, si: String, value_si: f64, kind: Kind, fine: bool) -> String {
+    match sys {
+        System::Si => si,
+        System::Us => units::show(value_si, kind, sys, fine),
     }
 }
 

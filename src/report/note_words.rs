@@ -1,9 +1,11 @@
 //! Words for the notes the confidence stage and the winding-time diameter check give (split from
 //! `words` to keep each file short). Every `match` is exhaustive.
 
-use super::words::{defect, feature, SO};
+use super::limit_words::SO;
+use super::words::{defect, feature};
+use super::{pos, said};
 use crate::note::{DiameterMismatch, Note};
-use crate::units::DAY_S;
+use crate::units::{Kind, System, DAY_S};
 
 fn defect_name(d: crate::vocab::Defect) -> &'static str {
     defect(d)
@@ -69,7 +71,7 @@ fn kept_words(n: usize, (a, b): (f64, f64)) -> String {
 }
 
 /// A note of the diagnosis's confidence (noise floor, resolution, misfit) as a sentence.
-pub(super) fn confidence_note(n: &Note) -> String {
+pub(super) fn confidence_note(n: &Note, sys: System) -> String {
     match *n {
         Note::BelowNoiseFloor {
             defect,
@@ -110,16 +112,16 @@ pub(super) fn confidence_note(n: &Note) -> String {
             crate::units::sig(profile_chance * 100.0, 2),
             crate::units::sig(level * 100.0, 2)
         ),
-        Note::OnCaliperCrown { .. } => crown_note(n),
+        Note::OnCaliperCrown { .. } => crown_note(n, sys),
         Note::Unlikely { defect, probability } => format!(
             "{} not reported: its rule holds in only {:.0} % of the plausible states (posterior draws)",
             defect_name(defect),
             probability * 100.0
         ),
-        Note::Resolution { .. } => resolution_note(n),
+        Note::Resolution { .. } => resolution_note(n, sys),
         Note::LaneNotExplained { position_m, misfit } => format!(
-            "the lane at {:.0} mm is not explained by the model: its readings miss the fit by {misfit:.1} noise units (rms; over 3)",
-            position_m * 1e3
+            "the lane at {} is not explained by the model: its readings miss the fit by {misfit:.1} noise units (rms; over 3)",
+            pos(position_m, sys)
         ),
         Note::RollNotExplained { misfit } => format!(
             "the roll is not explained by the model: its readings miss the fit by {misfit:.1} noise units (rms over every reading; over 3)"
@@ -138,7 +140,7 @@ pub(super) fn confidence_note(n: &Note) -> String {
 }
 
 /// What the measurements resolve ([`Note::Resolution`]) as a sentence.
-fn resolution_note(n: &Note) -> String {
+fn resolution_note(n: &Note, sys: System) -> String {
     let Note::Resolution {
         caliper_repeatability_m,
         band_m,
@@ -149,13 +151,14 @@ fn resolution_note(n: &Note) -> String {
     else {
         return String::new();
     };
+    let um = |x: f64| said(sys, format!("{:.1} um", x * 1e6), x, Kind::Length, true);
     format!(
-        "resolution of these measurements (caliper read to {:.1} um, one sigma): a caliper band must exceed {:.1} um{}, a lane's excess length over the web around it {:.3} % and centre against edges {:.3} % of the web length to stand above noise (a {} % chance, shared over the one-sided tests, that noise alone does it)",
-        caliper_repeatability_m * 1e6,
-        band_m * 1e6,
+        "resolution of these measurements (caliper read to {}, one sigma): a caliper band must exceed {}{}, a lane's excess length over the web around it {:.3} % and centre against edges {:.3} % of the web length to stand above noise (a {} % chance, shared over the one-sided tests, that noise alone does it)",
+        um(caliper_repeatability_m),
+        um(band_m),
         crown_m.map_or(String::new(), |c| format!(
-            ", a crown of the caliper profile (centre against the outermost readings) {:.1} um",
-            c * 1e6
+            ", a crown of the caliper profile (centre against the outermost readings) {}",
+            um(c)
         )),
         lane_excess_mm_per_m / 10.0,
         centre_edges_mm_per_m / 10.0,
@@ -164,7 +167,7 @@ fn resolution_note(n: &Note) -> String {
 }
 
 /// Lanes coarser than the caliper readings ([`Note::LanesCoarse`]) as a sentence.
-pub(super) fn lanes_coarse(n: &Note) -> String {
+pub(super) fn lanes_coarse(n: &Note, sys: System) -> String {
     let Note::LanesCoarse {
         lane_m,
         spacing_m,
@@ -174,14 +177,14 @@ pub(super) fn lanes_coarse(n: &Note) -> String {
         return String::new();
     };
     format!(
-        "lanes up to {:.0} mm wide are wider than the caliper readings' spacing ({:.0} mm): a lane takes the mean of the readings it holds, or the profile at its centre where it holds one, so a band narrower than a lane is averaged over it or falls between lane centres, weakened or missed; state lanes no wider than the spacing (lanes.count = {enough} or more) to resolve it",
-        lane_m * 1e3,
-        spacing_m * 1e3
+        "lanes up to {} wide are wider than the caliper readings' spacing ({}): a lane takes the mean of the readings it holds, or the profile at its centre where it holds one, so a band narrower than a lane is averaged over it or falls between lane centres, weakened or missed; state lanes no wider than the spacing (lanes.count = {enough} or more) to resolve it",
+        pos(lane_m, sys),
+        pos(spacing_m, sys)
     )
 }
 
 /// A finding standing on the caliper crown ([`Note::OnCaliperCrown`]) as a sentence.
-fn crown_note(n: &Note) -> String {
+fn crown_note(n: &Note, sys: System) -> String {
     let Note::OnCaliperCrown {
         defect,
         crown_m,
@@ -197,14 +200,20 @@ fn crown_note(n: &Note) -> String {
         return String::new();
     };
     format!(
-        "{} stands on the caliper profile's crown: the readings' parabola{} is {} um {} at the centre than at the outermost readings ({:.1} times their repeatability; noise alone crowns level readings this far with a chance of {} %, a finding needs {} % or less), and the crown alone, with every lane's creep made the lanes' mean, gives {} {} ({} once what storage makes of a level roll is taken out), which still fires the rule",
+        "{} stands on the caliper profile's crown: the readings' parabola{} is {} {} at the centre than at the outermost readings ({:.1} times their repeatability; noise alone crowns level readings this far with a chance of {} %, a finding needs {} % or less), and the crown alone, with every lane's creep made the lanes' mean, gives {} {} ({} once what storage makes of a level roll is taken out), which still fires the rule",
         defect_name(defect),
         match left_out {
             0 => String::new(),
             1 => " (one reading of a band left out)".into(),
             k => format!(" ({k} readings of a band left out)"),
         },
-        crate::units::sig(crown_m.abs() * 1e6, 2),
+        said(
+            sys,
+            format!("{} um", crate::units::sig(crown_m.abs() * 1e6, 2)),
+            crown_m.abs(),
+            Kind::Length,
+            true
+        ),
         if crown_m >= 0.0 { "higher" } else { "lower" },
         sigmas.abs(),
         crate::units::sig(noise_chance * 100.0, 2),
@@ -216,20 +225,26 @@ fn crown_note(n: &Note) -> String {
 }
 
 /// The wound state against the diameter profile at winding ([`Note::WindingDiameter`]).
-pub(super) fn winding_diameter(m: &DiameterMismatch) -> String {
+pub(super) fn winding_diameter(m: &DiameterMismatch, sys: System) -> String {
+    let mm = |x: f64, sign: bool| match sys {
+        System::Si if sign => format!("{:+.2} mm", x * 1e3),
+        System::Si => format!("{:.2} mm", x * 1e3),
+        System::Us if sign => crate::units::signed(x, Kind::Length, sys, false, 3),
+        System::Us => crate::units::show(x, Kind::Length, sys, false),
+    };
     format!(
-        "the wound state disagrees with the diameter profile at {:.0} d: at {:.0} mm the predicted diameter is {:+.2} mm from the mean, the measured {:+.2} mm (tolerance {:.2} mm, three times the repeatability of the difference; {} lanes beyond it); check the caliper profile, the lanes and the winder settings before trusting the findings (profiles, winding)",
+        "the wound state disagrees with the diameter profile at {:.0} d: at {} the predicted diameter is {} from the mean, the measured {} (tolerance {}, three times the repeatability of the difference; {} lanes beyond it); check the caliper profile, the lanes and the winder settings before trusting the findings (profiles, winding)",
         m.age_s / DAY_S,
-        m.position_m * 1e3,
-        m.predicted_m * 1e3,
-        m.measured_m * 1e3,
-        m.tolerance_m * 1e3,
+        pos(m.position_m, sys),
+        mm(m.predicted_m, true),
+        mm(m.measured_m, true),
+        mm(m.tolerance_m, false),
         m.lanes
     )
 }
 
 /// A later survey against the model with pooled creep ([`Note::SurveyContradicts`]).
-pub(super) fn survey_contradicts(n: &Note) -> String {
+pub(super) fn survey_contradicts(n: &Note, sys: System) -> String {
     let Note::SurveyContradicts {
         what,
         age_s,
@@ -242,30 +257,46 @@ pub(super) fn survey_contradicts(n: &Note) -> String {
     else {
         return String::new();
     };
-    let (scale, unit, more, less) = match what {
-        crate::case::Measure::Hardness => (1.0, " units", "harder", "softer"),
-        crate::case::Measure::Diameter
-        | crate::case::Measure::Caliper
-        | crate::case::Measure::Tension
-        | crate::case::Measure::Moisture => (1e3, " mm", "larger", "smaller"),
+    let hardness = what == crate::case::Measure::Hardness;
+    let (more, less) = if hardness {
+        ("harder", "softer")
+    } else {
+        ("larger", "smaller")
+    };
+    // hardness in its scale's units; a diameter in mm (in, US)
+    let by = |v: f64| match (hardness, sys) {
+        (true, _) => format!("{v:.2} units"),
+        (false, System::Si) => format!("{:.2} mm", v * 1e3),
+        (false, System::Us) => crate::units::show(v, Kind::Length, sys, false),
     };
     let side = |v: f64| if v > 0.0 { more } else { less };
     format!(
-        "the {} survey at {:.0} d contradicts the model at {lanes} lane(s): at {:.0} mm the model (pooled creep) has the lane's change since the first survey {} than the roll's by {:.2}{unit}, the survey {} by {:.2}{unit} (noise {:.2}{unit}, one sigma); the per-lane fit absorbs it with that lane's own creep, so findings on those lanes rest on creep the model does not explain: check those readings, and whether something outside the model acted there (a wet or damaged zone, a reading taken elsewhere)",
+        "the {} survey at {:.0} d contradicts the model at {lanes} lane(s): at {} the model (pooled creep) has the lane's change since the first survey {} than the roll's by {}, the survey {} by {} (noise {}, one sigma); the per-lane fit absorbs it with that lane's own creep, so findings on those lanes rest on creep the model does not explain: check those readings, and whether something outside the model acted there (a wet or damaged zone, a reading taken elsewhere)",
         super::words::measure(what),
         age_s / DAY_S,
-        position_m * 1e3,
+        pos(position_m, sys),
         side(predicted),
-        predicted.abs() * scale,
+        by(predicted.abs()),
         side(measured),
-        measured.abs() * scale,
-        sigma * scale,
+        by(measured.abs()),
+        by(sigma),
     )
 }
 
 /// The out-of-round and air limits as sentences (the other limits: [`limit`]).
-pub(super) fn unwind_limit(l: &crate::note::Limit) -> String {
+pub(super) fn unwind_limit(l: &crate::note::Limit, sys: System) -> String {
     use crate::note::Limit;
+    let mpa = |p: f64, d: usize| {
+        said(
+            sys,
+            format!("{:.d$} MPa", p / 1e6),
+            p,
+            Kind::Pressure,
+            false,
+        )
+    };
+    let mm = |x: f64| said(sys, format!("{:.0} mm", x * 1e3), x, Kind::Length, false);
+    let um = |x: f64| said(sys, format!("{:.1} um", x * 1e6), x, Kind::Length, true);
     match *l {
         Limit::FlatContact {
             half_width_m,
@@ -273,28 +304,28 @@ pub(super) fn unwind_limit(l: &crate::note::Limit) -> String {
             peak_pressure_pa,
             crush_pa,
         } => format!(
-            "stored on its side, the roll's floor contact is {:.0} mm half-width on a {:.0} mm radius with a peak pressure of {:.2} MPa (crush limit {:.2} MPa): the Hertz line contact behind the out-of-round estimate holds for a narrow contact below the crush limit; treat the flat as a rough bound",
-            half_width_m * 1e3,
-            radius_m * 1e3,
-            peak_pressure_pa / 1e6,
-            crush_pa / 1e6
+            "stored on its side, the roll's floor contact is {} half-width on a {} radius with a peak pressure of {} (crush limit {}): the Hertz line contact behind the out-of-round estimate holds for a narrow contact below the crush limit; treat the flat as a rough bound",
+            mm(half_width_m),
+            mm(radius_m),
+            mpa(peak_pressure_pa, 2),
+            mpa(crush_pa, 2)
         ),
         Limit::UnwindTension {
             stress_pa,
             strength_pa,
         } => format!(
-            "the converting tension stresses the web to {:.1} MPa at unwind, {:.2} times its MD tensile strength ({:.1} MPa): the web breaks as it is pulled off the roll; check converting.tension and material.strength.md_tensile",
-            stress_pa / 1e6,
+            "the converting tension stresses the web to {} at unwind, {:.2} times its MD tensile strength ({}): the web breaks as it is pulled off the roll; check converting.tension and material.strength.md_tensile",
+            mpa(stress_pa, 1),
             stress_pa / strength_pa,
-            strength_pa / 1e6
+            mpa(strength_pa, 1)
         ),
         Limit::AirFloats {
             film_m,
             roughness_m,
         } => format!(
-            "the air film entrained at full diameter ({}) exceeds the faces' combined roughness ({:.1} um) by enough to take away all the wound-in tension: the outer wraps float on air and the model holds their wound-in tension at zero; {SO}",
-            film_words(film_m),
-            roughness_m * 1e6
+            "the air film entrained at full diameter ({}) exceeds the faces' combined roughness ({}) by enough to take away all the wound-in tension: the outer wraps float on air and the model holds their wound-in tension at zero; {SO}",
+            film_words(film_m, sys),
+            um(roughness_m)
         ),
         Limit::CorePressure {
             from_m,
@@ -310,28 +341,7 @@ pub(super) fn unwind_limit(l: &crate::note::Limit) -> String {
             pressure_pa / limit_pa,
             crate::units::sig(limit_pa / 1e6, 4)
         ),
-        other => super::words::limit(&other),
-    }
-}
-
-/// The predicted-hardness limits as sentences (the other limits: [`limit`]).
-pub(super) fn hardness_limit(l: &crate::note::Limit) -> String {
-    use crate::note::Limit;
-    match *l {
-        Limit::HardnessBelowScale {
-            lanes,
-            position_m,
-            hardness,
-        } => format!(
-            "{}: the predicted hardness falls to {hardness:.1}, below the bottom of any hardness scale: the surface zone has almost no interlayer pressure, where the map H = a + b ln P no longer holds, so hardness readings there cannot test the model (hardness.calibration)",
-            super::words::at(lanes, position_m)
-        ),
-        Limit::HardnessNotFinite { lanes, position_m } => format!(
-            "{}: the predicted hardness is not a finite number; {} (hardness.calibration)",
-            super::words::at(lanes, position_m),
-            super::words::SO
-        ),
-        _ => super::words::limit(l),
+        other => super::limit_words::limit(&other, sys),
     }
 }
 
@@ -385,14 +395,21 @@ const FILM_READ_M: f64 = 1e-3;
 
 /// An entrained air film in words: micrometres, or past [`FILM_READ_M`] that the formula is
 /// outside its range.
-fn film_words(film_m: f64) -> String {
+fn film_words(film_m: f64, sys: System) -> String {
     if film_m > FILM_READ_M || !film_m.is_finite() {
+        let f = FILM_READ_M;
         format!(
-            "over {:.0} um, where the thin-film formula no longer holds: the web barely touches the roll",
-            FILM_READ_M * 1e6
+            "over {}, where the thin-film formula no longer holds: the web barely touches the roll",
+            said(sys, format!("{:.0} um", f * 1e6), f, Kind::Length, true)
         )
     } else {
-        format!("{:.1} um", film_m * 1e6)
+        said(
+            sys,
+            format!("{:.1} um", film_m * 1e6),
+            film_m,
+            Kind::Length,
+            true,
+        )
     }
 }
 

@@ -1,5 +1,5 @@
-//! `rules features` and `rules lint` output: the features a rule may test, and a table that
-//! passed lint.
+//! `rules features`, `rules lint` and `rules show --json` output: the features a rule may test,
+//! a table that passed lint, and a table as JSON.
 
 use super::table;
 use crate::rules::Table;
@@ -40,4 +40,23 @@ pub fn lint_text(t: &Table) -> String {
 /// A table that passed lint, as JSON.
 pub fn lint_json(t: &Table) -> Value {
     json!({ "file": t.source, "ok": true, "rules": t.rules.len() })
+}
+
+/// A rule table as JSON: each rule with its id, defect, likelihood, mechanism, conditions and
+/// corrections, in table order. A condition's `above` and `below` are in the unit its feature's
+/// word carries (`peak_width_mm`: mm); a correction's `factor` multiplies the present setting.
+pub fn show_json(t: &Table) -> Value {
+    let rules: Vec<Value> = (t.rules.iter())
+        .map(|r| {
+            json!({
+                "id": r.id,
+                "defect": r.defect,
+                "likelihood": r.likelihood,
+                "mechanism": r.mechanism,
+                "when": r.when,
+                "corrections": r.corrections,
+            })
+        })
+        .collect();
+    json!({ "format": 1, "table": t.source, "rules": rules })
 }

@@ -72,7 +72,7 @@ pub fn text(c: &Case, l: &Lanes, w: &Wound, sys: System) -> String {
         );
     }
     let limits = limits(c, l, w);
-    for line in super::words::note_lines(&c.warnings, &limits) {
+    for line in super::words::note_lines(&c.warnings, &limits, sys) {
         let _ = writeln!(out, "{line}");
     }
     super::push_safety(&mut out, super::safety_for(&limits));
@@ -126,12 +126,12 @@ pub fn json(c: &Case, l: &Lanes, w: &Wound) -> Value {
     json!({
         "case": c.id,
         "radius_m": w.radius_m,
-        "layers": w.layers,
+        "layer_count": w.layers,
         "layers_per_node": w.layers_per_node,
         "grid_nodes": w.grid_nodes,
-        "stack_compression": w.stack_compression,
+        "stack_compression_m_per_m": w.stack_compression,
         "layer_thickness_m": w.layer_thickness_m,
-        "levelling": w.levelling,
+        "levelling_fraction": w.levelling,
         "shear_lag_m": w.shear_lag_m,
         "core_stiffness_pa": w.core_stiffness_pa,
         "lift_off_speed_m_s": w.lift_off_speed_m_s,

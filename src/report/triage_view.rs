@@ -19,7 +19,9 @@ pub struct TriageRow {
     /// `None` with no finding or when not diagnosed.
     pub top_likelihood: Option<Likelihood>,
     /// Probability of the first finding (share of the plausible states in which it holds);
-    /// `None` with no finding or when not diagnosed.
+    /// `None` with no finding or when not diagnosed. JSON `top_probability_fraction`; the
+    /// CSV keeps its column `top_probability`, which earlier CSVs a run resumes from have.
+    #[serde(rename = "top_probability_fraction")]
     pub top_probability: Option<f64>,
     /// Weight of the first finding's rule label, the last tie-break of the ranking.
     #[serde(skip)]
@@ -44,8 +46,17 @@ pub struct TriageRow {
 }
 
 impl TriageRow {
-    /// A diagnosed roll.
+    /// A diagnosed roll, its warnings in SI (as the CSV and the JSON give them).
     pub fn from_diagnosis(file: &std::path::Path, d: &crate::diagnose::Diagnosis) -> Self {
+        Self::from_diagnosis_in(file, d, System::Si)
+    }
+
+    /// A diagnosed roll, its warnings' quantities in `sys` (for the table).
+    pub fn from_diagnosis_in(
+        file: &std::path::Path,
+        d: &crate::diagnose::Diagnosis,
+        sys: System,
+    ) -> Self {
         let mut defects: Vec<Defect> = d.findings.iter().map(|f| f.defect).collect();
         defects.dedup();
         TriageRow {
@@ -66,7 +77,7 @@ impl TriageRow {
             ),
             model_fit: Some(d.confidence.model_fit()),
             error: None,
-            warnings: words::warnings(d),
+            warnings: words::warnings_in(d, sys),
             advises_action: d.advises_action,
         }
     }
@@ -397,8 +408,8 @@ pub fn whatif_text(w: &crate::diagnose::WhatIf, sys: System) -> Result<String, W
             defect_list(d)
         }
     };
-    let before = words::note_json(&w.case_warnings_before, &w.notes_before).1;
-    let (after_notes, after) = words::note_json(&w.case_warnings, &w.notes);
+    let before = words::note_text(&w.case_warnings_before, &w.notes_before, sys).1;
+    let (after_notes, after) = words::note_text(&w.case_warnings, &w.notes, sys);
     let notes: String = (tagged(&before, &after).iter())
         .map(|l| format!("warning: {l}\n"))
         .chain(

@@ -164,9 +164,14 @@ pub fn improves(i: Option<bool>) -> &'static str {
 pub const SHARES_METHOD: &str = "each source's share is its Shapley value (Shapley 1953) over every subset of source removals, on the finding's own quantity: independent of the order of removal, interactions shared evenly, and the shares add up to the change with every source removed (a source that works against the finding has a negative share, and then the others' add up to more than 100 %); web tension, nip, speed and storage time amplify a non-uniformity without making one, so they are shown as the quantity at a feasible alternative";
 
 /// The diagnosis's notes with the notes its results imply, sorted, each once (warnings are
-/// apart: [`warnings`]).
+/// apart: [`warnings`]); SI, as the JSON gives them ([`notes_in`]: in a unit system).
 pub fn notes(d: &Diagnosis) -> Vec<String> {
-    let mut n = note_json(&[], &d.notes).0;
+    notes_in(d, System::Si)
+}
+
+/// [`notes`] with their quantities in `sys`.
+pub fn notes_in(d: &Diagnosis, sys: System) -> Vec<String> {
+    let mut n = note_text(&[], &d.notes, sys).0;
     if d.findings.iter().any(|f| f.attribution.is_some()) {
         n.push(format!("root cause: {SHARES_METHOD}"));
     }
@@ -196,52 +201,115 @@ pub fn no_finding(d: &Diagnosis) -> String {
     s
 }
 
-/// The diagnosis's warnings: the case's own, then every physical limit a stage passed.
+/// The diagnosis's warnings: the case's own, then every physical limit a stage passed; SI, as
+/// the JSON gives them ([`warnings_in`]: in a unit system).
 pub fn warnings(d: &Diagnosis) -> Vec<String> {
-    note_json(&d.case_warnings, &d.notes).1
+    warnings_in(d, System::Si)
 }
 
-/// A stage's notes as output lines: `warning: ...` for the case's warnings and the physical
-/// limits passed, then `note: ...` for the rest.
-pub fn note_lines(case_warnings: &[String], notes: &[Note]) -> Vec<String> {
-    let (info, warn) = note_json(case_warnings, notes);
+/// [`warnings`] with their quantities in `sys`.
+pub fn warnings_in(d: &Diagnosis, sys: System) -> Vec<String> {
+    note_text(&d.case_warnings, &d.notes, sys).1
+}
+
+/// A stage's notes as output lines, their quantities in `sys`: `warning: ...` for the case's
+/// warnings and the physical limits passed, then `note: ...` for the rest.
+pub fn note_lines(case_warnings: &[String], notes: &[Note], sys: System) -> Vec<String> {
+    let (info, warn) = note_text(case_warnings, notes, sys);
     let warn = warn.into_iter().map(|w| format!("warning: {w}"));
     warn.chain(info.into_iter().map(|n| format!("note: {n}")))
         .collect()
 }
 
-/// A stage's notes in words, apart: `(notes, warnings)`, the warnings with the case's own first.
+/// A stage's notes in words for JSON (SI), apart: `(notes, warnings)`, the warnings with the
+/// case's own first.
 pub fn note_json(case_warnings: &[String], notes: &[Note]) -> (Vec<String>, Vec<String>) {
+    note_text(case_warnings, notes, System::Si)
+}
+
+/// [`note_json`] with the quantities in `sys`.
+pub fn note_text(
+    case_warnings: &[String],
+    notes: &[Note],
+    sys: System,
+) -> (Vec<String>, Vec<String>) {
     let mut w = case_warnings.to_vec();
-    w.extend(notes.iter().filter(|n| n.is_warning()).map(note));
-    let n = notes.iter().filter(|n| !n.is_warning()).map(note).collect();
+    let warning = |n: &&Note| n.is_warning();
+    w.extend(notes.iter().filter(warning).map(|n| note_in(n, sys)));
+    let n = (notes.iter().filter(|n| !n.is_warning()))
+        .map(|n| note_in(n, sys))
+        .collect();
     (n, w)
 }
 
 /// The sentence of a [`Note::PosteriorCut`].
-fn posterior_cut(lanes: usize, position_m: f64) -> String {
+fn posterior_cut(lanes: usize, position_m: f64, sys: System) -> String {
     format!(
-        "the creep posterior of {lanes} lane(s) (the first at {:.0} mm) reaches past the widest grid it is integrated on: its tails are left out, so the spread of those lanes' creep scales, and of what rests on them, is understated",
-        position_m * 1e3
+        "the creep posterior of {lanes} lane(s) (the first at {}) reaches past the widest grid it is integrated on: its tails are left out, so the spread of those lanes' creep scales, and of what rests on them, is understated",
+        super::pos(position_m, sys)
     )
 }
 
-/// A stage's note as a sentence (times in days, positions in mm, moduli in GPa).
+/// A profile extrapolated to lanes beyond its readings ([`Note::Extrapolated`]).
+fn extrapolated(n: &Note, sys: System) -> String {
+    let Note::Extrapolated {
+        what,
+        age_s,
+        from_m,
+        to_m,
+    } = *n
+    else {
+        return String::new();
+    };
+    let span = match sys {
+        System::Si => format!("{:.0}-{:.0} mm", from_m * 1e3, to_m * 1e3),
+        System::Us => format!("{} to {}", super::pos(from_m, sys), super::pos(to_m, sys)),
+    };
+    format!(
+        "{} profile at {:.0} d covers {span}; lanes outside that were extrapolated linearly",
+        measure_capitalised(what),
+        age_s / units::DAY_S,
+    )
+}
+
+/// Surveys past the storage history ([`Note::StorageExtended`]).
+fn storage_extended(n: &Note, sys: System) -> String {
+    let Note::StorageExtended {
+        last_age_s,
+        covered_s,
+        added_s,
+        standard,
+    } = *n
+    else {
+        return String::new();
+    };
+    let assumed = if standard {
+        let k = crate::storage::STANDARD_TEMPERATURE_K;
+        let t = super::said(sys, "23 C".into(), k, Kind::Temperature, false);
+        format!("{t}, 50 % RH, unwrapped")
+    } else {
+        "the last stretch continued".into()
+    };
+    let d = units::DAY_S;
+    format!(
+        "measurements reach {:.1} d but storage history covers {:.1} d; the last {:.1} d assume {assumed}",
+        last_age_s / d,
+        covered_s / d,
+        added_s / d,
+    )
+}
+
+/// A stage's note as a sentence, SI (times in days, positions in mm, moduli in GPa).
 pub fn note(n: &Note) -> String {
+    note_in(n, System::Si)
+}
+
+/// A stage's note as a sentence, its quantities in `sys` (SI: as [`note`]).
+pub fn note_in(n: &Note, sys: System) -> String {
+    use super::{pos, said};
     use crate::units::DAY_S;
     match *n {
-        Note::Extrapolated {
-            what,
-            age_s,
-            from_m,
-            to_m,
-        } => format!(
-            "{} profile at {:.0} d covers {:.0}-{:.0} mm; lanes outside that were extrapolated linearly",
-            measure_capitalised(what),
-            age_s / DAY_S,
-            from_m * 1e3,
-            to_m * 1e3
-        ),
+        Note::Extrapolated { .. } => extrapolated(n, sys),
         Note::LanesMerged {
             what,
             positions,
@@ -251,9 +319,10 @@ pub fn note(n: &Note) -> String {
             measure(what)
         ),
         Note::LanesCount { asked, lanes } => format!(
-            "lanes.count = {asked} gives {lanes} lanes: each edge lane is made 25 mm wide (a strip split off one wider than two strips, else the excess given to its neighbour), because moisture exchange through the ends and the edge tension act in the outer centimetres"
+            "lanes.count = {asked} gives {lanes} lanes: each edge lane is made {} wide (a strip split off one wider than two strips, else the excess given to its neighbour), because moisture exchange through the ends and the edge tension act in the outer centimetres",
+            pos(crate::lanes::EDGE_STRIP_M, sys)
         ),
-        Note::LanesCoarse { .. } => super::note_words::lanes_coarse(n),
+        Note::LanesCoarse { .. } => super::note_words::lanes_coarse(n, sys),
         Note::BelowNoiseFloor { .. }
         | Note::OnProfileNoise { .. }
         | Note::Unlikely { .. }
@@ -261,7 +330,7 @@ pub fn note(n: &Note) -> String {
         | Note::Resolution { .. }
         | Note::LaneNotExplained { .. }
         | Note::RollNotExplained { .. }
-        | Note::FindingOnWeakLanes { .. } => super::note_words::confidence_note(n),
+        | Note::FindingOnWeakLanes { .. } => super::note_words::confidence_note(n, sys),
         Note::CaliperFromDiameter => {
             "no caliper profile: lane calipers inferred from the earliest diameter profile".into()
         }
@@ -274,185 +343,23 @@ pub fn note(n: &Note) -> String {
             modulus_pa,
             converged,
         } => format!(
-            "{direction} creep from {curves} lab curve(s): delayed {delayed:.3}, retardation {:.2} d, viscous time {:.0} d, elastic modulus {:.3} GPa{}",
+            "{direction} creep from {curves} lab curve(s): delayed {delayed:.3}, retardation {:.2} d, viscous time {:.0} d, elastic modulus {}{}",
             retardation_s / DAY_S,
             viscous_time_s / DAY_S,
-            modulus_pa / 1e9,
+            said(sys, format!("{:.3} GPa", modulus_pa / 1e9), modulus_pa, Kind::Pressure, false),
             if converged { "" } else { " (lab-curve fit hit its iteration limit)" }
         ),
-        Note::PosteriorCut { lanes, position_m } => posterior_cut(lanes, position_m),
+        Note::PosteriorCut { lanes, position_m } => posterior_cut(lanes, position_m, sys),
         Note::OneAge => format!("all measurements are at one age: creep parameters cannot be identified and stay at the roll's prior (grade values, within a factor of {:.0} at one sigma); the lanes' lengths at unwind and the findings' probabilities carry that width", crate::fit::POOLED_PRIOR_SD_LN.exp()),
         Note::DiameterWithoutReference { age_s } => format!(
             "diameter profile at {:.0} d has no winding-time diameter to compare with; not used in the fit",
             age_s / DAY_S
         ),
-        Note::StorageExtended {
-            last_age_s,
-            covered_s,
-            added_s,
-            standard,
-        } => format!(
-            "measurements reach {:.1} d but storage history covers {:.1} d; the last {:.1} d assume {}",
-            last_age_s / DAY_S,
-            covered_s / DAY_S,
-            added_s / DAY_S,
-            if standard {
-                "23 C, 50 % RH, unwrapped"
-            } else {
-                "the last stretch continued"
-            }
-        ),
-        Note::Limit(l) => limit(&l),
-        Note::WindingDiameter(m) => super::note_words::winding_diameter(&m),
-        Note::SurveyContradicts { .. } => super::note_words::survey_contradicts(n),
+        Note::StorageExtended { .. } => storage_extended(n, sys),
+        Note::Limit(l) => super::limit_words::limit(&l, sys),
+        Note::WindingDiameter(m) => super::note_words::winding_diameter(&m, sys),
+        Note::SurveyContradicts { .. } => super::note_words::survey_contradicts(n, sys),
     }
-}
-
-/// What a passed limit means for the results, in the limits' sentences.
-pub(super) const SO: &str = "results that depend on it are not physical; check the inputs";
-
-/// A physical limit passed, as a sentence that says what it means for the findings.
-pub fn limit(l: &crate::note::Limit) -> String {
-    use crate::note::{Limit, Strength};
-    match *l {
-        Limit::AboveLiftOff {
-            speed_m_s,
-            lift_off_m_s,
-        } => format!(
-            "the winding speed {speed_m_s:.1} m/s is above the lift-off speed {} m/s at the winder's least stress over the build (web tension and nip part): outer layers could not stay on the roll as modelled; {SO}",
-            crate::units::sig(lift_off_m_s, 3)
-        ),
-        Limit::Condensation(c) => condensation(&c),
-        Limit::FlatContact { .. }
-        | Limit::AirFloats { .. }
-        | Limit::UnwindTension { .. }
-        | Limit::CorePressure { .. } => {
-            super::note_words::unwind_limit(l)
-        }
-        Limit::Strength {
-            which,
-            lanes,
-            position_m,
-            value_pa,
-            limit_pa,
-        } => {
-            let (what, limit, field) = match which {
-                Strength::ZdCrush => ("interlayer pressure", "the stack's crush limit", "material.strength.zd_crush"),
-                Strength::MdCompression => ("MD compression", "the web's MD compressive strength: layers can buckle (starring)", "material.strength.md_compressive"),
-                Strength::MdTension => ("MD tension", "the web's MD tensile strength: wraps can split", "material.strength.md_tensile"),
-                Strength::CoreCollapse => ("pressure on the core", "the core's collapse pressure (its rating, else thin-ring buckling)", "roll.core"),
-            };
-            format!(
-                "{}: {what} of {} MPa is {:.2} times {limit} ({} MPa); check {field} and the winding, or treat the roll with care",
-                at(lanes, position_m),
-                units::sig(value_pa / 1e6, 4),
-                value_pa / limit_pa,
-                units::sig(limit_pa / 1e6, 4)
-            )
-        }
-        Limit::StackCrushed {
-            lanes,
-            position_m,
-            pressure_pa,
-            strain,
-        } => format!(
-            "{}: the stack law compresses the stack by {:.0} % at {:.2} MPa, more than the sheet's void content allows ({:.0} %); {SO} (material.stack)",
-            at(lanes, position_m),
-            strain * 100.0,
-            pressure_pa / 1e6,
-            crate::limits::MAX_STACK_STRAIN * 100.0
-        ),
-        Limit::DiameterInsideCore {
-            lanes,
-            position_m,
-            diameter_m,
-            core_diameter_m,
-        } => format!(
-            "{}: the diameter falls to {:.1} mm, at or inside the {:.1} mm core; {SO}",
-            at(lanes, position_m),
-            diameter_m * 1e3,
-            core_diameter_m * 1e3
-        ),
-        Limit::MoistureAboveSaturation {
-            lanes,
-            position_m,
-            moisture_pct,
-            saturation_pct,
-        } => format!(
-            "{}: moisture reaches {moisture_pct:.2} %, above the isotherm's saturation {saturation_pct:.2} %; {SO} (material.sorption, storage)",
-            at(lanes, position_m)
-        ),
-        Limit::HardnessBelowScale { .. } | Limit::HardnessNotFinite { .. } => {
-            super::note_words::hardness_limit(l)
-        }
-        Limit::LooseOuterWraps { .. } => loose_wraps(l),
-    }
-}
-
-/// The loose-outer-wraps limit as a sentence (the other limits: [`limit`]).
-fn loose_wraps(l: &crate::note::Limit) -> String {
-    use crate::note::Limit;
-    let Limit::LooseOuterWraps {
-        lanes,
-        position_m,
-        depth_m,
-        time_s,
-        end_depth_m,
-    } = *l
-    else {
-        return limit(l);
-    };
-    let end = if end_depth_m > 0.0 {
-        format!(
-            ", and still to {:.1} mm at the end of storage: they are loose",
-            end_depth_m * 1e3
-        )
-    } else {
-        ": they were loose for a time (by the end of storage the model has them pressed on again)"
-            .to_string()
-    };
-    format!(
-        "{}: in storage the outer wraps lose all interlayer pressure, at most to {:.1} mm below the barrel (on day {:.1}; depth to the model's radial cells){end}. Wound layers cannot pull on one another: where these wraps would lift off (they swell, the stack beneath them shrinks as it dries, or creep relaxes their hoop tension) the model holds them on at zero pressure, so there the diameter can be larger, and the surface read softer, than predicted",
-        at(lanes, position_m),
-        depth_m * 1e3,
-        time_s / crate::units::DAY_S
-    )
-}
-
-/// Which lanes passed a limit: the one, or how many and the worst.
-pub(super) fn at(lanes: u32, position_m: f64) -> String {
-    match lanes {
-        1 => format!("lane at {:.0} mm", position_m * 1e3),
-        n => format!("{n} lanes (worst at {:.0} mm)", position_m * 1e3),
-    }
-}
-
-/// A condensation warning as a sentence.
-fn condensation(c: &crate::note::Condensed) -> String {
-    let crate::note::Condensed {
-        stretch,
-        roll_k,
-        dew_point_k,
-        wet_s,
-        water_kg_m2,
-        outer_rise_pct,
-        barrel,
-        ends,
-    } = *c;
-    format!(
-            "storage stretch {}: the roll came in at {:.1} C, below the air's dew point {:.1} C: water condenses on the {} for about {:.0} min ({:.0} g/m2, up to {:+.1} points of moisture in the outer 2 mm of wraps); the model puts it into the paper at the wet faces as the stretch begins (outer wraps and end cells), so the diagnosis includes it. Let rolls warm up wrapped in film before unwrapping (common practice)",
-            stretch + 1,
-            roll_k - crate::units::ZERO_C_K,
-            dew_point_k - crate::units::ZERO_C_K,
-            match (barrel, ends) {
-                (true, true) => "barrel and end faces",
-                (true, false) => "barrel",
-                _ => "end faces",
-            },
-            wet_s / 60.0,
-            water_kg_m2 * 1e3,
-            outer_rise_pct
-        )
 }
 
 /// Notes as sentences, in the order given.

@@ -5,7 +5,8 @@
 //! Mechanics: axisymmetric incremental viscoelasticity in the radial displacement u (plane
 //! stress, Poisson coupling neglected): equilibrium d(r sigma_r)/dr = sigma_t, MD strain u/r,
 //! radial strain du/dr, each direction a Burgers element ([`super::creep`]) in reduced time
-//! ([`super::shift`]) with hygroexpansion as an eigenstrain. This is the relaxation-by-differential-
+//! ([`super::shift`]) with hygroexpansion as an eigenstrain. This is the
+//! relaxation-by-differential-
 //! creep picture of viscoelastic winding models (Lin and Westmann 1989; Qualls and Good 1997, from
 //! memory), applied after winding. Finite volumes on cells clustered at the core and the barrel,
 //! backward Euler in time; lanes do not exchange load in storage, only moisture (through x).
@@ -74,27 +75,35 @@ pub struct LaneAged {
     /// Mean moisture of the outer third of the web length (the outer wraps), %.
     pub outer_moisture_pct: Vec<f64>,
     /// Permanent (viscous + mechano-sorptive) MD strain, area-weighted over the radius.
+    #[serde(rename = "permanent_strain_m_per_m")]
     pub permanent_strain: Vec<f64>,
     /// Delayed (recoverable, still present at unwind) MD creep strain.
+    #[serde(rename = "delayed_strain_m_per_m")]
     pub delayed_strain: Vec<f64>,
     /// Elastic MD strain (sigma_t / E), recovered at unwind.
+    #[serde(rename = "elastic_strain_m_per_m")]
     pub elastic_strain: Vec<f64>,
     /// Free MD hygroexpansion since winding, beta_MD (MC - MC_0).
+    #[serde(rename = "hygro_strain_m_per_m")]
     pub hygro_strain: Vec<f64>,
     /// The web's own length excess as it came to the winder (from a tension profile at winding),
     /// dimensionless; 0 without one. Included in `strain_at_unwind`.
+    #[serde(rename = "web_length_strain_m_per_m")]
     pub web_length_strain: f64,
     /// Stress-free MD strain the web keeps at unwind (permanent + delayed + hygro + the web's own
     /// length excess at winding), averaged over the outer third of the web length (the first third
     /// unwound).
+    #[serde(rename = "strain_at_unwind_m_per_m")]
     pub strain_at_unwind: Vec<f64>,
     /// The same at the end of storage for the outer, middle and inner thirds of web length.
+    #[serde(rename = "strain_at_unwind_by_third_m_per_m")]
     pub strain_at_unwind_by_third: [f64; 3],
     /// Lane diameter, m.
     pub diameter_m: Vec<f64>,
     /// Mean interlayer pressure in the outer 25 mm, Pa.
     pub surface_pressure_pa: Vec<f64>,
     /// Predicted hardness, scale units.
+    #[serde(rename = "hardness_hardness_units")]
     pub hardness: Vec<f64>,
     /// Final radial and tangential stress at the radial cells, Pa.
     pub final_radial_stress_pa: Vec<f64>,

@@ -231,7 +231,8 @@ mod tests {
     use super::exponential_ratio;
 
     /// c(m) = m / (1 - e^-m) has the series 1 + m/2 + m^2/12 - m^4/720 (the Bernoulli-number
-    /// generating function, Abramowitz and Stegun 1964, 23.1.1, from memory): the two branches meet at the
+    /// generating function, Abramowitz and Stegun 1964, 23.1.1, from memory): the two branches
+    /// meet at the
     /// switch, and the large-m limit is m.
     #[test]
     fn exponential_ratio_follows_its_series_and_limit() {

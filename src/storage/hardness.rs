@@ -8,8 +8,10 @@ use serde::Serialize;
 #[derive(Debug, Clone, Copy, PartialEq, Serialize)]
 pub struct HardnessMap {
     /// Scale units.
+    #[serde(rename = "a_hardness_units")]
     pub a: f64,
     /// Scale units per e-fold of pressure.
+    #[serde(rename = "b_hardness_units")]
     pub b: f64,
     /// Pa.
     pub pressure_ref_pa: f64,

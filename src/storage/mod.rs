@@ -31,5 +31,5 @@ pub use shift::{arrhenius_shift, moisture_shift, GAS_R, T_REF_K};
 pub use sorption::gab_moisture;
 pub use timeline::{
     moisture as moisture_history, storage_extended, timeline, MoistureHistory, Step, StoreInput,
-    Timeline, FLOOR_CONTACT,
+    Timeline, FLOOR_CONTACT, STANDARD_TEMPERATURE_K,
 };

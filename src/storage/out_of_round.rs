@@ -7,7 +7,8 @@
 //!   p0 = 2 P / (pi a), with P the weight per width. The roll is taken as a homogeneous body with
 //!   the stack's radial modulus and no Poisson coupling (E* = E_r): the radial direction carries
 //!   the load, and a wound stack's in-plane coupling is small (the winding model's own
-//!   assumption). The flat's depth is the sagitta of the contact chord, a^2 / (2 R) = 2 P / (pi E*).
+//!   assumption). The flat's depth is the sagitta of the contact chord, a^2 / (2 R) = 2 P / (pi
+//!   E*).
 //! - Stack modulus: the Pfeiffer law is non-linear, so E_r is the secant modulus of the stack from
 //!   the outer wraps' interlayer pressure (the wound-in state) to that plus the mean contact
 //!   pressure P / (2 a); a and E_r are solved together (fixed point).

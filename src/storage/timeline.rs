@@ -27,11 +27,14 @@ pub struct StoreInput<'a> {
 /// fraction (assumption).
 pub const FLOOR_CONTACT: f64 = 0.1;
 
+/// Temperature of the standard atmosphere (23 C; TAPPI T 402), K.
+pub const STANDARD_TEMPERATURE_K: f64 = 296.15;
+
 /// Ambient conditions assumed past the last stretch (standard atmosphere, TAPPI T 402).
 fn standard_stretch() -> Stretch {
     Stretch {
         duration_s: 0.0,
-        temperature_k: 296.15,
+        temperature_k: STANDARD_TEMPERATURE_K,
         rh: 0.5,
         barrel_wrap: Wrap::None,
         end_wrap: Wrap::None,

@@ -2,7 +2,8 @@
 //! nip-induced wound-in tension (Good, Wu and Fikes 1994), centrifugal stresses of the spinning
 //! roll (Timoshenko and Goodier) and lanes coupled through the shared web.
 //!
-//! **Invariant:** pure functions of the material, roll, winder settings and lanes; no I/O, no printing, nothing of rules.
+//! **Invariant:** pure functions of the material, roll, winder settings and lanes; no I/O, no
+//! printing, nothing of rules.
 
 pub mod air;
 mod cache;

@@ -377,7 +377,8 @@ pub(super) fn accrete(
 /// (friction x nip load, Good, Wu and Fikes 1994) less rho c v^2 (a layer spinning at surface
 /// speed v needs that hoop force to hold itself, so it does not press on the roll). Tangential
 /// stresses are per unit of compressed layer thickness on the shared grid, so that every layer adds
-/// interlayer pressure p = sigma_w h / r and radial equilibrium r sigma_r = -integral sigma_t holds.
+/// interlayer pressure p = sigma_w h / r and radial equilibrium r sigma_r = -integral sigma_t
+/// holds.
 ///
 /// Each grid interval is solved exactly for its mean radial modulus and each step's layers are
 /// integrated over their own interval (see [`super::hakiel`]), so the result converges at second

@@ -71,7 +71,8 @@ pub struct Wound {
     /// Mean compressive strain of the wound stack: the stated diameter holds this many more
     /// layers than the uncompressed caliper would suggest.
     pub stack_compression: f64,
-    /// Surface speed at which a layer wound at the winder's least stress over the build (web tension and nip
+    /// Surface speed at which a layer wound at the winder's least stress over the build (web
+    /// tension and nip
     /// part over the caliper, before spin and entrained air take theirs) would stop pressing on
     /// the roll, m/s.
     pub lift_off_speed_m_s: f64,

@@ -113,12 +113,21 @@ impl Validator {
         if let Tension::Taper { points } = &w.tension {
             let (lo, hi) = (points[0].0, points[points.len() - 1].0);
             if lo > r.core_diameter_m * 1.5 || hi < r.diameter_m * 0.9 {
+                let sys = crate::units::message_system();
+                let (lo, hi, core, d) = match sys {
+                    crate::units::System::Si => (
+                        format!("{:.0}", lo * 1e3),
+                        format!("{:.0} mm", hi * 1e3),
+                        format!("{:.0}", r.core_diameter_m * 1e3),
+                        format!("{:.0} mm", r.diameter_m * 1e3),
+                    ),
+                    crate::units::System::Us => {
+                        let l = |x| crate::units::show(x, crate::units::Kind::Length, sys, false);
+                        (l(lo), l(hi), l(r.core_diameter_m), l(r.diameter_m))
+                    }
+                };
                 self.warnings.push(format!(
-                    "winding.taper: table covers {:.0}-{:.0} mm but the roll builds from {:.0} to {:.0} mm; tension is held flat beyond the table",
-                    lo * 1e3,
-                    hi * 1e3,
-                    r.core_diameter_m * 1e3,
-                    r.diameter_m * 1e3
+                    "winding.taper: table covers {lo}-{hi} but the roll builds from {core} to {d}; tension is held flat beyond the table"
                 ));
             }
         }
@@ -131,10 +140,17 @@ impl Validator {
         };
         let t = w.tension.at(0.0).max(1e-9);
         if m.friction * w.nip_n_per_m > 2.5 * t {
+            let sys = crate::units::message_system();
+            let f = |x: f64| match sys {
+                crate::units::System::Si => format!("{x:.0} N/m"),
+                crate::units::System::Us => {
+                    crate::units::show(x, crate::units::Kind::LineForce, sys, false)
+                }
+            };
             self.warnings.push(format!(
-                "winding.nip: friction x nip ({:.0} N/m) is over 2.5x the web tension ({:.0} N/m); measured nip-induced tension saturates at such loads, so the model may overstate wound-in tension (common practice)",
-                m.friction * w.nip_n_per_m,
-                t
+                "winding.nip: friction x nip ({}) is over 2.5x the web tension ({}); measured nip-induced tension saturates at such loads, so the model may overstate wound-in tension (common practice)",
+                f(m.friction * w.nip_n_per_m),
+                f(t)
             ));
         }
     }

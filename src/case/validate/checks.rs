@@ -187,7 +187,7 @@ impl Validator {
             v,
             (field, line),
             range,
-            (|x| units::sig(d.from_si(x), 4), d.label),
+            (|x| units::digits(d.from_si(x), kind), d.label),
         )
     }
 

@@ -66,7 +66,7 @@ def make(name, title, shape, seed):
     hp = [round(x) for x in xs]
     days = round(aged['times_s'][-1] / 86400, 3)
     for k, age in ((0, 0), (-1, days)):
-        h = [round(at(p, [l['hardness'][k] for l in lanes]) + rng.gauss(0, 1.0), 1) for p in hp]
+        h = [round(at(p, [l['hardness_hardness_units'][k] for l in lanes]) + rng.gauss(0, 1.0), 1) for p in hp]
         d = [round(at(p, [l['diameter_m'][k] * 1e3 for l in lanes]) + rng.gauss(0, 0.1), 2) for p in hp]
         case['profiles'].append({'what': 'hardness', 'age': f'{age:g} d', 'position_unit': 'mm', 'positions': hp, 'values': h})
         case['profiles'].append({'what': 'diameter', 'age': f'{age:g} d', 'unit': 'mm', 'position_unit': 'mm', 'positions': hp, 'values': d})
