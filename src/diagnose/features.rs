@@ -6,9 +6,8 @@
 //! Edges and ends: the edge features (`centre_minus_edges_*`, `edge_moisture_change_pct`) compare
 //! the centre half with the roll's ends, the outermost lane at each side ([`end_lanes`]). `lanes`
 //! makes each edge lane one 25 mm strip wide at every lane count because moisture exchange through
-//! the ends and the
-//! web's edge tension act in the outer centimetres, so the end lanes carry the edge effect that a
-//! wider average would dilute; this is what the features' meanings say. Where a finding about
+//! the ends and the web's edge tension act in the outer centimetres, so the end lanes carry the
+//! edge effect that a wider average would dilute; this is what the features' meanings say. Where a finding about
 //! edges is reported, the lanes named are the edge zones, the outer 15 % of the width at each side
 //! ([`edge_lanes`]), falling back to the ends when no lane centre lies in a zone. (The former code
 //! computed an `edges_or_ends` set that always equalled the ends; it is replaced by these two
@@ -220,8 +219,7 @@ pub(super) fn centre_against_ends(s: &[f64], centre: &[usize], ends: &[usize]) -
 }
 
 /// Largest excess of an inner lane over its [`baseline`](super::local::baseline) (the web 75-300
-/// mm either side), mm/m
-/// (every lane counts as inner below five lanes; 0 for a single lane).
+/// mm either side), mm/m (every lane counts as inner below five lanes; 0 for a single lane).
 fn local_peak(s: &[f64], spans: &[(f64, f64)]) -> f64 {
     let n = s.len();
     if n <= 1 {
