@@ -76,7 +76,7 @@ impl Scenario {
             &HardnessMap::given(c.hardness.calibration.as_ref()),
             &AgeOptions::default(),
         )?;
-        let unwind = super::unwind::at_unwind(c, &wound, &self.creep);
+        let unwind = super::unwind::at_unwind(c, &wound, &self.creep, &self.lanes);
         Ok(Outcome {
             wound,
             aged,
@@ -133,7 +133,7 @@ pub fn apply(s: &Scenario, change: Change, factor: Option<f64>, slit: &[usize]) 
     let f = factor.unwrap_or(1.0);
     match change {
         Change::Correct(a) => correct(&mut n, a, f, slit),
-        Change::UniformCreep => uniform_creep(&mut n.creep),
+        Change::UniformCreep => uniform_creep(&mut n.creep, &n.lanes.widths()),
         Change::ScaleWebTension => n.case.winding.tension = scaled(&n.case.winding.tension, f),
         Change::ScaleSpeed => n.case.winding.speed_m_s *= f,
     }
@@ -272,10 +272,13 @@ fn even_web(lanes: &mut Lanes) {
     }
 }
 
-/// Give every lane the roll's mean delayed compliance and mean viscous fluidity, per direction.
-pub(super) fn uniform_creep(creep: &mut [LaneCreep]) {
-    let k = creep.len().max(1) as f64;
-    let mean = |g: &dyn Fn(&LaneCreep) -> f64| creep.iter().map(g).sum::<f64>() / k;
+/// Give every lane the roll's mean delayed compliance and mean viscous fluidity, per direction:
+/// means over the width (`widths`, the lanes' widths, m), so a 25 mm edge strip counts for its
+/// 25 mm whatever the lane count.
+pub(super) fn uniform_creep(creep: &mut [LaneCreep], widths: &[f64]) {
+    let mean = |g: &dyn Fn(&LaneCreep) -> f64| {
+        crate::numeric::weighted_mean(&creep.iter().map(g).collect::<Vec<_>>(), widths)
+    };
     let (md_d, md_v, r_d, r_v) = (
         mean(&|c| c.md.delayed),
         mean(&|c| c.md.viscous_time_s.recip()),

@@ -282,30 +282,16 @@ fn caliper_link(lanes: &Lanes, u: &Unwind) -> (f64, f64) {
 }
 
 /// Shares of the lane-to-lane differences from hygroexpansion and from creep, in the same
-/// outer-third average (absolute deviations from the lane mean, the web's own length profile at
-/// winding taken out of both).
-fn shares(aged: &Aged, last: usize) -> (f64, f64) {
-    let n = aged.lanes.len() as f64;
+/// outer-third average (absolute deviations from the mean lane integrated over the width `w`, m;
+/// the web's own length profile at winding taken out of both; [`super::width_means::shares`]).
+fn shares(aged: &Aged, last: usize, w: &[f64]) -> (f64, f64) {
     let hyg: Vec<f64> = aged.lanes.iter().map(|l| l.hygro_strain[last]).collect();
     let tot: Vec<f64> = aged
         .lanes
         .iter()
         .map(|l| l.strain_at_unwind[last] - l.web_length_strain)
         .collect();
-    let hm = hyg.iter().sum::<f64>() / n;
-    let tm = tot.iter().sum::<f64>() / n;
-    let dh: f64 = hyg.iter().map(|h| (h - hm).abs()).sum();
-    let dc: f64 = tot
-        .iter()
-        .zip(&hyg)
-        .map(|(t, h)| ((t - h) - (tm - hm)).abs())
-        .sum();
-    if dh + dc > 0.0 {
-        let ms = dh / (dh + dc);
-        (ms, 1.0 - ms)
-    } else {
-        (0.0, 0.0)
-    }
+    super::width_means::shares(&hyg, &tot, w)
 }
 
 /// Share of the longest lane's excess over the mean lane that the web brought to the winder
@@ -337,6 +323,7 @@ struct StressStates {
 /// the outer wraps slide axially (telescope) against friction over the whole width, a
 /// resisting force of friction times the interlayer pressure integrated over the face
 /// (Coulomb's law of friction, Coulomb 1785), so one narrow lane's low pressure does not decide.
+/// Its loss over storage is that integral's ([`super::width_means::pressure_loss_pct`]).
 fn stress_states(wound: &Wound, aged: &Aged, last: usize, widths: &[f64]) -> StressStates {
     let rc = wound.radius_m[0];
     let rr = wound.radius_m[wound.radius_m.len() - 1];
@@ -351,19 +338,16 @@ fn stress_states(wound: &Wound, aged: &Aged, last: usize, widths: &[f64]) -> Str
                 .map(|(t, _)| *t)
         }),
     );
-    let n = aged.lanes.len() as f64;
+    let p0: Vec<f64> = aged
+        .lanes
+        .iter()
+        .map(|l| l.surface_pressure_pa[0])
+        .collect();
+    let p1 = surface_at(aged, last);
     StressStates {
         core_md_mpa: core_md / 1e6,
-        surface_pressure_end_kpa: weighted_mean(&surface_at(aged, last), widths) / 1e3,
-        surface_pressure_loss_pct: aged
-            .lanes
-            .iter()
-            .map(|l| {
-                let p0 = l.surface_pressure_pa[0].max(1.0);
-                100.0 * (p0 - l.surface_pressure_pa[last]) / p0
-            })
-            .sum::<f64>()
-            / n,
+        surface_pressure_end_kpa: weighted_mean(&p1, widths) / 1e3,
+        surface_pressure_loss_pct: super::width_means::pressure_loss_pct(&p0, &p1, widths),
         outer_md_end_mpa: max_from(
             f64::NEG_INFINITY,
             aged.lanes
@@ -533,7 +517,7 @@ pub fn compute(case: &Case, lanes: &Lanes, o: &super::actions::Outcome) -> Featu
     let ends = end_lanes(lanes);
     let len = length_pattern(&u, &centre, &ends);
     let (caliper_correlation, caliper_range_pct) = caliper_link(lanes, &u);
-    let (moisture_share, creep_share) = shares(aged, last);
+    let (moisture_share, creep_share) = shares(aged, last, &u.w);
     let web_length_share = web_share(aged, &u);
     let st = stress_states(wound, aged, last, &u.w);
     let (edge_moisture, moisture_change) = moisture_change(aged, last, &centre, &ends);
