@@ -384,7 +384,7 @@ impl Feature {
             F::LongEdgeMmPerM => spec("larger excess of an outermost lane (the 25 mm edge strip) over the web 75-300 mm inward of it, less the other's where that is long too (one edge long, the other not), mm/m (0 below five lanes)", -INF, INF, true),
             F::LongEdgeRatio => spec("long_edge_mm_per_m over the web's running strain T/(E h)", -INF, INF, false),
             F::BandCount => spec("number of long bands (local peaks over 0.3 mm/m prominent)", 0.0, INF, false),
-            F::CaliperCorrelation => spec("correlation of lane caliper with lane length at unwind, -1..1", -1.0, 1.0, false),
+            F::CaliperCorrelation => spec("correlation of lane caliper with lane length at unwind, each lane weighted by its width, -1..1", -1.0, 1.0, false),
             F::CaliperRangePct => spec("thickest minus thinnest lane caliper, % of mean", 0.0, INF, false),
             F::MoistureShare => spec("share of the lane-to-lane length differences made in the roll (integrated over the width; the web's own profile at winding taken out) from hygroexpansion, 0..1", 0.0, 1.0, false),
             F::CreepShare => spec("share of the lane-to-lane length differences made in the roll (integrated over the width; the web's own profile at winding taken out) from creep, 0..1", 0.0, 1.0, false),

@@ -292,3 +292,34 @@ pub(super) fn uniform_creep(creep: &mut [LaneCreep], widths: &[f64]) {
         c.radial.viscous_time_s = r_v.recip();
     }
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::case::Burgers;
+
+    fn lane(delayed: f64, viscous_time_s: f64) -> LaneCreep {
+        let b = Burgers {
+            delayed,
+            retardation_s: 1e4,
+            viscous_time_s,
+        };
+        LaneCreep { md: b, radial: b }
+    }
+
+    /// Hand computation: a 25 mm edge strip (delayed 1.0, viscous time 1e5 s: fluidity 1e-5 /s)
+    /// beside a 200 mm lane (delayed 0.1, 1e6 s: 1e-6 /s). Over the width (0.225 m): delayed
+    /// (0.025 + 0.02) / 0.225 = 0.2; fluidity (2.5e-7 + 2e-7) / 0.225 = 2e-6 /s, viscous time
+    /// 5e5 s. Counted by lanes it would be 0.55 and 1.82e5 s.
+    #[test]
+    fn uniform_creep_is_the_mean_over_the_width() {
+        let mut c = [lane(1.0, 1e5), lane(0.1, 1e6)];
+        uniform_creep(&mut c, &[0.025, 0.2]);
+        for l in &c {
+            for b in [l.md, l.radial] {
+                assert!((b.delayed - 0.2).abs() < 1e-12, "{b:?}");
+                assert!((b.viscous_time_s - 5e5).abs() < 1e-6, "{b:?}");
+            }
+        }
+    }
+}

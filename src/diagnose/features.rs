@@ -62,19 +62,6 @@ fn median(v: &[f64]) -> f64 {
     }
 }
 
-fn correlation(a: &[f64], b: &[f64]) -> f64 {
-    let n = a.len() as f64;
-    let (ma, mb) = (a.iter().sum::<f64>() / n, b.iter().sum::<f64>() / n);
-    let cov: f64 = a.iter().zip(b).map(|(x, y)| (x - ma) * (y - mb)).sum();
-    let va: f64 = a.iter().map(|x| (x - ma).powi(2)).sum();
-    let vb: f64 = b.iter().map(|y| (y - mb).powi(2)).sum();
-    if va <= 1e-30 || vb <= 1e-30 {
-        0.0
-    } else {
-        cov / (va * vb).sqrt()
-    }
-}
-
 /// Mean of `f` over lanes `idx` (0 for none).
 fn mean_of(idx: &[usize], f: &dyn Fn(usize) -> f64) -> f64 {
     if idx.is_empty() {
@@ -273,12 +260,14 @@ fn band_count(u: &Unwind) -> usize {
         .count()
 }
 
-/// Correlation of lane caliper with length at unwind, and the caliper range, % of mean.
+/// Correlation of lane caliper with length at unwind over the width
+/// ([`super::width_means::correlation`]), and the caliper range, % of mean.
 fn caliper_link(lanes: &Lanes, u: &Unwind) -> (f64, f64) {
     let cal: Vec<f64> = lanes.lanes.iter().map(|l| l.caliper_deviation).collect();
     let cmax = max_from(f64::NEG_INFINITY, cal.iter().copied());
     let cmin = min_from(f64::INFINITY, cal.iter().copied());
-    (correlation(&cal, &u.s), (cmax - cmin) * 100.0)
+    let r = super::width_means::correlation(&cal, &u.s, &u.w);
+    (r, (cmax - cmin) * 100.0)
 }
 
 /// Shares of the lane-to-lane differences from hygroexpansion and from creep, in the same

@@ -32,6 +32,21 @@ pub fn pressure_loss_pct(p0: &[f64], p1: &[f64], w: &[f64]) -> f64 {
     100.0 * (start - weighted_mean(p1, w)) / start
 }
 
+/// Pearson's correlation of `a` with `b` over the width: the means, covariance and variances
+/// each weighted by the lanes' widths `w` (m), -1..1; 0 when either does not vary.
+pub fn correlation(a: &[f64], b: &[f64], w: &[f64]) -> f64 {
+    let (ma, mb) = (weighted_mean(a, w), weighted_mean(b, w));
+    let sum = |f: &dyn Fn(usize) -> f64| (0..a.len().min(b.len())).map(|i| w[i] * f(i)).sum();
+    let cov: f64 = sum(&|i| (a[i] - ma) * (b[i] - mb));
+    let va: f64 = sum(&|i| (a[i] - ma).powi(2));
+    let vb: f64 = sum(&|i| (b[i] - mb).powi(2));
+    if va <= 1e-30 || vb <= 1e-30 {
+        0.0
+    } else {
+        cov / (va * vb).sqrt()
+    }
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -51,6 +66,22 @@ mod tests {
         let w4 = [0.025, 0.2, 0.1, 0.1];
         let (m4, _) = shares(&[1.0, 0.0, 0.0, 0.0], &[1.0, 0.0, 1.0, 1.0], &w4);
         assert!((m4 - m).abs() < 1e-12, "{m4}");
+    }
+
+    /// Hand computation: widths 0.1, 0.1, 0.2 m, a = 0, 1, 2, b = 0, 2, 1. Weighted means
+    /// (0.1 + 0.4) / 0.4 = 1.25 and (0.2 + 0.2) / 0.4 = 1; covariance 0.1 (-1.25)(-1) +
+    /// 0.1 (-0.25)(1) + 0.2 (0.75)(0) = 0.1; variances 0.1 (1.5625 + 0.0625) + 0.2 (0.5625) =
+    /// 0.275 and 0.1 + 0.1 + 0 = 0.2: r = 0.1 / sqrt(0.055) = 0.4264. The same lanes counted
+    /// alike give 0.5; the third lane cut in two (0.1 m each, same values) gives 0.4264 again.
+    #[test]
+    fn correlation_matches_a_hand_computation() {
+        let r = correlation(&[0.0, 1.0, 2.0], &[0.0, 2.0, 1.0], &[0.1, 0.1, 0.2]);
+        assert!((r - 0.1 / 0.055f64.sqrt()).abs() < 1e-12, "{r}");
+        let equal = correlation(&[0.0, 1.0, 2.0], &[0.0, 2.0, 1.0], &[1.0; 3]);
+        assert!((equal - 0.5).abs() < 1e-12, "{equal}");
+        let cut = correlation(&[0.0, 1.0, 2.0, 2.0], &[0.0, 2.0, 1.0, 1.0], &[0.1; 4]);
+        assert!((cut - r).abs() < 1e-12, "{cut}");
+        assert_eq!(correlation(&[1.0, 1.0], &[0.0, 2.0], &[0.5, 0.5]), 0.0);
     }
 
     /// Hand computation: a 25 mm strip at 1 kPa and a 200 mm lane at 10 kPa (mean over the
