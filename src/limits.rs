@@ -295,9 +295,10 @@ pub fn condensation(storage: &[crate::case::Stretch], material: &Material) -> Ve
 pub const MAX_CONTACT_TO_RADIUS: f64 = 0.25;
 
 /// The floor contact of a roll stored on its side ([`crate::storage::out_of_round`]) against the
-/// small-contact assumption and the stack's crush limit (elastic contact, grade creep).
-pub fn flat_contact(case: &crate::case::Case, wound: &Wound) -> Vec<Note> {
-    let ps = wound.mean_surface_pressure_pa();
+/// small-contact assumption and the stack's crush limit (elastic contact, grade creep), with the
+/// outer wraps' pressure as the mean over the width of the `lanes` the roll was wound on.
+pub fn flat_contact(case: &crate::case::Case, lanes: &Lanes, wound: &Wound) -> Vec<Note> {
+    let ps = wound.mean_surface_pressure_pa(&lanes.widths());
     let m = &case.material;
     let r = 0.5 * case.roll.diameter_m;
     crate::storage::out_of_round::flat(m, &case.roll, &case.storage, ps, &m.creep.radial)

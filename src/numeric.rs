@@ -178,6 +178,20 @@ pub fn weighted_mean(v: &[f64], w: &[f64]) -> f64 {
     v.iter().zip(w).map(|(a, b)| a * b).sum::<f64>() / sw
 }
 
+/// Integral over the width of the absolute deviation of `v` from its weighted mean: the sum of
+/// `w_i |v_i - m|` with `m` the [`weighted_mean`] (for lanes, `w` their widths in m: the unit of
+/// `v` times metres), so a lane counts for its width, not as one of the lanes. 0 for no input.
+///
+/// ```
+/// // a 25 mm strip at 1 beside a 75 mm lane at 0: mean 0.25; 0.025 x 0.75 + 0.075 x 0.25
+/// let d = rollsleuth::numeric::weighted_abs_deviation(&[1.0, 0.0], &[0.025, 0.075]);
+/// assert!((d - 0.0375).abs() < 1e-15);
+/// ```
+pub fn weighted_abs_deviation(v: &[f64], w: &[f64]) -> f64 {
+    let m = weighted_mean(v, w);
+    v.iter().zip(w).map(|(a, b)| b * (a - m).abs()).sum()
+}
+
 /// The window of a fixed width where a piecewise-constant profile is highest on average.
 #[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
 pub struct WindowMean {

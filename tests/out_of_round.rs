@@ -188,13 +188,13 @@ fn a_contact_wider_than_hertz_allows_is_a_warning() {
     let wi = WindInput::new(&c.material, &c.roll, &c.winding);
     let wound = wind(&wi, &lanes, Options::default()).unwrap();
     // the invented roll's contact is narrow: no warning
-    assert!(rollsleuth::limits::flat_contact(&c, &wound).is_empty());
+    assert!(rollsleuth::limits::flat_contact(&c, &lanes, &wound).is_empty());
     // a stack ten times softer than any paper (0.1 MPa): a = sqrt(4 P R / (pi E)) is about a
     // third of the radius, outside Hertz's small-contact theory
     c.material.stack = Stack::Constant {
         radial_modulus_pa: 1e5,
     };
-    let notes = rollsleuth::limits::flat_contact(&c, &wound);
+    let notes = rollsleuth::limits::flat_contact(&c, &lanes, &wound);
     match notes.as_slice() {
         [Note::Limit(Limit::FlatContact {
             half_width_m,

@@ -76,7 +76,7 @@ impl Scenario {
             &HardnessMap::given(c.hardness.calibration.as_ref()),
             &AgeOptions::default(),
         )?;
-        let unwind = super::unwind::at_unwind(c, &wound, &self.creep);
+        let unwind = super::unwind::at_unwind(c, &wound, &self.creep, &self.lanes);
         Ok(Outcome {
             wound,
             aged,
@@ -133,7 +133,7 @@ pub fn apply(s: &Scenario, change: Change, factor: Option<f64>, slit: &[usize]) 
     let f = factor.unwrap_or(1.0);
     match change {
         Change::Correct(a) => correct(&mut n, a, f, slit),
-        Change::UniformCreep => uniform_creep(&mut n.creep),
+        Change::UniformCreep => uniform_creep(&mut n.creep, &n.lanes.widths()),
         Change::ScaleWebTension => n.case.winding.tension = scaled(&n.case.winding.tension, f),
         Change::ScaleSpeed => n.case.winding.speed_m_s *= f,
     }
@@ -272,10 +272,13 @@ fn even_web(lanes: &mut Lanes) {
     }
 }
 
-/// Give every lane the roll's mean delayed compliance and mean viscous fluidity, per direction.
-pub(super) fn uniform_creep(creep: &mut [LaneCreep]) {
-    let k = creep.len().max(1) as f64;
-    let mean = |g: &dyn Fn(&LaneCreep) -> f64| creep.iter().map(g).sum::<f64>() / k;
+/// Give every lane the roll's mean delayed compliance and mean viscous fluidity, per direction:
+/// means over the width (`widths`, the lanes' widths, m), so a 25 mm edge strip counts for its
+/// 25 mm whatever the lane count.
+pub(super) fn uniform_creep(creep: &mut [LaneCreep], widths: &[f64]) {
+    let mean = |g: &dyn Fn(&LaneCreep) -> f64| {
+        crate::numeric::weighted_mean(&creep.iter().map(g).collect::<Vec<_>>(), widths)
+    };
     let (md_d, md_v, r_d, r_v) = (
         mean(&|c| c.md.delayed),
         mean(&|c| c.md.viscous_time_s.recip()),
@@ -287,5 +290,36 @@ pub(super) fn uniform_creep(creep: &mut [LaneCreep]) {
         c.md.viscous_time_s = md_v.recip();
         c.radial.delayed = r_d;
         c.radial.viscous_time_s = r_v.recip();
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::case::Burgers;
+
+    fn lane(delayed: f64, viscous_time_s: f64) -> LaneCreep {
+        let b = Burgers {
+            delayed,
+            retardation_s: 1e4,
+            viscous_time_s,
+        };
+        LaneCreep { md: b, radial: b }
+    }
+
+    /// Hand computation: a 25 mm edge strip (delayed 1.0, viscous time 1e5 s: fluidity 1e-5 /s)
+    /// beside a 200 mm lane (delayed 0.1, 1e6 s: 1e-6 /s). Over the width (0.225 m): delayed
+    /// (0.025 + 0.02) / 0.225 = 0.2; fluidity (2.5e-7 + 2e-7) / 0.225 = 2e-6 /s, viscous time
+    /// 5e5 s. Counted by lanes it would be 0.55 and 1.82e5 s.
+    #[test]
+    fn uniform_creep_is_the_mean_over_the_width() {
+        let mut c = [lane(1.0, 1e5), lane(0.1, 1e6)];
+        uniform_creep(&mut c, &[0.025, 0.2]);
+        for l in &c {
+            for b in [l.md, l.radial] {
+                assert!((b.delayed - 0.2).abs() < 1e-12, "{b:?}");
+                assert!((b.viscous_time_s - 5e5).abs() < 1e-6, "{b:?}");
+            }
+        }
     }
 }

@@ -234,12 +234,12 @@ fn parabola(readings: &[f64], positions: &[f64], rep: f64, threshold: f64) -> Op
 /// fitted creep made the lanes' mean.
 fn uniform_creep_features(lab: &Case, fitted: &Fitted) -> Result<FeatureValues, DiagnoseError> {
     let mut creep = fitted.creep.clone();
-    super::actions::uniform_creep(&mut creep);
+    super::actions::uniform_creep(&mut creep, &fitted.lanes.widths());
     let (prep, map) = prepared(lab, &fitted.lanes, &fitted.wound, &AgeOptions::default())?;
     let aged = age_prepared(&lab.material, &prep, &fitted.wound, Some(&creep), &map)
         .map_err(FitError::from)?;
     let o = super::actions::Outcome {
-        unwind: super::unwind::at_unwind(lab, &fitted.wound, &creep),
+        unwind: super::unwind::at_unwind(lab, &fitted.wound, &creep, &fitted.lanes),
         wound: fitted.wound.clone(),
         aged,
     };

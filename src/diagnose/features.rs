@@ -62,19 +62,6 @@ fn median(v: &[f64]) -> f64 {
     }
 }
 
-fn correlation(a: &[f64], b: &[f64]) -> f64 {
-    let n = a.len() as f64;
-    let (ma, mb) = (a.iter().sum::<f64>() / n, b.iter().sum::<f64>() / n);
-    let cov: f64 = a.iter().zip(b).map(|(x, y)| (x - ma) * (y - mb)).sum();
-    let va: f64 = a.iter().map(|x| (x - ma).powi(2)).sum();
-    let vb: f64 = b.iter().map(|y| (y - mb).powi(2)).sum();
-    if va <= 1e-30 || vb <= 1e-30 {
-        0.0
-    } else {
-        cov / (va * vb).sqrt()
-    }
-}
-
 /// Mean of `f` over lanes `idx` (0 for none).
 fn mean_of(idx: &[usize], f: &dyn Fn(usize) -> f64) -> f64 {
     if idx.is_empty() {
@@ -273,39 +260,27 @@ fn band_count(u: &Unwind) -> usize {
         .count()
 }
 
-/// Correlation of lane caliper with length at unwind, and the caliper range, % of mean.
+/// Correlation of lane caliper with length at unwind over the width
+/// ([`super::width_means::correlation`]), and the caliper range, % of mean.
 fn caliper_link(lanes: &Lanes, u: &Unwind) -> (f64, f64) {
     let cal: Vec<f64> = lanes.lanes.iter().map(|l| l.caliper_deviation).collect();
     let cmax = max_from(f64::NEG_INFINITY, cal.iter().copied());
     let cmin = min_from(f64::INFINITY, cal.iter().copied());
-    (correlation(&cal, &u.s), (cmax - cmin) * 100.0)
+    let r = super::width_means::correlation(&cal, &u.s, &u.w);
+    (r, (cmax - cmin) * 100.0)
 }
 
 /// Shares of the lane-to-lane differences from hygroexpansion and from creep, in the same
-/// outer-third average (absolute deviations from the lane mean, the web's own length profile at
-/// winding taken out of both).
-fn shares(aged: &Aged, last: usize) -> (f64, f64) {
-    let n = aged.lanes.len() as f64;
+/// outer-third average (absolute deviations from the mean lane integrated over the width `w`, m;
+/// the web's own length profile at winding taken out of both; [`super::width_means::shares`]).
+fn shares(aged: &Aged, last: usize, w: &[f64]) -> (f64, f64) {
     let hyg: Vec<f64> = aged.lanes.iter().map(|l| l.hygro_strain[last]).collect();
     let tot: Vec<f64> = aged
         .lanes
         .iter()
         .map(|l| l.strain_at_unwind[last] - l.web_length_strain)
         .collect();
-    let hm = hyg.iter().sum::<f64>() / n;
-    let tm = tot.iter().sum::<f64>() / n;
-    let dh: f64 = hyg.iter().map(|h| (h - hm).abs()).sum();
-    let dc: f64 = tot
-        .iter()
-        .zip(&hyg)
-        .map(|(t, h)| ((t - h) - (tm - hm)).abs())
-        .sum();
-    if dh + dc > 0.0 {
-        let ms = dh / (dh + dc);
-        (ms, 1.0 - ms)
-    } else {
-        (0.0, 0.0)
-    }
+    super::width_means::shares(&hyg, &tot, w)
 }
 
 /// Share of the longest lane's excess over the mean lane that the web brought to the winder
@@ -337,6 +312,7 @@ struct StressStates {
 /// the outer wraps slide axially (telescope) against friction over the whole width, a
 /// resisting force of friction times the interlayer pressure integrated over the face
 /// (Coulomb's law of friction, Coulomb 1785), so one narrow lane's low pressure does not decide.
+/// Its loss over storage is that integral's ([`super::width_means::pressure_loss_pct`]).
 fn stress_states(wound: &Wound, aged: &Aged, last: usize, widths: &[f64]) -> StressStates {
     let rc = wound.radius_m[0];
     let rr = wound.radius_m[wound.radius_m.len() - 1];
@@ -351,19 +327,16 @@ fn stress_states(wound: &Wound, aged: &Aged, last: usize, widths: &[f64]) -> Str
                 .map(|(t, _)| *t)
         }),
     );
-    let n = aged.lanes.len() as f64;
+    let p0: Vec<f64> = aged
+        .lanes
+        .iter()
+        .map(|l| l.surface_pressure_pa[0])
+        .collect();
+    let p1 = surface_at(aged, last);
     StressStates {
         core_md_mpa: core_md / 1e6,
-        surface_pressure_end_kpa: weighted_mean(&surface_at(aged, last), widths) / 1e3,
-        surface_pressure_loss_pct: aged
-            .lanes
-            .iter()
-            .map(|l| {
-                let p0 = l.surface_pressure_pa[0].max(1.0);
-                100.0 * (p0 - l.surface_pressure_pa[last]) / p0
-            })
-            .sum::<f64>()
-            / n,
+        surface_pressure_end_kpa: weighted_mean(&p1, widths) / 1e3,
+        surface_pressure_loss_pct: super::width_means::pressure_loss_pct(&p0, &p1, widths),
         outer_md_end_mpa: max_from(
             f64::NEG_INFINITY,
             aged.lanes
@@ -533,7 +506,7 @@ pub fn compute(case: &Case, lanes: &Lanes, o: &super::actions::Outcome) -> Featu
     let ends = end_lanes(lanes);
     let len = length_pattern(&u, &centre, &ends);
     let (caliper_correlation, caliper_range_pct) = caliper_link(lanes, &u);
-    let (moisture_share, creep_share) = shares(aged, last);
+    let (moisture_share, creep_share) = shares(aged, last, &u.w);
     let web_length_share = web_share(aged, &u);
     let st = stress_states(wound, aged, last, &u.w);
     let (edge_moisture, moisture_change) = moisture_change(aged, last, &centre, &ends);

@@ -20,6 +20,7 @@ mod trend_scan;
 mod unevenness;
 pub mod unwind;
 mod whatif;
+mod width_means;
 
 pub use attribution::{Attribution, RunCount};
 pub use corrections::CheckedCorrection;
@@ -283,7 +284,7 @@ pub fn diagnose_fitted(
     let fitted_outcome = Outcome {
         wound: wound.clone(),
         aged: fit.aged.clone(),
-        unwind: unwind::at_unwind(case, wound, creep),
+        unwind: unwind::at_unwind(case, wound, creep, lanes),
     };
     let feats = features::compute(case, lanes, &fitted_outcome);
     let fired = rules::evaluate(table, &feats.values);

@@ -336,7 +336,7 @@ fn stored(
 /// The features of a stored roll on `lanes` aged (`aged`) with `creep` per lane.
 fn features_of(lab: &Case, lanes: &Lanes, creep: &[LaneCreep], s: Stored, aged: Aged) -> Features {
     let o = super::actions::Outcome {
-        unwind: super::unwind::at_unwind(lab, &s.wound, creep),
+        unwind: super::unwind::at_unwind(lab, &s.wound, creep, lanes),
         wound: s.wound,
         aged,
     };

@@ -61,7 +61,7 @@ pub(super) fn posterior_states(lab: &Case, fitted: &Fitted) -> Result<Vec<State>
     for k in 0..count {
         let creep: Vec<LaneCreep> = fitted.fit.lanes.iter().map(|l| l.draws[k]).collect();
         let aged = aged_at(k, &creep)?;
-        let unwind = super::unwind::at_unwind(lab, &fitted.wound, &creep);
+        let unwind = super::unwind::at_unwind(lab, &fitted.wound, &creep, &fitted.lanes);
         let o = match slot.take() {
             Some(mut o) => {
                 o.aged = aged;

@@ -18,6 +18,8 @@
 //! **Invariant:** pure functions; SI in and out.
 
 use crate::case::Case;
+use crate::lanes::Lanes;
+use crate::numeric::weighted_mean;
 use crate::storage::out_of_round::{self, Flat};
 use crate::storage::LaneCreep;
 use crate::winding::Wound;
@@ -85,19 +87,21 @@ pub fn swing(case: &Case, run_out_m: f64) -> Swing {
     }
 }
 
-/// The roll at unwind after storage: the flat with the lanes' mean radial creep law and the
-/// outer wraps' mean wound-in pressure, and its swing.
-pub fn at_unwind(case: &Case, wound: &Wound, creep: &[LaneCreep]) -> AtUnwind {
-    let n = creep.len().max(1) as f64;
+/// The roll at unwind after storage: the flat with the lanes' mean radial creep law (delayed
+/// compliance and viscous fluidity) and the outer wraps' mean wound-in pressure, and its swing.
+/// The means are over the width (`lanes`' widths): the floor contact runs along the whole barrel,
+/// so a 25 mm edge strip counts for its 25 mm whatever the lane count.
+pub fn at_unwind(case: &Case, wound: &Wound, creep: &[LaneCreep], lanes: &Lanes) -> AtUnwind {
+    let w = lanes.widths();
     let mut radial = case.material.creep.radial;
     if !creep.is_empty() {
-        radial.delayed = creep.iter().map(|c| c.radial.delayed).sum::<f64>() / n;
-        radial.viscous_time_s = n / creep
-            .iter()
-            .map(|c| c.radial.viscous_time_s.recip())
-            .sum::<f64>();
+        let mean = |g: &dyn Fn(&LaneCreep) -> f64| {
+            weighted_mean(&creep.iter().map(g).collect::<Vec<_>>(), &w)
+        };
+        radial.delayed = mean(&|c| c.radial.delayed);
+        radial.viscous_time_s = mean(&|c| c.radial.viscous_time_s.recip()).recip();
     }
-    let ps = wound.mean_surface_pressure_pa();
+    let ps = wound.mean_surface_pressure_pa(&w);
     let flat = out_of_round::flat(&case.material, &case.roll, &case.storage, ps, &radial);
     AtUnwind {
         swing: flat.map(|f| swing(case, f.residual_depth_m)),

@@ -120,7 +120,7 @@ pub(crate) fn limit_notes(
         &case.roll,
     ));
     found.extend(crate::limits::condensation(&case.storage, &case.material));
-    found.extend(crate::limits::flat_contact(case, wound));
+    found.extend(crate::limits::flat_contact(case, lanes, wound));
     found.extend(crate::limits::air_floats(case));
     found.extend(crate::limits::unwind_tension(case));
     let rep = observe::DIAMETER_REPEATABILITY_M;

@@ -90,13 +90,69 @@ pub struct Wound {
 }
 
 impl Wound {
-    /// Interlayer pressure in the outer wraps' zone, mean over the lanes, Pa.
-    pub fn mean_surface_pressure_pa(&self) -> f64 {
-        let k = self.lanes.len().max(1) as f64;
-        self.lanes
+    /// Interlayer pressure in the outer wraps' zone, the mean over the width, Pa: each lane's
+    /// [`LaneSummary::surface_zone_pressure_pa`] weighted by its width (`widths_m`, m, one per
+    /// lane, as the lanes the roll was wound on give them), so a 25 mm edge strip counts for
+    /// its 25 mm whatever the lane count. 0 without lanes.
+    pub fn mean_surface_pressure_pa(&self, widths_m: &[f64]) -> f64 {
+        let p: Vec<f64> = self
+            .lanes
             .iter()
             .map(|l| l.summary.surface_zone_pressure_pa)
-            .sum::<f64>()
-            / k
+            .collect();
+        crate::numeric::weighted_mean(&p, widths_m)
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn lane(p: f64) -> LaneStress {
+        let summary = LaneSummary {
+            peak_pressure_pa: p,
+            peak_pressure_radius_m: 0.1,
+            core_pressure_pa: p,
+            surface_zone_pressure_pa: p,
+            tangential_min_pa: 0.0,
+            tangential_max_pa: 0.0,
+            compressive_from_m: None,
+            compressive_to_m: None,
+            wound_in_tension_mean_n_per_m: 0.0,
+            outer_radius_m: 0.5,
+            running_surface_zone_pressure_pa: p,
+        };
+        LaneStress {
+            position_m: 0.0,
+            caliper_m: 1e-4,
+            radial_stress_pa: Vec::new(),
+            tangential_stress_pa: Vec::new(),
+            wound_in_tension_n_per_m: Vec::new(),
+            nip_load_n_per_m: 0.0,
+            nip_contact_radius_m: 0.5,
+            summary,
+        }
+    }
+
+    /// Hand computation: a 25 mm edge strip at 10 kPa beside a 200 mm lane at 28 kPa: over the
+    /// width (0.25 + 5.6) / 0.225 kN/m = 26 kPa; the plain mean of the two lanes would be 19 kPa.
+    #[test]
+    fn mean_surface_pressure_is_the_mean_over_the_width() {
+        let w = Wound {
+            radius_m: vec![0.1, 0.5],
+            lanes: vec![lane(10e3), lane(28e3)],
+            layers: 1.0,
+            layers_per_node: 1.0,
+            grid_nodes: 2,
+            layer_thickness_m: 1e-4,
+            stack_compression: 0.0,
+            lift_off_speed_m_s: 0.0,
+            levelling: 0.5,
+            shear_lag_m: 1.0,
+            core_stiffness_pa: None,
+            secant: Secant::default(),
+        };
+        let p = w.mean_surface_pressure_pa(&[0.025, 0.2]);
+        assert!((p - 26e3).abs() < 1e-6, "{p}");
     }
 }
