@@ -257,19 +257,18 @@ fn outlier_test(readings: &[f64], at: &[i64], rep: f64, level: f64, way: Outlyin
 pub(super) fn band_test(lab: &Case, lanes: &Lanes, rep: f64, level: f64) -> BandTest {
     let (readings, positions) = caliper_readings(lab, lanes);
     let grid = trend_scan::grid(&positions, readings.len());
-    let mut t = thick_band(&readings, &grid, rep, level);
+    let [thick, over] = thick_legs(&readings, &grid, rep, level);
     let scaled: Vec<f64> = readings.iter().map(|x| x / rep.max(1e-300)).collect();
-    let thick = outlier_test(&readings, &grid, rep, level, Outlying::Thick).threshold_sigmas;
+    let passed = thick.chance.max(over.chance) <= level;
     let mut at = band_place::standing(
         &band_place::thick_excesses(&scaled),
-        thick,
-        t.chance <= level,
+        thick.threshold_sigmas,
+        passed,
     );
     // and the band of one to three readings the trend leg holds out, where it stands: a band
     // wider than a reading is placed whole, though its inner readings stand over neighbours
     // that are the band's own
     if readings.len() >= TREND_READINGS {
-        let over = outlier_test(&readings, &grid, rep, level, Outlying::ThickOverTrend);
         if let (true, Some((first, k))) = (
             over.chance <= level,
             trend_scan::over_trend_band(&scaled, &grid),
@@ -279,13 +278,14 @@ pub(super) fn band_test(lab: &Case, lanes: &Lanes, rep: f64, level: f64) -> Band
             at.dedup();
         }
     }
+    let mut t = both_legs([thick, over]);
     t.carriers = band_place::carriers(lanes, &positions, &at);
     t.standing = at;
     t
 }
 
-/// The band test of caliper `readings` on grid `at` with repeatability `rep` at `level`: a band
-/// must stand out both from the trend through the other readings and a reading from the median of
+/// The two legs of the band test of caliper `readings` on grid `at` with repeatability `rep` at
+/// `level`, [`Outlying::Thick`] then [`Outlying::ThickOverTrend`]: a band must stand out both from the trend through the other readings and a reading from the median of
 /// its [`NEIGHBOURS`] nearest readings ([`Outlying::ThickOverTrend`], [`Outlying::Thick`]); the
 /// larger of the two chances (an intersection-union test, whose size is at most either test's:
 /// Berger 1982, Technometrics 24:295-300, from memory). The first alone takes the thick parts of a
@@ -293,10 +293,13 @@ pub(super) fn band_test(lab: &Case, lanes: &Lanes, rep: f64, level: f64) -> Band
 /// quadratic) for a band, the second alone loses power against a band with shoulders (its
 /// neighbours' median is noisier and sits on the shoulders) and takes a wedge's thick end or a
 /// dish's thick edges for one (their neighbours all lie on their thin side). Its threshold is the
-/// larger of the two.
-fn thick_band(readings: &[f64], at: &[i64], rep: f64, level: f64) -> BandTest {
-    let a = outlier_test(readings, at, rep, level, Outlying::Thick);
-    let b = outlier_test(readings, at, rep, level, Outlying::ThickOverTrend);
+/// larger of the two ([`both_legs`]).
+fn thick_legs(readings: &[f64], at: &[i64], rep: f64, level: f64) -> [BandTest; 2] {
+    [Outlying::Thick, Outlying::ThickOverTrend].map(|w| outlier_test(readings, at, rep, level, w))
+}
+
+/// The band test from its two legs ([`thick_legs`]): the larger chance and threshold.
+fn both_legs([a, b]: [BandTest; 2]) -> BandTest {
     BandTest {
         chance: a.chance.max(b.chance),
         threshold_sigmas: a.threshold_sigmas.max(b.threshold_sigmas),
@@ -377,7 +380,7 @@ mod tests {
         super::outlier_test(v, &index_grid(v.len()), rep, level, way)
     }
     fn thick_band(v: &[f64], rep: f64, level: f64) -> BandTest {
-        super::thick_band(v, &index_grid(v.len()), rep, level)
+        super::both_legs(super::thick_legs(v, &index_grid(v.len()), rep, level))
     }
     use rand::SeedableRng;
 
