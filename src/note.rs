@@ -146,6 +146,19 @@ pub enum Note {
         /// roll), taken out of `uniform_creep` for the crown's own part.
         storage_part: f64,
     },
+    /// A strength limit (`Note::Limit`) passed only as the calipers (and web profiles) read,
+    /// while the finding of the same state was dropped as within measurement noise
+    /// ([`crate::diagnose::limit_noise`]): the readings cannot tell whether the roll is beyond
+    /// it. Shown as a warning next to the limit's own.
+    LimitOnNoise {
+        which: Strength,
+        /// The state over its limit as measured, and on the roll with level calipers (the
+        /// noise-free uniform roll, or the profiles made uniform), dimensionless.
+        ratio: f64,
+        level_ratio: f64,
+        /// Chance that measurement noise alone moves the state this far (the dropped finding's).
+        noise_chance: f64,
+    },
     /// A rule that fired on the fitted roll holds in fewer than half of the plausible states.
     Unlikely {
         defect: Defect,
@@ -456,6 +469,7 @@ impl Note {
         matches!(
             self,
             Note::Limit(_)
+                | Note::LimitOnNoise { .. }
                 | Note::LaneNotExplained { .. }
                 | Note::RollNotExplained { .. }
                 | Note::WindingDiameter(_)

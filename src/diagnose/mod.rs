@@ -11,6 +11,7 @@ pub mod confidence;
 pub mod corrections;
 mod crown;
 pub mod features;
+pub mod limit_noise;
 pub mod local;
 mod noise;
 mod profile_test;
@@ -328,6 +329,7 @@ pub fn diagnose_fitted(
         &mut notes,
         opt.nodes,
     )?;
+    limit_noise::qualify(&mut notes);
     // `case` accepts only vocabulary words as the complaint
     let complaint = case.complaint.as_deref().and_then(Defect::from_word);
     let agreement = complaint.map(|c| agreement(c, &findings));

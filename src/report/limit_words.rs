@@ -8,9 +8,43 @@ use crate::units::{self, Kind, System};
 /// What a passed limit means for the results, in the limits' sentences.
 pub const SO: &str = "results that depend on it are not physical; check the inputs";
 
+/// A strength's state, its limit (with what passing it does) and the case field it comes from.
+fn strength_words(which: crate::note::Strength) -> (&'static str, &'static str, &'static str) {
+    use crate::note::Strength;
+    match which {
+        Strength::ZdCrush => (
+            "interlayer pressure",
+            "the stack's crush limit",
+            "material.strength.zd_crush",
+        ),
+        Strength::MdCompression => (
+            "MD compression",
+            "the web's MD compressive strength: layers can buckle (starring)",
+            "material.strength.md_compressive",
+        ),
+        Strength::MdTension => (
+            "MD tension",
+            "the web's MD tensile strength: wraps can split",
+            "material.strength.md_tensile",
+        ),
+        Strength::CoreCollapse => (
+            "pressure on the core",
+            "the core's collapse pressure (its rating, else thin-ring buckling)",
+            "roll.core",
+        ),
+    }
+}
+
+/// A strength's state and its limit, as [`crate::note::Note::LimitOnNoise`] says them:
+/// ("pressure on the core", "the core's collapse pressure (...)").
+pub fn strength_limit(which: crate::note::Strength) -> (&'static str, &'static str) {
+    let (what, limit, _) = strength_words(which);
+    (what, limit.split(':').next().unwrap_or(limit))
+}
+
 /// A physical limit passed, as a sentence that says what it means for the findings.
 pub fn limit(l: &crate::note::Limit, sys: System) -> String {
-    use crate::note::{Limit, Strength};
+    use crate::note::Limit;
     match *l {
         Limit::AboveLiftOff {
             speed_m_s,
@@ -34,12 +68,7 @@ pub fn limit(l: &crate::note::Limit, sys: System) -> String {
             value_pa,
             limit_pa,
         } => {
-            let (what, limit, field) = match which {
-                Strength::ZdCrush => ("interlayer pressure", "the stack's crush limit", "material.strength.zd_crush"),
-                Strength::MdCompression => ("MD compression", "the web's MD compressive strength: layers can buckle (starring)", "material.strength.md_compressive"),
-                Strength::MdTension => ("MD tension", "the web's MD tensile strength: wraps can split", "material.strength.md_tensile"),
-                Strength::CoreCollapse => ("pressure on the core", "the core's collapse pressure (its rating, else thin-ring buckling)", "roll.core"),
-            };
+            let (what, limit, field) = strength_words(which);
             let mpa = |p: f64| said(sys, format!("{} MPa", units::sig(p / 1e6, 4)), p, Kind::Pressure, false);
             format!(
                 "{}: {what} of {} is {:.2} times {limit} ({}); check {field} and the winding, or treat the roll with care",

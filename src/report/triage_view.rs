@@ -2,7 +2,6 @@
 
 use super::{pos, table, words, SAFETY};
 use crate::fit::{ModelFit, Verdict};
-use crate::note::Note;
 use crate::units::System;
 use crate::vocab::{Defect, Likelihood};
 use std::cmp::Ordering;
@@ -30,8 +29,12 @@ pub struct TriageRow {
     pub complaint: Option<Defect>,
     pub agrees: Option<bool>,
     /// How many physical limits the roll's predicted state is beyond
-    /// ([`crate::note::Limit::beyond_physical`]); `None` when not diagnosed.
+    /// ([`crate::note::Limit::beyond_physical`]) that the readings resolve; `None` when not
+    /// diagnosed.
     pub limits_exceeded: Option<u32>,
+    /// How many more it passes only as its calipers read, within measurement noise
+    /// ([`crate::diagnose::limit_noise`]); `None` when not diagnosed.
+    pub limits_within_noise: Option<u32>,
     /// Whether the model explains the roll's surveys, with its misfit; `None` when not
     /// diagnosed.
     pub model_fit: Option<ModelFit>,
@@ -59,6 +62,7 @@ impl TriageRow {
     ) -> Self {
         let mut defects: Vec<Defect> = d.findings.iter().map(|f| f.defect).collect();
         defects.dedup();
+        let (resolved, on_noise) = crate::diagnose::limit_noise::count(&d.notes);
         TriageRow {
             file: file.display().to_string(),
             case: d.case.clone(),
@@ -69,12 +73,8 @@ impl TriageRow {
             defects,
             complaint: d.agreement.as_ref().map(|a| a.complaint),
             agrees: d.agreement.as_ref().map(|a| a.agrees),
-            limits_exceeded: Some(
-                d.notes
-                    .iter()
-                    .filter(|n| matches!(n, Note::Limit(l) if l.beyond_physical()))
-                    .count() as u32,
-            ),
+            limits_exceeded: Some(resolved),
+            limits_within_noise: Some(on_noise),
             model_fit: Some(d.confidence.model_fit()),
             error: None,
             warnings: words::warnings_in(d, sys),
@@ -94,6 +94,7 @@ impl TriageRow {
             complaint: None,
             agrees: None,
             limits_exceeded: None,
+            limits_within_noise: None,
             model_fit: None,
             error: Some(e.to_string()),
             warnings: Vec::new(),
@@ -105,13 +106,13 @@ impl TriageRow {
         (self.model_fit.as_ref()).is_some_and(|m| m.verdict == Verdict::NotExplained)
     }
     /// The triage order, worst first: failures, then rolls beyond a physical limit, then rolls
-    /// the model does not explain, then the rest; within each, as `diagnose` orders findings, by
+    /// the model does not explain or that pass a limit only within measurement noise, then the rest; within each, as `diagnose` orders findings, by
     /// the first finding's graded likelihood (a roll with none last), then its probability,
     /// then its rule's weight; then by the spread.
     pub fn rank_cmp(&self, other: &TriageRow) -> Ordering {
         let group = |r: &TriageRow| match (&r.error, r.spread_mm_per_m) {
             (None, Some(_)) if r.limits_exceeded > Some(0) => 2,
-            (None, Some(_)) => u8::from(r.not_explained()),
+            (None, Some(_)) => u8::from(r.not_explained() || r.limits_within_noise > Some(0)),
             _ => 3,
         };
         let num = |x: Option<f64>| x.unwrap_or(0.0);
@@ -134,7 +135,7 @@ impl TriageRow {
 /// stands on its own in a spreadsheet, so a row that advises action carries the safety note in
 /// `safety` (empty otherwise). `model_fit` is `explained`, `lanes_not_explained` or
 /// `not_explained` ([`crate::fit::Verdict`]), with the roll's misfit in noise units beside it.
-pub const TRIAGE_CSV_COLUMNS: [&str; 14] = [
+pub const TRIAGE_CSV_COLUMNS: [&str; 15] = [
     "file",
     "case",
     "spread_mm_per_m",
@@ -149,6 +150,7 @@ pub const TRIAGE_CSV_COLUMNS: [&str; 14] = [
     "safety",
     "model_fit",
     "roll_misfit_noise_units",
+    "limits_within_noise",
 ];
 
 /// The header line of the triage CSV.
@@ -193,6 +195,7 @@ pub fn triage_csv_rows(rows: &[TriageRow]) -> String {
                 (r.model_fit.as_ref())
                     .map(|m| format!("{:.2}", m.roll_misfit_noise_units))
                     .unwrap_or_default(),
+                (r.limits_within_noise.map(|n| n.to_string())).unwrap_or_default(),
             ])?;
         }
         Ok(())
@@ -257,6 +260,9 @@ pub fn triage_text(rows: &[TriageRow], sys: System) -> String {
     if rows.iter().any(|r| r.limits_exceeded > Some(0)) {
         out.push_str("Beyond limits: the roll's predicted state passes a physical limit (strength, crush, core, lift-off, air film, ...), so results resting on it are not physical; such rolls are listed first, after those not diagnosed. Check their inputs and the warnings.\n");
     }
+    if rows.iter().any(|r| r.limits_within_noise > Some(0)) {
+        out.push_str("Within noise: the roll passes a strength limit only as its calipers read, and measurement noise alone moves it that far (a roll with level calipers is within it): the readings cannot tell whether it is beyond; such rolls are listed with those not explained. Treat them with care and read their warnings.\n");
+    }
     if rows.iter().any(TriageRow::not_explained) {
         out.push_str(&format!("Not explained: the model does not explain the roll's surveys (readings miss the fit by over {:.0} noise units, rms), so its findings, or the absence of findings, rest on an unexplained model; such rolls are listed after those beyond limits. Check their surveys (instrument, scale, positions, ages) and storage history, and run `rollsleuth diagnose CASE` on each.\n", crate::fit::MISFIT_LIMIT));
     }
@@ -303,15 +309,22 @@ fn cells(r: &TriageRow) -> Vec<String> {
             Some(false) => "no".into(),
             None => String::new(),
         },
-        match r.limits_exceeded {
-            Some(0) => "none".into(),
-            Some(n) => format!("{n} (see warnings)"),
-            None => String::new(),
-        },
+        limits_cell(r.limits_exceeded, r.limits_within_noise),
         (r.model_fit.as_ref())
             .map(super::fit_words::triage_cell)
             .unwrap_or_default(),
     ]
+}
+
+/// The "beyond limits" cell: the limits the readings resolve, and those within noise.
+fn limits_cell(resolved: Option<u32>, on_noise: Option<u32>) -> String {
+    match (resolved, on_noise.unwrap_or(0)) {
+        (None, _) => String::new(),
+        (Some(0), 0) => "none".into(),
+        (Some(0), k) => format!("{k} within noise (see warnings)"),
+        (Some(n), 0) => format!("{n} (see warnings)"),
+        (Some(n), k) => format!("{n}, {k} more within noise (see warnings)"),
+    }
 }
 
 /// The note for a subfolder of a folder given to triage: it is not searched.
