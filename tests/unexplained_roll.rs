@@ -196,3 +196,35 @@ fn triage_shows_the_verdict_and_ranks_the_unexplained_roll_with_those_needing_at
     let demo = rows.iter().find(|r| &r[col("file")] == DEMO).unwrap();
     assert_eq!(&demo[col("model_fit")], "explained");
 }
+
+/// `whatif` on the unexplained roll opens with the verdict (the changed roll runs on the creep
+/// fitted to the surveys the model misses), carries it in its JSON and exits 3; on the demo
+/// (explained) it does neither.
+#[test]
+fn whatif_says_the_measured_roll_is_not_explained_and_exits_3() {
+    let dir = scratch("whatif");
+    let f = hardness_rises(&dir);
+    let f = f.to_str().unwrap();
+    let set = ["--set", "winding.tension=1.5 pli"];
+    let (code, out, _) = run(&[&["whatif", f, "--quiet"][..], &set[..]].concat());
+    assert_eq!(code, 3, "{out}");
+    let flat = out.split_whitespace().collect::<Vec<_>>().join(" ");
+    assert!(
+        flat.contains("Not explained: the model does not explain the surveys."),
+        "{out}"
+    );
+    let (code, out, _) = run(&[&["whatif", f, "--json"][..], &set[..]].concat());
+    assert_eq!(code, 3);
+    let v = json(&out);
+    assert_eq!(v["model_fit"]["verdict"], "not_explained");
+    let warned = v["warnings"].as_array().unwrap().iter();
+    assert!(
+        warned
+            .filter_map(|w| w.as_str())
+            .any(|w| w.starts_with("as measured: the roll is not explained")),
+        "{v}"
+    );
+    let (code, out, _) = run(&[&["whatif", "--quiet"][..], &set[..]].concat());
+    assert_ne!(code, 3, "{out}");
+    assert!(!out.contains("Not explained"), "{out}");
+}

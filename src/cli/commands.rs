@@ -315,12 +315,13 @@ pub fn whatif(arg: &CaseArg, rules: &RulesArg, out: Output) -> Result<Outcome, C
     } else {
         report::whatif_text(&w, out.sys)?
     };
-    // exit 1 as diagnose does: the changed roll still has likely defects
-    Ok(if w.defects_after.is_empty() {
-        Outcome::Ok(s)
-    } else {
-        Outcome::Findings(s)
-    })
+    // exit 3 as diagnose does for a measured roll the model does not explain (the changed roll
+    // runs on its fitted creep), else 1 while the changed roll still has likely defects
+    Ok(Outcome::of_roll(
+        s,
+        !w.defects_after.is_empty(),
+        &w.model_fit,
+    ))
 }
 
 /// Whether a `--set path=value` writes the lane layout (`lanes`, `lanes.count`, `lanes.edges`).

@@ -41,11 +41,15 @@ pub struct WhatIf {
     pub case_warnings: Vec<String>,
     #[serde(skip)]
     pub notes: Vec<crate::note::Note>,
-    /// The same for the roll as measured.
+    /// The same for the roll as measured: its warnings as `diagnose` gives them (limits, and
+    /// readings the model does not explain).
     #[serde(skip)]
     pub case_warnings_before: Vec<String>,
     #[serde(skip)]
     pub notes_before: Vec<crate::note::Note>,
+    /// Whether the model explains the measured roll's surveys: the changed roll is run with the
+    /// creep fitted to them.
+    pub model_fit: crate::fit::ModelFit,
 }
 
 /// Compare a case with a variant of it. The variant's lanes are rebuilt from its own profiles
@@ -101,11 +105,8 @@ pub fn what_if(
         what_if: false,
         ..*opt
     };
-    let found: Vec<Defect> = super::diagnose_fitted(base, table, &screen, &f)?
-        .findings
-        .iter()
-        .map(|x| x.defect)
-        .collect();
+    let measured = super::diagnose_fitted(base, table, &screen, &f)?;
+    let found: Vec<Defect> = measured.findings.iter().map(|x| x.defect).collect();
     let screened_out: Vec<Defect> = (defects(&fb).into_iter())
         .filter(|d| !found.contains(d))
         .collect();
@@ -128,7 +129,10 @@ pub fn what_if(
             .filter(|n| !matches!(n, crate::note::Note::WindingDiameter(_)))
             .collect(),
         case_warnings_before: base.warnings.clone(),
-        notes_before: crate::fit::limit_notes(base, &lb, &ob.wound, &ob.aged),
+        notes_before: (measured.notes.into_iter())
+            .filter(crate::note::Note::is_warning)
+            .collect(),
+        model_fit: measured.confidence.model_fit(),
     })
 }
 

@@ -439,8 +439,11 @@ pub fn whatif_text(w: &crate::diagnose::WhatIf, sys: System) -> Result<String, W
             defect_list(&w.screened_out)
         )
     };
+    let rests = "The defects of both rolls, and their absence,";
+    let fit = (super::fit_words::opening(&w.model_fit, sys, rests))
+        .map_or(String::new(), |s| format!("{s}\n"));
     Ok(format!(
-        "What if, case {}: {}\nPredicted length spread at unwind: {:.2} -> {:.2} mm per m of web.\nLikely defects: {} -> {}.\n{screened}{t}\nLane length at unwind over the width-weighted mean lane; creep as fitted on the measured roll.\n{notes}{SAFETY}\n",
+        "What if, case {}: {}\n{fit}Predicted length spread at unwind: {:.2} -> {:.2} mm per m of web.\nLikely defects: {} -> {}.\n{screened}{t}\nLane length at unwind over the width-weighted mean lane; creep as fitted on the measured roll.\n{notes}{SAFETY}\n",
         w.case,
         w.changes.join(", "),
         w.spread_before_mm_per_m,
@@ -471,6 +474,7 @@ mod tests {
             notes: Vec::new(),
             case_warnings_before: Vec::new(),
             notes_before: Vec::new(),
+            model_fit: crate::fit::explained::from_lanes(0.8, [(0.1, 0.7)].into_iter()),
         }
     }
 
