@@ -53,6 +53,23 @@ fn cond_with_noise(e: &crate::diagnose::Evidence, sys: System) -> String {
     }
 }
 
+/// Why evidence values lie outside their creep 5-95 % range, naming them; `None` when none does.
+fn outside_range(evidence: &[crate::diagnose::Evidence]) -> Option<String> {
+    let out: Vec<&str> = (evidence.iter())
+        .filter(|e| match (e.p05, e.p95) {
+            (Some(lo), Some(hi)) => e.value < lo || e.value > hi,
+            _ => false,
+        })
+        .map(|e| words::feature(e.feature))
+        .collect();
+    (!out.is_empty()).then(|| {
+        format!(
+            "Outside its creep 5-95 % range: {}. An evidence value is the fitted creep's; over the plausible states each lane's creep scatters within what its readings leave uncertain, and a share or a correlation across the lanes falls as they scatter.",
+            out.join(", ")
+        )
+    })
+}
+
 /// The number of a value with its unit ("1.41 per mille" -> "1.41").
 fn number(v: &str) -> &str {
     v.split(' ').next().unwrap_or(v)
@@ -185,6 +202,9 @@ fn finding_text(rank: usize, f: &Finding, sys: System) -> String {
         ]);
     }
     let _ = writeln!(out, "{t}");
+    if let Some(line) = outside_range(&f.evidence) {
+        let _ = writeln!(out, "   {line}");
+    }
     if let Some(a) = &f.attribution {
         let _ = writeln!(
             out,
@@ -294,4 +314,37 @@ pub fn json(d: &Diagnosis) -> Value {
         "warnings": words::warnings(d),
         "safety": d.advises_action.then_some(SAFETY),
     })
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::diagnose::Evidence;
+
+    fn evidence(feature: Feature, value: f64, range: Option<(f64, f64)>) -> Evidence {
+        Evidence {
+            feature,
+            value,
+            above: Some(0.5),
+            below: None,
+            source: String::new(),
+            p05: range.map(|r| r.0),
+            p95: range.map(|r| r.1),
+            noise_threshold: None,
+        }
+    }
+
+    /// Only a value outside its own range is named; a value without a range is not.
+    #[test]
+    fn an_evidence_value_outside_its_range_is_named_and_explained() {
+        let e = [
+            evidence(Feature::MoistureShare, 0.70, Some((0.51, 0.67))),
+            evidence(Feature::SpreadMmPerM, 1.0, Some((0.9, 1.1))),
+            evidence(Feature::CaliperCorrelation, 0.9, None),
+        ];
+        let s = outside_range(&e).unwrap();
+        assert!(s.contains(words::feature(Feature::MoistureShare)), "{s}");
+        assert!(!s.contains(words::feature(Feature::SpreadMmPerM)), "{s}");
+        assert_eq!(outside_range(&e[1..]), None);
+    }
 }

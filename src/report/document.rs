@@ -274,7 +274,7 @@ fn findings(r: &ReportData, v: &mut Vec<Block>) {
         v.push(Block::Para(vec![t(super::words::no_finding(d))]));
     }
     v.push(Block::Para(vec![t(format!(
-        "Probability: the share of {} plausible states of the fitted creep (posterior draws) in which the rule holds. A finding is kept only where measurement noise alone would make it with a chance of {} % or less, shared over the features tested (compared with {} uniform rolls that differ only by noise). An evidence value is that of the fitted creep; its \"creep 5-95 %\" range is over the plausible states, in which each lane's creep varies within what its readings leave uncertain, so a feature that falls as the lanes scatter (a correlation) can lie above its range.",
+        "Probability: the share of {} plausible states of the fitted creep (posterior draws) in which the rule holds. A finding is kept only where measurement noise alone would make it with a chance of {} % or less, shared over the features tested (compared with {} uniform rolls that differ only by noise). An evidence value is that of the fitted creep; its \"creep 5-95 %\" range is over the plausible states, in which each lane's creep varies within what its readings leave uncertain, so a feature that falls as the lanes scatter (a share or a correlation across the lanes) can lie above its range.",
         d.confidence.states,
         crate::units::sig(crate::diagnose::confidence::FAMILY_LEVEL * 100.0, 2),
         d.confidence.noise_rolls
