@@ -62,12 +62,14 @@ fn median(v: &[f64]) -> f64 {
     }
 }
 
-/// Mean of `f` over lanes `idx` (0 for none).
-fn mean_of(idx: &[usize], f: &dyn Fn(usize) -> f64) -> f64 {
-    if idx.is_empty() {
-        0.0
+/// Mean of `f` over lanes `idx` weighted by their widths `w` (m), so explicit lanes of unequal
+/// widths count by the web they hold (0 for none).
+fn mean_of(idx: &[usize], w: &[f64], f: &dyn Fn(usize) -> f64) -> f64 {
+    let total: f64 = idx.iter().map(|&i| w[i]).sum();
+    if total > 0.0 {
+        idx.iter().map(|&i| w[i] * f(i)).sum::<f64>() / total
     } else {
-        idx.iter().map(|&i| f(i)).sum::<f64>() / idx.len() as f64
+        0.0
     }
 }
 
@@ -186,20 +188,21 @@ fn length_pattern(u: &Unwind, centre: &[usize], edges: &[usize]) -> LengthPatter
         local_peak: local_peak(s, &u.spans),
         peak_width_mm: peak_lanes.iter().map(|&i| u.w[i]).sum::<f64>() * 1e3,
         peak_lanes,
-        centre_minus_edges: centre_against_ends(s, centre, edges),
+        centre_minus_edges: centre_against_ends(s, &u.w, centre, edges),
         side_to_side: side_to_side(u),
         long_edge: super::local::end_excess(&u.spans, s),
         band_count: band_count(u) as f64,
     }
 }
 
-/// Centre half (`centre`) against the end lanes (`ends`) as a two-sided pattern
-/// ([`super::local::centre_minus_both`]), in the unit of `s`; 0 unless there are two end lanes
-/// and a centre lane apart from them (one or two lanes resolve no centre against edges).
-pub(super) fn centre_against_ends(s: &[f64], centre: &[usize], ends: &[usize]) -> f64 {
+/// Centre half (`centre`; its mean weighted by the lane widths `w`, m) against the end lanes
+/// (`ends`) as a two-sided pattern ([`super::local::centre_minus_both`]), in the unit of `s`; 0
+/// unless there are two end lanes and a centre lane apart from them (one or two lanes resolve
+/// no centre against edges).
+pub(super) fn centre_against_ends(s: &[f64], w: &[f64], centre: &[usize], ends: &[usize]) -> f64 {
     match ends {
         [a, b] if !centre.is_empty() && !centre.iter().any(|i| i == a || i == b) => {
-            super::local::centre_minus_both(mean_of(centre, &|i| s[i]), s[*a], s[*b])
+            super::local::centre_minus_both(mean_of(centre, w, &|i| s[i]), s[*a], s[*b])
         }
         _ => 0.0,
     }
@@ -356,10 +359,16 @@ pub(super) fn surface_at(aged: &Aged, last: usize) -> Vec<f64> {
 
 /// Moisture change over storage: edge lanes minus centre lanes, and the largest of any lane,
 /// points.
-fn moisture_change(aged: &Aged, last: usize, centre: &[usize], edges: &[usize]) -> (f64, f64) {
+fn moisture_change(
+    aged: &Aged,
+    last: usize,
+    w: &[f64],
+    centre: &[usize],
+    edges: &[usize],
+) -> (f64, f64) {
     let dmc = |i: usize| aged.lanes[i].moisture_pct[last] - aged.lanes[i].moisture_pct[0];
     (
-        mean_of(edges, &dmc) - mean_of(centre, &dmc),
+        mean_of(edges, w, &dmc) - mean_of(centre, w, &dmc),
         max_from(0.0, (0..aged.lanes.len()).map(|i| dmc(i).abs())),
     )
 }
@@ -509,7 +518,7 @@ pub fn compute(case: &Case, lanes: &Lanes, o: &super::actions::Outcome) -> Featu
     let (moisture_share, creep_share) = shares(aged, last, &u.w);
     let web_length_share = web_share(aged, &u);
     let st = stress_states(wound, aged, last, &u.w);
-    let (edge_moisture, moisture_change) = moisture_change(aged, last, &centre, &ends);
+    let (edge_moisture, moisture_change) = moisture_change(aged, last, &u.w, &centre, &ends);
     let ws = winding_states(case, lanes, wound);
     let lim = limit_ratios(case, wound, aged, last, &st, &u.spans);
     let excess: Vec<f64> = u.s.iter().map(|v| v - u.mean_w).collect();
@@ -569,5 +578,17 @@ pub fn compute(case: &Case, lanes: &Lanes, o: &super::actions::Outcome) -> Featu
         peak_lanes: len.peak_lanes,
         slack,
         excess_mm_per_m: excess,
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    /// The centre half's mean counts each lane by its width: a 100 mm lane 1 long beside a
+    /// 300 mm lane level is 0.25 long over the 400 mm (not 0.5, as by count).
+    #[test]
+    fn the_centre_half_is_weighted_by_lane_width() {
+        let (s, w) = ([-1.0, 1.0, 0.0, -1.0], [0.025, 0.1, 0.3, 0.025]);
+        let v = super::centre_against_ends(&s, &w, &[1, 2], &[0, 3]);
+        assert!((v - 1.25).abs() < 1e-12, "{v}");
     }
 }

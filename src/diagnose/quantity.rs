@@ -189,7 +189,10 @@ impl Site<'_> {
             .filter(|&k| centre.contains(&kept[k]))
             .collect();
         let ends = [0, kept.len().saturating_sub(1)];
-        features::centre_against_ends(s, &inner, &ends)
+        let w: Vec<f64> = (kept.iter())
+            .map(|&i| self.lanes.lanes[i].width_m)
+            .collect();
+        features::centre_against_ends(s, &w, &inner, &ends)
     }
 }
 
