@@ -96,6 +96,9 @@ words! {
     /// Model changes a correction may ask for; `diagnose::actions::apply` re-runs each.
     pub enum Action {
         FlattenCaliper = "flatten_caliper",
+        /// Bring the finding's lanes to the caliper of the web beside them; the rest of the
+        /// profile as it is.
+        EvenCaliperLocally = "even_caliper_locally",
         ScaleTension = "scale_tension",
         TaperTension = "taper_tension",
         /// Raise the start of the winder's tension and taper it to `factor` of the start at full
@@ -142,6 +145,7 @@ impl Action {
             | Action::ScaleWindingSpeed
             | Action::AddNip => true,
             Action::FlattenCaliper
+            | Action::EvenCaliperLocally
             | Action::FilmWrap
             | Action::StoreAtEquilibrium
             | Action::MakeAtPressroomEquilibrium

@@ -150,6 +150,30 @@ fn each_correction_changes_what_its_text_says() {
                     .iter()
                     .all(|l| l.caliper_m == b.lanes.mean_caliper_m))
             }
+            // "even out the caliper at the band, to the web beside it": the finding's lanes (3
+            // and 4) take the width-weighted mean caliper of the other lanes within 0.3 m of
+            // them, worked here from the lanes themselves; the other lanes keep theirs
+            Action::EvenCaliperLocally => {
+                let ls = &b.lanes.lanes;
+                let (lo, hi) = (ls[3].left_m, ls[4].right_m);
+                let near: Vec<usize> = (0..ls.len())
+                    .filter(|&j| j != 3 && j != 4)
+                    .filter(|&j| ls[j].right_m > lo - 0.3 && ls[j].left_m < hi + 0.3)
+                    .collect();
+                let w: f64 = near.iter().map(|&j| ls[j].width_m).sum();
+                let want = near
+                    .iter()
+                    .map(|&j| ls[j].caliper_m * ls[j].width_m)
+                    .sum::<f64>()
+                    / w;
+                for (i, (l, o)) in n.lanes.lanes.iter().zip(ls).enumerate() {
+                    let c = if i == 3 || i == 4 { want } else { o.caliper_m };
+                    assert!((l.caliper_m - c).abs() < 1e-15, "lane {i}");
+                    assert!(
+                        (l.caliper_deviation - (c / n.lanes.mean_caliper_m - 1.0)).abs() < 1e-12
+                    );
+                }
+            }
             // "lower the wound-in tension": T + mu N scaled, the nip part included
             Action::ScaleTension => {
                 for d in [d0, 0.5 * (d0 + d1), d1] {
@@ -188,10 +212,22 @@ fn each_correction_changes_what_its_text_says() {
                 .storage
                 .iter()
                 .all(|s| s.barrel_wrap == Wrap::Film && s.end_wrap == Wrap::Film)),
+            // "keep the roll in the wrap it came in": the last stretch takes the wraps of the
+            // stretch before it, where it had them; a roll that came unwrapped keeps its own
             Action::KeepWrappedUntilUse => {
-                let l = n.case.storage.last().unwrap();
-                assert!(l.barrel_wrap == Wrap::Film && l.end_wrap == Wrap::Film);
-                assert_eq!(n.case.storage[0], b.case.storage[0]);
+                let mut w = b.clone();
+                (w.case.storage[0].barrel_wrap, w.case.storage[0].end_wrap) =
+                    (Wrap::Paper, Wrap::None);
+                (w.case.storage[1].barrel_wrap, w.case.storage[1].end_wrap) =
+                    (Wrap::None, Wrap::Film);
+                let k = apply(&w, Change::Correct(a), f, &[3, 4]);
+                assert_eq!(k.case.storage[0], w.case.storage[0]);
+                assert_eq!(k.case.storage[1].barrel_wrap, Wrap::Paper);
+                assert_eq!(k.case.storage[1].end_wrap, Wrap::Film);
+                let mut bare = w.clone();
+                bare.case.storage[0].barrel_wrap = Wrap::None;
+                let k = apply(&bare, Change::Correct(a), f, &[3, 4]);
+                assert_eq!(k.case.storage[1].barrel_wrap, Wrap::None);
             }
             // "store at a humidity in equilibrium with the paper": every stretch's RH holds the
             // paper's moisture on the isotherm

@@ -76,8 +76,9 @@ fn field_cases_give_their_intended_finding_and_shares_add_up() {
     }
 }
 
-/// The caliper band is the main cause the caliper-band story names: flattening the caliper in
-/// the model removes most of the band's excess (before/after backed by numbers).
+/// The caliper band is the main cause the caliper-band story names: levelling the caliper at
+/// the band in the model removes most of the band's excess, and the baggy lane with it
+/// (before/after backed by numbers).
 #[test]
 fn caliper_correction_is_backed_by_the_model() {
     let d = run(&field("nordvik_pm3_caliper_band"));
@@ -89,9 +90,10 @@ fn caliper_correction_is_backed_by_the_model() {
     let flat = f
         .corrections
         .iter()
-        .find(|c| c.action == Action::FlattenCaliper)
+        .find(|c| c.action == Action::EvenCaliperLocally)
         .unwrap();
     assert!(flat.after.unwrap() < 0.7 * flat.before, "{flat:?}");
+    assert_eq!(flat.defect_remains, Some(false), "{flat:?}");
 }
 
 fn uniform(storage: &str) -> Case {

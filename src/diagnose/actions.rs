@@ -187,6 +187,7 @@ fn correct(n: &mut Scenario, action: Action, f: f64, slit: &[usize]) {
                 l.caliper_deviation = 0.0;
             }
         }
+        Action::EvenCaliperLocally => even_locally(&mut n.lanes, slit),
         // the wound-in tension is web tension + friction x nip load (Good, Wu and Fikes 1994):
         // scaling it scales both parts
         Action::ScaleTension => {
@@ -209,12 +210,7 @@ fn correct(n: &mut Scenario, action: Action, f: f64, slit: &[usize]) {
                 st.end_wrap = Wrap::Film;
             }
         }
-        Action::KeepWrappedUntilUse => {
-            if let Some(st) = n.case.storage.last_mut() {
-                st.barrel_wrap = Wrap::Film;
-                st.end_wrap = Wrap::Film;
-            }
-        }
+        Action::KeepWrappedUntilUse => keep_wraps(&mut n.case),
         Action::StoreAtEquilibrium => {
             let rh = rh_for_moisture(&n.case, n.case.material.moisture_pct);
             for st in &mut n.case.storage {
@@ -253,6 +249,70 @@ fn correct(n: &mut Scenario, action: Action, f: f64, slit: &[usize]) {
             let t_mid = n.case.winding.tension.at(0.5 * (d0 + d1));
             n.case.winding.nip_n_per_m = n.case.winding.nip_n_per_m.max(f * t_mid);
         }
+    }
+}
+
+/// How far beside a finding's lanes the web whose caliper they are brought to lies, m (the
+/// outer reach of the web a lane is judged against, [`super::local::baseline`]).
+pub const BESIDE_M: f64 = 0.3;
+
+/// The lanes `at` (a finding's) brought to the caliper of the web beside them: the
+/// width-weighted mean caliper of the other lanes within [`BESIDE_M`] of them (of all the other
+/// lanes when none lies that near; of every lane when `at` holds them all). The rest of the
+/// profile is kept; the mean caliper and every lane's deviation from it are taken anew.
+fn even_locally(lanes: &mut Lanes, at: &[usize]) {
+    if at.is_empty() {
+        return;
+    }
+    let ls = &lanes.lanes;
+    let lo = at
+        .iter()
+        .map(|&i| ls[i].left_m)
+        .fold(f64::INFINITY, f64::min);
+    let hi = at
+        .iter()
+        .map(|&i| ls[i].right_m)
+        .fold(f64::NEG_INFINITY, f64::max);
+    let mean_over = |keep: &dyn Fn(usize) -> bool| {
+        let (c, w): (Vec<f64>, Vec<f64>) = (0..ls.len())
+            .filter(|&j| keep(j))
+            .map(|j| (ls[j].caliper_m, ls[j].width_m))
+            .unzip();
+        (!c.is_empty()).then(|| crate::numeric::weighted_mean(&c, &w))
+    };
+    let other = |j: usize| !at.contains(&j);
+    let near = |j: usize| other(j) && ls[j].right_m > lo - BESIDE_M && ls[j].left_m < hi + BESIDE_M;
+    let target = (mean_over(&near).or_else(|| mean_over(&other))).unwrap_or(lanes.mean_caliper_m);
+    for &i in at {
+        lanes.lanes[i].caliper_m = target;
+    }
+    let (c, w) = (lanes.calipers(), lanes.widths());
+    let mean = crate::numeric::weighted_mean(&c, &w);
+    lanes.mean_caliper_m = mean;
+    for l in &mut lanes.lanes {
+        l.caliper_deviation = l.caliper_m / mean - 1.0;
+    }
+}
+
+/// The wrap the roll came in (the stretch before the last) kept on through the last stretch:
+/// it warms up inside it and is unwrapped just before use. A roll that came in unwrapped has
+/// none to keep.
+fn keep_wraps(c: &mut Case) {
+    let k = c.storage.len();
+    if k >= 2 {
+        let came = &c.storage[k - 2];
+        let (barrel, end) = (came.barrel_wrap, came.end_wrap);
+        let last = &mut c.storage[k - 1];
+        last.barrel_wrap = kept(last.barrel_wrap, barrel);
+        last.end_wrap = kept(last.end_wrap, end);
+    }
+}
+
+/// A wrap kept on: the one the roll came in where it had one, else the one it has.
+fn kept(now: Wrap, came: Wrap) -> Wrap {
+    match came {
+        Wrap::None => now,
+        w => w,
     }
 }
 

@@ -5,7 +5,7 @@
 use super::actions::{apply, Change, Outcome, RunError, Scenario};
 use super::attribution::Runner;
 use super::quantity::Site;
-use crate::rules::Correction;
+use crate::rules::{Condition, Correction};
 use crate::vocab::{Action, Quantity};
 use serde::Serialize;
 
@@ -25,6 +25,10 @@ pub struct CheckedCorrection {
     pub after: Option<f64>,
     /// Whether the quantity moves the better way (None when not re-run).
     pub improves: Option<bool>,
+    /// Whether the finding's deciding condition still holds on the corrected roll (the fitted
+    /// creep): the defect stays, however much the quantity moved. None when not re-run, and for
+    /// a slit-out (the roll keeps its lanes; the slit web is judged on its quantity).
+    pub defect_remains: Option<bool>,
 }
 
 /// Relative change below which a correction counts as no improvement (a numerical tolerance of
@@ -43,11 +47,12 @@ pub fn improves(q: Quantity, before: f64, after: f64) -> bool {
 }
 
 /// Check a finding's corrections: each re-run through `runner` (None: re-runs off), measured
-/// at `site` (the finding's lanes; a slit-out leaves them out). Improving corrections first, in
-/// the rule's order, then the rest.
+/// at `site` (the finding's lanes; a slit-out leaves them out), and the finding's `deciding`
+/// condition read on the corrected roll. Improving corrections first, in the rule's order, then
+/// the rest.
 pub fn check(
     corrections: &[Correction],
-    q: Quantity,
+    (q, deciding): (Quantity, Option<&Condition>),
     site: &Site,
     base: &Scenario,
     base_outcome: &Outcome,
@@ -71,6 +76,14 @@ pub fn check(
             };
             at.measure(q, &o[i])
         });
+        let remains = match (&outcomes, deciding) {
+            (Some(o), Some(d)) if c.action != Action::SlitOut => {
+                let s = &scenarios[i];
+                let f = super::features::compute(&s.case, &s.lanes, &o[i]);
+                Some(d.holds(f.get(d.feature)))
+            }
+            _ => None,
+        };
         out.push(CheckedCorrection {
             action: c.action,
             factor: c.factor,
@@ -81,6 +94,7 @@ pub fn check(
             before,
             after,
             improves: after.map(|a| improves(q, before, a)),
+            defect_remains: remains,
         });
     }
     out.sort_by_key(|c| c.improves == Some(false));

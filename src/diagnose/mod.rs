@@ -351,6 +351,18 @@ pub fn diagnose_fitted(
     })
 }
 
+/// The lanes `idx` as a finding names them.
+fn lane_refs(idx: &[usize], lanes: &Lanes, feats: &Features) -> Vec<LaneRef> {
+    (idx.iter())
+        .map(|&i| LaneRef {
+            index: i,
+            position_m: lanes.lanes[i].position_m,
+            excess_mm_per_m: feats.excess_mm_per_m[i],
+            extrapolated: lanes.lanes[i].extrapolated,
+        })
+        .collect()
+}
+
 /// A fired rule as a finding: its evidence, the lanes that carry it, its root cause and its
 /// corrections, both on the defect's own quantity. `rerun`: the runner and the attribution runs
 /// (None when re-runs are off).
@@ -372,15 +384,7 @@ fn finding(
             .collect(),
         None => locate(r.defect, lanes, case.roll.width_m, feats, fitted),
     };
-    let lane_refs: Vec<LaneRef> = idx
-        .iter()
-        .map(|&i| LaneRef {
-            index: i,
-            position_m: lanes.lanes[i].position_m,
-            excess_mm_per_m: feats.excess_mm_per_m[i],
-            extrapolated: lanes.lanes[i].extrapolated,
-        })
-        .collect();
+    let lane_refs = lane_refs(&idx, lanes, feats);
     let q = quantity_of(r.defect);
     let site = Site {
         lanes,
@@ -389,19 +393,20 @@ fn finding(
         at: &idx,
         excluded: &[],
     };
+    let (deciding, first) = (r.when.first(), r.when.first().map(|c| c.feature));
     let (attribution, corrections) = match rerun {
         Some((runner, runs)) => {
             let a = attribution::attribute(runs, q, &|o| site.measure(q, o));
             let b = std::rc::Rc::clone(&runs.subsets[0]);
-            let c = corrections::check(&r.corrections, q, &site, base, &b, Some(runner))?;
+            let c =
+                corrections::check(&r.corrections, (q, deciding), &site, base, &b, Some(runner))?;
             (Some(a), c)
         }
         None => (
             None,
-            corrections::check(&r.corrections, q, &site, base, fitted, None)?,
+            corrections::check(&r.corrections, (q, deciding), &site, base, fitted, None)?,
         ),
     };
-    let first = r.when.first().map(|c| c.feature);
     Ok(Finding {
         defect: r.defect,
         rule: r.id.clone(),

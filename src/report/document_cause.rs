@@ -126,10 +126,7 @@ fn finding(n: usize, f: &Finding, sys: System, v: &mut Vec<Block>) {
                     t(c.after
                         .map(|a| words::quantity_change(q, a - c.before, sys))
                         .unwrap_or_default()),
-                    k(
-                        words::improves(c.improves),
-                        format!("improves.{n}.{}", c.action),
-                    ),
+                    k(words::improves(c), format!("improves.{n}.{}", c.action)),
                     t(c.why.clone()),
                 ]
             })

@@ -151,12 +151,15 @@ pub fn share(x: Option<f64>) -> String {
     }
 }
 
-/// Whether a correction improves its finding's quantity, in words.
-pub fn improves(i: Option<bool>) -> &'static str {
-    match i {
-        Some(true) => "yes",
-        Some(false) => "no: not recommended",
-        None => "not run",
+/// Whether a correction improves its finding's quantity, in words, and whether the defect
+/// stays after it (its deciding condition still holds on the corrected roll).
+pub fn improves(c: &crate::diagnose::CheckedCorrection) -> &'static str {
+    match (c.improves, c.defect_remains) {
+        (Some(true), Some(true)) => "yes, but the defect stays",
+        (Some(true), Some(false)) => "yes, the defect goes",
+        (Some(true), None) => "yes",
+        (Some(false), _) => "no: not recommended",
+        (None, _) => "not run",
     }
 }
 
