@@ -11,13 +11,17 @@ use std::fmt::Write;
 /// Per-lane table of the wound-in state.
 pub fn text(c: &Case, l: &Lanes, w: &Wound, sys: System) -> String {
     let mut out = heading(c, w, sys);
+    let surface = format!(
+        "surface {}",
+        super::pos(crate::winding::SURFACE_ZONE_M, sys)
+    );
     let mut t = table(&[
         "lane",
         "wound-in tension",
         "peak pressure",
         "at radius",
         "core pressure",
-        "surface 25 mm",
+        &surface,
         "MD stress range",
         "MD compressive",
     ]);

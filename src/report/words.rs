@@ -133,7 +133,15 @@ pub fn quantity_value(q: Quantity, v: f64, sys: System) -> String {
 pub fn quantity_change(q: Quantity, dv: f64, sys: System) -> String {
     let dv = if dv.abs() < 5e-4 { 0.0 } else { dv };
     match (q, quantity_si(q, dv)) {
-        (_, Some(si)) => units::signed(si, Kind::Pressure, sys, false, 1),
+        // as many significant digits as the values it is the change of ([`quantity_value`])
+        (_, Some(si)) => {
+            let s = units::show(si.abs(), Kind::Pressure, sys, false);
+            match si.partial_cmp(&0.0) {
+                Some(std::cmp::Ordering::Greater) => format!("+{s}"),
+                Some(std::cmp::Ordering::Less) => format!("-{s}"),
+                _ => s,
+            }
+        }
         (Quantity::DiameterRidgePerMille | Quantity::BandDiameterPerMille, _) => {
             format!("{dv:+.2} per mille")
         }
@@ -492,5 +500,21 @@ pub fn caliper_source(s: crate::lanes::CaliperSource) -> &'static str {
         crate::lanes::CaliperSource::Profile => "the measured caliper profile",
         crate::lanes::CaliperSource::Diameter => "the earliest diameter profile",
         crate::lanes::CaliperSource::Nominal => "the material's nominal caliper",
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// A pressure change keeps the significant digits of the values it is the difference of
+    /// (a slack roll's 0.007779 -> 0.006878 kPa is a change of -0.0009014 kPa, not "-0.0 kPa").
+    #[test]
+    fn a_pressure_change_keeps_its_digits() {
+        let q = Quantity::SurfacePressureKpa;
+        assert_eq!(quantity_value(q, 0.007779, System::Si), "0.007779 kPa");
+        assert_eq!(quantity_change(q, -0.0009014, System::Si), "-0.0009014 kPa");
+        assert_eq!(quantity_change(q, 4.2, System::Si), "+4.200 kPa");
+        assert_eq!(quantity_change(q, 0.0, System::Si), "0 kPa");
     }
 }
