@@ -60,7 +60,7 @@ pub use super::noise::{
 };
 use super::profile_test::caliper_readings;
 pub use super::profile_test::BAND_DRAWS;
-use super::states::{posterior_states, State};
+use super::states::{mechanism_shares, posterior_states, State};
 use super::unevenness::caliper_unevenness;
 use super::{DiagnoseError, Finding, Fitted};
 use crate::case::{Case, Measure};
@@ -472,6 +472,7 @@ fn grade_findings(
             .filter(|s| siblings.iter().any(|q| q.holds(&s.values)))
             .count();
         f.probability = holds as f64 / states.len().max(1) as f64;
+        f.mechanisms = mechanism_shares(r, &siblings, states);
         let test = noise_test(r, &lanes_of(f), feats, tests);
         f.likelihood = grade(f.probability, test.clear(), r.likelihood);
         for e in f.evidence.iter_mut() {

@@ -109,6 +109,16 @@ pub struct LaneRef {
     pub extrapolated: bool,
 }
 
+/// A rule naming a mechanism of a finding's defect, and the share of the plausible states in
+/// which it holds ([`Finding::mechanisms`]).
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct MechanismShare {
+    pub rule: String,
+    pub mechanism: String,
+    #[serde(rename = "share_fraction")]
+    pub share: f64,
+}
+
 /// A finding.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct Finding {
@@ -124,6 +134,10 @@ pub struct Finding {
     #[serde(rename = "weight_fraction")]
     pub weight: f64,
     pub mechanism: String,
+    /// Where another rule finds the same defect by the same deciding condition and names
+    /// another mechanism (drying against winding, say): each such rule, this one first, with the
+    /// share of the plausible states in which it holds. Empty when no other rule does.
+    pub mechanisms: Vec<MechanismShare>,
     pub evidence: Vec<Evidence>,
     pub lanes: Vec<LaneRef>,
     /// The length difference behind the finding (its first feature), mm/m when a length.
@@ -414,6 +428,7 @@ fn finding(
         probability: 1.0,
         weight: r.weight,
         mechanism: r.mechanism.clone(),
+        mechanisms: Vec::new(),
         evidence: r
             .when
             .iter()
@@ -510,6 +525,7 @@ mod tests {
             probability,
             weight,
             mechanism: String::new(),
+            mechanisms: Vec::new(),
             evidence: Vec::new(),
             lanes: Vec::new(),
             length_difference_mm_per_m: 0.0,

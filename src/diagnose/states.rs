@@ -2,9 +2,10 @@
 //! posterior, for every k (used by [`super::confidence`] for finding probabilities, evidence
 //! intervals and the lanes' spreads).
 
-use super::{features, DiagnoseError, Fitted};
+use super::{features, DiagnoseError, Fitted, MechanismShare};
 use crate::case::Case;
 use crate::fit::{prepared, FitError};
+use crate::rules::Rule;
 use crate::storage::{age_prepared, AgeOptions, Aged, LaneAged, LaneCreep};
 use crate::vocab::FeatureValues;
 
@@ -82,4 +83,28 @@ pub(super) fn posterior_states(lab: &Case, fitted: &Fitted) -> Result<Vec<State>
         });
     }
     Ok(out)
+}
+
+/// Each rule of `siblings` (the finding's rule `r` first) with the share of `states` in which it
+/// holds; empty when `r` has no sibling.
+pub(super) fn mechanism_shares(
+    r: &Rule,
+    siblings: &[&Rule],
+    states: &[State],
+) -> Vec<MechanismShare> {
+    if siblings.len() < 2 {
+        return Vec::new();
+    }
+    let share = |q: &Rule| {
+        let n = states.iter().filter(|s| q.holds(&s.values)).count();
+        n as f64 / states.len().max(1) as f64
+    };
+    let others = siblings.iter().filter(|q| q.id != r.id);
+    (std::iter::once(r).chain(others.copied()))
+        .map(|q| MechanismShare {
+            rule: q.id.clone(),
+            mechanism: q.mechanism.clone(),
+            share: share(q),
+        })
+        .collect()
 }

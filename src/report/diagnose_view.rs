@@ -53,6 +53,31 @@ fn cond_with_noise(e: &crate::diagnose::Evidence, sys: System) -> String {
     }
 }
 
+/// How the plausible states split between the mechanisms of a finding's defect, when another
+/// mechanism holds in some of them; `None` otherwise.
+pub fn mechanism_split(f: &Finding) -> Option<String> {
+    let (own, others) = f.mechanisms.split_first()?;
+    let others: Vec<String> = (others.iter())
+        .filter(|m| m.share > 0.0)
+        .map(|m| {
+            format!(
+                "{} in {:.0} % (\"{}\")",
+                m.rule,
+                m.share * 100.0,
+                m.mechanism
+            )
+        })
+        .collect();
+    (!others.is_empty()).then(|| {
+        format!(
+            "Mechanism: this one holds in {:.0} % of the plausible states; {} (the defect holds in {:.0} %, whichever the mechanism).",
+            own.share * 100.0,
+            others.join("; "),
+            f.probability * 100.0
+        )
+    })
+}
+
 /// Why evidence values lie outside their creep 5-95 % range, naming them; `None` when none does.
 fn outside_range(evidence: &[crate::diagnose::Evidence]) -> Option<String> {
     let out: Vec<&str> = (evidence.iter())
@@ -187,6 +212,9 @@ fn finding_text(rank: usize, f: &Finding, sys: System) -> String {
         f.rule
     );
     let _ = writeln!(out, "   Why: {}", f.mechanism);
+    if let Some(line) = mechanism_split(f) {
+        let _ = writeln!(out, "   {line}");
+    }
     let at = match &f.core {
         Some(m) => super::note_words::core_where(m, sys),
         None => lanes_text(&f.lanes, sys),
