@@ -391,7 +391,7 @@ fn finding(
     };
     let (attribution, corrections) = match rerun {
         Some((runner, runs)) => {
-            let a = attribution::attribute(runs, q, &|o| site.measure(q, o));
+            let a = attribution::attribute(runs, q, &r.when, &|o| site.measure(q, o));
             let b = std::rc::Rc::clone(&runs.subsets[0]);
             let c = corrections::check(&r.corrections, q, &site, base, &b, Some(runner))?;
             (Some(a), c)
