@@ -8,11 +8,17 @@
 //!   evenly, and add up to the change with every source removed (efficiency).
 //! - **Amplifiers** (web tension, nip, speed, storage time) make no non-uniformity of their own;
 //!   each is reported as the quantity at a feasible alternative setting.
+//! - Whether the sources **explain** the finding at all ([`explains`]): when their total works
+//!   against the defect or is negligible, no source is its cause; the winding and storage
+//!   conditions themselves are (common practice: a cause makes a non-uniformity, an amplifier
+//!   only enlarges one).
 //!
 //! Every re-run goes through [`Runner::run`], which re-uses a wound state for scenarios that wind
 //! alike and a whole run for scenarios that are alike, and counts the runs.
 
 use super::actions::{apply, Change, Outcome, RunError, Scenario};
+use super::quantity::rule_threshold;
+use crate::rules::Condition;
 use crate::vocab::{Action, Amplifier, Cause, Quantity};
 use crate::winding::{Cache, Wound};
 use serde::Serialize;
@@ -157,6 +163,9 @@ pub struct SourceShare {
     /// Contribution over the change with every source removed (None when that change is nil).
     #[serde(rename = "share_fraction")]
     pub share: Option<f64>,
+    /// Whether the contribution moves the quantity away from the defect (lowers a quantity
+    /// where lower is worse, raises one where higher is worse): such a source is no cause.
+    pub against_defect: bool,
 }
 
 /// The finding's quantity at an amplifier's feasible alternative.
@@ -181,7 +190,45 @@ pub struct Attribution {
     pub value_without_sources: f64,
     /// Shapley values of the sources; they add up to `value - value_without_sources`.
     pub shares: Vec<SourceShare>,
+    /// Whether the sources together make the defect ([`explains`]); when not, no source is
+    /// named as its cause and the amplifiers show what the winding and storage conditions do.
+    pub sources_explain: bool,
     pub sensitivities: Vec<Sensitivity>,
+}
+
+/// Below this fraction of the defect's size ([`defect_size`]) the sources' total change toward
+/// the defect is negligible. Our choice (common practice: a root-cause breakdown names no
+/// contributor under about 5 %): removing every source would leave the defect within 5 % of its
+/// size, so no source makes it.
+pub const NEGLIGIBLE_FRACTION: f64 = 0.05;
+
+/// +1 when a rise of `q` makes the defect worse, -1 when a fall does (`lower_is_better`).
+pub const fn worse_sign(q: Quantity) -> f64 {
+    if q.lower_is_better() {
+        1.0
+    } else {
+        -1.0
+    }
+}
+
+/// The defect's size on its quantity, in the quantity's unit: the largest of |value|,
+/// |value with every source removed| and, when the finding's rule tests the quantity itself,
+/// |value - the rule's threshold| (`threshold`). Where lower is better a uniform web makes
+/// none, so the value is the size; where higher is better (a surface pressure) the size is the
+/// shortfall below the threshold, which the value alone (near 0 on a slack roll) misses.
+pub fn defect_size(value: f64, without: f64, threshold: Option<f64>) -> f64 {
+    let shortfall = threshold.map_or(0.0, |t| (value - t).abs());
+    value.abs().max(without.abs()).max(shortfall)
+}
+
+/// Whether the sources explain a finding: their total change (`value - without`, Shapley
+/// efficiency: the sum of the shares, Shapley 1953) moves `q` toward the defect by more than
+/// [`NEGLIGIBLE_FRACTION`] of [`defect_size`]. A total against the defect, nil or smaller than
+/// that leaves the defect to the winding and storage conditions (tension, nip, speed, air wound
+/// in, storage time and stance), which make no non-uniformity of their own.
+pub fn explains(q: Quantity, value: f64, without: f64, threshold: Option<f64>) -> bool {
+    let toward = worse_sign(q) * (value - without);
+    toward > NEGLIGIBLE_FRACTION * defect_size(value, without, threshold)
 }
 
 /// The runs attribution needs, made once and shared by every finding.
@@ -239,22 +286,30 @@ pub fn prepare(
     })
 }
 
-/// Attribute one finding's quantity, `measure` evaluating it on an outcome.
+/// Attribute one finding's quantity, `measure` evaluating it on an outcome. `when`: the
+/// finding's rule's conditions (a threshold on the quantity itself sizes the defect:
+/// [`rule_threshold`]).
 pub fn attribute(
     runs: &Runs,
     quantity: Quantity,
+    when: &[Condition],
     measure: &dyn Fn(&Outcome) -> f64,
 ) -> Attribution {
+    let threshold = rule_threshold(quantity, when);
     let v: Vec<f64> = runs.subsets.iter().map(|o| measure(o)).collect();
     let n = runs.sources.len();
     let phi = shapley(n, &v);
-    let total = v[0] - v[v.len() - 1];
+    let (value, without) = (v[0], v[v.len() - 1]);
+    let total = value - without;
     let tiny = 1e-9 * v[0].abs().max(1e-9);
+    let worse = worse_sign(quantity);
+    let size = defect_size(value, without, threshold);
     Attribution {
         quantity,
         unit: quantity.unit(),
-        value: v[0],
-        value_without_sources: v[v.len() - 1],
+        value,
+        value_without_sources: without,
+        sources_explain: explains(quantity, value, without, threshold),
         shares: runs
             .sources
             .iter()
@@ -263,6 +318,7 @@ pub fn attribute(
                 cause,
                 contribution: p,
                 share: (total.abs() > tiny).then(|| p / total),
+                against_defect: worse * p < -1e-9 * size.max(1e-9),
             })
             .collect(),
         sensitivities: runs
@@ -297,6 +353,25 @@ mod tests {
             assert!((p - want).abs() < 1e-12, "{phi:?}");
         }
         assert!((phi.iter().sum::<f64>() - (v[0] - v[7])).abs() < 1e-12);
+    }
+
+    /// The sources explain a finding only when their total moves the quantity toward the defect
+    /// by 5 % of its size (the criterion; common practice: a cause makes the non-uniformity).
+    #[test]
+    fn sources_explain_only_a_change_toward_the_defect() {
+        let (lane, surface) = (Quantity::LaneExcessMmPerM, Quantity::SurfacePressureKpa);
+        // a baggy lane made by its sources, from a uniform web's nothing
+        assert!(explains(lane, 0.5, 0.0, None));
+        // the same lane, whose sources make 2 % of it: the winding makes the rest
+        assert!(!explains(lane, 0.5, 0.49, None));
+        // sources that raise the surface pressure work against telescoping
+        assert!(!explains(surface, 0.0078, 0.0, Some(20.0)));
+        // sources that lower it by 0.0078 kPa of a 20 kPa shortfall are negligible
+        assert!(!explains(surface, 0.0, 0.0078, Some(20.0)));
+        // sources that take it from 18 kPa to 6 kPa make the shortfall
+        assert!(explains(surface, 6.0, 18.0, Some(20.0)));
+        // nothing changes: nothing to explain
+        assert!(!explains(lane, 0.0, 0.0, None));
     }
 
     /// With an interaction, the interaction term is split evenly whatever the order (a game

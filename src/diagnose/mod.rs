@@ -410,7 +410,7 @@ fn finding(
     let (deciding, first) = (r.when.first(), r.when.first().map(|c| c.feature));
     let (attribution, corrections) = match rerun {
         Some((runner, runs)) => {
-            let a = attribution::attribute(runs, q, &|o| site.measure(q, o));
+            let a = attribution::attribute(runs, q, &r.when, &|o| site.measure(q, o));
             let b = std::rc::Rc::clone(&runs.subsets[0]);
             let c =
                 corrections::check(&r.corrections, (q, deciding), &site, base, &b, Some(runner))?;

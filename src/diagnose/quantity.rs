@@ -5,7 +5,7 @@ use super::actions::Outcome;
 use super::features::{self, Features};
 use super::local;
 use crate::lanes::Lanes;
-use crate::vocab::{Defect, Quantity};
+use crate::vocab::{Defect, Feature, Quantity};
 use crate::winding::Wound;
 
 /// The quantity a defect is judged on.
@@ -27,6 +27,22 @@ pub const fn quantity_of(d: Defect) -> Quantity {
         Defect::OutOfRound => Quantity::UnwindStressSwingMpa,
         Defect::LooseOuterWraps => Quantity::OuterZonePressureKpa,
         Defect::NoDefect => Quantity::SpreadMmPerM,
+    }
+}
+
+/// A rule's threshold on `q` itself, in `q`'s unit: the bound on the defect's side of a
+/// condition in `when` on the feature that reads `q` the same way (only the surface pressure:
+/// [`Site::measure`] reads it as the feature does). None when the rule tests no such feature.
+pub fn rule_threshold(q: Quantity, when: &[crate::rules::Condition]) -> Option<f64> {
+    let twin = match q {
+        Quantity::SurfacePressureKpa => Feature::SurfacePressureEndKpa,
+        _ => return None,
+    };
+    let c = when.iter().find(|c| c.feature == twin)?;
+    if q.lower_is_better() {
+        c.above
+    } else {
+        c.below
     }
 }
 

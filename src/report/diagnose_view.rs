@@ -248,6 +248,12 @@ fn finding_text(rank: usize, f: &Finding, sys: System) -> String {
             }
             let _ = writeln!(out, "{t}");
         }
+        if let Some(why) = words::no_source_cause(a, sys) {
+            let _ = writeln!(
+                out,
+                "   Root cause: no source of non-uniformity explains this finding: {why}."
+            );
+        }
     }
     if let Some(first) = f.corrections.first() {
         let mut c = table(&["correction", "before", "after", "improves", "why"]);
@@ -290,7 +296,7 @@ pub fn attribution_rows(
             vec![
                 words::cause(s.cause).to_string(),
                 words::removed(s.cause).to_string(),
-                words::quantity_change(q, s.contribution, sys),
+                words::contribution(q, s, sys),
                 words::share(s.share),
             ]
         })

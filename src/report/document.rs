@@ -189,7 +189,7 @@ fn headline(r: &ReportData, v: &mut Vec<Block>) {
         let words = super::fit_words::opening(&fit, sys, rests).unwrap_or_default();
         lines.push(vec![b("Model fit: "), t(words)]);
     }
-    if let Some(line) = document_cause::main_cause(d) {
+    if let Some(line) = document_cause::main_cause(d, sys) {
         lines.push(line);
     }
     lines.push(agreement_line(d));

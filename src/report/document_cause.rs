@@ -5,21 +5,35 @@
 use super::document::{b, k, t, Block, Span};
 use super::report_data::ReportData;
 use super::words;
+use crate::diagnose::attribution::worse_sign;
 use crate::diagnose::{Attribution, Diagnosis, Finding};
 use crate::units::System;
 
-/// The source with the largest share of the first attributed finding, as a headline line.
-pub fn main_cause(d: &Diagnosis) -> Option<Vec<Span>> {
+/// The headline line on the first attributed finding: the source that moves its quantity most
+/// toward the defect, or, when the sources do not explain it ([`words::no_source_cause`]), that
+/// no source does. A source working against the defect is never named.
+pub fn main_cause(d: &Diagnosis, sys: System) -> Option<Vec<Span>> {
     let (i, f, a) = d
         .findings
         .iter()
         .enumerate()
         .find_map(|(i, f)| f.attribution.as_ref().map(|a| (i, f, a)))?;
+    if let Some(why) = words::no_source_cause(a, sys) {
+        return Some(vec![
+            b("Main cause: "),
+            t(format!(
+                "no source of non-uniformity explains finding {} ({}): {why}.",
+                i + 1,
+                words::defect(f.defect)
+            )),
+        ]);
+    }
+    let worse = worse_sign(a.quantity);
     let lead = a
         .shares
         .iter()
-        .filter(|s| s.share.is_some())
-        .max_by(|x, y| x.contribution.abs().total_cmp(&y.contribution.abs()))?;
+        .filter(|s| s.share.is_some() && !s.against_defect)
+        .max_by(|x, y| (worse * x.contribution).total_cmp(&(worse * y.contribution)))?;
     Some(vec![
         b("Main cause: "),
         t(format!(
@@ -155,12 +169,20 @@ fn attribution(n: usize, a: &Attribution, sys: System, v: &mut Vec<Block>) {
                 vec![
                     t(words::cause(s.cause)),
                     t(words::removed(s.cause)),
-                    t(words::quantity_change(q, s.contribution, sys)),
+                    t(words::contribution(q, s, sys)),
                     k(words::share(s.share), format!("share.{n}.{}", s.cause)),
                 ]
             })
             .collect(),
     });
+    if let Some(why) = words::no_source_cause(a, sys) {
+        v.push(Block::Para(vec![
+            b("Root cause: "),
+            t(format!(
+                "no source of non-uniformity explains this finding: {why}."
+            )),
+        ]));
+    }
     if a.sensitivities.is_empty() {
         return;
     }

@@ -361,7 +361,15 @@ pub fn bars(r: &ReportData) -> Vec<Plot> {
         for s in f.attribution.iter().flat_map(|a| &a.shares) {
             if let Some(x) = s.share {
                 shares.push(BarRow {
-                    label: format!("{name}: {}", super::words::cause(s.cause)),
+                    label: format!(
+                        "{name}: {}{}",
+                        super::words::cause(s.cause),
+                        if s.against_defect && x >= 0.0 {
+                            " (against)"
+                        } else {
+                            ""
+                        }
+                    ),
                     before: None,
                     // a share that rounds to zero is drawn and labelled as 0
                     value: if (100.0 * x).abs() < 0.5 {

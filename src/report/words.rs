@@ -2,7 +2,8 @@
 //! exhaustive, so a new word does not compile until it has its text here.
 
 use crate::case::Measure;
-use crate::diagnose::Diagnosis;
+use crate::diagnose::attribution::{worse_sign, SourceShare, NEGLIGIBLE_FRACTION};
+use crate::diagnose::{Attribution, Diagnosis};
 use crate::note::Note;
 use crate::units::{self, Kind, System};
 use crate::vocab::{Amplifier, Cause, Defect, Feature, Quantity};
@@ -173,6 +174,56 @@ pub fn improves(c: &crate::diagnose::CheckedCorrection) -> &'static str {
 
 /// How root causes are attributed, said whenever they were.
 pub const SHARES_METHOD: &str = "each source's share is its Shapley value (Shapley 1953) over every subset of source removals, on the finding's own quantity: independent of the order of removal, interactions shared evenly, and the shares add up to the change with every source removed (a source that works against the finding has a negative share, and then the others' add up to more than 100 %); web tension, nip, speed and storage time amplify a non-uniformity without making one, so they are shown as the quantity at a feasible alternative";
+
+/// A source's contribution to its finding's quantity in words: the signed change, and, when it
+/// works against the defect while its share reads as positive (the sources' total works against
+/// it too), that it does; a negative share already says so ([`SHARES_METHOD`]).
+pub fn contribution(q: Quantity, s: &SourceShare, sys: System) -> String {
+    let change = quantity_change(q, s.contribution, sys);
+    if s.against_defect && s.share.is_none_or(|x| x >= 0.0) {
+        format!("{change}, against the defect")
+    } else {
+        change
+    }
+}
+
+/// Why no source of non-uniformity is the finding's cause, None when the sources explain it
+/// ([`Attribution::sources_explain`]): what they do together, and where the defect comes from
+/// (the words after "no source of non-uniformity explains ...: ").
+pub fn no_source_cause(a: &Attribution, sys: System) -> Option<String> {
+    if a.sources_explain {
+        return None;
+    }
+    let q = a.quantity;
+    let toward = worse_sign(q) * (a.value - a.value_without_sources);
+    let tiny = 1e-9 * a.value.abs().max(a.value_without_sources.abs()).max(1e-9);
+    let together = if toward.abs() <= tiny {
+        format!("together the sources leave the {} unchanged", quantity(q))
+    } else {
+        format!(
+            "together the sources move the {} from {} (every source removed) to {}, {}",
+            quantity(q),
+            quantity_value(q, a.value_without_sources, sys),
+            quantity_value(q, a.value, sys),
+            if toward < 0.0 {
+                "which works against the defect".to_string()
+            } else {
+                format!(
+                    "under {:.0} % of the defect's size",
+                    NEGLIGIBLE_FRACTION * 100.0
+                )
+            }
+        )
+    };
+    let amplifiers = if a.sensitivities.is_empty() {
+        "no amplifier here has a feasible alternative to show"
+    } else {
+        "the amplifier table shows what web tension, nip, speed and storage time do"
+    };
+    Some(format!(
+        "{together}; it comes from the winding and storage conditions themselves ({amplifiers})"
+    ))
+}
 
 /// The diagnosis's notes with the notes its results imply, sorted, each once (warnings are
 /// apart: [`warnings`]); SI, as the JSON gives them ([`notes_in`]: in a unit system).
