@@ -166,3 +166,28 @@ fn the_demo_keeps_its_caliper_band_as_main_cause() {
     let line = main_cause(&md);
     assert!(line.contains("caliper profile (100 %"), "{line}");
 }
+
+/// The demo wound without a nip: air wound in with the outer wraps takes their interlayer
+/// pressure (Knox and Sweeney 1971 air film against the surface roughness), and the rule for
+/// loose outer wraps still fires with every source of non-uniformity removed (caliper made
+/// uniform, storage at equilibrium, uniform creep). So no source is its cause, though the caliper
+/// band moves its quantity (common practice: a cause makes the non-uniformity). The caliper band
+/// still makes the baggy lane.
+#[test]
+fn a_defect_that_holds_without_any_source_names_no_source() {
+    let o = Command::new(env!("CARGO_BIN_EXE_rollsleuth"))
+        .args(["diagnose", "--json", "-q", "--set", "winding.nip=0 N/m"])
+        .output()
+        .unwrap();
+    let d: Value = serde_json::from_slice(&o.stdout).unwrap();
+    assert_eq!(
+        attribution(&d, "loose_outer_wraps")["sources_explain"],
+        false,
+        "{d:#}"
+    );
+    assert_eq!(
+        attribution(&d, "baggy_lane")["sources_explain"],
+        true,
+        "{d:#}"
+    );
+}

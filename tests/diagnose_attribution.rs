@@ -223,6 +223,10 @@ fn each_correction_changes_what_its_text_says() {
                 let k = apply(&w, Change::Correct(a), f, &[3, 4]);
                 assert_eq!(k.case.storage[0], w.case.storage[0]);
                 assert_eq!(k.case.storage[1].barrel_wrap, Wrap::Paper);
+                // a film the roll has is not swapped for the paper it came in
+                assert_eq!(k.case.storage[1].end_wrap, Wrap::Film);
+                w.case.storage[0].end_wrap = Wrap::Paper;
+                let k = apply(&w, Change::Correct(a), f, &[3, 4]);
                 assert_eq!(k.case.storage[1].end_wrap, Wrap::Film);
                 let mut bare = w.clone();
                 bare.case.storage[0].barrel_wrap = Wrap::None;

@@ -239,6 +239,9 @@ pub struct Runs {
     pub subsets: Vec<Rc<Outcome>>,
     /// Amplifiers present, their factor and outcome.
     pub amplifiers: Vec<(Amplifier, f64, Rc<Outcome>)>,
+    /// The rule features of the roll with every source removed: a finding whose deciding
+    /// condition still holds there is not made by the sources.
+    pub without: crate::vocab::FeatureValues,
 }
 
 /// Run every subset of source removals and every amplifier's alternative. `creep_identified`:
@@ -275,7 +278,10 @@ pub fn prepare(
     }
     let mut outcomes = runner.run_all(&scenarios)?;
     let amplified = outcomes.split_off(subsets);
+    let none = &scenarios[subsets - 1];
+    let without = super::features::compute(&none.case, &none.lanes, &outcomes[subsets - 1]).values;
     Ok(Runs {
+        without,
         sources,
         subsets: outcomes,
         amplifiers: present
@@ -309,7 +315,10 @@ pub fn attribute(
         unit: quantity.unit(),
         value,
         value_without_sources: without,
-        sources_explain: explains(quantity, value, without, threshold),
+        // the defect holding with every source removed is made by the winding and storage
+        // conditions, whatever the sources add to it
+        sources_explain: explains(quantity, value, without, threshold)
+            && !(when.first()).is_some_and(|c| c.holds(runs.without[c.feature])),
         shares: runs
             .sources
             .iter()

@@ -6,7 +6,7 @@ use super::actions::{apply, Change, Outcome, RunError, Scenario};
 use super::attribution::Runner;
 use super::quantity::Site;
 use crate::rules::{Condition, Correction};
-use crate::vocab::{Action, Quantity};
+use crate::vocab::{Action, Defect, Quantity};
 use serde::Serialize;
 
 /// A correction with the model re-run, judged on the finding's quantity.
@@ -25,10 +25,15 @@ pub struct CheckedCorrection {
     pub after: Option<f64>,
     /// Whether the quantity moves the better way (None when not re-run).
     pub improves: Option<bool>,
-    /// Whether the finding's deciding condition still holds on the corrected roll (the fitted
-    /// creep): the defect stays, however much the quantity moved. None when not re-run, and for
-    /// a slit-out (the roll keeps its lanes; the slit web is judged on its quantity).
+    /// Whether the defect stays where the finding is: the finding's deciding condition still
+    /// holds on the corrected roll (the fitted creep) and the lanes that carry it there include
+    /// some of the finding's own ([`super::quantity::locate`]), however much the quantity moved.
+    /// None when not re-run, when the correction does not apply, and for a slit-out (the roll
+    /// keeps its lanes; the slit web is judged on its quantity).
     pub defect_remains: Option<bool>,
+    /// Whether the correction changes anything on this roll (keeping a wrap the roll never had
+    /// does not): one that does not apply is neither run nor judged, and is listed last.
+    pub applies: bool,
 }
 
 /// Relative change below which a correction counts as no improvement (a numerical tolerance of
@@ -52,7 +57,7 @@ pub fn improves(q: Quantity, before: f64, after: f64) -> bool {
 /// the rest.
 pub fn check(
     corrections: &[Correction],
-    (q, deciding): (Quantity, Option<&Condition>),
+    (q, deciding, defect): (Quantity, Option<&Condition>, Defect),
     site: &Site,
     base: &Scenario,
     base_outcome: &Outcome,
@@ -69,7 +74,8 @@ pub fn check(
     };
     let mut out = Vec::new();
     for (i, c) in corrections.iter().enumerate() {
-        let after = outcomes.as_ref().map(|o| {
+        let applies = scenarios[i] != *base;
+        let after = (outcomes.as_ref()).filter(|_| applies).map(|o| {
             let at = Site {
                 excluded: &scenarios[i].excluded,
                 ..*site
@@ -77,10 +83,15 @@ pub fn check(
             at.measure(q, &o[i])
         });
         let remains = match (&outcomes, deciding) {
-            (Some(o), Some(d)) if c.action != Action::SlitOut => {
+            (Some(o), Some(d)) if applies && c.action != Action::SlitOut => {
                 let s = &scenarios[i];
                 let f = super::features::compute(&s.case, &s.lanes, &o[i]);
-                Some(d.holds(f.get(d.feature)))
+                let width = s.case.roll.width_m;
+                let here = || {
+                    let at = super::quantity::locate(defect, &s.lanes, width, &f, &o[i]);
+                    site.at.is_empty() || at.iter().any(|j| site.at.contains(j))
+                };
+                Some(d.holds(f.get(d.feature)) && here())
             }
             _ => None,
         };
@@ -95,8 +106,9 @@ pub fn check(
             after,
             improves: after.map(|a| improves(q, before, a)),
             defect_remains: remains,
+            applies,
         });
     }
-    out.sort_by_key(|c| c.improves == Some(false));
+    out.sort_by_key(|c| (!c.applies, c.improves == Some(false)));
     Ok(out)
 }

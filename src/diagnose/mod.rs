@@ -365,6 +365,24 @@ pub fn diagnose_fitted(
     })
 }
 
+/// A fired rule's conditions with the values they were read at, as a finding's evidence (its
+/// intervals and noise threshold are filled in by [`confidence`]).
+fn evidence_of(fr: &rules::Fired) -> Vec<Evidence> {
+    (fr.rule.when.iter())
+        .zip(&fr.evidence)
+        .map(|(c, &(feature, v))| Evidence {
+            feature,
+            value: v,
+            above: c.above,
+            below: c.below,
+            source: c.source.clone(),
+            p05: None,
+            p95: None,
+            noise_threshold: None,
+        })
+        .collect()
+}
+
 /// The lanes `idx` as a finding names them.
 fn lane_refs(idx: &[usize], lanes: &Lanes, feats: &Features) -> Vec<LaneRef> {
     (idx.iter())
@@ -412,13 +430,26 @@ fn finding(
         Some((runner, runs)) => {
             let a = attribution::attribute(runs, q, &r.when, &|o| site.measure(q, o));
             let b = std::rc::Rc::clone(&runs.subsets[0]);
-            let c =
-                corrections::check(&r.corrections, (q, deciding), &site, base, &b, Some(runner))?;
+            let c = corrections::check(
+                &r.corrections,
+                (q, deciding, r.defect),
+                &site,
+                base,
+                &b,
+                Some(runner),
+            )?;
             (Some(a), c)
         }
         None => (
             None,
-            corrections::check(&r.corrections, (q, deciding), &site, base, fitted, None)?,
+            corrections::check(
+                &r.corrections,
+                (q, deciding, r.defect),
+                &site,
+                base,
+                fitted,
+                None,
+            )?,
         ),
     };
     Ok(Finding {
@@ -429,21 +460,7 @@ fn finding(
         weight: r.weight,
         mechanism: r.mechanism.clone(),
         mechanisms: Vec::new(),
-        evidence: r
-            .when
-            .iter()
-            .zip(&fr.evidence)
-            .map(|(c, &(feature, v))| Evidence {
-                feature,
-                value: v,
-                above: c.above,
-                below: c.below,
-                source: c.source.clone(),
-                p05: None,
-                p95: None,
-                noise_threshold: None,
-            })
-            .collect(),
+        evidence: evidence_of(fr),
         lanes: lane_refs,
         length_difference_mm_per_m: match first {
             Some(f) if f.spec().is_length => feats.get(f).abs(),

@@ -293,6 +293,10 @@ fn findings(r: &ReportData, v: &mut Vec<Block>) {
             "",
         ));
         v.push(Block::Para(vec![b("Why: "), t(f.mechanism.clone())]));
+        if let Some(m) = super::diagnose_view::mechanism_split(f) {
+            let m = m.trim_start_matches("Mechanism: ").to_string();
+            v.push(Block::Para(vec![b("Mechanism: "), t(m)]));
+        }
         v.push(Block::Para(vec![b("Where: "), t(lanes_text(f, sys))]));
         v.push(Block::Table {
             head: vec![

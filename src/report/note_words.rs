@@ -165,16 +165,22 @@ fn resolution_note(n: &Note, sys: System) -> String {
         return String::new();
     };
     let um = |x: f64| said(sys, format!("{:.1} um", x * 1e6), x, Kind::Length, true);
+    // a floor that rounds to nil: noise alone hardly moves the length on this roll (no tension
+    // left for the calipers to act on), so no floor is defined, not an unlimited resolution
+    let pct = |mm_per_m: f64| match mm_per_m / 10.0 >= 0.0005 {
+        true => format!("{:.3} %", mm_per_m / 10.0),
+        false => "(no floor: noise alone does not move it on this roll)".into(),
+    };
     format!(
-        "resolution of these measurements (caliper read to {}, one sigma): a caliper band must exceed {}{}, a lane's excess length over the web around it {:.3} % and centre against edges {:.3} % of the web length to stand above noise (a {} % chance, shared over the one-sided tests, that noise alone does it)",
+        "resolution of these measurements (caliper read to {}, one sigma): a caliper band must exceed {}{}, a lane's excess length over the web around it {} and centre against edges {} of the web length to stand above noise (a {} % chance, shared over the one-sided tests, that noise alone does it)",
         um(caliper_repeatability_m),
         um(band_m),
         crown_m.map_or(String::new(), |c| format!(
             ", a crown of the caliper profile (centre against the outermost readings) {}",
             um(c)
         )),
-        lane_excess_mm_per_m / 10.0,
-        centre_edges_mm_per_m / 10.0,
+        pct(lane_excess_mm_per_m),
+        pct(centre_edges_mm_per_m),
         crate::units::sig(crate::diagnose::confidence::FAMILY_LEVEL * 100.0, 2)
     )
 }

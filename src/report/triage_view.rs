@@ -106,9 +106,10 @@ impl TriageRow {
         (self.model_fit.as_ref()).is_some_and(|m| m.verdict == Verdict::NotExplained)
     }
     /// The triage order, worst first: failures, then rolls beyond a physical limit, then rolls
-    /// the model does not explain or that pass a limit only within measurement noise, then the rest; within each, as `diagnose` orders findings, by
-    /// the first finding's graded likelihood (a roll with none last), then its probability,
-    /// then its rule's weight; then by the spread.
+    /// the model does not explain or that pass a limit only within measurement noise, then the
+    /// rest; within each, as `diagnose` orders findings, by the first finding's graded
+    /// likelihood (a roll with none last), then its probability, then its rule's weight; then by
+    /// the spread.
     pub fn rank_cmp(&self, other: &TriageRow) -> Ordering {
         let group = |r: &TriageRow| match (&r.error, r.spread_mm_per_m) {
             (None, Some(_)) if r.limits_exceeded > Some(0) => 2,

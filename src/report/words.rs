@@ -163,9 +163,12 @@ pub fn share(x: Option<f64>) -> String {
 /// Whether a correction improves its finding's quantity, in words, and whether the defect
 /// stays after it (its deciding condition still holds on the corrected roll).
 pub fn improves(c: &crate::diagnose::CheckedCorrection) -> &'static str {
+    if !c.applies {
+        return "does not apply: it changes nothing on this roll";
+    }
     match (c.improves, c.defect_remains) {
-        (Some(true), Some(true)) => "yes, but the defect stays",
-        (Some(true), Some(false)) => "yes, the defect goes",
+        (Some(true), Some(true)) => "yes, but the defect stays there",
+        (Some(true), Some(false)) => "yes, the defect goes from there",
         (Some(true), None) => "yes",
         (Some(false), _) => "no: not recommended",
         (None, _) => "not run",
