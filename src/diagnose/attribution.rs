@@ -193,6 +193,9 @@ pub struct Attribution {
     /// Whether the sources together make the defect ([`explains`]); when not, no source is
     /// named as its cause and the amplifiers show what the winding and storage conditions do.
     pub sources_explain: bool,
+    /// Whether the finding's deciding condition holds on the roll with every source removed:
+    /// the sources do not make the defect, whatever they add to it.
+    pub holds_without_sources: bool,
     pub sensitivities: Vec<Sensitivity>,
 }
 
@@ -310,6 +313,7 @@ pub fn attribute(
     let tiny = 1e-9 * v[0].abs().max(1e-9);
     let worse = worse_sign(quantity);
     let size = defect_size(value, without, threshold);
+    let holds_without = (when.first()).is_some_and(|c| c.holds(runs.without[c.feature]));
     Attribution {
         quantity,
         unit: quantity.unit(),
@@ -317,8 +321,8 @@ pub fn attribute(
         value_without_sources: without,
         // the defect holding with every source removed is made by the winding and storage
         // conditions, whatever the sources add to it
-        sources_explain: explains(quantity, value, without, threshold)
-            && !(when.first()).is_some_and(|c| c.holds(runs.without[c.feature])),
+        sources_explain: explains(quantity, value, without, threshold) && !holds_without,
+        holds_without_sources: holds_without,
         shares: runs
             .sources
             .iter()

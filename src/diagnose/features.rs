@@ -368,7 +368,8 @@ fn moisture_change(
 ) -> (f64, f64) {
     let dmc = |i: usize| aged.lanes[i].moisture_pct[last] - aged.lanes[i].moisture_pct[0];
     (
-        mean_of(edges, w, &dmc) - mean_of(centre, w, &dmc),
+        // the two ends count alike (each is one face's exchange), the centre half by width
+        mean_of(edges, &vec![1.0; w.len()], &dmc) - mean_of(centre, w, &dmc),
         max_from(0.0, (0..aged.lanes.len()).map(|i| dmc(i).abs())),
     )
 }

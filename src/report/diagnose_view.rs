@@ -57,40 +57,51 @@ fn cond_with_noise(e: &crate::diagnose::Evidence, sys: System) -> String {
 /// mechanism holds in some of them; `None` otherwise.
 pub fn mechanism_split(f: &Finding) -> Option<String> {
     let (own, others) = f.mechanisms.split_first()?;
-    let others: Vec<String> = (others.iter())
-        .filter(|m| m.share > 0.0)
-        .map(|m| {
-            format!(
-                "{} in {:.0} % (\"{}\")",
-                m.rule,
-                m.share * 100.0,
-                m.mechanism
-            )
-        })
+    let shown: Vec<&crate::diagnose::MechanismShare> =
+        others.iter().filter(|m| m.share > 0.0).collect();
+    let names: Vec<String> = (shown.iter())
+        .map(|m| format!("rule {} in {:.0} %", m.rule, m.share * 100.0))
         .collect();
-    (!others.is_empty()).then(|| {
+    let likelier = if shown.iter().any(|m| m.share > own.share) {
+        " Another mechanism holds in more states than this one: read its rule (rollsleuth rules show) before acting on this finding's cause and corrections."
+    } else {
+        ""
+    };
+    (!names.is_empty()).then(|| {
         format!(
-            "Mechanism: this one holds in {:.0} % of the plausible states; {} (the defect holds in {:.0} %, whichever the mechanism).",
+            "Mechanism: this one holds in {:.0} % of the plausible states; {} (a state can hold more than one; the defect holds in {:.0} %, whichever the mechanism).{likelier}",
             own.share * 100.0,
-            others.join("; "),
+            names.join("; "),
             f.probability * 100.0
         )
     })
 }
 
-/// Why evidence values lie outside their creep 5-95 % range, naming them; `None` when none does.
+/// Evidence values outside their creep 5-95 % range, named, and why where the reason is known
+/// (a share or a correlation across the lanes above its range); `None` when none lies outside.
 fn outside_range(evidence: &[crate::diagnose::Evidence]) -> Option<String> {
-    let out: Vec<&str> = (evidence.iter())
-        .filter(|e| match (e.p05, e.p95) {
-            (Some(lo), Some(hi)) => e.value < lo || e.value > hi,
-            _ => false,
-        })
-        .map(|e| words::feature(e.feature))
-        .collect();
+    use crate::diagnose::Evidence;
+    let outside = |e: &&Evidence| match (e.p05, e.p95) {
+        (Some(lo), Some(hi)) => e.value < lo || e.value > hi,
+        _ => false,
+    };
+    let out: Vec<&Evidence> = evidence.iter().filter(outside).collect();
+    let scatter = |e: &&Evidence| {
+        matches!(
+            e.feature,
+            Feature::MoistureShare | Feature::CaliperCorrelation
+        ) && e.p95.is_some_and(|hi| e.value > hi)
+    };
+    let why = if out.iter().all(scatter) {
+        " A share or a correlation across the lanes falls as their creep scatters, and over the plausible states each lane's creep scatters within what its readings leave uncertain."
+    } else {
+        ""
+    };
     (!out.is_empty()).then(|| {
+        let names: Vec<&str> = out.iter().map(|e| words::feature(e.feature)).collect();
         format!(
-            "Outside its creep 5-95 % range: {}. An evidence value is the fitted creep's; over the plausible states each lane's creep scatters within what its readings leave uncertain, and a share or a correlation across the lanes falls as they scatter.",
-            out.join(", ")
+            "Outside its creep 5-95 % range: {}. An evidence value is the fitted creep's; the range is over the plausible states.{why}",
+            names.join(", ")
         )
     })
 }

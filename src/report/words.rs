@@ -132,7 +132,12 @@ pub fn quantity_value(q: Quantity, v: f64, sys: System) -> String {
 
 /// A change of a quantity for tables, signed, with its unit ("-0.120 mm/m", "+4.2 kPa").
 pub fn quantity_change(q: Quantity, dv: f64, sys: System) -> String {
-    let dv = if dv.abs() < 5e-4 { 0.0 } else { dv };
+    // a pressure keeps its significant digits however small; a length or ratio its decimals
+    let dv = if dv.abs() < 5e-4 && quantity_si(q, dv).is_none() {
+        0.0
+    } else {
+        dv
+    };
     match (q, quantity_si(q, dv)) {
         // as many significant digits as the values it is the change of ([`quantity_value`])
         (_, Some(si)) => {
@@ -200,7 +205,14 @@ pub fn no_source_cause(a: &Attribution, sys: System) -> Option<String> {
     let q = a.quantity;
     let toward = worse_sign(q) * (a.value - a.value_without_sources);
     let tiny = 1e-9 * a.value.abs().max(a.value_without_sources.abs()).max(1e-9);
-    let together = if toward.abs() <= tiny {
+    let together = if a.holds_without_sources {
+        format!(
+            "the defect holds with every source of non-uniformity removed (the sources move the {} from {} to {})",
+            quantity(q),
+            quantity_value(q, a.value_without_sources, sys),
+            quantity_value(q, a.value, sys)
+        )
+    } else if toward.abs() <= tiny {
         format!("together the sources leave the {} unchanged", quantity(q))
     } else {
         format!(
@@ -218,10 +230,16 @@ pub fn no_source_cause(a: &Attribution, sys: System) -> Option<String> {
             }
         )
     };
-    let amplifiers = if a.sensitivities.is_empty() {
-        "no amplifier here has a feasible alternative to show"
-    } else {
-        "the amplifier table shows what web tension, nip, speed and storage time do"
+    let names: Vec<&str> = (a.sensitivities.iter())
+        .map(|s| amplifier(s.amplifier).0)
+        .collect();
+    let amplifiers = match names.as_slice() {
+        [] => "no amplifier here has a feasible alternative to show".to_string(),
+        [one] => format!("the amplifier table shows what the {one} does"),
+        [rest @ .., last] => format!(
+            "the amplifier table shows what the {} and the {last} do",
+            rest.join(", the ")
+        ),
     };
     Some(format!(
         "{together}; it comes from the winding and storage conditions themselves ({amplifiers})"
@@ -570,5 +588,6 @@ mod tests {
         assert_eq!(quantity_change(q, -0.0009014, System::Si), "-0.0009014 kPa");
         assert_eq!(quantity_change(q, 4.2, System::Si), "+4.200 kPa");
         assert_eq!(quantity_change(q, 0.0, System::Si), "0 kPa");
+        assert_eq!(quantity_change(q, -0.0004, System::Si), "-0.0004000 kPa");
     }
 }
