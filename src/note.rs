@@ -159,6 +159,10 @@ pub enum Note {
         /// Chance that measurement noise alone moves the state this far (the dropped finding's).
         noise_chance: f64,
     },
+    /// A changed roll (`whatif`) passes a strength limit that the measured roll passes only on
+    /// its calipers' noise ([`Note::LimitOnNoise`]): it rests on the same readings, so they
+    /// cannot tell whether the changed roll is beyond it either.
+    LimitOnSameReadings { which: Strength },
     /// A rule that fired on the fitted roll holds in fewer than half of the plausible states.
     Unlikely {
         defect: Defect,
@@ -470,6 +474,7 @@ impl Note {
             self,
             Note::Limit(_)
                 | Note::LimitOnNoise { .. }
+                | Note::LimitOnSameReadings { .. }
                 | Note::LaneNotExplained { .. }
                 | Note::RollNotExplained { .. }
                 | Note::WindingDiameter(_)

@@ -8,7 +8,8 @@
 //! is past its thin-ring buckling pressure (p = 3 E I / r^3, Timoshenko and Gere 1961, from
 //! memory), while the same roll with level calipers is within it: the readings cannot tell which
 //! holds. The warning of the limit stays (a state past a limit is never silent) with the sentence
-//! that says so, and triage counts it apart from limits the readings resolve. Control: on a
+//! that says so, and triage counts it apart from limits the readings resolve; `whatif` says the
+//! changed roll's limit rests on the same readings. Control: on a
 //! 1 GPa core the level roll itself is past the buckling pressure (a third of it), so the limit
 //! stands whatever the noise, and the roll is ranked first.
 
@@ -85,6 +86,27 @@ fn a_limit_passed_on_caliper_noise_is_warned_of_as_unresolved() {
     assert!(
         findings.iter().all(|f| f["defect"] != "core_collapse"),
         "{findings:?}"
+    );
+
+    // whatif: the changed roll's limit rests on the same readings, and says so
+    let w = run(&[
+        "whatif",
+        level.to_str().unwrap(),
+        "--set",
+        "winding.tension=60 N/m",
+        "--json",
+        "-q",
+    ]);
+    let changed: Vec<&str> = (w["warnings"].as_array().unwrap().iter())
+        .filter_map(|x| x.as_str())
+        .filter(|x| x.starts_with("as changed:"))
+        .collect();
+    let at = (changed.iter())
+        .position(|x| x.contains("times the core's collapse pressure"))
+        .unwrap_or_else(|| panic!("{changed:?}"));
+    assert!(
+        changed[at + 1].contains("rests on the same caliper readings"),
+        "{changed:?}"
     );
 
     let t = run(&["triage", d.to_str().unwrap(), "--json", "-q"]);

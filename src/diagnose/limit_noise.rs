@@ -99,6 +99,24 @@ pub fn qualify(notes: &mut Vec<Note>) {
     }
 }
 
+/// A changed roll's notes (`changed`) with [`Note::LimitOnSameReadings`] after each strength
+/// limit it passes that the measured roll (`measured`, its diagnosis notes) passes only on
+/// measurement noise: both rolls rest on the same caliper readings.
+pub fn carry(measured: &[Note], changed: &mut Vec<Note>) {
+    for which in passed(changed) {
+        let on_noise = |n: &Note| matches!(n, Note::LimitOnNoise { which: w, .. } if *w == which);
+        if !measured.iter().any(on_noise) {
+            continue;
+        }
+        let note = Note::LimitOnSameReadings { which };
+        if let Some(i) = changed.iter().rposition(|n| is_limit(n, which)) {
+            if !changed.contains(&note) {
+                changed.insert(i + 1, note);
+            }
+        }
+    }
+}
+
 /// How many of the physical limits in `notes` the readings resolve, and how many rest on
 /// measurement noise ([`Note::LimitOnNoise`]): `(resolved, on_noise)`.
 pub fn count(notes: &[Note]) -> (u32, u32) {
@@ -172,6 +190,16 @@ mod tests {
         );
         assert_eq!(notes[0], core(1.8e6));
         assert_eq!(count(&notes), (0, 1));
+        // a changed roll passing the same limit rests on the same readings
+        let mut changed = vec![core(1.4e6)];
+        carry(&notes, &mut changed);
+        let same = Note::LimitOnSameReadings {
+            which: Strength::CoreCollapse,
+        };
+        assert_eq!(changed, vec![core(1.4e6), same]);
+        let mut resolved = vec![core(1.4e6)];
+        carry(&[core(1.8e6)], &mut resolved);
+        assert_eq!(resolved, vec![core(1.4e6)]);
     }
 
     #[test]

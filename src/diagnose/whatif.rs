@@ -124,16 +124,30 @@ pub fn what_if(
             .collect(),
         screened_out,
         case_warnings: variant.warnings.clone(),
-        notes: crate::fit::limit_notes(variant, &la, &oa.wound, &oa.aged)
-            .into_iter()
-            .filter(|n| !matches!(n, crate::note::Note::WindingDiameter(_)))
-            .collect(),
+        notes: changed_notes(&measured.notes, variant, &la, &oa),
         case_warnings_before: base.warnings.clone(),
         notes_before: (measured.notes.into_iter())
             .filter(crate::note::Note::is_warning)
             .collect(),
         model_fit: measured.confidence.model_fit(),
     })
+}
+
+/// The changed roll's warnings: the limits its winding and storage passed (not its wound
+/// diameters against the measured roll's profile: the change is what moves them), each that the
+/// measured roll passes only on caliper noise said to rest on the same readings.
+fn changed_notes(
+    measured: &[crate::note::Note],
+    variant: &Case,
+    lanes: &Lanes,
+    o: &actions::Outcome,
+) -> Vec<crate::note::Note> {
+    let mut n: Vec<crate::note::Note> = crate::fit::limit_notes(variant, lanes, &o.wound, &o.aged)
+        .into_iter()
+        .filter(|n| !matches!(n, crate::note::Note::WindingDiameter(_)))
+        .collect();
+    super::limit_noise::carry(measured, &mut n);
+    n
 }
 
 /// Fitted creep carried onto lanes at `positions` (m): each lane gets the fitted lanes' creep

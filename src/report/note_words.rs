@@ -70,6 +70,32 @@ fn kept_words(n: usize, (a, b): (f64, f64)) -> String {
     }
 }
 
+/// A strength limit that rests on the calipers' noise ([`Note::LimitOnNoise`],
+/// [`Note::LimitOnSameReadings`]) as a sentence.
+fn limit_noise_note(n: &Note) -> String {
+    match *n {
+        Note::LimitOnNoise {
+            which,
+            ratio,
+            level_ratio,
+            noise_chance,
+        } => format!(
+            "the {} passes {} only as the calipers read ({} times it; a roll with level calipers is at {}), and measurement noise alone moves it this far with a chance of {} %: the readings cannot tell whether this roll is beyond it; calipers read to a finer repeatability, or more of them, can (treat the roll with care until then)",
+            super::limit_words::strength_limit(which).0,
+            super::limit_words::strength_limit(which).1,
+            crate::units::sig(ratio, 3),
+            crate::units::sig(level_ratio, 3),
+            crate::units::sig(noise_chance * 100.0, 2)
+        ),
+        Note::LimitOnSameReadings { which } => format!(
+            "the {} rests on the same caliper readings as the roll as measured, whose limit is within measurement noise: the readings cannot tell whether this roll is beyond {} either",
+            super::limit_words::strength_limit(which).0,
+            super::limit_words::strength_limit(which).1
+        ),
+        _ => String::new(),
+    }
+}
+
 /// A note of the diagnosis's confidence (noise floor, resolution, misfit) as a sentence.
 pub(super) fn confidence_note(n: &Note, sys: System) -> String {
     match *n {
@@ -113,19 +139,7 @@ pub(super) fn confidence_note(n: &Note, sys: System) -> String {
             crate::units::sig(level * 100.0, 2)
         ),
         Note::OnCaliperCrown { .. } => crown_note(n, sys),
-        Note::LimitOnNoise {
-            which,
-            ratio,
-            level_ratio,
-            noise_chance,
-        } => format!(
-            "the {} passes {} only as the calipers read ({} times it; a roll with level calipers is at {}), and measurement noise alone moves it this far with a chance of {} %: the readings cannot tell whether this roll is beyond it; calipers read to a finer repeatability, or more of them, can (treat the roll with care until then)",
-            super::limit_words::strength_limit(which).0,
-            super::limit_words::strength_limit(which).1,
-            crate::units::sig(ratio, 3),
-            crate::units::sig(level_ratio, 3),
-            crate::units::sig(noise_chance * 100.0, 2)
-        ),
+        Note::LimitOnNoise { .. } | Note::LimitOnSameReadings { .. } => limit_noise_note(n),
         Note::Unlikely { defect, probability } => format!(
             "{} not reported: its rule holds in only {:.0} % of the plausible states (posterior draws)",
             defect_name(defect),

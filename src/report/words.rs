@@ -414,6 +414,7 @@ pub fn note_in(n: &Note, sys: System) -> String {
         | Note::LaneNotExplained { .. }
         | Note::RollNotExplained { .. }
         | Note::LimitOnNoise { .. }
+        | Note::LimitOnSameReadings { .. }
         | Note::FindingOnWeakLanes { .. } => super::note_words::confidence_note(n, sys),
         Note::CaliperFromDiameter => {
             "no caliper profile: lane calipers inferred from the earliest diameter profile".into()
