@@ -9,7 +9,8 @@
 //! memory), while the same roll with level calipers is within it: the readings cannot tell which
 //! holds. The warning of the limit stays (a state past a limit is never silent) with the sentence
 //! that says so, and triage counts it apart from limits the readings resolve; `whatif` says the
-//! changed roll's limit rests on the same readings. Control: on a
+//! changed roll's limit rests on the same readings, and screens its defects against the same
+//! noise. Control: on a
 //! 1 GPa core the level roll itself is past the buckling pressure (a third of it), so the limit
 //! stands whatever the noise, and the roll is ranked first.
 
@@ -107,6 +108,15 @@ fn a_limit_passed_on_caliper_noise_is_warned_of_as_unresolved() {
     assert!(
         changed[at + 1].contains("rests on the same caliper readings"),
         "{changed:?}"
+    );
+    // the changed roll's defects pass the same noise screen: the level film gives none as
+    // measured, and the ridges the rules give at the lower tension rest on the same readings
+    // (before the screen ran on the changed roll, it read "none -> ridges")
+    assert_eq!(w["defects_before"], serde_json::json!([]), "{w}");
+    assert_eq!(w["defects_after"], serde_json::json!([]), "{w}");
+    assert!(
+        (w["screened_out_after"].as_array().unwrap().iter()).any(|d| d == "ridges"),
+        "{w}"
     );
 
     let t = run(&["triage", d.to_str().unwrap(), "--json", "-q"]);

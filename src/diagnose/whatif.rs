@@ -2,7 +2,7 @@
 //! fitted on the measured case, carried to the variant's lanes by lane centre.
 
 use super::actions::{self, spread_mm_per_m};
-use super::{base_scenario, features, fitted, DiagnoseError, DiagnoseOptions};
+use super::{base_scenario, features, fitted, DiagnoseError, DiagnoseOptions, Fitted};
 use crate::case::Case;
 use crate::lanes::{self, Lanes};
 use crate::rules::{self, Table};
@@ -26,14 +26,17 @@ pub struct WhatIf {
     pub excess_before_mm_per_m: Vec<f64>,
     pub excess_after_mm_per_m: Vec<f64>,
     /// Defects before: the measured roll's findings as `diagnose` gives them (screened against
-    /// measurement noise); after: the defects the rules give on the changed roll, but those the
-    /// measured roll's screen dropped ([`WhatIf::screened_out`]).
+    /// measurement noise); after: the changed roll's findings under the same screen, but those
+    /// the measured roll's screen dropped ([`WhatIf::screened_out`]).
     pub defects_before: Vec<Defect>,
     pub defects_after: Vec<Defect>,
     /// Defects the rules give on the measured roll that its screen drops (within measurement
     /// noise, or holding in fewer than half of the plausible states; `diagnose` says which):
     /// listed on neither side.
     pub screened_out: Vec<Defect>,
+    /// Defects the rules give on the changed roll that the same screen, run on the changed roll,
+    /// drops: it rests on the same caliper readings. Listed on neither side.
+    pub screened_out_after: Vec<Defect>,
     /// The changed roll's own case warnings, and the physical limits its winding or storage
     /// passed (in words in the views' `warnings`). Its wound diameters are not held against the
     /// measured roll's diameter profile: the change is what moves them.
@@ -79,9 +82,10 @@ pub fn what_if(
         .zip(f.creep.iter().copied())
         .collect();
     let mut winds = Cache::default();
+    let carried =
+        |c: &Case, l: &Lanes| creep_at(&fitted_at, &l.positions(), &LaneCreep::grade(&c.material));
     let mut run = |c: &Case, l: &Lanes| -> Result<actions::Outcome, DiagnoseError> {
-        let cr = creep_at(&fitted_at, &l.positions(), &LaneCreep::grade(&c.material));
-        let s = base_scenario(c, l, cr, Options::default().levelling);
+        let s = base_scenario(c, l, carried(c, l), Options::default().levelling);
         if std::ptr::eq(c, base) {
             winds.insert(&s.wind_input(), l, s.wind_options(opt.nodes), &f.wound);
         }
@@ -91,14 +95,7 @@ pub fn what_if(
     let oa = run(variant, &la)?;
     let fb = features::compute(base, &lb, &ob);
     let fa = features::compute(variant, &la, &oa);
-    let defects = |f: &Features| {
-        let mut d: Vec<Defect> = rules::evaluate(table, &f.values)
-            .iter()
-            .map(|x| x.rule.defect)
-            .collect();
-        d.dedup();
-        d
-    };
+    let defects = |f: &Features| rule_defects(table, f);
     // the measured roll screened as `diagnose` screens it; a defect its screen drops is no
     // finding there, and the change is not judged on it
     let screen = DiagnoseOptions {
@@ -110,27 +107,74 @@ pub fn what_if(
     let screened_out: Vec<Defect> = (defects(&fb).into_iter())
         .filter(|d| !found.contains(d))
         .collect();
+    let creep = carried(variant, &la);
+    let (changed, after_found, screened_out_after) = screen_changed(
+        (variant, table, &screen),
+        (&f, la, &oa, creep),
+        defects(&fa),
+        &screened_out,
+    )?;
     Ok(WhatIf {
         case: base.id.clone(),
         changes: changes.to_vec(),
         spread_before_mm_per_m: spread_mm_per_m(&ob.aged, &[]),
         spread_after_mm_per_m: spread_mm_per_m(&oa.aged, &[]),
-        position_m: la.positions(),
+        position_m: changed.lanes.positions(),
         excess_before_mm_per_m: fb.excess_mm_per_m.clone(),
         excess_after_mm_per_m: fa.excess_mm_per_m.clone(),
         defects_before: found,
-        defects_after: (defects(&fa).into_iter())
-            .filter(|d| !screened_out.contains(d))
-            .collect(),
+        defects_after: after_found,
         screened_out,
+        screened_out_after,
         case_warnings: variant.warnings.clone(),
-        notes: changed_notes(&measured.notes, variant, &la, &oa),
+        notes: changed_notes(&measured.notes, variant, &changed.lanes, &oa),
         case_warnings_before: base.warnings.clone(),
         notes_before: (measured.notes.into_iter())
             .filter(crate::note::Note::is_warning)
             .collect(),
         model_fit: measured.confidence.model_fit(),
     })
+}
+
+/// The defects the rules give on features `f`, in the table's order, each once.
+fn rule_defects(table: &Table, f: &Features) -> Vec<Defect> {
+    let mut d: Vec<Defect> = (rules::evaluate(table, &f.values).iter())
+        .map(|x| x.rule.defect)
+        .collect();
+    d.dedup();
+    d
+}
+
+/// The changed roll screened as the measured roll is: it rests on the same caliper readings, so a
+/// defect its own screen drops is no defect after the change either. `raw`: the defects the rules
+/// give on it; those the measured roll's screen dropped (`before`) are judged on neither side.
+/// `measured`: the measured roll's fit, run on the changed roll's `lanes`, outcome `o` and
+/// carried `creep`. Returns the changed roll so fitted, its findings' defects and the defects
+/// its screen drops.
+fn screen_changed(
+    (variant, table, screen): (&Case, &Table, &DiagnoseOptions),
+    (measured, lanes, o, creep): (&Fitted, Lanes, &actions::Outcome, Vec<LaneCreep>),
+    raw: Vec<Defect>,
+    before: &[Defect],
+) -> Result<(Fitted, Vec<Defect>, Vec<Defect>), DiagnoseError> {
+    let changed = Fitted {
+        lanes,
+        wound: o.wound.clone(),
+        fit: crate::fit::RollFit {
+            aged: o.aged.clone(),
+            ..measured.fit.clone()
+        },
+        creep,
+    };
+    let after = super::diagnose_fitted(variant, table, screen, &changed)?;
+    let found: Vec<Defect> = (after.findings.iter())
+        .map(|x| x.defect)
+        .filter(|d| !before.contains(d))
+        .collect();
+    let dropped = (raw.into_iter())
+        .filter(|d| !found.contains(d) && !before.contains(d))
+        .collect();
+    Ok((changed, found, dropped))
 }
 
 /// The changed roll's warnings: the limits its winding and storage passed (not its wound

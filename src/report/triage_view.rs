@@ -432,7 +432,7 @@ pub fn whatif_text(w: &crate::diagnose::WhatIf, sys: System) -> Result<String, W
                 .map(|l| format!("note: as changed: {l}\n")),
         )
         .collect();
-    let screened = if w.screened_out.is_empty() {
+    let mut screened = if w.screened_out.is_empty() {
         String::new()
     } else {
         format!(
@@ -440,6 +440,12 @@ pub fn whatif_text(w: &crate::diagnose::WhatIf, sys: System) -> Result<String, W
             defect_list(&w.screened_out)
         )
     };
+    if !w.screened_out_after.is_empty() {
+        screened += &format!(
+            "Dropped by the same screen on the changed roll, which rests on the same caliper readings (within measurement noise, or unlikely): {}.\n",
+            defect_list(&w.screened_out_after)
+        );
+    }
     let rests = "The defects of both rolls, and their absence,";
     let fit = (super::fit_words::opening(&w.model_fit, sys, rests))
         .map_or(String::new(), |s| format!("{s}\n"));
@@ -471,6 +477,7 @@ mod tests {
             defects_before: vec![Defect::BaggyCenter],
             defects_after: Vec::new(),
             screened_out: Vec::new(),
+            screened_out_after: Vec::new(),
             case_warnings: Vec::new(),
             notes: Vec::new(),
             case_warnings_before: Vec::new(),
@@ -575,6 +582,14 @@ mod tests {
         let t = whatif_text(&what_if(2), System::Si).unwrap();
         assert!(t.contains("Likely defects: baggy centre -> none."), "{t}");
         assert!(t.contains("+0.25") && t.contains("-0.25"), "{t}");
+        assert!(!t.contains("Dropped by the same screen"), "{t}");
+        let mut w = what_if(2);
+        w.screened_out_after = vec![Defect::Ridges];
+        let t = whatif_text(&w, System::Si).unwrap();
+        assert!(
+            t.contains("(within measurement noise, or unlikely): ridges."),
+            "{t}"
+        );
         let e = whatif_text(&what_if(3), System::Si).unwrap_err();
         assert_eq!(
             e.to_string(),
