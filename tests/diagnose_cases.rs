@@ -94,6 +94,15 @@ fn caliper_correction_is_backed_by_the_model() {
         .unwrap();
     assert!(flat.after.unwrap() < 0.7 * flat.before, "{flat:?}");
     assert_eq!(flat.defect_remains, Some(false), "{flat:?}");
+    // and it goes in every plausible state of the creep, not only at the fitted one
+    assert_eq!(flat.remains_fraction, Some(0.0), "{flat:?}");
+    // each correction re-run on the roll is judged over the states too
+    for c in f.corrections.iter().filter(|c| c.defect_remains.is_some()) {
+        assert!(
+            c.remains_fraction.is_some_and(|p| (0.0..=1.0).contains(&p)),
+            "{c:?}"
+        );
+    }
 }
 
 fn uniform(storage: &str) -> Case {

@@ -475,6 +475,10 @@ fn grade_findings(
         f.mechanisms = mechanism_shares(r, &siblings, states);
         let test = noise_test(r, &lanes_of(f), feats, tests);
         f.likelihood = grade(f.probability, test.clear(), r.likelihood);
+        if let (Some(d), Some(e)) = (r.when.first(), f.evidence.first()) {
+            let v: Vec<f64> = states.iter().map(|s| s.values[d.feature]).collect();
+            super::corrections::remains_over_states(&mut f.corrections, d, e.value, &v);
+        }
         for e in f.evidence.iter_mut() {
             let mut v: Vec<f64> = states.iter().map(|s| s.values[e.feature]).collect();
             v.sort_by(f64::total_cmp);

@@ -31,9 +31,25 @@ pub struct CheckedCorrection {
     /// None when not re-run, when the correction does not apply, and for a slit-out (the roll
     /// keeps its lanes; the slit web is judged on its quantity).
     pub defect_remains: Option<bool>,
+    /// The deciding condition's feature on the corrected roll at the fitted creep, and whether
+    /// the lanes that carry the defect there include some of the finding's own (None when
+    /// `defect_remains` is).
+    pub deciding_after: Option<DecidingAfter>,
+    /// Share of the plausible states in which the defect stays ([`remains_over_states`]); None
+    /// when `defect_remains` is, or before the confidence screen.
+    pub remains_fraction: Option<f64>,
     /// Whether the correction changes anything on this roll (keeping a wrap the roll never had
     /// does not): one that does not apply is neither run nor judged, and is listed last.
     pub applies: bool,
+}
+
+/// The finding's deciding feature read on a corrected roll (in the feature's own unit).
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct DecidingAfter {
+    pub feature: crate::vocab::Feature,
+    pub value: f64,
+    /// Whether the defect, located on the corrected roll, overlaps the finding's lanes.
+    pub at_finding: bool,
 }
 
 /// Relative change below which a correction counts as no improvement (a numerical tolerance of
@@ -82,19 +98,23 @@ pub fn check(
             };
             at.measure(q, &o[i])
         });
-        let remains = match (&outcomes, deciding) {
+        let deciding_after = match (&outcomes, deciding) {
             (Some(o), Some(d)) if applies && c.action != Action::SlitOut => {
                 let s = &scenarios[i];
                 let f = super::features::compute(&s.case, &s.lanes, &o[i]);
                 let width = s.case.roll.width_m;
-                let here = || {
-                    let at = super::quantity::locate(defect, &s.lanes, width, &f, &o[i]);
-                    site.at.is_empty() || at.iter().any(|j| site.at.contains(j))
-                };
-                Some(d.holds(f.get(d.feature)) && here())
+                let at = super::quantity::locate(defect, &s.lanes, width, &f, &o[i]);
+                Some(DecidingAfter {
+                    feature: d.feature,
+                    value: f.get(d.feature),
+                    at_finding: site.at.is_empty() || at.iter().any(|j| site.at.contains(j)),
+                })
             }
             _ => None,
         };
+        let remains = deciding
+            .zip(deciding_after)
+            .map(|(d, a)| a.at_finding && d.holds(a.value));
         out.push(CheckedCorrection {
             action: c.action,
             factor: c.factor,
@@ -106,9 +126,90 @@ pub fn check(
             after,
             improves: after.map(|a| improves(q, before, a)),
             defect_remains: remains,
+            deciding_after,
+            remains_fraction: None,
             applies,
         });
     }
     out.sort_by_key(|c| (!c.applies, c.improves == Some(false)));
     Ok(out)
+}
+
+/// Whether each correction's defect stays over the plausible states: the share of `states` (the
+/// deciding feature's value in each plausible state of the measured roll) in which the `deciding`
+/// condition still holds once moved by what the correction moves it at the fitted creep (from
+/// `fitted`, the finding's value, to [`DecidingAfter::value`]). A first-order estimate: the
+/// correction is re-run at the fitted creep only. A defect located away from the finding's lanes
+/// goes in every state.
+pub fn remains_over_states(
+    corrections: &mut [CheckedCorrection],
+    deciding: &Condition,
+    fitted: f64,
+    states: &[f64],
+) {
+    if states.is_empty() {
+        return;
+    }
+    for c in corrections.iter_mut() {
+        let Some(a) = c.deciding_after else { continue };
+        let shift = a.value - fitted;
+        let holds = (states.iter())
+            .filter(|&&v| a.at_finding && deciding.holds(v + shift))
+            .count();
+        c.remains_fraction = Some(holds as f64 / states.len() as f64);
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::vocab::Feature;
+
+    fn corrected(value: f64, at_finding: bool) -> CheckedCorrection {
+        CheckedCorrection {
+            action: Action::ScaleTension,
+            factor: Some(0.8),
+            text: String::new(),
+            why: String::new(),
+            quantity: Quantity::SpreadMmPerM,
+            unit: "mm/m",
+            before: 1.0,
+            after: Some(0.5),
+            improves: Some(true),
+            defect_remains: Some(at_finding && value > 0.5),
+            deciding_after: Some(DecidingAfter {
+                feature: Feature::SpreadMmPerM,
+                value,
+                at_finding,
+            }),
+            remains_fraction: None,
+            applies: true,
+        }
+    }
+
+    /// Hand-worked: the finding reads 1.0 at the fitted creep and 0.6, 0.75, 1.0, 1.2 in four
+    /// states; a correction that moves it to 0.7 (by -0.3) leaves 0.3, 0.45, 0.7, 0.9, so the
+    /// condition "above 0.5" holds in two of the four. One
+    /// that moves it to 0.1 leaves none; one located away from the finding stays in none.
+    #[test]
+    fn a_correction_stays_in_the_states_it_leaves_past_the_threshold() {
+        let d = Condition {
+            feature: Feature::SpreadMmPerM,
+            above: Some(0.5),
+            below: None,
+            source: String::new(),
+        };
+        let mut c = vec![
+            corrected(0.7, true),
+            corrected(0.1, true),
+            corrected(2.0, false),
+        ];
+        let no_states = c.clone();
+        remains_over_states(&mut c, &d, 1.0, &[0.6, 0.75, 1.0, 1.2]);
+        let got: Vec<Option<f64>> = c.iter().map(|x| x.remains_fraction).collect();
+        assert_eq!(got, vec![Some(0.5), Some(0.0), Some(0.0)]);
+        let mut n = no_states;
+        remains_over_states(&mut n, &d, 1.0, &[]);
+        assert!(n.iter().all(|x| x.remains_fraction.is_none()));
+    }
 }

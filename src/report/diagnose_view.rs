@@ -288,7 +288,7 @@ pub fn correction_row(x: &CheckedCorrection, sys: System) -> Vec<String> {
         x.after.map_or("not run".into(), |a| {
             words::quantity_value(x.quantity, a, sys)
         }),
-        words::improves(x).to_string(),
+        words::improves(x),
         x.why.clone(),
     ]
 }

@@ -119,7 +119,7 @@ fn finding(n: usize, f: &Finding, sys: System, v: &mut Vec<Block>) {
         return;
     }
     v.push(Block::Para(vec![t(
-        "Each correction applied to the model as its text says and the roll re-run through winding and storage; one that does not improve the quantity is marked and listed last:",
+        "Each correction applied to the model as its text says and the roll re-run through winding and storage; one that does not improve the quantity is marked and listed last. Whether the defect stays is its deciding condition on the corrected roll, in each plausible state moved by what the correction moves it at the fitted creep:",
     )]));
     v.push(Block::Table {
         head: ["correction", "before", "after", "change", "improves", "why"]

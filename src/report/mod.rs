@@ -6,6 +6,7 @@
 
 pub mod age_view;
 pub mod case_view;
+mod cause_words;
 pub mod chart;
 pub mod check_view;
 pub mod diagnose_view;

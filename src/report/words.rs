@@ -1,9 +1,9 @@
 //! Words for the vocabulary: defects, causes and the notes a diagnosis implies. Every `match` is
 //! exhaustive, so a new word does not compile until it has its text here.
 
+pub use super::cause_words::{contribution, improves, no_source_cause, share, SHARES_METHOD};
 use crate::case::Measure;
-use crate::diagnose::attribution::{worse_sign, SourceShare, NEGLIGIBLE_FRACTION};
-use crate::diagnose::{Attribution, Diagnosis};
+use crate::diagnose::Diagnosis;
 use crate::note::Note;
 use crate::units::{self, Kind, System};
 use crate::vocab::{Amplifier, Cause, Defect, Feature, Quantity};
@@ -153,97 +153,6 @@ pub fn quantity_change(q: Quantity, dv: f64, sys: System) -> String {
         }
         _ => format!("{dv:+.3} {}", units::strain_label(sys)),
     }
-}
-
-/// A source's share as a percentage ("93 %"; "-" when there is no change to share; a share that
-/// rounds to zero without a sign).
-pub fn share(x: Option<f64>) -> String {
-    match x {
-        Some(x) if (x * 100.0).abs() < 0.5 => "0 %".into(),
-        Some(x) => format!("{:.0} %", x * 100.0),
-        None => "-".into(),
-    }
-}
-
-/// Whether a correction improves its finding's quantity, in words, and whether the defect
-/// stays after it (its deciding condition still holds on the corrected roll).
-pub fn improves(c: &crate::diagnose::CheckedCorrection) -> &'static str {
-    if !c.applies {
-        return "does not apply: it changes nothing on this roll";
-    }
-    match (c.improves, c.defect_remains) {
-        (Some(true), Some(true)) => "yes, but the defect stays there",
-        (Some(true), Some(false)) => "yes, the defect goes from there",
-        (Some(true), None) => "yes",
-        (Some(false), _) => "no: not recommended",
-        (None, _) => "not run",
-    }
-}
-
-/// How root causes are attributed, said whenever they were.
-pub const SHARES_METHOD: &str = "each source's share is its Shapley value (Shapley 1953) over every subset of source removals, on the finding's own quantity: independent of the order of removal, interactions shared evenly, and the shares add up to the change with every source removed (a source that works against the finding has a negative share, and then the others' add up to more than 100 %); web tension, nip, speed and storage time amplify a non-uniformity without making one, so they are shown as the quantity at a feasible alternative";
-
-/// A source's contribution to its finding's quantity in words: the signed change, and, when it
-/// works against the defect while its share reads as positive (the sources' total works against
-/// it too), that it does; a negative share already says so ([`SHARES_METHOD`]).
-pub fn contribution(q: Quantity, s: &SourceShare, sys: System) -> String {
-    let change = quantity_change(q, s.contribution, sys);
-    if s.against_defect && s.share.is_none_or(|x| x >= 0.0) {
-        format!("{change}, against the defect")
-    } else {
-        change
-    }
-}
-
-/// Why no source of non-uniformity is the finding's cause, None when the sources explain it
-/// ([`Attribution::sources_explain`]): what they do together, and where the defect comes from
-/// (the words after "no source of non-uniformity explains ...: ").
-pub fn no_source_cause(a: &Attribution, sys: System) -> Option<String> {
-    if a.sources_explain {
-        return None;
-    }
-    let q = a.quantity;
-    let toward = worse_sign(q) * (a.value - a.value_without_sources);
-    let tiny = 1e-9 * a.value.abs().max(a.value_without_sources.abs()).max(1e-9);
-    let together = if a.holds_without_sources {
-        format!(
-            "the defect holds with every source of non-uniformity removed (the sources move the {} from {} to {})",
-            quantity(q),
-            quantity_value(q, a.value_without_sources, sys),
-            quantity_value(q, a.value, sys)
-        )
-    } else if toward.abs() <= tiny {
-        format!("together the sources leave the {} unchanged", quantity(q))
-    } else {
-        format!(
-            "together the sources move the {} from {} (every source removed) to {}, {}",
-            quantity(q),
-            quantity_value(q, a.value_without_sources, sys),
-            quantity_value(q, a.value, sys),
-            if toward < 0.0 {
-                "which works against the defect".to_string()
-            } else {
-                format!(
-                    "under {:.0} % of the defect's size",
-                    NEGLIGIBLE_FRACTION * 100.0
-                )
-            }
-        )
-    };
-    let names: Vec<&str> = (a.sensitivities.iter())
-        .map(|s| amplifier(s.amplifier).0)
-        .collect();
-    let amplifiers = match names.as_slice() {
-        [] => "no amplifier here has a feasible alternative to show".to_string(),
-        [one] => format!("the amplifier table shows what the {one} does"),
-        [rest @ .., last] => format!(
-            "the amplifier table shows what the {} and the {last} do",
-            rest.join(", the ")
-        ),
-    };
-    Some(format!(
-        "{together}; it comes from the winding and storage conditions themselves ({amplifiers})"
-    ))
 }
 
 /// The diagnosis's notes with the notes its results imply, sorted, each once (warnings are
