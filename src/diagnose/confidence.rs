@@ -468,15 +468,18 @@ fn grade_findings(
             continue;
         };
         let siblings = table.siblings(r);
-        let holds = (states.iter())
-            .filter(|s| siblings.iter().any(|q| q.holds(&s.values)))
-            .count();
+        let held: Vec<bool> = (states.iter())
+            .map(|s| siblings.iter().any(|q| q.holds(&s.values)))
+            .collect();
+        let holds = held.iter().filter(|&&h| h).count();
         f.probability = holds as f64 / states.len().max(1) as f64;
         f.mechanisms = mechanism_shares(r, &siblings, states);
         let test = noise_test(r, &lanes_of(f), feats, tests);
         f.likelihood = grade(f.probability, test.clear(), r.likelihood);
         if let (Some(d), Some(e)) = (r.when.first(), f.evidence.first()) {
-            let v: Vec<f64> = states.iter().map(|s| s.values[d.feature]).collect();
+            let v: Vec<(f64, bool)> = (states.iter().zip(held))
+                .map(|(s, h)| (s.values[d.feature], h))
+                .collect();
             super::corrections::remains_over_states(&mut f.corrections, d, e.value, &v);
         }
         for e in f.evidence.iter_mut() {

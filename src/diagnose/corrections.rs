@@ -48,7 +48,8 @@ pub struct CheckedCorrection {
 pub struct DecidingAfter {
     pub feature: crate::vocab::Feature,
     pub value: f64,
-    /// Whether the defect, located on the corrected roll, overlaps the finding's lanes.
+    /// Whether the defect, located on the corrected roll, overlaps the finding's lanes (a
+    /// defect located on the whole roll, as the core's collapse is, always does).
     pub at_finding: bool,
 }
 
@@ -107,7 +108,10 @@ pub fn check(
                 Some(DecidingAfter {
                     feature: d.feature,
                     value: f.get(d.feature),
-                    at_finding: site.at.is_empty() || at.iter().any(|j| site.at.contains(j)),
+                    // no lanes located: the whole roll (the core, the outer wraps, a flat)
+                    at_finding: site.at.is_empty()
+                        || at.is_empty()
+                        || at.iter().any(|j| site.at.contains(j)),
                 })
             }
             _ => None,
@@ -135,28 +139,38 @@ pub fn check(
     Ok(out)
 }
 
-/// Whether each correction's defect stays over the plausible states: the share of `states` (the
-/// deciding feature's value in each plausible state of the measured roll) in which the `deciding`
-/// condition still holds once moved by what the correction moves it at the fitted creep (from
-/// `fitted`, the finding's value, to [`DecidingAfter::value`]). A first-order estimate: the
+/// Whether each correction's defect stays over the plausible states: of the states in which the
+/// finding holds (`states`: the deciding feature's value in each plausible state of the measured
+/// roll, and whether the finding holds there), the share in which the `deciding` condition still
+/// holds once the value is moved as the correction moves it at the fitted creep (from `fitted`,
+/// the finding's value, to [`DecidingAfter::value`]): in proportion where both have one sign, as
+/// a length that grows with creep does, else by the difference. A first-order estimate: the
 /// correction is re-run at the fitted creep only. A defect located away from the finding's lanes
 /// goes in every state.
 pub fn remains_over_states(
     corrections: &mut [CheckedCorrection],
     deciding: &Condition,
     fitted: f64,
-    states: &[f64],
+    states: &[(f64, bool)],
 ) {
-    if states.is_empty() {
+    let held = states.iter().filter(|s| s.1).count();
+    if held == 0 {
         return;
     }
     for c in corrections.iter_mut() {
         let Some(a) = c.deciding_after else { continue };
-        let shift = a.value - fitted;
-        let holds = (states.iter())
-            .filter(|&&v| a.at_finding && deciding.holds(v + shift))
+        let ratio = a.value / fitted;
+        let moved = |v: f64| {
+            if ratio.is_finite() && ratio > 0.0 {
+                v * ratio
+            } else {
+                v + (a.value - fitted)
+            }
+        };
+        let stays = (states.iter())
+            .filter(|&&(v, h)| h && a.at_finding && deciding.holds(moved(v)))
             .count();
-        c.remains_fraction = Some(holds as f64 / states.len() as f64);
+        c.remains_fraction = Some(stays as f64 / held as f64);
     }
 }
 
@@ -188,28 +202,33 @@ mod tests {
     }
 
     /// Hand-worked: the finding reads 1.0 at the fitted creep and 0.6, 0.75, 1.0, 1.2 in four
-    /// states; a correction that moves it to 0.7 (by -0.3) leaves 0.3, 0.45, 0.7, 0.9, so the
-    /// condition "above 0.5" holds in two of the four. One
-    /// that moves it to 0.1 leaves none; one located away from the finding stays in none.
+    /// states, holding in the last three. A correction that moves it to 0.7 (by a factor 0.7)
+    /// leaves 0.525, 0.7 and 0.84 there, so the condition "above 0.6" holds in two of the three.
+    /// One that moves it to 0.1 leaves none; one located away from the finding stays in none. A
+    /// finding read at 0 moves by the difference: 0 to 0.7 takes 0.1 and -0.2 to 0.8 and 0.5.
     #[test]
     fn a_correction_stays_in_the_states_it_leaves_past_the_threshold() {
         let d = Condition {
             feature: Feature::SpreadMmPerM,
-            above: Some(0.5),
+            above: Some(0.6),
             below: None,
             source: String::new(),
         };
-        let mut c = vec![
+        let untouched = [
             corrected(0.7, true),
             corrected(0.1, true),
             corrected(2.0, false),
         ];
-        let no_states = c.clone();
-        remains_over_states(&mut c, &d, 1.0, &[0.6, 0.75, 1.0, 1.2]);
+        let mut c = untouched.to_vec();
+        let states = [(0.6, false), (0.75, true), (1.0, true), (1.2, true)];
+        remains_over_states(&mut c, &d, 1.0, &states);
         let got: Vec<Option<f64>> = c.iter().map(|x| x.remains_fraction).collect();
-        assert_eq!(got, vec![Some(0.5), Some(0.0), Some(0.0)]);
-        let mut n = no_states;
+        assert_eq!(got, vec![Some(2.0 / 3.0), Some(0.0), Some(0.0)]);
+        let mut n = untouched.to_vec();
         remains_over_states(&mut n, &d, 1.0, &[]);
         assert!(n.iter().all(|x| x.remains_fraction.is_none()));
+        let mut z = vec![untouched[0].clone()];
+        remains_over_states(&mut z, &d, 0.0, &[(0.1, true), (-0.2, true)]);
+        assert_eq!(z[0].remains_fraction, Some(0.5));
     }
 }

@@ -99,16 +99,21 @@ pub fn qualify(notes: &mut Vec<Note>) {
     }
 }
 
-/// A changed roll's notes (`changed`) with [`Note::LimitOnSameReadings`] after each strength
-/// limit it passes that the measured roll (`measured`, its diagnosis notes) passes only on
-/// measurement noise: both rolls rest on the same caliper readings.
-pub fn carry(measured: &[Note], changed: &mut Vec<Note>) {
+/// A changed roll's notes (`changed`) with, after each strength limit it passes,
+/// [`Note::LimitOnSameReadings`] where the measured roll (`measured`, its diagnosis notes)
+/// passes it only on measurement noise (both rolls rest on the same caliper readings), else the
+/// changed roll's own [`Note::LimitOnNoise`] where its own screen (`own`, the notes of the
+/// changed roll screened as `diagnose` screens it) dropped the limit's finding as noise.
+pub fn carry(measured: &[Note], own: &[Note], changed: &mut Vec<Note>) {
     for which in passed(changed) {
-        let on_noise = |n: &Note| matches!(n, Note::LimitOnNoise { which: w, .. } if *w == which);
-        if !measured.iter().any(on_noise) {
+        let on_noise = |n: &&Note| matches!(n, Note::LimitOnNoise { which: w, .. } if *w == which);
+        let note = if measured.iter().any(|n| on_noise(&n)) {
+            Note::LimitOnSameReadings { which }
+        } else if let Some(n) = own.iter().find(on_noise) {
+            *n
+        } else {
             continue;
-        }
-        let note = Note::LimitOnSameReadings { which };
+        };
         if let Some(i) = changed.iter().rposition(|n| is_limit(n, which)) {
             if !changed.contains(&note) {
                 changed.insert(i + 1, note);
@@ -192,14 +197,18 @@ mod tests {
         assert_eq!(count(&notes), (0, 1));
         // a changed roll passing the same limit rests on the same readings
         let mut changed = vec![core(1.4e6)];
-        carry(&notes, &mut changed);
+        carry(&notes, &notes, &mut changed);
         let same = Note::LimitOnSameReadings {
             which: Strength::CoreCollapse,
         };
         assert_eq!(changed, vec![core(1.4e6), same]);
         let mut resolved = vec![core(1.4e6)];
-        carry(&[core(1.8e6)], &mut resolved);
+        carry(&[core(1.8e6)], &[core(1.4e6)], &mut resolved);
         assert_eq!(resolved, vec![core(1.4e6)]);
+        // a limit only the changed roll passes, within noise by its own screen, says so
+        let mut own = vec![core(1.4e6)];
+        carry(&[], &notes, &mut own);
+        assert_eq!(own, vec![core(1.4e6), notes[1]]);
     }
 
     #[test]

@@ -26,16 +26,15 @@ pub struct WhatIf {
     pub excess_before_mm_per_m: Vec<f64>,
     pub excess_after_mm_per_m: Vec<f64>,
     /// Defects before: the measured roll's findings as `diagnose` gives them (screened against
-    /// measurement noise); after: the changed roll's findings under the same screen, but those
-    /// the measured roll's screen dropped ([`WhatIf::screened_out`]).
+    /// measurement noise and over the plausible states); after: the changed roll's findings
+    /// under the same screen, run on the changed roll.
     pub defects_before: Vec<Defect>,
     pub defects_after: Vec<Defect>,
     /// Defects the rules give on the measured roll that its screen drops (within measurement
     /// noise, or holding in fewer than half of the plausible states; `diagnose` says which):
-    /// listed on neither side.
+    /// not among `defects_before`.
     pub screened_out: Vec<Defect>,
-    /// Defects the rules give on the changed roll that the same screen, run on the changed roll,
-    /// drops: it rests on the same caliper readings. Listed on neither side.
+    /// The same for the changed roll, under its own screen: not among `defects_after`.
     pub screened_out_after: Vec<Defect>,
     /// The changed roll's own case warnings, and the physical limits its winding or storage
     /// passed (in words in the views' `warnings`). Its wound diameters are not held against the
@@ -108,11 +107,15 @@ pub fn what_if(
         .filter(|d| !found.contains(d))
         .collect();
     let creep = carried(variant, &la);
-    let (changed, after_found, screened_out_after) = screen_changed(
+    let Screened {
+        fitted: changed,
+        found: after_found,
+        dropped: screened_out_after,
+        notes: own,
+    } = screen_changed(
         (variant, table, &screen),
         (&f, la, &oa, creep),
         defects(&fa),
-        &screened_out,
     )?;
     Ok(WhatIf {
         case: base.id.clone(),
@@ -127,7 +130,7 @@ pub fn what_if(
         screened_out,
         screened_out_after,
         case_warnings: variant.warnings.clone(),
-        notes: changed_notes(&measured.notes, variant, &changed.lanes, &oa),
+        notes: changed_notes((&measured.notes, &own), variant, &changed.lanes, &oa),
         case_warnings_before: base.warnings.clone(),
         notes_before: (measured.notes.into_iter())
             .filter(crate::note::Note::is_warning)
@@ -145,53 +148,72 @@ fn rule_defects(table: &Table, f: &Features) -> Vec<Defect> {
     d
 }
 
-/// The changed roll screened as the measured roll is: it rests on the same caliper readings, so a
-/// defect its own screen drops is no defect after the change either. `raw`: the defects the rules
-/// give on it; those the measured roll's screen dropped (`before`) are judged on neither side.
-/// `measured`: the measured roll's fit, run on the changed roll's `lanes`, outcome `o` and
-/// carried `creep`. Returns the changed roll so fitted, its findings' defects and the defects
-/// its screen drops.
+/// The changed roll as its screen leaves it ([`screen_changed`]).
+struct Screened {
+    fitted: Fitted,
+    found: Vec<Defect>,
+    dropped: Vec<Defect>,
+    notes: Vec<crate::note::Note>,
+}
+
+/// The changed roll screened as the measured roll is, as `diagnose --set` would screen it with
+/// the measured roll's creep: its own noise rolls and its own plausible states (the fit's runs of
+/// its draws belong to the measured roll, so they are dropped and the states run here). `raw`:
+/// the defects the rules give on it. `measured`: the measured roll's fit, run on the changed
+/// roll's `lanes`, outcome `o` and carried `creep`. Returns the changed roll so fitted, its
+/// findings' defects, the defects its screen drops and its screen's notes.
 fn screen_changed(
     (variant, table, screen): (&Case, &Table, &DiagnoseOptions),
     (measured, lanes, o, creep): (&Fitted, Lanes, &actions::Outcome, Vec<LaneCreep>),
     raw: Vec<Defect>,
-    before: &[Defect],
-) -> Result<(Fitted, Vec<Defect>, Vec<Defect>), DiagnoseError> {
+) -> Result<Screened, DiagnoseError> {
+    let mut fit = crate::fit::RollFit {
+        aged: o.aged.clone(),
+        ..measured.fit.clone()
+    };
+    for l in fit.lanes.iter_mut() {
+        l.draw_runs = None;
+    }
+    // the changed roll's own limits, so its screen qualifies those it passes on noise
+    fit.notes = own_limits(variant, &lanes, o);
     let changed = Fitted {
         lanes,
         wound: o.wound.clone(),
-        fit: crate::fit::RollFit {
-            aged: o.aged.clone(),
-            ..measured.fit.clone()
-        },
+        fit,
         creep,
     };
     let after = super::diagnose_fitted(variant, table, screen, &changed)?;
-    let found: Vec<Defect> = (after.findings.iter())
-        .map(|x| x.defect)
-        .filter(|d| !before.contains(d))
-        .collect();
-    let dropped = (raw.into_iter())
-        .filter(|d| !found.contains(d) && !before.contains(d))
-        .collect();
-    Ok((changed, found, dropped))
+    let found: Vec<Defect> = after.findings.iter().map(|x| x.defect).collect();
+    let dropped = (raw.into_iter()).filter(|d| !found.contains(d)).collect();
+    Ok(Screened {
+        fitted: changed,
+        found,
+        dropped,
+        notes: after.notes,
+    })
 }
 
 /// The changed roll's warnings: the limits its winding and storage passed (not its wound
 /// diameters against the measured roll's profile: the change is what moves them), each that the
-/// measured roll passes only on caliper noise said to rest on the same readings.
+/// measured roll passes only on caliper noise said to rest on the same readings, and each that
+/// the changed roll's own screen (`own`) finds within noise said so, as `diagnose` says it.
 fn changed_notes(
-    measured: &[crate::note::Note],
+    (measured, own): (&[crate::note::Note], &[crate::note::Note]),
     variant: &Case,
     lanes: &Lanes,
     o: &actions::Outcome,
 ) -> Vec<crate::note::Note> {
-    let mut n: Vec<crate::note::Note> = crate::fit::limit_notes(variant, lanes, &o.wound, &o.aged)
-        .into_iter()
-        .filter(|n| !matches!(n, crate::note::Note::WindingDiameter(_)))
-        .collect();
-    super::limit_noise::carry(measured, &mut n);
+    let mut n = own_limits(variant, lanes, o);
+    super::limit_noise::carry(measured, own, &mut n);
     n
+}
+
+/// The limits the changed roll's winding and storage pass: not its wound diameters against the
+/// measured roll's profile (the change is what moves them).
+fn own_limits(variant: &Case, lanes: &Lanes, o: &actions::Outcome) -> Vec<crate::note::Note> {
+    (crate::fit::limit_notes(variant, lanes, &o.wound, &o.aged).into_iter())
+        .filter(|n| !matches!(n, crate::note::Note::WindingDiameter(_)))
+        .collect()
 }
 
 /// Fitted creep carried onto lanes at `positions` (m): each lane gets the fitted lanes' creep

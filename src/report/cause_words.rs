@@ -30,7 +30,7 @@ pub fn improves(c: &crate::diagnose::CheckedCorrection) -> String {
     match (c.improves, c.remains_fraction) {
         (Some(true), Some(p)) if p > 0.0 && p < 1.0 => {
             return format!(
-                "yes, but the defect may stay there (in {:.0} % of the plausible states)",
+                "yes, but the defect may stay there (in {:.0} % of the plausible states in which it holds)",
                 100.0 * p
             );
         }

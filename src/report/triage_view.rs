@@ -432,20 +432,23 @@ pub fn whatif_text(w: &crate::diagnose::WhatIf, sys: System) -> Result<String, W
                 .map(|l| format!("note: as changed: {l}\n")),
         )
         .collect();
-    let mut screened = if w.screened_out.is_empty() {
+    let dropped =
+        |d: &[Defect], which: &str| (!d.is_empty()).then(|| format!("{which}: {}", defect_list(d)));
+    let lists: Vec<String> = [
+        dropped(&w.screened_out, "as measured"),
+        dropped(&w.screened_out_after, "as changed"),
+    ]
+    .into_iter()
+    .flatten()
+    .collect();
+    let screened = if lists.is_empty() {
         String::new()
     } else {
         format!(
-            "Not findings on the measured roll, so not judged here (within measurement noise, or unlikely; `diagnose` says which): {}.\n",
-            defect_list(&w.screened_out)
+            "Given by the rules but dropped by each roll's own screen (within measurement noise, or unlikely; `diagnose` says which), so not likely defects: {}.\n",
+            lists.join("; ")
         )
     };
-    if !w.screened_out_after.is_empty() {
-        screened += &format!(
-            "Dropped by the same screen on the changed roll, which rests on the same caliper readings (within measurement noise, or unlikely): {}.\n",
-            defect_list(&w.screened_out_after)
-        );
-    }
     let rests = "The defects of both rolls, and their absence,";
     let fit = (super::fit_words::opening(&w.model_fit, sys, rests))
         .map_or(String::new(), |s| format!("{s}\n"));
@@ -582,14 +585,11 @@ mod tests {
         let t = whatif_text(&what_if(2), System::Si).unwrap();
         assert!(t.contains("Likely defects: baggy centre -> none."), "{t}");
         assert!(t.contains("+0.25") && t.contains("-0.25"), "{t}");
-        assert!(!t.contains("Dropped by the same screen"), "{t}");
+        assert!(!t.contains("dropped by each roll's own screen"), "{t}");
         let mut w = what_if(2);
         w.screened_out_after = vec![Defect::Ridges];
         let t = whatif_text(&w, System::Si).unwrap();
-        assert!(
-            t.contains("(within measurement noise, or unlikely): ridges."),
-            "{t}"
-        );
+        assert!(t.contains("not likely defects: as changed: ridges."), "{t}");
         let e = whatif_text(&what_if(3), System::Si).unwrap_err();
         assert_eq!(
             e.to_string(),
