@@ -159,11 +159,11 @@ pub fn assess(
         keep
     });
     drop_orphan_notes(findings, notes);
-    findings.sort_by(Finding::rank_cmp);
     notes.push(fl.resolution);
     let lanes = lane_spreads(fitted, feats, &states);
     let roll_misfit = crate::fit::explained::roll_misfit(&fitted.fit);
-    consistency_notes(fitted, &lanes, roll_misfit, findings, notes);
+    super::consistency::notes(fitted, &lanes, roll_misfit, findings, notes);
+    findings.sort_by(Finding::rank_cmp);
     Ok(Confidence {
         caliper_repeatability_m: rep,
         caliper_repeatability_source: source,
@@ -543,53 +543,4 @@ fn lane_spreads(fitted: &Fitted, feats: &Features, states: &[State]) -> Vec<Lane
             }
         })
         .collect()
-}
-
-/// Notes on lanes and a roll the model does not explain, and on findings resting on them.
-fn consistency_notes(
-    fitted: &Fitted,
-    lanes: &[LaneSpread],
-    roll_misfit: f64,
-    findings: &[Finding],
-    notes: &mut Vec<Note>,
-) {
-    for l in lanes.iter().filter(|l| !l.explained) {
-        notes.push(Note::LaneNotExplained {
-            position_m: l.position_m,
-            misfit: l.misfit,
-        });
-    }
-    if !crate::fit::explained::explained(roll_misfit) {
-        notes.push(Note::RollNotExplained {
-            misfit: roll_misfit,
-        });
-    }
-    // a later survey that contradicts the model there leaves a lane unexplained too
-    let contradicted = |i: usize| fitted.fit.contradictions.iter().any(|k| k.lane == i);
-    for f in findings {
-        let unexplained = f
-            .lanes
-            .iter()
-            .filter(|r| !lanes[r.index].explained || contradicted(r.index))
-            .count();
-        // a finding judged on the wound roll at winding does not rest on creep
-        let at_winding = super::quantity::quantity_of(f.defect).at_winding();
-        let identified = |i: usize| {
-            let l = &fitted.fit.lanes[i];
-            l.md_identifiable && l.radial_identifiable
-        };
-        let unidentified = if at_winding {
-            0
-        } else {
-            (f.lanes.iter()).filter(|r| !identified(r.index)).count()
-        };
-        if unexplained + unidentified > 0 {
-            notes.push(Note::FindingOnWeakLanes {
-                defect: f.defect,
-                lanes: f.lanes.len(),
-                unexplained,
-                unidentified,
-            });
-        }
-    }
 }

@@ -8,6 +8,7 @@ pub mod actions;
 pub mod attribution;
 mod band_place;
 pub mod confidence;
+mod consistency;
 pub mod corrections;
 mod crown;
 pub mod features;

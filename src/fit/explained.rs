@@ -39,10 +39,20 @@ pub struct ModelFit {
     pub worst_lane_misfit_noise_units: f64,
 }
 
-/// Root-mean-square normalised residual over every reading of the roll (0 with no reading).
+/// Whether a reading can test the model: not a hardness reading where the predicted hardness is
+/// below the bottom of any scale (0), where the surface zone has almost no interlayer pressure and
+/// the map H = a + b ln P no longer holds (the limit `HardnessBelowScale` says so). Such a reading
+/// is left out of the misfit, not scored against a prediction the map cannot make.
+pub fn tests_model(r: &super::Residual) -> bool {
+    !(r.what == crate::case::Measure::Hardness && r.predicted < 0.0)
+}
+
+/// Root-mean-square normalised residual over every reading of the roll that can test the model
+/// ([`tests_model`]; 0 with no such reading).
 pub fn roll_misfit(fit: &RollFit) -> f64 {
     let r: Vec<f64> = (fit.lanes.iter())
-        .flat_map(|l| l.residuals.iter().map(|r| r.normalised))
+        .flat_map(|l| (l.residuals.iter()).filter(|r| tests_model(r)))
+        .map(|r| r.normalised)
         .collect();
     if r.is_empty() {
         0.0

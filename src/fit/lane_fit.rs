@@ -562,12 +562,17 @@ pub fn fit_lane(
     })
 }
 
-/// Root-mean-square normalised residual (0 with no residuals).
+/// Root-mean-square normalised residual over the readings that can test the model
+/// ([`super::explained::tests_model`]; 0 with none).
 fn rms_normalised(residuals: &[Residual]) -> f64 {
-    if residuals.is_empty() {
+    let r: Vec<f64> = (residuals.iter())
+        .filter(|r| super::explained::tests_model(r))
+        .map(|r| r.normalised)
+        .collect();
+    if r.is_empty() {
         return 0.0;
     }
-    (residuals.iter().map(|r| r.normalised.powi(2)).sum::<f64>() / residuals.len() as f64).sqrt()
+    (r.iter().map(|x| x.powi(2)).sum::<f64>() / r.len() as f64).sqrt()
 }
 
 /// Residuals of a lane's observations against a simulated lane.

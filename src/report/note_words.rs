@@ -159,8 +159,13 @@ pub(super) fn confidence_note(n: &Note, sys: System) -> String {
             unexplained,
             unidentified,
         } => format!(
-            "{} rests on {lanes} lane(s): {unexplained} not explained by the model, {unidentified} with creep the data do not identify (kept at the pooled value)",
-            defect_name(defect)
+            "{} rests on {lanes} lane(s): {unexplained} not explained by the model, {unidentified} with creep the data do not identify (kept at the pooled value){}",
+            defect_name(defect),
+            if unexplained > 0 {
+                "; a finding resting on a lane the model does not explain is graded medium at most"
+            } else {
+                ""
+            }
         ),
         _ => String::new(),
     }
