@@ -270,11 +270,17 @@ pub fn against_winding_diameter(lanes: &Lanes, w: &Wound, repeatability_m: f64) 
     }))
 }
 
+/// Moisture rise of the outer wraps below which condensation is not warned of, percentage points:
+/// a moisture meter's resolution (0.1 point, common practice); the model still puts the water
+/// into the paper.
+pub const CONDENSATION_SHOWS_PCT: f64 = 0.1;
+
 /// Condensation on a cold roll brought into warm humid air ([`crate::storage::condensation`]):
-/// one note per stretch where water condenses.
+/// one note per stretch where enough water condenses to show ([`CONDENSATION_SHOWS_PCT`]).
 pub fn condensation(storage: &[crate::case::Stretch], material: &Material) -> Vec<Note> {
     crate::storage::condensation::check(storage)
         .into_iter()
+        .filter(|c| c.outer_rise_pct(material.density_kg_m3) >= CONDENSATION_SHOWS_PCT)
         .map(|c| {
             Note::Limit(Limit::Condensation(crate::note::Condensed {
                 stretch: c.stretch as u32,

@@ -267,19 +267,26 @@ pub fn theil_sen_slope(x: &[f64], y: &[f64], w: &[f64]) -> f64 {
             }
         }
     }
+    weighted_median(pairs)
+}
+
+/// Weighted median of `(value, weight)` pairs: the value where the pairs sorted by value first
+/// reach half of their total weight, averaged with the next value when they reach half exactly
+/// (so equal weights give the ordinary median). 0 with no pair.
+pub fn weighted_median(mut pairs: Vec<(f64, f64)>) -> f64 {
     if pairs.is_empty() {
         return 0.0;
     }
     pairs.sort_by(|a, b| a.0.total_cmp(&b.0));
     let half = 0.5 * pairs.iter().map(|p| p.1).sum::<f64>();
     let mut cum = 0.0;
-    for (k, &(slope, weight)) in pairs.iter().enumerate() {
+    for (k, &(value, weight)) in pairs.iter().enumerate() {
         cum += weight;
         if cum >= half {
             let exact = (cum - half).abs() <= 1e-12 * half;
             return match pairs.get(k + 1) {
-                Some(next) if exact => 0.5 * (slope + next.0),
-                _ => slope,
+                Some(next) if exact => 0.5 * (value + next.0),
+                _ => value,
             };
         }
     }
@@ -317,6 +324,26 @@ mod tests {
             let got = chi2_isf(0.001, k);
             assert!((got / want - 1.0).abs() < 1e-9, "k {k}: {got} vs {want}");
         }
+    }
+
+    /// The weighted median: equal weights give the ordinary median (Python 3.11's
+    /// `statistics.median`: 2 of [3, 1, 2], 2.5 of [1, 2, 3, 4]); unequal weights hand-worked.
+    #[test]
+    fn weighted_median_of_equal_and_unequal_weights() {
+        let eq = |v: &[f64]| weighted_median(v.iter().map(|&x| (x, 1.0)).collect());
+        assert_eq!(eq(&[3.0, 1.0, 2.0]), 2.0);
+        assert_eq!(eq(&[1.0, 2.0, 3.0, 4.0]), 2.5);
+        // hand-worked: weights 1, 1, 2 reach half (2) exactly at 2, so 2 and 3 are averaged;
+        // one narrow outlier does not move it, where it moves the weighted mean
+        assert_eq!(
+            weighted_median(vec![(1.0, 1.0), (2.0, 1.0), (3.0, 2.0)]),
+            2.5
+        );
+        assert_eq!(
+            weighted_median(vec![(0.1, 4.0), (0.2, 4.0), (9.0, 1.0)]),
+            0.2
+        );
+        assert_eq!(weighted_median(Vec::new()), 0.0);
     }
 
     /// Equal weights give the ordinary Theil-Sen slope (SciPy 1.17.1, `scipy.stats.theilslopes`:

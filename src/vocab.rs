@@ -382,7 +382,7 @@ impl Feature {
             F::LongestLaneExcessMmPerM => spec("longest lane minus the width-weighted mean lane, mm/m", 0.0, INF, true),
             F::LocalPeakMmPerM => spec("largest excess of an inner lane (not an outermost lane) over the web 75-300 mm from its centre (the mean of the two sides, each width-weighted; one side at a roll end), mm/m", -INF, INF, true),
             F::PeakWidthMm => spec("width of the long band around the longest lane, mm", 0.0, INF, false),
-            F::CentreMinusEdgesMmPerM => spec("centre half minus the mean of the outermost lane each side where both lie on one side of it (0 where they lie on opposite sides), mm/m (positive: baggy centre)", -INF, INF, true),
+            F::CentreMinusEdgesMmPerM => spec("centre half (its width-weighted median) minus the mean of the outermost lane each side where both lie on one side of it (0 where they lie on opposite sides), mm/m (positive: baggy centre)", -INF, INF, true),
             F::SideToSideRatio => spec("front-to-back difference of a robust straight line (Theil-Sen) over the web's running strain T/(E h)", 0.0, INF, false),
             F::SideToSideMmPerM => spec("front-to-back difference of a robust straight line (Theil-Sen), absolute, mm/m", 0.0, INF, true),
             F::LongEdgeMmPerM => spec("larger excess of an outermost lane (the 25 mm edge strip) over the web 75-300 mm inward of it, less the other's where that is long too (one edge long, the other not), mm/m (0 below five lanes)", -INF, INF, true),

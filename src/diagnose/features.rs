@@ -195,14 +195,15 @@ fn length_pattern(u: &Unwind, centre: &[usize], edges: &[usize]) -> LengthPatter
     }
 }
 
-/// Centre half (`centre`; its mean weighted by the lane widths `w`, m) against the end lanes
-/// (`ends`) as a two-sided pattern ([`super::local::centre_minus_both`]), in the unit of `s`; 0
-/// unless there are two end lanes and a centre lane apart from them (one or two lanes resolve
-/// no centre against edges).
+/// Centre half (`centre`; its median weighted by the lane widths `w`, m, so a band narrower than
+/// half of it does not make a long centre) against the end lanes (`ends`) as a two-sided pattern
+/// ([`super::local::centre_minus_both`]), in the unit of `s`; 0 unless there are two end lanes
+/// and a centre lane apart from them (one or two lanes resolve no centre against edges).
 pub(super) fn centre_against_ends(s: &[f64], w: &[f64], centre: &[usize], ends: &[usize]) -> f64 {
     match ends {
         [a, b] if !centre.is_empty() && !centre.iter().any(|i| i == a || i == b) => {
-            super::local::centre_minus_both(mean_of(centre, w, &|i| s[i]), s[*a], s[*b])
+            let mid = crate::stats::weighted_median(centre.iter().map(|&i| (s[i], w[i])).collect());
+            super::local::centre_minus_both(mid, s[*a], s[*b])
         }
         _ => 0.0,
     }
@@ -584,12 +585,16 @@ pub fn compute(case: &Case, lanes: &Lanes, o: &super::actions::Outcome) -> Featu
 
 #[cfg(test)]
 mod tests {
-    /// The centre half's mean counts each lane by its width: a 100 mm lane 1 long beside a
-    /// 300 mm lane level is 0.25 long over the 400 mm (not 0.5, as by count).
+    /// The centre half's median counts lanes by width: a 100 mm band 1 long beside a 300 mm lane
+    /// level leaves it level (the mean would be 0.25, by count 0.5), 1 over ends 1 short; a band
+    /// over more than half of the centre's width moves it.
     #[test]
     fn the_centre_half_is_weighted_by_lane_width() {
         let (s, w) = ([-1.0, 1.0, 0.0, -1.0], [0.025, 0.1, 0.3, 0.025]);
         let v = super::centre_against_ends(&s, &w, &[1, 2], &[0, 3]);
-        assert!((v - 1.25).abs() < 1e-12, "{v}");
+        assert!((v - 1.0).abs() < 1e-12, "{v}");
+        let wide = [0.025, 0.3, 0.1, 0.025];
+        let v = super::centre_against_ends(&s, &wide, &[1, 2], &[0, 3]);
+        assert!((v - 2.0).abs() < 1e-12, "{v}");
     }
 }

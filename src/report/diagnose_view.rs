@@ -187,7 +187,7 @@ pub fn text(d: &Diagnosis, sys: System) -> String {
 fn lanes_table(d: &Diagnosis, sys: System) -> String {
     let c = &d.confidence;
     let unit = strain_unit(sys);
-    let (len, range) = (format!("length {unit}"), format!("5-95 % {unit}"));
+    let (len, range) = (format!("length {unit}"), format!("creep 5-95 % {unit}"));
     let mut t = table(&["lane at", &len, &range, "misfit (noise units)"]);
     for (i, l) in c.lanes.iter().enumerate() {
         let star = d.lanes.get(i).is_some_and(|r| r.extrapolated);
@@ -206,7 +206,7 @@ fn lanes_table(d: &Diagnosis, sys: System) -> String {
         ]);
     }
     format!(
-        "\nLanes at unwind ({} plausible states; roll misfit {:.1}):\n{t}\n",
+        "\nLanes at unwind ({} plausible states; roll misfit {:.1}):\n{t}\nThe creep range is what the hardness and diameter readings leave uncertain; caliper noise adds to it (the resolution note says how far a lane must stand out).\n",
         c.states, c.roll_misfit
     )
 }

@@ -291,9 +291,8 @@ pub fn write_report(
     let stem = stem(&r.case.id);
     let html_name = format!("{stem}.html");
     let json_path = dir.join(format!("{stem}.json"));
-    let mut json = serde_json::to_string_pretty(&super::diagnose_view::json(r.diagnosis))
+    let json = super::json_text(&super::diagnose_view::json(r.diagnosis))
         .map_err(|e| WriteError::new(&json_path, std::io::Error::other(e)))?;
-    json.push('\n');
     let files = vec![
         (dir.join(&html_name), super::html::render(r)),
         (

@@ -52,10 +52,10 @@ pub fn opening(m: &ModelFit, sys: System, rests: &str) -> Option<String> {
             lanes_phrase(m, sys)
         )),
         Verdict::LanesNotExplained => Some(format!(
-            "Partly explained: {} (over {:.0} noise units is not explained); the roll as a whole is explained by the model ({:.1} noise units). What rests on those lanes rests on readings the model does not explain.",
+            "Partly explained: {} (over {:.0} noise units is not explained); the roll as a whole is explained by the model ({} noise units). What rests on those lanes rests on readings the model does not explain.",
             lanes_phrase(m, sys),
             m.limit_noise_units,
-            m.roll_misfit_noise_units
+            misfit(m.roll_misfit_noise_units)
         )),
     }
 }
@@ -83,18 +83,26 @@ pub fn agreement_caveat(m: &ModelFit) -> &'static str {
     }
 }
 
+/// A misfit in noise units to one decimal, or to two where one would print the limit itself
+/// (2.96 and 3.04 fall on either side of it).
+pub fn misfit(x: f64) -> String {
+    let limit = crate::fit::explained::MISFIT_LIMIT;
+    if format!("{x:.1}") == format!("{limit:.1}") && x != limit {
+        format!("{x:.2}")
+    } else {
+        format!("{x:.1}")
+    }
+}
+
 /// The triage cell: "yes (0.6)", "no (6.0)", or "yes (1.1); 2 lanes no".
 pub fn triage_cell(m: &ModelFit) -> String {
-    let roll = m.roll_misfit_noise_units;
+    let roll = misfit(m.roll_misfit_noise_units);
     match m.verdict {
-        Verdict::Explained => format!("yes ({roll:.1})"),
-        Verdict::NotExplained => format!("no ({roll:.1})"),
+        Verdict::Explained => format!("yes ({roll})"),
+        Verdict::NotExplained => format!("no ({roll})"),
         Verdict::LanesNotExplained => {
             let n = m.lanes_not_explained_m.len();
-            format!(
-                "yes ({roll:.1}); {n} lane{} no",
-                if n == 1 { "" } else { "s" }
-            )
+            format!("yes ({roll}); {n} lane{} no", if n == 1 { "" } else { "s" })
         }
     }
 }
@@ -152,5 +160,15 @@ mod tests {
             "{s}"
         );
         assert_eq!(triage_cell(&some), "yes (1.1); 1 lane no");
+        // next to the limit, the digit that tells the side
+        assert_eq!(
+            triage_cell(&fit(Verdict::Explained, 2.96, &[], 18)),
+            "yes (2.96)"
+        );
+        assert_eq!(
+            triage_cell(&fit(Verdict::NotExplained, 3.04, &[], 18)),
+            "no (3.04)"
+        );
+        assert_eq!(misfit(3.0), "3.0");
     }
 }

@@ -139,11 +139,26 @@ pub fn push_safety(out: &mut String, safety: Option<&str>) {
     }
 }
 
-/// A JSON document as printed: pretty, keys sorted, a final newline.
+/// A JSON document as printed: pretty, keys sorted, a final newline, and no negative zero
+/// (`-0.0`, which a rounding or a sign flip can leave, prints as `0.0`).
 pub fn json_text(v: &serde_json::Value) -> Result<String, serde_json::Error> {
-    let mut s = serde_json::to_string_pretty(v)?;
+    let mut v = v.clone();
+    unsigned_zeros(&mut v);
+    let mut s = serde_json::to_string_pretty(&v)?;
     s.push('\n');
     Ok(s)
+}
+
+/// Every `-0.0` in `v` made `0.0`.
+fn unsigned_zeros(v: &mut serde_json::Value) {
+    match v {
+        serde_json::Value::Number(n) if n.as_f64() == Some(0.0) && n.is_f64() => {
+            *v = serde_json::json!(0.0);
+        }
+        serde_json::Value::Array(a) => a.iter_mut().for_each(unsigned_zeros),
+        serde_json::Value::Object(m) => m.values_mut().for_each(unsigned_zeros),
+        _ => {}
+    }
 }
 
 /// Prose lines longer than `width` broken at spaces, continuation lines indented like the line
@@ -195,5 +210,15 @@ mod wrap_tests {
         for l in s.lines() {
             assert!(l.chars().count() <= 16, "{l}");
         }
+    }
+
+    /// A negative zero prints as zero (a correction that changes a quantity by -0.0 changes
+    /// nothing); other numbers keep their sign.
+    #[test]
+    fn json_prints_no_negative_zero() {
+        let v = serde_json::json!({ "after": -0.0, "x": [-0.0, -1.5, 0.0] });
+        let s = json_text(&v).unwrap();
+        assert!(!s.contains("-0.0"), "{s}");
+        assert!(s.contains("-1.5") && s.contains("\"after\": 0.0"), "{s}");
     }
 }
