@@ -41,6 +41,23 @@ pub struct CheckedCorrection {
     /// Whether the correction changes anything on this roll (keeping a wrap the roll never had
     /// does not): one that does not apply is neither run nor judged, and is listed last.
     pub applies: bool,
+    /// The moisture a correction that makes the paper at another moisture makes it at, % dry
+    /// basis (None for other corrections): see [`CheckedCorrection::made_beyond_practice`].
+    pub made_at_moisture_pct: Option<f64>,
+}
+
+/// Moisture range paper machines commonly make paper at, % (from memory: about 4-10 % off the
+/// dryer section, newsprint and board near the top of it).
+pub const MACHINE_MOISTURE_PCT: (f64, f64) = (4.0, 10.0);
+
+impl CheckedCorrection {
+    /// Whether the correction makes the paper at a moisture outside [`MACHINE_MOISTURE_PCT`]: the
+    /// model re-runs it as its text says, but a mill would not make it so.
+    pub fn made_beyond_practice(&self) -> bool {
+        let (lo, hi) = MACHINE_MOISTURE_PCT;
+        self.made_at_moisture_pct
+            .is_some_and(|m| !(lo..=hi).contains(&m))
+    }
 }
 
 /// The finding's deciding feature read on a corrected roll (in the feature's own unit).
@@ -133,6 +150,8 @@ pub fn check(
             deciding_after,
             remains_fraction: None,
             applies,
+            made_at_moisture_pct: (c.action == Action::MakeAtPressroomEquilibrium && applies)
+                .then(|| scenarios[i].case.material.moisture_pct),
         });
     }
     out.sort_by_key(|c| (!c.applies, c.improves == Some(false)));
@@ -198,6 +217,7 @@ mod tests {
             }),
             remains_fraction: None,
             applies: true,
+            made_at_moisture_pct: None,
         }
     }
 

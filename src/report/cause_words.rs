@@ -111,3 +111,18 @@ pub fn no_source_cause(a: &Attribution, sys: System) -> Option<String> {
         "{together}; it comes from the winding and storage conditions themselves ({amplifiers})"
     ))
 }
+
+/// Why a correction helps (the rule's words), with a caution where it makes the paper at a
+/// moisture mills do not commonly make ([`crate::diagnose::corrections::MACHINE_MOISTURE_PCT`]).
+pub fn why(c: &crate::diagnose::CheckedCorrection) -> String {
+    match c.made_at_moisture_pct {
+        Some(m) if c.made_beyond_practice() => {
+            let (lo, hi) = crate::diagnose::corrections::MACHINE_MOISTURE_PCT;
+            format!(
+                "{} Caution: that is {m:.1} % moisture, outside the {lo:.0}-{hi:.0} % paper machines commonly make (from memory); the re-run shows what it would do, not that a mill can.",
+                c.why
+            )
+        }
+        _ => c.why.clone(),
+    }
+}

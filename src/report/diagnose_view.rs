@@ -289,7 +289,7 @@ pub fn correction_row(x: &CheckedCorrection, sys: System) -> Vec<String> {
             words::quantity_value(x.quantity, a, sys)
         }),
         words::improves(x),
-        x.why.clone(),
+        words::why(x),
     ]
 }
 

@@ -141,7 +141,7 @@ fn finding(n: usize, f: &Finding, sys: System, v: &mut Vec<Block>) {
                         .map(|a| words::quantity_change(q, a - c.before, sys))
                         .unwrap_or_default()),
                     k(words::improves(c), format!("improves.{n}.{}", c.action)),
-                    t(c.why.clone()),
+                    t(words::why(c)),
                 ]
             })
             .collect(),

@@ -1,7 +1,7 @@
 //! Words for the vocabulary: defects, causes and the notes a diagnosis implies. Every `match` is
 //! exhaustive, so a new word does not compile until it has its text here.
 
-pub use super::cause_words::{contribution, improves, no_source_cause, share, SHARES_METHOD};
+pub use super::cause_words::{contribution, improves, no_source_cause, share, why, SHARES_METHOD};
 use crate::case::Measure;
 use crate::diagnose::Diagnosis;
 use crate::note::Note;
