@@ -272,8 +272,10 @@ pub fn theil_sen_slope(x: &[f64], y: &[f64], w: &[f64]) -> f64 {
 
 /// Weighted median of `(value, weight)` pairs: the value where the pairs sorted by value first
 /// reach half of their total weight, averaged with the next value when they reach half exactly
-/// (so equal weights give the ordinary median). 0 with no pair.
+/// (so equal weights give the ordinary median). Pairs of no weight count for nothing; 0 with no
+/// pair of weight.
 pub fn weighted_median(mut pairs: Vec<(f64, f64)>) -> f64 {
+    pairs.retain(|p| p.1 > 0.0);
     if pairs.is_empty() {
         return 0.0;
     }
@@ -344,6 +346,12 @@ mod tests {
             0.2
         );
         assert_eq!(weighted_median(Vec::new()), 0.0);
+        // a pair of no weight counts for nothing
+        assert_eq!(
+            weighted_median(vec![(1.0, 1.0), (2.0, 0.0), (3.0, 1.0)]),
+            2.0
+        );
+        assert_eq!(weighted_median(vec![(1.0, 0.0), (2.0, 0.0)]), 0.0);
     }
 
     /// Equal weights give the ordinary Theil-Sen slope (SciPy 1.17.1, `scipy.stats.theilslopes`:

@@ -137,23 +137,29 @@ fn a_hardness_below_the_scale_is_a_warning() {
             "{cmd} JSON: {w:?}"
         );
     }
-    // the readings there cannot test the model, so the misfit leaves them out: each lane's is
-    // the root mean square of its other residuals
+    // a reading there is judged against the scale's bottom, 0, which is all the model can say
+    // (the instrument reads its lowest): its residual is (0 - measured) / repeatability, and a
+    // lane's misfit is the root mean square of its residuals as before
     let (_, out, _) = run(&["fit", "--json", case, "--set", stiff]);
     let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+    let sigma = v["noise"]["hardness_hardness_units"].as_f64().unwrap();
     let mut below = 0;
     for l in v["lanes"].as_array().unwrap() {
         let r = l["residuals"].as_array().unwrap();
-        let off = |x: &&serde_json::Value| {
-            x["predicted_hardness_units"]
-                .as_f64()
-                .is_some_and(|p| p < 0.0)
-        };
-        below += r.iter().filter(off).count();
-        let kept: Vec<f64> = (r.iter().filter(|x| !off(x)))
+        for x in r {
+            let p = x["predicted_hardness_units"].as_f64();
+            if let Some(p) = p.filter(|p| *p < 0.0) {
+                below += 1;
+                let m = x["measured_hardness_units"].as_f64().unwrap();
+                let z = x["normalised_noise_units"].as_f64().unwrap();
+                assert!(((0.0 - m) / sigma - z).abs() < 1e-12, "{x}");
+                assert!(((p - m) / sigma).abs() > 10.0 * z.abs(), "{x}");
+            }
+        }
+        let z: Vec<f64> = (r.iter())
             .map(|x| x["normalised_noise_units"].as_f64().unwrap())
             .collect();
-        let rms = (kept.iter().map(|x| x * x).sum::<f64>() / kept.len().max(1) as f64).sqrt();
+        let rms = (z.iter().map(|x| x * x).sum::<f64>() / z.len().max(1) as f64).sqrt();
         let misfit = l["rmse_noise_units"].as_f64().unwrap();
         assert!((misfit - rms).abs() <= 1e-12 * rms.max(1.0), "{l}");
     }

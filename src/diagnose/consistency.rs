@@ -3,7 +3,10 @@
 //! is not explained: its fitted creep, and so its length at unwind, may carry the readings' own
 //! noise rather than the roll's state. A finding resting on such a lane is said to, and is graded
 //! medium at most, however many plausible states it holds in: the states are drawn from a fit
-//! that does not fit there (a finding is never more confident than the data).
+//! that does not fit there (a finding is never more confident than the data). That holds for a
+//! finding judged at winding too: the surveys at winding test the wound state, so a lane they
+//! miss leaves its wound state in doubt. On a roll the model does not explain as a whole, every
+//! finding is graded medium at most, those resting on no lane (the core, the outer wraps) too.
 
 use super::confidence::LaneSpread;
 use super::{Finding, Fitted};
@@ -14,7 +17,8 @@ use crate::vocab::Likelihood;
 pub const MOST_ON_UNEXPLAINED: Likelihood = Likelihood::Medium;
 
 /// Notes on lanes and a roll the model does not explain, and on findings resting on them; such a
-/// finding is graded medium at most ([`MOST_ON_UNEXPLAINED`]).
+/// finding, and any on a roll not explained as a whole, is graded medium at most
+/// ([`MOST_ON_UNEXPLAINED`]).
 pub(super) fn notes(
     fitted: &Fitted,
     lanes: &[LaneSpread],
@@ -28,7 +32,8 @@ pub(super) fn notes(
             misfit: l.misfit,
         });
     }
-    if !crate::fit::explained::explained(roll_misfit) {
+    let roll_unexplained = !crate::fit::explained::explained(roll_misfit);
+    if roll_unexplained {
         notes.push(Note::RollNotExplained {
             misfit: roll_misfit,
         });
@@ -52,7 +57,8 @@ pub(super) fn notes(
         } else {
             (f.lanes.iter()).filter(|r| !identified(r.index)).count()
         };
-        if unexplained > 0 && f.likelihood.rank() > MOST_ON_UNEXPLAINED.rank() {
+        let weak = unexplained > 0 || roll_unexplained;
+        if weak && f.likelihood.rank() > MOST_ON_UNEXPLAINED.rank() {
             f.likelihood = MOST_ON_UNEXPLAINED;
         }
         if unexplained + unidentified > 0 {

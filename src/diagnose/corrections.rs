@@ -46,17 +46,22 @@ pub struct CheckedCorrection {
     pub made_at_moisture_pct: Option<f64>,
 }
 
-/// Moisture range paper machines commonly make paper at, % (from memory: about 4-10 % off the
-/// dryer section, newsprint and board near the top of it).
+/// Moisture range paper machines commonly make paper at, % wet basis (water over the wet mass;
+/// from memory: about 4-10 % off the dryer section, newsprint and board near the top of it).
 pub const MACHINE_MOISTURE_PCT: (f64, f64) = (4.0, 10.0);
 
+/// A moisture content in % dry basis (water over dry mass, as the model keeps it) in % wet basis.
+pub fn wet_basis_pct(dry_pct: f64) -> f64 {
+    100.0 * dry_pct / (100.0 + dry_pct)
+}
+
 impl CheckedCorrection {
-    /// Whether the correction makes the paper at a moisture outside [`MACHINE_MOISTURE_PCT`]: the
-    /// model re-runs it as its text says, but a mill would not make it so.
+    /// Whether the correction makes the paper at a moisture outside [`MACHINE_MOISTURE_PCT`]
+    /// (compared on a wet basis): the model re-runs it as its text says, but a mill would not
+    /// make it so.
     pub fn made_beyond_practice(&self) -> bool {
         let (lo, hi) = MACHINE_MOISTURE_PCT;
-        self.made_at_moisture_pct
-            .is_some_and(|m| !(lo..=hi).contains(&m))
+        (self.made_at_moisture_pct).is_some_and(|m| !(lo..=hi).contains(&wet_basis_pct(m)))
     }
 }
 

@@ -39,20 +39,27 @@ pub struct ModelFit {
     pub worst_lane_misfit_noise_units: f64,
 }
 
-/// Whether a reading can test the model: not a hardness reading where the predicted hardness is
-/// below the bottom of any scale (0), where the surface zone has almost no interlayer pressure and
-/// the map H = a + b ln P no longer holds (the limit `HardnessBelowScale` says so). Such a reading
-/// is left out of the misfit, not scored against a prediction the map cannot make.
-pub fn tests_model(r: &super::Residual) -> bool {
-    !(r.what == crate::case::Measure::Hardness && r.predicted < 0.0)
+/// The bottom of any hardness scale (rebound and durometer scales run from 0; common practice).
+pub const HARDNESS_SCALE_BOTTOM: f64 = 0.0;
+
+/// A reading's residual in units of its repeatability, `(predicted - measured) / sigma`. A
+/// hardness predicted below the bottom of the scale is taken at the bottom: the map
+/// H = a + b ln P no longer holds there, and all the model says is that the instrument reads its
+/// lowest, so a reading at the bottom agrees and one well above it does not (a prediction
+/// censored at the scale's limit).
+pub fn normalised(what: crate::case::Measure, predicted: f64, measured: f64, sigma: f64) -> f64 {
+    let p = if what == crate::case::Measure::Hardness {
+        predicted.max(HARDNESS_SCALE_BOTTOM)
+    } else {
+        predicted
+    };
+    (p - measured) / sigma
 }
 
-/// Root-mean-square normalised residual over every reading of the roll that can test the model
-/// ([`tests_model`]; 0 with no such reading).
+/// Root-mean-square normalised residual over every reading of the roll (0 with no reading).
 pub fn roll_misfit(fit: &RollFit) -> f64 {
     let r: Vec<f64> = (fit.lanes.iter())
-        .flat_map(|l| (l.residuals.iter()).filter(|r| tests_model(r)))
-        .map(|r| r.normalised)
+        .flat_map(|l| l.residuals.iter().map(|r| r.normalised))
         .collect();
     if r.is_empty() {
         0.0

@@ -397,7 +397,8 @@ pub struct Residual {
     /// prediction itself when there are no draws).
     pub predicted_p05: f64,
     pub predicted_p95: f64,
-    /// predicted - measured, in units of the measurement's repeatability.
+    /// predicted - measured, in units of the measurement's repeatability (a hardness predicted
+    /// below the bottom of the scale taken at the bottom).
     pub normalised: f64,
 }
 
@@ -562,17 +563,12 @@ pub fn fit_lane(
     })
 }
 
-/// Root-mean-square normalised residual over the readings that can test the model
-/// ([`super::explained::tests_model`]; 0 with none).
+/// Root-mean-square normalised residual (0 with no residuals).
 fn rms_normalised(residuals: &[Residual]) -> f64 {
-    let r: Vec<f64> = (residuals.iter())
-        .filter(|r| super::explained::tests_model(r))
-        .map(|r| r.normalised)
-        .collect();
-    if r.is_empty() {
+    if residuals.is_empty() {
         return 0.0;
     }
-    (r.iter().map(|x| x.powi(2)).sum::<f64>() / r.len() as f64).sqrt()
+    (residuals.iter().map(|r| r.normalised.powi(2)).sum::<f64>() / residuals.len() as f64).sqrt()
 }
 
 /// Residuals of a lane's observations against a simulated lane.
@@ -588,7 +584,7 @@ fn residuals(p: &LaneProblem, a: &Track) -> Vec<Residual> {
                 predicted: pred,
                 predicted_p05: pred,
                 predicted_p95: pred,
-                normalised: (pred - o.value) / o.sigma,
+                normalised: super::explained::normalised(o.what, pred, o.value, o.sigma),
             }
         })
         .collect()

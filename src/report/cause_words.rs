@@ -119,8 +119,9 @@ pub fn why(c: &crate::diagnose::CheckedCorrection) -> String {
         Some(m) if c.made_beyond_practice() => {
             let (lo, hi) = crate::diagnose::corrections::MACHINE_MOISTURE_PCT;
             format!(
-                "{} Caution: that is {m:.1} % moisture, outside the {lo:.0}-{hi:.0} % paper machines commonly make (from memory); the re-run shows what it would do, not that a mill can.",
-                c.why
+                "{} Caution: that is {:.1} % moisture (wet basis; {m:.1} % dry basis), outside the {lo:.0}-{hi:.0} % paper machines commonly make (from memory); the re-run shows what it would do, not that a mill can.",
+                c.why,
+                crate::diagnose::corrections::wet_basis_pct(m)
             )
         }
         _ => c.why.clone(),

@@ -206,8 +206,9 @@ fn lanes_table(d: &Diagnosis, sys: System) -> String {
         ]);
     }
     format!(
-        "\nLanes at unwind ({} plausible states; roll misfit {:.1}):\n{t}\nThe creep range is what the hardness and diameter readings leave uncertain; caliper noise adds to it (the resolution note says how far a lane must stand out).\n",
-        c.states, c.roll_misfit
+        "\nLanes at unwind ({} plausible states; roll misfit {}):\n{t}\nThe creep range is what the hardness and diameter readings leave uncertain; caliper noise adds to it (the resolution note says how far a lane must stand out).\n",
+        c.states,
+        super::fit_words::misfit(c.roll_misfit)
     )
 }
 

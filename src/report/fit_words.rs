@@ -35,8 +35,9 @@ fn lanes_phrase(m: &ModelFit, sys: System) -> String {
 /// The misfit and its limit, in words.
 fn misfit_phrase(m: &ModelFit) -> String {
     format!(
-        "the readings miss the fit by {:.1} noise units (rms over every reading; over {:.0} is not explained)",
-        m.roll_misfit_noise_units, m.limit_noise_units
+        "the readings miss the fit by {} noise units (rms over every reading; over {:.0} is not explained)",
+        misfit(m.roll_misfit_noise_units),
+        m.limit_noise_units
     )
 }
 

@@ -165,7 +165,7 @@ fn hardness_limit(l: &crate::note::Limit, sys: System) -> String {
             position_m,
             hardness,
         } => format!(
-            "{}: the predicted hardness falls to {hardness:.1}, below the bottom of any hardness scale: the surface zone has almost no interlayer pressure, where the map H = a + b ln P no longer holds, so hardness readings there cannot test the model (hardness.calibration)",
+            "{}: the predicted hardness falls to {hardness:.1}, below the bottom of any hardness scale: the surface zone has almost no interlayer pressure, where the map H = a + b ln P no longer holds, so a reading there is judged against the scale's bottom (0): one well above it says the model misses there (hardness.calibration)",
             at(lanes, position_m, sys)
         ),
         Limit::HardnessNotFinite { lanes, position_m } => format!(

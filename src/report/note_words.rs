@@ -147,11 +147,13 @@ pub(super) fn confidence_note(n: &Note, sys: System) -> String {
         ),
         Note::Resolution { .. } => resolution_note(n, sys),
         Note::LaneNotExplained { position_m, misfit } => format!(
-            "the lane at {} is not explained by the model: its readings miss the fit by {misfit:.1} noise units (rms; over 3)",
-            pos(position_m, sys)
+            "the lane at {} is not explained by the model: its readings miss the fit by {} noise units (rms; over 3)",
+            pos(position_m, sys),
+            super::fit_words::misfit(misfit)
         ),
         Note::RollNotExplained { misfit } => format!(
-            "the roll is not explained by the model: its readings miss the fit by {misfit:.1} noise units (rms over every reading; over 3)"
+            "the roll is not explained by the model: its readings miss the fit by {} noise units (rms over every reading; over 3), so its findings are graded medium at most",
+            super::fit_words::misfit(misfit)
         ),
         Note::FindingOnWeakLanes {
             defect,
