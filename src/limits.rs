@@ -270,6 +270,11 @@ pub fn against_winding_diameter(lanes: &Lanes, w: &Wound, repeatability_m: f64) 
     }))
 }
 
+/// The bottom of any hardness scale (rebound and durometer scales run from 0; common practice):
+/// a predicted hardness below it is a limit, and a reading is judged against it there
+/// ([`crate::fit::explained::normalised`]).
+pub const HARDNESS_SCALE_BOTTOM: f64 = 0.0;
+
 /// Moisture rise of the outer wraps below which condensation is not warned of, percentage points:
 /// a moisture meter's resolution (0.1 point, common practice); the model still puts the water
 /// into the paper.
@@ -425,7 +430,7 @@ pub fn after_storage(a: &Aged, material: &Material, roll: &Roll) -> Vec<Note> {
             saturation_pct: saturation,
         }));
     }
-    // below zero: under the bottom of any hardness scale (a NaN is the next check's)
+    // under the bottom of any hardness scale (a NaN is the next check's)
     let low = a.lanes.iter().map(|l| {
         let h = l
             .hardness
@@ -433,7 +438,7 @@ pub fn after_storage(a: &Aged, material: &Material, roll: &Roll) -> Vec<Note> {
             .copied()
             .filter(|h| !h.is_nan())
             .fold(f64::INFINITY, f64::min);
-        (l.position_m, past(-h, 0.0))
+        (l.position_m, past(-h, -HARDNESS_SCALE_BOTTOM))
     });
     if let Some((lanes, position_m, depth)) = worst(low) {
         out.push(Note::Limit(Limit::HardnessBelowScale {

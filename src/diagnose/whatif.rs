@@ -130,7 +130,7 @@ pub fn what_if(
         screened_out,
         screened_out_after,
         case_warnings: variant.warnings.clone(),
-        notes: changed_notes((&measured.notes, &own), variant, &changed.lanes, &oa),
+        notes: changed_notes(&measured.notes, &own, &changed.fit.notes),
         case_warnings_before: base.warnings.clone(),
         notes_before: (measured.notes.into_iter())
             .filter(crate::note::Note::is_warning)
@@ -174,7 +174,8 @@ fn screen_changed(
     for l in fit.lanes.iter_mut() {
         l.draw_runs = None;
     }
-    // the changed roll's own limits, so its screen qualifies those it passes on noise
+    // the changed roll's own limits (its warnings, [`changed_notes`]), so its screen qualifies
+    // those it passes on noise
     fit.notes = own_limits(variant, &lanes, o);
     let changed = Fitted {
         lanes,
@@ -193,17 +194,16 @@ fn screen_changed(
     })
 }
 
-/// The changed roll's warnings: the limits its winding and storage passed (not its wound
-/// diameters against the measured roll's profile: the change is what moves them), each that the
-/// measured roll passes only on caliper noise said to rest on the same readings, and each that
-/// the changed roll's own screen (`own`) finds within noise said so, as `diagnose` says it.
+/// The changed roll's warnings: its own `limits` (those its winding and storage passed, as
+/// [`own_limits`] gives them), each that the measured roll passes only on caliper noise said to
+/// rest on the same readings, and each that the changed roll's own screen (`own`) finds within
+/// noise said so, as `diagnose` says it.
 fn changed_notes(
-    (measured, own): (&[crate::note::Note], &[crate::note::Note]),
-    variant: &Case,
-    lanes: &Lanes,
-    o: &actions::Outcome,
+    measured: &[crate::note::Note],
+    own: &[crate::note::Note],
+    limits: &[crate::note::Note],
 ) -> Vec<crate::note::Note> {
-    let mut n = own_limits(variant, lanes, o);
+    let mut n = limits.to_vec();
     super::limit_noise::carry(measured, own, &mut n);
     n
 }

@@ -39,9 +39,6 @@ pub struct ModelFit {
     pub worst_lane_misfit_noise_units: f64,
 }
 
-/// The bottom of any hardness scale (rebound and durometer scales run from 0; common practice).
-pub const HARDNESS_SCALE_BOTTOM: f64 = 0.0;
-
 /// A reading's residual in units of its repeatability, `(predicted - measured) / sigma`. A
 /// hardness predicted below the bottom of the scale is taken at the bottom: the map
 /// H = a + b ln P no longer holds there, and all the model says is that the instrument reads its
@@ -49,7 +46,7 @@ pub const HARDNESS_SCALE_BOTTOM: f64 = 0.0;
 /// censored at the scale's limit).
 pub fn normalised(what: crate::case::Measure, predicted: f64, measured: f64, sigma: f64) -> f64 {
     let p = if what == crate::case::Measure::Hardness {
-        predicted.max(HARDNESS_SCALE_BOTTOM)
+        predicted.max(crate::limits::HARDNESS_SCALE_BOTTOM)
     } else {
         predicted
     };

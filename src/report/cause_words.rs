@@ -24,26 +24,19 @@ pub fn improves(c: &crate::diagnose::CheckedCorrection) -> String {
     if !c.applies {
         return "does not apply: it changes nothing on this roll".into();
     }
-    let stays = c
-        .remains_fraction
-        .map_or(c.defect_remains, |p| Some(p >= 1.0));
-    match (c.improves, c.remains_fraction) {
-        (Some(true), Some(p)) if p > 0.0 && p < 1.0 => {
-            return format!(
-                "yes, but the defect may stay there (in {:.0} % of the plausible states in which it holds)",
-                100.0 * p
-            );
-        }
-        _ => {}
-    }
+    // the share of the states in which the defect stays, else the fitted creep's verdict
+    let stays = (c.remains_fraction).or(c.defect_remains.map(|r| if r { 1.0 } else { 0.0 }));
     match (c.improves, stays) {
-        (Some(true), Some(true)) => "yes, but the defect stays there",
-        (Some(true), Some(false)) => "yes, the defect goes from there",
-        (Some(true), None) => "yes",
-        (Some(false), _) => "no: not recommended",
-        (None, _) => "not run",
+        (Some(true), Some(p)) if p >= 1.0 => "yes, but the defect stays there".into(),
+        (Some(true), Some(p)) if p > 0.0 => format!(
+            "yes, but the defect may stay there (in {:.0} % of the plausible states in which it holds)",
+            100.0 * p
+        ),
+        (Some(true), Some(_)) => "yes, the defect goes from there".into(),
+        (Some(true), None) => "yes".into(),
+        (Some(false), _) => "no: not recommended".into(),
+        (None, _) => "not run".into(),
     }
-    .into()
 }
 
 /// How root causes are attributed, said whenever they were.
